@@ -1,0 +1,124 @@
+import bcrypt from "bcryptjs";
+import { Op } from "sequelize";
+import { createCookie, redirect } from "react-router";
+import { Authenticator } from "remix-auth";
+import { FormStrategy } from "remix-auth-form";
+import { z } from "zod";
+import { env } from "./env";
+import { forbidden, httpError } from "./http";
+import { AuthSession, LoginFailure, User, type Role } from "./models";
+import { hashToken, newToken } from "./tokens";
+
+export const BCRYPT_COST = 11;
+const SESSION_DAYS = 30;
+const FAILURE_WINDOW_MS = 15 * 60 * 1000;
+const MAX_FAILURES = 10;
+export const WRONG_CREDENTIALS = "That e-mail and password do not match an account.";
+
+export const sessionCookie = createCookie("pw_session", {
+  httpOnly: true,
+  sameSite: "lax",
+  path: "/",
+  maxAge: SESSION_DAYS * 24 * 3600,
+  get secure() {
+    return env().isProduction;
+  },
+  get secrets() {
+    return [env().sessionSecret];
+  },
+});
+
+export function hashPassword(password: string) {
+  return bcrypt.hash(password, BCRYPT_COST);
+}
+
+/** A sign-in failure the form shows beside its fields. */
+export class SignInError extends Error {
+  name = "SignInError";
+}
+
+// Compared against when the address is unknown, so both failures take the same time.
+const DUMMY_HASH = bcrypt.hashSync("pacewright-dummy-password", 10);
+
+const credentials = z.object({
+  email: z.string().trim().toLowerCase().email("Enter your e-mail address."),
+  password: z.string().min(1, "Enter your password."),
+});
+
+export const authenticator = new Authenticator<User>();
+authenticator.use(
+  new FormStrategy(async ({ form }) => {
+    const parsed = credentials.safeParse({ email: form.get("email"), password: form.get("password") });
+    if (!parsed.success) throw new SignInError(parsed.error.issues[0].message);
+    const { email, password } = parsed.data;
+
+    const since = new Date(Date.now() - FAILURE_WINDOW_MS);
+    const failures = await LoginFailure.count({ where: { email, createdAt: { [Op.gte]: since } } });
+    if (failures >= MAX_FAILURES) {
+      httpError(429, "Too many failed sign-ins for this address. Wait 15 minutes, or reset your password.");
+    }
+
+    const user = await User.findOne({ where: { email } });
+    const ok = await bcrypt.compare(password, user?.passwordHash ?? DUMMY_HASH);
+    if (!user || !ok) {
+      await LoginFailure.create({ email });
+      throw new SignInError(WRONG_CREDENTIALS);
+    }
+    await LoginFailure.destroy({ where: { email } });
+    return user;
+  }),
+  "password",
+);
+
+/** Starts a new session row (a fresh id every sign-in) and returns the Set-Cookie header value. */
+export async function startSession(user: User, request: Request): Promise<string> {
+  const id = newToken();
+  await AuthSession.create({
+    id: hashToken(id),
+    userId: user.id,
+    expiresAt: new Date(Date.now() + SESSION_DAYS * 24 * 3600 * 1000),
+    userAgent: request.headers.get("user-agent")?.slice(0, 255) ?? null,
+  });
+  return sessionCookie.serialize(id);
+}
+
+async function sessionIdFrom(request: Request): Promise<string | null> {
+  const value = await sessionCookie.parse(request.headers.get("cookie"));
+  return typeof value === "string" && value.length > 0 ? value : null;
+}
+
+export async function getUser(request: Request): Promise<User | null> {
+  const id = await sessionIdFrom(request);
+  if (!id) return null;
+  const row = await AuthSession.findByPk(hashToken(id));
+  if (!row || row.expiresAt.getTime() <= Date.now()) return null;
+  return User.findByPk(row.userId);
+}
+
+export async function requireUser(request: Request): Promise<User> {
+  const user = await getUser(request);
+  if (!user) {
+    const url = new URL(request.url);
+    const back = url.pathname + url.search;
+    throw redirect(`/login?redirectTo=${encodeURIComponent(back)}`);
+  }
+  return user;
+}
+
+export async function requireRole(request: Request, role: Role | Role[]): Promise<User> {
+  const user = await requireUser(request);
+  const allowed = Array.isArray(role) ? role : [role];
+  if (!allowed.includes(user.role)) forbidden(`This page is for ${allowed.join(" or ")} accounts.`);
+  return user;
+}
+
+/** Deletes the session row, so a copy of the old cookie no longer signs anyone in. */
+export async function endSession(request: Request): Promise<string> {
+  const id = await sessionIdFrom(request);
+  if (id) await AuthSession.destroy({ where: { id: hashToken(id) } });
+  return sessionCookie.serialize("", { maxAge: 0 });
+}
+
+export function homeFor(role: Role): string {
+  return role === "coach" ? "/coach" : role === "admin" ? "/admin/users" : "/athlete";
+}

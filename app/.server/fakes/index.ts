@@ -1,0 +1,25 @@
+import { env } from "../env";
+import { startMailCatcher } from "./mail-catcher";
+
+export interface RunningFakes {
+  smtpPort: number | null;
+  close(): Promise<void>;
+}
+
+/** Starts the local stand-ins for outside services, unless real ones are configured. */
+export async function startFakes(): Promise<RunningFakes> {
+  const e = env();
+  const closers: (() => Promise<void>)[] = [];
+  let smtpPort: number | null = null;
+  if (e.fakes && !e.smtpUrl) {
+    const catcher = await startMailCatcher(e.smtpCatcherPort);
+    smtpPort = catcher.port;
+    closers.push(catcher.close);
+  }
+  return {
+    smtpPort,
+    close: async () => {
+      for (const close of closers.reverse()) await close();
+    },
+  };
+}

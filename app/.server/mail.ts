@@ -1,0 +1,165 @@
+import fs from "node:fs/promises";
+import path from "node:path";
+import nodemailer, { type Transporter } from "nodemailer";
+import { Op, type Transaction } from "sequelize";
+import { env } from "./env";
+import { OutboundEmail } from "./models";
+
+const TEMPLATE_DIR = path.resolve(process.env.TEMPLATE_DIR ?? "templates/email");
+const MAX_ATTEMPTS = 12;
+
+const escapeHtml = (s: string) =>
+  s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
+
+/**
+ * Fills `{{name}}` placeholders. HTML parts escape every value; `{{{name}}}` is never offered, so a name typed by
+ * a user cannot inject markup into a message.
+ */
+export function fill(template: string, vars: Record<string, string | number>, html: boolean): string {
+  return template.replace(/\{\{\s*([a-zA-Z0-9_]+)\s*\}\}/g, (_, key: string) => {
+    if (!(key in vars)) throw new Error(`E-mail template is missing a value for {{${key}}}`);
+    const value = String(vars[key]);
+    return html ? escapeHtml(value) : value;
+  });
+}
+
+export async function renderEmail(template: string, vars: Record<string, string | number>) {
+  const [text, html, layout] = await Promise.all([
+    fs.readFile(path.join(TEMPLATE_DIR, `${template}.txt`), "utf8"),
+    fs.readFile(path.join(TEMPLATE_DIR, `${template}.html`), "utf8"),
+    fs.readFile(path.join(TEMPLATE_DIR, "_layout.html"), "utf8"),
+  ]);
+  // The plain-text part's first line is "Subject: …"; one file then holds both the subject and the text.
+  const [first, ...rest] = text.split("\n");
+  if (!first.startsWith("Subject:")) throw new Error(`${template}.txt must start with a Subject: line`);
+  const subject = fill(first.slice("Subject:".length).trim(), vars, false);
+  const body = fill(html, vars, true);
+  return {
+    subject,
+    text: fill(rest.join("\n").trimStart(), vars, false),
+    html: layout.replace("{{content}}", body).replace("{{subject}}", escapeHtml(subject)),
+  };
+}
+
+/**
+ * Writes a message to the outbox inside the caller's transaction: if the action rolls back, no message leaves;
+ * if it commits, the sender delivers it, retrying until it goes through.
+ */
+export async function queueEmail(
+  opts: { to: string; template: string; vars: Record<string, string | number> },
+  transaction?: Transaction,
+) {
+  const rendered = await renderEmail(opts.template, opts.vars);
+  const row = await OutboundEmail.create(
+    {
+      toAddress: opts.to,
+      subject: rendered.subject,
+      template: opts.template,
+      textBody: rendered.text,
+      htmlBody: rendered.html,
+      nextAttemptAt: new Date(),
+    },
+    { transaction },
+  );
+  if (transaction) transaction.afterCommit(() => kickMailer());
+  else kickMailer();
+  return row;
+}
+
+let transporter: Transporter | null = null;
+function transport(): Transporter {
+  if (!transporter) {
+    const e = env();
+    transporter = e.smtpUrl
+      ? nodemailer.createTransport(e.smtpUrl)
+      : nodemailer.createTransport({ host: "127.0.0.1", port: e.smtpCatcherPort, secure: false, ignoreTLS: true });
+  }
+  return transporter;
+}
+
+export function resetTransport() {
+  transporter?.close();
+  transporter = null;
+}
+
+/** Sends every message that is due. Each row is claimed first, so two senders never deliver one twice. */
+export async function deliverPending(limit = 25): Promise<{ sent: number; failed: number }> {
+  const due = await OutboundEmail.findAll({
+    where: { status: "pending", nextAttemptAt: { [Op.lte]: new Date() } },
+    order: [["id", "ASC"]],
+    limit,
+  });
+  let sent = 0;
+  let failed = 0;
+  for (const mail of due) {
+    const [claimed] = await OutboundEmail.update(
+      { attempts: mail.attempts + 1, nextAttemptAt: new Date(Date.now() + backoffMs(mail.attempts + 1)) },
+      { where: { id: mail.id, status: "pending", attempts: mail.attempts } },
+    );
+    if (claimed !== 1) continue;
+    try {
+      const info = await transport().sendMail({
+        from: env().mailFrom,
+        to: mail.toAddress,
+        subject: mail.subject,
+        text: mail.textBody,
+        html: mail.htmlBody,
+      });
+      await OutboundEmail.update(
+        { status: "sent", sentAt: new Date(), messageId: String(info.messageId ?? ""), lastError: null },
+        { where: { id: mail.id } },
+      );
+      sent++;
+    } catch (err) {
+      failed++;
+      const attempts = mail.attempts + 1;
+      await OutboundEmail.update(
+        { lastError: String((err as Error).message ?? err), status: attempts >= MAX_ATTEMPTS ? "failed" : "pending" },
+        { where: { id: mail.id } },
+      );
+    }
+  }
+  return { sent, failed };
+}
+
+/** 10 s, 20 s, 40 s … capped at one hour. */
+export function backoffMs(attempt: number) {
+  return Math.min(3600_000, 10_000 * 2 ** Math.max(0, attempt - 1));
+}
+
+declare global {
+  var __pacewrightMailer: { timer: NodeJS.Timeout | null; busy: boolean; again: boolean } | undefined;
+}
+
+async function runOnce() {
+  const state = globalThis.__pacewrightMailer;
+  if (!state) return;
+  if (state.busy) {
+    state.again = true;
+    return;
+  }
+  state.busy = true;
+  try {
+    do {
+      state.again = false;
+      await deliverPending();
+    } while (state.again);
+  } catch (err) {
+    console.error("[mail] delivery run failed:", err);
+  } finally {
+    state.busy = false;
+  }
+}
+
+/** Starts the background sender (the app server calls this once; tests call deliverPending directly). */
+export function startMailer(intervalMs = 5_000) {
+  if (globalThis.__pacewrightMailer?.timer) return;
+  globalThis.__pacewrightMailer = { timer: null, busy: false, again: false };
+  globalThis.__pacewrightMailer.timer = setInterval(runOnce, intervalMs);
+  globalThis.__pacewrightMailer.timer.unref();
+  void runOnce();
+}
+
+export function kickMailer() {
+  if (globalThis.__pacewrightMailer) void runOnce();
+}

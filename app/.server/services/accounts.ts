@@ -1,0 +1,253 @@
+import { Op } from "sequelize";
+import { hashPassword } from "../auth";
+import { writeTransaction } from "../db";
+import { env } from "../env";
+import { queueEmail } from "../mail";
+import { AuthSession, CoachAthlete, Invitation, PasswordReset, User, type Role } from "../models";
+import { hashToken, looksLikeToken, newToken } from "../tokens";
+import { INVITE_DEAD, RESET_LINK_DEAD } from "~/lib/messages";
+
+export const RESET_TTL_MS = 60 * 60 * 1000;
+export const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000;
+
+export class AccountError extends Error {
+  name = "AccountError";
+  constructor(
+    message: string,
+    readonly field?: string,
+  ) {
+    super(message);
+  }
+}
+
+export async function signUp(input: {
+  name: string;
+  email: string;
+  password: string;
+  role: Extract<Role, "coach" | "athlete">;
+  timezone: string;
+}): Promise<User> {
+  const passwordHash = await hashPassword(input.password);
+  return writeTransaction(async (transaction) => {
+    const taken = await User.findOne({ where: { email: input.email }, transaction });
+    if (taken) throw new AccountError("An account with this e-mail already exists. Sign in or reset your password.", "email");
+    const user = await User.create(
+      { name: input.name, email: input.email, passwordHash, role: input.role, timezone: input.timezone },
+      { transaction },
+    );
+    return user;
+  });
+}
+
+/**
+ * Always behaves the same for known and unknown addresses, so the form cannot be used to find out who has an account.
+ */
+export async function requestPasswordReset(email: string): Promise<void> {
+  await writeTransaction(async (transaction) => {
+    const user = await User.findOne({ where: { email }, transaction });
+    if (!user) return;
+    const token = newToken();
+    await PasswordReset.create(
+      { userId: user.id, tokenHash: hashToken(token), expiresAt: new Date(Date.now() + RESET_TTL_MS) },
+      { transaction },
+    );
+    await queueEmail(
+      {
+        to: user.email,
+        template: "password-reset",
+        vars: { name: user.name, link: `${env().appUrl}/reset-password/${token}` },
+      },
+      transaction,
+    );
+  });
+}
+
+async function usableReset(token: string | undefined) {
+  if (!looksLikeToken(token)) return null;
+  const reset = await PasswordReset.findOne({ where: { tokenHash: hashToken(token) } });
+  if (!reset || reset.usedAt || reset.expiresAt.getTime() <= Date.now()) return null;
+  return reset;
+}
+
+
+export async function checkResetToken(token: string | undefined): Promise<boolean> {
+  return (await usableReset(token)) !== null;
+}
+
+/** Sets the new password, spends the token, and signs out every existing session of that account. */
+export async function resetPassword(token: string | undefined, password: string): Promise<User> {
+  if (!looksLikeToken(token)) throw new AccountError(RESET_LINK_DEAD);
+  const passwordHash = await hashPassword(password);
+  return writeTransaction(async (transaction) => {
+    const reset = await PasswordReset.findOne({ where: { tokenHash: hashToken(token) }, transaction });
+    if (!reset || reset.usedAt || reset.expiresAt.getTime() <= Date.now()) throw new AccountError(RESET_LINK_DEAD);
+    const [spent] = await PasswordReset.update(
+      { usedAt: new Date() },
+      { where: { id: reset.id, usedAt: null }, transaction },
+    );
+    if (spent !== 1) throw new AccountError(RESET_LINK_DEAD);
+    const user = await User.findByPk(reset.userId, { transaction });
+    if (!user) throw new AccountError(RESET_LINK_DEAD);
+    user.passwordHash = passwordHash;
+    await user.save({ transaction });
+    await AuthSession.destroy({ where: { userId: user.id }, transaction });
+    return user;
+  });
+}
+
+export async function inviteAthlete(coach: User, input: { email: string; name: string }) {
+  return writeTransaction(async (transaction) => {
+    const existing = await User.findOne({ where: { email: input.email }, transaction });
+    if (existing) {
+      const linked = await CoachAthlete.findOne({ where: { coachId: coach.id, athleteId: existing.id }, transaction });
+      if (linked) throw new AccountError("This athlete is already on your roster.", "email");
+      if (existing.role !== "athlete")
+        throw new AccountError("This address belongs to a coach or admin account, not an athlete.", "email");
+    }
+    const pending = await Invitation.findOne({
+      where: { coachId: coach.id, email: input.email, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
+      transaction,
+    });
+    const token = newToken();
+    if (pending) {
+      // Sending again replaces the old link, so only the newest e-mail works.
+      pending.tokenHash = hashToken(token);
+      pending.expiresAt = new Date(Date.now() + INVITE_TTL_MS);
+      if (input.name) pending.name = input.name;
+      await pending.save({ transaction });
+    } else {
+      await Invitation.create(
+        {
+          coachId: coach.id,
+          email: input.email,
+          name: input.name || null,
+          tokenHash: hashToken(token),
+          expiresAt: new Date(Date.now() + INVITE_TTL_MS),
+        },
+        { transaction },
+      );
+    }
+    await queueEmail(
+      {
+        to: input.email,
+        template: "invitation",
+        vars: {
+          coachName: coach.name,
+          athleteName: input.name || existing?.name || "there",
+          link: `${env().appUrl}/invite/${token}`,
+        },
+      },
+      transaction,
+    );
+  });
+}
+
+
+export async function findInvitation(token: string | undefined) {
+  if (!looksLikeToken(token)) return null;
+  const invitation = await Invitation.findOne({ where: { tokenHash: hashToken(token) } });
+  if (!invitation || invitation.acceptedAt || invitation.expiresAt.getTime() <= Date.now()) return null;
+  const coach = await User.findByPk(invitation.coachId);
+  if (!coach) return null;
+  const existing = await User.findOne({ where: { email: invitation.email } });
+  return { invitation, coach, existing };
+}
+
+/**
+ * Accepts an invitation. A new address gets an athlete account; an existing athlete must be signed in as that
+ * same address, so a forwarded link cannot attach someone else's account to a coach.
+ */
+export async function acceptInvitation(
+  token: string | undefined,
+  opts: { signedIn: User | null; newAccount?: { name: string; password: string; timezone: string } },
+): Promise<User> {
+  if (!looksLikeToken(token)) throw new AccountError(INVITE_DEAD);
+  const passwordHash = opts.newAccount ? await hashPassword(opts.newAccount.password) : null;
+  return writeTransaction(async (transaction) => {
+    const invitation = await Invitation.findOne({ where: { tokenHash: hashToken(token) }, transaction });
+    if (!invitation || invitation.acceptedAt || invitation.expiresAt.getTime() <= Date.now())
+      throw new AccountError(INVITE_DEAD);
+    let athlete = await User.findOne({ where: { email: invitation.email }, transaction });
+    if (athlete) {
+      if (!opts.signedIn || opts.signedIn.id !== athlete.id)
+        throw new AccountError(
+          `This invitation is for ${invitation.email}. Sign in with that address to accept it.`,
+        );
+      if (athlete.role !== "athlete") throw new AccountError("Only athlete accounts can join a coach's roster.");
+    } else {
+      if (opts.signedIn)
+        throw new AccountError(
+          `This invitation is for ${invitation.email}, but you are signed in as ${opts.signedIn.email}. Sign out first.`,
+        );
+      if (!opts.newAccount || !passwordHash) throw new AccountError("Choose a name and a password to accept.");
+      athlete = await User.create(
+        {
+          name: opts.newAccount.name,
+          email: invitation.email,
+          passwordHash,
+          role: "athlete",
+          timezone: opts.newAccount.timezone,
+        },
+        { transaction },
+      );
+    }
+    const [accepted] = await Invitation.update(
+      { acceptedAt: new Date(), acceptedUserId: athlete.id },
+      { where: { id: invitation.id, acceptedAt: null }, transaction },
+    );
+    if (accepted !== 1) throw new AccountError(INVITE_DEAD);
+    await CoachAthlete.findOrCreate({
+      where: { coachId: invitation.coachId, athleteId: athlete.id },
+      defaults: { coachId: invitation.coachId, athleteId: athlete.id },
+      transaction,
+    });
+    return athlete;
+  });
+}
+
+/** The coach's roster: linked athletes and invitations still open. */
+export async function rosterFor(coachId: number) {
+  const links = await CoachAthlete.findAll({ where: { coachId } });
+  const athletes = links.length
+    ? await User.findAll({ where: { id: links.map((l) => l.athleteId) }, order: [["name", "ASC"]] })
+    : [];
+  const since = new Map(links.map((l) => [l.athleteId, l.createdAt]));
+  const invitations = await Invitation.findAll({
+    where: { coachId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
+    order: [["createdAt", "DESC"]],
+  });
+  return {
+    athletes: athletes.map((a) => ({
+      id: a.id,
+      name: a.name,
+      email: a.email,
+      timezone: a.timezone,
+      since: since.get(a.id)!.toISOString(),
+    })),
+    invitations: invitations.map((i) => ({
+      id: i.id,
+      email: i.email,
+      name: i.name,
+      sentAt: i.updatedAt.toISOString(),
+      expiresAt: i.expiresAt.toISOString(),
+    })),
+  };
+}
+
+/** A coach may only see athletes on their own roster; anything else is "not found", never "forbidden". */
+export async function coachHasAthlete(coachId: number, athleteId: number): Promise<boolean> {
+  if (!Number.isInteger(athleteId) || athleteId <= 0) return false;
+  return (await CoachAthlete.count({ where: { coachId, athleteId } })) > 0;
+}
+
+export async function changeRole(admin: User, userId: number, role: Role) {
+  if (admin.id === userId && role !== "admin")
+    throw new AccountError("You cannot remove your own admin role; ask another admin.", "role");
+  return writeTransaction(async (transaction) => {
+    const user = await User.findByPk(userId, { transaction });
+    if (!user) throw new AccountError("That user no longer exists.");
+    user.role = role;
+    await user.save({ transaction });
+    return user;
+  });
+}

@@ -1,0 +1,61 @@
+import { Form, NavLink, Link } from "react-router";
+import type { Role } from "~/lib/roles";
+import { Logo } from "./logo";
+
+const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
+  coach: [{ to: "/coach", label: "Roster", end: true }],
+  athlete: [{ to: "/athlete", label: "Today", end: true }],
+  admin: [{ to: "/admin/users", label: "Users" }],
+};
+
+export function AppShell({
+  user,
+  devMail,
+  children,
+}: {
+  user: { name: string; role: Role; email: string };
+  devMail: boolean;
+  children: React.ReactNode;
+}) {
+  return (
+    <div className="min-h-screen">
+      <header className="border-b border-line bg-white/80 backdrop-blur">
+        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
+          <Link to="/" className="flex items-center gap-2 font-semibold text-teal">
+            <Logo className="h-7 w-7" /> Pacewright
+          </Link>
+          <nav aria-label="Main" className="flex flex-1 flex-wrap gap-1">
+            {NAV[user.role].map((item) => (
+              <NavLink
+                key={item.to}
+                to={item.to}
+                end={item.end}
+                className={({ isActive }) =>
+                  `rounded-md px-3 py-1.5 text-sm font-medium ${isActive ? "bg-teal text-paper" : "text-ink hover:bg-paper-deep"}`
+                }
+              >
+                {item.label}
+              </NavLink>
+            ))}
+            {devMail && (
+              <NavLink to="/dev/mail" className="rounded-md px-3 py-1.5 text-sm text-ink-soft hover:bg-paper-deep">
+                Outbox (dev)
+              </NavLink>
+            )}
+          </nav>
+          <div className="flex items-center gap-3 text-sm">
+            <span className="hidden text-ink-soft sm:inline">
+              {user.name} · <span className="capitalize">{user.role}</span>
+            </span>
+            <Form method="post" action="/logout">
+              <button type="submit" className="rounded-md border border-line px-3 py-1.5 hover:bg-paper-deep">
+                Sign out
+              </button>
+            </Form>
+          </div>
+        </div>
+      </header>
+      <main className="mx-auto max-w-7xl px-4 py-6 sm:py-8">{children}</main>
+    </div>
+  );
+}

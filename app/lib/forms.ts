@@ -1,0 +1,90 @@
+import { z } from "zod";
+
+export type FieldErrors = Partial<Record<string, string>>;
+
+export type FormResult<T> =
+  | { ok: true; data: T }
+  | { ok: false; fieldErrors: FieldErrors; values: Record<string, string> };
+
+/** Validates a submitted form; on failure returns the first message per field and the values to refill. */
+export function parseForm<S extends z.ZodType>(schema: S, form: FormData): FormResult<z.infer<S>> {
+  const values: Record<string, string> = {};
+  for (const [k, v] of form.entries()) if (typeof v === "string" && !/password/i.test(k)) values[k] = v;
+  const raw: Record<string, unknown> = {};
+  for (const key of new Set(form.keys())) {
+    const all = form.getAll(key);
+    raw[key] = all.length > 1 ? all : all[0];
+  }
+  const result = schema.safeParse(raw);
+  if (result.success) return { ok: true, data: result.data };
+  const fieldErrors: FieldErrors = {};
+  for (const issue of result.error.issues) {
+    const key = issue.path.join(".") || "form";
+    fieldErrors[key] ??= issue.message;
+  }
+  return { ok: false, fieldErrors, values };
+}
+
+export const isTimeZone = (tz: string) => {
+  try {
+    new Intl.DateTimeFormat("en", { timeZone: tz });
+    return true;
+  } catch {
+    return false;
+  }
+};
+
+export const emailField = z
+  .string({ error: "Enter an e-mail address." })
+  .trim()
+  .toLowerCase()
+  .min(1, "Enter an e-mail address.")
+  .max(320, "That address is too long.")
+  .email("Enter a valid e-mail address, like name@example.com.");
+
+export const newPasswordField = z
+  .string({ error: "Choose a password." })
+  .min(10, "Use at least 10 characters for your password.")
+  .max(200, "Use at most 200 characters for your password.");
+
+export const nameField = z
+  .string({ error: "Enter a name." })
+  .trim()
+  .min(1, "Enter a name.")
+  .max(120, "Use at most 120 characters.");
+
+export const timezoneField = z
+  .string()
+  .trim()
+  .default("UTC")
+  .refine(isTimeZone, "Choose a time zone from the list, like Europe/Berlin.");
+
+export const signUpSchema = z.object({
+  name: nameField,
+  email: emailField,
+  password: newPasswordField,
+  role: z.enum(["coach", "athlete"], { error: "Choose whether you coach or train." }),
+  timezone: timezoneField,
+});
+
+export const forgotSchema = z.object({ email: emailField });
+
+export const resetSchema = z
+  .object({ password: newPasswordField, confirm: z.string() })
+  .refine((v) => v.password === v.confirm, { message: "The two passwords differ.", path: ["confirm"] });
+
+export const inviteSchema = z.object({
+  email: emailField,
+  name: z.string().trim().max(120, "Use at most 120 characters.").optional().default(""),
+});
+
+export const acceptInviteSchema = z.object({
+  name: nameField,
+  password: newPasswordField,
+  timezone: timezoneField,
+});
+
+export const roleChangeSchema = z.object({
+  userId: z.coerce.number().int().positive(),
+  role: z.enum(["admin", "coach", "athlete"], { error: "Choose a role." }),
+});

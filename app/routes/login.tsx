@@ -1,0 +1,61 @@
+import { data, Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
+import { AuthFrame } from "~/components/auth-frame";
+import { buttonClass } from "~/components/ui/button";
+import { Field, FormMessage } from "~/components/ui/field";
+import { authenticator, getUser, homeFor, SignInError, startSession } from "~/.server/auth";
+import { safeRedirect } from "~/.server/http";
+import type { Route } from "./+types/login";
+
+export const meta: Route.MetaFunction = () => [{ title: "Sign in · Pacewright" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const user = await getUser(request);
+  if (user) throw redirect(homeFor(user.role));
+  return null;
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const form = await request.clone().formData();
+  const email = String(form.get("email") ?? "");
+  try {
+    const user = await authenticator.authenticate("password", request);
+    const cookie = await startSession(user, request);
+    const to = safeRedirect(form.get("redirectTo"), homeFor(user.role));
+    return redirect(to, { headers: { "Set-Cookie": cookie } });
+  } catch (err) {
+    if (err instanceof SignInError) return data({ error: err.message, email }, { status: 400 });
+    if (err instanceof Response && err.status === 429) return data({ error: await err.text(), email }, { status: 429 });
+    throw err;
+  }
+}
+
+export default function Login({ actionData }: Route.ComponentProps) {
+  const [params] = useSearchParams();
+  const busy = useNavigation().state === "submitting";
+  return (
+    <AuthFrame
+      title="Sign in"
+      footer={
+        <>
+          New here? <Link to="/signup" className="text-teal underline">Create an account</Link>
+        </>
+      }
+    >
+      <Form method="post" className="flex flex-col gap-4">
+        {actionData?.error && <FormMessage>{actionData.error}</FormMessage>}
+        {!actionData && params.get("reset") && (
+          <FormMessage tone="ok">Your password was changed. Sign in with the new one.</FormMessage>
+        )}
+        <input type="hidden" name="redirectTo" value={params.get("redirectTo") ?? ""} />
+        <Field label="E-mail" name="email" type="email" autoComplete="email" defaultValue={actionData?.email} required />
+        <Field label="Password" name="password" type="password" autoComplete="current-password" required />
+        <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
+          {busy ? "Signing in…" : "Sign in"}
+        </button>
+        <Link to="/forgot-password" className="text-center text-sm text-teal underline">
+          Forgot your password?
+        </Link>
+      </Form>
+    </AuthFrame>
+  );
+}

@@ -1,0 +1,13 @@
+import { redirect } from "react-router";
+import { endSession } from "~/.server/auth";
+import type { Route } from "./+types/logout";
+
+export async function action({ request }: Route.ActionArgs) {
+  const cookie = await endSession(request);
+  return redirect("/login", { headers: { "Set-Cookie": cookie } });
+}
+
+// Signing out changes state, so it only happens by POST; a visit here just goes home.
+export async function loader() {
+  return redirect("/");
+}

@@ -1,0 +1,24 @@
+import { execFileSync } from "node:child_process";
+import fs from "node:fs";
+import path from "node:path";
+
+function newestMtime(dir: string): number {
+  let newest = 0;
+  for (const entry of fs.readdirSync(dir, { withFileTypes: true })) {
+    const full = path.join(dir, entry.name);
+    newest = Math.max(newest, entry.isDirectory() ? newestMtime(full) : fs.statSync(full).mtimeMs);
+  }
+  return newest;
+}
+
+/** Builds when there is no build yet or a source file is newer than it, so `npm start` never serves stale code. */
+export function buildIfNeeded() {
+  const marker = path.resolve("build/server/index.js");
+  const sources = ["app", "public"].map((d) => path.resolve(d));
+  const configs = ["vite.config.ts", "react-router.config.ts", "package.json"].map((f) => fs.statSync(f).mtimeMs);
+  const newestSource = Math.max(...sources.map(newestMtime), ...configs);
+  if (fs.existsSync(marker) && fs.statSync(marker).mtimeMs >= newestSource) return false;
+  console.log("[start] building the app…");
+  execFileSync(process.execPath, [path.resolve("node_modules/@react-router/dev/bin.js"), "build"], { stdio: "inherit" });
+  return true;
+}

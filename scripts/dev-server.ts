@@ -1,0 +1,19 @@
+import { createRequestHandler } from "@react-router/express";
+import express from "express";
+import type { ServerBuild } from "react-router";
+import { crossSiteGuard } from "./server";
+
+/** Vite in middleware mode with hot reload, in the same process as the fakes so the dev outbox sees caught mail. */
+export async function createDevServer() {
+  const vite = await import("vite").then((v) => v.createServer({ server: { middlewareMode: true } }));
+  const app = express();
+  app.use(crossSiteGuard);
+  app.use(vite.middlewares);
+  app.all(
+    "*",
+    createRequestHandler({
+      build: () => vite.ssrLoadModule("virtual:react-router/server-build") as Promise<ServerBuild>,
+    }),
+  );
+  return app;
+}

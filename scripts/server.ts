@@ -1,0 +1,36 @@
+import path from "node:path";
+import { pathToFileURL } from "node:url";
+import { createRequestHandler } from "@react-router/express";
+import express, { type RequestHandler } from "express";
+import type { ServerBuild } from "react-router";
+import { isCrossSiteWrite } from "../app/.server/http";
+
+/**
+ * The production HTTP server: static assets from the client build, everything else through React Router.
+ * Cross-site writes are refused here, before any route runs, so no action can forget the check.
+ */
+export async function createAppServer(buildDir = path.resolve("build")) {
+  const build = (await import(pathToFileURL(path.join(buildDir, "server/index.js")).href)) as ServerBuild;
+  const app = express();
+  app.disable("x-powered-by");
+  app.set("trust proxy", "loopback");
+  app.use(crossSiteGuard);
+  app.use((_req, res, next) => {
+    res.setHeader("X-Content-Type-Options", "nosniff");
+    res.setHeader("Referrer-Policy", "same-origin");
+    res.setHeader("X-Frame-Options", "DENY");
+    next();
+  });
+  app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
+  app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
+  app.all("*", createRequestHandler({ build }));
+  return app;
+}
+
+export const crossSiteGuard: RequestHandler = (req, res, next) => {
+  if (isCrossSiteWrite(req.method, { origin: req.get("origin"), referer: req.get("referer"), host: req.get("host") }, req.path)) {
+    res.status(403).type("text/plain").send("Refused: this request came from another site.");
+    return;
+  }
+  next();
+};

@@ -1,0 +1,55 @@
+import type { Server } from "node:http";
+import { closeDb } from "../app/.server/db";
+import { env } from "../app/.server/env";
+import { startFakes } from "../app/.server/fakes";
+import { startMailer } from "../app/.server/mail";
+import { migrateAndSeed } from "../db/migrator";
+import { DEMO_ACCOUNTS } from "../db/demo/accounts";
+import { buildIfNeeded } from "./build-if-needed";
+
+const dev = process.argv.includes("--dev");
+process.env.NODE_ENV ??= dev ? "development" : "production";
+process.env.MIGRATE_QUIET ??= "1";
+
+async function main() {
+  const e = env();
+  await migrateAndSeed({ seed: process.env.PACEWRIGHT_SEED !== "off" });
+  const fakes = await startFakes();
+  startMailer();
+
+  let server: Server;
+  const host = process.env.HOST ?? "127.0.0.1";
+  if (dev) {
+    const { createDevServer } = await import("./dev-server");
+    server = (await createDevServer()).listen(e.port, host);
+  } else {
+    buildIfNeeded();
+    const { createAppServer } = await import("./server");
+    server = (await createAppServer()).listen(e.port, host);
+  }
+  await new Promise<void>((resolve, reject) => {
+    server.once("listening", resolve);
+    server.once("error", reject);
+  });
+
+  console.log(`\nPacewright is running at ${e.appUrl}`);
+  if (fakes.smtpPort) console.log(`  Mail goes to the local catcher: ${e.appUrl}/dev/mail`);
+  if (process.env.PACEWRIGHT_SEED !== "off") {
+    console.log("  Demo sign-ins (password for all: " + DEMO_ACCOUNTS.password + "):");
+    for (const a of DEMO_ACCOUNTS.people) console.log(`    ${a.role.padEnd(8)} ${a.email.padEnd(30)} ${a.name}`);
+  }
+
+  const stop = async () => {
+    server.close();
+    await fakes.close();
+    await closeDb();
+    process.exit(0);
+  };
+  process.once("SIGINT", stop);
+  process.once("SIGTERM", stop);
+}
+
+main().catch((err) => {
+  console.error(err);
+  process.exit(1);
+});
