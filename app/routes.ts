@@ -13,6 +13,7 @@ export default [
 
   layout("routes/app-layout.tsx", [
     route("coach", "routes/coach/roster.tsx"),
+    route("coach/athletes/:athleteId", "routes/coach/athlete.tsx"),
     route("athlete", "routes/athlete/today.tsx"),
     route("admin/users", "routes/admin/users.tsx"),
   ]),

@@ -3,8 +3,13 @@ export function httpError(status: number, message: string): never {
   throw new Response(message, { status, headers: { "Content-Type": "text/plain; charset=utf-8" } });
 }
 
-export const notFound = (what = "Not found") => httpError(404, what);
-export const forbidden = (why = "You do not have access to this page.") => httpError(403, why);
+export function notFound(what = "Not found"): never {
+  httpError(404, what);
+}
+
+export function forbidden(why = "You do not have access to this page."): never {
+  httpError(403, why);
+}
 
 /**
  * Only paths on this site may be a redirect target: "//evil.example" and "https://…" would send a freshly

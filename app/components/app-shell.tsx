@@ -24,26 +24,26 @@ export function AppShell({
           <Link to="/" className="flex items-center gap-2 font-semibold text-teal">
             <Logo className="h-7 w-7" /> Pacewright
           </Link>
-          <nav aria-label="Main" className="flex flex-1 flex-wrap gap-1">
+          <nav aria-label="Main" className="order-last -mx-1 flex w-full gap-1 overflow-x-auto sm:order-none sm:mx-0 sm:w-auto sm:flex-1">
             {NAV[user.role].map((item) => (
               <NavLink
                 key={item.to}
                 to={item.to}
                 end={item.end}
                 className={({ isActive }) =>
-                  `rounded-md px-3 py-1.5 text-sm font-medium ${isActive ? "bg-teal text-paper" : "text-ink hover:bg-paper-deep"}`
+                  `rounded-md px-3 py-1.5 text-sm font-medium whitespace-nowrap ${isActive ? "bg-teal text-paper" : "text-ink hover:bg-paper-deep"}`
                 }
               >
                 {item.label}
               </NavLink>
             ))}
             {devMail && (
-              <NavLink to="/dev/mail" className="rounded-md px-3 py-1.5 text-sm text-ink-soft hover:bg-paper-deep">
+              <NavLink to="/dev/mail" className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep">
                 Outbox (dev)
               </NavLink>
             )}
           </nav>
-          <div className="flex items-center gap-3 text-sm">
+          <div className="ml-auto flex items-center gap-3 text-sm sm:ml-0">
             <span className="hidden text-ink-soft sm:inline">
               {user.name} · <span className="capitalize">{user.role}</span>
             </span>

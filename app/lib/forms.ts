@@ -88,3 +88,24 @@ export const roleChangeSchema = z.object({
   userId: z.coerce.number().int().positive(),
   role: z.enum(["admin", "coach", "athlete"], { error: "Choose a role." }),
 });
+
+const optionalNumber = (min: number, max: number, label: string) =>
+  z
+    .string()
+    .trim()
+    .optional()
+    .transform((v) => (v ? Number(v.replace(",", ".")) : null))
+    .refine((v) => v === null || (Number.isFinite(v) && v >= min && v <= max), `${label} must be between ${min} and ${max}.`);
+
+/** What a coach records about an athlete's body: heart-rate load and power-to-weight need it. */
+export const athleteProfileSchema = z
+  .object({
+    sex: z.enum(["", "female", "male"]).optional().transform((v) => (v ? v : null)),
+    weightKg: optionalNumber(25, 250, "Weight (kg)"),
+    restingHr: optionalNumber(25, 120, "Resting heart rate"),
+    maxHr: optionalNumber(100, 230, "Maximum heart rate"),
+  })
+  .refine((v) => v.restingHr === null || v.maxHr === null || v.maxHr > v.restingHr + 20, {
+    message: "Maximum heart rate must be well above resting heart rate.",
+    path: ["maxHr"],
+  });

@@ -1,6 +1,6 @@
 import { createColumnHelper } from "@tanstack/react-table";
 import { useEffect, useRef } from "react";
-import { data, useFetcher } from "react-router";
+import { data, Link, useFetcher } from "react-router";
 import { DataTable } from "~/components/data-table";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
@@ -38,7 +38,14 @@ const column = createColumnHelper<Athlete>();
 export default function Roster({ loaderData }: Route.ComponentProps) {
   const { athletes, invitations, timezone } = loaderData;
   const columns = [
-    column.accessor("name", { header: "Athlete", cell: (c) => <span className="font-medium">{c.getValue()}</span> }),
+    column.accessor("name", {
+      header: "Athlete",
+      cell: (c) => (
+        <Link to={`/coach/athletes/${c.row.original.id}`} className="font-medium text-teal underline-offset-2 hover:underline">
+          {c.getValue()}
+        </Link>
+      ),
+    }),
     column.accessor("email", { header: "E-mail" }),
     column.accessor("timezone", { header: "Time zone", cell: (c) => c.getValue().replaceAll("_", " ") }),
     column.accessor("since", { header: "On roster since", cell: (c) => formatDate(c.getValue(), timezone) }),

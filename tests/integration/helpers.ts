@@ -1,0 +1,74 @@
+import { hashPassword } from "~/.server/auth";
+import { CoachAthlete, User, type Role } from "~/.server/models";
+
+export const BASE = "http://localhost:3999";
+
+let counter = 0;
+export const uniqueEmail = (prefix = "user") => `${prefix}.${Date.now().toString(36)}.${++counter}@example.test`;
+
+export async function makeUser(opts: Partial<{ role: Role; email: string; name: string; password: string; timezone: string }> = {}) {
+  return User.create({
+    role: opts.role ?? "athlete",
+    email: opts.email ?? uniqueEmail(opts.role ?? "athlete"),
+    name: opts.name ?? "Test Person",
+    passwordHash: await hashPassword(opts.password ?? "correct-horse-battery"),
+    timezone: opts.timezone ?? "UTC",
+  });
+}
+
+export async function makeCoachWithAthlete() {
+  const coach = await makeUser({ role: "coach", name: "Coach C" });
+  const athlete = await makeUser({ role: "athlete", name: "Athlete A" });
+  await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
+  return { coach, athlete };
+}
+
+export function formRequest(path: string, fields: Record<string, string | string[]>, opts: { cookie?: string; method?: string } = {}) {
+  const body = new URLSearchParams();
+  for (const [k, v] of Object.entries(fields)) for (const one of Array.isArray(v) ? v : [v]) body.append(k, one);
+  return new Request(BASE + path, {
+    method: opts.method ?? "POST",
+    body,
+    headers: { "Content-Type": "application/x-www-form-urlencoded", ...(opts.cookie ? { Cookie: opts.cookie } : {}) },
+  });
+}
+
+export function getRequest(path: string, cookie?: string) {
+  return new Request(BASE + path, { headers: cookie ? { Cookie: cookie } : {} });
+}
+
+/** Route functions are called the way React Router calls them; thrown Responses are returned for inspection. */
+export async function run<T>(fn: (args: any) => Promise<T>, request: Request, params: Record<string, string> = {}) {
+  try {
+    return await fn({ request, params, context: {} });
+  } catch (err) {
+    if (err instanceof Response) return err;
+    throw err;
+  }
+}
+
+/** `data()` results carry their init; Responses carry status. Both are read the same way here. */
+export function statusOf(result: unknown): number {
+  if (result instanceof Response) return result.status;
+  const r = result as { init?: { status?: number } | null; type?: string };
+  if (r && r.type === "DataWithResponseInit") return r.init?.status ?? 200;
+  return 200;
+}
+
+export function payloadOf<T = any>(result: unknown): T {
+  const r = result as { type?: string; data?: unknown };
+  return (r && r.type === "DataWithResponseInit" ? r.data : result) as T;
+}
+
+export function cookieFrom(response: Response): string {
+  const set = response.headers.get("set-cookie");
+  if (!set) throw new Error("no Set-Cookie on response");
+  return set.split(";")[0];
+}
+
+export async function signIn(email: string, password = "correct-horse-battery") {
+  const { action } = await import("~/routes/login");
+  const res = await run(action, formRequest("/login", { email, password }));
+  if (!(res instanceof Response) || res.status !== 302) throw new Error(`sign-in failed for ${email}`);
+  return cookieFrom(res);
+}

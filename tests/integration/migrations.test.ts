@@ -1,0 +1,48 @@
+import { QueryTypes } from "sequelize";
+import { describe, expect, it } from "vitest";
+import { db } from "~/.server/db";
+import { migrator, seeder } from "../../db/migrator";
+import { DEMO_ACCOUNTS } from "../../db/demo/accounts";
+
+const tables = async () =>
+  (await db().query<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%'", { type: QueryTypes.SELECT })).map((r) => r.name);
+
+describe("migrations and demo data", () => {
+  it("runs every migration down and up again", async () => {
+    const executed = (await migrator().executed()).length;
+    expect(executed).toBeGreaterThan(0);
+    await migrator().down({ to: 0 });
+    expect((await tables()).filter((t) => t !== "schema_migrations")).toEqual([]);
+    await migrator().up();
+    expect((await migrator().executed()).length).toBe(executed);
+    expect(await tables()).toEqual(expect.arrayContaining(["users", "auth_sessions", "coach_athletes", "invitations", "password_resets", "outbound_emails"]));
+  });
+
+  it("uses WAL, enforces foreign keys, and keeps e-mail unique whatever its case", async () => {
+    const [mode] = await db().query<{ journal_mode: string }>("PRAGMA journal_mode", { type: QueryTypes.SELECT });
+    expect(mode.journal_mode).toBe("wal");
+    await expect(
+      db().query("INSERT INTO coach_athletes (coach_id, athlete_id, created_at, updated_at) VALUES (999999, 999998, 'x', 'x')"),
+    ).rejects.toThrow(/FOREIGN KEY/);
+    await db().query("INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'Case@Example.test', 'h', 'n', 'UTC', 'metric', 'x', 'x')");
+    await expect(
+      db().query("INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'case@example.TEST', 'h', 'n', 'UTC', 'metric', 'x', 'x')"),
+    ).rejects.toMatchObject({ name: "SequelizeUniqueConstraintError" });
+    await expect(
+      db().query("INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('owner', 'role@example.test', 'h', 'n', 'UTC', 'metric', 'x', 'x')"),
+    ).rejects.toMatchObject({ original: expect.objectContaining({ message: expect.stringMatching(/invalid role/) }) });
+  });
+
+  it("seeds the demo studio once; running the seeders again adds nothing", async () => {
+    await seeder().up();
+    const count = async () => (await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM users WHERE email LIKE '%@harbourline.example'", { type: QueryTypes.SELECT }))[0].n;
+    expect(await count()).toBe(DEMO_ACCOUNTS.people.length);
+    await seeder().up();
+    expect(await count()).toBe(DEMO_ACCOUNTS.people.length);
+    const [links] = await db().query<{ n: number }>(
+      "SELECT COUNT(*) AS n FROM coach_athletes ca JOIN users c ON c.id = ca.coach_id WHERE c.email = ?",
+      { replacements: [DEMO_ACCOUNTS.people[1].email], type: QueryTypes.SELECT },
+    );
+    expect(links.n).toBe(3);
+  });
+});

@@ -1,0 +1,47 @@
+import { describe, expect, it } from "vitest";
+import { isCrossSiteWrite, safeRedirect } from "~/.server/http";
+import { looksLikeToken, newToken, hashToken } from "~/.server/tokens";
+
+describe("safeRedirect", () => {
+  it.each([
+    ["/coach", "/coach"],
+    ["/coach?x=1#y", "/coach?x=1#y"],
+    ["//evil.example", "/"],
+    ["/\\evil.example", "/"],
+    ["https://evil.example/", "/"],
+    ["javascript:alert(1)", "/"],
+    ["", "/"],
+    [null, "/"],
+  ])("%s → %s", (input, expected) => {
+    expect(safeRedirect(input as string | null)).toBe(expected);
+  });
+});
+
+describe("isCrossSiteWrite", () => {
+  const host = "localhost:3000";
+  it("lets reads and same-site writes through", () => {
+    expect(isCrossSiteWrite("GET", { origin: "https://evil.example", host }, "/coach")).toBe(false);
+    expect(isCrossSiteWrite("POST", { origin: "http://localhost:3000", host }, "/login")).toBe(false);
+    expect(isCrossSiteWrite("POST", { referer: "http://localhost:3000/login", host }, "/login")).toBe(false);
+    expect(isCrossSiteWrite("POST", { host }, "/login")).toBe(false);
+  });
+  it("refuses writes from another origin, an opaque origin, or a garbled header", () => {
+    expect(isCrossSiteWrite("POST", { origin: "https://evil.example", host }, "/logout")).toBe(true);
+    expect(isCrossSiteWrite("DELETE", { origin: "http://localhost:3001", host }, "/api/x")).toBe(true);
+    expect(isCrossSiteWrite("POST", { origin: "null", host }, "/login")).toBe(true);
+    expect(isCrossSiteWrite("POST", { referer: "::::", host }, "/login")).toBe(true);
+  });
+  it("exempts signed payment webhooks", () => {
+    expect(isCrossSiteWrite("POST", { origin: "https://pay.example", host }, "/webhooks/payments")).toBe(false);
+  });
+});
+
+describe("tokens", () => {
+  it("are 43 URL-safe characters with a 64-hex SHA-256 hash", () => {
+    const t = newToken();
+    expect(looksLikeToken(t)).toBe(true);
+    expect(hashToken(t)).toMatch(/^[0-9a-f]{64}$/);
+    expect(newToken()).not.toBe(t);
+    expect(looksLikeToken("../../etc/passwd")).toBe(false);
+  });
+});
