@@ -1,0 +1,344 @@
+import FitParser from "fit-file-parser";
+import { XMLParser } from "fast-xml-parser";
+import Papa from "papaparse";
+import { TrainingInputError } from "./errors";
+
+/** One second of an activity after resampling. Channels the file lacks are absent; a missing reading is null. */
+export interface Sample {
+  t: number;
+  power?: number | null;
+  hr?: number | null;
+  cadence?: number | null;
+  /** m/s */
+  speed?: number | null;
+  /** metres from the start */
+  distance?: number | null;
+}
+
+export type Channel = "power" | "hr" | "cadence" | "speed" | "distance";
+const CHANNELS: readonly Channel[] = ["power", "hr", "cadence", "speed", "distance"];
+
+export interface Activity {
+  samples: Sample[];
+  meta: {
+    format: "csv" | "gpx" | "fit";
+    startTime: string | null;
+    durationS: number;
+    channels: Channel[];
+    sourcePoints: number;
+    /** Seconds filled by interpolation across short gaps. */
+    interpolatedS: number;
+    /** Seconds inside long gaps (treated as stopped: power 0, other channels missing). */
+    stoppedS: number;
+  };
+}
+
+/** A raw reading at an elapsed time in seconds (not yet at 1 Hz). */
+interface RawPoint {
+  t: number;
+  power?: number;
+  hr?: number;
+  cadence?: number;
+  speed?: number;
+  distance?: number;
+}
+
+/**
+ * Gap rule: recordings skip seconds (smart recording, dropouts, auto-pause). A gap of up to SHORT_GAP_S seconds
+ * is filled by linear interpolation of every channel; inside a longer gap the rider is taken to be stopped:
+ * power 0 (so averages over the gap are not inflated), cadence 0, and heart rate, speed and distance missing.
+ */
+export const SHORT_GAP_S = 5;
+const MAX_DURATION_S = 24 * 3600;
+
+/**
+ * Reads a ride or run file (CSV, GPX 1.1, FIT) into 1 Hz samples. The format comes from the file name's ending,
+ * checked against the content. Throws a TrainingInputError saying why when the file cannot be used.
+ */
+export function parseActivity(data: Uint8Array | string, fileName: string): Activity {
+  const ext = fileName.toLowerCase().split(".").pop() ?? "";
+  const size = typeof data === "string" ? data.length : data.byteLength;
+  if (size === 0) throw new TrainingInputError("empty_file", "The file is empty.");
+  let points: RawPoint[];
+  let startTime: string | null = null;
+  let format: Activity["meta"]["format"];
+  if (ext === "csv" || ext === "txt") {
+    format = "csv";
+    ({ points, startTime } = readCsv(asText(data)));
+  } else if (ext === "gpx") {
+    format = "gpx";
+    ({ points, startTime } = readGpx(asText(data)));
+  } else if (ext === "fit") {
+    format = "fit";
+    if (typeof data === "string") throw new TrainingInputError("unreadable_file", "A FIT file must be read as bytes.");
+    ({ points, startTime } = readFit(data));
+  } else {
+    throw new TrainingInputError("unsupported_file", "Use a CSV, GPX or FIT file.");
+  }
+  return resample(points, format, startTime);
+}
+
+function asText(data: Uint8Array | string): string {
+  if (typeof data === "string") return data;
+  const text = new TextDecoder("utf-8", { fatal: false }).decode(data);
+  if (text.includes("\u0000")) throw new TrainingInputError("unreadable_file", "This is not a text file; is it a FIT file with the wrong name?");
+  return text;
+}
+
+const num = (v: unknown): number | undefined => {
+  if (v === null || v === undefined || v === "") return undefined;
+  const n = typeof v === "number" ? v : Number(String(v).trim().replace(",", "."));
+  return Number.isFinite(n) ? n : undefined;
+};
+
+/**
+ * CSV columns are matched by header, case and spaces ignored. Recognised names (first match wins):
+ * time: time, secs, seconds, elapsed, elapsed_s, t, timestamp (seconds from start, or a date-time);
+ * power: power, watts, power_w, pwr; heart rate: heart_rate, heartrate, hr, bpm, heart_rate_bpm;
+ * cadence: cadence, cad, rpm; speed: speed (m/s), speed_mps, speed_kmh or kph (km/h); distance: distance (m),
+ * distance_m, dist, distance_km or km (km). Without a time column, rows are taken as one per second.
+ */
+export const CSV_HEADERS = {
+  time: ["time", "secs", "seconds", "elapsed", "elapsed_s", "t", "timestamp"],
+  power: ["power", "watts", "power_w", "pwr"],
+  hr: ["heart_rate", "heartrate", "hr", "bpm", "heart_rate_bpm"],
+  cadence: ["cadence", "cad", "rpm"],
+  speed: ["speed", "speed_mps"],
+  speedKmh: ["speed_kmh", "kph"],
+  distance: ["distance", "distance_m", "dist"],
+  distanceKm: ["distance_km", "km"],
+} as const;
+
+function readCsv(text: string): { points: RawPoint[]; startTime: string | null } {
+  // Array mode is markedly faster than papaparse's header mode; columns are found by index instead.
+  const parsed = Papa.parse<string[]>(text.trim(), { skipEmptyLines: true });
+  const [header = [], ...body] = parsed.data;
+  const fields = header.map((h) => String(h).trim().toLowerCase().replace(/[\s-]+/g, "_").replace(/[()/]/g, ""));
+  const pick = (names: readonly string[]) => {
+    const name = names.find((n) => fields.includes(n));
+    return name === undefined ? undefined : fields.indexOf(name);
+  };
+  const col = {
+    time: pick(CSV_HEADERS.time),
+    power: pick(CSV_HEADERS.power),
+    hr: pick(CSV_HEADERS.hr),
+    cadence: pick(CSV_HEADERS.cadence),
+    speed: pick(CSV_HEADERS.speed),
+    speedKmh: pick(CSV_HEADERS.speedKmh),
+    distance: pick(CSV_HEADERS.distance),
+    distanceKm: pick(CSV_HEADERS.distanceKm),
+  };
+  if (col.power === undefined && col.hr === undefined && col.speed === undefined && col.speedKmh === undefined && col.cadence === undefined) {
+    throw new TrainingInputError(
+      "unreadable_file",
+      `No power, heart-rate, cadence or speed column found. Columns seen: ${fields.slice(0, 8).join(", ") || "none"}.`,
+    );
+  }
+  const rows = body;
+  if (rows.length === 0) throw new TrainingInputError("empty_file", "The CSV file has a header but no rows.");
+  let startMs: number | null = null;
+  const points: RawPoint[] = [];
+  rows.forEach((row, i) => {
+    let t: number | undefined = i;
+    if (col.time !== undefined) {
+      const raw = row[col.time];
+      const asNumber = num(raw);
+      if (asNumber !== undefined) t = asNumber;
+      else {
+        const ms = Date.parse(raw);
+        if (Number.isNaN(ms)) return; // a row whose time cannot be read is skipped
+        startMs ??= ms;
+        t = (ms - startMs) / 1000;
+      }
+    }
+    const p: RawPoint = { t };
+    if (col.power !== undefined) p.power = num(row[col.power]);
+    if (col.hr !== undefined) p.hr = num(row[col.hr]);
+    if (col.cadence !== undefined) p.cadence = num(row[col.cadence]);
+    if (col.speed !== undefined) p.speed = num(row[col.speed]);
+    else if (col.speedKmh !== undefined) p.speed = scale(num(row[col.speedKmh]), 1 / 3.6);
+    if (col.distance !== undefined) p.distance = num(row[col.distance]);
+    else if (col.distanceKm !== undefined) p.distance = scale(num(row[col.distanceKm]), 1000);
+    points.push(p);
+  });
+  if (points.length === 0) throw new TrainingInputError("unreadable_file", "No row of the CSV file has a readable time.");
+  return { points, startTime: startMs === null ? null : new Date(startMs).toISOString() };
+}
+
+const scale = (v: number | undefined, k: number) => (v === undefined ? undefined : v * k);
+
+/** GPX 1.1 track points, with the common extension tags for heart rate, cadence and power (any namespace prefix). */
+function readGpx(text: string): { points: RawPoint[]; startTime: string | null } {
+  if (!/<gpx[\s>]/i.test(text)) throw new TrainingInputError("unreadable_file", "This is not a GPX file (no <gpx> element).");
+  let doc: any;
+  try {
+    doc = new XMLParser({
+      ignoreAttributes: false,
+      attributeNamePrefix: "@",
+      removeNSPrefix: true,
+      isArray: (name) => name === "trk" || name === "trkseg" || name === "trkpt",
+    }).parse(text, true);
+  } catch (err) {
+    throw new TrainingInputError("unreadable_file", `The GPX file is not well-formed XML: ${(err as Error).message.split("\n")[0]}`);
+  }
+  const trkpts: any[] = (doc?.gpx?.trk ?? []).flatMap((trk: any) => (trk?.trkseg ?? []).flatMap((seg: any) => seg?.trkpt ?? []));
+  if (trkpts.length === 0) throw new TrainingInputError("empty_file", "The GPX file has no track points.");
+  let startMs: number | null = null;
+  let prev: { lat: number; lon: number; t: number } | null = null;
+  let distance = 0;
+  const points: RawPoint[] = [];
+  for (const pt of trkpts) {
+    const ms = Date.parse(String(pt?.time ?? ""));
+    if (Number.isNaN(ms)) continue;
+    startMs ??= ms;
+    const t = (ms - startMs) / 1000;
+    const lat = num(pt["@lat"]);
+    const lon = num(pt["@lon"]);
+    const ext = flatten(pt?.extensions);
+    const p: RawPoint = {
+      t,
+      hr: num(ext.hr ?? ext.heartrate),
+      cadence: num(ext.cad ?? ext.cadence),
+      power: num(ext.power ?? ext.powerinwatts ?? ext.watts),
+    };
+    if (lat !== undefined && lon !== undefined) {
+      if (prev) {
+        const step = haversine(prev.lat, prev.lon, lat, lon);
+        distance += step;
+        const dt = t - prev.t;
+        p.speed = dt > 0 ? step / dt : undefined;
+      }
+      p.distance = distance;
+      prev = { lat, lon, t };
+    }
+    points.push(p);
+  }
+  if (points.length === 0) throw new TrainingInputError("unreadable_file", "No GPX track point has a readable time.");
+  return { points, startTime: new Date(startMs!).toISOString() };
+}
+
+/** Extension tags nest differently per writer; their leaf names are what matters. */
+function flatten(node: unknown, out: Record<string, unknown> = {}): Record<string, unknown> {
+  if (node && typeof node === "object") {
+    for (const [k, v] of Object.entries(node)) {
+      if (v && typeof v === "object") flatten(v, out);
+      else out[k.toLowerCase()] = v;
+    }
+  }
+  return out;
+}
+
+function haversine(lat1: number, lon1: number, lat2: number, lon2: number): number {
+  const R = 6_371_000;
+  const rad = Math.PI / 180;
+  const dLat = (lat2 - lat1) * rad;
+  const dLon = (lon2 - lon1) * rad;
+  const a = Math.sin(dLat / 2) ** 2 + Math.cos(lat1 * rad) * Math.cos(lat2 * rad) * Math.sin(dLon / 2) ** 2;
+  return 2 * R * Math.asin(Math.min(1, Math.sqrt(a)));
+}
+
+/** FIT activity files, decoded with fit-file-parser; record messages carry the samples. */
+function readFit(bytes: Uint8Array): { points: RawPoint[]; startTime: string | null } {
+  if (bytes.byteLength < 14 || String.fromCharCode(bytes[8], bytes[9], bytes[10], bytes[11]) !== ".FIT") {
+    throw new TrainingInputError("unreadable_file", "This is not a FIT file (its header lacks the .FIT signature).");
+  }
+  const dataSize = bytes[4] | (bytes[5] << 8) | (bytes[6] << 16) | (bytes[7] << 24);
+  if (bytes[0] + dataSize > bytes.byteLength) {
+    throw new TrainingInputError("unreadable_file", "The FIT file is cut short: it ends before the data its header announces.");
+  }
+  let parsed: any = null;
+  let error: string | undefined;
+  const copy = bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer;
+  // The parser calls back synchronously; with force=false it reports a damaged file instead of guessing.
+  new FitParser({ force: false, speedUnit: "m/s", lengthUnit: "m", mode: "list" }).parse(copy, (err, data) => {
+    error = err;
+    parsed = data;
+  });
+  if (error || !parsed) throw new TrainingInputError("unreadable_file", `The FIT file could not be read: ${error ?? "no data"}.`);
+  const records: any[] = (parsed.records ?? []).filter((r: any) => r?.timestamp);
+  if (records.length === 0) throw new TrainingInputError("empty_file", "The FIT file has no activity records.");
+  const startMs = new Date(records[0].timestamp).getTime();
+  const points = records.map((r) => ({
+    t: (new Date(r.timestamp).getTime() - startMs) / 1000,
+    power: num(r.power),
+    hr: num(r.heart_rate),
+    cadence: num(r.cadence),
+    speed: num(r.enhanced_speed ?? r.speed),
+    distance: num(r.distance),
+  }));
+  return { points, startTime: new Date(startMs).toISOString() };
+}
+
+const PLAUSIBLE: Record<Channel, [number, number]> = {
+  power: [0, 3000],
+  hr: [25, 250],
+  cadence: [0, 250],
+  speed: [0, 40],
+  distance: [0, 1_000_000],
+};
+
+/** Resamples to one sample per whole second from 0 to the last reading, applying the gap rule. */
+function resample(raw: RawPoint[], format: Activity["meta"]["format"], startTime: string | null): Activity {
+  const points = raw
+    .filter((p) => Number.isFinite(p.t) && p.t >= 0)
+    .map((p) => {
+      const clean: RawPoint = { t: p.t };
+      for (const c of CHANNELS) {
+        const v = p[c];
+        if (v !== undefined && v >= PLAUSIBLE[c][0] && v <= PLAUSIBLE[c][1]) clean[c] = v;
+      }
+      return clean;
+    })
+    .sort((a, b) => a.t - b.t);
+  if (points.length === 0) throw new TrainingInputError("empty_file", "The file has no readings.");
+  const channels = CHANNELS.filter((c) => points.some((p) => p[c] !== undefined));
+  if (channels.length === 0) throw new TrainingInputError("unreadable_file", "The file has no power, heart-rate, cadence or speed readings.");
+  const last = Math.floor(points[points.length - 1].t - points[0].t);
+  if (last > MAX_DURATION_S) throw new TrainingInputError("out_of_range", "The file lasts longer than 24 hours.");
+  const t0 = points[0].t;
+  const n = last + 1;
+
+  const samples: Sample[] = new Array(n);
+  for (let i = 0; i < n; i++) {
+    const s: Sample = { t: i };
+    for (const c of channels) s[c] = null;
+    samples[i] = s;
+  }
+  let interpolatedS = 0;
+  let stoppedS = 0;
+  for (const c of channels) {
+    // Average readings that land in the same second, then walk the known seconds and fill between them.
+    const sum = new Float64Array(n);
+    const count = new Uint16Array(n);
+    for (const p of points) {
+      const v = p[c];
+      if (v === undefined) continue;
+      const i = Math.min(n - 1, Math.round(p.t - t0));
+      sum[i] += v;
+      count[i]++;
+    }
+    let prevI = -1;
+    for (let i = 0; i < n; i++) {
+      if (count[i] === 0) continue;
+      const v = sum[i] / count[i];
+      samples[i][c] = v;
+      if (prevI >= 0 && i - prevI > 1) {
+        const gap = i - prevI - 1;
+        const from = samples[prevI][c] as number;
+        for (let k = prevI + 1; k < i; k++) {
+          if (gap <= SHORT_GAP_S) samples[k][c] = from + ((v - from) * (k - prevI)) / (i - prevI);
+          else if (c === "power" || c === "cadence") samples[k][c] = 0;
+        }
+        if (c === channels[0]) {
+          if (gap <= SHORT_GAP_S) interpolatedS += gap;
+          else stoppedS += gap;
+        }
+      }
+      prevI = i;
+    }
+  }
+  return {
+    samples,
+    meta: { format, startTime, durationS: n, channels, sourcePoints: raw.length, interpolatedS, stoppedS },
+  };
+}

@@ -1,0 +1,129 @@
+import { requireFinite, TrainingInputError } from "./errors";
+
+export const PHASES = ["base", "build", "peak", "taper", "race", "recovery"] as const;
+export type Phase = (typeof PHASES)[number];
+
+export interface SkeletonWeek {
+  index: number;
+  /** Monday of the week, YYYY-MM-DD. */
+  startDate: string;
+  phase: Phase;
+  recovery: boolean;
+  test: boolean;
+  loadFactor: number;
+  hours: number;
+}
+
+export interface SkeletonInput {
+  startDate?: string;
+  eventDate?: string;
+  weeks?: number;
+  /** Hours of a week whose load factor is 1.0. */
+  weeklyHours: number;
+  pattern: "3:1" | "2:1";
+  testEveryWeeks?: number;
+  /** Largest rise of load from one loading week to the next (default 10 %, common practice). */
+  maxWeeklyRise?: number;
+}
+
+const DAY = 86_400_000;
+const isoDate = /^\d{4}-\d{2}-\d{2}$/;
+
+function parseDay(s: string, label: string): number {
+  if (!isoDate.test(s)) throw new TrainingInputError("out_of_range", `${label} must be a date like 2027-04-18.`);
+  const [y, m, d] = s.split("-").map(Number);
+  const ms = Date.UTC(y, m - 1, d);
+  if (new Date(ms).getUTCDate() !== d) throw new TrainingInputError("out_of_range", `${label} is not a real date.`);
+  return ms;
+}
+const mondayOf = (ms: number) => ms - ((new Date(ms).getUTCDay() + 6) % 7) * DAY;
+const fmt = (ms: number) => new Date(ms).toISOString().slice(0, 10);
+
+/** Load pattern constants (common practice): the first loading week, the step between loading weeks and blocks. */
+const FIRST_WEEK = 0.9;
+const WEEK_STEP = 0.05;
+const RECOVERY_FACTOR = 0.6;
+const TAPER = { one: [0.6], two: [0.75, 0.55] } as const;
+const RACE_WEEK = 0.45;
+
+/**
+ * A season skeleton: weeks from Monday to Monday with phase, recovery weeks every 4th (3:1) or 3rd (2:1) week,
+ * test weeks at the first week and then every N weeks, load factors that rise gently within each loading block and
+ * step up from block to block, never more than `maxWeeklyRise` over the previous non-recovery week, and a taper
+ * (two weeks from 12 weeks on, else one) before an event week. Constants are common practice, not one source.
+ */
+export function seasonSkeleton(input: SkeletonInput): { startDate: string; eventDate: string | null; weeks: SkeletonWeek[] } {
+  const hours = requireFinite(input.weeklyHours, "Weekly hours", { min: 0, exclusiveMin: true, max: 40 });
+  const cap = requireFinite(input.maxWeeklyRise ?? 0.1, "Largest weekly rise", { min: 0, exclusiveMin: true, max: 0.5 });
+  const testEvery = input.testEveryWeeks ?? 6;
+  if (!Number.isInteger(testEvery) || testEvery < 2 || testEvery > 16) throw new TrainingInputError("out_of_range", "Test every 2 to 16 weeks.");
+  if (input.pattern !== "3:1" && input.pattern !== "2:1") throw new TrainingInputError("out_of_range", "Choose the 3:1 or 2:1 loading pattern.");
+  const cycle = input.pattern === "3:1" ? 4 : 3;
+
+  let startMs: number;
+  let count: number;
+  const eventMs = input.eventDate ? parseDay(input.eventDate, "The event date") : null;
+  if (input.startDate && eventMs !== null) {
+    startMs = mondayOf(parseDay(input.startDate, "The start date"));
+    if (eventMs < startMs) throw new TrainingInputError("inconsistent", "The event must come after the start.");
+    count = Math.round((mondayOf(eventMs) - startMs) / (7 * DAY)) + 1;
+  } else if (input.weeks !== undefined) {
+    count = input.weeks;
+    if (!Number.isInteger(count)) throw new TrainingInputError("out_of_range", "Weeks must be a whole number.");
+    startMs = eventMs !== null ? mondayOf(eventMs) - (count - 1) * 7 * DAY : mondayOf(parseDay(input.startDate ?? "", "The start date"));
+  } else {
+    throw new TrainingInputError("out_of_range", "Give a start date, an event date and a number of weeks, or both dates.");
+  }
+  if (count < 4 || count > 104) throw new TrainingInputError("out_of_range", "A season plan runs 4 to 104 weeks.");
+
+  const hasEvent = eventMs !== null;
+  const taperWeeks = hasEvent ? (count >= 12 ? 2 : 1) : 0;
+  const raceWeeks = hasEvent ? 1 : 0;
+  const pre = count - taperWeeks - raceWeeks;
+  const peakWeeks = hasEvent ? Math.min(2, Math.floor(pre / 6)) : 0;
+  const baseWeeks = Math.ceil((pre - peakWeeks) * 0.6);
+
+  const weeks: SkeletonWeek[] = [];
+  let blockStart = FIRST_WEEK;
+  let inBlock = 0;
+  let lastLoading = 0;
+  for (let i = 1; i <= count; i++) {
+    let phase: Phase;
+    if (i <= baseWeeks) phase = "base";
+    else if (i <= pre - peakWeeks) phase = "build";
+    else if (i <= pre) phase = "peak";
+    else if (i <= pre + taperWeeks) phase = "taper";
+    else phase = "race";
+
+    // No recovery week right before the taper: the taper itself unloads.
+    const recovery = i < pre && i % cycle === 0;
+    let factor: number;
+    if (phase === "taper") {
+      factor = lastLoading * (taperWeeks === 2 ? TAPER.two : TAPER.one)[i - pre - 1];
+    } else if (phase === "race") {
+      factor = lastLoading * RACE_WEEK;
+    } else if (recovery) {
+      factor = lastLoading * RECOVERY_FACTOR;
+      blockStart += WEEK_STEP; // each block starts one step above the last
+      inBlock = 0;
+    } else if (phase === "peak") {
+      factor = Math.max(lastLoading, blockStart);
+    } else {
+      factor = blockStart + inBlock * WEEK_STEP;
+      inBlock++;
+    }
+    if (!recovery && phase !== "taper" && phase !== "race" && lastLoading > 0) factor = Math.min(factor, lastLoading * (1 + cap));
+    if (!recovery && phase !== "taper" && phase !== "race") lastLoading = factor;
+    const test = i === 1 || ((i - 1) % testEvery === 0 && i <= pre);
+    weeks.push({
+      index: i,
+      startDate: fmt(startMs + (i - 1) * 7 * DAY),
+      phase,
+      recovery,
+      test,
+      loadFactor: Math.round(factor * 1000) / 1000,
+      hours: Math.round(hours * factor * 4) / 4,
+    });
+  }
+  return { startDate: fmt(startMs), eventDate: eventMs === null ? null : fmt(eventMs), weeks };
+}

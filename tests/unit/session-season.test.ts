@@ -1,0 +1,96 @@
+import { describe, expect, it } from "vitest";
+import { estimateSession, expandBlocks, seasonSkeleton, validateBlocks, TrainingInputError, type Block } from "~/lib/training";
+
+const threshold4x8: Block[] = [
+  { kind: "warmup", durationS: 900, target: { metric: "power", lowPct: 50, highPct: 70 } },
+  { kind: "repeats", count: 4, work: { durationS: 480, target: { metric: "power", lowPct: 95, highPct: 99 } }, recovery: { durationS: 240, target: { metric: "power", lowPct: 50 } } },
+  { kind: "ramp", durationS: 300, metric: "power", fromPct: 60, toPct: 40 },
+  { kind: "open", durationS: 300 },
+];
+
+describe("blocks", () => {
+  it("repeats unroll into work and recovery steps in order", () => {
+    const steps = expandBlocks(threshold4x8);
+    expect(steps).toHaveLength(1 + 8 + 1 + 1);
+    expect(steps[1]).toMatchObject({ part: "work", rep: 1, startS: 900, durationS: 480, lowPct: 95, highPct: 99 });
+    expect(steps[2]).toMatchObject({ part: "recovery", rep: 1, startS: 1380 });
+    expect(steps.at(-1)!.startS).toBe(900 + 4 * 720 + 300);
+  });
+  it("validation keys each problem to its field", () => {
+    const errors = validateBlocks([
+      { kind: "steady", durationS: 0, target: { metric: "power", lowPct: 350 } },
+      { kind: "repeats", count: 51, work: { durationS: 60, target: { metric: "power", lowPct: 110, highPct: 100 } }, recovery: { durationS: 60 } },
+      { kind: "open", durationS: 13 * 3600 },
+    ]);
+    expect(Object.keys(errors).sort()).toEqual(["blocks.0.durationS", "blocks.0.target.lowPct", "blocks.1.count", "blocks.1.work.target.highPct", "blocks.2.durationS"].sort());
+    expect(validateBlocks([])).toHaveProperty("blocks");
+    expect(validateBlocks(threshold4x8)).toEqual({});
+  });
+});
+
+describe("estimateSession", () => {
+  const est = estimateSession(threshold4x8, { power: 250 });
+  it("minutes per level plus untargeted minutes add up to the duration", () => {
+    const total = est.minutesPerLevel.reduce((s, m) => s + m, 0) + est.openMinutes;
+    expect(est.durationS).toBe(900 + 4 * 720 + 600);
+    expect(total * 60).toBeCloseTo(est.durationS, 6);
+  });
+  it("puts the warm-up at its midpoint (60 %, level 2), the repeats at 97 % (level 4)", () => {
+    expect(est.minutesPerLevel[3]).toBeCloseTo(32, 9);
+    expect(est.minutesPerLevel[1]).toBeGreaterThanOrEqual(15);
+    expect(est.openMinutes).toBeCloseTo(5, 9);
+  });
+  it("work counts only power-targeted steps: Σ pct × threshold × seconds", () => {
+    const expected = (0.6 * 250 * 900 + 4 * (0.97 * 250 * 480 + 0.5 * 250 * 240) + 0.5 * 250 * 300) / 1000;
+    expect(est.workKj).toBeCloseTo(expected, 6);
+    expect(estimateSession(threshold4x8).workKj).toBeNull();
+  });
+  it("refuses invalid blocks", () => {
+    expect(() => estimateSession([{ kind: "steady", durationS: -5, target: { metric: "power", lowPct: 80 } }])).toThrow(TrainingInputError);
+  });
+});
+
+describe("season skeleton (constants are common practice)", () => {
+  const plan = seasonSkeleton({ eventDate: "2027-04-18", weeks: 16, weeklyHours: 10, pattern: "3:1", testEveryWeeks: 6 });
+  const w = plan.weeks;
+  it("16 weeks ending in the event week, starting on a Monday", () => {
+    expect(w).toHaveLength(16);
+    // 18 April 2027 is a Sunday: its week starts Monday 12 April, and 15 weeks earlier is Monday 28 December.
+    expect(plan.startDate).toBe("2026-12-28");
+    expect(new Date(`${plan.startDate}T00:00:00Z`).getUTCDay()).toBe(1);
+    expect(w.at(-1)!.phase).toBe("race");
+    expect(w.at(-1)!.startDate).toBe("2027-04-12");
+    expect(plan.eventDate).toBe("2027-04-18");
+  });
+  it("recovery every 4th week under 3:1, a two-week taper, tests every 6 weeks", () => {
+    expect(w.filter((x) => x.recovery).map((x) => x.index)).toEqual([4, 8, 12]);
+    expect(w.filter((x) => x.phase === "taper").map((x) => x.index)).toEqual([14, 15]);
+    expect(w.filter((x) => x.test).map((x) => x.index)).toEqual([1, 7, 13]);
+    expect(w[0].phase).toBe("base");
+    expect(w.some((x) => x.phase === "build")).toBe(true);
+  });
+  it("load never rises more than 10 % over the previous non-recovery week, and tapers down", () => {
+    let last = 0;
+    for (const week of w) {
+      if (week.recovery || week.phase === "taper" || week.phase === "race") continue;
+      if (last) expect(week.loadFactor).toBeLessThanOrEqual(last * 1.1 + 1e-9);
+      last = week.loadFactor;
+    }
+    expect(w[13].loadFactor).toBeLessThan(w[12].loadFactor);
+    expect(w[14].loadFactor).toBeLessThan(w[13].loadFactor);
+    expect(w[3].loadFactor).toBeLessThan(w[2].loadFactor);
+    expect(w[0].hours).toBe(9);
+  });
+  it("2:1 puts recovery every 3rd week, but not right before the taper; two dates give the week count", () => {
+    const p = seasonSkeleton({ startDate: "2027-01-06", eventDate: "2027-03-28", weeklyHours: 8, pattern: "2:1" });
+    expect(p.weeks).toHaveLength(12);
+    expect(p.weeks.filter((x) => x.phase === "taper").map((x) => x.index)).toEqual([10, 11]);
+    expect(p.weeks.filter((x) => x.recovery).map((x) => x.index)).toEqual([3, 6]);
+  });
+  it("refuses impossible inputs", () => {
+    expect(() => seasonSkeleton({ eventDate: "2027-02-30", weeks: 10, weeklyHours: 8, pattern: "3:1" })).toThrow(/real date/);
+    expect(() => seasonSkeleton({ startDate: "2027-05-01", eventDate: "2027-03-01", weeklyHours: 8, pattern: "3:1" })).toThrow(/after the start/);
+    expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 2, weeklyHours: 8, pattern: "3:1" })).toThrow(/4 to 104/);
+    expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 10, weeklyHours: 0, pattern: "3:1" })).toThrow(TrainingInputError);
+  });
+});
