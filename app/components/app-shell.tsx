@@ -3,7 +3,11 @@ import type { Role } from "~/lib/roles";
 import { Logo } from "./logo";
 
 const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
-  coach: [{ to: "/coach", label: "Roster", end: true }],
+  coach: [
+    { to: "/coach", label: "Roster", end: true },
+    { to: "/coach/sessions", label: "Session shelf" },
+    { to: "/coach/plans", label: "Season plans" },
+  ],
   athlete: [{ to: "/athlete", label: "Today", end: true }],
   admin: [{ to: "/admin/users", label: "Users" }],
 };

@@ -6,6 +6,7 @@ import { queueEmail } from "../mail";
 import { AuthSession, CoachAthlete, Invitation, PasswordReset, User, type Role } from "../models";
 import { hashToken, looksLikeToken, newToken } from "../tokens";
 import { INVITE_DEAD, RESET_LINK_DEAD } from "~/lib/messages";
+import { copyStarterShelf } from "./sessions";
 
 export const RESET_TTL_MS = 60 * 60 * 1000;
 export const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -35,6 +36,8 @@ export async function signUp(input: {
       { name: input.name, email: input.email, passwordHash, role: input.role, timezone: input.timezone },
       { transaction },
     );
+    // A new coach starts with something on the shelf to drag onto a plan.
+    if (user.role === "coach") await copyStarterShelf(user.id, transaction);
     return user;
   });
 }

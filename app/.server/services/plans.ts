@@ -1,0 +1,257 @@
+import rrule from "rrule";
+import { literal, Op, QueryTypes, type Transaction } from "sequelize";
+import { db, writeTransaction } from "../db";
+import { PlanItem, PlanRecurrence, PlanWeek, SeasonPlan } from "../models";
+import { getSession } from "./sessions";
+import { defaultTestFor } from "~/lib/protocols";
+import { recurrenceSummary, type NewPlanInput } from "~/lib/plans";
+import { blockDuration, seasonSkeleton, type Block } from "~/lib/training";
+
+const { RRule } = rrule;
+
+export class PlanError extends Error {
+  name = "PlanError";
+  constructor(
+    message: string,
+    readonly status = 400,
+    readonly field?: string,
+  ) {
+    super(message);
+  }
+}
+
+/** Day index of the automatic field test in a test week: Tuesday, after a Monday rest day. */
+const TEST_DAY = 1;
+
+export async function createPlan(ownerId: number, input: NewPlanInput): Promise<SeasonPlan> {
+  const skeleton = seasonSkeleton({
+    ...(input.alignment === "event" ? { eventDate: input.date } : { startDate: input.date }),
+    weeks: input.weeks,
+    weeklyHours: input.weeklyHours,
+    pattern: input.pattern,
+    testEveryWeeks: input.testEveryWeeks,
+  });
+  const test = defaultTestFor(input.sport);
+  return writeTransaction(async (transaction) => {
+    const plan = await SeasonPlan.create(
+      {
+        ownerId,
+        name: input.name,
+        sport: input.sport,
+        description: input.description,
+        alignment: input.alignment,
+        startDate: skeleton.startDate,
+        eventDate: skeleton.eventDate,
+        weeklyHours: input.weeklyHours,
+        pattern: input.pattern,
+        testEveryWeeks: input.testEveryWeeks,
+      },
+      { transaction },
+    );
+    const weeks = await PlanWeek.bulkCreate(
+      skeleton.weeks.map((w) => ({ planId: plan.id, idx: w.index, phase: w.phase, recovery: w.recovery, test: w.test, loadFactor: w.loadFactor, plannedHours: w.hours })),
+      { transaction },
+    );
+    const testWeeks = weeks.filter((w) => w.test);
+    if (test.session) {
+      await PlanItem.bulkCreate(
+        testWeeks.map((w) => ({
+          planId: plan.id,
+          weekId: w.id,
+          day: TEST_DAY,
+          position: 0,
+          name: test.session!.name,
+          sport: input.sport === "multi" ? "bike" : input.sport,
+          testProtocol: test.key,
+          blocks: test.session!.blocks,
+        })),
+        { transaction },
+      );
+    }
+    return plan;
+  });
+}
+
+export async function requirePlan(ownerId: number, planId: number, transaction?: Transaction): Promise<SeasonPlan> {
+  const plan = Number.isInteger(planId) && planId > 0 ? await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction }) : null;
+  if (!plan) throw new PlanError("No plan with this id is yours.", 404);
+  return plan;
+}
+
+export interface PlanItemView {
+  id: number;
+  weekId: number;
+  day: number;
+  position: number;
+  name: string;
+  sport: string;
+  testProtocol: string | null;
+  blocks: Block[];
+  durationS: number;
+  timeOfDay: string | null;
+  recurrenceId: number | null;
+  sourceSessionId: number | null;
+}
+
+export async function loadPlan(ownerId: number, planId: number) {
+  const plan = await requirePlan(ownerId, planId);
+  const [weeks, items, recurrences] = await Promise.all([
+    PlanWeek.findAll({ where: { planId }, order: [["idx", "ASC"]] }),
+    PlanItem.findAll({ where: { planId }, order: [["day", "ASC"], ["position", "ASC"]] }),
+    PlanRecurrence.findAll({ where: { planId }, order: [["id", "ASC"]] }),
+  ]);
+  return {
+    plan: {
+      id: plan.id,
+      name: plan.name,
+      sport: plan.sport,
+      description: plan.description,
+      alignment: plan.alignment,
+      startDate: plan.startDate,
+      eventDate: plan.eventDate,
+      weeklyHours: plan.weeklyHours,
+      pattern: plan.pattern,
+      testEveryWeeks: plan.testEveryWeeks,
+      version: plan.version,
+    },
+    weeks: weeks.map((w) => ({ id: w.id, idx: w.idx, phase: w.phase, recovery: w.recovery, test: w.test, loadFactor: w.loadFactor, plannedHours: w.plannedHours, notes: w.notes })),
+    items: items.map(itemView),
+    recurrences: recurrences.map((r) => ({ id: r.id, summary: r.summary, rule: r.rule, count: items.filter((i) => i.recurrenceId === r.id).length })),
+  };
+}
+
+export function itemView(i: PlanItem): PlanItemView {
+  const blocks = i.blocks as Block[];
+  return {
+    id: i.id,
+    weekId: i.weekId,
+    day: i.day,
+    position: i.position,
+    name: i.name,
+    sport: i.sport,
+    testProtocol: i.testProtocol,
+    blocks,
+    durationS: blocks.reduce((s, b) => s + blockDuration(b), 0),
+    timeOfDay: i.timeOfDay,
+    recurrenceId: i.recurrenceId,
+    sourceSessionId: i.sourceSessionId,
+  };
+}
+
+export async function listPlans(ownerId: number) {
+  return db().query<{ id: number; name: string; sport: string; start_date: string | null; event_date: string | null; weeks: number; sessions: number; phases: string | null; athletes: number; listed: number; updated_at: string }>(
+    `SELECT p.id, p.name, p.sport, p.start_date, p.event_date, p.updated_at,
+            (SELECT COUNT(*) FROM plan_weeks w WHERE w.plan_id = p.id) AS weeks,
+            (SELECT COUNT(*) FROM plan_items i WHERE i.plan_id = p.id) AS sessions,
+            (SELECT GROUP_CONCAT(phase, ',') FROM (SELECT phase FROM plan_weeks w WHERE w.plan_id = p.id ORDER BY idx)) AS phases,
+            ${(await tableExists("assignments")) ? "(SELECT COUNT(DISTINCT athlete_id) FROM assignments a WHERE a.plan_id = p.id)" : "0"} AS athletes,
+            ${(await tableExists("listings")) ? "(SELECT COUNT(*) FROM listings l WHERE l.plan_id = p.id AND l.published = 1)" : "0"} AS listed
+     FROM season_plans p WHERE p.owner_id = ? ORDER BY p.updated_at DESC`,
+    { replacements: [ownerId], type: QueryTypes.SELECT },
+  );
+}
+
+async function tableExists(name: string) {
+  const rows = await db().query("SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?", { replacements: [name], type: QueryTypes.SELECT });
+  return rows.length > 0;
+}
+
+/** Every change to a plan's weeks or items moves its version on; the board sends the version it was drawn from. */
+export async function bumpVersion(planId: number, transaction: Transaction) {
+  await SeasonPlan.update({ version: literal("version + 1") as unknown as number }, { where: { id: planId }, transaction });
+}
+
+export async function updateWeek(ownerId: number, planId: number, input: { weekId: number; phase: string; recovery: boolean; test: boolean; plannedHours: number; notes: string }) {
+  return writeTransaction(async (transaction) => {
+    await requirePlan(ownerId, planId, transaction);
+    const week = await PlanWeek.findOne({ where: { id: input.weekId, planId }, transaction });
+    if (!week) throw new PlanError("That week is not part of this plan.", 404);
+    await week.update({ phase: input.phase, recovery: input.recovery, test: input.test, plannedHours: input.plannedHours, notes: input.notes }, { transaction });
+    await bumpVersion(planId, transaction);
+    return week;
+  });
+}
+
+/** Sets one phase on a run of weeks: how a coach makes a phase longer or shorter. */
+export async function setPhaseRange(ownerId: number, planId: number, input: { phase: string; fromWeek: number; toWeek: number }) {
+  return writeTransaction(async (transaction) => {
+    await requirePlan(ownerId, planId, transaction);
+    const count = await PlanWeek.count({ where: { planId }, transaction });
+    if (input.toWeek > count) throw new PlanError(`This plan has ${count} weeks.`, 400, "toWeek");
+    const [n] = await PlanWeek.update({ phase: input.phase }, { where: { planId, idx: { [Op.between]: [input.fromWeek, input.toWeek] } }, transaction });
+    await bumpVersion(planId, transaction);
+    return n;
+  });
+}
+
+export async function renamePlan(ownerId: number, planId: number, name: string, description: string) {
+  return writeTransaction(async (transaction) => {
+    const plan = await requirePlan(ownerId, planId, transaction);
+    await plan.update({ name, description }, { transaction });
+  });
+}
+
+/** Anchor for plans without dates: any Monday serves, since only weekday and week number matter. */
+const UNALIGNED_ANCHOR = "2001-01-01";
+
+/**
+ * Adds a session on the given weekdays of weeks fromWeek–toWeek, expanded through an RRULE (weekly, BYDAY, from the
+ * first week's Monday until the last week's Sunday). Every occurrence becomes its own plan item, so each stays
+ * editable; the rule is kept to show it in words.
+ */
+export async function addRecurrence(ownerId: number, planId: number, input: { sessionId: number; days: number[]; fromWeek: number; toWeek: number; timeOfDay?: string }) {
+  const found = await getSession(ownerId, input.sessionId);
+  if (!found) throw new PlanError("That session is not on your shelf.", 404, "sessionId");
+  return writeTransaction(async (transaction) => {
+    const plan = await requirePlan(ownerId, planId, transaction);
+    const weeks = await PlanWeek.findAll({ where: { planId }, order: [["idx", "ASC"]], transaction });
+    if (input.toWeek > weeks.length) throw new PlanError(`This plan has ${weeks.length} weeks.`, 400, "toWeek");
+    const anchor = plan.startDate ?? UNALIGNED_ANCHOR;
+    const dtstart = new Date(`${anchor}T00:00:00Z`);
+    dtstart.setUTCDate(dtstart.getUTCDate() + (input.fromWeek - 1) * 7);
+    const until = new Date(`${anchor}T23:59:59Z`);
+    until.setUTCDate(until.getUTCDate() + input.toWeek * 7 - 1);
+    const byday = [RRule.MO, RRule.TU, RRule.WE, RRule.TH, RRule.FR, RRule.SA, RRule.SU];
+    const rule = new RRule({ freq: RRule.WEEKLY, dtstart, until, byweekday: [...new Set(input.days)].sort().map((d) => byday[d]), wkst: RRule.MO });
+    const base = new Date(`${anchor}T00:00:00Z`).getTime();
+    const occurrences = rule.all().map((d) => {
+      const days = Math.round((d.getTime() - base) / 86_400_000);
+      return { weekIdx: Math.floor(days / 7) + 1, day: days % 7 };
+    });
+    const recurrence = await PlanRecurrence.create(
+      { planId, sourceSessionId: input.sessionId, rule: rule.toString().split("\n").pop()!, summary: recurrenceSummary(input.days, input.fromWeek, input.toWeek) },
+      { transaction },
+    );
+    const byIdx = new Map(weeks.map((w) => [w.idx, w]));
+    for (const occ of occurrences) {
+      const week = byIdx.get(occ.weekIdx)!;
+      const last = (await PlanItem.max("position", { where: { weekId: week.id, day: occ.day }, transaction })) as number | null;
+      await PlanItem.create(
+        {
+          planId,
+          weekId: week.id,
+          day: occ.day,
+          position: last === null ? 0 : last + 1,
+          sourceSessionId: input.sessionId,
+          recurrenceId: recurrence.id,
+          name: found.session.name,
+          sport: found.session.sport,
+          testProtocol: found.session.testProtocol,
+          blocks: found.blocks,
+          timeOfDay: input.timeOfDay ?? null,
+        },
+        { transaction },
+      );
+    }
+    await bumpVersion(planId, transaction);
+    return { recurrence, count: occurrences.length };
+  });
+}
+
+export async function deletePlan(ownerId: number, planId: number) {
+  return writeTransaction(async (transaction) => {
+    const plan = await requirePlan(ownerId, planId, transaction);
+    await plan.destroy({ transaction });
+  });
+}
+

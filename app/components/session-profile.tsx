@@ -1,0 +1,77 @@
+import { LEVEL_TOPS_PCT } from "~/lib/training";
+
+export interface ProfileStep {
+  s: number;
+  d: number;
+  lo: number | null;
+  hi: number | null;
+  ramp: boolean;
+}
+
+const LEVEL_COLOURS = [1, 2, 3, 4, 5, 6, 7].map((n) => `var(--color-level-${n})`);
+
+export function levelColour(pct: number) {
+  const i = LEVEL_TOPS_PCT.findIndex((top) => pct <= top);
+  return LEVEL_COLOURS[i === -1 ? 6 : i];
+}
+
+/**
+ * A session's step profile: width is time, height is % of threshold, colour is the single-hue intensity ramp, and
+ * work above threshold gets a brick edge. Untargeted steps are drawn as a low hatched band.
+ */
+export function SessionProfile({
+  steps,
+  height = 40,
+  className = "",
+  label,
+  maxPct = 130,
+}: {
+  steps: ProfileStep[];
+  height?: number;
+  className?: string;
+  label?: string;
+  maxPct?: number;
+}) {
+  const total = steps.reduce((m, s) => Math.max(m, s.s + s.d), 0) || 1;
+  const W = 300;
+  const y = (pct: number) => height - (Math.min(pct, maxPct) / maxPct) * (height - 2);
+  return (
+    <svg viewBox={`0 0 ${W} ${height}`} preserveAspectRatio="none" className={`block w-full ${className}`} role="img" aria-label={label ?? "Session profile"} style={{ height }}>
+      <line x1={0} x2={W} y1={y(100)} y2={y(100)} stroke="var(--color-brick)" strokeDasharray="3 3" strokeWidth={0.75} vectorEffect="non-scaling-stroke" />
+      {steps.map((st, i) => {
+        const x = (st.s / total) * W;
+        const w = Math.max(0.5, (st.d / total) * W);
+        if (st.lo === null || st.hi === null) {
+          return <rect key={i} x={x} y={y(30)} width={w} height={height - y(30)} fill="var(--color-paper-deep)" stroke="var(--color-line)" strokeWidth={0.5} vectorEffect="non-scaling-stroke" />;
+        }
+        if (st.ramp) {
+          const mid = (st.lo + st.hi) / 2;
+          return (
+            <polygon
+              key={i}
+              points={`${x},${height} ${x},${y(st.lo)} ${x + w},${y(st.hi)} ${x + w},${height}`}
+              fill={levelColour(mid)}
+              stroke={Math.max(st.lo, st.hi) > 100 ? "var(--color-brick)" : "none"}
+              strokeWidth={1}
+              vectorEffect="non-scaling-stroke"
+            />
+          );
+        }
+        const mid = (st.lo + st.hi) / 2;
+        return (
+          <rect
+            key={i}
+            x={x}
+            y={y(mid)}
+            width={Math.max(0.5, w - 0.4)}
+            height={height - y(mid)}
+            fill={levelColour(mid)}
+            stroke={mid > 100 ? "var(--color-brick)" : "none"}
+            strokeWidth={1}
+            vectorEffect="non-scaling-stroke"
+          />
+        );
+      })}
+    </svg>
+  );
+}

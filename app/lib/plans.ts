@@ -1,0 +1,69 @@
+import { z } from "zod";
+import { PHASES } from "~/lib/training";
+
+export const PLAN_SPORTS = ["bike", "run", "swim", "multi"] as const;
+export const PHASE_LABEL: Record<(typeof PHASES)[number], string> = {
+  base: "Base",
+  build: "Build",
+  peak: "Peak",
+  taper: "Taper",
+  race: "Race",
+  recovery: "Recovery",
+};
+export const DAY_NAMES = ["Mon", "Tue", "Wed", "Thu", "Fri", "Sat", "Sun"] as const;
+export const DAY_LONG = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"] as const;
+
+const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Choose a date.");
+
+export const newPlanSchema = z
+  .object({
+    name: z.string().trim().min(1, "Give the plan a name.").max(120, "Use at most 120 characters."),
+    sport: z.enum(PLAN_SPORTS, { error: "Choose a sport." }),
+    description: z.string().trim().max(2000).default(""),
+    alignment: z.enum(["start", "event"], { error: "Choose how the plan is aligned." }),
+    date: isoDate,
+    weeks: z.coerce.number({ error: "Enter the number of weeks." }).int("Use whole weeks.").min(4, "A plan runs at least 4 weeks.").max(104, "A plan runs at most 104 weeks."),
+    weeklyHours: z.coerce.number({ error: "Enter weekly hours." }).gt(0, "Weekly hours must be more than 0.").max(40, "Use at most 40 hours a week."),
+    pattern: z.enum(["3:1", "2:1"], { error: "Choose 3:1 or 2:1." }),
+    testEveryWeeks: z.coerce.number().int().min(2, "Test every 2 to 16 weeks.").max(16, "Test every 2 to 16 weeks."),
+  });
+export type NewPlanInput = z.infer<typeof newPlanSchema>;
+
+export const weekEditSchema = z.object({
+  weekId: z.coerce.number().int().positive(),
+  phase: z.enum(PHASES, { error: "Choose a phase." }),
+  recovery: z.union([z.literal("on"), z.literal("")]).optional().transform((v) => v === "on"),
+  test: z.union([z.literal("on"), z.literal("")]).optional().transform((v) => v === "on"),
+  plannedHours: z.coerce.number({ error: "Enter hours." }).min(0, "Hours cannot be negative.").max(60, "Use at most 60 hours."),
+  notes: z.string().max(1000, "Use at most 1000 characters.").default(""),
+});
+
+export const phaseRangeSchema = z
+  .object({
+    phase: z.enum(PHASES, { error: "Choose a phase." }),
+    fromWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
+    toWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
+  })
+  .refine((v) => v.toWeek >= v.fromWeek, { message: "The last week must not be before the first.", path: ["toWeek"] });
+
+export const recurrenceSchema = z
+  .object({
+    sessionId: z.coerce.number({ error: "Choose a session." }).int().positive("Choose a session."),
+    // One ticked box arrives as a single value, none as nothing.
+    days: z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]), z.array(z.coerce.number().int().min(0).max(6)).min(1, "Choose at least one day.").max(7)),
+    fromWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
+    toWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
+    timeOfDay: z
+      .string()
+      .regex(/^([01]\d|2[0-3]):[0-5]\d$/, "Use a time like 06:30.")
+      .optional()
+      .or(z.literal("").transform(() => undefined)),
+  })
+  .refine((v) => v.toWeek >= v.fromWeek, { message: "The last week must not be before the first.", path: ["toWeek"] });
+
+/** "every Tue and Thu, weeks 3–8" */
+export function recurrenceSummary(days: number[], fromWeek: number, toWeek: number): string {
+  const names = [...new Set(days)].sort().map((d) => DAY_NAMES[d]);
+  const list = names.length <= 1 ? names.join("") : `${names.slice(0, -1).join(", ")} and ${names.at(-1)}`;
+  return `every ${list}, ${fromWeek === toWeek ? `week ${fromWeek}` : `weeks ${fromWeek}–${toWeek}`}`;
+}

@@ -1,0 +1,73 @@
+import { data, Link, redirect, useSearchParams } from "react-router";
+import { SessionBuilder } from "~/components/session-builder";
+import { PageHeader } from "~/components/ui/card";
+import { FormMessage } from "~/components/ui/field";
+import { requireRole } from "~/.server/auth";
+import { notFound } from "~/.server/http";
+import { createSession, getSession, updateSession } from "~/.server/services/sessions";
+import { newBlock, sessionSchema } from "~/lib/sessions";
+import type { Block } from "~/lib/training";
+import type { Route } from "./+types/session-edit";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.values.name || "New session"} · Pacewright` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const coach = await requireRole(request, "coach");
+  if (!params.sessionId) {
+    const blocks: Block[] = [newBlock("warmup"), newBlock("repeats"), newBlock("cooldown")];
+    return { id: null, usedIn: 0, values: { name: "", sport: "bike", description: "", tags: [] as string[], blocks } };
+  }
+  const found = await getSession(coach.id, Number(params.sessionId));
+  if (!found) notFound("No session with this id is on your shelf.");
+  const { session, blocks, usedIn } = found;
+  return { id: session.id, usedIn, values: { name: session.name, sport: session.sport, description: session.description, tags: session.tags, blocks } };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const coach = await requireRole(request, "coach");
+  const form = await request.formData();
+  let raw: unknown;
+  try {
+    raw = JSON.parse(String(form.get("payload") ?? ""));
+  } catch {
+    return data({ fieldErrors: { form: "The session could not be read; reload the page and try again." } as Record<string, string> }, { status: 400 });
+  }
+  const parsed = sessionSchema.safeParse(raw);
+  if (!parsed.success) {
+    const fieldErrors: Record<string, string> = {};
+    for (const issue of parsed.error.issues) fieldErrors[issue.path.join(".") || "form"] ??= issue.message;
+    return data({ fieldErrors }, { status: 400 });
+  }
+  if (!params.sessionId) {
+    const session = await createSession(coach.id, parsed.data);
+    return redirect(`/coach/sessions/${session.id}?saved=1`);
+  }
+  const session = await updateSession(coach.id, Number(params.sessionId), parsed.data);
+  if (!session) notFound("No session with this id is on your shelf.");
+  return redirect(`/coach/sessions/${session.id}?saved=1`);
+}
+
+export default function SessionEdit({ loaderData, actionData }: Route.ComponentProps) {
+  const [params] = useSearchParams();
+  const { id, values, usedIn } = loaderData;
+  return (
+    <>
+      <p className="mb-2 text-sm">
+        <Link to="/coach/sessions" className="text-teal underline">
+          Session shelf
+        </Link>{" "}
+        / {id ? values.name : "New session"}
+      </p>
+      <PageHeader
+        title={id ? values.name : "New session"}
+        lead={usedIn ? `Used ${usedIn}× in plans. Plans keep the copy they were given; changes here apply to new placements.` : "Build the session from blocks; every target is a percentage of threshold."}
+      />
+      {params.get("saved") && !actionData && (
+        <div className="mb-4">
+          <FormMessage tone="ok">Saved to your shelf.</FormMessage>
+        </div>
+      )}
+      <SessionBuilder key={id ?? "new"} initial={values} errors={actionData?.fieldErrors} submitLabel={id ? "Save changes" : "Save to shelf"} />
+    </>
+  );
+}

@@ -1,0 +1,242 @@
+import { useEffect, useMemo, useRef, useState } from "react";
+import { data, Link, useFetcher } from "react-router";
+import { SessionProfile } from "~/components/session-profile";
+import { buttonClass } from "~/components/ui/button";
+import { Card, PageHeader } from "~/components/ui/card";
+import { FormMessage } from "~/components/ui/field";
+import { requireRole } from "~/.server/auth";
+import { duplicateSession, importSessions, listSessions, removeSession, SessionError, setArchived, type SessionSummary } from "~/.server/services/sessions";
+import { formatMinutes } from "~/lib/duration";
+import { SPORTS, SPORT_LABEL, type Sport } from "~/lib/sessions";
+import type { Route } from "./+types/sessions";
+
+export const meta: Route.MetaFunction = () => [{ title: "Session shelf · Pacewright" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const coach = await requireRole(request, "coach");
+  const sessions = await listSessions(coach.id);
+  return { sessions, tags: Array.from(new Set(sessions.flatMap((s) => s.tags))).sort() };
+}
+
+const MAX_IMPORT_BYTES = 1024 * 1024;
+
+export async function action({ request }: Route.ActionArgs) {
+  const coach = await requireRole(request, "coach");
+  const form = await request.formData();
+  const intent = form.get("intent");
+  const id = Number(form.get("sessionId"));
+  if (intent === "import") {
+    const file = form.get("file");
+    if (!(file instanceof File) || file.size === 0) return data({ ok: false as const, message: "Choose a session file to import.", details: [] as string[] }, { status: 400 });
+    if (file.size > MAX_IMPORT_BYTES) return data({ ok: false as const, message: "That file is larger than 1 MB.", details: [] as string[] }, { status: 413 });
+    try {
+      const n = await importSessions(coach.id, await file.text());
+      return { ok: true as const, message: `Imported ${n} session${n === 1 ? "" : "s"}.`, details: [] as string[] };
+    } catch (err) {
+      if (err instanceof SessionError) return data({ ok: false as const, message: err.message, details: err.details }, { status: 400 });
+      throw err;
+    }
+  }
+  if (intent === "duplicate") {
+    const copy = await duplicateSession(coach.id, id);
+    if (!copy) return data({ ok: false as const, message: "That session is not on your shelf.", details: [] as string[] }, { status: 404 });
+    return { ok: true as const, message: `Made “${copy.name}”.`, details: [] as string[] };
+  }
+  if (intent === "remove") {
+    const result = await removeSession(coach.id, id);
+    if (!result) return data({ ok: false as const, message: "That session is not on your shelf.", details: [] as string[] }, { status: 404 });
+    return { ok: true as const, message: result === "archived" ? "This session is used in a plan, so it was archived instead of deleted." : "Session deleted.", details: [] as string[] };
+  }
+  if (intent === "unarchive" || intent === "archive") {
+    if (!(await setArchived(coach.id, id, intent === "archive")))
+      return data({ ok: false as const, message: "That session is not on your shelf.", details: [] as string[] }, { status: 404 });
+    return { ok: true as const, message: intent === "archive" ? "Session archived." : "Session back on the shelf.", details: [] as string[] };
+  }
+  return data({ ok: false as const, message: "Unknown request.", details: [] as string[] }, { status: 400 });
+}
+
+type ShelfData = { sessions: SessionSummary[]; tags: string[] };
+
+export default function Shelf({ loaderData }: Route.ComponentProps) {
+  const [q, setQ] = useState("");
+  const [sport, setSport] = useState("");
+  const [tag, setTag] = useState("");
+  const [sort, setSort] = useState("name");
+  const [archived, setArchivedView] = useState(false);
+  const list = useFetcher<ShelfData>();
+  const act = useFetcher<typeof action>();
+  const query = useMemo(() => new URLSearchParams({ q, sport, tag, sort, archived: archived ? "1" : "0" }).toString(), [q, sport, tag, sort, archived]);
+  const first = useRef(true);
+
+  // Filtering asks the JSON route, so the page never reloads; a short pause spares a request per keystroke.
+  useEffect(() => {
+    if (first.current) {
+      first.current = false;
+      return;
+    }
+    const t = setTimeout(() => list.load(`/api/sessions?${query}`), 200);
+    return () => clearTimeout(t);
+  }, [query]); // eslint-disable-line react-hooks/exhaustive-deps
+
+  // After a change (import, duplicate, archive) the list is fetched again with the same filters.
+  useEffect(() => {
+    if (act.state === "idle" && act.data?.ok) list.load(`/api/sessions?${query}`);
+  }, [act.state, act.data]); // eslint-disable-line react-hooks/exhaustive-deps
+
+  const shown = list.data ?? loaderData;
+  const tags = Array.from(new Set([...loaderData.tags, ...(list.data?.tags ?? [])])).sort();
+  return (
+    <>
+      <PageHeader
+        title="Session shelf"
+        lead="Sessions written in percent of threshold, ready to drag onto a season plan."
+        actions={
+          <>
+            <a href="/api/sessions?download=1" className={buttonClass("secondary")} download>
+              Export all
+            </a>
+            <Link to="/coach/sessions/new" className={buttonClass("primary")}>
+              New session
+            </Link>
+          </>
+        }
+      />
+      <div className="mb-4 grid gap-3 rounded-xl border border-line bg-white p-4 sm:grid-cols-2 lg:grid-cols-[2fr_1fr_1fr_1fr_auto]">
+        <label className="flex flex-col gap-1 text-sm">
+          <span className="font-medium">Search</span>
+          <input type="search" value={q} onChange={(e) => setQ(e.target.value)} placeholder="Name, description or tag" className="rounded-lg border border-line px-3 py-2" />
+        </label>
+        <label className="flex flex-col gap-1 text-sm">
+          <span className="font-medium">Sport</span>
+          <select value={sport} onChange={(e) => setSport(e.target.value)} className="rounded-lg border border-line bg-white px-3 py-2">
+            <option value="">All sports</option>
+            {SPORTS.map((s) => (
+              <option key={s} value={s}>
+                {SPORT_LABEL[s]}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="flex flex-col gap-1 text-sm">
+          <span className="font-medium">Tag</span>
+          <select value={tag} onChange={(e) => setTag(e.target.value)} className="rounded-lg border border-line bg-white px-3 py-2">
+            <option value="">All tags</option>
+            {tags.map((t) => (
+              <option key={t} value={t}>
+                {t}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="flex flex-col gap-1 text-sm">
+          <span className="font-medium">Sort by</span>
+          <select value={sort} onChange={(e) => setSort(e.target.value)} className="rounded-lg border border-line bg-white px-3 py-2">
+            <option value="name">Name</option>
+            <option value="updated">Last changed</option>
+            <option value="duration">Duration</option>
+          </select>
+        </label>
+        <label className="flex items-end gap-2 pb-2 text-sm">
+          <input type="checkbox" checked={archived} onChange={(e) => setArchivedView(e.target.checked)} /> Archived
+        </label>
+      </div>
+      {act.data && (
+        <div className="mb-4">
+          <FormMessage tone={act.data.ok ? "ok" : "error"}>
+            {act.data.message}
+            {act.data.details.length > 0 && (
+              <ul className="mt-2 list-disc pl-5">
+                {act.data.details.map((d) => (
+                  <li key={d}>{d}</li>
+                ))}
+              </ul>
+            )}
+          </FormMessage>
+        </div>
+      )}
+      <p className="sr-only" role="status" aria-live="polite">
+        {list.state === "loading" ? "Loading sessions" : `${shown.sessions.length} sessions shown`}
+      </p>
+      {shown.sessions.length === 0 ? (
+        <Card>
+          <p className="text-ink-soft">No sessions match. Change the filters or create a new session.</p>
+        </Card>
+      ) : (
+        <ul className={`grid gap-4 sm:grid-cols-2 xl:grid-cols-3 ${list.state === "loading" ? "opacity-60" : ""}`} aria-label="Sessions">
+          {shown.sessions.map((s) => (
+            <li key={s.id}>
+              <SessionCard session={s} fetcher={act} />
+            </li>
+          ))}
+        </ul>
+      )}
+      <ImportForm fetcher={act} />
+    </>
+  );
+}
+
+function SessionCard({ session: s, fetcher }: { session: SessionSummary; fetcher: ReturnType<typeof useFetcher> }) {
+  return (
+    <article className="flex h-full flex-col rounded-xl border border-line bg-white p-4 shadow-sm">
+      <div className="flex items-start justify-between gap-2">
+        <h2 className="font-semibold">
+          <Link to={`/coach/sessions/${s.id}`} className="hover:text-teal hover:underline">
+            {s.name}
+          </Link>
+        </h2>
+        <span className="num shrink-0 rounded-full bg-paper-deep px-2 py-0.5 text-xs">
+          {SPORT_LABEL[s.sport as Sport] ?? s.sport} · {formatMinutes(s.durationS)}
+        </span>
+      </div>
+      <SessionProfile steps={s.profile} className="mt-3 rounded bg-paper/60" label={`Profile of ${s.name}`} />
+      {s.description && <p className="mt-2 line-clamp-2 text-sm text-ink-soft">{s.description}</p>}
+      <div className="mt-2 flex flex-wrap gap-1">
+        {s.testProtocol && <span className="rounded-full bg-brick/15 px-2 py-0.5 text-xs text-brick">field test</span>}
+        {s.tags.map((t) => (
+          <span key={t} className="rounded-full bg-teal/10 px-2 py-0.5 text-xs text-teal-dark">
+            {t}
+          </span>
+        ))}
+      </div>
+      <div className="mt-auto flex flex-wrap items-center gap-2 pt-3 text-sm">
+        <span className="mr-auto text-xs text-ink-soft">{s.usedIn ? `In plans ${s.usedIn}×` : "Not in a plan yet"}</span>
+        <fetcher.Form method="post">
+          <input type="hidden" name="sessionId" value={s.id} />
+          <button name="intent" value="duplicate" className={buttonClass("ghost", "px-2 py-1")}>
+            Duplicate
+          </button>
+          {s.archived ? (
+            <button name="intent" value="unarchive" className={buttonClass("ghost", "px-2 py-1")}>
+              Restore
+            </button>
+          ) : (
+            <button name="intent" value="remove" className={buttonClass("ghost", "px-2 py-1 text-brick")} aria-label={`Delete ${s.name}`}>
+              {s.usedIn ? "Archive" : "Delete"}
+            </button>
+          )}
+        </fetcher.Form>
+      </div>
+    </article>
+  );
+}
+
+function ImportForm({ fetcher }: { fetcher: ReturnType<typeof useFetcher> }) {
+  return (
+    <Card className="mt-8 max-w-xl">
+      <h2 className="font-semibold">Import sessions</h2>
+      <p className="mt-1 text-sm text-ink-soft">
+        A Pacewright session file (JSON, as made by “Export all”). If any session in it is not valid, nothing is imported.
+      </p>
+      <fetcher.Form method="post" encType="multipart/form-data" className="mt-3 flex flex-wrap items-center gap-3">
+        <input type="hidden" name="intent" value="import" />
+        <label className="sr-only" htmlFor="import-file">
+          Session file
+        </label>
+        <input id="import-file" type="file" name="file" accept="application/json,.json" className="text-sm" />
+        <button type="submit" className={buttonClass("secondary")}>
+          Import
+        </button>
+      </fetcher.Form>
+    </Card>
+  );
+}
