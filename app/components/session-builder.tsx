@@ -263,6 +263,7 @@ function SortableBlock(props: {
       style={{ transform: CSS.Transform.toString(transform), transition }}
       className={`rounded-xl border bg-white p-3 shadow-sm ${isDragging ? "z-10 border-teal shadow-lg" : "border-line"}`}
       data-testid="block"
+      data-kind={block.kind}
     >
       <div className="flex flex-wrap items-center gap-2">
         <button

@@ -1,0 +1,97 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser } from "playwright-core";
+import { browserAvailable, launchBrowser, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+
+const enabled = browserAvailable();
+
+describe.skipIf(!enabled)("session shelf and season plans in the browser", () => {
+  let app: RunningApp;
+  let browser: Browser;
+  beforeAll(async () => {
+    app = await startApp();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await app?.stop();
+  });
+
+  it("a coach builds warm-up, 4 × 8 min repeats and cool-down by keyboard and mouse, saves, and finds it by search", async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    await signInAs(page, app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${app.baseUrl}/coach`);
+    await page.goto(`${app.baseUrl}/coach/sessions/new`);
+    await ready(page);
+
+    // Start from an empty list: delete the three default blocks.
+    for (let i = 0; i < 3; i++) await page.getByRole("button", { name: "Delete block 1" }).click();
+    await expect.poll(() => page.getByTestId("block").count()).toBe(0);
+
+    await page.getByLabel("Name").fill("Threshold 4 × 8 keyboard");
+    // Mouse: add the blocks in the wrong order.
+    await page.getByRole("button", { name: "+ Cool-down" }).click();
+    await page.getByRole("button", { name: "+ Warm-up" }).click();
+    await page.getByRole("button", { name: "+ Repeats" }).click();
+    await expect.poll(() => page.getByTestId("block").count()).toBe(3);
+
+    // Keyboard: pick the cool-down up by its handle, move it down twice, drop it.
+    const handle = page.getByRole("button", { name: "Move block 1, Cool-down" });
+    await handle.focus();
+    // dnd-kit measures between key presses, as it would for a person.
+    for (const key of ["Space", "ArrowDown", "ArrowDown", "Space"]) {
+      await page.keyboard.press(key);
+      await page.waitForTimeout(250);
+    }
+    const kinds = () => page.getByTestId("block").evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.kind));
+    await expect.poll(kinds).toEqual(["warmup", "repeats", "cooldown"]);
+
+    // Repeats: 4 × 8:00 at 95–99 %.
+    await page.getByLabel("Block 2 repeat count").fill("4");
+    await page.getByLabel("Block 2 work duration").fill("8:00");
+    await page.getByLabel("Block 2 work low percent").fill("95");
+    await page.getByLabel("Block 2 work high percent").fill("99");
+    // A bad duration is flagged beside the field.
+    await page.getByLabel("Block 1 duration").fill("15:75");
+    await page.getByText("Use m:ss or h:mm:ss.").waitFor();
+    await page.getByLabel("Block 1 duration").fill("15:00");
+
+    const estimates = page.getByTestId("estimates");
+    await expect.poll(() => estimates.textContent()).toMatch(/Duration\s*1:13:00/);
+    await expect.poll(() => estimates.textContent()).toMatch(/Work\s*\d+ kJ/);
+    await shot(page, "session-builder");
+
+    await page.getByRole("button", { name: "Save to shelf" }).click();
+    await page.waitForURL(/\/coach\/sessions\/\d+\?saved=1/);
+    await page.getByText("Saved to your shelf.").waitFor();
+
+    await page.goto(`${app.baseUrl}/coach/sessions`);
+    await ready(page);
+    await page.getByLabel("Search").fill("keyboard");
+    await expect.poll(() => page.locator("ul[aria-label=Sessions] > li").count()).toBe(1);
+    await page.getByRole("link", { name: "Threshold 4 × 8 keyboard" }).waitFor();
+    expect(page.url()).toBe(`${app.baseUrl}/coach/sessions`); // filtered without a reload
+    await shot(page, "shelf-search");
+    await ctx.close();
+  });
+
+  it("creates a 16-week plan from an event date", async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    await signInAs(page, app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${app.baseUrl}/coach`);
+    await page.goto(`${app.baseUrl}/coach/plans/new`);
+    await ready(page);
+    await page.getByLabel("Plan name").fill("Gran fondo 2027");
+    await page.getByLabel("Event date", { exact: true }).fill("2027-06-13");
+    await page.getByLabel("Weeks", { exact: true }).fill("16");
+    await page.getByText("16 weeks from Monday 2027-02-22, event on 2027-06-13.").waitFor();
+    await page.getByRole("button", { name: "Create the plan" }).click();
+    await page.waitForURL(/\/coach\/plans\/\d+\?created=1/);
+    await page.getByRole("heading", { name: "Gran fondo 2027" }).waitFor();
+    await expect.poll(() => page.locator("tbody tr").count()).toBe(16);
+    await page.goto(`${app.baseUrl}/coach/plans`);
+    await page.getByRole("link", { name: "Gran fondo 2027" }).waitFor();
+    await ctx.close();
+  });
+});
