@@ -1,3 +1,4 @@
+import { AsyncLocalStorage } from "node:async_hooks";
 import fs from "node:fs";
 import path from "node:path";
 import { Sequelize, Transaction, type Options } from "sequelize";
@@ -48,12 +49,23 @@ export function db(): Sequelize {
   return globalThis.__pacewrightDb;
 }
 
+const inWrite = new AsyncLocalStorage<true>();
+let writeQueue: Promise<unknown> = Promise.resolve();
+
 /**
- * Runs `fn` in one write transaction. IMMEDIATE takes SQLite's write lock at BEGIN, so two concurrent
- * writers wait for each other (busy timeout) instead of deadlocking when a read lock is upgraded.
+ * Runs `fn` in one write transaction. IMMEDIATE takes SQLite's write lock at BEGIN, so a read lock is never
+ * upgraded mid-transaction (which deadlocks). Writers in this process also queue here first: node-sqlite3 runs
+ * statements on libuv's small thread pool, and writers parked in SQLite's busy wait would take every thread,
+ * leaving none for the transaction that holds the lock to commit.
  */
 export function writeTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise<T> {
-  return db().transaction({ type: Transaction.TYPES.IMMEDIATE }, fn);
+  if (inWrite.getStore()) {
+    return Promise.reject(new Error("writeTransaction was called inside another one; pass the outer transaction down instead."));
+  }
+  const run = () => inWrite.run(true, () => db().transaction({ type: Transaction.TYPES.IMMEDIATE }, fn));
+  const result = writeQueue.then(run, run);
+  writeQueue = result.catch(() => undefined);
+  return result;
 }
 
 export async function closeDb() {

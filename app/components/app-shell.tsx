@@ -1,4 +1,4 @@
-import { Form, NavLink, Link } from "react-router";
+import { Form, NavLink, Link, useMatches } from "react-router";
 import type { Role } from "~/lib/roles";
 import { Logo } from "./logo";
 
@@ -8,7 +8,10 @@ const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
     { to: "/coach/sessions", label: "Session shelf" },
     { to: "/coach/plans", label: "Season plans" },
   ],
-  athlete: [{ to: "/athlete", label: "Today", end: true }],
+  athlete: [
+    { to: "/athlete", label: "Today", end: true },
+    { to: "/athlete/calendar", label: "Calendar" },
+  ],
   admin: [{ to: "/admin/users", label: "Users" }],
 };
 
@@ -21,6 +24,8 @@ export function AppShell({
   devMail: boolean;
   children: React.ReactNode;
 }) {
+  // Pages that need the whole width (the plan board) say so in their route handle.
+  const wide = useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide);
   return (
     <div className="min-h-screen">
       <header className="border-b border-line bg-white/80 backdrop-blur">
@@ -59,7 +64,7 @@ export function AppShell({
           </div>
         </div>
       </header>
-      <main className="mx-auto max-w-7xl px-4 py-6 sm:py-8">{children}</main>
+      <main className={wide ? "px-4 py-4" : "mx-auto max-w-7xl px-4 py-6 sm:py-8"}>{children}</main>
     </div>
   );
 }

@@ -3,3 +3,4 @@ export { AuthSession, PasswordReset, LoginFailure } from "./auth";
 export { CoachAthlete, Invitation } from "./roster";
 export { OutboundEmail } from "./email";
 export { Session, SessionBlock, SeasonPlan, PlanWeek, PlanItem, PlanRecurrence } from "./plans";
+export { Threshold, Assignment, ScheduledSession, ScheduledBlock, type SessionStatus } from "./calendar";

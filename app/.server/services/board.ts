@@ -1,0 +1,123 @@
+import { Op, type Transaction } from "sequelize";
+import { z } from "zod";
+import { writeTransaction } from "../db";
+import { PlanItem, PlanWeek, SeasonPlan } from "../models";
+import { bumpVersion, itemView, PlanError } from "./plans";
+import { getSession } from "./sessions";
+
+const target = { toWeek: z.number().int().positive(), toDay: z.number().int().min(0).max(6), toIndex: z.number().int().min(0).max(1000) };
+
+/** Everything the board can ask for; `version` is the plan version the board was drawn from. */
+export const boardOpSchema = z.discriminatedUnion("op", [
+  z.object({ op: z.literal("copy"), version: z.number().int().optional(), sessionId: z.number().int().positive(), ...target }),
+  z.object({ op: z.literal("move"), version: z.number().int().optional(), itemId: z.number().int().positive(), ...target }),
+  z.object({ op: z.literal("remove"), version: z.number().int().optional(), itemId: z.number().int().positive() }),
+  z.object({ op: z.literal("duplicate-week"), version: z.number().int().optional(), fromWeek: z.number().int().positive(), toWeek: z.number().int().positive() }),
+  z.object({ op: z.literal("move-week"), version: z.number().int().optional(), fromWeek: z.number().int().positive(), toWeek: z.number().int().positive() }),
+  z.object({ op: z.literal("time"), version: z.number().int().optional(), itemId: z.number().int().positive(), timeOfDay: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/).nullable() }),
+]);
+export type BoardOp = z.infer<typeof boardOpSchema>;
+
+export class StaleBoardError extends PlanError {
+  constructor(readonly currentVersion: number) {
+    super("This plan was changed elsewhere (another tab or person). The board has been reloaded; try again.", 409);
+  }
+}
+
+/** Rewrites one day slot's positions as 0…n−1 in the given order, in two passes so the unique index never clashes. */
+async function writeOrder(weekId: number, day: number, ids: number[], transaction: Transaction) {
+  if (ids.length === 0) return;
+  for (let i = 0; i < ids.length; i++) await PlanItem.update({ weekId, day, position: -1 - i }, { where: { id: ids[i] }, transaction });
+  for (let i = 0; i < ids.length; i++) await PlanItem.update({ position: i }, { where: { id: ids[i] }, transaction });
+}
+
+async function slotIds(weekId: number, day: number, transaction: Transaction, except?: number) {
+  const rows = await PlanItem.findAll({ where: { weekId, day, ...(except ? { id: { [Op.ne]: except } } : {}) }, order: [["position", "ASC"]], attributes: ["id"], transaction });
+  return rows.map((r) => r.id);
+}
+
+async function week(planId: number, weekId: number, transaction: Transaction) {
+  const w = await PlanWeek.findOne({ where: { id: weekId, planId }, transaction });
+  if (!w) throw new PlanError("That week is not part of this plan.", 404);
+  return w;
+}
+
+/**
+ * Applies one board change in one write transaction: ownership, then the version check (a stale board gets 409),
+ * then the change with every touched day renumbered, then a new plan version. Returns the plan's items afterwards.
+ */
+export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp) {
+  const shelfSession = op.op === "copy" ? await getSession(ownerId, op.sessionId) : null;
+  if (op.op === "copy" && !shelfSession) throw new PlanError("That session is not on your shelf.", 404);
+  return writeTransaction(async (transaction) => {
+    const plan = await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction });
+    if (!plan) throw new PlanError("No plan with this id is yours.", 404);
+    if (op.version !== undefined && op.version !== plan.version) throw new StaleBoardError(plan.version);
+    let touchedItem: number | null = null;
+    switch (op.op) {
+      case "copy": {
+        await week(planId, op.toWeek, transaction);
+        const ids = await slotIds(op.toWeek, op.toDay, transaction);
+        const { session, blocks } = shelfSession!;
+        const item = await PlanItem.create(
+          { planId, weekId: op.toWeek, day: op.toDay, position: 1000 + ids.length, sourceSessionId: session.id, name: session.name, sport: session.sport, testProtocol: session.testProtocol, blocks },
+          { transaction },
+        );
+        ids.splice(Math.min(op.toIndex, ids.length), 0, item.id);
+        await writeOrder(op.toWeek, op.toDay, ids, transaction);
+        touchedItem = item.id;
+        break;
+      }
+      case "move": {
+        const item = await PlanItem.findOne({ where: { id: op.itemId, planId }, transaction });
+        if (!item) throw new PlanError("That session is no longer on this plan.", 404);
+        await week(planId, op.toWeek, transaction);
+        const from = { weekId: item.weekId, day: item.day };
+        const ids = await slotIds(op.toWeek, op.toDay, transaction, item.id);
+        ids.splice(Math.min(op.toIndex, ids.length), 0, item.id);
+        await writeOrder(op.toWeek, op.toDay, ids, transaction);
+        if (from.weekId !== op.toWeek || from.day !== op.toDay) await writeOrder(from.weekId, from.day, await slotIds(from.weekId, from.day, transaction), transaction);
+        touchedItem = item.id;
+        break;
+      }
+      case "remove": {
+        const item = await PlanItem.findOne({ where: { id: op.itemId, planId }, transaction });
+        if (!item) throw new PlanError("That session is no longer on this plan.", 404);
+        await item.destroy({ transaction });
+        await writeOrder(item.weekId, item.day, await slotIds(item.weekId, item.day, transaction), transaction);
+        break;
+      }
+      case "duplicate-week":
+      case "move-week": {
+        if (op.fromWeek === op.toWeek) throw new PlanError("Choose a different week.", 400);
+        await week(planId, op.fromWeek, transaction);
+        await week(planId, op.toWeek, transaction);
+        const source = await PlanItem.findAll({ where: { weekId: op.fromWeek }, order: [["day", "ASC"], ["position", "ASC"]], transaction });
+        for (const item of source) {
+          const ids = await slotIds(op.toWeek, item.day, transaction);
+          if (op.op === "move-week") {
+            await item.update({ weekId: op.toWeek, position: 1000 + ids.length }, { transaction });
+            ids.push(item.id);
+          } else {
+            const copy = await PlanItem.create(
+              { planId, weekId: op.toWeek, day: item.day, position: 1000 + ids.length, sourceSessionId: item.sourceSessionId, name: item.name, sport: item.sport, testProtocol: item.testProtocol, blocks: item.blocks, timeOfDay: item.timeOfDay, notes: item.notes },
+              { transaction },
+            );
+            ids.push(copy.id);
+          }
+          await writeOrder(op.toWeek, item.day, ids, transaction);
+        }
+        break;
+      }
+      case "time": {
+        const [n] = await PlanItem.update({ timeOfDay: op.timeOfDay }, { where: { id: op.itemId, planId }, transaction });
+        if (n !== 1) throw new PlanError("That session is no longer on this plan.", 404);
+        touchedItem = op.itemId;
+        break;
+      }
+    }
+    await bumpVersion(planId, transaction);
+    const items = await PlanItem.findAll({ where: { planId }, order: [["day", "ASC"], ["position", "ASC"]], transaction });
+    return { version: plan.version + 1, items: items.map(itemView), touchedItem };
+  });
+}

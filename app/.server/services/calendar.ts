@@ -1,0 +1,159 @@
+import { Op } from "sequelize";
+import { writeTransaction } from "../db";
+import { forbidden, notFound } from "../http";
+import { ScheduledBlock, ScheduledSession, User } from "../models";
+import { coachHasAthlete } from "./accounts";
+import { thresholdHistory } from "./thresholds";
+import { resolveSteps } from "./materialize";
+import { blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
+
+/**
+ * Whose calendar a request may read: an athlete their own; a coach any athlete on their roster (others: 404).
+ * The athlete id comes from the URL for coaches and is ignored for athletes.
+ */
+export async function calendarSubject(viewer: User, athleteIdParam: string | null | undefined): Promise<User> {
+  if (viewer.role === "athlete") return viewer;
+  if (viewer.role !== "coach") forbidden("Calendars belong to athletes and their coaches.");
+  const id = Number(athleteIdParam);
+  if (!(await coachHasAthlete(viewer.id, id))) notFound("No athlete with this id is on your roster.");
+  const athlete = await User.findByPk(id);
+  if (!athlete) notFound("No athlete with this id is on your roster.");
+  return athlete;
+}
+
+export function stepView(b: ScheduledBlock): StepView {
+  return {
+    position: b.position,
+    blockIndex: b.blockIndex,
+    kind: b.kind,
+    part: b.part,
+    rep: b.rep,
+    repCount: b.repCount,
+    durationS: b.durationS,
+    metric: b.metric,
+    lowPct: b.lowPct,
+    highPct: b.highPct,
+    ramp: b.ramp,
+    lowAbs: b.lowAbs,
+    highAbs: b.highAbs,
+    unit: b.unit,
+    cue: b.cue,
+  };
+}
+
+export interface CalendarEntry {
+  id: number;
+  date: string;
+  position: number;
+  timeOfDay: string | null;
+  name: string;
+  sport: string;
+  status: string;
+  testProtocol: string | null;
+  plannedDurationS: number;
+  plannedLoad: number;
+  effortScore: number | null;
+  keyTarget: string;
+  needsTest: boolean;
+  lines: string[];
+}
+
+export async function calendarRange(athleteId: number, from: string, to: string): Promise<CalendarEntry[]> {
+  const sessions = await ScheduledSession.findAll({
+    where: { athleteId, date: { [Op.between]: [from, to] }, status: { [Op.ne]: "cancelled" } },
+    order: [["date", "ASC"], ["position", "ASC"], ["id", "ASC"]],
+  });
+  const blocks = sessions.length ? await ScheduledBlock.findAll({ where: { scheduledSessionId: sessions.map((s) => s.id) }, order: [["position", "ASC"]] }) : [];
+  const bySession = new Map<number, StepView[]>();
+  for (const b of blocks) {
+    const list = bySession.get(b.scheduledSessionId) ?? [];
+    list.push(stepView(b));
+    bySession.set(b.scheduledSessionId, list);
+  }
+  return sessions.map((s) => {
+    const steps = bySession.get(s.id) ?? [];
+    const lines = blockLines(steps);
+    return {
+      id: s.id,
+      date: s.date,
+      position: s.position,
+      timeOfDay: s.timeOfDay,
+      name: s.name,
+      sport: s.sport,
+      status: s.status,
+      testProtocol: s.testProtocol,
+      plannedDurationS: s.plannedDurationS,
+      plannedLoad: s.plannedLoad,
+      effortScore: s.effortScore,
+      keyTarget: keyTarget(steps),
+      needsTest: lines.some((l) => l.needsTest),
+      lines: lines.map((l) => l.text),
+    };
+  });
+}
+
+export async function sessionDetail(athleteId: number, id: number) {
+  const session = Number.isInteger(id) && id > 0 ? await ScheduledSession.findOne({ where: { id, athleteId } }) : null;
+  if (!session) return null;
+  const blocks = await ScheduledBlock.findAll({ where: { scheduledSessionId: id }, order: [["position", "ASC"]] });
+  return { session, steps: blocks.map(stepView), thresholdValues: [...new Set(blocks.map((b) => b.thresholdValue).filter((v) => v !== null))] };
+}
+
+export class CalendarError extends Error {
+  name = "CalendarError";
+  constructor(
+    message: string,
+    readonly status = 400,
+  ) {
+    super(message);
+  }
+}
+
+/**
+ * Moves a planned session to another day. Targets are resolved again for the new date (a threshold may differ),
+ * and the feed sequence moves on so subscribed calendars pick the change up.
+ */
+export async function moveSession(athleteId: number, id: number, date: string) {
+  return writeTransaction(async (transaction) => {
+    const session = await ScheduledSession.findOne({ where: { id, athleteId }, transaction });
+    if (!session) throw new CalendarError("That session is not on this calendar.", 404);
+    if (session.status !== "planned") throw new CalendarError("Only planned sessions can be moved; this one is already done or skipped.");
+    const old = await ScheduledBlock.findAll({ where: { scheduledSessionId: id }, order: [["position", "ASC"]], transaction });
+    const history = await thresholdHistory(athleteId, transaction);
+    const last = (await ScheduledSession.max("position", { where: { athleteId, date }, transaction })) as number | null;
+    await session.update({ date, position: last === null ? 0 : last + 1, feedSequence: session.feedSequence + 1 }, { transaction });
+    // Each step keeps its percentages; only the absolute numbers are looked up again for the new date.
+    for (const b of old) {
+      const fresh = resolveOne(b, history, date, session.sport, athleteId);
+      await ScheduledBlock.update({ date, lowAbs: fresh.lowAbs, highAbs: fresh.highAbs, unit: fresh.unit, thresholdId: fresh.thresholdId, thresholdValue: fresh.thresholdValue }, { where: { id: b.id }, transaction });
+    }
+    return session;
+  });
+}
+
+/** One stored step resolved again: treated as a run from its low to its high percentage, as every step is. */
+function resolveOne(b: ScheduledBlock, history: Awaited<ReturnType<typeof thresholdHistory>>, date: string, sport: string, athleteId: number) {
+  if (b.metric === null || b.lowPct === null || b.highPct === null) return { lowAbs: null, highAbs: null, unit: null, thresholdId: null, thresholdValue: null };
+  const [row] = resolveSteps([{ kind: "ramp", durationS: b.durationS, metric: b.metric as "power", fromPct: b.lowPct, toPct: b.highPct }], { athleteId, date, sport, history });
+  return row;
+}
+
+export async function completeSession(athleteId: number, id: number, input: { status: "done" | "skipped" | "planned"; effortScore: number | null; minutes: number | null; comment: string }) {
+  return writeTransaction(async (transaction) => {
+    const session = await ScheduledSession.findOne({ where: { id, athleteId }, transaction });
+    if (!session) throw new CalendarError("That session is not on this calendar.", 404);
+    if (session.status === "cancelled") throw new CalendarError("This session was removed from the plan.");
+    await session.update(
+      {
+        status: input.status,
+        effortScore: input.status === "done" ? input.effortScore : null,
+        actualMinutes: input.status === "done" ? input.minutes : null,
+        comment: input.comment || null,
+        completedAt: input.status === "planned" ? null : new Date(),
+        feedSequence: session.feedSequence + 1,
+      },
+      { transaction },
+    );
+    return session;
+  });
+}

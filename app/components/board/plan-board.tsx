@@ -1,0 +1,537 @@
+import {
+  closestCorners,
+  DndContext,
+  DragOverlay,
+  KeyboardSensor,
+  PointerSensor,
+  useDraggable,
+  useDroppable,
+  useSensor,
+  useSensors,
+  type Announcements,
+  type DragEndEvent,
+  type DragStartEvent,
+  type UniqueIdentifier,
+} from "@dnd-kit/core";
+import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from "@dnd-kit/sortable";
+import { CSS } from "@dnd-kit/utilities";
+import { useEffect, useMemo, useRef, useState } from "react";
+import { useFetcher, useRevalidator } from "react-router";
+import { SessionProfile } from "~/components/session-profile";
+import { buttonClass } from "~/components/ui/button";
+import { addDays, formatDay } from "~/lib/dates";
+import { formatMinutes } from "~/lib/duration";
+import { DAY_LONG, DAY_NAMES, PHASE_LABEL } from "~/lib/plans";
+import { describeBlock } from "~/lib/sessions";
+import { estimateSession, expandBlocks, type Block } from "~/lib/training";
+
+export interface BoardItem {
+  id: number;
+  weekId: number;
+  day: number;
+  position: number;
+  name: string;
+  sport: string;
+  testProtocol: string | null;
+  blocks: Block[];
+  durationS: number;
+  timeOfDay: string | null;
+}
+export interface BoardWeek {
+  id: number;
+  idx: number;
+  phase: string;
+  recovery: boolean;
+  test: boolean;
+  plannedHours: number;
+  notes: string;
+}
+export interface BoardData {
+  plan: { id: number; name: string; startDate: string | null; version: number };
+  weeks: BoardWeek[];
+  items: BoardItem[];
+}
+interface ShelfEntry {
+  id: number;
+  name: string;
+  sport: string;
+  durationS: number;
+  profile: { s: number; d: number; lo: number | null; hi: number | null; ramp: boolean }[];
+  tags: string[];
+}
+type Op =
+  | { op: "copy"; sessionId: number; toWeek: number; toDay: number; toIndex: number }
+  | { op: "move"; itemId: number; toWeek: number; toDay: number; toIndex: number }
+  | { op: "remove"; itemId: number }
+  | { op: "duplicate-week" | "move-week"; fromWeek: number; toWeek: number }
+  | { op: "time"; itemId: number; timeOfDay: string | null };
+type ServerReply = { version: number; items: BoardItem[] } | { error: string; version?: number };
+
+/** Rise of planned load over the previous non-recovery week above which a week is flagged (common practice). */
+const RISE_CAP = 0.1;
+
+const slotId = (weekId: number, day: number) => `slot:${weekId}:${day}`;
+const itemKey = (id: number) => `item:${id}`;
+
+function profileOf(blocks: Block[]) {
+  try {
+    return expandBlocks(blocks).map((s) => ({ s: s.startS, d: s.durationS, lo: s.lowPct, hi: s.highPct, ramp: s.ramp }));
+  } catch {
+    return [];
+  }
+}
+function estimateOf(blocks: Block[]) {
+  try {
+    return estimateSession(blocks);
+  } catch {
+    return null;
+  }
+}
+
+/** Applies a change to the local items at once (optimistic); the server's answer then replaces them. */
+function applyLocal(items: BoardItem[], op: Op, shelf: ShelfEntry[], tempId: number): BoardItem[] {
+  const slot = (w: number, d: number, list: BoardItem[]) => list.filter((i) => i.weekId === w && i.day === d).sort((a, b) => a.position - b.position);
+  const renumber = (list: BoardItem[], w: number, d: number, order: BoardItem[]) => {
+    const ids = order.map((i) => i.id);
+    return list.map((i) => (i.weekId === w && i.day === d && ids.includes(i.id) ? { ...i, position: ids.indexOf(i.id) } : i));
+  };
+  if (op.op === "move" || op.op === "copy") {
+    let moving: BoardItem;
+    let rest = items;
+    if (op.op === "move") {
+      moving = items.find((i) => i.id === op.itemId)!;
+      rest = items.filter((i) => i.id !== op.itemId);
+      rest = renumber(rest, moving.weekId, moving.day, slot(moving.weekId, moving.day, rest));
+    } else {
+      const s = shelf.find((x) => x.id === op.sessionId)!;
+      moving = { id: tempId, weekId: op.toWeek, day: op.toDay, position: 0, name: s.name, sport: s.sport, testProtocol: null, blocks: [], durationS: s.durationS, timeOfDay: null };
+    }
+    const target = slot(op.toWeek, op.toDay, rest);
+    const placed = { ...moving, weekId: op.toWeek, day: op.toDay };
+    target.splice(Math.min(op.toIndex, target.length), 0, placed);
+    return renumber([...rest.filter((i) => !(i.weekId === op.toWeek && i.day === op.toDay)), ...target], op.toWeek, op.toDay, target);
+  }
+  if (op.op === "remove") return items.filter((i) => i.id !== op.itemId);
+  if (op.op === "time") return items.map((i) => (i.id === op.itemId ? { ...i, timeOfDay: op.timeOfDay } : i));
+  return items;
+}
+
+export function PlanBoard({ data }: { data: BoardData }) {
+  const { plan, weeks } = data;
+  const [items, setItems] = useState<BoardItem[]>(data.items);
+  const [version, setVersion] = useState(plan.version);
+  const [selected, setSelected] = useState<number | null>(null);
+  const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
+  const [activeId, setActiveId] = useState<UniqueIdentifier | null>(null);
+  const fetcher = useFetcher<ServerReply>();
+  const revalidator = useRevalidator();
+  const queue = useRef<Op[]>([]);
+  const confirmed = useRef<BoardItem[]>(data.items);
+  const tempIds = useRef(-1);
+
+  // A reload (after a 409, or navigation back) brings fresh server data: adopt it.
+  useEffect(() => {
+    setItems(data.items);
+    confirmed.current = data.items;
+    setVersion(data.plan.version);
+  }, [data.items, data.plan.version]);
+
+  const shelfFetcher = useFetcher<{ sessions: ShelfEntry[] }>();
+  const [q, setQ] = useState("");
+  useEffect(() => {
+    const t = setTimeout(() => shelfFetcher.load(`/api/sessions?q=${encodeURIComponent(q)}`), q ? 200 : 0);
+    return () => clearTimeout(t);
+  }, [q]); // eslint-disable-line react-hooks/exhaustive-deps
+  const shelf = shelfFetcher.data?.sessions ?? [];
+
+  const send = (op: Op, v: number) => fetcher.submit({ ...op, version: v }, { method: "post", action: `/api/plans/${plan.id}/items`, encType: "application/json" });
+
+  // Changes go to the server one at a time, each with the version the previous answer gave.
+  useEffect(() => {
+    if (fetcher.state !== "idle" || !fetcher.data) return;
+    const reply = fetcher.data;
+    if ("error" in reply) {
+      queue.current = [];
+      setItems(confirmed.current);
+      setMessage({ tone: "error", text: reply.error });
+      if (reply.version !== undefined) revalidator.revalidate();
+    } else {
+      confirmed.current = reply.items;
+      setVersion(reply.version);
+      const next = queue.current.shift();
+      if (next) send(next, reply.version);
+      else setItems(reply.items);
+    }
+  }, [fetcher.state, fetcher.data]); // eslint-disable-line react-hooks/exhaustive-deps
+
+  const change = (op: Op, announce?: string) => {
+    setMessage(announce ? { tone: "ok", text: announce } : null);
+    setItems((list) => applyLocal(list, op, shelf, tempIds.current--));
+    if (fetcher.state === "idle" && queue.current.length === 0) send(op, version);
+    else queue.current.push(op);
+  };
+
+  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 5 } }), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
+  const weekById = useMemo(() => new Map(weeks.map((w) => [w.id, w])), [weeks]);
+  const describeSlot = (id: UniqueIdentifier | undefined) => {
+    const s = String(id ?? "");
+    let weekId: number | undefined;
+    let day: number | undefined;
+    if (s.startsWith("slot:")) [, weekId, day] = s.split(":").map(Number) as [number, number, number];
+    else if (s.startsWith("item:")) {
+      const it = items.find((i) => i.id === Number(s.slice(5)));
+      weekId = it?.weekId;
+      day = it?.day;
+    }
+    const w = weekId !== undefined ? weekById.get(weekId) : undefined;
+    return w && day !== undefined ? `${DAY_LONG[day]}, week ${w.idx}` : "nowhere";
+  };
+  const nameOf = (id: UniqueIdentifier) => {
+    const s = String(id);
+    if (s.startsWith("shelf:")) return shelf.find((x) => x.id === Number(s.slice(6)))?.name ?? "session";
+    return items.find((i) => i.id === Number(s.slice(5)))?.name ?? "session";
+  };
+  const announcements: Announcements = {
+    onDragStart: ({ active }) => `Picked up ${nameOf(active.id)}. Arrow keys move it between days and weeks; Space drops it; Escape cancels.`,
+    onDragOver: ({ active, over }) => `${nameOf(active.id)} is over ${describeSlot(over?.id)}.`,
+    onDragEnd: ({ active, over }) => (over ? `${nameOf(active.id)} placed on ${describeSlot(over.id)}.` : `${nameOf(active.id)} was not placed.`),
+    onDragCancel: ({ active }) => `Cancelled. ${nameOf(active.id)} stays where it was.`,
+  };
+
+  const onDragStart = (e: DragStartEvent) => setActiveId(e.active.id);
+  const onDragEnd = ({ active, over }: DragEndEvent) => {
+    setActiveId(null);
+    if (!over) return;
+    const overId = String(over.id);
+    let toWeek: number;
+    let toDay: number;
+    let toIndex: number;
+    const activeItemId = String(active.id).startsWith("item:") ? Number(String(active.id).slice(5)) : null;
+    if (overId.startsWith("slot:")) {
+      [, toWeek, toDay] = overId.split(":").map(Number) as [number, number, number];
+      toIndex = items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== activeItemId).length;
+    } else {
+      const target = items.find((i) => i.id === Number(overId.slice(5)));
+      if (!target) return;
+      toWeek = target.weekId;
+      toDay = target.day;
+      toIndex = items.filter((i) => i.weekId === toWeek && i.day === toDay).sort((a, b) => a.position - b.position).findIndex((i) => i.id === target.id);
+    }
+    const where = `${DAY_LONG[toDay]}, week ${weekById.get(toWeek)?.idx}`;
+    if (String(active.id).startsWith("shelf:")) {
+      const sessionId = Number(String(active.id).slice(6));
+      change({ op: "copy", sessionId, toWeek, toDay, toIndex }, `Added ${nameOf(active.id)} on ${where}.`);
+    } else if (activeItemId !== null) {
+      const it = items.find((i) => i.id === activeItemId)!;
+      const sameSlot = it.weekId === toWeek && it.day === toDay;
+      if (sameSlot && it.position === toIndex) return;
+      change({ op: "move", itemId: activeItemId, toWeek, toDay, toIndex }, `Moved ${it.name} to ${where}.`);
+    }
+  };
+
+  const estimates = useMemo(() => new Map(items.map((i) => [i.id, estimateOf(i.blocks)])), [items]);
+  const weekStats = useMemo(() => {
+    const stats = weeks.map((w) => {
+      const mine = items.filter((i) => i.weekId === w.id);
+      const levels = new Array(7).fill(0);
+      let load = 0;
+      let seconds = 0;
+      for (const i of mine) {
+        const e = estimates.get(i.id);
+        seconds += i.durationS;
+        if (e) {
+          load += e.plannedEffortLoad;
+          e.minutesPerLevel.forEach((m, k) => (levels[k] += m));
+        }
+      }
+      return { week: w, load, seconds, levels };
+    });
+    let prev: number | null = null;
+    return stats.map((s) => {
+      const rise = prev && prev > 0 && !s.week.recovery ? (s.load - prev) / prev : 0;
+      if (!s.week.recovery && s.load > 0) prev = s.load;
+      return { ...s, rise, warn: rise > RISE_CAP };
+    });
+  }, [weeks, items, estimates]);
+  const maxLoad = Math.max(1, ...weekStats.map((s) => s.load));
+  const selectedItem = items.find((i) => i.id === selected) ?? null;
+  const activeShelf = activeId && String(activeId).startsWith("shelf:") ? shelf.find((s) => s.id === Number(String(activeId).slice(6))) : null;
+  const activeItem = activeId && String(activeId).startsWith("item:") ? items.find((i) => i.id === Number(String(activeId).slice(5))) : null;
+
+  return (
+    <DndContext id="plan-board" sensors={sensors} collisionDetection={closestCorners} onDragStart={onDragStart} onDragEnd={onDragEnd} onDragCancel={() => setActiveId(null)} accessibility={{ announcements }}>
+      <div className="flex min-h-[70vh] gap-3">
+        <aside className="flex w-60 shrink-0 flex-col rounded-xl border border-line bg-white" aria-label="Session shelf">
+          <div className="border-b border-line p-3">
+            <h2 className="font-semibold">Session shelf</h2>
+            <label className="mt-2 block text-xs">
+              <span className="sr-only">Search the shelf</span>
+              <input type="search" value={q} onChange={(e) => setQ(e.target.value)} placeholder="Search the shelf" className="w-full rounded-md border border-line px-2 py-1.5 text-sm" />
+            </label>
+            <p className="mt-2 text-xs text-ink-soft">Drag a session onto a day, or focus it and press Space, then the arrow keys.</p>
+          </div>
+          <ul className="flex max-h-[70vh] flex-col gap-2 overflow-y-auto p-3" aria-label="Shelf sessions">
+            {shelf.map((s) => (
+              <li key={s.id}>
+                <ShelfCard session={s} />
+              </li>
+            ))}
+            {shelfFetcher.data && shelf.length === 0 && <li className="text-sm text-ink-soft">No sessions match.</li>}
+          </ul>
+        </aside>
+
+        <div className="relative min-w-0 flex-1 overflow-x-auto pb-3" aria-label="Weeks of the plan">
+          {message && (
+            <div role={message.tone === "error" ? "alert" : "status"} className={`sticky left-0 mb-2 rounded-lg px-3 py-2 text-sm ${message.tone === "error" ? "bg-brick/10 text-brick" : "bg-teal/10 text-teal-dark"}`}>
+              {message.text}
+            </div>
+          )}
+          <ol className="flex gap-3">
+            {weekStats.map(({ week, load, seconds, levels, warn, rise }) => (
+              <li key={week.id} className="w-52 shrink-0" data-testid={`week-${week.idx}`}>
+                <WeekColumn
+                  week={week}
+                  weeks={weeks}
+                  startDate={plan.startDate}
+                  load={load}
+                  maxLoad={maxLoad}
+                  seconds={seconds}
+                  levels={levels}
+                  warn={warn}
+                  rise={rise}
+                  items={items.filter((i) => i.weekId === week.id)}
+                  selected={selected}
+                  onSelect={setSelected}
+                  onWeekOp={(op, toWeek) => change({ op, fromWeek: week.id, toWeek }, op === "duplicate-week" ? `Copied week ${week.idx}.` : `Moved week ${week.idx}'s sessions.`)}
+                />
+              </li>
+            ))}
+          </ol>
+        </div>
+
+        {selectedItem && (
+          <ItemDrawer
+            item={selectedItem}
+            weeks={weeks}
+            onClose={() => setSelected(null)}
+            onRemove={() => {
+              change({ op: "remove", itemId: selectedItem.id }, `Removed ${selectedItem.name}.`);
+              setSelected(null);
+            }}
+            onMove={(toWeek, toDay) => change({ op: "move", itemId: selectedItem.id, toWeek, toDay, toIndex: items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== selectedItem.id).length }, `Moved ${selectedItem.name}.`)}
+            onTime={(t) => change({ op: "time", itemId: selectedItem.id, timeOfDay: t })}
+          />
+        )}
+      </div>
+      <DragOverlay>
+        {activeShelf ? <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={activeShelf.profile} lifted /> : activeItem ? <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={profileOf(activeItem.blocks)} lifted /> : null}
+      </DragOverlay>
+    </DndContext>
+  );
+}
+
+function CardBody({ name, durationS, profile, test, time, lifted }: { name: string; durationS: number; profile: ReturnType<typeof profileOf>; test?: boolean; time?: string | null; lifted?: boolean }) {
+  return (
+    <div className={`rounded-lg border bg-white p-2 text-left text-xs ${lifted ? "border-teal shadow-lg" : "border-line"}`}>
+      <div className="flex items-start justify-between gap-1">
+        <span className="font-medium leading-tight">{name}</span>
+        <span className="num shrink-0 text-ink-soft">{formatMinutes(durationS)}</span>
+      </div>
+      <SessionProfile steps={profile} height={18} className="mt-1" label={`Profile of ${name}`} />
+      {(test || time) && (
+        <div className="mt-1 flex gap-1">
+          {test && <span className="rounded bg-brick/15 px-1 text-[10px] text-brick">field test</span>}
+          {time && <span className="num rounded bg-paper-deep px-1 text-[10px]">{time}</span>}
+        </div>
+      )}
+    </div>
+  );
+}
+
+function ShelfCard({ session }: { session: ShelfEntry }) {
+  const { attributes, listeners, setNodeRef, isDragging } = useDraggable({ id: `shelf:${session.id}`, data: { sessionId: session.id } });
+  return (
+    <button ref={setNodeRef} type="button" {...attributes} {...listeners} aria-label={`Shelf session ${session.name}, ${formatMinutes(session.durationS)}`} className={`block w-full cursor-grab ${isDragging ? "opacity-40" : ""}`}>
+      <CardBody name={session.name} durationS={session.durationS} profile={session.profile} />
+    </button>
+  );
+}
+
+function WeekColumn(props: {
+  week: BoardWeek;
+  weeks: BoardWeek[];
+  startDate: string | null;
+  load: number;
+  maxLoad: number;
+  seconds: number;
+  levels: number[];
+  warn: boolean;
+  rise: number;
+  items: BoardItem[];
+  selected: number | null;
+  onSelect: (id: number) => void;
+  onWeekOp: (op: "duplicate-week" | "move-week", toWeek: number) => void;
+}) {
+  const { week, startDate } = props;
+  const monday = startDate ? addDays(startDate, (week.idx - 1) * 7) : null;
+  const [target, setTarget] = useState<number>(props.weeks.find((w) => w.id !== week.id)?.id ?? week.id);
+  const totalLevels = props.levels.reduce((a, b) => a + b, 0) || 1;
+  return (
+    <section className="flex h-full flex-col overflow-hidden rounded-xl border border-line bg-white" aria-label={`Week ${week.idx}`}>
+      <div className="h-2" style={{ background: `var(--color-phase-${week.phase})`, opacity: week.recovery ? 0.45 : 1 }} />
+      <header className="border-b border-line px-2.5 py-2 text-xs">
+        <div className="flex items-baseline justify-between">
+          <h3 className="text-sm font-semibold">Week {week.idx}</h3>
+          <span className="text-ink-soft">{PHASE_LABEL[week.phase as keyof typeof PHASE_LABEL] ?? week.phase}</span>
+        </div>
+        <p className="num text-ink-soft">{monday ? `${formatDay(monday, { day: "numeric", month: "short" })} – ${formatDay(addDays(monday, 6), { day: "numeric", month: "short" })}` : `Week ${week.idx} of the plan`}</p>
+        <div className="mt-1 flex flex-wrap gap-1">
+          {week.recovery && <span className="rounded bg-phase-recovery/30 px-1">recovery</span>}
+          {week.test && <span className="rounded bg-brick/15 px-1 text-brick">test week</span>}
+        </div>
+        <p className="num mt-1">
+          {formatMinutes(props.seconds)} of {week.plannedHours} h planned
+        </p>
+        <div className="mt-1 h-1.5 rounded bg-paper-deep" title={`Planned load ${Math.round(props.load)}`}>
+          <div className={`h-1.5 rounded ${props.warn ? "bg-brick" : "bg-teal"}`} style={{ width: `${(props.load / props.maxLoad) * 100}%` }} />
+        </div>
+        <div className="mt-1 flex h-1.5 overflow-hidden rounded" aria-label="Minutes per level">
+          {props.levels.map((m, i) => (m > 0 ? <span key={i} style={{ width: `${(m / totalLevels) * 100}%`, background: `var(--color-level-${i + 1})` }} /> : null))}
+        </div>
+        {props.warn && (
+          <p role="note" className="mt-1 font-medium text-brick">
+            Load up {Math.round(props.rise * 100)} % on the last loading week (cap {RISE_CAP * 100} %).
+          </p>
+        )}
+      </header>
+      <div className="flex flex-1 flex-col divide-y divide-line/70">
+        {DAY_NAMES.map((d, day) => (
+          <DaySlot key={day} weekId={week.id} day={day} label={d} weekIdx={week.idx} items={props.items.filter((i) => i.day === day).sort((a, b) => a.position - b.position)} selected={props.selected} onSelect={props.onSelect} />
+        ))}
+      </div>
+      <footer className="flex flex-wrap items-center gap-1 border-t border-line p-2 text-xs">
+        <label className="sr-only" htmlFor={`week-target-${week.id}`}>
+          Target week for week {week.idx}
+        </label>
+        <select id={`week-target-${week.id}`} value={target} onChange={(e) => setTarget(Number(e.target.value))} className="rounded border border-line px-1 py-0.5">
+          {props.weeks
+            .filter((w) => w.id !== week.id)
+            .map((w) => (
+              <option key={w.id} value={w.id}>
+                to week {w.idx}
+              </option>
+            ))}
+        </select>
+        <button type="button" className="rounded px-1.5 py-0.5 text-teal hover:bg-teal/10" onClick={() => props.onWeekOp("duplicate-week", target)}>
+          Copy
+        </button>
+        <button type="button" className="rounded px-1.5 py-0.5 text-teal hover:bg-teal/10" onClick={() => props.onWeekOp("move-week", target)}>
+          Move
+        </button>
+      </footer>
+    </section>
+  );
+}
+
+function DaySlot({ weekId, day, label, weekIdx, items, selected, onSelect }: { weekId: number; day: number; label: string; weekIdx: number; items: BoardItem[]; selected: number | null; onSelect: (id: number) => void }) {
+  const { setNodeRef, isOver } = useDroppable({ id: slotId(weekId, day) });
+  return (
+    <div ref={setNodeRef} className={`min-h-12 px-1.5 py-1 ${isOver ? "bg-teal/10" : ""}`} data-testid={`slot-${weekIdx}-${day}`} aria-label={`${DAY_LONG[day]}, week ${weekIdx}`} role="group">
+      <span className="text-[10px] font-medium tracking-wide text-ink-soft uppercase">{label}</span>
+      <SortableContext id={slotId(weekId, day)} items={items.map((i) => itemKey(i.id))} strategy={verticalListSortingStrategy}>
+        <ul className="flex flex-col gap-1">
+          {items.map((i) => (
+            <li key={i.id}>
+              <BoardCard item={i} selected={selected === i.id} onSelect={() => onSelect(i.id)} />
+            </li>
+          ))}
+        </ul>
+      </SortableContext>
+    </div>
+  );
+}
+
+function BoardCard({ item, selected, onSelect }: { item: BoardItem; selected: boolean; onSelect: () => void }) {
+  const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({ id: itemKey(item.id), disabled: item.id < 0 });
+  return (
+    <button
+      ref={setNodeRef}
+      type="button"
+      style={{ transform: CSS.Transform.toString(transform), transition }}
+      {...attributes}
+      {...listeners}
+      onClick={onSelect}
+      aria-pressed={selected}
+      aria-label={`${item.name}, ${formatMinutes(item.durationS)}`}
+      data-testid="board-item"
+      className={`block w-full cursor-grab rounded-lg ${selected ? "ring-2 ring-teal" : ""} ${isDragging ? "opacity-40" : ""}`}
+    >
+      <CardBody name={item.name} durationS={item.durationS} profile={profileOf(item.blocks)} test={Boolean(item.testProtocol)} time={item.timeOfDay} />
+    </button>
+  );
+}
+
+function ItemDrawer({ item, weeks, onClose, onRemove, onMove, onTime }: { item: BoardItem; weeks: BoardWeek[]; onClose: () => void; onRemove: () => void; onMove: (w: number, d: number) => void; onTime: (t: string | null) => void }) {
+  const estimate = estimateOf(item.blocks);
+  const [toWeek, setToWeek] = useState(item.weekId);
+  const [toDay, setToDay] = useState(item.day);
+  useEffect(() => {
+    setToWeek(item.weekId);
+    setToDay(item.day);
+  }, [item.weekId, item.day]);
+  return (
+    <aside className="w-72 shrink-0 rounded-xl border border-line bg-white p-4 text-sm" aria-label="Selected session">
+      <div className="flex items-start justify-between gap-2">
+        <h2 className="font-semibold">{item.name}</h2>
+        <button type="button" onClick={onClose} className="rounded px-2 text-ink-soft hover:bg-paper-deep" aria-label="Close details">
+          ✕
+        </button>
+      </div>
+      <SessionProfile steps={profileOf(item.blocks)} height={48} className="mt-2" />
+      <ol className="mt-3 flex flex-col gap-1">
+        {item.blocks.map((b, i) => (
+          <li key={i} className="num">
+            {describeBlock(b)}
+          </li>
+        ))}
+      </ol>
+      {estimate && (
+        <dl className="num mt-3 grid grid-cols-2 gap-1 text-xs">
+          <dt className="text-ink-soft">Duration</dt>
+          <dd className="text-right">{formatMinutes(estimate.durationS)}</dd>
+          <dt className="text-ink-soft">Planned effort load</dt>
+          <dd className="text-right">{Math.round(estimate.plannedEffortLoad)}</dd>
+        </dl>
+      )}
+      <label className="mt-3 flex items-center justify-between gap-2">
+        Time of day
+        <input type="time" defaultValue={item.timeOfDay ?? ""} onBlur={(e) => onTime(e.target.value || null)} className="rounded border border-line px-1 py-0.5" />
+      </label>
+      <fieldset className="mt-3 rounded-lg border border-line p-2">
+        <legend className="px-1 text-xs text-ink-soft">Move to</legend>
+        <div className="flex gap-1">
+          <select value={toWeek} onChange={(e) => setToWeek(Number(e.target.value))} aria-label="Move to week" className="flex-1 rounded border border-line px-1 py-0.5">
+            {weeks.map((w) => (
+              <option key={w.id} value={w.id}>
+                Week {w.idx}
+              </option>
+            ))}
+          </select>
+          <select value={toDay} onChange={(e) => setToDay(Number(e.target.value))} aria-label="Move to day" className="rounded border border-line px-1 py-0.5">
+            {DAY_NAMES.map((d, i) => (
+              <option key={d} value={i}>
+                {d}
+              </option>
+            ))}
+          </select>
+          <button type="button" className={buttonClass("secondary", "px-2 py-0.5")} onClick={() => onMove(toWeek, toDay)}>
+            Move
+          </button>
+        </div>
+      </fieldset>
+      <button type="button" onClick={onRemove} className={buttonClass("danger", "mt-3 w-full")}>
+        Remove from plan
+      </button>
+    </aside>
+  );
+}

@@ -1,0 +1,158 @@
+import { useFetcher } from "react-router";
+import { SessionProfile } from "~/components/session-profile";
+import { buttonClass } from "~/components/ui/button";
+import { Card } from "~/components/ui/card";
+import { FormMessage } from "~/components/ui/field";
+import { formatDay } from "~/lib/dates";
+import { formatMinutes } from "~/lib/duration";
+import { EFFORT_WORDS } from "~/lib/effort";
+import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
+import { blockLines, type StepView } from "~/lib/schedule-text";
+import { formatTarget, type TargetUnit } from "~/lib/training";
+
+export interface SessionDetailData {
+  session: {
+    id: number;
+    date: string;
+    timeOfDay: string | null;
+    name: string;
+    sport: string;
+    status: string;
+    testProtocol: string | null;
+    notes: string;
+    plannedDurationS: number;
+    effortScore: number | null;
+    actualMinutes: number | null;
+    comment: string | null;
+  };
+  steps: StepView[];
+  zones: { metric: string; unit: string; threshold: number; rows: { key: string; name: string; lo: number; hi: number | null }[] }[];
+}
+
+export function SessionDetail({ data, canComplete }: { data: SessionDetailData; canComplete: boolean }) {
+  const { session: s, steps, zones } = data;
+  const lines = blockLines(steps);
+  const profile = steps.map((st, i) => ({ s: steps.slice(0, i).reduce((t, x) => t + x.durationS, 0), d: st.durationS, lo: st.lowPct, hi: st.highPct, ramp: st.ramp }));
+  const protocol = s.testProtocol ? PROTOCOLS[s.testProtocol as ProtocolKey] : null;
+  return (
+    <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
+      <div className="flex flex-col gap-6">
+        <Card>
+          <p className="num text-sm text-ink-soft">
+            {formatDay(s.date, { weekday: "long", day: "numeric", month: "long", year: "numeric" })}
+            {s.timeOfDay && ` · ${s.timeOfDay}`} · {formatMinutes(s.plannedDurationS)} · <span className="capitalize">{s.status}</span>
+          </p>
+          <SessionProfile steps={profile} height={96} className="mt-3 rounded bg-paper/60" label={`Profile of ${s.name}`} />
+          <ol className="num mt-4 flex flex-col gap-2">
+            {lines.map((l) => (
+              <li key={l.blockIndex} className="flex flex-wrap items-baseline gap-2">
+                <span className="font-medium">{l.text}</span>
+                {l.needsTest && <span className="rounded bg-brick/10 px-1.5 text-xs text-brick">needs a field test: shown in % of threshold</span>}
+              </li>
+            ))}
+          </ol>
+          {s.notes && <p className="mt-4 text-sm whitespace-pre-wrap">{s.notes}</p>}
+        </Card>
+        {protocol && (
+          <Card className="border-brick/40">
+            <h2 className="font-semibold text-brick">Before this field test</h2>
+            <p className="mt-1 text-sm">{protocol.instructions}</p>
+            <p className="mt-3 text-sm font-medium">Stop at once if you notice:</p>
+            <ul className="mt-1 list-disc pl-5 text-sm">
+              {READINESS.stopSigns.map((x) => (
+                <li key={x}>{x}</li>
+              ))}
+            </ul>
+            <p className="mt-2 text-xs text-ink-soft">{READINESS.stopAdvice}</p>
+          </Card>
+        )}
+        {zones.map((z) => (
+          <Card key={z.metric}>
+            <h2 className="font-semibold">Your {z.metric === "power" ? "power levels" : z.metric === "heart_rate" ? "heart-rate zones" : "pace zones"}</h2>
+            <p className="num text-xs text-ink-soft">Threshold {formatTarget({ low: Math.round(z.threshold), high: Math.round(z.threshold), unit: z.unit as TargetUnit })}</p>
+            <table className="num mt-2 w-full text-sm">
+              <tbody>
+                {z.rows.map((r, i) => (
+                  <tr key={r.key} className="border-t border-line/60">
+                    <td className="py-1">
+                      <span className="mr-2 inline-block h-3 w-3 rounded-sm align-middle" style={{ background: `var(--color-level-${Math.min(7, i + 1)})` }} />
+                      {r.key} {r.name}
+                    </td>
+                    <td className="py-1 text-right">{r.hi === null ? `above ${fmt(r.lo, z.unit)}` : i === 0 ? `up to ${fmt(r.hi, z.unit)}` : `${fmt(r.lo, z.unit)} – ${fmt(r.hi, z.unit)}`}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </Card>
+        ))}
+      </div>
+      <aside>{canComplete ? <CompleteForm session={s} /> : <ResultCard session={s} />}</aside>
+    </div>
+  );
+}
+
+const fmt = (v: number, unit: string) => formatTarget({ low: Math.round(v), high: Math.round(v), unit: unit as TargetUnit });
+
+function ResultCard({ session: s }: { session: SessionDetailData["session"] }) {
+  return (
+    <Card>
+      <h2 className="font-semibold">Result</h2>
+      {s.status === "done" ? (
+        <p className="mt-2 text-sm">
+          Done{s.actualMinutes ? ` in ${Math.round(s.actualMinutes)} min` : ""}
+          {s.effortScore !== null ? `, effort ${s.effortScore} (${EFFORT_WORDS[s.effortScore]})` : ""}.
+        </p>
+      ) : (
+        <p className="mt-2 text-sm text-ink-soft capitalize">{s.status}</p>
+      )}
+      {s.comment && <p className="mt-2 text-sm italic">“{s.comment}”</p>}
+    </Card>
+  );
+}
+
+function CompleteForm({ session: s }: { session: SessionDetailData["session"] }) {
+  const fetcher = useFetcher<{ ok: boolean; message: string; fieldErrors?: Record<string, string> }>();
+  const errors = fetcher.data?.fieldErrors ?? {};
+  return (
+    <Card>
+      <h2 className="font-semibold">How did it go?</h2>
+      <fetcher.Form method="post" className="mt-3 flex flex-col gap-3 text-sm">
+        {fetcher.data && <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>}
+        <fieldset>
+          <legend className="font-medium">Effort score</legend>
+          <div className="mt-1 grid grid-cols-1 gap-0.5">
+            {EFFORT_WORDS.map((w, i) => (
+              <label key={i} className="flex items-center gap-2 rounded px-1 py-0.5 has-[:checked]:bg-teal/10">
+                <input type="radio" name="effortScore" value={i} defaultChecked={s.effortScore === i} />
+                <span className="num w-5 text-right font-medium">{i}</span> {w}
+              </label>
+            ))}
+          </div>
+          {errors.effortScore && <p className="text-brick">{errors.effortScore}</p>}
+        </fieldset>
+        <label className="flex flex-col gap-1">
+          <span className="font-medium">Minutes</span>
+          <input name="minutes" type="number" min={1} max={1440} defaultValue={s.actualMinutes ?? Math.round(s.plannedDurationS / 60)} className="num rounded-lg border border-line px-2 py-1.5" />
+          {errors.minutes && <span className="text-brick">{errors.minutes}</span>}
+        </label>
+        <label className="flex flex-col gap-1">
+          <span className="font-medium">Comment (optional)</span>
+          <textarea name="comment" rows={2} maxLength={1000} defaultValue={s.comment ?? ""} className="rounded-lg border border-line px-2 py-1.5" />
+        </label>
+        <div className="flex flex-wrap gap-2">
+          <button name="status" value="done" className={buttonClass("primary")} disabled={fetcher.state !== "idle"}>
+            Mark done
+          </button>
+          <button name="status" value="skipped" className={buttonClass("secondary")} disabled={fetcher.state !== "idle"}>
+            Skipped it
+          </button>
+          {s.status !== "planned" && (
+            <button name="status" value="planned" className={buttonClass("ghost")} disabled={fetcher.state !== "idle"}>
+              Undo
+            </button>
+          )}
+        </div>
+      </fetcher.Form>
+    </Card>
+  );
+}

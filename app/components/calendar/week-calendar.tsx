@@ -1,0 +1,151 @@
+import { DndContext, KeyboardSensor, PointerSensor, useDraggable, useDroppable, useSensor, useSensors, type Announcements, type DragEndEvent } from "@dnd-kit/core";
+import { useEffect, useState } from "react";
+import { Link, useFetcher } from "react-router";
+import { addDays, formatDay } from "~/lib/dates";
+import { formatMinutes } from "~/lib/duration";
+import { buttonClass } from "~/components/ui/button";
+
+export interface CalendarSession {
+  id: number;
+  date: string;
+  position: number;
+  timeOfDay: string | null;
+  name: string;
+  sport: string;
+  status: string;
+  testProtocol: string | null;
+  plannedDurationS: number;
+  keyTarget: string;
+  needsTest: boolean;
+  effortScore: number | null;
+}
+
+const WEEKS_SHOWN = 2;
+
+/**
+ * Two weeks of an athlete's calendar. Moving between weeks asks /api/calendar (no page reload); a session can be
+ * dragged (or picked up with Space and moved with the arrow keys) to another day.
+ */
+export function WeekCalendar({ athleteId, from: initialFrom, today, sessions: initial, sessionHref }: { athleteId?: number; from: string; today: string; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
+  const [from, setFrom] = useState(initialFrom);
+  const [sessions, setSessions] = useState(initial);
+  const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
+  const list = useFetcher<{ sessions: CalendarSession[]; from: string }>();
+  const move = useFetcher<{ ok?: boolean; error?: string }>();
+  const days = Array.from({ length: WEEKS_SHOWN * 7 }, (_, i) => addDays(from, i));
+  const to = days.at(-1)!;
+  const query = (f: string) => `/api/calendar?from=${f}&to=${addDays(f, WEEKS_SHOWN * 7 - 1)}${athleteId ? `&athleteId=${athleteId}` : ""}`;
+
+  useEffect(() => {
+    if (list.data?.sessions && list.data.from === from) setSessions(list.data.sessions);
+  }, [list.data, from]);
+  useEffect(() => {
+    if (move.state !== "idle" || !move.data) return;
+    if (move.data.error) {
+      setMessage({ tone: "error", text: move.data.error });
+      list.load(query(from));
+    }
+  }, [move.state, move.data]); // eslint-disable-line react-hooks/exhaustive-deps
+
+  const go = (weeks: number) => {
+    const f = addDays(from, weeks * 7);
+    setFrom(f);
+    list.load(query(f));
+  };
+
+  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 6 } }), useSensor(KeyboardSensor));
+  const nameOf = (id: unknown) => sessions.find((s) => `session:${s.id}` === id)?.name ?? "session";
+  const announcements: Announcements = {
+    onDragStart: ({ active }) => `Picked up ${nameOf(active.id)}. Arrow keys move it; Space drops it on a day; Escape cancels.`,
+    onDragOver: ({ active, over }) => `${nameOf(active.id)} is over ${over ? formatDay(String(over.id).slice(4), { weekday: "long", day: "numeric", month: "long" }) : "no day"}.`,
+    onDragEnd: ({ active, over }) => (over ? `${nameOf(active.id)} moved to ${formatDay(String(over.id).slice(4), { weekday: "long", day: "numeric", month: "long" })}.` : `${nameOf(active.id)} was not moved.`),
+    onDragCancel: ({ active }) => `Cancelled; ${nameOf(active.id)} stays on its day.`,
+  };
+  const onDragEnd = ({ active, over }: DragEndEvent) => {
+    if (!over) return;
+    const id = Number(String(active.id).slice(8));
+    const date = String(over.id).slice(4);
+    const s = sessions.find((x) => x.id === id);
+    if (!s || s.date === date) return;
+    setSessions((list) => list.map((x) => (x.id === id ? { ...x, date } : x)));
+    setMessage({ tone: "ok", text: `Moved ${s.name} to ${formatDay(date)}.` });
+    move.submit({ sessionId: id, date }, { method: "post", action: `/api/calendar${athleteId ? `?athleteId=${athleteId}` : ""}`, encType: "application/json" });
+  };
+
+  return (
+    <section aria-label="Calendar">
+      <div className="mb-3 flex flex-wrap items-center gap-2">
+        <button type="button" className={buttonClass("secondary", "px-3 py-1")} onClick={() => go(-WEEKS_SHOWN)} aria-label="Earlier weeks">
+          ← Earlier
+        </button>
+        <button type="button" className={buttonClass("secondary", "px-3 py-1")} onClick={() => go(WEEKS_SHOWN)} aria-label="Later weeks">
+          Later →
+        </button>
+        <h2 className="num text-lg font-semibold" aria-live="polite">
+          {formatDay(from, { day: "numeric", month: "short" })} – {formatDay(to, { day: "numeric", month: "short", year: "numeric" })}
+        </h2>
+        {list.state === "loading" && <span className="text-sm text-ink-soft">Loading…</span>}
+      </div>
+      {message && (
+        <p role={message.tone === "error" ? "alert" : "status"} className={`mb-2 rounded-lg px-3 py-2 text-sm ${message.tone === "error" ? "bg-brick/10 text-brick" : "bg-teal/10 text-teal-dark"}`}>
+          {message.text}
+        </p>
+      )}
+      <DndContext id="athlete-calendar" sensors={sensors} onDragEnd={onDragEnd} accessibility={{ announcements }}>
+        <ol className="grid grid-cols-1 gap-2 sm:grid-cols-7">
+          {days.map((d) => (
+            <Day key={d} date={d} today={today} sessions={sessions.filter((s) => s.date === d).sort((a, b) => a.position - b.position)} sessionHref={sessionHref} />
+          ))}
+        </ol>
+      </DndContext>
+    </section>
+  );
+}
+
+function Day({ date, today, sessions, sessionHref }: { date: string; today: string; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
+  const { setNodeRef, isOver } = useDroppable({ id: `day:${date}` });
+  const isToday = date === today;
+  return (
+    <li ref={setNodeRef} className={`min-h-24 rounded-xl border p-2 ${isOver ? "border-teal bg-teal/5" : isToday ? "border-brick bg-white" : "border-line bg-white"} ${date < today ? "opacity-80" : ""}`} data-testid={`day-${date}`}>
+      <p className={`num text-xs font-medium ${isToday ? "text-brick" : "text-ink-soft"}`}>
+        {formatDay(date)} {isToday && "· today"}
+      </p>
+      <ul className="mt-1 flex flex-col gap-1.5">
+        {sessions.map((s) => (
+          <li key={s.id}>
+            <SessionChip session={s} href={sessionHref(s.id)} />
+          </li>
+        ))}
+      </ul>
+    </li>
+  );
+}
+
+function SessionChip({ session: s, href }: { session: CalendarSession; href: string }) {
+  const { attributes, listeners, setNodeRef, transform, isDragging } = useDraggable({ id: `session:${s.id}`, disabled: s.status !== "planned" });
+  const tone = s.status === "done" ? "border-teal bg-teal/10" : s.status === "skipped" ? "border-line bg-paper-deep line-through" : s.testProtocol ? "border-brick/50 bg-brick/5" : "border-line bg-paper/60";
+  return (
+    <div
+      ref={setNodeRef}
+      style={transform ? { transform: `translate3d(${transform.x}px, ${transform.y}px, 0)` } : undefined}
+      className={`rounded-lg border p-1.5 text-xs ${tone} ${isDragging ? "z-10 shadow-lg" : ""}`}
+      data-testid="calendar-session"
+    >
+      <div className="flex items-start gap-1">
+        {s.status === "planned" && (
+          <button type="button" {...attributes} {...listeners} className="cursor-grab rounded px-0.5 text-ink-soft" aria-label={`Move ${s.name}`}>
+            ⠿
+          </button>
+        )}
+        <Link to={href} className="flex-1 font-medium leading-tight hover:underline">
+          {s.timeOfDay && <span className="num mr-1 text-ink-soft">{s.timeOfDay}</span>}
+          {s.name}
+        </Link>
+      </div>
+      <p className="num mt-0.5 text-ink-soft">{formatMinutes(s.plannedDurationS)}</p>
+      {s.keyTarget && <p className="num mt-0.5 font-medium text-teal-dark">{s.keyTarget}</p>}
+      {s.needsTest && <p className="mt-0.5 text-brick">needs a field test</p>}
+      {s.status !== "planned" && <p className="mt-0.5">{s.status === "done" ? `done${s.effortScore !== null ? ` · effort ${s.effortScore}` : ""}` : "skipped"}</p>}
+    </div>
+  );
+}

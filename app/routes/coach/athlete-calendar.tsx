@@ -1,0 +1,33 @@
+import { Link } from "react-router";
+import { WeekCalendar } from "~/components/calendar/week-calendar";
+import { PageHeader } from "~/components/ui/card";
+import { requireRole } from "~/.server/auth";
+import { calendarRange, calendarSubject } from "~/.server/services/calendar";
+import { addDays, mondayOf, todayIn } from "~/lib/dates";
+import type { Route } from "./+types/athlete-calendar";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.athlete.name ?? "Athlete"}'s calendar · Pacewright` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const coach = await requireRole(request, "coach");
+  const athlete = await calendarSubject(coach, params.athleteId);
+  const today = todayIn(athlete.timezone);
+  const from = mondayOf(today);
+  return { athlete: { id: athlete.id, name: athlete.name }, today, from, sessions: await calendarRange(athlete.id, from, addDays(from, 13)) };
+}
+
+export default function CoachAthleteCalendar({ loaderData }: Route.ComponentProps) {
+  const { athlete } = loaderData;
+  return (
+    <>
+      <p className="mb-2 text-sm">
+        <Link to={`/coach/athletes/${athlete.id}`} className="text-teal underline">
+          {athlete.name}
+        </Link>{" "}
+        / Calendar
+      </p>
+      <PageHeader title={`${athlete.name}'s calendar`} />
+      <WeekCalendar athleteId={athlete.id} from={loaderData.from} today={loaderData.today} sessions={loaderData.sessions} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
+    </>
+  );
+}

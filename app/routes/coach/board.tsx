@@ -1,0 +1,63 @@
+import { Link } from "react-router";
+import { PlanBoard } from "~/components/board/plan-board";
+import { requireRole } from "~/.server/auth";
+import { notFound } from "~/.server/http";
+import { Assignment } from "~/.server/models";
+import { loadPlan, PlanError } from "~/.server/services/plans";
+import type { Route } from "./+types/board";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Board · ${data?.plan.name ?? "Plan"} · Pacewright` }];
+export const handle = { wide: true };
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const coach = await requireRole(request, "coach");
+  try {
+    const loaded = await loadPlan(coach.id, Number(params.planId));
+    const assignments = await Assignment.findAll({ where: { planId: loaded.plan.id }, attributes: ["planVersion"] });
+    return {
+      ...loaded,
+      assigned: assignments.length,
+      outdated: assignments.filter((a) => a.planVersion < loaded.plan.version).length,
+    };
+  } catch (err) {
+    if (err instanceof PlanError && err.status === 404) notFound(err.message);
+    throw err;
+  }
+}
+
+export default function Board({ loaderData }: Route.ComponentProps) {
+  const { plan, assigned, outdated } = loaderData;
+  return (
+    <>
+      <div className="mb-3 flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <p className="text-sm">
+            <Link to="/coach/plans" className="text-teal underline">
+              Season plans
+            </Link>{" "}
+            /{" "}
+            <Link to={`/coach/plans/${plan.id}`} className="text-teal underline">
+              {plan.name}
+            </Link>{" "}
+            / Board
+          </p>
+          <h1 className="text-2xl font-semibold">{plan.name}</h1>
+        </div>
+        <div className="flex flex-wrap items-center gap-2 text-sm">
+          {outdated > 0 && (
+            <span className="rounded-lg bg-brick/10 px-3 py-2 text-brick" role="status">
+              {outdated} of {assigned} assigned athlete{assigned === 1 ? "" : "s"} follow an older version.{" "}
+              <Link to={`/coach/plans/${plan.id}/assign`} className="underline">
+                Push changes
+              </Link>
+            </span>
+          )}
+          <Link to={`/coach/plans/${plan.id}/assign`} className="rounded-lg bg-teal px-4 py-2 font-medium text-paper hover:bg-teal-dark">
+            Assign to athletes
+          </Link>
+        </div>
+      </div>
+      <PlanBoard key={plan.id} data={loaderData} />
+    </>
+  );
+}
