@@ -1,6 +1,8 @@
 import {
   closestCorners,
   DndContext,
+  pointerWithin,
+  type CollisionDetection,
   DragOverlay,
   KeyboardSensor,
   PointerSensor,
@@ -71,6 +73,16 @@ type ServerReply = { version: number; items: BoardItem[] } | { error: string; ve
 const RISE_CAP = 0.1;
 
 const slotId = (weekId: number, day: number) => `slot:${weekId}:${day}`;
+
+/**
+ * With a pointer, what lies under it wins, a card before the day slot holding it; the keyboard has no pointer, so it
+ * falls back to the nearest corners, which is how the arrow keys step between days and weeks.
+ */
+const collision: CollisionDetection = (args) => {
+  const under = pointerWithin(args);
+  if (under.length) return [...under].sort((a, b) => Number(String(b.id).startsWith("item:")) - Number(String(a.id).startsWith("item:")));
+  return closestCorners(args);
+};
 const itemKey = (id: number) => `item:${id}`;
 
 function profileOf(blocks: Block[]) {
@@ -259,7 +271,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
   const activeItem = activeId && String(activeId).startsWith("item:") ? items.find((i) => i.id === Number(String(activeId).slice(5))) : null;
 
   return (
-    <DndContext id="plan-board" sensors={sensors} collisionDetection={closestCorners} onDragStart={onDragStart} onDragEnd={onDragEnd} onDragCancel={() => setActiveId(null)} accessibility={{ announcements }}>
+    <DndContext id="plan-board" sensors={sensors} collisionDetection={collision} onDragStart={onDragStart} onDragEnd={onDragEnd} onDragCancel={() => setActiveId(null)} accessibility={{ announcements }}>
       <div className="flex min-h-[70vh] gap-3">
         <aside className="flex w-60 shrink-0 flex-col rounded-xl border border-line bg-white" aria-label="Session shelf">
           <div className="border-b border-line p-3">
@@ -422,10 +434,10 @@ function WeekColumn(props: {
               </option>
             ))}
         </select>
-        <button type="button" className="rounded px-1.5 py-0.5 text-teal hover:bg-teal/10" onClick={() => props.onWeekOp("duplicate-week", target)}>
+        <button type="button" aria-label={`Copy week ${week.idx}'s sessions to the chosen week`} className="rounded px-1.5 py-0.5 text-teal hover:bg-teal/10" onClick={() => props.onWeekOp("duplicate-week", target)}>
           Copy
         </button>
-        <button type="button" className="rounded px-1.5 py-0.5 text-teal hover:bg-teal/10" onClick={() => props.onWeekOp("move-week", target)}>
+        <button type="button" aria-label={`Move week ${week.idx}'s sessions to the chosen week`} className="rounded px-1.5 py-0.5 text-teal hover:bg-teal/10" onClick={() => props.onWeekOp("move-week", target)}>
           Move
         </button>
       </footer>

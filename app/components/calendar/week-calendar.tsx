@@ -106,7 +106,7 @@ function Day({ date, today, sessions, sessionHref }: { date: string; today: stri
   const { setNodeRef, isOver } = useDroppable({ id: `day:${date}` });
   const isToday = date === today;
   return (
-    <li ref={setNodeRef} className={`min-h-24 rounded-xl border p-2 ${isOver ? "border-teal bg-teal/5" : isToday ? "border-brick bg-white" : "border-line bg-white"} ${date < today ? "opacity-80" : ""}`} data-testid={`day-${date}`}>
+    <li ref={setNodeRef} className={`min-h-10 rounded-xl border p-2 sm:min-h-24 ${isOver ? "border-teal bg-teal/5" : isToday ? "border-brick bg-white" : "border-line bg-white"} ${date < today ? "opacity-80" : ""}`} data-testid={`day-${date}`}>
       <p className={`num text-xs font-medium ${isToday ? "text-brick" : "text-ink-soft"}`}>
         {formatDay(date)} {isToday && "· today"}
       </p>

@@ -59,7 +59,15 @@ export default function CoachAthlete({ loaderData }: Route.ComponentProps) {
         </Link>{" "}
         / {athlete.name}
       </p>
-      <PageHeader title={athlete.name} lead={`${athlete.email} · ${athlete.timezone.replaceAll("_", " ")}`} />
+      <PageHeader
+        title={athlete.name}
+        lead={`${athlete.email} · ${athlete.timezone.replaceAll("_", " ")}`}
+        actions={
+          <Link to={`/coach/athletes/${athlete.id}/calendar`} className={buttonClass("secondary")}>
+            Calendar
+          </Link>
+        }
+      />
       <Card className="max-w-xl">
         <h2 className="font-semibold">Body and heart rate</h2>
         <p className="mt-1 text-sm text-ink-soft">Used for heart-rate load and watts per kilogram. Leave a field empty if unknown.</p>
