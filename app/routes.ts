@@ -13,12 +13,16 @@ export default [
   route("api/sessions", "routes/api/sessions.ts"),
   route("api/plans/:planId/items", "routes/api/plan-items.ts"),
   route("api/calendar", "routes/api/calendar.ts"),
+  route("api/uploads", "routes/api/uploads.ts"),
+  route("api/tests/preview", "routes/api/tests-preview.ts"),
 
   layout("routes/app-layout.tsx", [
     route("coach", "routes/coach/roster.tsx"),
     route("coach/athletes/:athleteId", "routes/coach/athlete.tsx"),
     route("coach/athletes/:athleteId/calendar", "routes/coach/athlete-calendar.tsx"),
     route("coach/athletes/:athleteId/sessions/:sessionId", "routes/coach/athlete-session.tsx"),
+    route("coach/athletes/:athleteId/tests", "routes/athlete/tests.tsx", { id: "coach-athlete-tests" }),
+    route("coach/athletes/:athleteId/tests/new", "routes/athlete/test-new.tsx", { id: "coach-athlete-test-new" }),
     route("coach/sessions", "routes/coach/sessions.tsx"),
     route("coach/sessions/new", "routes/coach/session-edit.tsx", { id: "session-new" }),
     route("coach/sessions/:sessionId", "routes/coach/session-edit.tsx"),
@@ -30,6 +34,9 @@ export default [
     route("athlete", "routes/athlete/today.tsx"),
     route("athlete/calendar", "routes/athlete/calendar.tsx"),
     route("athlete/sessions/:id", "routes/athlete/session.tsx"),
+    route("athlete/tests", "routes/athlete/tests.tsx"),
+    route("athlete/tests/new", "routes/athlete/test-new.tsx"),
+    route("athlete/uploads", "routes/athlete/uploads.tsx"),
     route("admin/users", "routes/admin/users.tsx"),
   ]),
 ] satisfies RouteConfig;

@@ -11,6 +11,8 @@ const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
   athlete: [
     { to: "/athlete", label: "Today", end: true },
     { to: "/athlete/calendar", label: "Calendar" },
+    { to: "/athlete/tests", label: "Field tests" },
+    { to: "/athlete/uploads", label: "Ride files" },
   ],
   admin: [{ to: "/admin/users", label: "Users" }],
 };

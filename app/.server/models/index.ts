@@ -4,3 +4,4 @@ export { CoachAthlete, Invitation } from "./roster";
 export { OutboundEmail } from "./email";
 export { Session, SessionBlock, SeasonPlan, PlanWeek, PlanItem, PlanRecurrence } from "./plans";
 export { Threshold, Assignment, ScheduledSession, ScheduledBlock, type SessionStatus } from "./calendar";
+export { Upload, FieldTest, RescaleReport } from "./tests";

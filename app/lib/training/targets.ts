@@ -36,9 +36,10 @@ export function resolveTarget(
   if (target.metric === "pace") {
     return { low: Math.round(t / (lowPct / 100)), high: Math.round(t / (highPct / 100)), unit: opts.paceUnit ?? "s/km" };
   }
+  // pct × threshold / 100 in this order, the same arithmetic the set-based rescale does in SQL.
   return {
-    low: Math.round((lowPct / 100) * t),
-    high: Math.round((highPct / 100) * t),
+    low: Math.round((lowPct * t) / 100),
+    high: Math.round((highPct * t) / 100),
     unit: target.metric === "power" ? "W" : "bpm",
   };
 }

@@ -63,9 +63,14 @@ export default function CoachAthlete({ loaderData }: Route.ComponentProps) {
         title={athlete.name}
         lead={`${athlete.email} · ${athlete.timezone.replaceAll("_", " ")}`}
         actions={
-          <Link to={`/coach/athletes/${athlete.id}/calendar`} className={buttonClass("secondary")}>
-            Calendar
-          </Link>
+          <>
+            <Link to={`/coach/athletes/${athlete.id}/calendar`} className={buttonClass("secondary")}>
+              Calendar
+            </Link>
+            <Link to={`/coach/athletes/${athlete.id}/tests`} className={buttonClass("secondary")}>
+              Field tests
+            </Link>
+          </>
         }
       />
       <Card className="max-w-xl">

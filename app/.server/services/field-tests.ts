@@ -1,0 +1,260 @@
+import { Op } from "sequelize";
+import { z } from "zod";
+import { writeTransaction } from "../db";
+import { env } from "../env";
+import { queueEmail } from "../mail";
+import { CoachAthlete, FieldTest, RescaleReport, Threshold, Upload, User } from "../models";
+import { applyThreshold, countScope, examplesFor, undoRescale } from "./rescale";
+import { loadActivity } from "./uploads";
+import { computeThreshold, type ThresholdResult } from "~/lib/field-tests";
+import { isIsoDate, todayIn } from "~/lib/dates";
+import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
+import { bestEffort, formatTarget, pacingSplits, thresholdHeartRate, TrainingInputError, type TargetUnit } from "~/lib/training";
+
+export const UNDO_DAYS = 14;
+
+export class TestError extends Error {
+  name = "TestError";
+  constructor(
+    message: string,
+    readonly status = 400,
+    readonly field?: string,
+  ) {
+    super(message);
+  }
+}
+
+/** The window each protocol reads from a file, in seconds. */
+const WINDOW: Partial<Record<ProtocolKey, number>> = { twenty_minute: 1200, eight_minute: 480, hr_thirty: 1800 };
+
+/**
+ * Derives a protocol's inputs from a stored ride file: the best window (or the one the user shifted to), its pacing
+ * in thirds and, for the ramp, the detected steps. Returns inputs for computeThreshold plus what to show.
+ */
+export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, windowStartS?: number) {
+  const activity = await loadActivity(upload);
+  const samples = activity.samples;
+  const window = WINDOW[protocol];
+  try {
+    if (protocol === "ramp") {
+      const best = bestEffort(samples, 60);
+      return { inputs: { bestOneMinuteW: best.mean }, window: { startS: best.startS, lengthS: 60 }, pacing: null };
+    }
+    if (protocol === "critical_power") {
+      const three = bestEffort(samples, 180);
+      const twelve = bestEffort(samples, 720);
+      return { inputs: { efforts: [{ duration: "3:00", meanW: three.mean }, { duration: "12:00", meanW: twelve.mean }] }, window: { startS: twelve.startS, lengthS: 720 }, pacing: null };
+    }
+    if (window && (protocol === "twenty_minute" || protocol === "eight_minute")) {
+      const start = windowStartS ?? bestEffort(samples, window).startS;
+      if (!Number.isInteger(start) || start < 0 || start + window > samples.length) throw new TestError("The chosen window runs past the end of the ride.");
+      const pacing = pacingSplits(samples, start, window, 3);
+      const mean = samples.slice(start, start + window).reduce((s, x) => s + (x.power ?? 0), 0) / window;
+      return { inputs: { meanW: mean }, window: { startS: start, lengthS: window }, pacing };
+    }
+    if (protocol === "hr_thirty") {
+      const hr = samples.map((s) => s.hr ?? null);
+      if (hr.length < 1800) throw new TestError("The file is shorter than 30 minutes.");
+      // The 30 minutes with the highest mean heart rate, unless the user shifted the window.
+      let start = windowStartS ?? 0;
+      if (windowStartS === undefined) {
+        let best = -1;
+        let sum = 0;
+        for (let i = 0; i < hr.length; i++) {
+          sum += hr[i] ?? 0;
+          if (i >= 1800) sum -= hr[i - 1800] ?? 0;
+          if (i >= 1799 && sum > best) {
+            best = sum;
+            start = i - 1799;
+          }
+        }
+      }
+      const meanHr = thresholdHeartRate(hr.slice(start, start + 1800));
+      return { inputs: { sport: "bike", meanHr: Math.round(meanHr) }, window: { startS: start, lengthS: 1800 }, pacing: null };
+    }
+  } catch (err) {
+    if (err instanceof TrainingInputError) throw new TestError(`This file cannot be used for a ${PROTOCOLS[protocol].label.toLowerCase()}: ${err.message}`);
+    throw err;
+  }
+  throw new TestError("This test is entered by hand, not from a file.");
+}
+
+export const readinessSchema = z.object(
+  {
+  answers: z.array(z.enum(["yes", "no"])).length(READINESS.questions.length, "Answer every readiness question."),
+  stopSignsRead: z.literal(true, { error: "Confirm that you have read the stop signs." }),
+  },
+  { error: "Answer every readiness question and confirm the stop signs." },
+);
+
+/** Resolves a submission (typed inputs or a file) to the threshold it proposes. */
+export async function resolveSubmission(athlete: User, body: { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null }) {
+  let inputs = body.inputs;
+  let fromFile: Awaited<ReturnType<typeof inputsFromUpload>> | null = null;
+  let upload: Upload | null = null;
+  if (body.uploadId) {
+    upload = await Upload.findOne({ where: { id: body.uploadId, athleteId: athlete.id } });
+    if (!upload) throw new TestError("That upload is not this athlete's.", 404);
+    fromFile = await inputsFromUpload(body.protocol, upload, body.windowStartS ?? undefined);
+    inputs = fromFile.inputs;
+  }
+  let result: ThresholdResult;
+  try {
+    result = computeThreshold(body.protocol, inputs);
+  } catch (err) {
+    if (err instanceof TrainingInputError) throw new TestError(err.message);
+    throw err;
+  }
+  return { result, inputs, fromFile, upload };
+}
+
+export async function preview(athlete: User, body: { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null; testedOn: string }) {
+  if (!isIsoDate(body.testedOn)) throw new TestError("Give the test date.", 400, "testedOn");
+  if (body.testedOn > todayIn(athlete.timezone)) throw new TestError("A test cannot be dated in the future.", 400, "testedOn");
+  const { result, fromFile } = await resolveSubmission(athlete, body);
+  const current = await Threshold.findOne({ where: { athleteId: athlete.id, sport: result.sport, metric: result.metric, effectiveFrom: { [Op.lte]: body.testedOn } }, order: [["effectiveFrom", "DESC"], ["id", "DESC"]] });
+  const scope = { athleteId: athlete.id, sport: result.sport, metric: result.metric, from: body.testedOn };
+  const counts = await countScope(scope);
+  const value = roundThreshold(result);
+  return {
+    proposed: { ...result, value, label: formatValue(value, result.unit) },
+    current: current ? { value: current.value, label: formatValue(current.value, result.unit), since: current.effectiveFrom } : null,
+    changes: { sessions: counts.sessions, blocks: counts.blocks, until: counts.until },
+    examples: await examplesFor({ ...scope, value, unit: result.unit }),
+    window: fromFile?.window ?? null,
+    pacing: fromFile?.pacing ?? null,
+  };
+}
+
+/** Thresholds are kept to what a person reads: watts and bpm whole, paces to the tenth of a second. */
+function roundThreshold(r: ThresholdResult) {
+  return r.metric === "pace" ? Math.round(r.value * 10) / 10 : Math.round(r.value);
+}
+
+export function formatValue(value: number, unit: string) {
+  const v = Math.round(value);
+  return formatTarget({ low: v, high: v, unit: unit as TargetUnit });
+}
+
+const METRIC_LABEL: Record<string, string> = { power: "power", heart_rate: "heart-rate", pace: "pace" };
+
+/**
+ * Saves a field test in one transaction: the test, the threshold from its date, the set-based rescale of every
+ * planned step in scope, the report, and the summary e-mails. A repeated request key returns the first save.
+ */
+export async function saveTest(
+  athlete: User,
+  by: User,
+  body: { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null; testedOn: string; readiness?: unknown; requestKey?: string | null },
+) {
+  const protocol = PROTOCOLS[body.protocol];
+  if (!isIsoDate(body.testedOn)) throw new TestError("Give the test date.", 400, "testedOn");
+  if (body.testedOn > todayIn(athlete.timezone)) throw new TestError("A test cannot be dated in the future.", 400, "testedOn");
+  let readiness: z.infer<typeof readinessSchema> | null = null;
+  if (protocol.maximal) {
+    const parsed = readinessSchema.safeParse(body.readiness);
+    if (!parsed.success) throw new TestError(`Before a maximal test: ${parsed.error.issues[0].message}`, 400, "readiness");
+    readiness = parsed.data;
+  }
+  const { result, inputs, upload } = await resolveSubmission(athlete, body);
+  const value = roundThreshold(result);
+  const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
+  return writeTransaction(async (transaction) => {
+    // Checked inside the write lock, so two copies of one submission cannot both pass it.
+    if (body.requestKey) {
+      const earlier = await FieldTest.findOne({ where: { requestKey: body.requestKey }, transaction });
+      if (earlier) {
+        if (earlier.athleteId !== athlete.id) throw new TestError("That request was already used.", 409);
+        return { test: earlier, report: await RescaleReport.findOne({ where: { fieldTestId: earlier.id, kind: "apply" }, transaction }), repeated: true };
+      }
+    }
+    const test = await FieldTest.create(
+      {
+        athleteId: athlete.id,
+        protocol: body.protocol,
+        sport: result.sport,
+        metric: result.metric,
+        inputs: inputs ?? {},
+        derived: result.details,
+        value,
+        unit: result.unit,
+        testedOn: body.testedOn,
+        uploadId: upload?.id ?? null,
+        readiness: readiness ? JSON.stringify(readiness) : null,
+        requestKey: body.requestKey ?? null,
+        createdBy: by.id,
+      },
+      { transaction },
+    );
+    const { report, threshold, previous } = await applyThreshold(
+      { athleteId: athlete.id, sport: result.sport, metric: result.metric, value, unit: result.unit, from: body.testedOn, fieldTestId: test.id, createdBy: by.id },
+      transaction,
+    );
+    await test.update({ thresholdId: threshold.id }, { transaction });
+    const examples = report.examples.map((e) => `${e.date} ${e.name}: ${e.before} → ${e.after}`).join("\n") || "No planned sessions needed a change.";
+    for (const person of [athlete, ...coaches]) {
+      await queueEmail(
+        {
+          to: person.email,
+          template: "rescale-summary",
+          vars: {
+            recipientName: person.name,
+            athleteName: athlete.name,
+            testLabel: protocol.label.toLowerCase(),
+            testedOn: body.testedOn,
+            metricLabel: METRIC_LABEL[result.metric],
+            newValue: formatValue(value, result.unit),
+            oldValue: previous ? formatValue(previous.value, result.unit) : "not set",
+            sessionsChanged: report.sessionsChanged,
+            blocksChanged: report.blocksChanged,
+            examples,
+            link: `${env().appUrl}${person.id === athlete.id ? "/athlete/calendar" : `/coach/athletes/${athlete.id}/calendar`}`,
+          },
+        },
+        transaction,
+      );
+    }
+    return { test, report, repeated: false };
+  });
+}
+
+/** Removes a test within 14 days: the threshold goes, and every step it rescaled gets its old values back. */
+export async function undoTest(athlete: User, by: User, testId: number) {
+  return writeTransaction(async (transaction) => {
+    const test = await FieldTest.findOne({ where: { id: testId, athleteId: athlete.id }, transaction });
+    if (!test) throw new TestError("No such test for this athlete.", 404);
+    if (test.status === "undone") throw new TestError("This test was already removed.");
+    if (test.createdAt.getTime() < Date.now() - UNDO_DAYS * 86_400_000) throw new TestError(`Tests can be removed for ${UNDO_DAYS} days after they were saved.`);
+    const report = await RescaleReport.findOne({ where: { fieldTestId: test.id, kind: "apply" }, transaction });
+    const threshold = test.thresholdId ? await Threshold.findByPk(test.thresholdId, { transaction }) : null;
+    const undo = report ? await undoRescale(report, threshold, by.id, transaction) : null;
+    await test.update({ status: "undone", undoneAt: new Date(), thresholdId: null }, { transaction });
+    return { test, undo };
+  });
+}
+
+export async function testHistory(athleteId: number) {
+  const [tests, thresholds, reports] = await Promise.all([
+    FieldTest.findAll({ where: { athleteId }, order: [["testedOn", "DESC"], ["id", "DESC"]] }),
+    Threshold.findAll({ where: { athleteId }, order: [["effectiveFrom", "ASC"], ["id", "ASC"]] }),
+    RescaleReport.findAll({ where: { athleteId }, order: [["id", "DESC"]], limit: 20 }),
+  ]);
+  return {
+    tests: tests.map((t) => ({
+      id: t.id,
+      protocol: t.protocol,
+      label: PROTOCOLS[t.protocol as ProtocolKey]?.label ?? t.protocol,
+      sport: t.sport,
+      metric: t.metric,
+      value: t.value,
+      display: formatValue(t.value, t.unit),
+      testedOn: t.testedOn,
+      status: t.status,
+      canUndo: t.status === "active" && t.createdAt.getTime() >= Date.now() - UNDO_DAYS * 86_400_000,
+      savedAt: t.createdAt.toISOString(),
+    })),
+    thresholds: thresholds.map((t) => ({ id: t.id, sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, effectiveFrom: t.effectiveFrom, source: t.source })),
+    reports: reports.map((r) => ({ id: r.id, kind: r.kind, sport: r.sport, metric: r.metric, oldValue: r.oldValue, newValue: r.newValue, unit: r.unit, fromDate: r.fromDate, sessions: r.sessionsChanged, blocks: r.blocksChanged, examples: r.examples, at: r.createdAt.toISOString() })),
+  };
+}
+

@@ -1,0 +1,36 @@
+import { z } from "zod";
+import { requireUser } from "~/.server/auth";
+import { calendarSubject } from "~/.server/services/calendar";
+import { preview, TestError } from "~/.server/services/field-tests";
+import { protocolSchema } from "~/lib/field-tests";
+import type { Route } from "./+types/tests-preview";
+
+const json = (body: unknown, status = 200) => Response.json(body, { status, headers: { "Cache-Control": "private, no-store" } });
+
+export const submissionSchema = z.object({
+  protocol: protocolSchema,
+  inputs: z.unknown().optional(),
+  uploadId: z.number().int().positive().nullish(),
+  windowStartS: z.number().int().min(0).nullish(),
+  testedOn: z.string(),
+});
+
+/** What saving this test would do: the proposed threshold beside the current one, counts, and examples. Changes nothing. */
+export async function action({ request }: Route.ActionArgs) {
+  const viewer = await requireUser(request);
+  const athlete = await calendarSubject(viewer, new URL(request.url).searchParams.get("athleteId"));
+  let body: unknown;
+  try {
+    body = await request.json();
+  } catch {
+    return json({ error: "Send the test as JSON." }, 400);
+  }
+  const parsed = submissionSchema.safeParse(body);
+  if (!parsed.success) return json({ error: parsed.error.issues[0].message }, 400);
+  try {
+    return json(await preview(athlete, parsed.data));
+  } catch (err) {
+    if (err instanceof TestError) return json({ error: err.message, field: err.field }, err.status);
+    throw err;
+  }
+}

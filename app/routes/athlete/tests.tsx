@@ -1,0 +1,167 @@
+import { useState } from "react";
+import { data, Link, useFetcher, useSearchParams } from "react-router";
+import { ThresholdChart } from "~/components/threshold-chart";
+import { buttonClass } from "~/components/ui/button";
+import { Card, PageHeader } from "~/components/ui/card";
+import { FormMessage } from "~/components/ui/field";
+import { testHistory, TestError, undoTest } from "~/.server/services/field-tests";
+import { athleteSubject } from "~/.server/subject";
+import { heartRateZones, paceZones, powerLevels, formatTarget, type TargetUnit } from "~/lib/training";
+import type { Route } from "./+types/tests";
+
+export const meta: Route.MetaFunction = () => [{ title: "Field tests · Pacewright" }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const { athlete, base, viewer } = await athleteSubject(request, params.athleteId);
+  const history = await testHistory(athlete.id);
+  const latest = new Map<string, (typeof history.thresholds)[number]>();
+  for (const t of history.thresholds) latest.set(`${t.sport}:${t.metric}`, t);
+  const zones = [...latest.values()].flatMap((t) => {
+    if (t.metric === "pace" && t.sport === "swim") return [];
+    const set = t.metric === "power" ? powerLevels(t.value) : t.metric === "heart_rate" ? heartRateZones(t.value, t.sport === "run" ? "run" : "bike") : paceZones(t.value);
+    return [{ key: `${t.sport}:${t.metric}`, sport: t.sport, metric: t.metric, unit: t.unit, threshold: t.value, source: set.source, rows: set.zones.map((z) => ({ key: z.key, name: z.name, lo: z.lo, hi: z.hi })) }];
+  });
+  return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, ...history, current: [...latest.values()], zones };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const { athlete, viewer } = await athleteSubject(request, params.athleteId);
+  const form = await request.formData();
+  try {
+    const { undo } = await undoTest(athlete, viewer, Number(form.get("testId")));
+    return { ok: true, message: `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets.` };
+  } catch (err) {
+    if (err instanceof TestError) return data({ ok: false, message: err.message }, { status: err.status });
+    throw err;
+  }
+}
+
+const LABEL: Record<string, string> = { "bike:power": "Bike power", "bike:heart_rate": "Bike heart rate", "run:heart_rate": "Run heart rate", "run:pace": "Run pace", "swim:pace": "Swim pace" };
+const show = (v: number, unit: string) => formatTarget({ low: Math.round(v), high: Math.round(v), unit: unit as TargetUnit });
+
+export default function Tests({ loaderData }: Route.ComponentProps) {
+  const { athlete, base, forCoach, tests, thresholds, current, zones, reports } = loaderData;
+  const [params] = useSearchParams();
+  const undo = useFetcher<typeof action>();
+  const series = [...new Set(thresholds.map((t) => `${t.sport}:${t.metric}`))];
+  const [shown, setShown] = useState(series[0] ?? "");
+  const points = thresholds.filter((t) => `${t.sport}:${t.metric}` === shown).map((t) => ({ date: t.effectiveFrom, value: t.value, source: t.source }));
+  const saved = params.get("saved") ? reports.find((r) => r.kind === "apply") : null;
+  return (
+    <>
+      <PageHeader
+        title={forCoach ? `${athlete.name}: field tests` : "Field tests and thresholds"}
+        lead="Each saved test sets a threshold from its date; every planned session from then on follows it."
+        actions={
+          <Link to={`${base}/tests/new`} className={buttonClass("primary")}>
+            Log a field test
+          </Link>
+        }
+      />
+      {saved && (
+        <div className="mb-4">
+          <FormMessage tone="ok">
+            Saved. {LABEL[`${saved.sport}:${saved.metric}`]} is now {show(saved.newValue ?? 0, saved.unit)}
+            {saved.oldValue ? ` (was ${show(saved.oldValue, saved.unit)})` : ""}: {saved.sessions} planned sessions, {saved.blocks} steps rescaled.
+            {saved.examples.length > 0 && ` For example ${saved.examples[0].name} on ${saved.examples[0].date}: ${saved.examples[0].before} → ${saved.examples[0].after}.`}
+          </FormMessage>
+        </div>
+      )}
+      {undo.data && (
+        <div className="mb-4">
+          <FormMessage tone={undo.data.ok ? "ok" : "error"}>{undo.data.message}</FormMessage>
+        </div>
+      )}
+      <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
+        <div className="flex flex-col gap-6">
+          <Card>
+            <div className="flex flex-wrap items-center justify-between gap-2">
+              <h2 className="font-semibold">Threshold history</h2>
+              {series.length > 1 && (
+                <select value={shown} onChange={(e) => setShown(e.target.value)} aria-label="Which threshold" className="rounded border border-line bg-white px-2 py-1 text-sm">
+                  {series.map((s) => (
+                    <option key={s} value={s}>
+                      {LABEL[s] ?? s}
+                    </option>
+                  ))}
+                </select>
+              )}
+            </div>
+            {points.length ? <ThresholdChart points={points} unit={thresholds.find((t) => `${t.sport}:${t.metric}` === shown)!.unit} /> : <p className="mt-2 text-sm text-ink-soft">No thresholds yet: log a field test.</p>}
+          </Card>
+          <Card className="overflow-x-auto">
+            <h2 className="font-semibold">Tests</h2>
+            {tests.length === 0 ? (
+              <p className="mt-2 text-sm text-ink-soft">None logged yet.</p>
+            ) : (
+              <table className="num mt-2 w-full min-w-[30rem] text-left text-sm" data-testid="tests-table">
+                <thead className="text-ink-soft">
+                  <tr>
+                    <th className="py-1 font-medium">Date</th>
+                    <th className="py-1 font-medium">Test</th>
+                    <th className="py-1 font-medium">Threshold</th>
+                    <th className="py-1 font-medium" />
+                  </tr>
+                </thead>
+                <tbody>
+                  {tests.map((t) => (
+                    <tr key={t.id} className={`border-t border-line/60 ${t.status === "undone" ? "text-ink-soft line-through" : ""}`}>
+                      <td className="py-2">{t.testedOn}</td>
+                      <td className="py-2">{t.label}</td>
+                      <td className="py-2">
+                        {LABEL[`${t.sport}:${t.metric}`]} {t.display}
+                      </td>
+                      <td className="py-2 text-right">
+                        {t.canUndo && (
+                          <undo.Form method="post" onSubmit={(e) => !confirm("Remove this test and put the previous targets back?") && e.preventDefault()}>
+                            <input type="hidden" name="testId" value={t.id} />
+                            <button className={buttonClass("ghost", "px-2 py-1 text-brick")} disabled={undo.state !== "idle"}>
+                              Undo
+                            </button>
+                          </undo.Form>
+                        )}
+                      </td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            )}
+          </Card>
+        </div>
+        <div className="flex flex-col gap-4">
+          <Card>
+            <h2 className="font-semibold">Current thresholds</h2>
+            <ul className="num mt-2 flex flex-col gap-1 text-sm">
+              {current.map((t) => (
+                <li key={t.id} className="flex justify-between">
+                  <span>{LABEL[`${t.sport}:${t.metric}`]}</span>
+                  <span className="font-medium">{show(t.value, t.unit)}</span>
+                </li>
+              ))}
+              {current.length === 0 && <li className="text-ink-soft">None yet.</li>}
+            </ul>
+          </Card>
+          {zones.map((z) => (
+            <Card key={z.key}>
+              <h2 className="font-semibold">{LABEL[z.key]} zones</h2>
+              <p className="text-xs text-ink-soft">{z.source}</p>
+              <table className="num mt-2 w-full text-sm">
+                <tbody>
+                  {z.rows.map((r, i) => (
+                    <tr key={r.key} className="border-t border-line/60">
+                      <td className="py-1">
+                        <span className="mr-2 inline-block h-3 w-3 rounded-sm align-middle" style={{ background: `var(--color-level-${Math.min(7, i + 1)})` }} />
+                        {r.key} {r.name}
+                      </td>
+                      <td className="py-1 text-right">{r.hi === null ? `> ${show(r.lo, z.unit)}` : i === 0 ? `≤ ${show(r.hi, z.unit)}` : `${show(r.lo, z.unit)}–${show(r.hi, z.unit)}`}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </Card>
+          ))}
+        </div>
+      </div>
+    </>
+  );
+}
