@@ -81,7 +81,7 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
 
 export const readinessSchema = z.object(
   {
-  answers: z.array(z.enum(["yes", "no"])).length(READINESS.questions.length, "Answer every readiness question."),
+  answers: z.array(z.enum(["yes", "no"], { error: "Answer every readiness question." })).length(READINESS.questions.length, "Answer every readiness question."),
   stopSignsRead: z.literal(true, { error: "Confirm that you have read the stop signs." }),
   },
   { error: "Answer every readiness question and confirm the stop signs." },

@@ -125,7 +125,7 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
             <div className="grid gap-4 sm:grid-cols-2">
               <label className="flex flex-col gap-1 text-sm">
                 <span className="font-medium">Test</span>
-                <select value={protocol} onChange={(e) => setProtocol(e.target.value as ProtocolKey)} className="rounded-lg border border-line bg-white px-3 py-2">
+                <select aria-label="Test" value={protocol} onChange={(e) => setProtocol(e.target.value as ProtocolKey)} className="rounded-lg border border-line bg-white px-3 py-2">
                   {PROTOCOL_KEYS.map((k) => (
                     <option key={k} value={k}>
                       {PROTOCOLS[k].label}
