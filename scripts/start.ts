@@ -3,6 +3,7 @@ import { closeDb } from "../app/.server/db";
 import { env } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
 import { startMailer } from "../app/.server/mail";
+import { startRetestReminders } from "../app/.server/services/retests";
 import { migrateAndSeed } from "../db/migrator";
 import { DEMO_ACCOUNTS } from "../db/demo/accounts";
 import { buildIfNeeded } from "./build-if-needed";
@@ -16,6 +17,7 @@ async function main() {
   await migrateAndSeed({ seed: process.env.PACEWRIGHT_SEED !== "off" });
   const fakes = await startFakes();
   startMailer();
+  startRetestReminders();
 
   let server: Server;
   const host = process.env.HOST ?? "127.0.0.1";

@@ -7,6 +7,9 @@ import { AuthSession, CoachAthlete, Invitation, PasswordReset, User, type Role }
 import { hashToken, looksLikeToken, newToken } from "../tokens";
 import { INVITE_DEAD, RESET_LINK_DEAD } from "~/lib/messages";
 import { copyStarterShelf } from "./sessions";
+import { currentThresholds } from "./thresholds";
+import { retestStatus } from "./retests";
+import { todayIn } from "~/lib/dates";
 
 export const RESET_TTL_MS = 60 * 60 * 1000;
 export const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -219,6 +222,15 @@ export async function rosterFor(coachId: number) {
     where: { coachId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
     order: [["createdAt", "DESC"]],
   });
+  const extra = new Map(
+    await Promise.all(
+      athletes.map(async (a) => {
+        const today = todayIn(a.timezone);
+        const th = await currentThresholds(a.id, today);
+        return [a.id, { thresholds: th.map((t) => ({ sport: t.sport, metric: t.metric, value: t.value, unit: t.unit })), retest: await retestStatus(a.id, today), today }] as const;
+      }),
+    ),
+  );
   return {
     athletes: athletes.map((a) => ({
       id: a.id,
@@ -226,6 +238,7 @@ export async function rosterFor(coachId: number) {
       email: a.email,
       timezone: a.timezone,
       since: since.get(a.id)!.toISOString(),
+      ...extra.get(a.id)!,
     })),
     invitations: invitations.map((i) => ({
       id: i.id,

@@ -33,6 +33,12 @@ export async function action({ request }: Route.ActionArgs) {
 }
 
 type Athlete = Route.ComponentProps["loaderData"]["athletes"][number];
+
+function thresholdText(t: { sport: string; metric: string; value: number; unit: string }) {
+  const v = Math.round(t.value);
+  const pace = t.unit === "s/km" || t.unit === "s/100m";
+  return `${t.sport} ${pace ? `${Math.floor(v / 60)}:${String(v % 60).padStart(2, "0")}${t.unit === "s/km" ? "/km" : "/100 m"}` : `${v} ${t.unit}`}`;
+}
 const column = createColumnHelper<Athlete>();
 
 export default function Roster({ loaderData }: Route.ComponentProps) {
@@ -47,7 +53,23 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
       ),
     }),
     column.accessor("email", { header: "E-mail" }),
-    column.accessor("timezone", { header: "Time zone", cell: (c) => c.getValue().replaceAll("_", " ") }),
+    column.accessor((r) => r.thresholds.map((t) => thresholdText(t)).join(" · "), { id: "thresholds", header: "Thresholds", cell: (c) => c.getValue() || <span className="text-brick">needs a field test</span> }),
+    column.accessor((r) => r.retest.lastTest ?? "", { id: "lastTest", header: "Last test", cell: (c) => c.getValue() || "—" }),
+    column.accessor((r) => r.retest.due ?? "", {
+      id: "due",
+      header: "Retest due",
+      cell: (c) => {
+        const r = c.row.original;
+        if (!r.retest.due) return "—";
+        const overdue = r.retest.due < r.today;
+        return (
+          <span className={overdue ? "font-medium text-brick" : ""} title={r.retest.why}>
+            {r.retest.due}
+            {overdue ? " (overdue)" : ""}
+          </span>
+        );
+      },
+    }),
     column.accessor("since", { header: "On roster since", cell: (c) => formatDate(c.getValue(), timezone) }),
   ];
   return (
