@@ -43,14 +43,17 @@ export async function countScope(p: { athleteId: number; sport: string; metric: 
 /** A few before → after examples: the most intense step of the first sessions in scope. */
 export async function examplesFor(p: { athleteId: number; sport: string; metric: string; from: string; value: number; unit: string }, transaction?: Transaction) {
   const until = await nextThresholdAfter(p.athleteId, p.sport, p.metric, p.from, transaction!);
+  // The first three sessions in scope come off the (athlete, date) index; only their steps are ranked.
+  const first = await db().query<{ id: number }>(`SELECT DISTINCT s.id, s.date ${SCOPE} ORDER BY b.date LIMIT 3`, { replacements: { ...p, until }, type: QueryTypes.SELECT, transaction });
+  if (first.length === 0) return [];
   const rows = await db().query<{ date: string; name: string; metric: string; low_pct: number; high_pct: number; low_abs: number | null; high_abs: number | null; unit: string | null; ramp: number; new_low: number; new_high: number }>(
     `SELECT date, name, metric, low_pct, high_pct, low_abs, high_abs, unit, ramp, new_low, new_high FROM (
        SELECT s.date, s.name, b.metric, b.low_pct, b.high_pct, b.low_abs, b.high_abs, b.unit, b.ramp,
               ${RESOLVE("low_pct", "b.")} AS new_low,
               ${RESOLVE("high_pct", "b.")} AS new_high,
               ROW_NUMBER() OVER (PARTITION BY s.id ORDER BY b.high_pct DESC, b.position) AS rn
-       ${SCOPE}) WHERE rn = 1 ORDER BY date LIMIT 3`,
-    { replacements: { ...p, until }, type: QueryTypes.SELECT, transaction },
+       ${SCOPE} AND s.id IN (:ids)) WHERE rn = 1 ORDER BY date`,
+    { replacements: { ...p, until, ids: first.map((f) => f.id) }, type: QueryTypes.SELECT, transaction },
   );
   return rows.map((r) => {
     const base = { metric: r.metric, lowPct: r.low_pct, highPct: r.high_pct, ramp: Boolean(r.ramp) };
