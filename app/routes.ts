@@ -15,6 +15,7 @@ export default [
   route("api/calendar", "routes/api/calendar.ts"),
   route("api/uploads", "routes/api/uploads.ts"),
   route("api/tests/preview", "routes/api/tests-preview.ts"),
+  route("feed/:file", "routes/feed.ts"),
 
   layout("routes/app-layout.tsx", [
     route("coach", "routes/coach/roster.tsx"),
@@ -37,6 +38,8 @@ export default [
     route("athlete/tests", "routes/athlete/tests.tsx"),
     route("athlete/tests/new", "routes/athlete/test-new.tsx"),
     route("athlete/uploads", "routes/athlete/uploads.tsx"),
+    route("athlete/feed", "routes/athlete/feed.tsx"),
+    route("coach/feed", "routes/athlete/feed.tsx", { id: "coach-feed" }),
     route("admin/users", "routes/admin/users.tsx"),
   ]),
 ] satisfies RouteConfig;

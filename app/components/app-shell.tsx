@@ -7,12 +7,14 @@ const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
     { to: "/coach", label: "Roster", end: true },
     { to: "/coach/sessions", label: "Session shelf" },
     { to: "/coach/plans", label: "Season plans" },
+    { to: "/coach/feed", label: "Calendar feed" },
   ],
   athlete: [
     { to: "/athlete", label: "Today", end: true },
     { to: "/athlete/calendar", label: "Calendar" },
     { to: "/athlete/tests", label: "Field tests" },
     { to: "/athlete/uploads", label: "Ride files" },
+    { to: "/athlete/feed", label: "Calendar feed" },
   ],
   admin: [{ to: "/admin/users", label: "Users" }],
 };

@@ -51,7 +51,8 @@ export const nameField = z
   .string({ error: "Enter a name." })
   .trim()
   .min(1, "Enter a name.")
-  .max(120, "Use at most 120 characters.");
+  .max(120, "Use at most 120 characters.")
+  .refine((v) => !/[\u0000-\u001f]/.test(v), "A name cannot contain line breaks or control characters.");
 
 export const timezoneField = z
   .string()

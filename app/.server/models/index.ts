@@ -5,3 +5,4 @@ export { OutboundEmail } from "./email";
 export { Session, SessionBlock, SeasonPlan, PlanWeek, PlanItem, PlanRecurrence } from "./plans";
 export { Threshold, Assignment, ScheduledSession, ScheduledBlock, type SessionStatus } from "./calendar";
 export { Upload, FieldTest, RescaleReport } from "./tests";
+export { FeedToken } from "./feed";

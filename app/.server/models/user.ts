@@ -23,6 +23,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare weightKg: CreationOptional<number | null>;
   declare restingHr: CreationOptional<number | null>;
   declare maxHr: CreationOptional<number | null>;
+  declare feedAlarmMinutes: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -47,6 +48,7 @@ User.init(
     weightKg: { type: DataTypes.FLOAT, allowNull: true },
     restingHr: { type: DataTypes.INTEGER, allowNull: true },
     maxHr: { type: DataTypes.INTEGER, allowNull: true },
+    feedAlarmMinutes: { type: DataTypes.INTEGER, allowNull: true },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },

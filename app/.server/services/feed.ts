@@ -1,0 +1,202 @@
+import crypto from "node:crypto";
+import { TZDate } from "@date-fns/tz";
+import ical, { ICalAlarmType, ICalCalendarMethod, ICalEventStatus } from "ical-generator";
+import { Op, QueryTypes } from "sequelize";
+import { tzlib_get_ical_block } from "timezones-ical-library";
+import { db, writeTransaction } from "../db";
+import { env } from "../env";
+import { CoachAthlete, FeedToken, ScheduledSession, User } from "../models";
+import { hashToken, looksLikeToken } from "../tokens";
+import { addDays, todayIn } from "~/lib/dates";
+import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
+import { blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
+import { levelOfPct } from "~/lib/training";
+
+export const FEED_WEEKS_BACK = 8;
+export const FEED_DAYS_AHEAD = 365;
+/** A removed session stays in the feed this long as CANCELLED, so subscribed calendars drop it. */
+export const CANCELLED_GRACE_DAYS = 14;
+/** What the feed asks calendar apps to wait between refreshes (REFRESH-INTERVAL / X-PUBLISHED-TTL). */
+export const REFRESH_SECONDS = 3600;
+/** Planned effort load from which a session counts as a key session in a coach's feed (common practice). */
+export const KEY_SESSION_LOAD = 300;
+
+/** The link token is derived from a stored random salt and the server secret; only its hash is ever looked up. */
+function tokenFor(salt: string) {
+  return crypto.createHmac("sha256", env().sessionSecret).update(`feed:${salt}`).digest("base64url");
+}
+
+export async function activeFeed(userId: number) {
+  const row = await FeedToken.findOne({ where: { userId, revokedAt: null }, order: [["id", "DESC"]] });
+  return row ? { token: tokenFor(row.salt), createdAt: row.createdAt.toISOString(), lastUsedAt: row.lastUsedAt?.toISOString() ?? null } : null;
+}
+
+/** A new link (32 random bytes); the old one, if any, stops working at once. */
+export async function rotateFeed(userId: number) {
+  return writeTransaction(async (transaction) => {
+    await FeedToken.update({ revokedAt: new Date() }, { where: { userId, revokedAt: null }, transaction });
+    const salt = crypto.randomBytes(32).toString("base64url");
+    await FeedToken.create({ userId, salt, tokenHash: hashToken(tokenFor(salt)) }, { transaction });
+    return tokenFor(salt);
+  });
+}
+
+export async function revokeFeed(userId: number) {
+  const [n] = await FeedToken.update({ revokedAt: new Date() }, { where: { userId, revokedAt: null } });
+  return n;
+}
+
+export async function userForToken(token: string | undefined): Promise<User | null> {
+  if (!looksLikeToken(token)) return null;
+  const row = await FeedToken.findOne({ where: { tokenHash: hashToken(token), revokedAt: null } });
+  if (!row) return null;
+  // Recording use is best effort; a busy database must not fail the feed.
+  FeedToken.update({ lastUsedAt: new Date() }, { where: { id: row.id } }).catch(() => undefined);
+  return User.findByPk(row.userId);
+}
+
+export function feedUrls(token: string) {
+  const https = `${env().appUrl}/feed/${token}.ics`;
+  return { https, webcal: https.replace(/^https?:/, "webcal:") };
+}
+
+/** ical-generator escapes commas and semicolons but leaves line breaks in names as they are; names are one line. */
+const oneLine = (s: string) => s.replace(/[\r\n]+/g, " ").trim();
+
+const parseSqlDate = (s: string) => new Date(s.replace(" +00:00", "Z").replace(" ", "T"));
+
+async function sessionsFor(athleteIds: number[], from: string, to: string, opts: { keyOnly?: boolean } = {}) {
+  if (athleteIds.length === 0) return [];
+  const graceFrom = new Date(Date.now() - CANCELLED_GRACE_DAYS * 86_400_000);
+  const rows = await ScheduledSession.findAll({
+    where: {
+      athleteId: athleteIds,
+      date: { [Op.between]: [from, to] },
+      [Op.or]: [{ status: { [Op.ne]: "cancelled" } }, { cancelledAt: { [Op.gte]: graceFrom } }],
+      ...(opts.keyOnly ? { [Op.and]: [{ [Op.or]: [{ testProtocol: { [Op.ne]: null } }, { plannedLoad: { [Op.gte]: KEY_SESSION_LOAD } }] }] } : {}),
+    },
+    order: [["date", "ASC"], ["position", "ASC"], ["id", "ASC"]],
+    raw: true,
+  });
+  return rows as unknown as (ScheduledSession & { createdAt: Date; updatedAt: Date })[];
+}
+
+async function stepsFor(sessionIds: number[]) {
+  const map = new Map<number, StepView[]>();
+  if (!sessionIds.length) return map;
+  const rows = await db().query<StepView & { scheduledSessionId: number }>(
+    `SELECT scheduled_session_id AS scheduledSessionId, position, block_index AS blockIndex, kind, part, rep, rep_count AS repCount, duration_s AS durationS,
+            metric, low_pct AS lowPct, high_pct AS highPct, ramp, low_abs AS lowAbs, high_abs AS highAbs, unit, cue
+     FROM scheduled_blocks WHERE scheduled_session_id IN (:ids) ORDER BY scheduled_session_id, position`,
+    { replacements: { ids: sessionIds }, type: QueryTypes.SELECT },
+  );
+  for (const r of rows) {
+    const list = map.get(r.scheduledSessionId) ?? [];
+    list.push({ ...r, ramp: Boolean(r.ramp) });
+    map.set(r.scheduledSessionId, list);
+  }
+  return map;
+}
+
+const LEVEL_NAMES = ["recovery", "endurance", "tempo", "threshold", "aerobic capacity", "anaerobic", "sprint"];
+
+function description(s: { name: string; testProtocol: string | null; notes: string }, steps: StepView[], link: string) {
+  const lines = blockLines(steps).map((l) => {
+    const first = steps.find((x) => x.blockIndex === l.blockIndex && x.part !== "recovery");
+    const pct = first?.lowPct != null ? ` (${first.lowPct}${first.highPct != null && first.highPct !== first.lowPct ? `–${first.highPct}` : ""} % of threshold, level ${levelOfPct(((first.lowPct ?? 0) + (first.highPct ?? first.lowPct ?? 0)) / 2) + 1} ${LEVEL_NAMES[levelOfPct(((first.lowPct ?? 0) + (first.highPct ?? first.lowPct ?? 0)) / 2)]})` : "";
+    return `• ${l.text}${pct}${l.needsTest ? " — needs a field test" : ""}`;
+  });
+  const parts = [lines.join("\n")];
+  if (s.testProtocol) {
+    const p = PROTOCOLS[s.testProtocol as ProtocolKey];
+    parts.push(`FIELD TEST: ${p?.instructions ?? ""}\nAnswer the readiness questions in Pacewright first. Stop at once at ${READINESS.stopSigns.join(", ")}. ${READINESS.stopAdvice}`);
+  }
+  if (s.notes) parts.push(s.notes);
+  parts.push(`Open in Pacewright: ${link}`);
+  return parts.join("\n\n");
+}
+
+/**
+ * Builds the iCalendar text for a feed token's owner: an athlete's own sessions, or a coach's athletes' field tests
+ * and key sessions. Timed sessions are written in the athlete's time zone (with its VTIMEZONE), untimed ones as
+ * all-day DATE events; UIDs are stable per session and SEQUENCE is the session's feed sequence.
+ */
+export async function buildFeed(owner: User, now = new Date()) {
+  const isCoach = owner.role === "coach";
+  const athletes = isCoach ? await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { coachId: owner.id } })).map((l) => l.athleteId) } }) : [owner];
+  const byId = new Map(athletes.map((a) => [a.id, a]));
+  const today = todayIn(owner.timezone, now);
+  const sessions = await sessionsFor(athletes.map((a) => a.id), addDays(today, -FEED_WEEKS_BACK * 7), addDays(today, FEED_DAYS_AHEAD), { keyOnly: isCoach });
+  const steps = await stepsFor(sessions.map((s) => s.id));
+  const cal = ical({
+    name: oneLine(isCoach ? `Pacewright · ${owner.name}'s athletes` : `Pacewright · ${owner.name}`),
+    description: isCoach ? "Field tests and key sessions of your athletes" : "Your training plan with your own targets",
+    prodId: { company: "Pacewright", product: "Pacewright", language: "EN" },
+    method: ICalCalendarMethod.PUBLISH,
+    ttl: REFRESH_SECONDS,
+    url: `${env().appUrl}${isCoach ? "/coach" : "/athlete/calendar"}`,
+  });
+  let lastModified = new Date(0);
+  for (const s of sessions) {
+    const athlete = byId.get(s.athleteId)!;
+    const mySteps = steps.get(s.id) ?? [];
+    const modified = s.updatedAt instanceof Date ? s.updatedAt : parseSqlDate(String(s.updatedAt));
+    if (modified > lastModified) lastModified = modified;
+    const link = `${env().appUrl}${isCoach ? `/coach/athletes/${athlete.id}/sessions/${s.id}` : `/athlete/sessions/${s.id}`}`;
+    const key = keyTarget(mySteps);
+    const summary = oneLine(`${isCoach ? `${athlete.name}: ` : ""}${s.name}${key ? ` · ${key}` : ""}`);
+    const [y, m, d] = s.date.split("-").map(Number);
+    const base = {
+      id: `session-${s.id}@pacewright`,
+      summary,
+      description: description({ name: s.name, testProtocol: s.testProtocol, notes: s.notes }, mySteps, link),
+      sequence: s.feedSequence,
+      lastModified: modified,
+      stamp: modified,
+      url: link,
+      status: s.status === "cancelled" ? ICalEventStatus.CANCELLED : ICalEventStatus.CONFIRMED,
+    };
+    if (s.timeOfDay) {
+      const [hh, mm] = s.timeOfDay.split(":").map(Number);
+      const start = new TZDate(y, m - 1, d, hh, mm, 0, athlete.timezone);
+      const end = new TZDate(start.getTime() + Math.max(60, s.plannedDurationS) * 1000, athlete.timezone);
+      const event = cal.createEvent({ ...base, start, end, timezone: athlete.timezone });
+      if (!isCoach && owner.feedAlarmMinutes) event.createAlarm({ type: ICalAlarmType.display, trigger: owner.feedAlarmMinutes * 60, description: s.name });
+    } else {
+      cal.createEvent({ ...base, start: s.date, allDay: true });
+    }
+  }
+  return { body: withTimezones(cal.toString(), [...new Set(athletes.map((a) => a.timezone))]), lastModified: lastModified.getTime() > 0 ? lastModified : now, count: sessions.length };
+}
+
+/**
+ * Adds a VTIMEZONE for each zone the events use. Done here rather than through ical-generator's calendar time zone,
+ * which would also write DTSTAMP and LAST-MODIFIED as local times, where RFC 5545 wants UTC.
+ */
+function withTimezones(ics: string, zones: string[]) {
+  const blocks = zones
+    .filter((z) => z !== "UTC")
+    .map((z) => (tzlib_get_ical_block(z) as string[])[0])
+    .filter((b): b is string => typeof b === "string" && b.startsWith("BEGIN:VTIMEZONE"))
+    .map((b) => b.replace(/\r?\n/g, "\r\n").trim() + "\r\n")
+    .join("");
+  if (!blocks) return ics;
+  const at = ics.indexOf("BEGIN:VEVENT\r\n");
+  const cut = at === -1 ? ics.indexOf("END:VCALENDAR") : at;
+  return ics.slice(0, cut) + blocks + ics.slice(cut);
+}
+
+declare global {
+  var __pacewrightFeedHits: Map<string, number[]> | undefined;
+}
+
+export const FEED_RATE = { requests: 60, windowMs: 10 * 60 * 1000 };
+
+/** Per-token request limit (in memory, per server process): calendar apps poll far less often than this. */
+export function feedRateLimited(tokenHash: string, now = Date.now()) {
+  globalThis.__pacewrightFeedHits ??= new Map();
+  const hits = (globalThis.__pacewrightFeedHits.get(tokenHash) ?? []).filter((t) => t > now - FEED_RATE.windowMs);
+  hits.push(now);
+  globalThis.__pacewrightFeedHits.set(tokenHash, hits);
+  return hits.length > FEED_RATE.requests;
+}

@@ -1,0 +1,34 @@
+import crypto from "node:crypto";
+import { buildFeed, feedRateLimited, REFRESH_SECONDS, userForToken } from "~/.server/services/feed";
+import { hashToken } from "~/.server/tokens";
+import type { Route } from "./+types/feed";
+
+// Calendar apps cannot sign in: the unguessable token in the URL is the credential. Every failure is the same
+// plain 404, so a probe learns nothing about which tokens exist or were revoked.
+const notFound = () => new Response("Not found", { status: 404, headers: { "Content-Type": "text/plain; charset=utf-8", "Cache-Control": "no-store" } });
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const file = params.file ?? "";
+  if (!file.endsWith(".ics")) return notFound();
+  const token = file.slice(0, -4);
+  const owner = await userForToken(token);
+  if (!owner || (owner.role !== "athlete" && owner.role !== "coach")) return notFound();
+  if (feedRateLimited(hashToken(token))) {
+    return new Response("Too many requests for this calendar link; try again in a few minutes.", { status: 429, headers: { "Retry-After": "600", "Content-Type": "text/plain; charset=utf-8" } });
+  }
+  const { body, lastModified } = await buildFeed(owner);
+  const etag = `"${crypto.createHash("sha256").update(body).digest("base64url").slice(0, 32)}"`;
+  const modified = new Date(Math.floor(lastModified.getTime() / 1000) * 1000);
+  const headers = {
+    "Content-Type": "text/calendar; charset=utf-8",
+    "Cache-Control": `private, max-age=${Math.min(REFRESH_SECONDS, 900)}`,
+    ETag: etag,
+    "Last-Modified": modified.toUTCString(),
+    "Content-Disposition": 'inline; filename="pacewright.ics"',
+  };
+  const inm = request.headers.get("if-none-match");
+  const ims = request.headers.get("if-modified-since");
+  const unchanged = inm ? inm.split(",").map((t) => t.trim().replace(/^W\//, "")).includes(etag) : ims ? Date.parse(ims) >= modified.getTime() : false;
+  if (unchanged) return new Response(null, { status: 304, headers });
+  return new Response(request.method === "HEAD" ? null : body, { status: 200, headers });
+}
