@@ -1,5 +1,5 @@
 import crypto from "node:crypto";
-import { buildFeed, feedRateLimited, REFRESH_SECONDS, userForToken } from "~/.server/services/feed";
+import { cachedFeed, feedFingerprint, feedRateLimited, REFRESH_SECONDS, userForToken } from "~/.server/services/feed";
 import { hashToken } from "~/.server/tokens";
 import type { Route } from "./+types/feed";
 
@@ -16,19 +16,20 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (feedRateLimited(hashToken(token))) {
     return new Response("Too many requests for this calendar link; try again in a few minutes.", { status: 429, headers: { "Retry-After": "600", "Content-Type": "text/plain; charset=utf-8" } });
   }
-  const { body, lastModified } = await buildFeed(owner);
-  const etag = `"${crypto.createHash("sha256").update(body).digest("base64url").slice(0, 32)}"`;
+  const fingerprint = await feedFingerprint(owner);
+  const etag = `"${crypto.createHash("sha256").update(fingerprint).digest("base64url").slice(0, 32)}"`;
+  const inm = request.headers.get("if-none-match");
+  const baseHeaders = { "Cache-Control": `private, max-age=${Math.min(REFRESH_SECONDS, 900)}`, ETag: etag };
+  if (inm && inm.split(",").map((t) => t.trim().replace(/^W\//, "")).includes(etag)) return new Response(null, { status: 304, headers: baseHeaders });
+  const { body, lastModified } = await cachedFeed(owner, fingerprint);
   const modified = new Date(Math.floor(lastModified.getTime() / 1000) * 1000);
   const headers = {
+    ...baseHeaders,
     "Content-Type": "text/calendar; charset=utf-8",
-    "Cache-Control": `private, max-age=${Math.min(REFRESH_SECONDS, 900)}`,
-    ETag: etag,
     "Last-Modified": modified.toUTCString(),
     "Content-Disposition": 'inline; filename="pacewright.ics"',
   };
-  const inm = request.headers.get("if-none-match");
   const ims = request.headers.get("if-modified-since");
-  const unchanged = inm ? inm.split(",").map((t) => t.trim().replace(/^W\//, "")).includes(etag) : ims ? Date.parse(ims) >= modified.getTime() : false;
-  if (unchanged) return new Response(null, { status: 304, headers });
+  if (!inm && ims && Date.parse(ims) >= modified.getTime()) return new Response(null, { status: 304, headers });
   return new Response(request.method === "HEAD" ? null : body, { status: 200, headers });
 }

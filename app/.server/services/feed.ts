@@ -188,6 +188,37 @@ function withTimezones(ics: string, zones: string[]) {
 
 declare global {
   var __pacewrightFeedHits: Map<string, number[]> | undefined;
+  var __pacewrightFeedCache: Map<number, { fingerprint: string; body: string; lastModified: Date }> | undefined;
+}
+
+/**
+ * A cheap summary of everything a feed shows: every change to a session (move, edit, rescale, status, cancel)
+ * touches its row's updated_at and sequence, and new sessions change the count. The ETag is derived from it, so a
+ * 304 needs one small query and no feed is rebuilt while nothing changed.
+ */
+export async function feedFingerprint(owner: User, now = new Date()) {
+  const ids = owner.role === "coach" ? (await CoachAthlete.findAll({ where: { coachId: owner.id } })).map((l) => l.athleteId) : [owner.id];
+  const today = todayIn(owner.timezone, now);
+  const [row] = ids.length
+    ? await db().query<{ n: number; m: string | null; q: number | null; u: string | null }>(
+        `SELECT COUNT(*) AS n, MAX(s.updated_at) AS m, SUM(s.feed_sequence) AS q, (SELECT MAX(updated_at) FROM users WHERE id IN (:ids)) AS u
+         FROM scheduled_sessions s WHERE s.athlete_id IN (:ids) AND s.date BETWEEN :from AND :to`,
+        { replacements: { ids, from: addDays(today, -FEED_WEEKS_BACK * 7), to: addDays(today, FEED_DAYS_AHEAD) }, type: QueryTypes.SELECT },
+      )
+    : [{ n: 0, m: null, q: 0, u: null }];
+  return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, row.m, row.q, row.u].join("|");
+}
+
+/** The feed body for its fingerprint, rebuilt only when the fingerprint moved on. */
+export async function cachedFeed(owner: User, fingerprint: string) {
+  globalThis.__pacewrightFeedCache ??= new Map();
+  const hit = globalThis.__pacewrightFeedCache.get(owner.id);
+  if (hit && hit.fingerprint === fingerprint) return hit;
+  const built = await buildFeed(owner);
+  const entry = { fingerprint, body: built.body, lastModified: built.lastModified };
+  if (globalThis.__pacewrightFeedCache.size > 500) globalThis.__pacewrightFeedCache.clear();
+  globalThis.__pacewrightFeedCache.set(owner.id, entry);
+  return entry;
 }
 
 export const FEED_RATE = { requests: 60, windowMs: 10 * 60 * 1000 };

@@ -1,0 +1,52 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser } from "playwright-core";
+import { browserAvailable, launchBrowser, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+
+const enabled = browserAvailable();
+
+describe.skipIf(!enabled)("calendar feed in the browser", () => {
+  let app: RunningApp;
+  let browser: Browser;
+  beforeAll(async () => {
+    app = await startApp();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await app?.stop();
+  });
+
+  it("the athlete makes a link, copies it, and the link serves the feed; turning it off gives 404", async () => {
+    const ctx = await browser.newContext({ viewport: { width: 390, height: 844 } });
+    await ctx.grantPermissions(["clipboard-read", "clipboard-write"], { origin: app.baseUrl });
+    const page = await ctx.newPage();
+    await signInAs(page, app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${app.baseUrl}/athlete`);
+    await page.goto(`${app.baseUrl}/athlete/feed`);
+    await ready(page);
+    await page.getByRole("button", { name: "Make my calendar link" }).click();
+    const web = page.getByLabel("Web link", { exact: true });
+    await web.waitFor();
+    const link = await web.inputValue();
+    expect(link).toMatch(new RegExp(`^${app.baseUrl}/feed/[A-Za-z0-9_-]{43}\\.ics$`));
+    expect(await page.getByLabel("Subscribe link", { exact: true }).inputValue()).toBe(link.replace(/^http:/, "webcal:"));
+    await page.getByRole("button", { name: "Copy" }).nth(1).click();
+    await page.getByRole("button", { name: "Copied" }).waitFor();
+    expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(link);
+    await page.getByRole("img", { name: "QR code of the subscribe link" }).waitFor();
+    await shot(page, "feed-settings-phone");
+
+    const res = await fetch(link);
+    expect(res.status).toBe(200);
+    expect(res.headers.get("content-type")).toBe("text/calendar; charset=utf-8");
+    const body = await res.text();
+    expect(body.startsWith("BEGIN:VCALENDAR\r\n")).toBe(true);
+    expect(body).toMatch(/SUMMARY:.* W/);
+
+    page.once("dialog", (d) => d.accept());
+    await page.getByRole("button", { name: "Turn the link off" }).click();
+    await page.getByText("The link is off.").waitFor();
+    expect((await fetch(link)).status).toBe(404);
+    await ctx.close();
+  });
+});
