@@ -16,6 +16,7 @@ export default [
   route("api/uploads", "routes/api/uploads.ts"),
   route("api/tests/preview", "routes/api/tests-preview.ts"),
   route("feed/:file", "routes/feed.ts"),
+  route("api/athletes/:id/load", "routes/api/athlete-load.ts"),
 
   layout("routes/app-layout.tsx", [
     route("coach", "routes/coach/roster.tsx"),
@@ -39,6 +40,8 @@ export default [
     route("athlete/tests/new", "routes/athlete/test-new.tsx"),
     route("athlete/uploads", "routes/athlete/uploads.tsx"),
     route("athlete/feed", "routes/athlete/feed.tsx"),
+    route("athlete/load", "routes/athlete/load.tsx"),
+    route("coach/athletes/:athleteId/load", "routes/athlete/load.tsx", { id: "coach-athlete-load" }),
     route("coach/feed", "routes/athlete/feed.tsx", { id: "coach-feed" }),
     route("admin/users", "routes/admin/users.tsx"),
   ]),

@@ -13,6 +13,7 @@ const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
     { to: "/athlete", label: "Today", end: true },
     { to: "/athlete/calendar", label: "Calendar" },
     { to: "/athlete/tests", label: "Field tests" },
+    { to: "/athlete/load", label: "Load" },
     { to: "/athlete/uploads", label: "Ride files" },
     { to: "/athlete/feed", label: "Calendar feed" },
   ],

@@ -87,6 +87,9 @@ export class ScheduledSession extends Model<InferAttributes<ScheduledSession>, I
   declare cancelledAt: CreationOptional<Date | null>;
   declare feedSequence: CreationOptional<number>;
   declare uploadId: CreationOptional<number | null>;
+  declare workKj: CreationOptional<number | null>;
+  declare trimp: CreationOptional<number | null>;
+  declare zoneMinutes: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -113,6 +116,9 @@ ScheduledSession.init(
     cancelledAt: { type: DataTypes.DATE, allowNull: true },
     feedSequence: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     uploadId: { type: DataTypes.INTEGER, allowNull: true },
+    workKj: { type: DataTypes.FLOAT, allowNull: true },
+    trimp: { type: DataTypes.FLOAT, allowNull: true },
+    zoneMinutes: { type: DataTypes.TEXT, allowNull: true },
     ...ts,
   },
   { sequelize: db(), tableName: "scheduled_sessions" },

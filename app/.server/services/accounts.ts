@@ -9,6 +9,7 @@ import { INVITE_DEAD, RESET_LINK_DEAD } from "~/lib/messages";
 import { copyStarterShelf } from "./sessions";
 import { currentThresholds } from "./thresholds";
 import { retestStatus } from "./retests";
+import { rosterLoad } from "./load";
 import { todayIn } from "~/lib/dates";
 
 export const RESET_TTL_MS = 60 * 60 * 1000;
@@ -227,7 +228,7 @@ export async function rosterFor(coachId: number) {
       athletes.map(async (a) => {
         const today = todayIn(a.timezone);
         const th = await currentThresholds(a.id, today);
-        return [a.id, { thresholds: th.map((t) => ({ sport: t.sport, metric: t.metric, value: t.value, unit: t.unit })), retest: await retestStatus(a.id, today), today }] as const;
+        return [a.id, { thresholds: th.map((t) => ({ sport: t.sport, metric: t.metric, value: t.value, unit: t.unit })), retest: await retestStatus(a.id, today), load: await rosterLoad(a), today }] as const;
       }),
     ),
   );

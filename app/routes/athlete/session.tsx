@@ -1,8 +1,10 @@
-import { Link } from "react-router";
+import { data, Link } from "react-router";
 import { SessionDetail } from "~/components/calendar/session-detail";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { completeFromForm, sessionPageData } from "~/.server/services/session-page";
+import { attachRide, LoadError } from "~/.server/services/load";
+import { AttachRide } from "~/components/calendar/attach-ride";
 import type { Route } from "./+types/session";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session.name ?? "Session"} · Pacewright` }];
@@ -14,7 +16,19 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const athlete = await requireRole(request, "athlete");
-  return completeFromForm(athlete, Number(params.id), await request.formData());
+  const form = await request.formData();
+  if (form.get("intent") === "attach") {
+    const page = await sessionPageData(athlete, Number(params.id));
+    const score = form.get("effortScore");
+    try {
+      const r = await attachRide(athlete, Number(form.get("uploadId")), page.session.date, score === null || score === "" ? null : Math.max(0, Math.min(10, Math.round(Number(score)))));
+      return { ok: true, message: r.matched ? "Ride file attached; the session is marked done." : "This day had no planned ride left; the file was kept as an unplanned ride.", fieldErrors: {} };
+    } catch (err) {
+      if (err instanceof LoadError) return data({ ok: false, message: err.message, fieldErrors: {} }, { status: err.status });
+      throw err;
+    }
+  }
+  return completeFromForm(athlete, Number(params.id), form);
 }
 
 export default function AthleteSession({ loaderData }: Route.ComponentProps) {
@@ -28,6 +42,7 @@ export default function AthleteSession({ loaderData }: Route.ComponentProps) {
       </p>
       <PageHeader title={loaderData.session.name} />
       <SessionDetail data={loaderData} canComplete />
+      {loaderData.session.status === "planned" && loaderData.session.sport === "bike" && <AttachRide />}
     </>
   );
 }

@@ -70,6 +70,9 @@ export default function CoachAthlete({ loaderData }: Route.ComponentProps) {
             <Link to={`/coach/athletes/${athlete.id}/tests`} className={buttonClass("secondary")}>
               Field tests
             </Link>
+            <Link to={`/coach/athletes/${athlete.id}/load`} className={buttonClass("secondary")}>
+              Load
+            </Link>
           </>
         }
       />

@@ -70,7 +70,19 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
         );
       },
     }),
-    column.accessor("since", { header: "On roster since", cell: (c) => formatDate(c.getValue(), timezone) }),
+    column.accessor((r) => r.load.compliance ?? -1, {
+      id: "compliance",
+      header: "Done, last 4 weeks",
+      cell: (c) => {
+        const l = c.row.original.load;
+        return (
+          <span data-testid="roster-compliance">
+            {l.compliance === null ? "—" : `${Math.round(l.compliance * 100)} % (${l.done}/${l.planned})`}
+            {l.spike && <span className="ml-2 rounded bg-brick/15 px-1.5 text-xs font-medium text-brick" title={`Acute:chronic ratio ${l.ratio}`}>load spike</span>}
+          </span>
+        );
+      },
+    }),
   ];
   return (
     <>

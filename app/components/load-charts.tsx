@@ -1,0 +1,184 @@
+import { useEffect, useState } from "react";
+import { useFetcher } from "react-router";
+import { Bar, BarChart, CartesianGrid, ComposedChart, Legend, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import { buttonClass } from "~/components/ui/button";
+import { Card } from "~/components/ui/card";
+import { addDays } from "~/lib/dates";
+
+export interface LoadData {
+  today: string;
+  from: string;
+  to: string;
+  daily: { date: string; future: boolean; effortLoad: number; plannedLoad: number; fitness: number; fatigue: number; balance: number; acwrRolling: number | null; acwrEwma: number | null }[];
+  weekly: { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; zones: number[]; compliance: number | null; monotony: number | null; strain: number | null }[];
+  latestRatio: number | null;
+  band: string | null;
+  powerCurve: { windowS: number; recent: number | null; previous: number | null }[];
+}
+
+const RANGES = [
+  ["6 weeks", 42],
+  ["3 months", 90],
+  ["6 months", 182],
+  ["1 year", 365],
+] as const;
+const LEVELS = ["Recovery", "Endurance", "Tempo", "Threshold", "Aerobic capacity", "Anaerobic", "Sprint"];
+const BAND_WORDS: Record<string, string> = { low: "below your usual load", usual: "within your usual range", raised: "raised", spike: "a spike: well above your usual load" };
+const short = (d: string) => d.slice(5);
+const windowLabel = (s: number) => (s < 60 ? `${s}s` : s < 3600 ? `${s / 60}m` : `${s / 3600}h`);
+
+/** The load page's charts; the range buttons ask the JSON route again, so the page never reloads. */
+export function LoadCharts({ athleteId, initial }: { athleteId: number; initial: LoadData }) {
+  const fetcher = useFetcher<LoadData>();
+  const [days, setDays] = useState(90);
+  const data = fetcher.data ?? initial;
+  useEffect(() => {
+    if (days === 90 && !fetcher.data) return;
+    fetcher.load(`/api/athletes/${athleteId}/load?from=${addDays(initial.today, -days + 1)}&to=${addDays(initial.today, 28)}`);
+  }, [days]); // eslint-disable-line react-hooks/exhaustive-deps
+  const daily = data.daily.map((d) => ({ ...d, fitnessPast: d.future ? null : d.fitness, fitnessFuture: d.future || d.date === data.today ? d.fitness : null, fatiguePast: d.future ? null : d.fatigue, fatigueFuture: d.future || d.date === data.today ? d.fatigue : null }));
+  return (
+    <div className="flex flex-col gap-6">
+      <div className="flex flex-wrap items-center gap-2" role="group" aria-label="Range">
+        {RANGES.map(([label, n]) => (
+          <button key={n} type="button" aria-pressed={days === n} className={buttonClass(days === n ? "primary" : "secondary", "px-3 py-1")} onClick={() => setDays(n)}>
+            {label}
+          </button>
+        ))}
+        <a href={`/api/athletes/${athleteId}/load?from=${data.from}&to=${data.to}&format=csv`} className="ml-auto text-sm text-teal underline" download>
+          Download the daily series (CSV)
+        </a>
+        {fetcher.state === "loading" && <span className="text-sm text-ink-soft">Loading…</span>}
+      </div>
+      <Card>
+        <h2 className="font-semibold">Fitness, fatigue and balance</h2>
+        <p className="text-xs text-ink-soft">Exponentially weighted effort load, 42 and 7 days (Banister). Dashed: what the plan ahead would do.</p>
+        <div className="mt-2 h-64" data-testid="fitness-chart">
+          <ResponsiveContainer>
+            <ComposedChart data={daily} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
+              <CartesianGrid stroke="#ede7dc" />
+              <XAxis dataKey="date" tickFormatter={short} tick={{ fontSize: 11 }} minTickGap={24} />
+              <YAxis tick={{ fontSize: 11 }} />
+              <Tooltip />
+              <Legend />
+              <ReferenceLine x={data.today} stroke="#B5523B" strokeDasharray="3 3" label={{ value: "today", fontSize: 11, fill: "#B5523B" }} />
+              <Bar dataKey="effortLoad" name="Effort load" fill="#c3dbd7" isAnimationActive={false} />
+              <Line dataKey="fitnessPast" name="Fitness" stroke="#1F5F5B" strokeWidth={2} dot={false} isAnimationActive={false} connectNulls={false} />
+              <Line dataKey="fitnessFuture" name="Fitness (planned)" stroke="#1F5F5B" strokeDasharray="4 3" dot={false} isAnimationActive={false} />
+              <Line dataKey="fatiguePast" name="Fatigue" stroke="#B5523B" strokeWidth={1.5} dot={false} isAnimationActive={false} />
+              <Line dataKey="fatigueFuture" name="Fatigue (planned)" stroke="#B5523B" strokeDasharray="4 3" dot={false} isAnimationActive={false} />
+              <Line dataKey="balance" name="Balance" stroke="#5f6f7f" strokeWidth={1} dot={false} isAnimationActive={false} />
+            </ComposedChart>
+          </ResponsiveContainer>
+        </div>
+      </Card>
+      <div className="grid gap-6 xl:grid-cols-2">
+        <Card>
+          <h2 className="font-semibold">Weekly load: planned and done</h2>
+          <div className="mt-2 h-56" data-testid="weekly-chart">
+            <ResponsiveContainer>
+              <BarChart data={data.weekly} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
+                <CartesianGrid stroke="#ede7dc" />
+                <XAxis dataKey="week" tickFormatter={short} tick={{ fontSize: 11 }} />
+                <YAxis tick={{ fontSize: 11 }} />
+                <Tooltip />
+                <Legend />
+                <Bar dataKey="plannedLoad" name="Planned" fill="#d9c7a3" isAnimationActive={false} />
+                <Bar dataKey="doneLoad" name="Done" fill="#1F5F5B" isAnimationActive={false} />
+              </BarChart>
+            </ResponsiveContainer>
+          </div>
+        </Card>
+        <Card>
+          <h2 className="font-semibold">Minutes per level, by week</h2>
+          <p className="text-xs text-ink-soft">From ride files with power.</p>
+          <div className="mt-2 h-56">
+            <ResponsiveContainer>
+              <BarChart data={data.weekly.map((w) => ({ week: w.week, ...Object.fromEntries(w.zones.map((m, i) => [LEVELS[i], m])) }))} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
+                <XAxis dataKey="week" tickFormatter={short} tick={{ fontSize: 11 }} />
+                <YAxis tick={{ fontSize: 11 }} />
+                <Tooltip />
+                {LEVELS.map((l, i) => (
+                  <Bar key={l} dataKey={l} stackId="z" fill={`var(--color-level-${i + 1})`} isAnimationActive={false} />
+                ))}
+              </BarChart>
+            </ResponsiveContainer>
+          </div>
+        </Card>
+        <Card>
+          <h2 className="font-semibold">Acute:chronic load ratio</h2>
+          <p className="text-xs text-ink-soft">
+            7-day against 28-day load (rolling; the EWMA variant thin). Bands are guidance only{data.latestRatio !== null ? `; now ${data.latestRatio}, ${BAND_WORDS[data.band ?? "usual"]}` : ""}.
+          </p>
+          <div className="mt-2 h-56">
+            <ResponsiveContainer>
+              <LineChart data={data.daily.filter((d) => !d.future)} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
+                <ReferenceArea y1={0.8} y2={1.3} fill="#8fa58a" fillOpacity={0.18} />
+                <ReferenceArea y1={1.5} y2={3} fill="#B5523B" fillOpacity={0.1} />
+                <XAxis dataKey="date" tickFormatter={short} tick={{ fontSize: 11 }} minTickGap={24} />
+                <YAxis domain={[0, 2.2]} tick={{ fontSize: 11 }} />
+                <Tooltip />
+                <Line dataKey="acwrRolling" name="Rolling" stroke="#1F5F5B" strokeWidth={2} dot={false} isAnimationActive={false} />
+                <Line dataKey="acwrEwma" name="EWMA" stroke="#5f6f7f" strokeWidth={1} dot={false} isAnimationActive={false} />
+              </LineChart>
+            </ResponsiveContainer>
+          </div>
+        </Card>
+        <Card>
+          <h2 className="font-semibold">Power curve: last 90 days and the 90 before</h2>
+          {data.powerCurve.length ? (
+            <div className="mt-2 h-56">
+              <ResponsiveContainer>
+                <LineChart data={data.powerCurve} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
+                  <CartesianGrid stroke="#ede7dc" />
+                  <XAxis dataKey="windowS" scale="log" type="number" domain={["dataMin", "dataMax"]} tickFormatter={windowLabel} tick={{ fontSize: 11 }} />
+                  <YAxis tick={{ fontSize: 11 }} />
+                  <Tooltip labelFormatter={(l) => windowLabel(Number(l))} />
+                  <Legend />
+                  <Line dataKey="recent" name="Last 90 days" stroke="#1F5F5B" strokeWidth={2} dot={false} isAnimationActive={false} />
+                  <Line dataKey="previous" name="90 days before" stroke="#B5523B" strokeDasharray="4 3" dot={false} isAnimationActive={false} />
+                </LineChart>
+              </ResponsiveContainer>
+            </div>
+          ) : (
+            <p className="mt-2 text-sm text-ink-soft">Upload ride files with power to see the curve.</p>
+          )}
+        </Card>
+      </div>
+      <Card className="overflow-x-auto">
+        <h2 className="font-semibold">Compliance, monotony and strain by week</h2>
+        <table className="num mt-2 w-full min-w-[40rem] text-left text-sm" data-testid="compliance-table">
+          <thead className="text-ink-soft">
+            <tr>
+              <th className="py-1 font-medium">Week of</th>
+              <th className="py-1 font-medium">Sessions done / planned</th>
+              <th className="py-1 font-medium">Minutes done / planned</th>
+              <th className="py-1 font-medium">Load done / planned</th>
+              <th className="py-1 font-medium">Monotony</th>
+              <th className="py-1 font-medium">Strain</th>
+            </tr>
+          </thead>
+          <tbody>
+            {data.weekly.map((w) => (
+              <tr key={w.week} className="border-t border-line/60">
+                <td className="py-1">{w.week}</td>
+                <td className="py-1">
+                  {w.doneSessions} / {w.plannedSessions}
+                </td>
+                <td className="py-1">
+                  {w.doneMinutes} / {w.plannedMinutes}
+                </td>
+                <td className="py-1">
+                  {Math.round(w.doneLoad)} / {Math.round(w.plannedLoad)}
+                </td>
+                <td className="py-1">{w.monotony ?? "—"}</td>
+                <td className="py-1">{w.strain ?? "—"}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        <p className="mt-2 text-xs text-ink-soft">Monotony is mean daily load over its standard deviation, strain is weekly load times monotony (Foster 1998).</p>
+      </Card>
+    </div>
+  );
+}
