@@ -1,0 +1,83 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser } from "playwright-core";
+import { browserAvailable, launchBrowser, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+
+const enabled = browserAvailable();
+
+describe.skipIf(!enabled)("training load in the browser", () => {
+  let app: RunningApp;
+  let browser: Browser;
+  beforeAll(async () => {
+    app = await startApp();
+    browser = await launchBrowser();
+  });
+  afterAll(async () => {
+    await browser?.close();
+    await app?.stop();
+  });
+
+  it("the demo cyclist marks a session done and the week's numbers and the fitness line change; the coach sees compliance", async () => {
+    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    await signInAs(page, app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${app.baseUrl}/athlete`);
+
+    // The next planned session of this week or the next, read the way the calendar reads it.
+    const next = await page.evaluate(async () => {
+      const d = new Date();
+      const monday = new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate() - ((d.getUTCDay() + 6) % 7) - 7));
+      const iso = (x: Date) => x.toISOString().slice(0, 10);
+      const to = new Date(monday.getTime() + 27 * 86_400_000);
+      const r = await fetch(`/api/calendar?from=${iso(monday)}&to=${iso(to)}`);
+      const body = await r.json();
+      const today = new Date().toISOString().slice(0, 10);
+      return body.sessions.find((s: { status: string; date: string }) => s.status === "planned" && s.date >= today) as { id: number; date: string };
+    });
+    expect(next).toBeTruthy();
+
+    await page.goto(`${app.baseUrl}/athlete/load`);
+    await ready(page);
+    // All fitness and fatigue lines (done and planned): a session marked done ahead of today moves the planned part.
+    const fitnessPath = () => page.locator("[data-testid=fitness-chart] path.recharts-curve").evaluateAll((els) => els.map((e) => e.getAttribute("d")).join("|"));
+    await expect.poll(fitnessPath).toBeTruthy();
+    const pathBefore = await fitnessPath();
+    const weekOf = await page.evaluate((date) => {
+      const d = new Date(`${date}T00:00:00Z`);
+      d.setUTCDate(d.getUTCDate() - ((d.getUTCDay() + 6) % 7));
+      return d.toISOString().slice(0, 10);
+    }, next.date);
+    const row = page.getByTestId("compliance-table").locator("tr", { hasText: weekOf });
+    const before = await row.locator("td").nth(1).textContent();
+    await shot(page, "load-before");
+
+    await page.goto(`${app.baseUrl}/athlete/sessions/${next.id}`);
+    await ready(page);
+    await page.getByLabel(/^7 Hard$/).check();
+    await page.getByRole("button", { name: "Mark done" }).click();
+    await page.getByText("Marked done. Nice work.").waitFor();
+
+    await page.goto(`${app.baseUrl}/athlete/load`);
+    await ready(page);
+    await expect.poll(fitnessPath).not.toBe(pathBefore);
+    const after = await row.locator("td").nth(1).textContent();
+    const doneOf = (s: string | null) => Number(s!.split("/")[0].trim());
+    expect(doneOf(after)).toBe(doneOf(before) + 1);
+    // Changing the range asks the JSON route; the page does not reload.
+    const url = page.url();
+    const reply = page.waitForResponse((r) => r.url().includes("/load") && r.url().includes("from=") && r.status() === 200);
+    await page.getByRole("button", { name: "6 weeks" }).click();
+    await reply;
+    expect(page.url()).toBe(url);
+    await shot(page, "load-after");
+    await ctx.close();
+
+    const cctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const coach = await cctx.newPage();
+    await signInAs(coach, app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await coach.waitForURL(`${app.baseUrl}/coach`);
+    const tomas = coach.locator("tr", { hasText: "Tomás Reyes" }).getByTestId("roster-compliance");
+    await expect.poll(() => tomas.textContent()).toMatch(/\d+ % \(\d+\/\d+\)/);
+    await shot(coach, "roster-compliance");
+    await cctx.close();
+  });
+});
