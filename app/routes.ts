@@ -17,6 +17,11 @@ export default [
   route("api/tests/preview", "routes/api/tests-preview.ts"),
   route("feed/:file", "routes/feed.ts"),
   route("api/athletes/:id/load", "routes/api/athlete-load.ts"),
+  route("api/shop", "routes/api/shop.ts"),
+  route("webhooks/payments", "routes/webhooks/payments.ts"),
+  route("shop", "routes/shop/index.tsx"),
+  route("shop/orders/:orderId", "routes/shop/order.tsx"),
+  route("shop/:slug", "routes/shop/listing.tsx"),
 
   layout("routes/app-layout.tsx", [
     route("coach", "routes/coach/roster.tsx"),
@@ -43,6 +48,7 @@ export default [
     route("athlete/load", "routes/athlete/load.tsx"),
     route("coach/athletes/:athleteId/load", "routes/athlete/load.tsx", { id: "coach-athlete-load" }),
     route("coach/feed", "routes/athlete/feed.tsx", { id: "coach-feed" }),
+    route("coach/shop", "routes/coach/shop.tsx"),
     route("admin/users", "routes/admin/users.tsx"),
   ]),
 ] satisfies RouteConfig;

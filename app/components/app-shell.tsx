@@ -7,6 +7,7 @@ const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
     { to: "/coach", label: "Roster", end: true },
     { to: "/coach/sessions", label: "Session shelf" },
     { to: "/coach/plans", label: "Season plans" },
+    { to: "/coach/shop", label: "Selling" },
     { to: "/coach/feed", label: "Calendar feed" },
   ],
   athlete: [
@@ -16,6 +17,7 @@ const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
     { to: "/athlete/load", label: "Load" },
     { to: "/athlete/uploads", label: "Ride files" },
     { to: "/athlete/feed", label: "Calendar feed" },
+    { to: "/shop", label: "Plan shop" },
   ],
   admin: [{ to: "/admin/users", label: "Users" }],
 };

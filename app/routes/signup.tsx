@@ -1,9 +1,10 @@
-import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { data, Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { Field, FormMessage } from "~/components/ui/field";
 import { buttonClass } from "~/components/ui/button";
 import { TimezoneSelect } from "~/components/timezone-select";
 import { getUser, homeFor, startSession } from "~/.server/auth";
+import { safeRedirect } from "~/.server/http";
 import { AccountError, signUp } from "~/.server/services/accounts";
 import { parseForm, signUpSchema } from "~/lib/forms";
 import type { Route } from "./+types/signup";
@@ -19,12 +20,13 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   const signedIn = await getUser(request);
   if (signedIn) throw redirect(homeFor(signedIn.role));
-  const parsed = parseForm(signUpSchema, await request.formData());
+  const form = await request.formData();
+  const parsed = parseForm(signUpSchema, form);
   if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors, values: parsed.values }, { status: 400 });
   try {
     const user = await signUp(parsed.data);
     const cookie = await startSession(user, request);
-    return redirect(homeFor(user.role), { headers: { "Set-Cookie": cookie } });
+    return redirect(safeRedirect(form.get("redirectTo"), homeFor(user.role)), { headers: { "Set-Cookie": cookie } });
   } catch (err) {
     if (err instanceof AccountError) {
       const { password: _omit, ...values } = parsed.data;
@@ -38,6 +40,9 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
   const errors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
   const values: Record<string, string | undefined> = actionData?.values ?? {};
   const busy = useNavigation().state === "submitting";
+  const [params] = useSearchParams();
+  const redirectTo = params.get("redirectTo") ?? "";
+  const buying = redirectTo.startsWith("/shop/");
   return (
     <AuthFrame
       title="Create your account"
@@ -50,6 +55,7 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
     >
       <Form method="post" className="flex flex-col gap-4" noValidate>
         {errors.form && <FormMessage>{errors.form}</FormMessage>}
+        <input type="hidden" name="redirectTo" value={redirectTo} />
         <fieldset className="flex flex-col gap-2">
           <legend className="text-sm font-medium">I am</legend>
           <div className="grid grid-cols-2 gap-2">
@@ -64,7 +70,7 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
                 className="flex cursor-pointer flex-col rounded-lg border border-line p-3 has-[:checked]:border-teal has-[:checked]:bg-teal/5"
               >
                 <span className="flex items-center gap-2 font-medium">
-                  <input type="radio" name="role" value={value} defaultChecked={(values.role ?? "coach") === value} />
+                  <input type="radio" name="role" value={value} defaultChecked={(values.role ?? (buying ? "athlete" : "coach")) === value} />
                   {label}
                 </span>
                 <span className="mt-1 text-xs text-ink-soft">{hint}</span>

@@ -1,5 +1,6 @@
 import { env } from "../env";
 import { startMailCatcher } from "./mail-catcher";
+import { startFakePayments } from "./payments";
 
 export interface RunningFakes {
   smtpPort: number | null;
@@ -15,6 +16,10 @@ export async function startFakes(): Promise<RunningFakes> {
     const catcher = await startMailCatcher(e.smtpCatcherPort);
     smtpPort = catcher.port;
     closers.push(catcher.close);
+  }
+  if (e.fakes && !e.stripeSecretKey) {
+    const pay = await startFakePayments({ port: e.fakePaymentsPort, webhookUrl: `http://127.0.0.1:${e.port}/webhooks/payments`, webhookSecret: e.stripeWebhookSecret });
+    closers.push(pay.close);
   }
   return {
     smtpPort,

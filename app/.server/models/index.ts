@@ -6,3 +6,4 @@ export { Session, SessionBlock, SeasonPlan, PlanWeek, PlanItem, PlanRecurrence }
 export { Threshold, Assignment, ScheduledSession, ScheduledBlock, type SessionStatus } from "./calendar";
 export { Upload, FieldTest, RescaleReport } from "./tests";
 export { FeedToken } from "./feed";
+export { Listing, Order, PaymentEvent, type OrderStatus } from "./shop";

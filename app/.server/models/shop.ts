@@ -1,0 +1,106 @@
+import {
+  DataTypes,
+  Model,
+  type CreationOptional,
+  type InferAttributes,
+  type InferCreationAttributes,
+} from "sequelize";
+import { db } from "../db";
+
+const ts = { createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
+
+export class Listing extends Model<InferAttributes<Listing>, InferCreationAttributes<Listing>> {
+  declare id: CreationOptional<number>;
+  declare planId: number;
+  declare coachId: number;
+  declare slug: string;
+  declare title: string;
+  declare description: string;
+  declare sport: string;
+  declare level: string;
+  declare weeks: number;
+  declare weeklyHours: number;
+  declare priceCents: number;
+  declare currency: string;
+  declare published: CreationOptional<boolean>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+Listing.init(
+  {
+    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+    planId: { type: DataTypes.INTEGER, allowNull: false },
+    coachId: { type: DataTypes.INTEGER, allowNull: false },
+    slug: { type: DataTypes.STRING(80), allowNull: false },
+    title: { type: DataTypes.STRING(120), allowNull: false },
+    description: { type: DataTypes.TEXT, allowNull: false },
+    sport: { type: DataTypes.STRING(16), allowNull: false },
+    level: { type: DataTypes.STRING(16), allowNull: false },
+    weeks: { type: DataTypes.INTEGER, allowNull: false },
+    weeklyHours: { type: DataTypes.FLOAT, allowNull: false },
+    priceCents: { type: DataTypes.INTEGER, allowNull: false },
+    currency: { type: DataTypes.STRING(3), allowNull: false },
+    published: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+    ...ts,
+  },
+  { sequelize: db(), tableName: "listings" },
+);
+
+export type OrderStatus = "pending" | "fulfilled" | "cancelled" | "declined" | "refunded" | "flagged";
+
+export class Order extends Model<InferAttributes<Order>, InferCreationAttributes<Order>> {
+  declare id: CreationOptional<number>;
+  declare listingId: number;
+  declare buyerId: number;
+  declare status: CreationOptional<OrderStatus>;
+  declare amountCents: number;
+  declare currency: string;
+  declare alignMode: "start" | "event";
+  declare alignDate: string;
+  declare checkoutSessionId: CreationOptional<string | null>;
+  declare paymentIntentId: CreationOptional<string | null>;
+  declare assignmentId: CreationOptional<number | null>;
+  declare note: CreationOptional<string | null>;
+  declare createdAt: CreationOptional<Date>;
+  declare updatedAt: CreationOptional<Date>;
+}
+Order.init(
+  {
+    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+    listingId: { type: DataTypes.INTEGER, allowNull: false },
+    buyerId: { type: DataTypes.INTEGER, allowNull: false },
+    status: { type: DataTypes.STRING(12), allowNull: false, defaultValue: "pending" },
+    amountCents: { type: DataTypes.INTEGER, allowNull: false },
+    currency: { type: DataTypes.STRING(3), allowNull: false },
+    alignMode: { type: DataTypes.STRING(8), allowNull: false },
+    alignDate: { type: DataTypes.DATEONLY, allowNull: false },
+    checkoutSessionId: { type: DataTypes.STRING(255), allowNull: true },
+    paymentIntentId: { type: DataTypes.STRING(255), allowNull: true },
+    assignmentId: { type: DataTypes.INTEGER, allowNull: true },
+    note: { type: DataTypes.TEXT, allowNull: true },
+    ...ts,
+  },
+  { sequelize: db(), tableName: "orders" },
+);
+
+export class PaymentEvent extends Model<InferAttributes<PaymentEvent>, InferCreationAttributes<PaymentEvent>> {
+  declare id: CreationOptional<number>;
+  declare providerEventId: string;
+  declare type: string;
+  declare orderId: number | null;
+  declare outcome: string;
+  declare payload: string;
+  declare createdAt: CreationOptional<Date>;
+}
+PaymentEvent.init(
+  {
+    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+    providerEventId: { type: DataTypes.STRING(255), allowNull: false },
+    type: { type: DataTypes.STRING(64), allowNull: false },
+    orderId: { type: DataTypes.INTEGER, allowNull: true },
+    outcome: { type: DataTypes.STRING(32), allowNull: false },
+    payload: { type: DataTypes.TEXT, allowNull: false },
+    createdAt: DataTypes.DATE,
+  },
+  { sequelize: db(), tableName: "payment_events", updatedAt: false },
+);
