@@ -10,6 +10,7 @@ import { alignStart, materialize, resolveSteps } from "./materialize";
 import { thresholdHistory, thresholdSport } from "./thresholds";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { defaultTestFor } from "~/lib/protocols";
+import { CURRENCIES, LEVELS } from "~/lib/shop";
 
 export class ShopError extends Error {
   name = "ShopError";
@@ -21,8 +22,7 @@ export class ShopError extends Error {
   }
 }
 
-export const CURRENCIES = ["EUR", "USD", "GBP"] as const;
-export const LEVELS = ["beginner", "intermediate", "advanced"] as const;
+export { CURRENCIES, LEVELS };
 
 export const listingSchema = z.object({
   planId: z.coerce.number().int().positive("Choose one of your plans."),

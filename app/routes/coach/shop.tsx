@@ -6,7 +6,8 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage, SelectField } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { Listing, SeasonPlan } from "~/.server/models";
-import { createListing, CURRENCIES, formatPrice, LEVELS, listingSchema, refundOrder, salesFor, setPublished, ShopError } from "~/.server/services/shop";
+import { createListing, formatPrice, listingSchema, refundOrder, salesFor, setPublished, ShopError } from "~/.server/services/shop";
+import { CURRENCIES, LEVELS } from "~/lib/shop";
 import { parseForm } from "~/lib/forms";
 import type { Route } from "./+types/shop";
 
