@@ -10,7 +10,7 @@ export interface LoadData {
   from: string;
   to: string;
   daily: { date: string; future: boolean; effortLoad: number; plannedLoad: number; fitness: number; fatigue: number; balance: number; acwrRolling: number | null; acwrEwma: number | null }[];
-  weekly: { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; zones: number[]; compliance: number | null; monotony: number | null; strain: number | null }[];
+  weekly: { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; zones: number[]; compliance: number | null; inTargetPct?: number | null; monotony: number | null; strain: number | null }[];
   latestRatio: number | null;
   band: string | null;
   powerCurve: { windowS: number; recent: number | null; previous: number | null }[];
@@ -154,6 +154,7 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
               <th className="py-1 font-medium">Sessions done / planned</th>
               <th className="py-1 font-medium">Minutes done / planned</th>
               <th className="py-1 font-medium">Load done / planned</th>
+              <th className="py-1 font-medium">Time in target</th>
               <th className="py-1 font-medium">Monotony</th>
               <th className="py-1 font-medium">Strain</th>
             </tr>
@@ -171,6 +172,7 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
                 <td className="py-1">
                   {Math.round(w.doneLoad)} / {Math.round(w.plannedLoad)}
                 </td>
+                <td className="py-1">{w.inTargetPct == null ? "—" : `${w.inTargetPct} %`}</td>
                 <td className="py-1">{w.monotony ?? "—"}</td>
                 <td className="py-1">{w.strain ?? "—"}</td>
               </tr>

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { CoachAthlete, ScheduledSession, Threshold } from "~/.server/models";
+import { CoachAthlete, ScheduledBlock, ScheduledSession, Threshold } from "~/.server/models";
 import { attachRide, loadSeries } from "~/.server/services/load";
 import * as loadApi from "~/routes/api/athlete-load";
 import * as roster from "~/routes/coach/roster";
@@ -100,6 +100,8 @@ describe("training load", () => {
     await athlete.update({ restingHr: 48, maxHr: 188, sex: "male" });
     await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 280, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
     const planned = await ScheduledSession.create({ athleteId: athlete.id, date: "2026-11-20", name: "Planned ride", sport: "bike", plannedDurationS: 3600, plannedLoad: 300 });
+    // One step: an hour at 140–160 W (the demo ride's warm-up sits near 150 W, its test near 290 W).
+    await ScheduledBlock.create({ scheduledSessionId: planned.id, athleteId: athlete.id, date: "2026-11-20", sport: "bike", position: 0, blockIndex: 0, kind: "steady", part: "main", rep: null, repCount: null, durationS: 3600, metric: "power", lowPct: 50, highPct: 57, ramp: false, lowAbs: 140, highAbs: 160, unit: "W", thresholdId: null, thresholdValue: 280, cue: null, cadence: null });
     const body = new FormData();
     const ride = twentyMinuteTestRide(290);
     body.append("file", new File([toCsv(ride)], "ride.csv"));
@@ -112,6 +114,8 @@ describe("training load", () => {
     expect(planned.workKj).toBeCloseTo(ride.reduce((s, x) => s + x.power, 0) / 1000, 6);
     const hr = ride.map((x) => x.hr);
     expect(planned.trimp).toBeCloseTo(trimpBanister({ minutes: hr.length / 60, avgHr: hr.reduce((a, b) => a + b, 0) / hr.length, restHr: 48, maxHr: 188, sex: "male" }), 6);
+    const expected = ride.filter((x) => x.power >= 140 - 7.5 && x.power <= 160 + 7.5).length;
+    expect(planned).toMatchObject({ targetedS: 3600, inTargetS: expected });
     const zones = JSON.parse(planned.zoneMinutes!) as number[];
     expect(zones.reduce((a, b) => a + b, 0)).toBeCloseTo(ride.filter((x) => x.power > 0).length / 60, 6);
     const again = await attachRide(athlete, up.upload.id, "2026-11-20", 6);

@@ -157,3 +157,15 @@ describe("test analysis", () => {
     expect(() => heartRateDrift(series(power))).toThrow(/no heart-rate/);
   });
 });
+
+describe("time in target (common practice: ±5 % of the range's middle)", () => {
+  it("counts the seconds of each targeted step whose power is within its widened range", async () => {
+    const { timeInTarget } = await import("~/lib/training");
+    // 10 s warm-up without target, then 10 s at 200–210 W: 6 s inside, 2 s just inside the 5 % slack, 2 s outside.
+    const power = [...new Array(10).fill(100), 200, 205, 210, 208, 201, 209, 195, 215, 150, 300];
+    const r = timeInTarget(series(power), [{ durationS: 10, low: null, high: null }, { durationS: 10, low: 200, high: 210 }]);
+    expect(r).toEqual({ targetedS: 10, inTargetS: 8 });
+    // A ramp is judged against the line between its ends.
+    expect(timeInTarget(series([100, 150, 200]), [{ durationS: 3, low: 100, high: 200, ramp: true }])).toEqual({ targetedS: 3, inTargetS: 3 });
+  });
+});

@@ -90,6 +90,8 @@ export class ScheduledSession extends Model<InferAttributes<ScheduledSession>, I
   declare workKj: CreationOptional<number | null>;
   declare trimp: CreationOptional<number | null>;
   declare zoneMinutes: CreationOptional<string | null>;
+  declare targetedS: CreationOptional<number | null>;
+  declare inTargetS: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -119,6 +121,8 @@ ScheduledSession.init(
     workKj: { type: DataTypes.FLOAT, allowNull: true },
     trimp: { type: DataTypes.FLOAT, allowNull: true },
     zoneMinutes: { type: DataTypes.TEXT, allowNull: true },
+    targetedS: { type: DataTypes.INTEGER, allowNull: true },
+    inTargetS: { type: DataTypes.INTEGER, allowNull: true },
     ...ts,
   },
   { sequelize: db(), tableName: "scheduled_sessions" },

@@ -1,6 +1,6 @@
 import { Op, QueryTypes } from "sequelize";
 import { db, writeTransaction } from "../db";
-import { ScheduledSession, Threshold, Upload, type User } from "../models";
+import { ScheduledBlock, ScheduledSession, Threshold, Upload, type User } from "../models";
 import { loadActivity } from "./uploads";
 import { addDays, daysBetween, mondayOf, todayIn } from "~/lib/dates";
 import {
@@ -11,6 +11,7 @@ import {
   monotonyStrain,
   powerLevels,
   ratioBand,
+  timeInTarget,
   trimpBanister,
   workKj,
 } from "~/lib/training";
@@ -48,7 +49,11 @@ export async function attachRide(athlete: User, uploadId: number, date: string, 
   return writeTransaction(async (transaction) => {
     const planned = await ScheduledSession.findOne({ where: { athleteId: athlete.id, date, status: "planned", sport: "bike" }, order: [["position", "ASC"]], transaction });
     if (planned) {
-      await planned.update({ ...result, status: "done", effortScore, completedAt: new Date(), feedSequence: planned.feedSequence + 1 }, { transaction });
+      const steps = await ScheduledBlock.findAll({ where: { scheduledSessionId: planned.id }, order: [["position", "ASC"]], transaction });
+      const fit = hasPower
+        ? timeInTarget(samples, steps.map((b) => ({ durationS: b.durationS, low: b.metric === "power" ? b.lowAbs : null, high: b.metric === "power" ? b.highAbs : null, ramp: b.ramp })))
+        : { targetedS: 0, inTargetS: 0 };
+      await planned.update({ ...result, targetedS: fit.targetedS || null, inTargetS: fit.targetedS ? fit.inTargetS : null, status: "done", effortScore, completedAt: new Date(), feedSequence: planned.feedSequence + 1 }, { transaction });
       return { session: planned, matched: true };
     }
     const session = await ScheduledSession.create(
@@ -69,6 +74,8 @@ interface DayRow {
   trimp: number | null;
   work_kj: number | null;
   zone_minutes: string | null;
+  targeted_s: number | null;
+  in_target_s: number | null;
 }
 
 /**
@@ -81,12 +88,12 @@ export async function loadSeries(athlete: User, from: string, to: string) {
   // Fitness needs history: start the model well before the window (six time constants of fatigue, one of fitness).
   const warmFrom = addDays(from, -84);
   const rows = await db().query<DayRow>(
-    `SELECT date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, zone_minutes
+    `SELECT date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, zone_minutes, targeted_s, in_target_s
      FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled'`,
     { replacements: [athlete.id, warmFrom, to], type: QueryTypes.SELECT },
   );
   const n = daysBetween(warmFrom, to) + 1;
-  const days = Array.from({ length: n }, (_, i) => ({ date: addDays(warmFrom, i), effortLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, zones: new Array(7).fill(0) as number[] }));
+  const days = Array.from({ length: n }, (_, i) => ({ date: addDays(warmFrom, i), effortLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, targeted: 0, inTarget: 0, zones: new Array(7).fill(0) as number[] }));
   for (const r of rows) {
     const d = days[daysBetween(warmFrom, r.date)];
     if (!d) continue;
@@ -104,6 +111,8 @@ export async function loadSeries(athlete: User, from: string, to: string) {
       d.doneMinutes += r.actual_minutes ?? 0;
       if (r.effort_score !== null && r.actual_minutes !== null) d.effortLoad += effortLoad(r.effort_score, r.actual_minutes);
       d.trimp += r.trimp ?? 0;
+      d.targeted += r.targeted_s ?? 0;
+      d.inTarget += r.in_target_s ?? 0;
       d.workKj += r.work_kj ?? 0;
       if (r.zone_minutes) (JSON.parse(r.zone_minutes) as number[]).forEach((m, k) => (d.zones[k] += m));
     } else if (r.status === "planned") {
@@ -131,21 +140,23 @@ export async function loadSeries(athlete: User, from: string, to: string) {
     }))
     .filter((d) => d.date >= from);
 
-  const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; zones: number[]; loads: number[] }>();
+  const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; zones: number[]; loads: number[] }>();
   for (const d of days.filter((x) => x.date >= mondayOf(from))) {
     const w = mondayOf(d.date);
-    const e = weeks.get(w) ?? { week: w, plannedLoad: 0, doneLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, zones: new Array(7).fill(0) as number[], loads: [] as number[] };
+    const e = weeks.get(w) ?? { week: w, plannedLoad: 0, doneLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, zones: new Array(7).fill(0) as number[], loads: [] as number[] };
     e.doneLoad += d.effortLoad;
     e.plannedLoad += d.plannedAll;
     e.plannedSessions += d.planned;
     e.doneSessions += d.done;
     e.plannedMinutes += d.plannedMinutes;
     e.doneMinutes += d.doneMinutes;
+    e.targeted += d.targeted;
+    e.inTarget += d.inTarget;
     d.zones.forEach((m, k) => (e.zones[k] += m));
     e.loads.push(d.date <= today ? d.effortLoad : d.plannedLoad);
     weeks.set(w, e);
   }
-  const weekly = [...weeks.values()].map(({ loads, ...w }) => {
+  const weekly = [...weeks.values()].map(({ loads, targeted, inTarget, ...w }) => {
     const ms = loads.length >= 2 ? monotonyStrain(loads) : null;
     return {
       ...w,
@@ -155,6 +166,7 @@ export async function loadSeries(athlete: User, from: string, to: string) {
       doneMinutes: Math.round(w.doneMinutes),
       zones: w.zones.map((m) => round(m)),
       compliance: w.plannedSessions ? round(w.doneSessions / w.plannedSessions, 2) : null,
+      inTargetPct: targeted ? Math.round((inTarget / targeted) * 100) : null,
       monotony: ms?.monotony === null || !ms ? null : round(ms.monotony!, 2),
       strain: ms?.strain === null || !ms ? null : round(ms.strain!),
     };

@@ -38,6 +38,8 @@ export async function sessionPageData(athlete: User, sessionId: number) {
       effortScore: session.effortScore,
       actualMinutes: session.actualMinutes,
       comment: session.comment,
+      targetedS: session.targetedS,
+      inTargetS: session.inTargetS,
     },
     steps,
     zones,

@@ -24,6 +24,8 @@ export interface SessionDetailData {
     effortScore: number | null;
     actualMinutes: number | null;
     comment: string | null;
+    targetedS?: number | null;
+    inTargetS?: number | null;
   };
   steps: StepView[];
   zones: { metric: string; unit: string; threshold: number; rows: { key: string; name: string; lo: number; hi: number | null }[] }[];
@@ -86,8 +88,34 @@ export function SessionDetail({ data, canComplete }: { data: SessionDetailData; 
           </Card>
         ))}
       </div>
-      <aside>{canComplete ? <CompleteForm session={s} /> : <ResultCard session={s} />}</aside>
+      <aside className="flex flex-col gap-4">
+        {s.status === "done" && <PlannedVsActual session={s} />}
+        {canComplete ? <CompleteForm session={s} /> : <ResultCard session={s} />}
+      </aside>
     </div>
+  );
+}
+
+function PlannedVsActual({ session: s }: { session: SessionDetailData["session"] }) {
+  return (
+    <Card>
+      <h2 className="font-semibold">Planned and done</h2>
+      <dl className="num mt-2 grid grid-cols-2 gap-1 text-sm" data-testid="planned-vs-actual">
+        <dt className="text-ink-soft">Planned</dt>
+        <dd className="text-right">{formatMinutes(s.plannedDurationS)}</dd>
+        <dt className="text-ink-soft">Done</dt>
+        <dd className="text-right">{s.actualMinutes ? formatMinutes(s.actualMinutes * 60) : "—"}</dd>
+        {s.targetedS ? (
+          <>
+            <dt className="text-ink-soft">Time in target</dt>
+            <dd className="text-right">
+              {formatMinutes(s.inTargetS ?? 0)} of {formatMinutes(s.targetedS)} ({Math.round(((s.inTargetS ?? 0) / s.targetedS) * 100)} %)
+            </dd>
+          </>
+        ) : null}
+      </dl>
+      {!s.targetedS && <p className="mt-2 text-xs text-ink-soft">Attach the ride file to see time in target.</p>}
+    </Card>
   );
 }
 

@@ -208,3 +208,33 @@ export function minutesInZones(values: readonly (number | null | undefined)[], t
   }
   return out;
 }
+
+/**
+ * Time within target for a planned session ridden from the file's start: each power step with an absolute range is
+ * laid over the matching seconds, and a second counts when its power lies in the range widened by `tolerancePct`
+ * of the range's middle (5 % by default, common practice). Ramps count against the straight line of their ends.
+ */
+export function timeInTarget(
+  series: readonly Sample[],
+  steps: readonly { durationS: number; low: number | null; high: number | null; ramp?: boolean }[],
+  tolerancePct = 5,
+): { targetedS: number; inTargetS: number } {
+  const power = powerOf(series);
+  let t = 0;
+  let targetedS = 0;
+  let inTargetS = 0;
+  for (const step of steps) {
+    const d = Math.max(0, Math.round(step.durationS));
+    if (step.low !== null && step.high !== null) {
+      for (let k = 0; k < d && t + k < power.length; k++) {
+        const lo = step.ramp ? step.low + ((step.high - step.low) * k) / Math.max(1, d - 1) : Math.min(step.low, step.high);
+        const hi = step.ramp ? lo : Math.max(step.low, step.high);
+        const slack = (((lo + hi) / 2) * tolerancePct) / 100;
+        targetedS++;
+        if (power[t + k] >= lo - slack && power[t + k] <= hi + slack) inTargetS++;
+      }
+    }
+    t += d;
+  }
+  return { targetedS, inTargetS };
+}

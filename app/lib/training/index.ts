@@ -37,6 +37,7 @@ export {
   heartRateDrift,
   workKj,
   minutesInZones,
+  timeInTarget,
   powerOf,
   STANDARD_WINDOWS_S,
   EVEN_PACING_PCT,

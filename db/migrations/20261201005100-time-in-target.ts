@@ -1,0 +1,12 @@
+import { DataTypes, type QueryInterface } from "sequelize";
+
+export async function up({ context: qi }: { context: QueryInterface }) {
+  // From an attached ride file: seconds of power-targeted steps, and how many of them were ridden within target.
+  await qi.addColumn("scheduled_sessions", "targeted_s", { type: DataTypes.INTEGER, allowNull: true });
+  await qi.addColumn("scheduled_sessions", "in_target_s", { type: DataTypes.INTEGER, allowNull: true });
+}
+
+export async function down({ context: qi }: { context: QueryInterface }) {
+  await qi.removeColumn("scheduled_sessions", "in_target_s");
+  await qi.removeColumn("scheduled_sessions", "targeted_s");
+}
