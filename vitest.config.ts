@@ -30,6 +30,8 @@ export default defineConfig({
           environment: "node",
           pool: "forks",
           fileParallelism: false,
+          // Pointer drags in a loaded headless browser can land a frame late; one retry keeps CI honest, not flaky.
+          retry: 1,
           testTimeout: 120_000,
           hookTimeout: 180_000,
         },

@@ -1,29 +1,18 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { browserAvailable, launchBrowser, linkFromOutbox, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+import { browserAvailable, linkFromOutbox, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
 describe.skipIf(!enabled)("accounts in the browser", () => {
-  let app: RunningApp;
-  let browser: Browser;
-
-  beforeAll(async () => {
-    app = await startApp();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.stop();
-  });
+  const env = useApp({ beforeAll, afterAll });
 
   it("coach signs up and invites; the athlete accepts from the mail, signs out and back in", async () => {
     const coachEmail = `coach.${Date.now()}@example.test`;
     const athleteEmail = `rider.${Date.now()}@example.test`;
 
-    const coachCtx = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+    const coachCtx = await env.browser.newContext({ viewport: { width: 1280, height: 800 } });
     const coach = await coachCtx.newPage();
-    await coach.goto(`${app.baseUrl}/signup`);
+    await coach.goto(`${env.app.baseUrl}/signup`);
     await ready(coach);
     // Bad input first: a short password is refused beside its field and nothing is created.
     await coach.getByLabel("Name").fill("Pat Coach");
@@ -33,7 +22,7 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await expect.poll(() => coach.getByText("Use at least 10 characters").count()).toBe(1);
     await coach.getByLabel("Password").fill("coach-password-123");
     await coach.getByRole("button", { name: "Create account" }).click();
-    await coach.waitForURL(`${app.baseUrl}/coach`);
+    await coach.waitForURL(`${env.app.baseUrl}/coach`);
     await ready(coach);
 
     // Our palette and Lexend, as the design asks.
@@ -53,9 +42,9 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await shot(coach, "roster-with-invitation");
 
     // The athlete is someone else, on another device.
-    const athleteCtx = await browser.newContext({ viewport: { width: 390, height: 844 } });
+    const athleteCtx = await env.browser.newContext({ viewport: { width: 390, height: 844 } });
     const athlete = await athleteCtx.newPage();
-    const link = await linkFromOutbox(athlete, app.baseUrl, athleteEmail, "/invite/");
+    const link = await linkFromOutbox(athlete, env.app.baseUrl, athleteEmail, "/invite/");
     await athlete.goto(link);
     await ready(athlete);
     await athlete.getByRole("heading", { name: "Train with Pat Coach" }).waitFor();
@@ -68,11 +57,11 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await shot(athlete, "athlete-today-phone");
 
     await athlete.getByRole("button", { name: "Sign out" }).click();
-    await athlete.waitForURL(`${app.baseUrl}/login`);
-    await signInAs(athlete, app.baseUrl, athleteEmail, "wrong-password-1");
+    await athlete.waitForURL(`${env.app.baseUrl}/login`);
+    await signInAs(athlete, env.app.baseUrl, athleteEmail, "wrong-password-1");
     await athlete.getByText("That e-mail and password do not match an account.").waitFor();
-    await signInAs(athlete, app.baseUrl, athleteEmail, "rider-password-123");
-    await athlete.waitForURL(`${app.baseUrl}/athlete`);
+    await signInAs(athlete, env.app.baseUrl, athleteEmail, "rider-password-123");
+    await athlete.waitForURL(`${env.app.baseUrl}/athlete`);
 
     await coach.reload();
     await coach.getByRole("link", { name: "Robin Rider" }).waitFor();
@@ -82,10 +71,10 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
   });
 
   it("forgot password → reset link from the mail → sign in with the new password", async () => {
-    const ctx = await browser.newContext();
+    const ctx = await env.browser.newContext();
     const page = await ctx.newPage();
     const email = "tomas@harbourline.example"; // a demo athlete
-    await page.goto(`${app.baseUrl}/login`);
+    await page.goto(`${env.app.baseUrl}/login`);
     await ready(page);
     await shot(page, "sign-in");
     await page.getByRole("link", { name: "Forgot your password?" }).click();
@@ -94,7 +83,7 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await page.getByRole("button", { name: "Send the reset link" }).click();
     await page.getByText("a reset link is on its way").waitFor();
 
-    const link = await linkFromOutbox(page, app.baseUrl, email, "/reset-password/");
+    const link = await linkFromOutbox(page, env.app.baseUrl, email, "/reset-password/");
     await page.goto(link);
     await ready(page);
     await page.getByLabel("New password").fill("fresh-password-456");
@@ -107,8 +96,8 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await page.waitForURL(/\/login\?reset=1/);
     await page.getByText("Your password was changed").waitFor();
 
-    await signInAs(page, app.baseUrl, email, "fresh-password-456");
-    await page.waitForURL(`${app.baseUrl}/athlete`);
+    await signInAs(page, env.app.baseUrl, email, "fresh-password-456");
+    await page.waitForURL(`${env.app.baseUrl}/athlete`);
 
     // The link was single-use.
     await page.goto(link);
@@ -117,7 +106,7 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
   });
 
   it("refuses a cross-site POST and gives an athlete 403 on coach pages", async () => {
-    const res = await fetch(`${app.baseUrl}/forgot-password`, {
+    const res = await fetch(`${env.app.baseUrl}/forgot-password`, {
       method: "POST",
       headers: { Origin: "https://evil.example", "Content-Type": "application/x-www-form-urlencoded" },
       body: "email=tomas%40harbourline.example",
@@ -125,11 +114,11 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     expect(res.status).toBe(403);
     expect(await res.text()).toMatch(/another site/);
 
-    const ctx = await browser.newContext();
+    const ctx = await env.browser.newContext();
     const page = await ctx.newPage();
-    await signInAs(page, app.baseUrl, "ada@harbourline.example", "harbour-line-demo");
-    await page.waitForURL(`${app.baseUrl}/athlete`);
-    const response = await page.goto(`${app.baseUrl}/coach`);
+    await signInAs(page, env.app.baseUrl, "ada@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/athlete`);
+    const response = await page.goto(`${env.app.baseUrl}/coach`);
     expect(response?.status()).toBe(403);
     await page.getByRole("heading", { name: "Not allowed" }).waitFor();
     await ctx.close();

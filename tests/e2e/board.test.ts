@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { browserAvailable, launchBrowser, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+import type { Page } from "playwright-core";
+import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
@@ -19,25 +19,16 @@ async function dragTo(page: Page, from: ReturnType<Page["locator"]>, to: ReturnT
 }
 
 describe.skipIf(!enabled)("plan board in the browser", () => {
-  let app: RunningApp;
-  let browser: Browser;
-  beforeAll(async () => {
-    app = await startApp();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.stop();
-  });
+  const env = useApp({ beforeAll, afterAll });
 
   it("a coach drags sessions onto week 2 by mouse and keyboard, reorders a day, reloads, assigns; the athlete sees watts", async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1600, height: 1000 } });
+    const ctx = await env.browser.newContext({ viewport: { width: 1600, height: 1000 } });
     const page = await ctx.newPage();
-    await signInAs(page, app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
-    await page.waitForURL(`${app.baseUrl}/coach`);
+    await signInAs(page, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/coach`);
 
     // A fresh plan, so week 2 starts empty.
-    await page.goto(`${app.baseUrl}/coach/plans/new`);
+    await page.goto(`${env.app.baseUrl}/coach/plans/new`);
     await ready(page);
     await page.getByLabel("Plan name").fill("Board journey");
     await page.getByLabel("a start date").check();
@@ -51,7 +42,7 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     await page.getByRole("button", { name: "Create the plan" }).click();
     await page.waitForURL(/\/coach\/plans\/\d+\?created=1/);
     const planId = page.url().match(/plans\/(\d+)/)![1];
-    await page.goto(`${app.baseUrl}/coach/plans/${planId}/board`);
+    await page.goto(`${env.app.baseUrl}/coach/plans/${planId}/board`);
     await ready(page);
     const shelfCard = (name: string) => page.getByRole("button", { name: new RegExp(`^Shelf session ${name}`) });
     await shelfCard("Threshold repeats").waitFor();
@@ -62,6 +53,9 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     let s = saved();
     await dragTo(page, shelfCard("Threshold repeats"), tuesday, "top");
     expect((await s).status()).toBe(200);
+    // Let the board settle on the server's answer before the next drag measures the slots.
+    await expect.poll(() => tuesday.getByTestId("board-item").count()).toBe(1);
+    await page.waitForTimeout(300);
     s = saved();
     await dragTo(page, shelfCard("Recovery spin"), tuesday, "top");
     expect((await s).status()).toBe(200);
@@ -120,11 +114,11 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     await ctx.close();
 
     // The athlete sees his own watts on the calendar in week 2.
-    const actx = await browser.newContext({ viewport: { width: 390, height: 844 } });
+    const actx = await env.browser.newContext({ viewport: { width: 390, height: 844 } });
     const athlete = await actx.newPage();
-    await signInAs(athlete, app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
-    await athlete.waitForURL(`${app.baseUrl}/athlete`);
-    await athlete.goto(`${app.baseUrl}/athlete/calendar`);
+    await signInAs(athlete, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
+    await athlete.waitForURL(`${env.app.baseUrl}/athlete`);
+    await athlete.goto(`${env.app.baseUrl}/athlete/calendar`);
     await ready(athlete);
     const weekTwoTuesday = await athlete.evaluate((m) => {
       const d = new Date(`${m}T00:00:00Z`);

@@ -1,34 +1,24 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { browserAvailable, launchBrowser, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
 describe.skipIf(!enabled)("calendar feed in the browser", () => {
-  let app: RunningApp;
-  let browser: Browser;
-  beforeAll(async () => {
-    app = await startApp();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.stop();
-  });
+  const env = useApp({ beforeAll, afterAll });
 
   it("the athlete makes a link, copies it, and the link serves the feed; turning it off gives 404", async () => {
-    const ctx = await browser.newContext({ viewport: { width: 390, height: 844 } });
-    await ctx.grantPermissions(["clipboard-read", "clipboard-write"], { origin: app.baseUrl });
+    const ctx = await env.browser.newContext({ viewport: { width: 390, height: 844 } });
+    await ctx.grantPermissions(["clipboard-read", "clipboard-write"], { origin: env.app.baseUrl });
     const page = await ctx.newPage();
-    await signInAs(page, app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
-    await page.waitForURL(`${app.baseUrl}/athlete`);
-    await page.goto(`${app.baseUrl}/athlete/feed`);
+    await signInAs(page, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/athlete`);
+    await page.goto(`${env.app.baseUrl}/athlete/feed`);
     await ready(page);
     await page.getByRole("button", { name: "Make my calendar link" }).click();
     const web = page.getByLabel("Web link", { exact: true });
     await web.waitFor();
     const link = await web.inputValue();
-    expect(link).toMatch(new RegExp(`^${app.baseUrl}/feed/[A-Za-z0-9_-]{43}\\.ics$`));
+    expect(link).toMatch(new RegExp(`^${env.app.baseUrl}/feed/[A-Za-z0-9_-]{43}\\.ics$`));
     expect(await page.getByLabel("Subscribe link", { exact: true }).inputValue()).toBe(link.replace(/^http:/, "webcal:"));
     await page.getByRole("button", { name: "Copy" }).nth(1).click();
     await page.getByRole("button", { name: "Copied" }).waitFor();

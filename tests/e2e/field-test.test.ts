@@ -1,7 +1,7 @@
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser, Page } from "playwright-core";
-import { browserAvailable, launchBrowser, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+import type { Page } from "playwright-core";
+import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
@@ -24,26 +24,17 @@ async function futureWatts(page: Page, baseUrl: string) {
 }
 
 describe.skipIf(!enabled)("retest from a ride file in the browser", () => {
-  let app: RunningApp;
-  let browser: Browser;
-  beforeAll(async () => {
-    app = await startApp();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.stop();
-  });
+  const env = useApp({ beforeAll, afterAll });
 
   it("the demo cyclist uploads the 20-minute test file, previews, saves, sees new watts, and undo restores them", async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
-    await signInAs(page, app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
-    await page.waitForURL(`${app.baseUrl}/athlete`);
-    const before = await futureWatts(page, app.baseUrl);
+    await signInAs(page, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/athlete`);
+    const before = await futureWatts(page, env.app.baseUrl);
     expect(before.length).toBeGreaterThan(0);
 
-    await page.goto(`${app.baseUrl}/athlete/tests/new`);
+    await page.goto(`${env.app.baseUrl}/athlete/tests/new`);
     await ready(page);
     await page.getByLabel("Test", { exact: true }).selectOption("twenty_minute");
     // Readiness first: the save stays refused until it is answered.
@@ -65,19 +56,19 @@ describe.skipIf(!enabled)("retest from a ride file in the browser", () => {
     await page.getByText(/Bike power is now 275 W \(was 262 W\)/).waitFor();
     await shot(page, "field-test-saved");
 
-    const after = await futureWatts(page, app.baseUrl);
+    const after = await futureWatts(page, env.app.baseUrl);
     expect(after).toHaveLength(before.length);
     expect(after).not.toEqual(before);
     // Every changed target moved by the threshold's ratio (275 / 262), within rounding.
     const first = (s: string) => Number(s.match(/(\d+)(?:–\d+)? W/)![1]);
     expect(first(after[0]) / first(before[0])).toBeCloseTo(275 / 262, 1);
 
-    await page.goto(`${app.baseUrl}/athlete/tests`);
+    await page.goto(`${env.app.baseUrl}/athlete/tests`);
     await ready(page);
     page.once("dialog", (d) => d.accept());
     await page.getByTestId("tests-table").getByRole("button", { name: "Undo" }).first().click();
     await page.getByText(/Test removed: \d+ sessions are back/).waitFor();
-    expect(await futureWatts(page, app.baseUrl)).toEqual(before);
+    expect(await futureWatts(page, env.app.baseUrl)).toEqual(before);
     await ctx.close();
   });
 });

@@ -142,3 +142,20 @@ export async function signInAs(page: Page, baseUrl: string, email: string, passw
   await page.getByLabel("Password").fill(password);
   await page.getByRole("button", { name: "Sign in" }).click();
 }
+
+/**
+ * Starts the app and a browser once for a describe block and stops both after it. Call inside `describe`;
+ * the returned object's fields are filled in by beforeAll.
+ */
+export function useApp(hooks: { beforeAll: (fn: () => Promise<void>) => void; afterAll: (fn: () => Promise<void>) => void }) {
+  const ctx = {} as { app: RunningApp; browser: Browser };
+  hooks.beforeAll(async () => {
+    ctx.app = await startApp();
+    ctx.browser = await launchBrowser();
+  });
+  hooks.afterAll(async () => {
+    await ctx.browser?.close();
+    await ctx.app?.stop();
+  });
+  return ctx;
+}

@@ -1,26 +1,16 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { browserAvailable, launchBrowser, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
 describe.skipIf(!enabled)("training load in the browser", () => {
-  let app: RunningApp;
-  let browser: Browser;
-  beforeAll(async () => {
-    app = await startApp();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.stop();
-  });
+  const env = useApp({ beforeAll, afterAll });
 
   it("the demo cyclist marks a session done and the week's numbers and the fitness line change; the coach sees compliance", async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
-    await signInAs(page, app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
-    await page.waitForURL(`${app.baseUrl}/athlete`);
+    await signInAs(page, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/athlete`);
 
     // The next planned session of this week or the next, read the way the calendar reads it.
     const next = await page.evaluate(async () => {
@@ -35,7 +25,7 @@ describe.skipIf(!enabled)("training load in the browser", () => {
     });
     expect(next).toBeTruthy();
 
-    await page.goto(`${app.baseUrl}/athlete/load`);
+    await page.goto(`${env.app.baseUrl}/athlete/load`);
     await ready(page);
     // All fitness and fatigue lines (done and planned): a session marked done ahead of today moves the planned part.
     const fitnessPath = () => page.locator("[data-testid=fitness-chart] path.recharts-curve").evaluateAll((els) => els.map((e) => e.getAttribute("d")).join("|"));
@@ -50,13 +40,13 @@ describe.skipIf(!enabled)("training load in the browser", () => {
     const before = await row.locator("td").nth(1).textContent();
     await shot(page, "load-before");
 
-    await page.goto(`${app.baseUrl}/athlete/sessions/${next.id}`);
+    await page.goto(`${env.app.baseUrl}/athlete/sessions/${next.id}`);
     await ready(page);
     await page.getByLabel(/^7 Hard$/).check();
     await page.getByRole("button", { name: "Mark done" }).click();
     await page.getByText("Marked done. Nice work.").waitFor();
 
-    await page.goto(`${app.baseUrl}/athlete/load`);
+    await page.goto(`${env.app.baseUrl}/athlete/load`);
     await ready(page);
     await expect.poll(fitnessPath).not.toBe(pathBefore);
     const after = await row.locator("td").nth(1).textContent();
@@ -71,10 +61,10 @@ describe.skipIf(!enabled)("training load in the browser", () => {
     await shot(page, "load-after");
     await ctx.close();
 
-    const cctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const cctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const coach = await cctx.newPage();
-    await signInAs(coach, app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
-    await coach.waitForURL(`${app.baseUrl}/coach`);
+    await signInAs(coach, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await coach.waitForURL(`${env.app.baseUrl}/coach`);
     const tomas = coach.locator("tr", { hasText: "Tomás Reyes" }).getByTestId("roster-compliance");
     await expect.poll(() => tomas.textContent()).toMatch(/\d+ % \(\d+\/\d+\)/);
     await shot(coach, "roster-compliance");

@@ -1,27 +1,17 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { browserAvailable, launchBrowser, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
 describe.skipIf(!enabled)("session shelf and season plans in the browser", () => {
-  let app: RunningApp;
-  let browser: Browser;
-  beforeAll(async () => {
-    app = await startApp();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.stop();
-  });
+  const env = useApp({ beforeAll, afterAll });
 
   it("a coach builds warm-up, 4 × 8 min repeats and cool-down by keyboard and mouse, saves, and finds it by search", async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
-    await signInAs(page, app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
-    await page.waitForURL(`${app.baseUrl}/coach`);
-    await page.goto(`${app.baseUrl}/coach/sessions/new`);
+    await signInAs(page, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/coach`);
+    await page.goto(`${env.app.baseUrl}/coach/sessions/new`);
     await ready(page);
 
     // Start from an empty list: delete the three default blocks.
@@ -65,22 +55,22 @@ describe.skipIf(!enabled)("session shelf and season plans in the browser", () =>
     await page.waitForURL(/\/coach\/sessions\/\d+\?saved=1/);
     await page.getByText("Saved to your shelf.").waitFor();
 
-    await page.goto(`${app.baseUrl}/coach/sessions`);
+    await page.goto(`${env.app.baseUrl}/coach/sessions`);
     await ready(page);
     await page.getByLabel("Search").fill("keyboard");
     await expect.poll(() => page.locator("ul[aria-label=Sessions] > li").count()).toBe(1);
     await page.getByRole("link", { name: "Threshold 4 × 8 keyboard" }).waitFor();
-    expect(page.url()).toBe(`${app.baseUrl}/coach/sessions`); // filtered without a reload
+    expect(page.url()).toBe(`${env.app.baseUrl}/coach/sessions`); // filtered without a reload
     await shot(page, "shelf-search");
     await ctx.close();
   });
 
   it("creates a 16-week plan from an event date", async () => {
-    const ctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
-    await signInAs(page, app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
-    await page.waitForURL(`${app.baseUrl}/coach`);
-    await page.goto(`${app.baseUrl}/coach/plans/new`);
+    await signInAs(page, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/coach`);
+    await page.goto(`${env.app.baseUrl}/coach/plans/new`);
     await ready(page);
     await page.getByLabel("Plan name").fill("Gran fondo 2027");
     await page.getByLabel("Event date", { exact: true }).fill("2027-06-13");
@@ -90,7 +80,7 @@ describe.skipIf(!enabled)("session shelf and season plans in the browser", () =>
     await page.waitForURL(/\/coach\/plans\/\d+\?created=1/);
     await page.getByRole("heading", { name: "Gran fondo 2027" }).waitFor();
     await expect.poll(() => page.locator("tbody tr").count()).toBe(16);
-    await page.goto(`${app.baseUrl}/coach/plans`);
+    await page.goto(`${env.app.baseUrl}/coach/plans`);
     await page.getByRole("link", { name: "Gran fondo 2027" }).waitFor();
     await ctx.close();
   });

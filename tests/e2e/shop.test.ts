@@ -1,27 +1,17 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { Browser } from "playwright-core";
-import { browserAvailable, launchBrowser, linkFromOutbox, ready, shot, signInAs, startApp, type RunningApp } from "./harness";
+import { browserAvailable, linkFromOutbox, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
 describe.skipIf(!enabled)("plan shop in the browser", () => {
-  let app: RunningApp;
-  let browser: Browser;
-  beforeAll(async () => {
-    app = await startApp();
-    browser = await launchBrowser();
-  });
-  afterAll(async () => {
-    await browser?.close();
-    await app?.stop();
-  });
+  const env = useApp({ beforeAll, afterAll });
 
   it("a coach lists a plan; an athlete buys it with the test card; calendar, receipt and sales table follow", async () => {
-    const cctx = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const cctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const coach = await cctx.newPage();
-    await signInAs(coach, app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
-    await coach.waitForURL(`${app.baseUrl}/coach`);
-    await coach.goto(`${app.baseUrl}/coach/shop`);
+    await signInAs(coach, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await coach.waitForURL(`${env.app.baseUrl}/coach`);
+    await coach.goto(`${env.app.baseUrl}/coach/shop`);
     await ready(coach);
     await coach.getByLabel("Title in the shop").fill("Spring build for sale");
     await coach.getByLabel("Description").fill("Twelve weeks from base to threshold, tested every six weeks.");
@@ -35,11 +25,11 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await row.getByRole("button", { name: "Publish" }).click();
     await coach.getByText("Published: it is in the shop.").waitFor();
 
-    const actx = await browser.newContext({ viewport: { width: 390, height: 844 } });
+    const actx = await env.browser.newContext({ viewport: { width: 390, height: 844 } });
     const athlete = await actx.newPage();
-    await signInAs(athlete, app.baseUrl, "ada@harbourline.example", "harbour-line-demo");
-    await athlete.waitForURL(`${app.baseUrl}/athlete`);
-    await athlete.goto(`${app.baseUrl}/shop`);
+    await signInAs(athlete, env.app.baseUrl, "ada@harbourline.example", "harbour-line-demo");
+    await athlete.waitForURL(`${env.app.baseUrl}/athlete`);
+    await athlete.goto(`${env.app.baseUrl}/shop`);
     await ready(athlete);
     await athlete.getByRole("link", { name: /Spring build for sale/ }).click();
     await athlete.waitForURL(/\/shop\/spring-build-for-sale-/);
@@ -57,7 +47,7 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     // Ada's demo threshold is 214 W: the shop plan's sessions show her watts.
     await athlete.getByText(/at \d+–\d+ W/).first().waitFor();
 
-    const link = await linkFromOutbox(athlete, app.baseUrl, "ada@harbourline.example", "/athlete/calendar");
+    const link = await linkFromOutbox(athlete, env.app.baseUrl, "ada@harbourline.example", "/athlete/calendar");
     expect(link).toContain("/athlete/calendar");
     await athlete.getByText("Your Pacewright receipt: Spring build for sale").waitFor();
     await actx.close();

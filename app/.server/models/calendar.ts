@@ -6,8 +6,8 @@ import {
   type InferCreationAttributes,
 } from "sequelize";
 import { db } from "../db";
+import { timestamps as ts } from "./columns";
 
-const ts = { createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
 
 export class Threshold extends Model<InferAttributes<Threshold>, InferCreationAttributes<Threshold>> {
   declare id: CreationOptional<number>;

@@ -6,19 +6,7 @@ import {
   type InferCreationAttributes,
 } from "sequelize";
 import { db } from "../db";
-
-const ts = { createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
-const json = (field: string, fallback: string) => ({
-  type: DataTypes.TEXT,
-  allowNull: false,
-  defaultValue: fallback,
-  get(this: Model) {
-    return JSON.parse((this.getDataValue(field as never) as string) ?? fallback);
-  },
-  set(this: Model, value: unknown) {
-    this.setDataValue(field as never, JSON.stringify(value) as never);
-  },
-});
+import { jsonColumn as json, timestamps as ts } from "./columns";
 
 export class Session extends Model<InferAttributes<Session>, InferCreationAttributes<Session>> {
   declare id: CreationOptional<number>;

@@ -6,8 +6,8 @@ import {
   type InferCreationAttributes,
 } from "sequelize";
 import { db } from "../db";
+import { timestamps as ts } from "./columns";
 
-const ts = { createdAt: DataTypes.DATE, updatedAt: DataTypes.DATE };
 
 export class Listing extends Model<InferAttributes<Listing>, InferCreationAttributes<Listing>> {
   declare id: CreationOptional<number>;
