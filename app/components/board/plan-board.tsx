@@ -402,7 +402,7 @@ function WeekColumn(props: {
           {week.test && <span className="rounded bg-brick/15 px-1 text-brick">test week</span>}
         </div>
         <p className="num mt-1">
-          {formatMinutes(props.seconds)} of {week.plannedHours} h planned
+          {props.seconds ? formatMinutes(props.seconds) : "0 min"} of {week.plannedHours} h planned
         </p>
         <div className="mt-1 h-1.5 rounded bg-paper-deep" title={`Planned load ${Math.round(props.load)}`}>
           <div className={`h-1.5 rounded ${props.warn ? "bg-brick" : "bg-teal"}`} style={{ width: `${(props.load / props.maxLoad) * 100}%` }} />
