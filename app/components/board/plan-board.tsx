@@ -272,8 +272,8 @@ export function PlanBoard({ data }: { data: BoardData }) {
 
   return (
     <DndContext id="plan-board" sensors={sensors} collisionDetection={collision} onDragStart={onDragStart} onDragEnd={onDragEnd} onDragCancel={() => setActiveId(null)} accessibility={{ announcements }}>
-      <div className="flex min-h-[70vh] gap-3">
-        <aside className="flex w-60 shrink-0 flex-col rounded-xl border border-line bg-white" aria-label="Session shelf">
+      <div className="flex min-h-[70vh] flex-col gap-3 lg:flex-row">
+        <aside className="flex w-full shrink-0 flex-col rounded-xl border border-line bg-white lg:w-60" aria-label="Session shelf">
           <div className="border-b border-line p-3">
             <h2 className="font-semibold">Session shelf</h2>
             <label className="mt-2 block text-xs">
@@ -282,7 +282,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
             </label>
             <p className="mt-2 text-xs text-ink-soft">Drag a session onto a day, or focus it and press Space, then the arrow keys.</p>
           </div>
-          <ul className="flex max-h-[70vh] flex-col gap-2 overflow-y-auto p-3" aria-label="Shelf sessions">
+          <ul className="flex max-h-48 flex-col gap-2 overflow-y-auto p-3 lg:max-h-[70vh]" aria-label="Shelf sessions">
             {shelf.map((s) => (
               <li key={s.id}>
                 <ShelfCard session={s} />
@@ -492,7 +492,7 @@ function ItemDrawer({ item, weeks, onClose, onRemove, onMove, onTime }: { item: 
     setToDay(item.day);
   }, [item.weekId, item.day]);
   return (
-    <aside className="w-72 shrink-0 rounded-xl border border-line bg-white p-4 text-sm" aria-label="Selected session">
+    <aside className="w-full shrink-0 rounded-xl border border-line bg-white p-4 text-sm lg:w-72" aria-label="Selected session">
       <div className="flex items-start justify-between gap-2">
         <h2 className="font-semibold">{item.name}</h2>
         <button type="button" onClick={onClose} className="rounded px-2 text-ink-soft hover:bg-paper-deep" aria-label="Close details">
