@@ -45,3 +45,8 @@ export function isCrossSiteWrite(method: string, headers: { origin?: string | nu
     return true;
   }
 }
+
+/** JSON from a resource route: private to the signed-in user, never cached. */
+export function jsonResponse(body: unknown, status = 200) {
+  return Response.json(body, { status, headers: { "Cache-Control": "private, no-store" } });
+}

@@ -9,7 +9,8 @@ import { loadActivity } from "./uploads";
 import { computeThreshold, type ThresholdResult } from "~/lib/field-tests";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
-import { bestEffort, formatTarget, pacingSplits, thresholdHeartRate, TrainingInputError, type TargetUnit } from "~/lib/training";
+import { bestEffort, pacingSplits, thresholdHeartRate, TrainingInputError } from "~/lib/training";
+import { formatThreshold } from "~/lib/zone-table";
 
 export const UNDO_DAYS = 14;
 
@@ -117,8 +118,8 @@ export async function preview(athlete: User, body: { protocol: ProtocolKey; inpu
   const counts = await countScope(scope);
   const value = roundThreshold(result);
   return {
-    proposed: { ...result, value, label: formatValue(value, result.unit) },
-    current: current ? { value: current.value, label: formatValue(current.value, result.unit), since: current.effectiveFrom } : null,
+    proposed: { ...result, value, label: formatThreshold(value, result.unit) },
+    current: current ? { value: current.value, label: formatThreshold(current.value, result.unit), since: current.effectiveFrom } : null,
     changes: { sessions: counts.sessions, blocks: counts.blocks, until: counts.until },
     examples: await examplesFor({ ...scope, value, unit: result.unit }),
     window: fromFile?.window ?? null,
@@ -131,10 +132,7 @@ function roundThreshold(r: ThresholdResult) {
   return r.metric === "pace" ? Math.round(r.value * 10) / 10 : Math.round(r.value);
 }
 
-export function formatValue(value: number, unit: string) {
-  const v = Math.round(value);
-  return formatTarget({ low: v, high: v, unit: unit as TargetUnit });
-}
+
 
 const METRIC_LABEL: Record<string, string> = { power: "power", heart_rate: "heart-rate", pace: "pace" };
 
@@ -203,8 +201,8 @@ export async function saveTest(
             testLabel: protocol.label.toLowerCase(),
             testedOn: body.testedOn,
             metricLabel: METRIC_LABEL[result.metric],
-            newValue: formatValue(value, result.unit),
-            oldValue: previous ? formatValue(previous.value, result.unit) : "not set",
+            newValue: formatThreshold(value, result.unit),
+            oldValue: previous ? formatThreshold(previous.value, result.unit) : "not set",
             sessionsChanged: report.sessionsChanged,
             blocksChanged: report.blocksChanged,
             examples,
@@ -247,7 +245,7 @@ export async function testHistory(athleteId: number) {
       sport: t.sport,
       metric: t.metric,
       value: t.value,
-      display: formatValue(t.value, t.unit),
+      display: formatThreshold(t.value, t.unit),
       testedOn: t.testedOn,
       status: t.status,
       canUndo: t.status === "active" && t.createdAt.getTime() >= Date.now() - UNDO_DAYS * 86_400_000,

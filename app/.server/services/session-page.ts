@@ -6,7 +6,8 @@ import { CalendarError, completeSession, sessionDetail } from "./calendar";
 import { currentThresholds, thresholdSport, unitFor } from "./thresholds";
 import { todayIn } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
-import { heartRateZones, paceZones, powerLevels, type Metric } from "~/lib/training";
+import type { Metric } from "~/lib/training";
+import { zoneTable } from "~/lib/zone-table";
 
 /** What a session page shows: the session, its steps, and the athlete's zones for the metrics it uses. */
 export async function sessionPageData(athlete: User, sessionId: number) {
@@ -18,11 +19,8 @@ export async function sessionPageData(athlete: User, sessionId: number) {
   const current = tsport ? await currentThresholds(athlete.id, todayIn(athlete.timezone)) : [];
   const zones = metrics.flatMap((metric) => {
     const t = current.find((c) => c.sport === tsport && c.metric === metric);
-    if (!t || !tsport) return [];
-    // Swim pace zones would need their own table; the session lines already show swim targets.
-    if (metric === "pace" && tsport === "swim") return [];
-    const set = metric === "power" ? powerLevels(t.value) : metric === "heart_rate" ? heartRateZones(t.value, tsport === "run" ? "run" : "bike") : paceZones(t.value);
-    return [{ metric, unit: unitFor(tsport, metric), threshold: t.value, rows: set.zones.map((z) => ({ key: z.key, name: z.name, lo: z.lo, hi: z.hi })) }];
+    // Swim pace has no zone table; the session lines already show swim targets.
+    return t && tsport ? (zoneTable({ sport: tsport, metric, value: t.value, unit: unitFor(tsport, metric) }) ?? []) : [];
   });
   return {
     session: {

@@ -8,7 +8,8 @@ import { formatMinutes } from "~/lib/duration";
 import { EFFORT_WORDS } from "~/lib/effort";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockLines, type StepView } from "~/lib/schedule-text";
-import { formatTarget, type TargetUnit } from "~/lib/training";
+import { ZoneTable } from "~/components/zone-table";
+import type { ZoneTableData } from "~/lib/zone-table";
 
 export interface SessionDetailData {
   session: {
@@ -28,7 +29,7 @@ export interface SessionDetailData {
     inTargetS?: number | null;
   };
   steps: StepView[];
-  zones: { metric: string; unit: string; threshold: number; rows: { key: string; name: string; lo: number; hi: number | null }[] }[];
+  zones: ZoneTableData[];
 }
 
 export function SessionDetail({ data, canComplete }: { data: SessionDetailData; canComplete: boolean }) {
@@ -69,23 +70,7 @@ export function SessionDetail({ data, canComplete }: { data: SessionDetailData; 
           </Card>
         )}
         {zones.map((z) => (
-          <Card key={z.metric}>
-            <h2 className="font-semibold">Your {z.metric === "power" ? "power levels" : z.metric === "heart_rate" ? "heart-rate zones" : "pace zones"}</h2>
-            <p className="num text-xs text-ink-soft">Threshold {formatTarget({ low: Math.round(z.threshold), high: Math.round(z.threshold), unit: z.unit as TargetUnit })}</p>
-            <table className="num mt-2 w-full text-sm">
-              <tbody>
-                {z.rows.map((r, i) => (
-                  <tr key={r.key} className="border-t border-line/60">
-                    <td className="py-1">
-                      <span className="mr-2 inline-block h-3 w-3 rounded-sm align-middle" style={{ background: `var(--color-level-${Math.min(7, i + 1)})` }} />
-                      {r.key} {r.name}
-                    </td>
-                    <td className="py-1 text-right">{r.hi === null ? `above ${fmt(r.lo, z.unit)}` : i === 0 ? `up to ${fmt(r.hi, z.unit)}` : `${fmt(r.lo, z.unit)} – ${fmt(r.hi, z.unit)}`}</td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </Card>
+          <ZoneTable key={z.key} title={`Your ${z.metric === "power" ? "power levels" : z.metric === "heart_rate" ? "heart-rate zones" : "pace zones"}`} table={z} />
         ))}
       </div>
       <aside className="flex flex-col gap-4">
@@ -119,7 +104,6 @@ function PlannedVsActual({ session: s }: { session: SessionDetailData["session"]
   );
 }
 
-const fmt = (v: number, unit: string) => formatTarget({ low: Math.round(v), high: Math.round(v), unit: unit as TargetUnit });
 
 function ResultCard({ session: s }: { session: SessionDetailData["session"] }) {
   return (

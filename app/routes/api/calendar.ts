@@ -2,9 +2,9 @@ import { z } from "zod";
 import { requireUser } from "~/.server/auth";
 import { calendarRange, calendarSubject, CalendarError, moveSession } from "~/.server/services/calendar";
 import { daysBetween, isIsoDate } from "~/lib/dates";
+import { jsonResponse as json } from "~/.server/http";
 import type { Route } from "./+types/calendar";
 
-const json = (body: unknown, status = 200) => Response.json(body, { status, headers: { "Cache-Control": "private, no-store" } });
 
 /** Sessions between `from` and `to` (at most 16 weeks) for the signed-in athlete, or for a coach's `athleteId`. */
 export async function loader({ request }: Route.LoaderArgs) {

@@ -1,9 +1,9 @@
 import { requireRole } from "~/.server/auth";
 import { applyBoardOp, boardOpSchema, StaleBoardError } from "~/.server/services/board";
 import { loadPlan, PlanError } from "~/.server/services/plans";
+import { jsonResponse as json } from "~/.server/http";
 import type { Route } from "./+types/plan-items";
 
-const json = (body: unknown, status = 200) => Response.json(body, { status, headers: { "Cache-Control": "private, no-store" } });
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");

@@ -3,9 +3,9 @@ import { requireUser } from "~/.server/auth";
 import { calendarSubject } from "~/.server/services/calendar";
 import { preview, TestError } from "~/.server/services/field-tests";
 import { protocolSchema } from "~/lib/field-tests";
+import { jsonResponse as json } from "~/.server/http";
 import type { Route } from "./+types/tests-preview";
 
-const json = (body: unknown, status = 200) => Response.json(body, { status, headers: { "Cache-Control": "private, no-store" } });
 
 export const submissionSchema = z.object({
   protocol: protocolSchema,

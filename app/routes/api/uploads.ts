@@ -2,9 +2,9 @@ import { requireUser } from "~/.server/auth";
 import { Upload } from "~/.server/models";
 import { calendarSubject } from "~/.server/services/calendar";
 import { loadActivity, receiveUpload, traceOf, UploadError } from "~/.server/services/uploads";
+import { jsonResponse as json } from "~/.server/http";
 import type { Route } from "./+types/uploads";
 
-const json = (body: unknown, status = 200) => Response.json(body, { status, headers: { "Cache-Control": "private, no-store" } });
 
 /** Upload history as JSON; `?id=` adds that file's light trace for charts. A coach passes `athleteId`. */
 export async function loader({ request }: Route.LoaderArgs) {

@@ -6,7 +6,8 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { testHistory, TestError, undoTest } from "~/.server/services/field-tests";
 import { athleteSubject } from "~/.server/subject";
-import { heartRateZones, paceZones, powerLevels, formatTarget, type TargetUnit } from "~/lib/training";
+import { ZoneTable } from "~/components/zone-table";
+import { formatThreshold as show, zoneTable } from "~/lib/zone-table";
 import type { Route } from "./+types/tests";
 
 export const meta: Route.MetaFunction = () => [{ title: "Field tests · Pacewright" }];
@@ -16,11 +17,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const history = await testHistory(athlete.id);
   const latest = new Map<string, (typeof history.thresholds)[number]>();
   for (const t of history.thresholds) latest.set(`${t.sport}:${t.metric}`, t);
-  const zones = [...latest.values()].flatMap((t) => {
-    if (t.metric === "pace" && t.sport === "swim") return [];
-    const set = t.metric === "power" ? powerLevels(t.value) : t.metric === "heart_rate" ? heartRateZones(t.value, t.sport === "run" ? "run" : "bike") : paceZones(t.value);
-    return [{ key: `${t.sport}:${t.metric}`, sport: t.sport, metric: t.metric, unit: t.unit, threshold: t.value, source: set.source, rows: set.zones.map((z) => ({ key: z.key, name: z.name, lo: z.lo, hi: z.hi })) }];
-  });
+  const zones = [...latest.values()].flatMap((t) => zoneTable(t) ?? []);
   return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, ...history, current: [...latest.values()], zones };
 }
 
@@ -37,7 +34,6 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 const LABEL: Record<string, string> = { "bike:power": "Bike power", "bike:heart_rate": "Bike heart rate", "run:heart_rate": "Run heart rate", "run:pace": "Run pace", "swim:pace": "Swim pace" };
-const show = (v: number, unit: string) => formatTarget({ low: Math.round(v), high: Math.round(v), unit: unit as TargetUnit });
 
 export default function Tests({ loaderData }: Route.ComponentProps) {
   const { athlete, base, forCoach, tests, thresholds, current, zones, reports } = loaderData;
@@ -142,23 +138,7 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
             </ul>
           </Card>
           {zones.map((z) => (
-            <Card key={z.key}>
-              <h2 className="font-semibold">{LABEL[z.key]} zones</h2>
-              <p className="text-xs text-ink-soft">{z.source}</p>
-              <table className="num mt-2 w-full text-sm">
-                <tbody>
-                  {z.rows.map((r, i) => (
-                    <tr key={r.key} className="border-t border-line/60">
-                      <td className="py-1">
-                        <span className="mr-2 inline-block h-3 w-3 rounded-sm align-middle" style={{ background: `var(--color-level-${Math.min(7, i + 1)})` }} />
-                        {r.key} {r.name}
-                      </td>
-                      <td className="py-1 text-right">{r.hi === null ? `> ${show(r.lo, z.unit)}` : i === 0 ? `≤ ${show(r.hi, z.unit)}` : `${show(r.lo, z.unit)}–${show(r.hi, z.unit)}`}</td>
-                    </tr>
-                  ))}
-                </tbody>
-              </table>
-            </Card>
+            <ZoneTable key={z.key} title={`${LABEL[z.key]} zones`} table={z} />
           ))}
         </div>
       </div>

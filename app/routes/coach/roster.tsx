@@ -8,6 +8,7 @@ import { Field, FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { AccountError, inviteAthlete, rosterFor } from "~/.server/services/accounts";
 import { formatDate } from "~/lib/format";
+import { formatThreshold } from "~/lib/zone-table";
 import { inviteSchema, parseForm } from "~/lib/forms";
 import type { Route } from "./+types/roster";
 
@@ -34,11 +35,7 @@ export async function action({ request }: Route.ActionArgs) {
 
 type Athlete = Route.ComponentProps["loaderData"]["athletes"][number];
 
-function thresholdText(t: { sport: string; metric: string; value: number; unit: string }) {
-  const v = Math.round(t.value);
-  const pace = t.unit === "s/km" || t.unit === "s/100m";
-  return `${t.sport} ${pace ? `${Math.floor(v / 60)}:${String(v % 60).padStart(2, "0")}${t.unit === "s/km" ? "/km" : "/100 m"}` : `${v} ${t.unit}`}`;
-}
+const thresholdText = (t: { sport: string; value: number; unit: string }) => `${t.sport} ${formatThreshold(t.value, t.unit)}`;
 const column = createColumnHelper<Athlete>();
 
 export default function Roster({ loaderData }: Route.ComponentProps) {
