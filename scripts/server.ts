@@ -1,6 +1,7 @@
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { createRequestHandler } from "@react-router/express";
+import compression from "compression";
 import express, { type RequestHandler } from "express";
 import type { ServerBuild } from "react-router";
 import { isCrossSiteWrite } from "../app/.server/http";
@@ -21,6 +22,8 @@ export async function createAppServer(buildDir = path.resolve("build")) {
     res.setHeader("X-Frame-Options", "DENY");
     next();
   });
+  // gzip or brotli, whichever the client prefers, for HTML, JSON, the feed, JS and CSS alike.
+  app.use(compression({ threshold: 1024 }));
   app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
   app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
   app.all("*", createRequestHandler({ build }));
