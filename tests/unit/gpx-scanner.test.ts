@@ -1,0 +1,77 @@
+import fc from "fast-check";
+import { XMLParser } from "fast-xml-parser";
+import { describe, expect, it } from "vitest";
+import { readGpx } from "~/lib/training/activity";
+
+/**
+ * The GPX scanner against a general-purpose XML parser (fast-xml-parser) on generated files: namespace prefixes,
+ * attribute order and quotes, self-closing points, nested extension shapes, whitespace, waypoints and routes that
+ * are not track points. The reference reads the same fields from the parsed document.
+ */
+function reference(text: string) {
+  const doc = new XMLParser({ ignoreAttributes: false, attributeNamePrefix: "@", removeNSPrefix: true, isArray: (n) => n === "trk" || n === "trkseg" || n === "trkpt" }).parse(text, true);
+  const leaves = (node: unknown, out: Record<string, unknown> = {}) => {
+    if (node && typeof node === "object") for (const [k, v] of Object.entries(node)) v && typeof v === "object" ? leaves(v, out) : (out[k.toLowerCase()] = v);
+    return out;
+  };
+  return (doc.gpx.trk ?? []).flatMap((trk: any) => (trk?.trkseg ?? []).flatMap((seg: any) => seg?.trkpt ?? [])).map((pt: any) => {
+    const ext = leaves(pt?.extensions);
+    return { time: String(pt?.time ?? ""), lat: Number(pt["@lat"]), lon: Number(pt["@lon"]), power: ext.power === undefined ? undefined : Number(ext.power), hr: ext.hr === undefined ? undefined : Number(ext.hr) };
+  });
+}
+
+const point = fc.record({
+  s: fc.integer({ min: 0, max: 5 }),
+  lat: fc.double({ min: -60, max: 60, noNaN: true }).map((x) => Number(x.toFixed(6))),
+  lon: fc.double({ min: -60, max: 60, noNaN: true }).map((x) => Number(x.toFixed(6))),
+  power: fc.option(fc.integer({ min: 0, max: 1500 }), { nil: undefined }),
+  hr: fc.option(fc.integer({ min: 40, max: 210 }), { nil: undefined }),
+  latFirst: fc.boolean(),
+  quote: fc.constantFrom('"', "'"),
+  prefix: fc.constantFrom("", "g:"),
+  extPrefix: fc.constantFrom("", "ns3:", "gpxtpx:"),
+  nest: fc.boolean(),
+  ws: fc.constantFrom("", "\n  ", " "),
+});
+
+function file(points: fc.RecordValue<typeof point>[]) {
+  let t = Date.UTC(2026, 10, 14, 8);
+  const body = points.map((p) => {
+    t += (p.s + 1) * 1000;
+    const q = p.quote;
+    const attrs = p.latFirst ? `lat=${q}${p.lat}${q} lon=${q}${p.lon}${q}` : `lon=${q}${p.lon}${q}  lat=${q}${p.lat}${q}`;
+    const e = p.extPrefix;
+    const hr = p.hr === undefined ? "" : `<${e}hr>${p.hr}</${e}hr>`;
+    const power = p.power === undefined ? "" : `<power>${p.power}</power>`;
+    const inner = p.nest ? `<${e}TrackPointExtension>${hr}</${e}TrackPointExtension>${power}` : `${power}${hr}`;
+    const ext = inner ? `<${p.prefix}extensions>${inner}</${p.prefix}extensions>` : "";
+    return `<${p.prefix}trkpt ${attrs}>${p.ws}<${p.prefix}ele>12.5</${p.prefix}ele><${p.prefix}time>${new Date(t).toISOString()}</${p.prefix}time>${p.ws}${ext}</${p.prefix}trkpt>`;
+  });
+  return `<?xml version="1.0"?>\n<gpx version="1.1" xmlns:g="http://www.topografix.com/GPX/1/1"><wpt lat="1" lon="2"><time>2026-01-01T00:00:00Z</time></wpt><rte><rtept lat="3" lon="4"/></rte><trk><name>x</name><trkseg>${body.join("\n")}</trkseg></trk></gpx>\n`;
+}
+
+describe("GPX scanner", () => {
+  it("reads the same times, positions, power and heart rate as a general-purpose XML parser", () => {
+    fc.assert(
+      fc.property(fc.array(point, { minLength: 1, maxLength: 30 }), (pts) => {
+        const text = file(pts);
+        const ref = reference(text);
+        const got = readGpx(text).points;
+        expect(got.length).toBe(ref.length);
+        const t0 = Date.parse(ref[0].time);
+        got.forEach((g, i) => {
+          expect(g.t).toBe((Date.parse(ref[i].time) - t0) / 1000);
+          expect(g.power).toBe(ref[i].power);
+          expect(g.hr).toBe(ref[i].hr);
+        });
+      }),
+      { numRuns: 200 },
+    );
+  });
+
+  it("reads self-closing points and refuses an unclosed point or a truncated file", () => {
+    expect(() => readGpx('<gpx><trk><trkseg><trkpt lat="1" lon="2"/></trkseg></trk></gpx>')).toThrow(/readable time/);
+    expect(() => readGpx('<gpx><trk><trkseg><trkpt lat="1" lon="2"><time>2026-01-01T00:00:00Z</time></trkseg></trk></gpx>')).toThrow(/not closed/);
+    expect(() => readGpx('<gpx><trk><trkseg><trkpt lat="1" lon="2"><time>2026-01-01T00:00:00Z</time></trkpt>')).toThrow(/well-formed/);
+  });
+});
