@@ -34,7 +34,9 @@ const point = fc.record({
   ws: fc.constantFrom("", "\n  ", " "),
 });
 
-function file(points: fc.RecordValue<typeof point>[]) {
+type Point = typeof point extends fc.Arbitrary<infer T> ? T : never;
+
+function file(points: Point[]) {
   let t = Date.UTC(2026, 10, 14, 8);
   const body = points.map((p) => {
     t += (p.s + 1) * 1000;
