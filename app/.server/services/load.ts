@@ -195,8 +195,9 @@ export async function loadSeries(athlete: User, from: string, to: string) {
       fitness: round(ff[i].fitness),
       fatigue: round(ff[i].fatigue),
       balance: round(ff[i].balance),
-      acwrRolling: rolling[i] === null ? null : round(rolling[i]!, 2),
-      acwrEwma: ewma[i] === null ? null : round(ewma[i]!, 2),
+      // The ratio describes load already carried; days ahead have none.
+      acwrRolling: rolling[i] === null || d.date > today ? null : round(rolling[i]!, 2),
+      acwrEwma: ewma[i] === null || d.date > today ? null : round(ewma[i]!, 2),
       bandMinutes: d.bandMinutes.map((m) => round(m)),
     }))
     .filter((d) => d.date >= from);
@@ -204,7 +205,8 @@ export async function loadSeries(athlete: User, from: string, to: string) {
   const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; bandMinutes: number[]; loads: number[]; usual: { low: number; high: number } | null }>();
   for (const d of days.filter((x) => x.date >= mondayOf(from))) {
     const w = mondayOf(d.date);
-    const usual = firstRecord === -1 ? null : usualWeekRange(modelLoads, daysBetween(warmFrom, w), { historyStart });
+    // Weeks ahead are measured against the usual range as of today: only days already lived count as history.
+    const usual = firstRecord === -1 ? null : usualWeekRange(modelLoads, Math.min(daysBetween(warmFrom, w), daysBetween(warmFrom, today) + 1), { historyStart });
     const e = weeks.get(w) ?? { week: w, plannedLoad: 0, doneLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, bandMinutes: new Array(nb).fill(0) as number[], loads: [] as number[], usual: usual && { low: round(usual.low), high: round(usual.high) } };
     e.doneLoad += d.effortLoad;
     e.plannedLoad += d.plannedAll;
