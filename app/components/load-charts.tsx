@@ -55,7 +55,7 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
   }, [days]); // eslint-disable-line react-hooks/exhaustive-deps
   const thisWeek = data.weekly.find((w) => w.week <= data.today && data.today < addDays(w.week, 7))?.week;
   // Past weeks show what was done, the current and later weeks what is planned; the range is the same either way.
-  const weekly = data.weekly.map((w) => ({ ...w, range: w.usual ? [w.usual.low, w.usual.high] : null, done: w.week <= data.today ? w.doneLoad : null }));
+  const weekly = data.weekly.map((w) => ({ ...w, range: w.usual ? [w.usual.low, w.usual.high] : null, done: w.week <= data.today || w.doneLoad > 0 ? w.doneLoad : null }));
   const now = data.daily.find((d) => d.date === data.today);
   const noRatio = data.daily.every((d) => d.acwrRolling === null);
   return (
@@ -85,7 +85,6 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
                 <XAxis xAxisId="b" dataKey="week" hide />
                 <YAxis tick={{ fontSize: 11 }} />
                 <Tooltip />
-                <Legend />
                 <Area xAxisId="a" dataKey="range" name="Usual range" type="step" stroke="none" fill="#8fa58a" fillOpacity={0.28} isAnimationActive={false} connectNulls={false} />
                 <Bar xAxisId="a" dataKey="plannedLoad" name="Planned" fill="transparent" stroke="#1F5F5B" strokeWidth={1.5} strokeDasharray="0" isAnimationActive={false} />
                 <Bar xAxisId="b" dataKey="done" name="Done" fill="#1F5F5B" isAnimationActive={false} barSize={14} />
@@ -93,6 +92,17 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
               </ComposedChart>
             </ResponsiveContainer>
           </div>
+          <ul className="mt-2 flex flex-wrap gap-4 text-xs text-ink-soft" aria-label="Key">
+            <li className="flex items-center gap-1.5">
+              <span className="inline-block h-3 w-3 rounded-sm bg-teal" aria-hidden /> Done
+            </li>
+            <li className="flex items-center gap-1.5">
+              <span className="inline-block h-3 w-3 rounded-sm border-[1.5px] border-teal" aria-hidden /> Planned
+            </li>
+            <li className="flex items-center gap-1.5">
+              <span className="inline-block h-3 w-3 rounded-sm" style={{ background: "#8fa58a", opacity: 0.5 }} aria-hidden /> Usual range
+            </li>
+          </ul>
         </Card>
         <Card>
           <h2 className="font-semibold">Readiness</h2>
@@ -127,13 +137,21 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
                 <XAxis dataKey="week" tickFormatter={short} tick={{ fontSize: 11 }} />
                 <YAxis tick={{ fontSize: 11 }} />
                 <Tooltip />
-                <Legend />
                 {data.bands.map((b) => (
                   <Bar key={b.name} dataKey={b.name} stackId="z" fill={b.shade} stroke={b.aboveThreshold ? "#B5523B" : undefined} strokeWidth={b.aboveThreshold ? 1 : 0} isAnimationActive={false} />
                 ))}
               </BarChart>
             </ResponsiveContainer>
           </div>
+          <ul className="mt-2 flex flex-wrap gap-3 text-xs text-ink-soft" aria-label="Bands">
+            {data.bands.map((b) => (
+              <li key={b.name} className="flex items-center gap-1.5">
+                <span className="inline-block h-3 w-3 rounded-sm" style={{ background: b.shade, boxShadow: b.aboveThreshold ? "inset 0 0 0 1.5px #B5523B" : undefined }} aria-hidden />
+                {b.name}
+              </li>
+            ))}
+          </ul>
+          {data.weekly.every((w) => w.bandMinutes.every((m) => m === 0)) && <p className="mt-1 text-sm text-ink-soft">No ride files with power in this range yet.</p>}
         </Card>
         <Card>
           <h2 className="font-semibold">Acute:chronic load ratio</h2>

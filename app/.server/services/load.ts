@@ -282,8 +282,8 @@ function readinessNote(input: {
     );
   }
   const now = input.daily.find((d) => d.date === input.today);
-  const freshness = (d: { fitness: number; balance: number }) => (d.balance > 0.1 * d.fitness ? "fresh" : d.balance < -0.1 * d.fitness ? "carrying fatigue" : "about even");
-  if (now && now.fitness > 0) notes.push(`Today the athlete looks ${freshness(now)} (the 7-day trend against the 42-day trend).`);
+  const freshness = (d: { fitness: number; balance: number }) => (d.balance > 0.1 * d.fitness ? "fresh" : d.balance < -0.1 * d.fitness ? "carrying fatigue" : "neither fresh nor tired");
+  if (now && now.fitness > 0) notes.push(`Today the athlete is ${freshness(now)} (the 7-day trend against the 42-day trend).`);
   const key = input.keyDays.find((d) => d <= addDays(input.today, 21));
   const onKey = key ? input.daily.find((d) => d.date === key) : undefined;
   if (key && onKey && onKey.fitness > 0) notes.push(`Next field test ${key}: as planned, the athlete would arrive ${freshness(onKey)}.`);

@@ -110,7 +110,7 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
                 const e = errors[i] ?? {};
                 const id = `band-${i}`;
                 return (
-                  <li key={i} className="grid grid-cols-[1rem_1fr] gap-2 border-t border-line/60 pt-3 sm:grid-cols-[1rem_10rem_5rem_5rem_1fr_auto]">
+                  <li key={i} className="grid grid-cols-[1rem_1fr] gap-2 border-t border-line/60 pt-3 sm:grid-cols-[1rem_10rem_7.5rem_7.5rem_1fr_auto]">
                     <span className="mt-7 inline-block h-4 w-4 rounded-sm" style={{ background: bandShade(i, rows.length) }} aria-hidden />
                     <label className="flex flex-col gap-1 text-sm">
                       <span className="font-medium">Name</span>
