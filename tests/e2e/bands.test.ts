@@ -123,6 +123,40 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
     }
   });
 
+  it("the session page names each block's band, and the session builder counts minutes per band", async () => {
+    const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    await signInAs(page, env.app.baseUrl, "tomas@harbourline.example", PASSWORD);
+    await page.waitForURL(`${env.app.baseUrl}/athlete`);
+    const id = await page.evaluate(async () => {
+      const iso = (x: Date) => x.toISOString().slice(0, 10);
+      const from = new Date(Date.now() - 14 * 86_400_000);
+      const to = new Date(Date.now() + 21 * 86_400_000);
+      const body = await (await fetch(`/api/calendar?from=${iso(from)}&to=${iso(to)}`)).json();
+      const list = body.sessions as { id: number; name: string }[];
+      return (list.find((s) => /repeats|× /.test(s.name)) ?? list[0])?.id;
+    });
+    expect(id).toBeTruthy();
+    await page.goto(`${env.app.baseUrl}/athlete/sessions/${id}`);
+    await ready(page);
+    await page.getByTestId("block-band").first().waitFor();
+    for (const t of await page.getByTestId("block-band").allTextContents()) expect(["Easy", "Steady", "Heavy", "Ridge", "Severe", "Extreme"]).toContain(t.trim());
+    await shot(page, "bands-session");
+    await ctx.close();
+
+    const cctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const coach = await cctx.newPage();
+    await signInAs(coach, env.app.baseUrl, "coach@harbourline.example", PASSWORD);
+    await coach.waitForURL(`${env.app.baseUrl}/coach`);
+    await coach.goto(`${env.app.baseUrl}/coach/sessions`);
+    await ready(coach);
+    await coach.getByRole("link", { name: /Threshold repeats/ }).first().click();
+    await coach.getByTestId("minutes-per-band").waitFor();
+    expect(await coach.getByTestId("minutes-per-band").textContent()).toMatch(/Easy.*Steady.*Heavy.*Ridge.*Severe.*Extreme/s);
+    await shot(coach, "bands-builder");
+    await cctx.close();
+  });
+
   it("a coach edits the power bands: a gap is refused beside the field, a good set is saved, and the athlete's pages follow", async () => {
     const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();

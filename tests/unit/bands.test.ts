@@ -243,3 +243,11 @@ describe("validating a coach's band set", () => {
     expect(bandSetFromStored("bike:power", [{ name: "Gentle", fromPct: 0, toPct: 70 }, { name: "Working", fromPct: 70, toPct: 100 }, { name: "Hard", fromPct: 100, toPct: null }]).bands[2].name).toBe("Hard");
   });
 });
+
+describe("zone minutes from absolute tops follow the same [from, to) convention", () => {
+  it("a value on a top counts in the zone above; just under it, in the zone below", async () => {
+    const { minutesInZones } = await import("~/lib/training");
+    // Tops 120 and 150 bpm: 119.9 → first, 120 → second, 150 → third.
+    expect(minutesInZones([119.9, 120, 149.9, 150], [120, 150]).map((m) => Math.round(m * 60))).toEqual([1, 2, 1]);
+  });
+});
