@@ -1,6 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { BandSetRow, CoachAthlete, ScheduledBlock, ScheduledSession, Threshold, Upload } from "~/.server/models";
 import { buildFeed } from "~/.server/services/feed";
+import { thresholdBandsText } from "~/.server/services/bands";
+import { renderEmail } from "~/.server/mail";
 import { loadSeries } from "~/.server/services/load";
 import * as bandsPage from "~/routes/coach/bands";
 import * as sessionPage from "~/routes/athlete/session";
@@ -64,6 +66,13 @@ describe("coach-edited band sets", () => {
     const feedA = (await buildFeed(a.athlete)).body.replace(/\r\n /g, "");
     expect(feedA).toContain("Pressing band");
     expect(feedA).not.toContain("Heavy band");
+
+    // The new-threshold e-mail lists the coach's bands for the new number.
+    const text = await thresholdBandsText(a.athlete, "bike", "power", 250, "W");
+    expect(text).toContain("Pressing: 223 W – 249 W");
+    const mail = await renderEmail("rescale-summary", { recipientName: "A", athleteName: "B", testLabel: "20-minute test", testedOn: "2026-11-20", metricLabel: "power", newValue: "250 W", oldValue: "240 W", sessionsChanged: 1, blocksChanged: 2, examples: "", bands: text, link: "http://x" });
+    expect(mail.text).toContain("Over: 250 W and above");
+    expect(await thresholdBandsText(b.athlete, "bike", "power", 250, "W")).toContain("Heavy: 200 W – 237 W");
 
     // The other coach's athlete still reads Pacewright's defaults everywhere.
     const other = payloadOf(await run(sessionPage.loader, getRequest(`/athlete/sessions/${b.session.id}`, await signIn(b.athlete.email)), { id: String(b.session.id) }));

@@ -1,6 +1,7 @@
 import { Op, type Transaction } from "sequelize";
 import { writeTransaction } from "../db";
 import { BandSetRow, CoachAthlete, type User } from "../models";
+import { bandTable } from "~/lib/band-table";
 import {
   BAND_SET_KEYS,
   bandSetFromStored,
@@ -79,4 +80,12 @@ export async function restoreDefaultBandSet(coach: User, key: string) {
   if (!parseBandSetKey(key)) return false;
   await writeTransaction((transaction) => BandSetRow.destroy({ where: { coachId: coach.id, setKey: key }, transaction }));
   return true;
+}
+
+/** The bands of a new threshold as plain lines for e-mails ("Easy: up to 157 W"); empty where we keep no set. */
+export async function thresholdBandsText(athlete: Pick<User, "id" | "role">, sport: string, metric: Metric, value: number, unit: string, transaction?: Transaction) {
+  const sets = await bandSetsFor(athlete, transaction);
+  const table = bandTable({ sport, metric, value, unit }, sets[bandSetKeyFor(sport, metric)]);
+  if (!table) return "";
+  return [`${table.title} for the new threshold:`, ...table.rows.map((r) => `${r.name}: ${r.range}`)].join("\n");
 }
