@@ -1,3 +1,4 @@
+import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
 import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
@@ -110,9 +111,17 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
       await expect.poll(() => table.locator("tr").count()).toBe(6);
       expect(await table.textContent()).toMatch(/Easy.*Steady.*Heavy.*Ridge.*Severe.*Extreme/s);
       await shot(page, `bands-tests-${tag}`);
+      if (tag === "desktop") {
+        // A power file uploaded on the ride files page (not attached to any session) must show in minutes per band.
+        await page.goto(`${env.app.baseUrl}/athlete/uploads`);
+        await ready(page);
+        await page.getByLabel(/Ride file/).setInputFiles(path.resolve("db/demo/files/endurance-2h.csv"));
+        await page.getByText("Added to your history.").waitFor({ timeout: 60_000 });
+      }
       await page.goto(`${env.app.baseUrl}/athlete/load`);
       await ready(page);
       await page.getByTestId("readiness-note").waitFor();
+      await page.locator("[data-testid=band-minutes-chart] .recharts-bar-rectangle").first().waitFor();
       await page.locator("[data-testid=weekly-load-chart] .recharts-bar-rectangle").first().waitFor();
       await page.locator("[data-testid=band-minutes-chart]").waitFor();
       expect(await page.locator("[data-testid=fitness-chart]").count()).toBe(0);
