@@ -64,7 +64,7 @@ export default function AboutBands() {
                     <tr>
                       <th className="py-1 font-medium">Band</th>
                       <th className="py-1 font-medium">% of threshold{metric === "pace" ? " speed" : ""}</th>
-                      <th className="py-1 font-medium">Lower boundary, from</th>
+                      <th className="hidden py-1 font-medium sm:table-cell">Lower boundary, from</th>
                     </tr>
                   </thead>
                   <tbody>
@@ -74,9 +74,10 @@ export default function AboutBands() {
                           <span className="mr-2 inline-block h-3 w-3 rounded-sm align-middle" style={{ background: bandShade(i, set.bands.length), boxShadow: b.fromPct >= 100 ? "inset 0 0 0 1.5px var(--color-brick)" : undefined }} aria-hidden />
                           <span className="font-medium">{b.name}</span>
                           <span className="block text-xs text-ink-soft">{b.meaning}</span>
+                          <span className="mt-0.5 block text-xs italic text-ink-soft sm:hidden">{i === 0 ? "starts at 0" : BASIS[`${key}:${b.fromPct}`] ?? "common practice"}</span>
                         </td>
                         <td className="whitespace-nowrap py-1 pr-2">{b.toPct === null ? `${b.fromPct} % and above` : `${b.fromPct} to under ${b.toPct} %`}</td>
-                        <td className="py-1 text-xs text-ink-soft">{i === 0 ? "starts at 0" : BASIS[`${key}:${b.fromPct}`] ?? "common practice"}</td>
+                        <td className="hidden py-1 text-xs text-ink-soft sm:table-cell">{i === 0 ? "starts at 0" : BASIS[`${key}:${b.fromPct}`] ?? "common practice"}</td>
                       </tr>
                     ))}
                   </tbody>

@@ -166,6 +166,23 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
     await cctx.close();
   });
 
+  it("the band settings and the about page fit a phone", async () => {
+    const ctx = await env.browser.newContext({ viewport: { width: 390, height: 844 } });
+    const page = await ctx.newPage();
+    await signInAs(page, env.app.baseUrl, "coach@harbourline.example", PASSWORD);
+    await page.waitForURL(`${env.app.baseUrl}/coach`);
+    for (const [url, name] of [
+      ["/coach/bands?set=run:pace", "bands-settings-phone"],
+      ["/bands/about", "bands-about-phone"],
+    ]) {
+      await page.goto(`${env.app.baseUrl}${url}`);
+      await ready(page);
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(391);
+      await shot(page, name);
+    }
+    await ctx.close();
+  });
+
   it("a coach edits the power bands: a gap is refused beside the field, a good set is saved, and the athlete's pages follow", async () => {
     const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
