@@ -158,6 +158,30 @@ describe("minutes per band from ride files", () => {
     expect(csv).not.toMatch(/level|zone/i);
   });
 
+  it("the session page shows time in band for an attached ride file, in the coach's bands", async () => {
+    const { coach, athlete } = await coachedAthlete();
+    const date = todayIn("UTC");
+    const planned = await ScheduledSession.create({ athleteId: athlete.id, date, name: "Today's ride", sport: "bike", plannedDurationS: 3600, plannedLoad: 300 });
+    const ride = twentyMinuteTestRide(290);
+    const body = new FormData();
+    body.append("file", new File([toCsv(ride)], "ride.csv"));
+    const cookie = await signIn(athlete.email);
+    const up = await ((await run(uploads.action, new Request(`${BASE}/api/uploads`, { method: "POST", body, headers: { Cookie: cookie } }))) as Response).json();
+    await run(sessionPage.action, formRequest(`/athlete/sessions/${planned.id}`, { intent: "attach", uploadId: String(up.upload.id), effortScore: "7" }, { cookie }), { id: String(planned.id) });
+    await run(bandsPage.action, formRequest("/coach/bands", form("bike:power", mine), { cookie: await signIn(coach.email) }));
+    const page = payloadOf(await run(sessionPage.loader, getRequest(`/athlete/sessions/${planned.id}`, cookie), { id: String(planned.id) }));
+    expect(page.timeInBand.map((r: { name: string }) => r.name)).toEqual(["Gentle", "Working", "Pressing", "Over"]);
+    const coachBands = [
+      { name: "Gentle", fromPct: 0, toPct: 70, meaning: "" },
+      { name: "Working", fromPct: 70, toPct: 89, meaning: "" },
+      { name: "Pressing", fromPct: 89, toPct: 100, meaning: "" },
+      { name: "Over", fromPct: 100, toPct: null, meaning: "" },
+    ];
+    const expected = minutesPerBand(valueHistogram(ride.map((x) => x.power)), 250, { metric: "power", bands: coachBands });
+    page.timeInBand.forEach((r: { minutes: number }, i: number) => expect(r.minutes).toBeCloseTo(expected[i], 1));
+    expect(page.timeInBand.reduce((a: number, r: { minutes: number }) => a + r.minutes, 0)).toBeCloseTo(ride.filter((x) => x.power > 0).length / 60, 0);
+  });
+
   it("with less than 28 days of history the load page says so instead of showing a ratio", async () => {
     const athlete = await makeUser({ role: "athlete", timezone: "UTC" });
     const today = todayIn("UTC");

@@ -32,14 +32,20 @@ export async function sessionPageData(athlete: User, sessionId: number) {
     return t && tsport ? (bandTable({ sport: tsport, metric, value: t.value, unit: unitFor(tsport, metric) }, sets[bandSetKeyFor(tsport, metric)]) ?? []) : [];
   });
   const bandsByBlock = blockBands(steps, session.sport, sets);
-  let timeInBand: { name: string; shade: string; minutes: number }[] | null = null;
-  if (session.uploadId) {
+  // Time in band from the attached file: power where the file has it, else heart rate, against the threshold in
+  // effect on the session's day and the athlete's band set.
+  let timeInBand: { metric: Metric; name: string; shade: string; minutes: number }[] | null = null;
+  if (session.uploadId && tsport && tsport !== "swim") {
     const upload = await Upload.findOne({ where: { id: session.uploadId, athleteId: athlete.id } });
-    const hist = (upload?.summary as Partial<UploadSummary> | undefined)?.histograms?.power;
-    const threshold = await Threshold.findOne({ where: { athleteId: athlete.id, sport: "bike", metric: "power", effectiveFrom: { [Op.lte]: session.date } }, order: [["effectiveFrom", "DESC"], ["id", "DESC"]] });
-    if (hist && threshold) {
-      const set = sets["bike:power"];
-      timeInBand = minutesPerBand(hist, threshold.value, set).map((m, i) => ({ name: set.bands[i].name, shade: bandShade(i, set.bands.length), minutes: Math.round(m * 10) / 10 }));
+    const hists = (upload?.summary as Partial<UploadSummary> | undefined)?.histograms;
+    const pick: [Metric, Record<string, number> | null | undefined][] = [["power", hists?.power], ["heart_rate", hists?.hr]];
+    for (const [metric, hist] of pick) {
+      if (!hist || timeInBand) continue;
+      const thresholdSportName = metric === "power" ? "bike" : tsport;
+      const threshold = await Threshold.findOne({ where: { athleteId: athlete.id, sport: thresholdSportName, metric, effectiveFrom: { [Op.lte]: session.date } }, order: [["effectiveFrom", "DESC"], ["id", "DESC"]] });
+      if (!threshold) continue;
+      const set = sets[bandSetKeyFor(thresholdSportName, metric)];
+      timeInBand = minutesPerBand(hist, threshold.value, set).map((m, i) => ({ metric, name: set.bands[i].name, shade: bandShade(i, set.bands.length), minutes: Math.round(m * 10) / 10 }));
     }
   }
   return {

@@ -31,7 +31,7 @@ export interface SessionDetailData {
   steps: StepView[];
   zones: BandTableData[];
   bandsByBlock?: BlockBand[];
-  timeInBand?: { name: string; shade: string; minutes: number }[] | null;
+  timeInBand?: { metric: string; name: string; shade: string; minutes: number }[] | null;
 }
 
 export function SessionDetail({ data, canComplete }: { data: SessionDetailData; canComplete: boolean }) {
@@ -95,12 +95,12 @@ function BandChip({ band }: { band: BlockBand }) {
   );
 }
 
-function TimeInBand({ rows }: { rows: { name: string; shade: string; minutes: number }[] }) {
+function TimeInBand({ rows }: { rows: { metric: string; name: string; shade: string; minutes: number }[] }) {
   const total = rows.reduce((a, r) => a + r.minutes, 0) || 1;
   return (
     <Card>
       <h2 className="font-semibold">Time in band</h2>
-      <p className="text-xs text-ink-soft">From the attached ride file, power against your threshold on the day.</p>
+      <p className="text-xs text-ink-soft">From the attached ride file: {rows[0]?.metric === "power" ? "power" : "heart rate"} against your threshold on the day.</p>
       <ul className="num mt-2 flex flex-col gap-1 text-sm" data-testid="time-in-band">
         {rows.map((r) => (
           <li key={r.name} className="grid grid-cols-[7rem_1fr_3.5rem] items-center gap-2">
