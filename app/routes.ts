@@ -50,5 +50,7 @@ export default [
     route("coach/feed", "routes/athlete/feed.tsx", { id: "coach-feed" }),
     route("coach/shop", "routes/coach/shop.tsx"),
     route("admin/users", "routes/admin/users.tsx"),
+    route("coach/bands", "routes/coach/bands.tsx"),
+    route("bands/about", "routes/bands-about.tsx"),
   ]),
 ] satisfies RouteConfig;

@@ -8,6 +8,7 @@ const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
     { to: "/coach/sessions", label: "Session shelf" },
     { to: "/coach/plans", label: "Season plans" },
     { to: "/coach/shop", label: "Selling" },
+    { to: "/coach/bands", label: "Bands" },
     { to: "/coach/feed", label: "Calendar feed" },
   ],
   athlete: [

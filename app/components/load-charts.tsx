@@ -1,6 +1,6 @@
 import { useEffect, useState } from "react";
 import { useFetcher } from "react-router";
-import { Bar, BarChart, CartesianGrid, ComposedChart, Legend, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import { Area, Bar, BarChart, CartesianGrid, ComposedChart, Legend, Line, LineChart, ReferenceArea, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { addDays } from "~/lib/dates";
@@ -10,8 +10,26 @@ export interface LoadData {
   from: string;
   to: string;
   daily: { date: string; future: boolean; effortLoad: number; plannedLoad: number; fitness: number; fatigue: number; balance: number; acwrRolling: number | null; acwrEwma: number | null }[];
-  weekly: { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; zones: number[]; compliance: number | null; inTargetPct?: number | null; monotony: number | null; strain: number | null }[];
+  weekly: {
+    week: string;
+    plannedLoad: number;
+    doneLoad: number;
+    plannedSessions: number;
+    doneSessions: number;
+    plannedMinutes: number;
+    doneMinutes: number;
+    bandMinutes: number[];
+    usual: { low: number; high: number } | null;
+    compliance: number | null;
+    inTargetPct?: number | null;
+    monotony: number | null;
+    strain: number | null;
+  }[];
+  bands: { name: string; shade: string; aboveThreshold: boolean }[];
+  historyDays: number;
+  readiness: string[];
   latestRatio: number | null;
+  latestEwma?: number | null;
   band: string | null;
   powerCurve: { windowS: number; recent: number | null; previous: number | null }[];
 }
@@ -22,7 +40,6 @@ const RANGES = [
   ["6 months", 182],
   ["1 year", 365],
 ] as const;
-const LEVELS = ["Recovery", "Endurance", "Tempo", "Threshold", "Aerobic capacity", "Anaerobic", "Sprint"];
 const BAND_WORDS: Record<string, string> = { low: "below your usual load", usual: "within your usual range", raised: "raised", spike: "a spike: well above your usual load" };
 const short = (d: string) => d.slice(5);
 const windowLabel = (s: number) => (s < 60 ? `${s}s` : s < 3600 ? `${s / 60}m` : `${s / 3600}h`);
@@ -36,7 +53,11 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
     if (days === 90 && !fetcher.data) return;
     fetcher.load(`/api/athletes/${athleteId}/load?from=${addDays(initial.today, -days + 1)}&to=${addDays(initial.today, 28)}`);
   }, [days]); // eslint-disable-line react-hooks/exhaustive-deps
-  const daily = data.daily.map((d) => ({ ...d, fitnessPast: d.future ? null : d.fitness, fitnessFuture: d.future || d.date === data.today ? d.fitness : null, fatiguePast: d.future ? null : d.fatigue, fatigueFuture: d.future || d.date === data.today ? d.fatigue : null }));
+  const thisWeek = data.weekly.find((w) => w.week <= data.today && data.today < addDays(w.week, 7))?.week;
+  // Past weeks show what was done, the current and later weeks what is planned; the range is the same either way.
+  const weekly = data.weekly.map((w) => ({ ...w, range: w.usual ? [w.usual.low, w.usual.high] : null, done: w.week <= data.today || w.doneLoad > 0 ? w.doneLoad : null }));
+  const now = data.daily.find((d) => d.date === data.today);
+  const noRatio = data.daily.every((d) => d.acwrRolling === null);
   return (
     <div className="flex flex-col gap-6">
       <div className="flex flex-wrap items-center gap-2" role="group" aria-label="Range">
@@ -50,66 +71,99 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
         </a>
         {fetcher.state === "loading" && <span className="text-sm text-ink-soft">Loading…</span>}
       </div>
-      <Card>
-        <h2 className="font-semibold">Fitness, fatigue and balance</h2>
-        <p className="text-xs text-ink-soft">Exponentially weighted effort load, 42 and 7 days (Banister). Dashed: what the plan ahead would do.</p>
-        <div className="mt-2 h-64" data-testid="fitness-chart">
-          <ResponsiveContainer>
-            <ComposedChart data={daily} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
-              <CartesianGrid stroke="#ede7dc" />
-              <XAxis dataKey="date" tickFormatter={short} tick={{ fontSize: 11 }} minTickGap={24} />
-              <YAxis tick={{ fontSize: 11 }} />
-              <Tooltip />
-              <Legend />
-              <ReferenceLine x={data.today} stroke="#B5523B" strokeDasharray="3 3" label={{ value: "today", fontSize: 11, fill: "#B5523B" }} />
-              <Bar dataKey="effortLoad" name="Effort load" fill="#c3dbd7" isAnimationActive={false} />
-              <Line dataKey="fitnessPast" name="Fitness" stroke="#1F5F5B" strokeWidth={2} dot={false} isAnimationActive={false} connectNulls={false} />
-              <Line dataKey="fitnessFuture" name="Fitness (planned)" stroke="#1F5F5B" strokeDasharray="4 3" dot={false} isAnimationActive={false} />
-              <Line dataKey="fatiguePast" name="Fatigue" stroke="#B5523B" strokeWidth={1.5} dot={false} isAnimationActive={false} />
-              <Line dataKey="fatigueFuture" name="Fatigue (planned)" stroke="#B5523B" strokeDasharray="4 3" dot={false} isAnimationActive={false} />
-              <Line dataKey="balance" name="Balance" stroke="#5f6f7f" strokeWidth={1} dot={false} isAnimationActive={false} />
-            </ComposedChart>
-          </ResponsiveContainer>
-        </div>
-      </Card>
-      <div className="grid gap-6 xl:grid-cols-2">
+      <div className="grid gap-6 lg:grid-cols-[1fr_20rem]">
         <Card>
-          <h2 className="font-semibold">Weekly load: planned and done</h2>
-          <div className="mt-2 h-56" data-testid="weekly-chart">
+          <h2 className="font-semibold">Weekly load and the usual range</h2>
+          <p className="text-xs text-ink-soft">
+            Filled: effort load done. Outlined: planned. Shaded: the usual range, 0.8–1.3 × the average week of the 28 days before (guidance only).
+          </p>
+          <div className="mt-2 h-72" data-testid="weekly-load-chart">
             <ResponsiveContainer>
-              <BarChart data={data.weekly} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
-                <CartesianGrid stroke="#ede7dc" />
-                <XAxis dataKey="week" tickFormatter={short} tick={{ fontSize: 11 }} />
+              <ComposedChart data={weekly} margin={{ top: 8, right: 8, bottom: 0, left: -12 }} barCategoryGap="22%">
+                <CartesianGrid stroke="#ede7dc" vertical={false} />
+                <XAxis xAxisId="a" dataKey="week" tickFormatter={short} tick={{ fontSize: 11 }} />
+                <XAxis xAxisId="b" dataKey="week" hide />
                 <YAxis tick={{ fontSize: 11 }} />
                 <Tooltip />
-                <Legend />
-                <Bar dataKey="plannedLoad" name="Planned" fill="#d9c7a3" isAnimationActive={false} />
-                <Bar dataKey="doneLoad" name="Done" fill="#1F5F5B" isAnimationActive={false} />
-              </BarChart>
+                <Area xAxisId="a" dataKey="range" name="Usual range" type="step" stroke="none" fill="#8fa58a" fillOpacity={0.28} isAnimationActive={false} connectNulls={false} />
+                <Bar xAxisId="a" dataKey="plannedLoad" name="Planned" fill="transparent" stroke="#1F5F5B" strokeWidth={1.5} strokeDasharray="0" isAnimationActive={false} />
+                <Bar xAxisId="b" dataKey="done" name="Done" fill="#1F5F5B" isAnimationActive={false} barSize={14} />
+                {thisWeek && <ReferenceArea xAxisId="a" x1={thisWeek} x2={thisWeek} fill="#B5523B" fillOpacity={0.06} label={{ value: "this week", fontSize: 11, fill: "#B5523B", position: "insideTop" }} />}
+              </ComposedChart>
             </ResponsiveContainer>
           </div>
+          <ul className="mt-2 flex flex-wrap gap-4 text-xs text-ink-soft" aria-label="Key">
+            <li className="flex items-center gap-1.5">
+              <span className="inline-block h-3 w-3 rounded-sm bg-teal" aria-hidden /> Done
+            </li>
+            <li className="flex items-center gap-1.5">
+              <span className="inline-block h-3 w-3 rounded-sm border-[1.5px] border-teal" aria-hidden /> Planned
+            </li>
+            <li className="flex items-center gap-1.5">
+              <span className="inline-block h-3 w-3 rounded-sm" style={{ background: "#8fa58a", opacity: 0.5 }} aria-hidden /> Usual range
+            </li>
+          </ul>
         </Card>
         <Card>
-          <h2 className="font-semibold">Minutes per level, by week</h2>
-          <p className="text-xs text-ink-soft">From ride files with power.</p>
-          <div className="mt-2 h-56">
+          <h2 className="font-semibold">Readiness</h2>
+          <ul className="mt-2 flex flex-col gap-2 text-sm" data-testid="readiness-note">
+            {data.readiness.map((n) => (
+              <li key={n}>{n}</li>
+            ))}
+          </ul>
+          {now && (
+            <dl className="num mt-3 grid grid-cols-2 gap-1 text-sm">
+              <dt className="text-ink-soft">Fitness (42-day)</dt>
+              <dd className="text-right">{Math.round(now.fitness)}</dd>
+              <dt className="text-ink-soft">Fatigue (7-day)</dt>
+              <dd className="text-right">{Math.round(now.fatigue)}</dd>
+              <dt className="text-ink-soft">Balance</dt>
+              <dd className="text-right">{Math.round(now.balance)}</dd>
+            </dl>
+          )}
+          <p className="mt-3 text-xs text-ink-soft">
+            Fitness and fatigue are exponentially weighted daily effort loads with 42- and 7-day time constants (Banister's impulse–response model); balance is fitness minus fatigue. A
+            guide for the coach, not a verdict.
+          </p>
+        </Card>
+      </div>
+      <div className="grid gap-6 xl:grid-cols-2">
+        <Card>
+          <h2 className="font-semibold">Minutes per band, by week</h2>
+          <p className="text-xs text-ink-soft">From ride files with power, against the threshold on the day of the ride.</p>
+          <div className="mt-2 h-56" data-testid="band-minutes-chart">
             <ResponsiveContainer>
-              <BarChart data={data.weekly.map((w) => ({ week: w.week, ...Object.fromEntries(w.zones.map((m, i) => [LEVELS[i], m])) }))} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
+              <BarChart data={data.weekly.map((w) => ({ week: w.week, ...Object.fromEntries(w.bandMinutes.map((m, i) => [data.bands[i]?.name ?? `#${i + 1}`, m])) }))} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
                 <XAxis dataKey="week" tickFormatter={short} tick={{ fontSize: 11 }} />
                 <YAxis tick={{ fontSize: 11 }} />
                 <Tooltip />
-                {LEVELS.map((l, i) => (
-                  <Bar key={l} dataKey={l} stackId="z" fill={`var(--color-level-${i + 1})`} isAnimationActive={false} />
+                {data.bands.map((b) => (
+                  <Bar key={b.name} dataKey={b.name} stackId="z" fill={b.shade} stroke={b.aboveThreshold ? "#B5523B" : undefined} strokeWidth={b.aboveThreshold ? 1 : 0} isAnimationActive={false} />
                 ))}
               </BarChart>
             </ResponsiveContainer>
           </div>
+          <ul className="mt-2 flex flex-wrap gap-3 text-xs text-ink-soft" aria-label="Bands">
+            {data.bands.map((b) => (
+              <li key={b.name} className="flex items-center gap-1.5">
+                <span className="inline-block h-3 w-3 rounded-sm" style={{ background: b.shade, boxShadow: b.aboveThreshold ? "inset 0 0 0 1.5px #B5523B" : undefined }} aria-hidden />
+                {b.name}
+              </li>
+            ))}
+          </ul>
+          {data.weekly.every((w) => w.bandMinutes.every((m) => m === 0)) && <p className="mt-1 text-sm text-ink-soft">No ride files with power in this range yet.</p>}
         </Card>
         <Card>
           <h2 className="font-semibold">Acute:chronic load ratio</h2>
           <p className="text-xs text-ink-soft">
-            7-day against 28-day load (rolling; the EWMA variant thin). Bands are guidance only{data.latestRatio !== null ? `; now ${data.latestRatio}, ${BAND_WORDS[data.band ?? "usual"]}` : ""}.
+            7-day against 28-day load (rolling; the exponentially weighted variant thin). Guidance only
+            {data.latestRatio !== null ? `; now ${data.latestRatio}, ${BAND_WORDS[data.band ?? "usual"]}` : ""}.
           </p>
+          {noRatio && (
+            <p className="mt-2 text-sm font-medium" data-testid="ratio-not-enough">
+              Not enough history: the ratio needs 28 days of recorded sessions ({data.historyDays} so far).
+            </p>
+          )}
           <div className="mt-2 h-56">
             <ResponsiveContainer>
               <LineChart data={data.daily.filter((d) => !d.future)} margin={{ top: 8, right: 8, bottom: 0, left: -12 }}>
@@ -119,7 +173,7 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
                 <YAxis domain={[0, 2.2]} tick={{ fontSize: 11 }} />
                 <Tooltip />
                 <Line dataKey="acwrRolling" name="Rolling" stroke="#1F5F5B" strokeWidth={2} dot={false} isAnimationActive={false} />
-                <Line dataKey="acwrEwma" name="EWMA" stroke="#5f6f7f" strokeWidth={1} dot={false} isAnimationActive={false} />
+                <Line dataKey="acwrEwma" name="Exponentially weighted" stroke="#5f6f7f" strokeWidth={1} dot={false} isAnimationActive={false} />
               </LineChart>
             </ResponsiveContainer>
           </div>

@@ -17,7 +17,8 @@ import { buttonClass } from "~/components/ui/button";
 import { FormMessage } from "~/components/ui/field";
 import { formatClock, formatMinutes, parseDuration } from "~/lib/duration";
 import { BLOCK_LABEL, describeBlock, newBlock, SPORTS, SPORT_LABEL } from "~/lib/sessions";
-import { BLOCK_KINDS, estimateSession, expandBlocks, validateBlocks, type Block, type Metric } from "~/lib/training";
+import { useBandSets } from "~/components/bands-context";
+import { BLOCK_KINDS, bandAboveThreshold, bandSetKeyFor, bandShade, estimateSession, expandBlocks, validateBlocks, type Block, type Metric } from "~/lib/training";
 
 type Keyed = { key: string; block: Block };
 let nextKey = 1;
@@ -36,7 +37,16 @@ const METRICS: [Metric, string][] = [
   ["heart_rate", "Heart rate"],
   ["pace", "Pace"],
 ];
-const LEVEL_NAMES = ["Recovery", "Endurance", "Tempo", "Threshold", "Aerobic capacity", "Anaerobic", "Sprint"];
+
+/** The metric most of a session's targeted blocks use: its band set shades the estimate. */
+function mainMetric(blocks: Block[]): Metric {
+  const count = new Map<Metric, number>();
+  for (const b of blocks) {
+    const m = b.kind === "open" ? null : b.kind === "ramp" ? b.metric : b.kind === "repeats" ? b.work.target.metric : b.target.metric;
+    if (m) count.set(m, (count.get(m) ?? 0) + 1);
+  }
+  return [...count.entries()].sort((a, b) => b[1] - a[1])[0]?.[0] ?? "power";
+}
 
 export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial: BuilderValues; errors?: Record<string, string | undefined>; submitLabel: string }) {
   const [name, setName] = useState(initial.name);
@@ -50,13 +60,15 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
 
   const clientErrors = useMemo(() => validateBlocks(blocks), [blocks]);
   const allErrors: Record<string, string | undefined> = { ...clientErrors, ...errors };
+  const bandSets = useBandSets();
+  const bandSet = bandSets[bandSetKeyFor(sport, mainMetric(blocks))];
   const estimate = useMemo(() => {
     try {
-      return estimateSession(blocks, { power: reference > 0 ? reference : undefined });
+      return estimateSession(blocks, { power: reference > 0 ? reference : undefined }, bandSet.bands);
     } catch {
       return null;
     }
-  }, [blocks, reference]);
+  }, [blocks, reference, bandSet]);
   const profile = useMemo(() => {
     try {
       return expandBlocks(blocks).map((s) => ({ s: s.startS, d: s.durationS, lo: s.lowPct, hi: s.highPct, ramp: s.ramp }));
@@ -197,14 +209,15 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
           )}
           {estimate && (
             <div className="mt-4">
-              <h3 className="text-sm font-medium">Minutes per level</h3>
-              <ul className="mt-2 flex flex-col gap-1 text-xs">
-                {estimate.minutesPerLevel.map((m, i) => (
+              <h3 className="text-sm font-medium">Minutes per band</h3>
+              <ul className="mt-2 flex flex-col gap-1 text-xs" data-testid="minutes-per-band">
+                {estimate.minutesPerBand.map((m, i) => (
                   <li key={i} className="grid grid-cols-[6.5rem_1fr_2.5rem] items-center gap-2">
-                    <span>
-                      {i + 1} {LEVEL_NAMES[i]}
-                    </span>
-                    <span className="h-2 rounded" style={{ width: `${(m / Math.max(1, estimate.durationS / 60)) * 100}%`, background: `var(--color-level-${i + 1})` }} />
+                    <span>{bandSet.bands[i]?.name}</span>
+                    <span
+                      className="h-2 rounded"
+                      style={{ width: `${(m / Math.max(1, estimate.durationS / 60)) * 100}%`, background: bandShade(i, bandSet.bands.length), boxShadow: bandSet.bands[i] && bandAboveThreshold(bandSet.bands[i]) ? "inset 0 0 0 1px var(--color-brick)" : undefined }}
+                    />
                     <span className="num text-right">{Math.round(m)}</span>
                   </li>
                 ))}

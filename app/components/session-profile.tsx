@@ -1,4 +1,5 @@
-import { LEVEL_TOPS_PCT } from "~/lib/training";
+import { useBandSet } from "~/components/bands-context";
+import { shadeOfPct, type Band } from "~/lib/training";
 
 export interface ProfileStep {
   s: number;
@@ -8,16 +9,11 @@ export interface ProfileStep {
   ramp: boolean;
 }
 
-const LEVEL_COLOURS = [1, 2, 3, 4, 5, 6, 7].map((n) => `var(--color-level-${n})`);
-
-export function levelColour(pct: number) {
-  const i = LEVEL_TOPS_PCT.findIndex((top) => pct <= top);
-  return LEVEL_COLOURS[i === -1 ? 6 : i];
-}
 
 /**
- * A session's step profile: width is time, height is % of threshold, colour is the single-hue intensity ramp, and
- * work above threshold gets a brick edge. Untargeted steps are drawn as a low hatched band.
+ * A session's step profile: width is time, height is % of threshold, colour is the shade of the step's intensity
+ * band on the single-hue ramp (the viewer's band set; power unless `bands` says otherwise), and work above threshold
+ * gets a brick edge. Untargeted steps are drawn as a low hatched band.
  */
 export function SessionProfile({
   steps,
@@ -25,13 +21,17 @@ export function SessionProfile({
   className = "",
   label,
   maxPct = 130,
+  bands,
 }: {
   steps: ProfileStep[];
   height?: number;
   className?: string;
   label?: string;
   maxPct?: number;
+  bands?: readonly Band[];
 }) {
+  const powerSet = useBandSet("bike:power");
+  const levelColour = (pct: number) => shadeOfPct(pct, bands ?? powerSet.bands);
   const total = steps.reduce((m, s) => Math.max(m, s.s + s.d), 0) || 1;
   const W = 300;
   const y = (pct: number) => height - (Math.min(pct, maxPct) / maxPct) * (height - 2);

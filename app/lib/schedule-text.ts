@@ -1,5 +1,5 @@
 import { formatMinutes } from "./duration";
-import { formatTarget, type TargetUnit } from "~/lib/training";
+import { bandIndexOf, bandSetKeyFor, bandShade, formatTarget, type BandSet, type BandSetKey, type Metric, type TargetUnit } from "~/lib/training";
 
 /** A scheduled step as loaders send it to the browser. */
 export interface StepView {
@@ -76,4 +76,30 @@ export function keyTarget(steps: StepView[]): string {
   const main = lines.filter((l) => l.kind !== "warmup" && l.kind !== "cooldown");
   const pick = (main.length ? main : lines).reduce<BlockLine | null>((best, l) => (!best || l.weight > best.weight ? l : best), null);
   return pick?.text ?? "";
+}
+
+export interface BlockBand {
+  blockIndex: number;
+  name: string;
+  shade: string;
+  aboveThreshold: boolean;
+}
+
+/**
+ * The intensity band of each targeted block, at the middle of its main (not recovery) target, in the band set of the
+ * block's sport and metric. Open blocks have no band.
+ */
+export function blockBands(steps: StepView[], sport: string, sets: Record<BandSetKey, BandSet>): BlockBand[] {
+  const out: BlockBand[] = [];
+  const seen = new Set<number>();
+  for (const s of [...steps].sort((a, b) => a.position - b.position)) {
+    if (seen.has(s.blockIndex) || s.part === "recovery") continue;
+    seen.add(s.blockIndex);
+    if (s.metric === null || s.lowPct === null) continue;
+    const set = sets[bandSetKeyFor(sport, s.metric as Metric)];
+    const mid = (s.lowPct + (s.highPct ?? s.lowPct)) / 2;
+    const i = bandIndexOf(mid, set.bands);
+    out.push({ blockIndex: s.blockIndex, name: set.bands[i].name, shade: bandShade(i, set.bands.length), aboveThreshold: set.bands[i].fromPct >= 100 });
+  }
+  return out;
 }

@@ -1,18 +1,22 @@
 import { Outlet } from "react-router";
 import { AppShell } from "~/components/app-shell";
+import { BandsProvider } from "~/components/bands-context";
 import { requireUser } from "~/.server/auth";
 import { env } from "~/.server/env";
+import { bandSetsFor } from "~/.server/services/bands";
 import type { Route } from "./+types/app-layout";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { user: { name: user.name, role: user.role, email: user.email }, devMail: env().fakes };
+  return { user: { name: user.name, role: user.role, email: user.email }, devMail: env().fakes, bandSets: await bandSetsFor(user) };
 }
 
 export default function AppLayout({ loaderData }: Route.ComponentProps) {
   return (
     <AppShell user={loaderData.user} devMail={loaderData.devMail}>
-      <Outlet />
+      <BandsProvider value={loaderData.bandSets}>
+        <Outlet />
+      </BandsProvider>
     </AppShell>
   );
 }

@@ -8,7 +8,7 @@ export const meta: Route.MetaFunction = () => [
   { title: "Pacewright · field tests and season plans that follow every threshold" },
   {
     name: "description",
-    content: "For endurance coaches and their athletes: field tests become thresholds and zones, season plans are written in percent of threshold, and every future target moves when a retest does.",
+    content: "For endurance coaches and their athletes: field tests become thresholds and intensity bands, season plans are written in percent of threshold, and every future target moves when a retest does.",
   },
 ];
 
@@ -56,7 +56,7 @@ export default function Home({ loaderData }: Route.ComponentProps) {
               Plans written in percent of threshold. Targets that move when the athlete does.
             </h1>
             <p className="mt-5 max-w-xl text-lg text-ink-soft">
-              Screen and test, turn results into thresholds and zones, lay out a periodized season, and let every retest
+              Screen and test, turn results into thresholds and intensity bands, lay out a periodized season, and let every retest
               rescale what is still ahead.
             </p>
             {!loaderData.home && (

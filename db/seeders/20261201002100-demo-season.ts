@@ -41,10 +41,10 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   const shelf = new Map((await Session.findAll({ where: { ownerId: coach.id } })).map((s) => [s.name, s.id]));
   const { weeks } = await loadPlan(coach.id, plan.id);
   for (const w of weeks) {
-    const hard = w.phase === "base" ? "Tempo 2 × 20" : "Threshold repeats";
+    const hard = w.phase === "base" ? "Heavy 2 × 20" : "Threshold repeats";
     const days: [number, string][] = w.recovery
       ? [[2, "Recovery spin"], [5, "Endurance 90"]]
-      : [[w.test ? 3 : 1, hard], [3, w.phase === "base" ? "Heart-rate endurance" : "Aerobic capacity 5 × 4"], [5, "Endurance 90"], [6, "Recovery spin"]];
+      : [[w.test ? 3 : 1, hard], [3, w.phase === "base" ? "Heart-rate endurance" : "Severe 5 × 4"], [5, "Endurance 90"], [6, "Recovery spin"]];
     for (const [day, name] of days) {
       const sessionId = shelf.get(name);
       if (sessionId) await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId, toWeek: w.id, toDay: day, toIndex: 99 });

@@ -6,7 +6,7 @@ const enabled = browserAvailable();
 describe.skipIf(!enabled)("training load in the browser", () => {
   const env = useApp({ beforeAll, afterAll });
 
-  it("the demo cyclist marks a session done and the week's numbers and the fitness line change; the coach sees compliance", async () => {
+  it("the demo cyclist marks a session done and the week's numbers and the weekly load bars change; the coach sees compliance", async () => {
     const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
     await signInAs(page, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
@@ -27,8 +27,11 @@ describe.skipIf(!enabled)("training load in the browser", () => {
 
     await page.goto(`${env.app.baseUrl}/athlete/load`);
     await ready(page);
-    // All fitness and fatigue lines (done and planned): a session marked done ahead of today moves the planned part.
-    const fitnessPath = () => page.locator("[data-testid=fitness-chart] path.recharts-curve").evaluateAll((els) => els.map((e) => e.getAttribute("d")).join("|"));
+    // The weekly bars (done filled, planned outlined): marking a session done adds to its week's done bar.
+    const fitnessPath = () => page.locator("[data-testid=weekly-load-chart] .recharts-bar-rectangle path").evaluateAll((els) => els.map((e) => e.getAttribute("d")).join("|"));
+    // No three-line trend chart with a dashed projection any more.
+    expect(await page.locator("[data-testid=fitness-chart]").count()).toBe(0);
+    await page.getByTestId("readiness-note").waitFor();
     await expect.poll(fitnessPath).toBeTruthy();
     const pathBefore = await fitnessPath();
     const weekOf = await page.evaluate((date) => {

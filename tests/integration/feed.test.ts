@@ -84,10 +84,10 @@ describe("calendar feed", () => {
     const allDay = events.find((e) => (e.getFirstPropertyValue("dtstart") as ICAL.Time).isDate)!;
     expect(allDay).toBeTruthy();
     expect(text).toMatch(/DTSTART;VALUE=DATE:\d{8}/);
-    // Description lists every block with %, level and a link; athlete name newline is never a raw line break.
+    // Description lists every block with %, its intensity band and a link; athlete name newline is never a raw line break.
     const desc = String(timed.getFirstPropertyValue("description"));
     expect(desc).toContain("4 × 8 min at 238–248 W");
-    expect(desc).toMatch(/95–99 % of threshold, level 4 threshold/);
+    expect(desc).toMatch(/95–99 % of threshold, Ridge band/);
     expect(desc).toContain(`${BASE}/athlete/sessions/`);
     expect(String(comp.getFirstPropertyValue("x-wr-calname"))).toBe(`Pacewright · ${athlete.name.replace("\n", " ")}`);
   });

@@ -19,7 +19,7 @@ describe("the training engine stays pure and isomorphic", () => {
     for (const name of [
       "thresholdFromTwentyMinute", "thresholdFromEightMinute", "thresholdFromRamp", "criticalPower", "timeToExhaustion",
       "thresholdHeartRate", "criticalSwimSpeed", "runningIndex", "raceTimeForIndex", "thresholdPaceForIndex",
-      "powerLevels", "heartRateZones", "paceZones", "zoneOf", "resolveTarget", "parseActivity", "meanMaximal",
+      "defaultBandSet", "bandOf", "bandIndexOf", "bandShade", "validateBandSet", "minutesPerBand", "resolveTarget", "parseActivity", "meanMaximal",
       "powerCurve", "bestEffort", "detectRampTest", "pacingSplits", "heartRateDrift", "workKj", "effortLoad",
       "trimpBanister", "trimpEdwards", "monotonyStrain", "fitnessFatigue", "acuteChronicRatio", "estimateSession", "seasonSkeleton",
     ]) {

@@ -1,6 +1,6 @@
 import { sampleStandardDeviation, standardDeviation, mean } from "simple-statistics";
 import { describe, expect, it } from "vitest";
-import { acuteChronicRatio, effortLoad, fitnessFatigue, monotonyStrain, ratioBand, trimpBanister, trimpEdwards, TrainingInputError } from "~/lib/training";
+import { acuteChronicRatio, usualWeekRange, effortLoad, fitnessFatigue, monotonyStrain, ratioBand, trimpBanister, trimpEdwards, TrainingInputError } from "~/lib/training";
 
 describe("effort load (session-RPE method, Foster et al. 2001)", () => {
   it("effort 7 for 60 min → 420", () => expect(effortLoad(7, 60)).toBe(420));
@@ -70,13 +70,41 @@ describe("acute:chronic ratio", () => {
     expect(r[27]).toBeCloseTo(1, 12);
     expect(r[34]).toBeCloseTo(100 / ((21 * 50 + 7 * 100) / 28), 12);
   });
-  it("EWMA (Williams et al. 2017): λ = 2/(N + 1)", () => {
-    const r = acuteChronicRatio([100, 0], { method: "ewma" });
-    const a1 = 0.25 * 100;
-    const c1 = (2 / 29) * 100;
-    expect(r[0]).toBeCloseTo(a1 / c1, 12);
-    expect(r[1]).toBeCloseTo((0.75 * a1) / ((1 - 2 / 29) * c1), 12);
+  it("EWMA (Williams et al. 2017): EWMA_t = λ·load_t + (1 − λ)·EWMA_(t−1), λ = 2/(N + 1)", () => {
+    const loads = [...new Array(35).fill(50), ...new Array(7).fill(100)];
+    const r = acuteChronicRatio(loads, { method: "ewma" });
+    // Reference recursion written out here; both averages start from the first 28 days' mean (common practice).
+    let a = 50;
+    let c = 50;
+    const ref = loads.map((l) => {
+      a = 0.25 * l + 0.75 * a;
+      c = (2 / 29) * l + (27 / 29) * c;
+      return a / c;
+    });
+    expect(r.slice(0, 27).every((v) => v === null)).toBe(true);
+    for (let i = 27; i < loads.length; i++) expect(r[i]).toBeCloseTo(ref[i], 12);
+    expect(r[41]!).toBeGreaterThan(1.3);
     expect(acuteChronicRatio([0, 0], { method: "ewma" })).toEqual([null, null]);
+  });
+  it("start-up: with less than 28 days of history there is no ratio, never a spike from empty averages", () => {
+    // 84 unknown days, then a first week of training: the old formula reported a ratio far above 1.5 here.
+    const loads = [...new Array(84).fill(0), ...new Array(7).fill(100)];
+    for (const method of ["rolling", "ewma"] as const) {
+      const r = acuteChronicRatio(loads, { method });
+      expect(r.every((v) => v === null)).toBe(true);
+    }
+    const later = [...new Array(84).fill(0), ...new Array(28).fill(100)];
+    expect(acuteChronicRatio(later, { method: "ewma" }).at(-1)).toBeCloseTo(1, 12);
+    expect(acuteChronicRatio(later).at(-1)).toBeCloseTo(1, 12);
+    // An explicit start of history (e.g. the first recorded session) counts rest days after it as real zeros.
+    const withRest = [100, ...new Array(27).fill(0)];
+    expect(acuteChronicRatio(withRest, { historyStart: 0 }).at(-1)).toBe(0);
+  });
+  it("usual week range = 28-day mean daily load × 7 × [0.8, 1.3] (Gabbett 2016), none before 28 days of history", () => {
+    const loads = new Array(35).fill(60);
+    expect(usualWeekRange(loads, 28)).toEqual({ low: 420 * 0.8, high: 420 * 1.3, chronic: 420 });
+    expect(usualWeekRange(loads, 27)).toBeNull();
+    expect(usualWeekRange([...new Array(10).fill(0), ...new Array(30).fill(60)], 35)).toBeNull();
   });
   it("bands are guidance: <0.8 low, ≤1.3 usual, ≤1.5 raised, above a spike", () => {
     expect([0.5, 1, 1.4, 1.9].map(ratioBand)).toEqual(["low", "usual", "raised", "spike"]);

@@ -30,14 +30,14 @@ describe("blocks", () => {
 
 describe("estimateSession", () => {
   const est = estimateSession(threshold4x8, { power: 250 });
-  it("minutes per level plus untargeted minutes add up to the duration", () => {
-    const total = est.minutesPerLevel.reduce((s, m) => s + m, 0) + est.openMinutes;
+  it("minutes per band plus untargeted minutes add up to the duration", () => {
+    const total = est.minutesPerBand.reduce((s, m) => s + m, 0) + est.openMinutes;
     expect(est.durationS).toBe(900 + 4 * 720 + 600);
     expect(total * 60).toBeCloseTo(est.durationS, 6);
   });
-  it("puts the warm-up at its midpoint (60 %, level 2), the repeats at 97 % (level 4)", () => {
-    expect(est.minutesPerLevel[3]).toBeCloseTo(32, 9);
-    expect(est.minutesPerLevel[1]).toBeGreaterThanOrEqual(15);
+  it("puts the warm-up at its midpoint (60 %, the default Steady band), the repeats at 97 % (Ridge)", () => {
+    expect(est.minutesPerBand[3]).toBeCloseTo(32, 9);
+    expect(est.minutesPerBand[1]).toBeGreaterThanOrEqual(15);
     expect(est.openMinutes).toBeCloseTo(5, 9);
   });
   it("work counts only power-targeted steps: Σ pct × threshold × seconds", () => {

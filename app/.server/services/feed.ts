@@ -9,8 +9,9 @@ import { CoachAthlete, FeedToken, ScheduledSession, User } from "../models";
 import { hashToken, looksLikeToken } from "../tokens";
 import { addDays, todayIn } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
-import { blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
-import { levelOfPct } from "~/lib/training";
+import { blockBands, blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
+import type { BandSet, BandSetKey } from "~/lib/training";
+import { bandOwnerId, bandSetsFor, bandSetsStamp } from "./bands";
 
 export const FEED_WEEKS_BACK = 8;
 export const FEED_DAYS_AHEAD = 365;
@@ -98,12 +99,13 @@ async function stepsFor(sessionIds: number[]) {
   return map;
 }
 
-const LEVEL_NAMES = ["recovery", "endurance", "tempo", "threshold", "aerobic capacity", "anaerobic", "sprint"];
-
-function description(s: { name: string; testProtocol: string | null; notes: string }, steps: StepView[], link: string) {
+/** Each block's line with its % of threshold and its intensity band, in the athlete's (their coach's) band set. */
+function description(s: { name: string; sport: string; testProtocol: string | null; notes: string }, steps: StepView[], link: string, sets: Record<BandSetKey, BandSet>) {
+  const bands = new Map(blockBands(steps, s.sport, sets).map((b) => [b.blockIndex, b.name]));
   const lines = blockLines(steps).map((l) => {
     const first = steps.find((x) => x.blockIndex === l.blockIndex && x.part !== "recovery");
-    const pct = first?.lowPct != null ? ` (${first.lowPct}${first.highPct != null && first.highPct !== first.lowPct ? `–${first.highPct}` : ""} % of threshold, level ${levelOfPct(((first.lowPct ?? 0) + (first.highPct ?? first.lowPct ?? 0)) / 2) + 1} ${LEVEL_NAMES[levelOfPct(((first.lowPct ?? 0) + (first.highPct ?? first.lowPct ?? 0)) / 2)]})` : "";
+    const band = bands.get(l.blockIndex);
+    const pct = first?.lowPct != null ? ` (${first.lowPct}${first.highPct != null && first.highPct !== first.lowPct ? `–${first.highPct}` : ""} % of threshold${band ? `, ${band} band` : ""})` : "";
     return `• ${l.text}${pct}${l.needsTest ? " — needs a field test" : ""}`;
   });
   const parts = [lines.join("\n")];
@@ -128,6 +130,7 @@ export async function buildFeed(owner: User, now = new Date()) {
   const today = todayIn(owner.timezone, now);
   const sessions = await sessionsFor(athletes.map((a) => a.id), addDays(today, -FEED_WEEKS_BACK * 7), addDays(today, FEED_DAYS_AHEAD), { keyOnly: isCoach });
   const steps = await stepsFor(sessions.map((s) => s.id));
+  const bandSets = new Map(await Promise.all(athletes.map(async (a) => [a.id, await bandSetsFor(a)] as const)));
   const cal = ical({
     name: oneLine(isCoach ? `Pacewright · ${owner.name}'s athletes` : `Pacewright · ${owner.name}`),
     description: isCoach ? "Field tests and key sessions of your athletes" : "Your training plan with your own targets",
@@ -149,7 +152,7 @@ export async function buildFeed(owner: User, now = new Date()) {
     const base = {
       id: `session-${s.id}@pacewright`,
       summary,
-      description: description({ name: s.name, testProtocol: s.testProtocol, notes: s.notes }, mySteps, link),
+      description: description({ name: s.name, sport: s.sport, testProtocol: s.testProtocol, notes: s.notes }, mySteps, link, bandSets.get(athlete.id)!),
       sequence: s.feedSequence,
       lastModified: modified,
       stamp: modified,
@@ -206,7 +209,9 @@ export async function feedFingerprint(owner: User, now = new Date()) {
         { replacements: { ids, from: addDays(today, -FEED_WEEKS_BACK * 7), to: addDays(today, FEED_DAYS_AHEAD) }, type: QueryTypes.SELECT },
       )
     : [{ n: 0, m: null, q: 0, u: null }];
-  return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, row.m, row.q, row.u].join("|");
+  // Band edits change event descriptions, so the band sets' stamp is part of the fingerprint.
+  const bands = await bandSetsStamp(await bandOwnerId(owner));
+  return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, row.m, row.q, row.u, bands].join("|");
 }
 
 /** The feed body for its fingerprint, rebuilt only when the fingerprint moved on. */

@@ -11,6 +11,7 @@ import { isIsoDate, todayIn } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { bestEffort, pacingSplits, thresholdHeartRate, TrainingInputError } from "~/lib/training";
 import { formatThreshold } from "~/lib/zone-table";
+import { thresholdBandsText } from "./bands";
 
 export const UNDO_DAYS = 14;
 
@@ -190,6 +191,7 @@ export async function saveTest(
     );
     await test.update({ thresholdId: threshold.id }, { transaction });
     const examples = report.examples.map((e) => `${e.date} ${e.name}: ${e.before} → ${e.after}`).join("\n") || "No planned sessions needed a change.";
+    const bands = await thresholdBandsText(athlete, result.sport, result.metric, value, result.unit, transaction);
     for (const person of [athlete, ...coaches]) {
       await queueEmail(
         {
@@ -206,6 +208,7 @@ export async function saveTest(
             sessionsChanged: report.sessionsChanged,
             blocksChanged: report.blocksChanged,
             examples,
+            bands,
             link: `${env().appUrl}${person.id === athlete.id ? "/athlete/calendar" : `/coach/athletes/${athlete.id}/calendar`}`,
           },
         },

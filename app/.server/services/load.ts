@@ -1,19 +1,23 @@
 import { Op, QueryTypes } from "sequelize";
 import { db, writeTransaction } from "../db";
 import { ScheduledBlock, ScheduledSession, Threshold, Upload, type User } from "../models";
-import { loadActivity } from "./uploads";
+import { bandSetsFor } from "./bands";
+import { activityHistograms, loadActivity, type UploadSummary } from "./uploads";
 import { addDays, daysBetween, mondayOf, todayIn } from "~/lib/dates";
 import {
   acuteChronicRatio,
   effortLoad,
   fitnessFatigue,
-  minutesInZones,
+  minutesPerBand,
   monotonyStrain,
-  powerLevels,
+  bandShade,
+  bandAboveThreshold,
   ratioBand,
+  usualWeekRange,
   timeInTarget,
   trimpBanister,
   workKj,
+  type BandSet,
 } from "~/lib/training";
 
 export class LoadError extends Error {
@@ -28,7 +32,7 @@ export class LoadError extends Error {
 
 /**
  * Attaches a ride file to the planned session of its day (same sport, still planned), or keeps it as an unplanned
- * ride. Work, minutes per power level and Banister TRIMP (from the athlete's resting and maximum heart rate) are
+ * ride. Work, minutes per power band and Banister TRIMP (from the athlete's resting and maximum heart rate) are
  * stored on the session.
  */
 export async function attachRide(athlete: User, uploadId: number, date: string, effortScore: number | null) {
@@ -39,7 +43,10 @@ export async function attachRide(athlete: User, uploadId: number, date: string, 
   const minutes = samples.length / 60;
   const hasPower = activity.meta.channels.includes("power");
   const power = await Threshold.findOne({ where: { athleteId: athlete.id, sport: "bike", metric: "power", effectiveFrom: { [Op.lte]: date } }, order: [["effectiveFrom", "DESC"]] });
-  const zones = hasPower && power ? minutesInZones(samples.map((s) => s.power ?? null), powerLevels(power.value).zones.slice(0, -1).map((z) => z.hi!)) : null;
+  // Kept on the session as a record of the bands at the time; pages recompute time in band from the file's histogram.
+  const powerSet = (await bandSetsFor(athlete))["bike:power"];
+  const hist = (upload.summary as Partial<UploadSummary>).histograms ?? activityHistograms(activity);
+  const zones = hasPower && power && hist.power ? minutesPerBand(hist.power, power.value, powerSet) : null;
   const hr = samples.map((s) => s.hr).filter((v): v is number => typeof v === "number");
   const trimp =
     hr.length > 60 && athlete.restingHr && athlete.maxHr
@@ -73,9 +80,54 @@ interface DayRow {
   planned_duration_s: number;
   trimp: number | null;
   work_kj: number | null;
-  zone_minutes: string | null;
+  test_protocol: string | null;
   targeted_s: number | null;
   in_target_s: number | null;
+}
+
+/** The date a ride file belongs to: its session's day when attached, else the day it was ridden where the athlete lives. */
+function rideDate(upload: Upload, attached: Map<number, string>, timeZone: string) {
+  const onSession = attached.get(upload.id);
+  if (onSession) return onSession;
+  const start = (upload.summary as Partial<UploadSummary>).startTime;
+  const at = start && Number.isFinite(Date.parse(start)) ? new Date(start) : upload.createdAt;
+  return todayIn(timeZone, at);
+}
+
+/**
+ * Minutes per power band for each day from the athlete's ride files, attached to a session or not, classified with
+ * the power threshold in effect on the ride's day and the athlete's band set. Files stored before histograms were
+ * kept are read once and their summary completed.
+ */
+export async function rideBandMinutes(athlete: User, from: string, to: string, bands: BandSet) {
+  const lo = new Date(Date.parse(`${addDays(from, -2)}T00:00:00Z`));
+  const hi = new Date(Date.parse(`${addDays(to, 2)}T23:59:59Z`));
+  const sessions = await ScheduledSession.findAll({ where: { athleteId: athlete.id, uploadId: { [Op.ne]: null } }, attributes: ["uploadId", "date"] });
+  const attached = new Map(sessions.map((x) => [x.uploadId!, x.date]));
+  const uploads = await Upload.findAll({ where: { athleteId: athlete.id, [Op.or]: [{ createdAt: { [Op.between]: [lo, hi] } }, { id: { [Op.in]: [...attached.keys()] } }] } });
+  const thresholds = await Threshold.findAll({ where: { athleteId: athlete.id, sport: "bike", metric: "power" }, order: [["effectiveFrom", "ASC"], ["id", "ASC"]] });
+  const byDay = new Map<string, number[]>();
+  for (const u of uploads) {
+    const date = rideDate(u, attached, athlete.timezone);
+    if (date < from || date > to) continue;
+    const threshold = thresholds.filter((t) => t.effectiveFrom <= date).at(-1);
+    if (!threshold) continue;
+    let summary = u.summary as Partial<UploadSummary>;
+    if (!summary.histograms) {
+      try {
+        summary = { ...summary, histograms: activityHistograms(await loadActivity(u)) };
+        await writeTransaction((transaction) => u.update({ summary }, { transaction }));
+      } catch {
+        continue;
+      }
+    }
+    if (!summary.histograms?.power) continue;
+    const minutes = minutesPerBand(summary.histograms.power, threshold.value, bands);
+    const day = byDay.get(date) ?? new Array(bands.bands.length).fill(0);
+    minutes.forEach((m, k) => (day[k] += m));
+    byDay.set(date, day);
+  }
+  return byDay;
 }
 
 /**
@@ -88,12 +140,18 @@ export async function loadSeries(athlete: User, from: string, to: string) {
   // Fitness needs history: start the model well before the window (six time constants of fatigue, one of fitness).
   const warmFrom = addDays(from, -84);
   const rows = await db().query<DayRow>(
-    `SELECT date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, zone_minutes, targeted_s, in_target_s
+    `SELECT date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, test_protocol, targeted_s, in_target_s
      FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled'`,
     { replacements: [athlete.id, warmFrom, to], type: QueryTypes.SELECT },
   );
   const n = daysBetween(warmFrom, to) + 1;
-  const days = Array.from({ length: n }, (_, i) => ({ date: addDays(warmFrom, i), effortLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, targeted: 0, inTarget: 0, zones: new Array(7).fill(0) as number[] }));
+  const powerBands = (await bandSetsFor(athlete))["bike:power"];
+  const nb = powerBands.bands.length;
+  const rides = await rideBandMinutes(athlete, mondayOf(from), to, powerBands);
+  const days = Array.from({ length: n }, (_, i) => {
+    const date = addDays(warmFrom, i);
+    return { date, effortLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, targeted: 0, inTarget: 0, bandMinutes: rides.get(date) ?? (new Array(nb).fill(0) as number[]) };
+  });
   for (const r of rows) {
     const d = days[daysBetween(warmFrom, r.date)];
     if (!d) continue;
@@ -114,7 +172,6 @@ export async function loadSeries(athlete: User, from: string, to: string) {
       d.targeted += r.targeted_s ?? 0;
       d.inTarget += r.in_target_s ?? 0;
       d.workKj += r.work_kj ?? 0;
-      if (r.zone_minutes) (JSON.parse(r.zone_minutes) as number[]).forEach((m, k) => (d.zones[k] += m));
     } else if (r.status === "planned") {
       d.plannedLoad += r.planned_load;
     }
@@ -122,8 +179,11 @@ export async function loadSeries(athlete: User, from: string, to: string) {
   // Past days count what was done; future days count what is planned.
   const modelLoads = days.map((d) => (d.date <= today ? d.effortLoad : d.plannedLoad));
   const ff = fitnessFatigue(modelLoads);
-  const rolling = acuteChronicRatio(modelLoads);
-  const ewma = acuteChronicRatio(modelLoads, { method: "ewma" });
+  // History begins with the first recorded session: earlier days are unknown, not rest (see acuteChronicRatio).
+  const firstRecord = rows.length ? daysBetween(warmFrom, rows.reduce((m, r) => (r.date < m ? r.date : m), rows[0].date)) : -1;
+  const historyStart = Math.max(0, firstRecord);
+  const rolling = acuteChronicRatio(modelLoads, { historyStart: firstRecord === -1 ? undefined : historyStart });
+  const ewma = acuteChronicRatio(modelLoads, { method: "ewma", historyStart: firstRecord === -1 ? undefined : historyStart });
   const daily = days
     .map((d, i) => ({
       date: d.date,
@@ -135,15 +195,19 @@ export async function loadSeries(athlete: User, from: string, to: string) {
       fitness: round(ff[i].fitness),
       fatigue: round(ff[i].fatigue),
       balance: round(ff[i].balance),
-      acwrRolling: rolling[i] === null ? null : round(rolling[i]!, 2),
-      acwrEwma: ewma[i] === null ? null : round(ewma[i]!, 2),
+      // The ratio describes load already carried; days ahead have none.
+      acwrRolling: rolling[i] === null || d.date > today ? null : round(rolling[i]!, 2),
+      acwrEwma: ewma[i] === null || d.date > today ? null : round(ewma[i]!, 2),
+      bandMinutes: d.bandMinutes.map((m) => round(m)),
     }))
     .filter((d) => d.date >= from);
 
-  const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; zones: number[]; loads: number[] }>();
+  const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; bandMinutes: number[]; loads: number[]; usual: { low: number; high: number } | null }>();
   for (const d of days.filter((x) => x.date >= mondayOf(from))) {
     const w = mondayOf(d.date);
-    const e = weeks.get(w) ?? { week: w, plannedLoad: 0, doneLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, zones: new Array(7).fill(0) as number[], loads: [] as number[] };
+    // Weeks ahead are measured against the usual range as of today: only days already lived count as history.
+    const usual = firstRecord === -1 ? null : usualWeekRange(modelLoads, Math.min(daysBetween(warmFrom, w), daysBetween(warmFrom, today) + 1), { historyStart });
+    const e = weeks.get(w) ?? { week: w, plannedLoad: 0, doneLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, bandMinutes: new Array(nb).fill(0) as number[], loads: [] as number[], usual: usual && { low: round(usual.low), high: round(usual.high) } };
     e.doneLoad += d.effortLoad;
     e.plannedLoad += d.plannedAll;
     e.plannedSessions += d.planned;
@@ -152,7 +216,7 @@ export async function loadSeries(athlete: User, from: string, to: string) {
     e.doneMinutes += d.doneMinutes;
     e.targeted += d.targeted;
     e.inTarget += d.inTarget;
-    d.zones.forEach((m, k) => (e.zones[k] += m));
+    d.bandMinutes.forEach((m, k) => (e.bandMinutes[k] += m));
     e.loads.push(d.date <= today ? d.effortLoad : d.plannedLoad);
     weeks.set(w, e);
   }
@@ -164,7 +228,7 @@ export async function loadSeries(athlete: User, from: string, to: string) {
       doneLoad: round(w.doneLoad),
       plannedMinutes: Math.round(w.plannedMinutes),
       doneMinutes: Math.round(w.doneMinutes),
-      zones: w.zones.map((m) => round(m)),
+      bandMinutes: w.bandMinutes.map((m) => round(m)),
       compliance: w.plannedSessions ? round(w.doneSessions / w.plannedSessions, 2) : null,
       inTargetPct: targeted ? Math.round((inTarget / targeted) * 100) : null,
       monotony: ms?.monotony === null || !ms ? null : round(ms.monotony!, 2),
@@ -172,7 +236,58 @@ export async function loadSeries(athlete: User, from: string, to: string) {
     };
   });
   const latest = daily.filter((d) => !d.future).at(-1);
-  return { today, from, to, daily, weekly, latestRatio: latest?.acwrRolling ?? null, band: latest?.acwrRolling ? ratioBand(latest.acwrRolling) : null };
+  const historyDays = firstRecord === -1 ? 0 : Math.max(0, daysBetween(addDays(warmFrom, historyStart), today) + 1);
+  return {
+    today,
+    from,
+    to,
+    daily,
+    weekly,
+    bands: powerBands.bands.map((b, i) => ({ name: b.name, shade: bandShade(i, nb), aboveThreshold: bandAboveThreshold(b) })),
+    historyDays,
+    latestRatio: latest?.acwrRolling ?? null,
+    latestEwma: latest?.acwrEwma ?? null,
+    band: latest?.acwrRolling ? ratioBand(latest.acwrRolling) : null,
+    readiness: readinessNote({ today, daily, weekly, historyDays, ratio: latest?.acwrRolling ?? null, keyDays: rows.filter((r) => r.test_protocol && r.status === "planned" && r.date > today).map((r) => r.date).sort() }),
+  };
+}
+
+/**
+ * A short plain-words note for the questions "is the load rising safely?" and "will the athlete be fresh for the
+ * next key day?". Ratio bands follow Gabbett (2016) as guidance only; freshness compares the 7-day trend with the
+ * 42-day trend of the impulse-response model (Banister et al. 1975). The wording and the 10 %-of-fitness margin
+ * for "about even" are ours (common practice, no single source).
+ */
+function readinessNote(input: {
+  today: string;
+  daily: { date: string; fitness: number; fatigue: number; balance: number }[];
+  weekly: { week: string; doneLoad: number; plannedLoad: number; usual: { low: number; high: number } | null }[];
+  historyDays: number;
+  ratio: number | null;
+  keyDays: string[];
+}): string[] {
+  const notes: string[] = [];
+  if (input.historyDays < 28) {
+    notes.push(`Not enough history yet: the usual range needs 28 days of recorded sessions (${input.historyDays} so far).`);
+  } else if (input.ratio !== null) {
+    const band = ratioBand(input.ratio);
+    notes.push(
+      band === "spike"
+        ? "The last seven days are well above the usual load of the last four weeks: ease off before adding more."
+        : band === "raised"
+          ? "The last seven days are above the usual load: hold the load here for a few days."
+          : band === "low"
+            ? "The last seven days are lighter than usual: fine for recovery, but fitness will drift down if it lasts."
+            : "The last seven days are within the usual load of the last four weeks: the rise is gentle.",
+    );
+  }
+  const now = input.daily.find((d) => d.date === input.today);
+  const freshness = (d: { fitness: number; balance: number }) => (d.balance > 0.1 * d.fitness ? "fresh" : d.balance < -0.1 * d.fitness ? "carrying fatigue" : "neither fresh nor tired");
+  if (now && now.fitness > 0) notes.push(`Today the athlete is ${freshness(now)} (the 7-day trend against the 42-day trend).`);
+  const key = input.keyDays.find((d) => d <= addDays(input.today, 21));
+  const onKey = key ? input.daily.find((d) => d.date === key) : undefined;
+  if (key && onKey && onKey.fitness > 0) notes.push(`Next field test ${key}: as planned, the athlete would arrive ${freshness(onKey)}.`);
+  return notes;
 }
 
 const round = (x: number, digits = 1) => Math.round(x * 10 ** digits) / 10 ** digits;

@@ -3,7 +3,7 @@ import { MaxFileSizeExceededError, MaxFilesExceededError, MaxTotalSizeExceededEr
 import { writeTransaction } from "../db";
 import { Upload, type User } from "../models";
 import { fileStorage } from "../storage";
-import { bestEffort, detectRampTest, parseActivity, powerCurve, TrainingInputError, workKj, type Activity } from "~/lib/training";
+import { bestEffort, detectRampTest, parseActivity, powerCurve, TrainingInputError, valueHistogram, workKj, type Activity } from "~/lib/training";
 
 export const MAX_UPLOAD_BYTES = 25 * 1024 * 1024;
 export const ALLOWED = ["csv", "gpx", "fit"] as const;
@@ -49,6 +49,16 @@ function summarize(activity: Activity) {
     efforts,
     ramp,
     curve: hasPower ? powerCurve(samples) : [],
+    histograms: activityHistograms(activity),
+  };
+}
+
+/** Seconds per whole watt and per whole bpm: what time in band is computed from, for any threshold or band set. */
+export function activityHistograms(activity: Activity) {
+  const { samples, meta } = activity;
+  return {
+    power: meta.channels.includes("power") ? valueHistogram(samples.map((s) => s.power)) : null,
+    hr: samples.some((s) => typeof s.hr === "number") ? valueHistogram(samples.map((s) => s.hr)) : null,
   };
 }
 export type UploadSummary = ReturnType<typeof summarize>;

@@ -25,7 +25,8 @@ import { addDays, formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { DAY_LONG, DAY_NAMES, PHASE_LABEL } from "~/lib/plans";
 import { describeBlock } from "~/lib/sessions";
-import { estimateSession, expandBlocks, type Block } from "~/lib/training";
+import { useBandSet } from "~/components/bands-context";
+import { bandShade, estimateSession, expandBlocks, type Band, type Block } from "~/lib/training";
 
 export interface BoardItem {
   id: number;
@@ -92,9 +93,9 @@ function profileOf(blocks: Block[]) {
     return [];
   }
 }
-function estimateOf(blocks: Block[]) {
+function estimateOf(blocks: Block[], bands?: readonly Band[]) {
   try {
-    return estimateSession(blocks);
+    return estimateSession(blocks, {}, bands);
   } catch {
     return null;
   }
@@ -241,11 +242,12 @@ export function PlanBoard({ data }: { data: BoardData }) {
     }
   };
 
-  const estimates = useMemo(() => new Map(items.map((i) => [i.id, estimateOf(i.blocks)])), [items]);
+  const powerBands = useBandSet("bike:power").bands;
+  const estimates = useMemo(() => new Map(items.map((i) => [i.id, estimateOf(i.blocks, powerBands)])), [items, powerBands]);
   const weekStats = useMemo(() => {
     const stats = weeks.map((w) => {
       const mine = items.filter((i) => i.weekId === w.id);
-      const levels = new Array(7).fill(0);
+      const levels = new Array(powerBands.length).fill(0);
       let load = 0;
       let seconds = 0;
       for (const i of mine) {
@@ -253,7 +255,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
         seconds += i.durationS;
         if (e) {
           load += e.plannedEffortLoad;
-          e.minutesPerLevel.forEach((m, k) => (levels[k] += m));
+          e.minutesPerBand.forEach((m, k) => (levels[k] += m));
         }
       }
       return { week: w, load, seconds, levels };
@@ -407,8 +409,8 @@ function WeekColumn(props: {
         <div className="mt-1 h-1.5 rounded bg-paper-deep" title={`Planned load ${Math.round(props.load)}`}>
           <div className={`h-1.5 rounded ${props.warn ? "bg-brick" : "bg-teal"}`} style={{ width: `${(props.load / props.maxLoad) * 100}%` }} />
         </div>
-        <div className="mt-1 flex h-1.5 overflow-hidden rounded" aria-label="Minutes per level">
-          {props.levels.map((m, i) => (m > 0 ? <span key={i} style={{ width: `${(m / totalLevels) * 100}%`, background: `var(--color-level-${i + 1})` }} /> : null))}
+        <div className="mt-1 flex h-1.5 overflow-hidden rounded" aria-label="Minutes per band">
+          {props.levels.map((m, i) => (m > 0 ? <span key={i} style={{ width: `${(m / totalLevels) * 100}%`, background: bandShade(i, props.levels.length) }} /> : null))}
         </div>
         {props.warn && (
           <p role="note" className="mt-1 font-medium text-brick">

@@ -9,7 +9,7 @@ export function AttachRide() {
   return (
     <Card className="mt-6 max-w-xl">
       <h2 className="font-semibold">Or attach the ride file</h2>
-      <p className="mt-1 text-sm text-ink-soft">Work, minutes per level and heart-rate load come from the file.</p>
+      <p className="mt-1 text-sm text-ink-soft">Work, minutes per band and heart-rate load come from the file.</p>
       {fetcher.data && (
         <div className="mt-2">
           <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>

@@ -7,9 +7,9 @@ import { formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { EFFORT_WORDS } from "~/lib/effort";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
-import { blockLines, type StepView } from "~/lib/schedule-text";
-import { ZoneTable } from "~/components/zone-table";
-import type { ZoneTableData } from "~/lib/zone-table";
+import { blockLines, type BlockBand, type StepView } from "~/lib/schedule-text";
+import { BandTable } from "~/components/band-table";
+import type { BandTableData } from "~/lib/band-table";
 
 export interface SessionDetailData {
   session: {
@@ -29,11 +29,14 @@ export interface SessionDetailData {
     inTargetS?: number | null;
   };
   steps: StepView[];
-  zones: ZoneTableData[];
+  zones: BandTableData[];
+  bandsByBlock?: BlockBand[];
+  timeInBand?: { metric: string; name: string; shade: string; minutes: number }[] | null;
 }
 
 export function SessionDetail({ data, canComplete }: { data: SessionDetailData; canComplete: boolean }) {
   const { session: s, steps, zones } = data;
+  const bandOfBlock = new Map((data.bandsByBlock ?? []).map((b) => [b.blockIndex, b]));
   const lines = blockLines(steps);
   const profile = steps.map((st, i) => ({ s: steps.slice(0, i).reduce((t, x) => t + x.durationS, 0), d: st.durationS, lo: st.lowPct, hi: st.highPct, ramp: st.ramp }));
   const protocol = s.testProtocol ? PROTOCOLS[s.testProtocol as ProtocolKey] : null;
@@ -50,6 +53,7 @@ export function SessionDetail({ data, canComplete }: { data: SessionDetailData; 
             {lines.map((l) => (
               <li key={l.blockIndex} className="flex flex-wrap items-baseline gap-2">
                 <span className="font-medium">{l.text}</span>
+                {bandOfBlock.get(l.blockIndex) && <BandChip band={bandOfBlock.get(l.blockIndex)!} />}
                 {l.needsTest && <span className="rounded bg-brick/10 px-1.5 text-xs text-brick">needs a field test: shown in % of threshold</span>}
               </li>
             ))}
@@ -70,14 +74,43 @@ export function SessionDetail({ data, canComplete }: { data: SessionDetailData; 
           </Card>
         )}
         {zones.map((z) => (
-          <ZoneTable key={z.key} title={`Your ${z.metric === "power" ? "power levels" : z.metric === "heart_rate" ? "heart-rate zones" : "pace zones"}`} table={z} />
+          <BandTable key={z.key} title={`Your ${z.title.charAt(0).toLowerCase()}${z.title.slice(1)}`} table={z} />
         ))}
       </div>
       <aside className="flex flex-col gap-4">
         {s.status === "done" && <PlannedVsActual session={s} />}
+        {data.timeInBand && <TimeInBand rows={data.timeInBand} />}
         {canComplete ? <CompleteForm session={s} /> : <ResultCard session={s} />}
       </aside>
     </div>
+  );
+}
+
+function BandChip({ band }: { band: BlockBand }) {
+  return (
+    <span className="inline-flex items-center gap-1 rounded border border-line px-1.5 text-xs" data-testid="block-band">
+      <span className="inline-block h-2.5 w-2.5 rounded-sm" style={{ background: band.shade, boxShadow: band.aboveThreshold ? "inset 0 0 0 1.5px var(--color-brick)" : undefined }} aria-hidden />
+      {band.name}
+    </span>
+  );
+}
+
+function TimeInBand({ rows }: { rows: { metric: string; name: string; shade: string; minutes: number }[] }) {
+  const total = rows.reduce((a, r) => a + r.minutes, 0) || 1;
+  return (
+    <Card>
+      <h2 className="font-semibold">Time in band</h2>
+      <p className="text-xs text-ink-soft">From the attached ride file: {rows[0]?.metric === "power" ? "power" : "heart rate"} against your threshold on the day.</p>
+      <ul className="num mt-2 flex flex-col gap-1 text-sm" data-testid="time-in-band">
+        {rows.map((r) => (
+          <li key={r.name} className="grid grid-cols-[7rem_1fr_3.5rem] items-center gap-2">
+            <span>{r.name}</span>
+            <span className="h-2 rounded" style={{ width: `${(r.minutes / total) * 100}%`, background: r.shade, minWidth: r.minutes > 0 ? 2 : 0 }} />
+            <span className="text-right">{formatMinutes(r.minutes * 60)}</span>
+          </li>
+        ))}
+      </ul>
+    </Card>
   );
 }
 
@@ -99,7 +132,7 @@ function PlannedVsActual({ session: s }: { session: SessionDetailData["session"]
           </>
         ) : null}
       </dl>
-      {!s.targetedS && <p className="mt-2 text-xs text-ink-soft">Attach the ride file to see time in target.</p>}
+      {!s.targetedS && <p className="mt-2 text-xs text-ink-soft">Attach the ride file to see time in target and time in band.</p>}
     </Card>
   );
 }

@@ -197,12 +197,15 @@ export function heartRateDrift(series: Series, startS = 0, windowS = series.leng
   return { firstHr, secondHr, driftPct: ((secondHr - firstHr) / firstHr) * 100, basis: "hr" };
 }
 
-/** Minutes spent in each zone for a 1 Hz channel, given zone tops in absolute units (the last zone open). */
+/**
+ * Minutes spent in each zone for a 1 Hz channel, given zone tops in absolute units (the last zone open). Same
+ * convention as the intensity bands: a zone is [previous top, top), so a value exactly on a top counts in the zone above.
+ */
 export function minutesInZones(values: readonly (number | null | undefined)[], tops: readonly number[]): number[] {
   const out = new Array(tops.length + 1).fill(0);
   for (const v of values) {
     if (typeof v !== "number" || !(v > 0)) continue;
-    let z = tops.findIndex((top) => v <= top + 1e-9);
+    let z = tops.findIndex((top) => v < top - 1e-9);
     if (z === -1) z = tops.length;
     out[z] += 1 / 60;
   }

@@ -82,33 +82,61 @@ export function fitnessFatigue(
 
 /**
  * Acute:chronic load ratio per day. "rolling": mean of the last 7 days ÷ mean of the last 28 (Gabbett TJ (2016)
- * Br J Sports Med 50:273–280); null until 28 days of data. "ewma": exponentially weighted averages with
- * λ = 2/(N + 1), N = 7 and 28 (Williams S et al. (2017) Br J Sports Med 51:209–210); null while chronic load is 0.
+ * Br J Sports Med 50:273–280). "ewma": exponentially weighted averages EWMA_t = λ·load_t + (1 − λ)·EWMA_(t−1) with
+ * λ = 2/(N + 1), N = 7 and 28 (Williams S et al. (2017) Br J Sports Med 51:209–210).
+ *
+ * Both are null ("not enough history") until the chronic window is full of real history: history starts at
+ * `historyStart` (an index into the loads) or, by default, at the first day with any load, because days before an
+ * athlete's first record are unknown, not rest. Without this, a week of training after empty days divides a fresh
+ * acute average by a chronic average still mostly made of zeros and reports a spike that never happened.
  */
-export function acuteChronicRatio(dailyLoads: readonly number[], opts: { method?: "rolling" | "ewma"; acuteDays?: number; chronicDays?: number } = {}): (number | null)[] {
+export function acuteChronicRatio(
+  dailyLoads: readonly number[],
+  opts: { method?: "rolling" | "ewma"; acuteDays?: number; chronicDays?: number; historyStart?: number } = {},
+): (number | null)[] {
   const acuteN = opts.acuteDays ?? 7;
   const chronicN = opts.chronicDays ?? 28;
   if (!(acuteN >= 1 && chronicN > acuteN)) throw new TrainingInputError("out_of_range", "The chronic window must be longer than the acute window.");
   const loads = dailyLoads.map((l, i) => requireFinite(l, `Load on day ${i + 1}`, { min: 0 }));
+  const first = opts.historyStart ?? loads.findIndex((l) => l > 0);
+  const enough = (i: number) => first !== -1 && i >= first && i - first + 1 >= chronicN;
   if (opts.method === "ewma") {
     const la = 2 / (acuteN + 1);
     const lc = 2 / (chronicN + 1);
-    let acute = 0;
-    let chronic = 0;
-    return loads.map((l) => {
+    // Both averages start from the mean load of the first 28 days of history, not from an empty past (a start value
+    // is not given by Williams et al.; this choice is common practice). No ratio is shown before day 28 anyway.
+    const seedDays = loads.slice(Math.max(0, first), Math.max(0, first) + chronicN);
+    const seed = seedDays.length ? seedDays.reduce((a, b) => a + b, 0) / seedDays.length : 0;
+    let acute = seed;
+    let chronic = seed;
+    return loads.map((l, i) => {
+      if (first === -1 || i < first) return null;
       acute = la * l + (1 - la) * acute;
       chronic = lc * l + (1 - lc) * chronic;
-      return chronic > 0 ? acute / chronic : null;
+      return enough(i) && chronic > 0 ? acute / chronic : null;
     });
   }
   const prefix = [0];
   for (const l of loads) prefix.push(prefix[prefix.length - 1] + l);
   return loads.map((_, i) => {
-    if (i + 1 < chronicN) return null;
+    if (!enough(i)) return null;
     const acute = (prefix[i + 1] - prefix[i + 1 - acuteN]) / acuteN;
     const chronic = (prefix[i + 1] - prefix[i + 1 - chronicN]) / chronicN;
     return chronic > 0 ? acute / chronic : null;
   });
+}
+
+/**
+ * The usual range of a week's load from the chronic load before it: 28-day mean daily load × 7 × [0.8, 1.3], the
+ * ratio range Gabbett (2016) reports as lowest-risk. Null with fewer than 28 days of history before the week.
+ */
+export function usualWeekRange(dailyLoads: readonly number[], weekStart: number, opts: { historyStart?: number; low?: number; high?: number } = {}): { low: number; high: number; chronic: number } | null {
+  const first = opts.historyStart ?? dailyLoads.findIndex((l) => l > 0);
+  if (first === -1 || weekStart - first < 28 || weekStart > dailyLoads.length) return null;
+  let sum = 0;
+  for (let i = weekStart - 28; i < weekStart; i++) sum += requireFinite(dailyLoads[i], `Load on day ${i + 1}`, { min: 0 });
+  const chronic = (sum / 28) * 7;
+  return { low: chronic * (opts.low ?? 0.8), high: chronic * (opts.high ?? 1.3), chronic };
 }
 
 export type RatioBand = "low" | "usual" | "raised" | "spike";

@@ -1,6 +1,6 @@
 import { requireFinite, TrainingInputError } from "./errors";
 import { MAX_TARGET_PCT } from "./targets";
-import type { Metric } from "./zones";
+import { bandIndexOf, defaultBandSet, type Band, type Metric } from "./bands";
 
 export const BLOCK_KINDS = ["warmup", "steady", "ramp", "repeats", "cooldown", "open"] as const;
 export type BlockKind = (typeof BLOCK_KINDS)[number];
@@ -153,25 +153,25 @@ export function expandBlocks(blocks: readonly Block[]): Step[] {
   return steps;
 }
 
-/** Tops of the seven intensity levels in % of threshold (the power-level table, common practice). */
-export const LEVEL_TOPS_PCT = [55, 75, 90, 105, 120, 150] as const;
-
 /**
- * Expected effort score (0–10) per minute at each of the seven levels, used to plan effort load before a session
- * is ridden. Our own mapping of intensity to perceived effort (common practice; no single published table).
+ * Expected effort score (0–10) per minute in each band of the default power set (easy … extreme), used to plan
+ * effort load before a session is done. Our own mapping of intensity to perceived effort (common practice; no single
+ * published table). It is tied to the default set on purpose: a coach renaming or moving bands changes what is
+ * shown, never the planned load numbers.
  */
-export const LEVEL_EFFORT = [2, 3, 4, 6, 8, 9, 10] as const;
+export const BAND_EFFORT = [2, 3, 5, 7, 8.5, 10] as const;
+const EFFORT_BANDS = defaultBandSet("bike:power").bands;
 
-export function levelOfPct(pct: number): number {
-  const i = LEVEL_TOPS_PCT.findIndex((top) => pct <= top + 1e-9);
-  return i === -1 ? LEVEL_TOPS_PCT.length : i;
+/** Expected effort score per minute at an intensity (% of threshold). */
+export function effortPerMinute(pct: number): number {
+  return BAND_EFFORT[bandIndexOf(Math.max(0, pct), EFFORT_BANDS)];
 }
 
 export interface SessionEstimate {
   durationS: number;
-  /** Minutes at each of the seven levels (index 0 = level 1), by the step's mid-target; ramps are sliced by second. */
-  minutesPerLevel: number[];
-  /** Minutes without a target (open blocks, untargeted recoveries). minutesPerLevel + openMinutes = duration. */
+  /** Minutes in each band of the given set (index 0 = lowest band), by the step's mid-target; ramps sliced by second. */
+  minutesPerBand: number[];
+  /** Minutes without a target (open blocks, untargeted recoveries). minutesPerBand + openMinutes = duration. */
   openMinutes: number;
   /** Mechanical work of the power-targeted steps at mid-target (kJ); null without a power threshold or power steps. */
   workKj: number | null;
@@ -179,16 +179,16 @@ export interface SessionEstimate {
 }
 
 /**
- * Estimates a session before it is done: duration, minutes per level, work and planned effort load (minutes ×
- * expected effort score per level; untargeted minutes count as level 1).
+ * Estimates a session before it is done: duration, minutes per band of `bands` (the default power set unless given),
+ * work and planned effort load (minutes × expected effort score; untargeted minutes count as easy).
  */
-export function estimateSession(blocks: readonly Block[], thresholds: Partial<Record<Metric, number>> = {}): SessionEstimate {
+export function estimateSession(blocks: readonly Block[], thresholds: Partial<Record<Metric, number>> = {}, bands: readonly Band[] = EFFORT_BANDS): SessionEstimate {
   const errors = validateBlocks(blocks);
   const first = Object.values(errors)[0];
   if (first) throw new TrainingInputError("out_of_range", first);
   const powerThreshold = thresholds.power;
   if (powerThreshold !== undefined) requireFinite(powerThreshold, "Threshold power", { min: 0, exclusiveMin: true, max: 2500 });
-  const minutesPerLevel = new Array(7).fill(0);
+  const minutesPerBand = new Array(bands.length).fill(0);
   let openMinutes = 0;
   let joules = 0;
   let hasPower = false;
@@ -196,7 +196,7 @@ export function estimateSession(blocks: readonly Block[], thresholds: Partial<Re
   for (const step of expandBlocks(blocks)) {
     if (step.lowPct === null || step.highPct === null) {
       openMinutes += step.durationS / 60;
-      effort += (step.durationS / 60) * LEVEL_EFFORT[0];
+      effort += (step.durationS / 60) * BAND_EFFORT[0];
       continue;
     }
     // A ramp is sliced into one-second pieces; a range counts at its middle.
@@ -204,9 +204,8 @@ export function estimateSession(blocks: readonly Block[], thresholds: Partial<Re
     const sliceS = step.durationS / slices;
     for (let k = 0; k < slices; k++) {
       const pct = step.ramp ? step.lowPct + ((step.highPct - step.lowPct) * (k + 0.5)) / slices : (step.lowPct + step.highPct) / 2;
-      const level = levelOfPct(pct);
-      minutesPerLevel[level] += sliceS / 60;
-      effort += (sliceS / 60) * LEVEL_EFFORT[level];
+      minutesPerBand[bandIndexOf(pct, bands)] += sliceS / 60;
+      effort += (sliceS / 60) * effortPerMinute(pct);
       if (step.metric === "power" && powerThreshold) {
         hasPower = true;
         joules += (pct / 100) * powerThreshold * sliceS;
@@ -214,5 +213,5 @@ export function estimateSession(blocks: readonly Block[], thresholds: Partial<Re
     }
   }
   const durationS = blocks.reduce((s, b) => s + blockDuration(b), 0);
-  return { durationS, minutesPerLevel, openMinutes, workKj: hasPower ? joules / 1000 : null, plannedEffortLoad: effort };
+  return { durationS, minutesPerBand, openMinutes, workKj: hasPower ? joules / 1000 : null, plannedEffortLoad: effort };
 }

@@ -1,5 +1,5 @@
 import { requireFinite, requirePositive } from "./errors";
-import type { Metric } from "./zones";
+import type { Metric } from "./bands";
 
 export interface PercentTarget {
   metric: Metric;

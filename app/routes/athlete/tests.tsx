@@ -6,8 +6,10 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { testHistory, TestError, undoTest } from "~/.server/services/field-tests";
 import { athleteSubject } from "~/.server/subject";
-import { ZoneTable } from "~/components/zone-table";
-import { formatThreshold as show, zoneTable } from "~/lib/zone-table";
+import { BandTable } from "~/components/band-table";
+import { bandSetsFor } from "~/.server/services/bands";
+import { bandTable, formatThreshold as show } from "~/lib/band-table";
+import { bandSetKeyFor, type Metric } from "~/lib/training";
 import type { Route } from "./+types/tests";
 
 export const meta: Route.MetaFunction = () => [{ title: "Field tests · Pacewright" }];
@@ -17,7 +19,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const history = await testHistory(athlete.id);
   const latest = new Map<string, (typeof history.thresholds)[number]>();
   for (const t of history.thresholds) latest.set(`${t.sport}:${t.metric}`, t);
-  const zones = [...latest.values()].flatMap((t) => zoneTable(t) ?? []);
+  const sets = await bandSetsFor(athlete);
+  const zones = [...latest.values()].flatMap((t) => bandTable(t, sets[bandSetKeyFor(t.sport, t.metric as Metric)]) ?? []);
   return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, ...history, current: [...latest.values()], zones };
 }
 
@@ -138,7 +141,7 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
             </ul>
           </Card>
           {zones.map((z) => (
-            <ZoneTable key={z.key} title={`${LABEL[z.key]} zones`} table={z} />
+            <BandTable key={z.key} table={z} />
           ))}
         </div>
       </div>
