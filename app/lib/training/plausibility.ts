@@ -84,8 +84,9 @@ const pct = (x: number) => `${x > 0 ? "+" : x < 0 ? "−" : ""}${Math.abs(x).toF
  * test outside what the profile suggests, and any protocol caution, and gives the likely reasons it can see.
  */
 export function plausibilityGuard(g: GuardInput): GuardResult {
+  // Kept to a tenth of a per cent, as shown, so 270 W against 250 W (+8.0 %) is not flagged by float noise.
   const changePct =
-    g.current && g.current > 0 ? (g.metric === "pace" ? (g.current / g.proposed - 1) * 100 : (g.proposed / g.current - 1) * 100) : null;
+    g.current && g.current > 0 ? Math.round((g.metric === "pace" ? (g.current / g.proposed - 1) * 100 : (g.proposed / g.current - 1) * 100) * 10) / 10 : null;
   const expectation = g.current ? null : expectationFor(g);
   const big = changePct !== null && Math.abs(changePct) > PLAUSIBLE_CHANGE_PCT;
   const outside = expectation !== null && (g.proposed < expectation.low || g.proposed > expectation.high);
