@@ -146,7 +146,9 @@ export function detectRampTest(series: Series): RampDetection {
       // A first "step" at the level of the minute before it is the end of a flat warm-up, not the ramp.
       const first = k >= 0 && Math.abs(rises[k]) < STEP_REGULARITY * rise ? k + 2 : k + 1;
       const run = means.slice(first);
-      if (run.length < 5) continue;
+      // A ramp to exhaustion climbs: at least 2 W a step and a fifth above where it began (our rule), so the
+      // small regular ripples of steady riding are not mistaken for one.
+      if (run.length < 5 || rise < 2 || run[run.length - 1] < 1.2 * run[0]) continue;
       let ss = 0;
       for (let j = 0; j < run.length; j++) {
         const end = boundary - (run.length - 1 - j) * stepS;

@@ -51,7 +51,7 @@ export function edwardsZoneTops(maxHr: number): number[] {
 /** Minutes in each of Edwards' five zones from 1 Hz heart rate; seconds below 50 % of maximum and gaps are left out. */
 export function edwardsZoneMinutes(hr1Hz: readonly (number | null | undefined)[], maxHr: number): number[] {
   const max = requirePositive(maxHr, "Maximum heart rate", 250);
-  const out = [0, 0, 0, 0, 0];
+  const seconds = [0, 0, 0, 0, 0];
   for (const v of hr1Hz) {
     if (typeof v !== "number" || !Number.isFinite(v) || v <= 0) continue;
     // Compare in whole hundredths of a per cent, so 60 % of 190 bpm (114 bpm) is not lost to float rounding.
@@ -59,9 +59,9 @@ export function edwardsZoneMinutes(hr1Hz: readonly (number | null | undefined)[]
     if (p < EDWARDS_ZONE_FLOORS_PCT[0] * 100) continue;
     let z = EDWARDS_ZONE_FLOORS_PCT.length - 1;
     while (z > 0 && p < EDWARDS_ZONE_FLOORS_PCT[z] * 100) z--;
-    out[z] += 1 / 60;
+    seconds[z]++;
   }
-  return out;
+  return seconds.map((n) => n / 60);
 }
 
 /** Edwards' zone score straight from 1 Hz heart rate: edwardsZoneMinutes weighted 1 to 5 (same source). */
