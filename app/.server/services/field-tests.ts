@@ -375,7 +375,7 @@ export async function testHistory(athleteId: number) {
       savedAt: t.createdAt.toISOString(),
     })),
     thresholds: thresholds.map((t) => ({ id: t.id, sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, effectiveFrom: t.effectiveFrom, source: t.source })),
-    reports: reports.map((r) => ({ id: r.id, kind: r.kind, sport: r.sport, metric: r.metric, oldValue: r.oldValue, newValue: r.newValue, unit: r.unit, fromDate: r.fromDate, sessions: r.sessionsChanged, blocks: r.blocksChanged, examples: r.examples, at: r.createdAt.toISOString(), guard: r.guard, confirmedBy: r.confirmedBy ? (names.get(r.confirmedBy) ?? null) : null })),
+    reports: reports.map((r) => ({ id: r.id, fieldTestId: r.fieldTestId, kind: r.kind, sport: r.sport, metric: r.metric, oldValue: r.oldValue, newValue: r.newValue, unit: r.unit, fromDate: r.fromDate, sessions: r.sessionsChanged, blocks: r.blocksChanged, examples: r.examples, at: r.createdAt.toISOString(), guard: r.guard, confirmedBy: r.confirmedBy ? (names.get(r.confirmedBy) ?? null) : null })),
   };
 }
 

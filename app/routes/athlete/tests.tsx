@@ -42,7 +42,10 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
   const series = [...new Set(thresholds.map((t) => `${t.sport}:${t.metric}`))];
   const [shown, setShown] = useState(series[0] ?? "");
   const points = thresholds.filter((t) => `${t.sport}:${t.metric}` === shown).map((t) => ({ date: t.effectiveFrom, value: t.value, source: t.source }));
-  const saved = params.get("saved") ? reports.find((r) => r.kind === "apply") : null;
+  // The "saved" note speaks only for a test that still stands: after an undo it would contradict the list.
+  const savedId = Number(params.get("saved"));
+  const savedTest = savedId ? tests.find((t) => t.id === savedId) : undefined;
+  const saved = savedTest?.status === "active" ? reports.find((r) => r.kind === "apply" && r.fieldTestId === savedId) : null;
   return (
     <>
       <PageHeader
