@@ -105,4 +105,41 @@ describe.skipIf(!enabled)("a large change needs a person to see why and agree", 
     await shot(page, "test-guard-undone");
     await ctx.close();
   });
+
+  it("typed results: the ramp asks for its rate and says when the 75 % rule does not hold; critical power shows its fit or names a bad pair", async () => {
+    const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    await signInAs(page, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/athlete`);
+    await page.goto(`${env.app.baseUrl}/athlete/tests/new`);
+    await ready(page);
+    await page.getByLabel("Test", { exact: true }).selectOption("ramp");
+    await page.getByLabel("Best one-minute power (W)").fill("350");
+    await page.getByLabel("Ramp rate (W added per minute)").fill("5");
+    await page.getByRole("button", { name: "Preview the change" }).click();
+    await page.getByTestId("ramp-facts").getByText(/outside the usual 20–25 W per minute/).waitFor();
+    await page.getByTestId("guard").getByText(/rose 5 W a minute/).waitFor();
+    await shot(page, "test-guard-typed-ramp");
+    // Editing the number after the preview withdraws the proposal until it is previewed again.
+    await page.getByLabel("Ramp rate (W added per minute)").fill("20");
+    expect(await page.getByTestId("proposal").count()).toBe(0);
+    await page.getByRole("button", { name: "Preview the change" }).click();
+    await page.getByTestId("ramp-facts").getByText(/within the usual 20–25 W per minute/).waitFor();
+    expect(await page.getByTestId("guard").count()).toBe(0);
+
+    await page.getByLabel("Test", { exact: true }).selectOption("critical_power");
+    await page.getByLabel("Effort 1 mean power (W)").fill("400");
+    await page.getByRole("button", { name: "+ Add an effort" }).click();
+    await page.getByLabel("Effort 3 duration").fill("6:00");
+    await page.getByLabel("Effort 3 mean power (W)").fill("420");
+    await page.getByLabel("Effort 2 mean power (W)").fill("300");
+    await page.getByRole("button", { name: "Preview the change" }).click();
+    await page.getByText(/The 6:00 effort \(420 W\) is not below the 3:00 effort \(400 W\)/).waitFor();
+    await page.getByLabel("Effort 3 mean power (W)").fill("330");
+    await page.getByRole("button", { name: "Preview the change" }).click();
+    // 3:00 at 400 W, 6:00 at 330 W, 12:00 at 300 W lie close to one line: CP ≈ 267 W.
+    await page.getByTestId("cp-fit").getByText(/critical power 267 W .*r² [01]\.\d{3}/).waitFor();
+    await shot(page, "test-guard-typed-cp");
+    await ctx.close();
+  });
 });
