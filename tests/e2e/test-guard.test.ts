@@ -127,6 +127,14 @@ describe.skipIf(!enabled)("a large change needs a person to see why and agree", 
     await page.getByTestId("ramp-facts").getByText(/within the usual 20–25 W per minute/).waitFor();
     expect(await page.getByTestId("guard").count()).toBe(0);
 
+    // From the demo ramp file: the steps are found past the warm-up and their rate is shown.
+    await page.getByLabel("a ride file").check();
+    await page.getByLabel(/Ride file/).setInputFiles(path.resolve("db/demo/files/ramp-test.csv"));
+    await page.getByTestId("ramp-facts").getByText(/Found 15 steps of 20 W every 60 s, from 100 W; last completed step 380 W/).waitFor();
+    await page.getByTestId("ramp-facts").getByText(/Ramp rate 20 W per minute: within the usual/).waitFor();
+    await shot(page, "test-guard-ramp-file");
+    await page.getByLabel("numbers I type").check();
+
     await page.getByLabel("Test", { exact: true }).selectOption("critical_power");
     await page.getByLabel("Effort 1 mean power (W)").fill("400");
     await page.getByRole("button", { name: "+ Add an effort" }).click();
