@@ -109,6 +109,14 @@ describe("plausibility guard", () => {
     expect((await RescaleReport.findOne({ where: { athleteId: athlete.id } }))!.confirmedBy).toBeNull();
   });
 
+  it("a typed jump over a typed threshold names the typing as a likely reason", async () => {
+    const { cookie } = await scenario();
+    const p = await ask({ protocol: "manual", inputs: { sport: "bike", metric: "power", value: "320" }, testedOn: "2026-11-10" }, cookie);
+    expect(p.body.guard).toMatchObject({ flagged: true, changePct: 15.9 });
+    expect(p.body.guard.reasons[0]).toMatch(/^Protocol: the result was typed/);
+    expect(p.body.guard.reasons.join(" ")).not.toMatch(/enter a threshold/i);
+  });
+
   it("a first test far from what the profile suggests is flagged (60 kg, 450 W = 7.5 W/kg)", async () => {
     const { cookie } = await scenario({ power: null, weightKg: 60 });
     const p = await ask({ protocol: "manual", inputs: { sport: "bike", metric: "power", value: "450" }, testedOn: "2026-11-10" }, cookie);

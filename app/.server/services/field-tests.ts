@@ -162,8 +162,9 @@ async function guardFor(athlete: User, body: Body, result: ThresholdResult, valu
     metric: result.metric as "power" | "heart_rate" | "pace",
     proposed: value,
     current: current?.value ?? null,
-    protocolLabel: PROTOCOLS[body.protocol].label,
-    previousProtocolLabel: currentTest ? (PROTOCOLS[currentTest.protocol as ProtocolKey]?.label ?? null) : current ? "typed threshold" : null,
+    protocolLabel: body.protocol === "manual" ? "typed threshold" : PROTOCOLS[body.protocol].label,
+    // A threshold typed in (on its own or as the "enter a threshold" test) is named as such in the reasons.
+    previousProtocolLabel: currentTest && currentTest.protocol !== "manual" ? (PROTOCOLS[currentTest.protocol as ProtocolKey]?.label ?? null) : current ? "typed threshold" : null,
     typed: !fromFile,
     daysSinceLastTest: lastTest ? Math.round((Date.parse(body.testedOn) - Date.parse(lastTest.testedOn)) / 86_400_000) : null,
     cautions: result.cautions,
