@@ -21,7 +21,7 @@ function ride(segments: [number, number][], hr = (w: number) => Math.round(100 +
   for (const [n, w] of segments) for (let i = 0; i < n; i++) out.push({ t: out.length, power: w + ((out.length * 7) % 9) - 4, hr: hr(w), cadence: 88, speed: 9 });
   return out;
 }
-/** The file: a 20-minute test ridden as three rising laps (about 170, 200, 236 W) inside a warm-up and cool-down. */
+/** A 20-minute test ridden as three rising laps (about 170, 200, 236 W) inside a warm-up and cool-down. */
 const risingLaps = () => ride([[900, 150], [400, 170], [400, 200], [400, 236], [600, 100]]);
 
 /** A coached athlete at 276 W with four weeks of planned threshold sessions from 2 November 2026. */

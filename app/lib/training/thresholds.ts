@@ -71,7 +71,7 @@ export interface CriticalPowerResult {
   points: { durationS: number; meanPowerW: number; workJ: number; fittedWorkJ: number }[];
 }
 
-/** Below this r² the work–time line is a poor description of the efforts (the and our acceptance rule). */
+/** Below this r² the work–time line is a poor description of the efforts (our acceptance rule, common practice: no single published cut-off). */
 export const CP_MIN_R2 = 0.95;
 /** Effort durations where the two-parameter model holds best: about 2 to 20 minutes (Jones et al. 2010). */
 export const CP_DURATION_RANGE_S = { min: 120, max: 1200 } as const;
