@@ -9,7 +9,20 @@ export interface UploadResult {
  * Sends one ride file to /api/uploads with a visible progress bar (XHR reports upload progress; fetch does not).
  * The server enforces the 25 MB limit and the allowed types; its message is shown as it is.
  */
-export function UploadBox({ athleteId, onUploaded, label = "Ride file (CSV, GPX or FIT, up to 25 MB)" }: { athleteId?: number; onUploaded: (r: UploadResult) => void; label?: string }) {
+export function UploadBox({
+  athleteId,
+  onUploaded,
+  onStart,
+  onFailed,
+  label = "Ride file (CSV, GPX or FIT, up to 25 MB)",
+}: {
+  athleteId?: number;
+  onUploaded: (r: UploadResult) => void;
+  /** Called as a new file starts uploading, so a form can drop whatever it derived from the previous file. */
+  onStart?: () => void;
+  onFailed?: (message: string) => void;
+  label?: string;
+}) {
   const [progress, setProgress] = useState<number | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [done, setDone] = useState<string | null>(null);
@@ -18,6 +31,7 @@ export function UploadBox({ athleteId, onUploaded, label = "Ride file (CSV, GPX 
     setError(null);
     setDone(null);
     setProgress(0);
+    onStart?.();
     const body = new FormData();
     body.append("file", file);
     const xhr = new XMLHttpRequest();
@@ -35,13 +49,16 @@ export function UploadBox({ athleteId, onUploaded, label = "Ride file (CSV, GPX 
         setDone(`${reply.upload.name} read: ${Math.round(reply.upload.summary.durationS / 60)} min, ${reply.upload.summary.channels.join(", ")}.`);
         onUploaded(reply);
       } else {
-        setError(reply?.error ?? (xhr.status === 413 ? "That file is larger than 25 MB." : `The upload failed (${xhr.status}).`));
+        const message = reply?.error ?? (xhr.status === 413 ? "That file is larger than 25 MB." : `The upload failed (${xhr.status}).`);
+        setError(message);
+        onFailed?.(message);
       }
       if (input.current) input.current.value = "";
     };
     xhr.onerror = () => {
       setProgress(null);
       setError("The upload did not reach the server; check the connection and try again.");
+      onFailed?.("The upload did not reach the server.");
     };
     xhr.send(body);
   };

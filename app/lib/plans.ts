@@ -25,7 +25,7 @@ export const newPlanSchema = z
     weeks: z.coerce.number({ error: "Enter the number of weeks." }).int("Use whole weeks.").min(4, "A plan runs at least 4 weeks.").max(104, "A plan runs at most 104 weeks."),
     weeklyHours: z.coerce.number({ error: "Enter weekly hours." }).gt(0, "Weekly hours must be more than 0.").max(40, "Use at most 40 hours a week."),
     pattern: z.enum(["3:1", "2:1"], { error: "Choose 3:1 or 2:1." }),
-    testEveryWeeks: z.coerce.number().int().min(2, "Test every 2 to 16 weeks.").max(16, "Test every 2 to 16 weeks."),
+    testEveryWeeks: z.coerce.number().int().min(4, "Test every 4 to 8 weeks.").max(8, "Test every 4 to 8 weeks."),
   });
 export type NewPlanInput = z.infer<typeof newPlanSchema>;
 

@@ -27,7 +27,7 @@ export const PROTOCOLS: Record<ProtocolKey, Protocol> = {
     metric: "power",
     maximal: true,
     instructions:
-      "After an easy warm-up, power rises by the same step every minute. Keep pedalling until you cannot hold the step; your best minute sets the threshold (75 % of it).",
+      "After an easy warm-up, power rises by the same step every minute, usually 20–25 W a minute in all. Keep pedalling until you cannot hold the step; your best minute sets the threshold (75 % of it). The 75 % rule is for ramps of that rate: give the rate with your result.",
     session: {
       name: "Ramp test",
       blocks: [{ kind: "warmup", durationS: 600, target: { metric: "power", lowPct: 45, highPct: 55 } }, { kind: "open", durationS: 1200, cue: "Ramp: +20 W every minute from 100 W until you stop" }, cool()],

@@ -70,7 +70,7 @@ describe("coach-edited band sets", () => {
     // The new-threshold e-mail lists the coach's bands for the new number.
     const text = await thresholdBandsText(a.athlete, "bike", "power", 250, "W");
     expect(text).toContain("Pressing: 223 W – 249 W");
-    const mail = await renderEmail("rescale-summary", { recipientName: "A", athleteName: "B", testLabel: "20-minute test", testedOn: "2026-11-20", metricLabel: "power", newValue: "250 W", oldValue: "240 W", sessionsChanged: 1, blocksChanged: 2, examples: "", bands: text, link: "http://x" });
+    const mail = await renderEmail("rescale-summary", { recipientName: "A", athleteName: "B", testLabel: "20-minute test", testedOn: "2026-11-20", metricLabel: "power", newValue: "250 W", oldValue: "240 W", sessionsChanged: 1, blocksChanged: 2, examples: "", guardNote: "", bands: text, link: "http://x" });
     expect(mail.text).toContain("Over: 250 W and above");
     expect(await thresholdBandsText(b.athlete, "bike", "power", 250, "W")).toContain("Heavy: 200 W – 237 W");
 

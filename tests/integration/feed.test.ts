@@ -100,7 +100,7 @@ describe("calendar feed", () => {
     const find = (c: ICAL.Component) => c.getAllSubcomponents("vevent").find((e) => e.getFirstPropertyValue("uid") === uid)!;
     const before = find(first);
     expect(Number(before.getFirstPropertyValue("sequence"))).toBe(0);
-    await saveTest(athlete, athlete, { protocol: "manual", inputs: { sport: "bike", metric: "power", value: "300" }, testedOn: todayIn(athlete.timezone) });
+    await saveTest(athlete, athlete, { protocol: "manual", inputs: { sport: "bike", metric: "power", value: "300" }, testedOn: todayIn(athlete.timezone), confirmed: true });
     const second = find(new ICAL.Component(ICAL.parse(await (await fetchFeed(token)).text())));
     expect(Number(second.getFirstPropertyValue("sequence"))).toBe(1);
     expect(String(second.getFirstPropertyValue("summary"))).toContain("285–297 W");

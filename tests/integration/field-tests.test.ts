@@ -74,7 +74,7 @@ describe("field test → rescale", () => {
   it("a 20-minute test rescales every future planned power step, and nothing else", async () => {
     const { athlete, bystander, cookie } = await scenario();
     const before = new Map((await snapshot()).map((r) => [r.id, r]));
-    const res = await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20", readiness: READY, requestKey: "k-20min-1" }, cookie);
+    const res = await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20", readiness: READY, requestKey: "k-20min-1", confirmed: true }, cookie);
     expect(statusOf(res)).toBe(302);
     expect((res as Response).headers.get("location")).toMatch(/^\/athlete\/tests\?saved=\d+$/);
 
@@ -132,7 +132,7 @@ describe("field test → rescale", () => {
   it("undo restores exactly the previous values, with its own report", async () => {
     const { athlete, cookie } = await scenario();
     const before = await snapshot();
-    await save({ protocol: "twenty_minute", inputs: { meanW: "320" }, testedOn: "2026-11-20", readiness: READY }, cookie);
+    await save({ protocol: "twenty_minute", inputs: { meanW: "320" }, testedOn: "2026-11-20", readiness: READY, confirmed: true }, cookie);
     const test = (await FieldTest.findOne({ where: { athleteId: athlete.id } }))!;
     const res = await run(tests.action, new Request(`${BASE}/athlete/tests`, { method: "POST", body: new URLSearchParams({ testId: String(test.id) }), headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" } }));
     expect(payloadOf(res).ok).toBe(true);
@@ -155,7 +155,7 @@ describe("field test → rescale", () => {
     // Fault injection in the database itself: the sessions update (after blocks were rewritten) aborts.
     await db().query(`CREATE TRIGGER fault_injection BEFORE UPDATE OF feed_sequence ON scheduled_sessions WHEN NEW.athlete_id = ${athlete.id} BEGIN SELECT RAISE(ABORT, 'injected fault'); END;`);
     try {
-      await expect(save({ protocol: "twenty_minute", inputs: { meanW: "310" }, testedOn: "2026-11-20", readiness: READY }, cookie)).rejects.toThrow();
+      await expect(save({ protocol: "twenty_minute", inputs: { meanW: "310" }, testedOn: "2026-11-20", readiness: READY, confirmed: true }, cookie)).rejects.toThrow();
     } finally {
       await db().query("DROP TRIGGER fault_injection");
     }
@@ -182,7 +182,7 @@ describe("field test → rescale", () => {
     expect(payloadOf(noReady).error).toMatch(/readiness|Answer every/);
     expect(statusOf(await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2027-06-01", readiness: READY }, cookie))).toBe(400);
     expect(payloadOf(await save({ protocol: "swim_pair", inputs: { t400: "2:00", t200: "2:50" }, testedOn: "2026-11-20", readiness: READY }, cookie)).error).toMatch(/longer than the 200/);
-    expect(payloadOf(await save({ protocol: "twenty_minute", inputs: { meanW: "-4" }, testedOn: "2026-11-20", readiness: READY }, cookie)).error).toMatch(/above 0/);
+    expect(payloadOf(await save({ protocol: "twenty_minute", inputs: { meanW: "-4" }, testedOn: "2026-11-20", readiness: READY }, cookie)).error).toMatch(/must be 50–700 W/);
 
     const p = (await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20" }), headers: { Cookie: cookie } }))) as Response;
     const body = await p.json();
@@ -229,7 +229,7 @@ describe("ride-file uploads", () => {
     // Shifting the window by hand changes the proposal.
     const shifted = await ((await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", uploadId: upload.id, windowStartS: 1500, testedOn: "2026-11-20" }), headers: { Cookie: cookie } }))) as Response).json();
     expect(shifted.proposed.value).toBeLessThan(285);
-    const saved = await save({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20", readiness: READY }, cookie);
+    const saved = await save({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20", readiness: READY, confirmed: true }, cookie);
     expect(statusOf(saved)).toBe(302);
     expect((await FieldTest.findOne({ where: { athleteId: athlete.id } }))!.uploadId).toBe(upload.id);
   });

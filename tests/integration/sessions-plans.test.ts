@@ -133,7 +133,7 @@ describe("season plans", () => {
     return Number((res as Response).headers.get("location")!.match(/plans\/(\d+)/)![1]);
   }
 
-  it("16 weeks ending on an event: recovery every 4th week, a taper, tests every 6 weeks with a test session placed", async () => {
+  it("16 weeks ending on an event: recovery every 4th week, a taper, tests right after recovery weeks with a test session placed", async () => {
     const { cookie } = await coach();
     const planId = await newPlan(cookie);
     const page = payloadOf(await run(planPage.loader, getRequest(`/coach/plans/${planId}`, cookie), { planId: String(planId) }));
@@ -143,7 +143,8 @@ describe("season plans", () => {
     expect(page.weeks.filter((w: { phase: string }) => w.phase === "taper").map((w: { idx: number }) => w.idx)).toEqual([14, 15]);
     expect(page.weeks.at(-1).phase).toBe("race");
     const testWeeks = page.weeks.filter((w: { test: boolean }) => w.test);
-    expect(testWeeks.map((w: { idx: number }) => w.idx)).toEqual([1, 7, 13]);
+    // Rest, then test: week 9 follows recovery week 8; week 13 is the peak's only loading week, so no test there.
+    expect(testWeeks.map((w: { idx: number }) => w.idx)).toEqual([1, 9]);
     const testItems = page.items.filter((i: { testProtocol: string | null }) => i.testProtocol === "twenty_minute");
     expect(testItems.map((i: { weekId: number }) => i.weekId).sort()).toEqual(testWeeks.map((w: { id: number }) => w.id).sort());
   });

@@ -62,10 +62,15 @@ describe("season skeleton (constants are common practice)", () => {
     expect(w.at(-1)!.startDate).toBe("2027-04-12");
     expect(plan.eventDate).toBe("2027-04-18");
   });
-  it("recovery every 4th week under 3:1, a two-week taper, tests every 6 weeks", () => {
+  it("recovery every 4th week under 3:1, a two-week taper, tests right after a recovery week", () => {
     expect(w.filter((x) => x.recovery).map((x) => x.index)).toEqual([4, 8, 12]);
     expect(w.filter((x) => x.phase === "taper").map((x) => x.index)).toEqual([14, 15]);
-    expect(w.filter((x) => x.test).map((x) => x.index)).toEqual([1, 7, 13]);
+    // Weeks 7 and 13 were the old defaults: 7 is the heaviest week before recovery week 8, 13 the only loading
+    // week of its block. Rest, then test: week 9 follows recovery week 8 (8 weeks after week 1).
+    expect(w.filter((x) => x.test).map((x) => x.index)).toEqual([1, 9]);
+    // Phases start on loading weeks: build on 9 (not recovery week 8), peak on 13 (not recovery week 12).
+    expect(w.filter((x) => x.phase === "build").map((x) => x.index)).toEqual([9, 10, 11, 12]);
+    expect(w.filter((x) => x.phase === "peak").map((x) => x.index)).toEqual([13]);
     expect(w[0].phase).toBe("base");
     expect(w.some((x) => x.phase === "build")).toBe(true);
   });
@@ -87,10 +92,40 @@ describe("season skeleton (constants are common practice)", () => {
     expect(p.weeks.filter((x) => x.phase === "taper").map((x) => x.index)).toEqual([10, 11]);
     expect(p.weeks.filter((x) => x.recovery).map((x) => x.index)).toEqual([3, 6]);
   });
+  it("for any plan: phases begin on loading weeks, tests follow recovery weeks 4–8 weeks apart, never on a block's heaviest week (common practice)", () => {
+    for (const pattern of ["3:1", "2:1"] as const) {
+      for (let weeks = 4; weeks <= 40; weeks++) {
+        for (const testEveryWeeks of [4, 5, 6, 7, 8]) {
+          for (const withEvent of [true, false]) {
+            const p = seasonSkeleton({ ...(withEvent ? { eventDate: "2027-09-12" } : { startDate: "2027-01-04" }), weeks, weeklyHours: 8, pattern, testEveryWeeks });
+            const label = `${pattern} ${weeks} weeks, test every ${testEveryWeeks}, ${withEvent ? "event" : "no event"}`;
+            const ws = p.weeks;
+            for (let i = 1; i < ws.length; i++) {
+              if (ws[i].phase !== ws[i - 1].phase && ["base", "build", "peak"].includes(ws[i].phase)) expect(ws[i].recovery, `${label}: week ${i + 1} starts ${ws[i].phase}`).toBe(false);
+            }
+            const tests = ws.filter((x) => x.test).map((x) => x.index);
+            expect(tests[0], label).toBe(1);
+            for (let k = 1; k < tests.length; k++) {
+              const t = tests[k];
+              expect(ws[t - 2].recovery, `${label}: test week ${t} follows a recovery week`).toBe(true);
+              expect(t - tests[k - 1], label).toBeGreaterThanOrEqual(4);
+              expect(t - tests[k - 1], label).toBeLessThanOrEqual(8);
+              expect(["taper", "race"], label).not.toContain(ws[t - 1].phase);
+              // The block runs from the test week to the next recovery week (or the end of the loading weeks).
+              const block = [];
+              for (let i = t; i <= ws.length && !ws[i - 1].recovery && ["base", "build", "peak"].includes(ws[i - 1].phase); i++) block.push(ws[i - 1]);
+              expect(Math.max(...block.map((b) => b.loadFactor)), `${label}: week ${t} is not the block's heaviest`).toBeGreaterThan(ws[t - 1].loadFactor);
+            }
+          }
+        }
+      }
+    }
+  });
   it("refuses impossible inputs", () => {
     expect(() => seasonSkeleton({ eventDate: "2027-02-30", weeks: 10, weeklyHours: 8, pattern: "3:1" })).toThrow(/real date/);
     expect(() => seasonSkeleton({ startDate: "2027-05-01", eventDate: "2027-03-01", weeklyHours: 8, pattern: "3:1" })).toThrow(/after the start/);
     expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 2, weeklyHours: 8, pattern: "3:1" })).toThrow(/4 to 104/);
     expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 10, weeklyHours: 0, pattern: "3:1" })).toThrow(TrainingInputError);
+    expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 10, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 3 })).toThrow(/4 to 8 weeks/);
   });
 });

@@ -53,6 +53,7 @@ export class FieldTest extends Model<InferAttributes<FieldTest>, InferCreationAt
   declare readiness: CreationOptional<string | null>;
   declare status: CreationOptional<"active" | "undone">;
   declare undoneAt: CreationOptional<Date | null>;
+  declare undoneBy: CreationOptional<number | null>;
   declare requestKey: CreationOptional<string | null>;
   declare createdBy: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
@@ -75,6 +76,7 @@ FieldTest.init(
     readiness: { type: DataTypes.TEXT, allowNull: true },
     status: { type: DataTypes.STRING(10), allowNull: false, defaultValue: "active" },
     undoneAt: { type: DataTypes.DATE, allowNull: true },
+    undoneBy: { type: DataTypes.INTEGER, allowNull: true },
     requestKey: { type: DataTypes.STRING(64), allowNull: true },
     createdBy: { type: DataTypes.INTEGER, allowNull: true },
     ...ts,
@@ -96,6 +98,9 @@ export class RescaleReport extends Model<InferAttributes<RescaleReport>, InferCr
   declare sessionsChanged: number;
   declare blocksChanged: number;
   declare examples: CreationOptional<{ date: string; name: string; before: string; after: string }[]>;
+  declare guard: CreationOptional<{ flagged: boolean; changePct: number | null; headline: string | null; reasons: string[] } | null>;
+  declare confirmedBy: CreationOptional<number | null>;
+  declare confirmedAt: CreationOptional<Date | null>;
   declare createdBy: number | null;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -115,6 +120,9 @@ RescaleReport.init(
     sessionsChanged: { type: DataTypes.INTEGER, allowNull: false },
     blocksChanged: { type: DataTypes.INTEGER, allowNull: false },
     examples: json("examples", "[]"),
+    guard: json("guard", "null"),
+    confirmedBy: { type: DataTypes.INTEGER, allowNull: true },
+    confirmedAt: { type: DataTypes.DATE, allowNull: true },
     createdBy: { type: DataTypes.INTEGER, allowNull: true },
     ...ts,
   },

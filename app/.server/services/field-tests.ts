@@ -9,7 +9,7 @@ import { loadActivity } from "./uploads";
 import { computeThreshold, type ThresholdResult } from "~/lib/field-tests";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
-import { bestEffort, pacingSplits, thresholdHeartRate, TrainingInputError } from "~/lib/training";
+import { bestEffort, detectRampTest, pacingAdvice, pacingSplits, plausibilityGuard, thresholdHeartRate, TrainingInputError, type GuardResult, type RampDetection, type Sample } from "~/lib/training";
 import { formatThreshold } from "~/lib/zone-table";
 import { thresholdBandsText } from "./bands";
 
@@ -39,20 +39,36 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
   const window = WINDOW[protocol];
   try {
     if (protocol === "ramp") {
-      const best = bestEffort(samples, 60);
-      return { inputs: { bestOneMinuteW: best.mean }, window: { startS: best.startS, lengthS: 60 }, pacing: null };
+      let ramp: RampDetection;
+      try {
+        ramp = detectRampTest(samples);
+      } catch (err) {
+        if (err instanceof TrainingInputError && err.code === "not_a_ramp") {
+          throw new TestError("No ramp of equal rising steps was found in this file, so its rate is unknown. Type the best minute and how many watts the ramp added each minute instead.");
+        }
+        throw err;
+      }
+      const lengthS = ramp.endS - ramp.startS;
+      return {
+        inputs: { bestOneMinuteW: ramp.bestOneMinuteW, rampRateWPerMin: ramp.rateWPerMin },
+        window: { startS: ramp.startS, lengthS },
+        pacing: null,
+        ramp,
+        file: windowFacts(samples, ramp.startS, lengthS),
+      };
     }
     if (protocol === "critical_power") {
       const three = bestEffort(samples, 180);
       const twelve = bestEffort(samples, 720);
-      return { inputs: { efforts: [{ duration: "3:00", meanW: three.mean }, { duration: "12:00", meanW: twelve.mean }] }, window: { startS: twelve.startS, lengthS: 720 }, pacing: null };
+      return { inputs: { efforts: [{ duration: "3:00", meanW: three.mean }, { duration: "12:00", meanW: twelve.mean }] }, window: { startS: twelve.startS, lengthS: 720 }, pacing: null, ramp: null, file: windowFacts(samples, twelve.startS, 720) };
     }
     if (window && (protocol === "twenty_minute" || protocol === "eight_minute")) {
       const start = windowStartS ?? bestEffort(samples, window).startS;
       if (!Number.isInteger(start) || start < 0 || start + window > samples.length) throw new TestError("The chosen window runs past the end of the ride.");
-      const pacing = pacingSplits(samples, start, window, 3);
+      const split = pacingSplits(samples, start, window, 3);
+      const pacing = { ...split, advice: pacingAdvice(split.verdict, split.changePct) };
       const mean = samples.slice(start, start + window).reduce((s, x) => s + (x.power ?? 0), 0) / window;
-      return { inputs: { meanW: mean }, window: { startS: start, lengthS: window }, pacing };
+      return { inputs: { meanW: mean }, window: { startS: start, lengthS: window }, pacing, ramp: null, file: windowFacts(samples, start, window) };
     }
     if (protocol === "hr_thirty") {
       const hr = samples.map((s) => s.hr ?? null);
@@ -72,13 +88,29 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
         }
       }
       const meanHr = thresholdHeartRate(hr.slice(start, start + 1800));
-      return { inputs: { sport: "bike", meanHr: Math.round(meanHr) }, window: { startS: start, lengthS: 1800 }, pacing: null };
+      return { inputs: { sport: "bike", meanHr: Math.round(meanHr) }, window: { startS: start, lengthS: 1800 }, pacing: null, ramp: null, file: null };
     }
   } catch (err) {
     if (err instanceof TrainingInputError) throw new TestError(`This file cannot be used for a ${PROTOCOLS[protocol].label.toLowerCase()}: ${err.message}`);
     throw err;
   }
   throw new TestError("This test is entered by hand, not from a file.");
+}
+
+/** Seconds without power in a test window (dropouts and stops) and its mean heart rate, for the guard's reasons. */
+function windowFacts(samples: readonly Sample[], startS: number, lengthS: number) {
+  let gapS = 0;
+  let hrSum = 0;
+  let hrN = 0;
+  for (let i = startS; i < startS + lengthS && i < samples.length; i++) {
+    const s = samples[i];
+    if (!(typeof s.power === "number" && s.power > 0)) gapS++;
+    if (typeof s.hr === "number" && s.hr > 0) {
+      hrSum += s.hr;
+      hrN++;
+    }
+  }
+  return { gapS, windowS: lengthS, meanHr: hrN > lengthS / 2 ? hrSum / hrN : null };
 }
 
 export const readinessSchema = z.object(
@@ -110,21 +142,59 @@ export async function resolveSubmission(athlete: User, body: { protocol: Protoco
   return { result, inputs, fromFile, upload };
 }
 
-export async function preview(athlete: User, body: { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null; testedOn: string }) {
+type Body = { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null; testedOn: string };
+
+/** The threshold in force on a date for one sport and metric. */
+const thresholdOn = (athleteId: number, sport: string, metric: string, date: string) =>
+  Threshold.findOne({ where: { athleteId, sport, metric, effectiveFrom: { [Op.lte]: date } }, order: [["effectiveFrom", "DESC"], ["id", "DESC"]] });
+
+/** Runs the plausibility guard for a resolved submission with everything the database knows about the athlete. */
+async function guardFor(athlete: User, body: Body, result: ThresholdResult, value: number, fromFile: Awaited<ReturnType<typeof inputsFromUpload>> | null): Promise<GuardResult> {
+  const current = await thresholdOn(athlete.id, result.sport, result.metric, body.testedOn);
+  const currentTest = current?.fieldTestId ? await FieldTest.findByPk(current.fieldTestId) : null;
+  const lastTest = await FieldTest.findOne({
+    where: { athleteId: athlete.id, sport: result.sport, metric: result.metric, status: "active", testedOn: { [Op.lte]: body.testedOn } },
+    order: [["testedOn", "DESC"], ["id", "DESC"]],
+  });
+  const hrThreshold = result.metric === "power" ? await thresholdOn(athlete.id, result.sport, "heart_rate", body.testedOn) : null;
+  const meanHr = fromFile?.file?.meanHr ?? null;
+  return plausibilityGuard({
+    sport: result.sport,
+    metric: result.metric as "power" | "heart_rate" | "pace",
+    proposed: value,
+    current: current?.value ?? null,
+    protocolLabel: body.protocol === "manual" ? "typed threshold" : PROTOCOLS[body.protocol].label,
+    // A threshold typed in (on its own or as the "enter a threshold" test) is named as such in the reasons.
+    previousProtocolLabel: currentTest && currentTest.protocol !== "manual" ? (PROTOCOLS[currentTest.protocol as ProtocolKey]?.label ?? null) : current ? "typed threshold" : null,
+    typed: !fromFile,
+    daysSinceLastTest: lastTest ? Math.round((Date.parse(body.testedOn) - Date.parse(lastTest.testedOn)) / 86_400_000) : null,
+    cautions: result.cautions,
+    pacing: fromFile?.pacing ?? null,
+    gaps: fromFile?.file ? { gapS: fromFile.file.gapS, windowS: fromFile.file.windowS } : null,
+    heartRate: meanHr && hrThreshold && body.protocol !== "ramp" ? { meanHr, thresholdHr: hrThreshold.value } : null,
+    profile: { weightKg: athlete.weightKg, maxHr: athlete.maxHr },
+  });
+}
+
+export async function preview(athlete: User, body: Body) {
   if (!isIsoDate(body.testedOn)) throw new TestError("Give the test date.", 400, "testedOn");
   if (body.testedOn > todayIn(athlete.timezone)) throw new TestError("A test cannot be dated in the future.", 400, "testedOn");
   const { result, fromFile } = await resolveSubmission(athlete, body);
-  const current = await Threshold.findOne({ where: { athleteId: athlete.id, sport: result.sport, metric: result.metric, effectiveFrom: { [Op.lte]: body.testedOn } }, order: [["effectiveFrom", "DESC"], ["id", "DESC"]] });
+  const current = await thresholdOn(athlete.id, result.sport, result.metric, body.testedOn);
   const scope = { athleteId: athlete.id, sport: result.sport, metric: result.metric, from: body.testedOn };
   const counts = await countScope(scope);
   const value = roundThreshold(result);
+  const { cautions: _c, fit, ramp: rampRule, ...rest } = result;
   return {
-    proposed: { ...result, value, label: formatThreshold(value, result.unit) },
+    proposed: { ...rest, value, label: formatThreshold(value, result.unit) },
     current: current ? { value: current.value, label: formatThreshold(current.value, result.unit), since: current.effectiveFrom } : null,
     changes: { sessions: counts.sessions, blocks: counts.blocks, until: counts.until },
     examples: await examplesFor({ ...scope, value, unit: result.unit }),
     window: fromFile?.window ?? null,
     pacing: fromFile?.pacing ?? null,
+    ramp: rampRule ? { ...rampRule, detected: fromFile?.ramp ?? null } : null,
+    fit: fit ?? null,
+    guard: await guardFor(athlete, body, result, value, fromFile),
   };
 }
 
@@ -144,7 +214,7 @@ const METRIC_LABEL: Record<string, string> = { power: "power", heart_rate: "hear
 export async function saveTest(
   athlete: User,
   by: User,
-  body: { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null; testedOn: string; readiness?: unknown; requestKey?: string | null },
+  body: Body & { readiness?: unknown; requestKey?: string | null; confirmed?: boolean | null },
 ) {
   const protocol = PROTOCOLS[body.protocol];
   if (!isIsoDate(body.testedOn)) throw new TestError("Give the test date.", 400, "testedOn");
@@ -155,8 +225,12 @@ export async function saveTest(
     if (!parsed.success) throw new TestError(`Before a maximal test: ${parsed.error.issues[0].message}`, 400, "readiness");
     readiness = parsed.data;
   }
-  const { result, inputs, upload } = await resolveSubmission(athlete, body);
+  const { result, inputs, upload, fromFile } = await resolveSubmission(athlete, body);
   const value = roundThreshold(result);
+  const guard = await guardFor(athlete, body, result, value, fromFile);
+  if (guard.flagged && body.confirmed !== true) {
+    throw new TestError(`${guard.headline} Read the likely reasons and confirm the change to save it.`, 409, "confirm");
+  }
   const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
   return writeTransaction(async (transaction) => {
     // Checked inside the write lock, so two copies of one submission cannot both pass it.
@@ -190,6 +264,13 @@ export async function saveTest(
       transaction,
     );
     await test.update({ thresholdId: threshold.id }, { transaction });
+    await report.update(
+      { guard: { flagged: guard.flagged, changePct: guard.changePct, headline: guard.headline, reasons: guard.reasons }, confirmedBy: guard.flagged ? by.id : null, confirmedAt: guard.flagged ? new Date() : null },
+      { transaction },
+    );
+    const guardNote = guard.flagged
+      ? `${guard.headline} ${by.name} saw the likely reasons and confirmed the change${by.id === athlete.id ? "" : ` for ${athlete.name}`}.`
+      : "";
     const examples = report.examples.map((e) => `${e.date} ${e.name}: ${e.before} → ${e.after}`).join("\n") || "No planned sessions needed a change.";
     const bands = await thresholdBandsText(athlete, result.sport, result.metric, value, result.unit, transaction);
     for (const person of [athlete, ...coaches]) {
@@ -209,6 +290,7 @@ export async function saveTest(
             blocksChanged: report.blocksChanged,
             examples,
             bands,
+            guardNote,
             link: `${env().appUrl}${person.id === athlete.id ? "/athlete/calendar" : `/coach/athletes/${athlete.id}/calendar`}`,
           },
         },
@@ -219,8 +301,12 @@ export async function saveTest(
   });
 }
 
-/** Removes a test within 14 days: the threshold goes, and every step it rescaled gets its old values back. */
+/**
+ * Removes a test within 14 days: the threshold goes, every step it rescaled gets its old values back, the test stays
+ * listed as undone (who and when), and athlete and coaches get a correction of the summary they were sent.
+ */
 export async function undoTest(athlete: User, by: User, testId: number) {
+  const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
   return writeTransaction(async (transaction) => {
     const test = await FieldTest.findOne({ where: { id: testId, athleteId: athlete.id }, transaction });
     if (!test) throw new TestError("No such test for this athlete.", 404);
@@ -229,7 +315,36 @@ export async function undoTest(athlete: User, by: User, testId: number) {
     const report = await RescaleReport.findOne({ where: { fieldTestId: test.id, kind: "apply" }, transaction });
     const threshold = test.thresholdId ? await Threshold.findByPk(test.thresholdId, { transaction }) : null;
     const undo = report ? await undoRescale(report, threshold, by.id, transaction) : null;
-    await test.update({ status: "undone", undoneAt: new Date(), thresholdId: null }, { transaction });
+    const undoneAt = new Date();
+    await test.update({ status: "undone", undoneAt, undoneBy: by.id, thresholdId: null }, { transaction });
+    const restored = await Threshold.findOne({
+      where: { athleteId: athlete.id, sport: test.sport, metric: test.metric, effectiveFrom: { [Op.lte]: test.testedOn } },
+      order: [["effectiveFrom", "DESC"], ["id", "DESC"]],
+      transaction,
+    });
+    for (const person of [athlete, ...coaches]) {
+      await queueEmail(
+        {
+          to: person.email,
+          template: "rescale-undone",
+          vars: {
+            recipientName: person.name,
+            athleteName: athlete.name,
+            testLabel: (PROTOCOLS[test.protocol as ProtocolKey]?.label ?? test.protocol).toLowerCase(),
+            testedOn: test.testedOn,
+            metricLabel: METRIC_LABEL[test.metric] ?? test.metric,
+            removedValue: formatThreshold(test.value, test.unit),
+            restoredValue: restored ? formatThreshold(restored.value, test.unit) : "not set",
+            undoneBy: by.id === person.id ? "you" : by.name,
+            undoneOn: todayIn(person.timezone),
+            sessionsChanged: undo?.sessionsChanged ?? 0,
+            blocksChanged: undo?.blocksChanged ?? 0,
+            link: `${env().appUrl}${person.id === athlete.id ? "/athlete/calendar" : `/coach/athletes/${athlete.id}/calendar`}`,
+          },
+        },
+        transaction,
+      );
+    }
     return { test, undo };
   });
 }
@@ -240,6 +355,12 @@ export async function testHistory(athleteId: number) {
     Threshold.findAll({ where: { athleteId }, order: [["effectiveFrom", "ASC"], ["id", "ASC"]] }),
     RescaleReport.findAll({ where: { athleteId }, order: [["id", "DESC"]], limit: 20 }),
   ]);
+  // The threshold in force today per sport and metric: a test is "in force" only while its threshold is the latest.
+  const latest = new Map<string, number>();
+  for (const t of thresholds) latest.set(`${t.sport}:${t.metric}`, t.id);
+  const inForce = new Set(latest.values());
+  const people = await User.findAll({ where: { id: [...new Set([...tests.map((t) => t.undoneBy), ...reports.map((r) => r.confirmedBy)].filter((x): x is number => !!x))] }, attributes: ["id", "name"] });
+  const names = new Map(people.map((p) => [p.id, p.name]));
   return {
     tests: tests.map((t) => ({
       id: t.id,
@@ -251,11 +372,14 @@ export async function testHistory(athleteId: number) {
       display: formatThreshold(t.value, t.unit),
       testedOn: t.testedOn,
       status: t.status,
+      inForce: t.status === "active" && t.thresholdId !== null && inForce.has(t.thresholdId),
+      undoneAt: t.undoneAt ? t.undoneAt.toISOString() : null,
+      undoneBy: t.undoneBy ? (names.get(t.undoneBy) ?? "a former member") : null,
       canUndo: t.status === "active" && t.createdAt.getTime() >= Date.now() - UNDO_DAYS * 86_400_000,
       savedAt: t.createdAt.toISOString(),
     })),
     thresholds: thresholds.map((t) => ({ id: t.id, sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, effectiveFrom: t.effectiveFrom, source: t.source })),
-    reports: reports.map((r) => ({ id: r.id, kind: r.kind, sport: r.sport, metric: r.metric, oldValue: r.oldValue, newValue: r.newValue, unit: r.unit, fromDate: r.fromDate, sessions: r.sessionsChanged, blocks: r.blocksChanged, examples: r.examples, at: r.createdAt.toISOString() })),
+    reports: reports.map((r) => ({ id: r.id, fieldTestId: r.fieldTestId, kind: r.kind, sport: r.sport, metric: r.metric, oldValue: r.oldValue, newValue: r.newValue, unit: r.unit, fromDate: r.fromDate, sessions: r.sessionsChanged, blocks: r.blocksChanged, examples: r.examples, at: r.createdAt.toISOString(), guard: r.guard, confirmedBy: r.confirmedBy ? (names.get(r.confirmedBy) ?? null) : null })),
   };
 }
 

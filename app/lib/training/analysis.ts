@@ -75,57 +75,104 @@ export function workKj(series: Series): number {
 }
 
 export interface RampDetection {
+  /** Rise from one step to the next (W). */
   stepW: number;
+  /** Length of each step (s). */
   stepS: number;
+  /** Ramp rate, W per minute: stepW × 60 / stepS. */
+  rateWPerMin: number;
+  /** Completed steps (the step the rider failed in is not counted). */
   steps: number;
+  /** Mean power of the first and of the last completed step (W). */
+  firstStepW: number;
+  lastCompletedStepW: number;
+  /** Seconds ridden into the step where the rider stopped (0 when the ride ended on a step change). */
+  failedIntoStepS: number;
+  /** The first step's start, the end of the last completed step, and where the rider stopped (s from file start). */
   startS: number;
+  lastCompletedEndS: number;
   endS: number;
   bestOneMinuteW: number;
 }
 
+/** Step lengths tried, in seconds: the usual ramp protocols step every 15 s to 5 min (common practice). */
+const RAMP_STEP_LENGTHS_S = [15, 20, 30, 45, 60, 90, 120, 150, 180, 240, 300] as const;
+/** A rise counts as one more step of the ramp when it lies within ±35 % of the ramp's typical rise (our rule). */
+const STEP_REGULARITY = 0.35;
+
 /**
- * Finds a ramp test: equal power steps of equal length, rising to exhaustion. The test ends where the best
- * one-minute power ends; step lengths of 30 s to 3 min are tried, and the one whose steps are flattest inside and
- * rise most regularly wins. At least five rising steps are needed.
+ * Finds a ramp test: equal power steps of equal length, rising to exhaustion.
+ *
+ * The rider stops where the best minute ends (or a little later while power holds). Every step length from
+ * RAMP_STEP_LENGTHS_S and every phase of the step grid against that stop is tried; the grid whose steps are
+ * flattest inside (smallest pooled within-step spread) wins, and on a tie the longer step (a 60 s ramp is also
+ * flat on a 30 s grid, but then every other rise is zero and the run breaks). Walking back from the stop, a step
+ * belongs to the ramp while its rise over the step before lies within ±35 % of the typical rise; the warm-up
+ * fails that test (it is flat, or far below the first step) and is left out, and so is a lone "step" at the
+ * warm-up's own level. A step the rider failed part-way
+ * through is reported as `failedIntoStepS`, not counted as a step. At least five rising steps are needed.
  */
 export function detectRampTest(series: Series): RampDetection {
   const power = powerOf(series);
   if (power.length < 300) throw new TrainingInputError("too_short", "A ramp test needs at least 5 minutes of data.");
   const prefix = prefixSums(power);
+  const squares = prefixSums(power.map((p) => p * p));
   const best = bestFromPrefix(prefix, 60);
-  const endS = best.startS + 60;
-  let winner: { score: number; stepS: number; means: number[] } | null = null;
-  for (const stepS of [30, 60, 90, 120, 150, 180]) {
-    const means: number[] = [];
-    let varianceSum = 0;
-    for (let end = endS; end - stepS >= 0; end -= stepS) {
-      const start = end - stepS;
-      const mean = (prefix[end] - prefix[start]) / stepS;
-      let v = 0;
-      for (let i = start; i < end; i++) v += (power[i] - mean) ** 2;
-      varianceSum += v / stepS;
-      means.unshift(mean);
+  // Extend past the best minute while the rider still holds its power (a strong last few seconds).
+  let endS = best.startS + 60;
+  while (endS < power.length && power[endS] >= 0.9 * best.mean) endS++;
+
+  const meanOf = (a: number, b: number) => (prefix[b] - prefix[a]) / (b - a);
+  const ssOf = (a: number, b: number) => squares[b] - squares[a] - (prefix[b] - prefix[a]) ** 2 / (b - a);
+
+  type Candidate = { stepS: number; boundary: number; means: number[]; rise: number; sd: number };
+  let winner: Candidate | null = null;
+  for (const stepS of RAMP_STEP_LENGTHS_S) {
+    // The last step change lies within one step before the stop; try each second of it.
+    for (let boundary = endS; boundary > endS - stepS && boundary - 6 * stepS >= 0; boundary--) {
+      const count = Math.floor(boundary / stepS);
+      const means = new Array<number>(count);
+      for (let j = 0; j < count; j++) {
+        const end = boundary - (count - 1 - j) * stepS;
+        means[j] = meanOf(end - stepS, end);
+      }
+      const rises = means.slice(1).map((m, i) => m - means[i]);
+      if (rises.length < 4) continue;
+      // The steps nearest the stop are ramp by construction: their median rise is the reference.
+      const rise = median(rises.slice(-5));
+      if (!(rise > 0)) continue;
+      let k = rises.length - 1;
+      while (k >= 0 && Math.abs(rises[k] - rise) <= STEP_REGULARITY * rise) k--;
+      // A first "step" at the level of the minute before it is the end of a flat warm-up, not the ramp.
+      const first = k >= 0 && Math.abs(rises[k]) < STEP_REGULARITY * rise ? k + 2 : k + 1;
+      const run = means.slice(first);
+      // A ramp to exhaustion climbs: at least 2 W a step and a fifth above where it began (our rule), so the
+      // small regular ripples of steady riding are not mistaken for one.
+      if (run.length < 5 || rise < 2 || run[run.length - 1] < 1.2 * run[0]) continue;
+      let ss = 0;
+      for (let j = 0; j < run.length; j++) {
+        const end = boundary - (run.length - 1 - j) * stepS;
+        ss += ssOf(end - stepS, end);
+      }
+      const sd = Math.sqrt(ss / (run.length * stepS));
+      const better = !winner || sd < winner.sd * 0.97 || (sd <= winner.sd * 1.03 && stepS > winner.stepS);
+      if (better) winner = { stepS, boundary, means: run, rise, sd };
     }
-    // Keep the run of rising steps that leads into the end of the test.
-    let k = means.length - 1;
-    while (k > 0 && means[k] - means[k - 1] > 0) k--;
-    const rising = means.slice(k);
-    if (rising.length < 6) continue;
-    const diffs = rising.slice(1).map((m, i) => m - rising[i]);
-    const med = median(diffs);
-    const spread = diffs.reduce((s, d) => s + Math.abs(d - med), 0) / diffs.length;
-    const withinSd = Math.sqrt(varianceSum / means.length);
-    const score = (spread + withinSd) / Math.max(med, 1);
-    if (!winner || score < winner.score) winner = { score, stepS, means: rising };
   }
-  if (!winner) throw new TrainingInputError("not_a_ramp", "No ramp of at least five rising steps was found before the best minute.");
-  const diffs = winner.means.slice(1).map((m, i) => m - winner!.means[i]);
-  const steps = winner.means.length;
+  if (!winner) throw new TrainingInputError("not_a_ramp", "No ramp of at least five equal rising steps was found before the best minute.");
+  const { stepS, boundary, means } = winner;
+  const rises = means.slice(1).map((m, i) => m - means[i]);
+  const stepW = rises.reduce((s, r) => s + r, 0) / rises.length;
   return {
-    stepW: median(diffs.slice(0, -1).length ? diffs.slice(0, -1) : diffs),
-    stepS: winner.stepS,
-    steps,
-    startS: endS - steps * winner.stepS,
+    stepW,
+    stepS,
+    rateWPerMin: (stepW * 60) / stepS,
+    steps: means.length,
+    firstStepW: means[0],
+    lastCompletedStepW: means[means.length - 1],
+    failedIntoStepS: endS - boundary,
+    startS: boundary - means.length * stepS,
+    lastCompletedEndS: boundary,
     endS,
     bestOneMinuteW: best.mean,
   };
@@ -162,6 +209,21 @@ export function pacingSplits(series: Series, startS: number, windowS: number, pa
   const changePct = overall > 0 ? ((means[parts - 1] - means[0]) / overall) * 100 : 0;
   const verdict: PacingVerdict = Math.abs(changePct) <= EVEN_PACING_PCT ? "even" : changePct > 0 ? "rising" : "fading";
   return { means, changePct, verdict };
+}
+
+/**
+ * What a pacing verdict means for the result, in our words; null for even pacing. The figure is the last part
+ * against the first, in % of the window's mean (as `pacingSplits` gives it).
+ */
+export function pacingAdvice(verdict: PacingVerdict, changePct: number): string | null {
+  const pct = Math.abs(Math.round(changePct));
+  if (verdict === "rising") {
+    return `The last third was ${pct} % stronger than the first. Finishing this much stronger than you started usually means the opening was held back, so this result most likely sits below your real threshold. Next time open close to the power you can finish at; until then treat the number as a floor, not a ceiling.`;
+  }
+  if (verdict === "fading") {
+    return `The last third was ${pct} % weaker than the first. Going out too hard and then slowing usually costs more than it gains, so this result may sit a little below your real threshold. Next time open a few per cent easier and build into the effort.`;
+  }
+  return null;
 }
 
 /**

@@ -11,6 +11,11 @@ export {
   timeToExhaustion,
   thresholdHeartRate,
   criticalSwimSpeed,
+  checkRampRate,
+  USUAL_RAMP_RATE_W_PER_MIN,
+  CP_MIN_R2,
+  CP_DURATION_RANGE_S,
+  type RampRateCheck,
   type MaximalEffort,
   type CriticalPowerResult,
   type SwimThreshold,
@@ -65,6 +70,7 @@ export {
   bestEffort,
   detectRampTest,
   pacingSplits,
+  pacingAdvice,
   heartRateDrift,
   workKj,
   minutesInZones,
@@ -80,6 +86,9 @@ export {
   trimpBanister,
   trimpEdwards,
   edwardsZoneTops,
+  edwardsZoneMinutes,
+  trimpEdwardsFromHeartRate,
+  EDWARDS_ZONE_FLOORS_PCT,
   monotonyStrain,
   fitnessFatigue,
   acuteChronicRatio,
@@ -103,3 +112,12 @@ export {
   type SessionEstimate,
 } from "./session";
 export { seasonSkeleton, PHASES, type Phase, type SkeletonWeek, type SkeletonInput } from "./season";
+export {
+  plausibilityGuard,
+  requirePlausibleThreshold,
+  THRESHOLD_BOUNDS,
+  PLAUSIBLE_CHANGE_PCT,
+  FIRST_TEST_EXPECTATION,
+  type GuardInput,
+  type GuardResult,
+} from "./plausibility";

@@ -34,10 +34,39 @@ export function trimpEdwards(minutesInZones: readonly number[]): number {
   return minutesInZones.reduce((sum, m, i) => sum + requireFinite(m, `Minutes in zone ${i + 1}`, { min: 0 }) * (i + 1), 0);
 }
 
-/** Zone tops (bpm) of Edwards' five zones for a maximum heart rate: 60, 70, 80, 90 % (the fifth is open). */
+/**
+ * Lower edges of Edwards' five zones in % of maximum heart rate: 50, 60, 70, 80, 90. Time below 50 % is not
+ * counted at all (Edwards 1993 scores only the five zones). Each zone is half-open, [lower, next lower): a reading
+ * of exactly 60 % belongs to the 60–70 % zone. Readings above the maximum count in the top zone (the maximum was
+ * set too low, not the effort off the scale).
+ */
+export const EDWARDS_ZONE_FLOORS_PCT = [50, 60, 70, 80, 90] as const;
+
+/** Zone tops (bpm) of Edwards' first four zones for a maximum heart rate: 60, 70, 80, 90 % (the fifth is open). */
 export function edwardsZoneTops(maxHr: number): number[] {
   const max = requirePositive(maxHr, "Maximum heart rate", 250);
   return [0.6, 0.7, 0.8, 0.9].map((f) => f * max);
+}
+
+/** Minutes in each of Edwards' five zones from 1 Hz heart rate; seconds below 50 % of maximum and gaps are left out. */
+export function edwardsZoneMinutes(hr1Hz: readonly (number | null | undefined)[], maxHr: number): number[] {
+  const max = requirePositive(maxHr, "Maximum heart rate", 250);
+  const seconds = [0, 0, 0, 0, 0];
+  for (const v of hr1Hz) {
+    if (typeof v !== "number" || !Number.isFinite(v) || v <= 0) continue;
+    // Compare in whole hundredths of a per cent, so 60 % of 190 bpm (114 bpm) is not lost to float rounding.
+    const p = Math.round((v / max) * 10_000);
+    if (p < EDWARDS_ZONE_FLOORS_PCT[0] * 100) continue;
+    let z = EDWARDS_ZONE_FLOORS_PCT.length - 1;
+    while (z > 0 && p < EDWARDS_ZONE_FLOORS_PCT[z] * 100) z--;
+    seconds[z]++;
+  }
+  return seconds.map((n) => n / 60);
+}
+
+/** Edwards' zone score straight from 1 Hz heart rate: edwardsZoneMinutes weighted 1 to 5 (same source). */
+export function trimpEdwardsFromHeartRate(hr1Hz: readonly (number | null | undefined)[], maxHr: number): number {
+  return trimpEdwards(edwardsZoneMinutes(hr1Hz, maxHr));
 }
 
 /**

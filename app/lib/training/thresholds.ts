@@ -27,6 +27,35 @@ export function thresholdFromRamp(bestOneMinuteW: number): number {
   return requirePositive(bestOneMinuteW, "The best one-minute power", MAX_WATTS) * 0.75;
 }
 
+/**
+ * The ramp rates the 0.75 rule is used with: steps adding 20 to 25 W a minute (common practice; the rule has no
+ * single published derivation). Peak power in a ramp depends on how fast it rises, so outside this range the
+ * factor does not transfer and the result needs a confirming test. Rates are compared after rounding to 1 W/min.
+ */
+export const USUAL_RAMP_RATE_W_PER_MIN = { low: 20, high: 25 } as const;
+
+export interface RampRateCheck {
+  rateWPerMin: number;
+  withinUsual: boolean;
+  /** Why the 0.75 rule does not hold for this ramp, with the confirming test to ride; null within the usual rate. */
+  caution: string | null;
+}
+
+export function checkRampRate(rateWPerMin: number): RampRateCheck {
+  const rate = requirePositive(rateWPerMin, "The ramp rate (W per minute)", 100);
+  const rounded = Math.round(rate);
+  const { low, high } = USUAL_RAMP_RATE_W_PER_MIN;
+  const withinUsual = rounded >= low && rounded <= high;
+  const speed = rounded < low ? "slower" : "faster";
+  return {
+    rateWPerMin: rate,
+    withinUsual,
+    caution: withinUsual
+      ? null
+      : `This ramp rose ${rounded} W a minute. The 75 % rule is used with ramps of ${low}–${high} W a minute; on a ${speed} ramp the best minute comes out ${rounded < low ? "lower" : "higher"} for the same rider, so 75 % of it does not give the threshold reliably. Treat this number as provisional and confirm it with a 20-minute or 8-minute test within the next two weeks.`,
+  };
+}
+
 export interface MaximalEffort {
   durationS: number;
   meanPowerW: number;
@@ -38,13 +67,28 @@ export interface CriticalPowerResult {
   /** Coefficient of determination of the work–time fit (1 for two efforts). */
   r2: number;
   warnings: string[];
+  /** The fit itself, for showing: each effort's work beside the line's work at its duration. */
+  points: { durationS: number; meanPowerW: number; workJ: number; fittedWorkJ: number }[];
 }
+
+/** Below this r² the work–time line is a poor description of the efforts (our acceptance rule, common practice: no single published cut-off). */
+export const CP_MIN_R2 = 0.95;
+/** Effort durations where the two-parameter model holds best: about 2 to 20 minutes (Jones et al. 2010). */
+export const CP_DURATION_RANGE_S = { min: 120, max: 1200 } as const;
+
+const clock = (s: number) => {
+  const r = Math.round(s);
+  return `${Math.floor(r / 60)}:${String(r % 60).padStart(2, "0")}`;
+};
 
 /**
  * Critical power and W′ from two or more maximal efforts, by least-squares regression of work (P·t) on time:
  * work = CP · t + W′ (the linear work–time model).
  * Sources: Monod H, Scherrer J (1965) Ergonomics 8:329–338; Jones AM, Vanhatalo A, Burnley M, Morton RH,
  * Poole DC (2010) Med Sci Sports Exerc 42(10):1876–1890 (efforts of about 2 to 15–20 minutes).
+ * All-out efforts must lose power as they get longer; a pair where the longer one is as strong or stronger is
+ * refused by name, because no line through it means anything. r² below 0.95 and efforts outside 2–20 minutes
+ * are warned about.
  */
 export function criticalPower(efforts: readonly MaximalEffort[]): CriticalPowerResult {
   if (!Array.isArray(efforts) || efforts.length < 2) {
@@ -53,8 +97,21 @@ export function criticalPower(efforts: readonly MaximalEffort[]): CriticalPowerR
   const points = efforts.map((e, i) => {
     const t = requirePositive(e.durationS, `Effort ${i + 1}'s duration (s)`, 4 * 3600);
     const p = requirePositive(e.meanPowerW, `Effort ${i + 1}'s mean power (W)`, MAX_WATTS);
-    return { t, w: p * t };
+    return { t, p, w: p * t };
   });
+  const sorted = [...points].sort((a, b) => a.t - b.t);
+  for (let i = 1; i < sorted.length; i++) {
+    const short = sorted[i - 1];
+    const long = sorted[i];
+    if (long.t === short.t) throw new TrainingInputError("inconsistent", "The efforts must have different durations.");
+    if (long.p >= short.p) {
+      throw new TrainingInputError(
+        "inconsistent",
+        `The ${clock(long.t)} effort (${Math.round(long.p)} W) is not below the ${clock(short.t)} effort (${Math.round(short.p)} W). ` +
+          "A longer all-out effort always has a lower mean power, so one of these was not all-out or is mistyped; check them or ride that effort again.",
+      );
+    }
+  }
   const n = points.length;
   const meanT = points.reduce((s, p) => s + p.t, 0) / n;
   const meanW = points.reduce((s, p) => s + p.w, 0) / n;
@@ -66,9 +123,6 @@ export function criticalPower(efforts: readonly MaximalEffort[]): CriticalPowerR
     sxy += (p.t - meanT) * (p.w - meanW);
     syy += (p.w - meanW) ** 2;
   }
-  if (sxx === 0) {
-    throw new TrainingInputError("inconsistent", "The efforts must have different durations.");
-  }
   const cpW = sxy / sxx;
   const wPrimeJ = meanW - cpW * meanT;
   if (!(cpW > 0) || !(wPrimeJ > 0)) {
@@ -78,10 +132,19 @@ export function criticalPower(efforts: readonly MaximalEffort[]): CriticalPowerR
     );
   }
   const r2 = syy === 0 ? 1 : (sxy * sxy) / (sxx * syy);
-  const warnings = points
-    .filter((p) => p.t < 120 || p.t > 1200)
-    .map((p) => `An effort of ${Math.round(p.t)} s lies outside 2–20 minutes, where the model holds best.`);
-  return { cpW, wPrimeJ, r2, warnings };
+  const warnings = sorted
+    .filter((p) => p.t < CP_DURATION_RANGE_S.min || p.t > CP_DURATION_RANGE_S.max)
+    .map((p) => `The ${clock(p.t)} effort lies outside 2–20 minutes, where the model holds best (Jones et al. 2010).`);
+  if (r2 < CP_MIN_R2) {
+    warnings.push(`The efforts fit the work–time line loosely (r² ${r2.toFixed(3)}, below ${CP_MIN_R2}): at least one was probably not all-out. Ride it again before trusting this critical power.`);
+  }
+  return {
+    cpW,
+    wPrimeJ,
+    r2,
+    warnings,
+    points: sorted.map((p) => ({ durationS: p.t, meanPowerW: p.p, workJ: p.w, fittedWorkJ: cpW * p.t + wPrimeJ })),
+  };
 }
 
 /**

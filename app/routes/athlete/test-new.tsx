@@ -2,6 +2,7 @@ import { useEffect, useMemo, useState } from "react";
 import { data, Link, redirect, useFetcher } from "react-router";
 import { z } from "zod";
 import { TraceChart } from "~/components/trace-chart";
+import { CpFitChart } from "~/components/cp-fit-chart";
 import { UploadBox, type UploadResult } from "~/components/upload-box";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
@@ -11,6 +12,7 @@ import { athleteSubject } from "~/.server/subject";
 import { todayIn } from "~/lib/dates";
 import { protocolSchema } from "~/lib/field-tests";
 import { PROTOCOLS, PROTOCOL_KEYS, READINESS, type ProtocolKey } from "~/lib/protocols";
+import { USUAL_RAMP_RATE_W_PER_MIN } from "~/lib/training";
 import type { Route } from "./+types/test-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New field test · Pacewright" }];
@@ -28,6 +30,7 @@ const saveSchema = z.object({
   testedOn: z.string(),
   readiness: z.unknown().optional(),
   requestKey: z.string().max(64).nullish(),
+  confirmed: z.boolean().nullish(),
 });
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -55,7 +58,14 @@ type Preview = {
   changes: { sessions: number; blocks: number };
   examples: { date: string; name: string; before: string; after: string }[];
   window: { startS: number; lengthS: number } | null;
-  pacing: { means: number[]; changePct: number; verdict: string } | null;
+  pacing: { means: number[]; changePct: number; verdict: string; advice: string | null } | null;
+  ramp: {
+    rateWPerMin: number;
+    withinUsual: boolean;
+    detected: { stepW: number; stepS: number; steps: number; firstStepW: number; lastCompletedStepW: number; failedIntoStepS: number } | null;
+  } | null;
+  fit: { cpW: number; wPrimeJ: number; r2: number; points: { durationS: number; meanPowerW: number; workJ: number; fittedWorkJ: number }[] } | null;
+  guard: { flagged: boolean; changePct: number | null; headline: string | null; reasons: string[] };
   error?: string;
 };
 
@@ -73,7 +83,11 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
   const [answers, setAnswers] = useState<(("yes" | "no") | null)[]>(READINESS.questions.map(() => null));
   const [stopRead, setStopRead] = useState(false);
   const [requestKey] = useState(() => (typeof crypto !== "undefined" && "randomUUID" in crypto ? crypto.randomUUID() : String(Math.random())));
-  const previewer = useFetcher<Preview>();
+  // A fresh fetcher per file: a new upload starts with no proposal, whatever the last file gave.
+  const [fileRound, setFileRound] = useState(0);
+  const previewer = useFetcher<Preview>({ key: `test-preview-${fileRound}` });
+  const [previewedFor, setPreviewedFor] = useState<string | null>(null);
+  const [confirmed, setConfirmed] = useState(false);
   const saver = useFetcher<{ error: string; field?: string }>();
   const p = PROTOCOLS[protocol];
   const athleteQuery = forCoach ? `?athleteId=${athlete.id}` : "";
@@ -95,14 +109,31 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
     testedOn,
     ...(source === "file" && upload ? { uploadId: upload.upload.id, windowStartS: windowStart } : { inputs }),
   };
-  const askPreview = () => previewer.submit(submission, { method: "post", action: `/api/tests/preview${athleteQuery}`, encType: "application/json" });
+  const submissionKey = JSON.stringify(submission);
+  const askPreview = () => {
+    setPreviewedFor(submissionKey);
+    previewer.submit(submission, { method: "post", action: `/api/tests/preview${athleteQuery}`, encType: "application/json" });
+  };
   useEffect(() => {
     if (source === "file" && upload) askPreview();
-  }, [upload, windowStart, protocol]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [upload, windowStart, protocol, testedOn, source]); // eslint-disable-line react-hooks/exhaustive-deps
+  // A confirmation is for the change the person saw; any edit asks for it again.
+  useEffect(() => setConfirmed(false), [submissionKey]);
 
-  const preview = previewer.data && !previewer.data.error ? previewer.data : null;
+  // A proposal counts only for exactly what is on the form now (a typed value edited after preview is not previewed).
+  const preview = previewer.data && !previewer.data.error && previewedFor === submissionKey ? previewer.data : null;
+  const needsConfirm = Boolean(preview?.guard.flagged);
+  const resetFile = () => {
+    setUpload(null);
+    setWindowStart(null);
+    setPreviewedFor(null);
+    setFileRound((n) => n + 1);
+  };
   const save = () =>
-    saver.submit({ ...submission, requestKey, readiness: p.maximal ? { answers, stopSignsRead: stopRead } : null }, { method: "post", encType: "application/json" });
+    saver.submit(
+      { ...submission, requestKey, confirmed: needsConfirm ? confirmed : null, readiness: p.maximal ? { answers, stopSignsRead: stopRead } : null },
+      { method: "post", encType: "application/json" },
+    );
   const field = (name: string, label: string, props: React.InputHTMLAttributes<HTMLInputElement> = {}) => (
     <label className="flex flex-col gap-1 text-sm">
       <span className="font-medium">{label}</span>
@@ -195,7 +226,15 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
             )}
             {source === "file" ? (
               <div className="flex flex-col gap-4">
-                <UploadBox athleteId={forCoach ? athlete.id : undefined} onUploaded={(r) => { setUpload(r); setWindowStart(null); }} />
+                <UploadBox
+                  athleteId={forCoach ? athlete.id : undefined}
+                  onStart={resetFile}
+                  onFailed={resetFile}
+                  onUploaded={(r) => {
+                    setUpload(r);
+                    setWindowStart(null);
+                  }}
+                />
                 {upload && (
                   <>
                     <TraceChart trace={upload.trace} window={preview?.window} />
@@ -216,17 +255,24 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
                       </label>
                     )}
                     {preview?.pacing && (
-                      <p className="num text-sm">
-                        Pacing in thirds: {preview.pacing.means.map((m) => `${Math.round(m)} W`).join(" · ")} — <strong>{preview.pacing.verdict}</strong>
-                        {preview.pacing.verdict === "fading" && " (a fading effort usually means the start was too fast; the threshold may be a little low)"}
-                      </p>
+                      <div className="flex flex-col gap-1 text-sm" data-testid="pacing">
+                        <p className="num">
+                          Pacing in thirds: {preview.pacing.means.map((m) => `${Math.round(m)} W`).join(" · ")} — <strong>{preview.pacing.verdict}</strong>
+                        </p>
+                        {preview.pacing.advice && <p className="rounded-lg bg-brick/5 p-2 text-ink">{preview.pacing.advice}</p>}
+                      </div>
                     )}
                   </>
                 )}
               </div>
             ) : (
               <div className="grid gap-4 sm:grid-cols-2">
-                {protocol === "ramp" && field("bestOneMinuteW", "Best one-minute power (W)", { inputMode: "decimal" })}
+                {protocol === "ramp" && (
+                  <>
+                    {field("bestOneMinuteW", "Best one-minute power (W)", { inputMode: "decimal" })}
+                    {field("rampRateWPerMin", "Ramp rate (W added per minute)", { inputMode: "decimal", placeholder: "20" })}
+                  </>
+                )}
                 {protocol === "twenty_minute" && field("meanW", "20-minute mean power (W)", { inputMode: "decimal" })}
                 {protocol === "eight_minute" && (
                   <>
@@ -322,6 +368,8 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
                 <p className="num">
                   <strong>{preview.changes.sessions}</strong> planned sessions ({preview.changes.blocks} steps) from {testedOn} will change.
                 </p>
+                {preview.ramp && <RampFacts ramp={preview.ramp} />}
+                {preview.fit && <CpFitChart fit={preview.fit} />}
                 {preview.examples.length > 0 && (
                   <ul className="num flex flex-col gap-1 text-xs">
                     {preview.examples.map((e) => (
@@ -336,12 +384,55 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
               !previewer.data?.error && <p className="mt-2 text-sm text-ink-soft">Enter the result (or upload the file) and preview it.</p>
             )}
           </Card>
+          {preview?.guard.flagged && (
+            <Card className="border-brick/60" aria-labelledby="guard-heading" data-testid="guard">
+              <h2 id="guard-heading" className="font-semibold text-brick">
+                Check before saving
+              </h2>
+              <p className="mt-1 text-sm">{preview.guard.headline}</p>
+              {preview.guard.reasons.length > 0 && (
+                <>
+                  <p className="mt-2 text-sm font-medium">Likely reasons</p>
+                  <ul className="mt-1 flex list-disc flex-col gap-1 pl-5 text-sm">
+                    {preview.guard.reasons.map((r) => (
+                      <li key={r}>{r}</li>
+                    ))}
+                  </ul>
+                </>
+              )}
+              <label className="mt-3 flex items-start gap-2 text-sm font-medium">
+                <input type="checkbox" className="mt-1" checked={confirmed} onChange={(e) => setConfirmed(e.target.checked)} />
+                <span>I have read these reasons and want this threshold to replace the current one.</span>
+              </label>
+            </Card>
+          )}
           {saver.data?.error && <FormMessage>{saver.data.error}</FormMessage>}
-          <button type="button" className={buttonClass("primary", "py-2.5")} onClick={save} disabled={!preview || saver.state !== "idle"}>
+          <button type="button" className={buttonClass("primary", "py-2.5")} onClick={save} disabled={!preview || (needsConfirm && !confirmed) || saver.state !== "idle"}>
             {saver.state !== "idle" ? "Saving…" : "Save and rescale"}
           </button>
         </aside>
       </div>
     </>
+  );
+}
+
+function RampFacts({ ramp }: { ramp: NonNullable<Preview["ramp"]> }) {
+  const d = ramp.detected;
+  const { low, high } = USUAL_RAMP_RATE_W_PER_MIN;
+  return (
+    <div className="num rounded-lg bg-paper p-2 text-xs" data-testid="ramp-facts">
+      {d && (
+        <p>
+          Found {d.steps} steps of {Math.round(d.stepW)} W every {d.stepS} s, from {Math.round(d.firstStepW)} W; last completed step {Math.round(d.lastCompletedStepW)} W
+          {d.failedIntoStepS > 0 ? `, stopped ${d.failedIntoStepS} s into the next` : ""}.
+        </p>
+      )}
+      <p className={ramp.withinUsual ? "" : "font-medium text-brick"}>
+        Ramp rate {Math.round(ramp.rateWPerMin * 10) / 10} W per minute:{" "}
+        {ramp.withinUsual
+          ? `within the usual ${low}–${high} W per minute, so the 75 % rule applies (common practice).`
+          : `outside the usual ${low}–${high} W per minute, so the 75 % rule does not hold; confirm with another test.`}
+      </p>
+    </div>
   );
 }

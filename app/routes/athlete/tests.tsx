@@ -29,7 +29,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   const form = await request.formData();
   try {
     const { undo } = await undoTest(athlete, viewer, Number(form.get("testId")));
-    return { ok: true, message: `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets.` };
+    return { ok: true, message: `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets. A correction has been e-mailed to the athlete and coach.` };
   } catch (err) {
     if (err instanceof TestError) return data({ ok: false, message: err.message }, { status: err.status });
     throw err;
@@ -45,7 +45,10 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
   const series = [...new Set(thresholds.map((t) => `${t.sport}:${t.metric}`))];
   const [shown, setShown] = useState(series[0] ?? "");
   const points = thresholds.filter((t) => `${t.sport}:${t.metric}` === shown).map((t) => ({ date: t.effectiveFrom, value: t.value, source: t.source }));
-  const saved = params.get("saved") ? reports.find((r) => r.kind === "apply") : null;
+  // The "saved" note speaks only for a test that still stands: after an undo it would contradict the list.
+  const savedId = Number(params.get("saved"));
+  const savedTest = savedId ? tests.find((t) => t.id === savedId) : undefined;
+  const saved = savedTest?.status === "active" ? reports.find((r) => r.kind === "apply" && r.fieldTestId === savedId) : null;
   return (
     <>
       <PageHeader
@@ -63,6 +66,7 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
             Saved. {LABEL[`${saved.sport}:${saved.metric}`]} is now {show(saved.newValue ?? 0, saved.unit)}
             {saved.oldValue ? ` (was ${show(saved.oldValue, saved.unit)})` : ""}: {saved.sessions} planned sessions, {saved.blocks} steps rescaled.
             {saved.examples.length > 0 && ` For example ${saved.examples[0].name} on ${saved.examples[0].date}: ${saved.examples[0].before} → ${saved.examples[0].after}.`}
+            {saved.guard?.flagged && saved.confirmedBy && ` ${saved.confirmedBy} confirmed this change after the plausibility check.`}
           </FormMessage>
         </div>
       )}
@@ -99,16 +103,29 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
                     <th className="py-1 font-medium">Date</th>
                     <th className="py-1 font-medium">Test</th>
                     <th className="py-1 font-medium">Threshold</th>
+                    <th className="py-1 font-medium">Status</th>
                     <th className="py-1 font-medium" />
                   </tr>
                 </thead>
                 <tbody>
                   {tests.map((t) => (
-                    <tr key={t.id} className={`border-t border-line/60 ${t.status === "undone" ? "text-ink-soft line-through" : ""}`}>
+                    <tr key={t.id} className={`border-t border-line/60 ${t.status === "undone" ? "text-ink-soft" : ""}`} data-status={t.status}>
                       <td className="py-2">{t.testedOn}</td>
                       <td className="py-2">{t.label}</td>
-                      <td className="py-2">
+                      <td className={`py-2 ${t.status === "undone" ? "line-through" : ""}`}>
                         {LABEL[`${t.sport}:${t.metric}`]} {t.display}
+                      </td>
+                      <td className="py-2 text-xs">
+                        {t.status === "undone" ? (
+                          <span className="font-medium text-brick">
+                            Undone {t.undoneAt?.slice(0, 10)}
+                            {t.undoneBy ? ` by ${t.undoneBy}` : ""}
+                          </span>
+                        ) : t.inForce ? (
+                          <span className="font-medium text-teal-dark">In force</span>
+                        ) : (
+                          <span>Replaced by a later threshold</span>
+                        )}
                       </td>
                       <td className="py-2 text-right">
                         {t.canUndo && (

@@ -94,7 +94,7 @@ export default function NewPlan({ loaderData, actionData }: Route.ComponentProps
                 <option value="3:1">3 weeks up, 1 easy</option>
                 <option value="2:1">2 weeks up, 1 easy</option>
               </SelectField>
-              <Field label="Field test every (weeks)" name="testEveryWeeks" type="number" min={2} max={16} value={testEvery} onChange={(e) => setTestEvery(e.target.value)} error={errors.testEveryWeeks} />
+              <Field label="Field test every (weeks)" name="testEveryWeeks" type="number" min={4} max={8} value={testEvery} onChange={(e) => setTestEvery(e.target.value)} error={errors.testEveryWeeks} />
             </div>
             <label className="flex flex-col gap-1 text-sm">
               <span className="font-medium">Description (optional)</span>
