@@ -200,13 +200,43 @@ export async function applyProviderEvent(event: { id: string; type: string; crea
     let outcome = order ? "not-used" : "no-order";
     let status: OrderStatus | null = null;
     if (order) {
-      const change = factsFrom(order, event.type, o, at);
+      let change = factsFrom(order, event.type, o, at);
+      const newPayment = change.patch.paymentIntentId && change.patch.paymentIntentId !== order.paymentIntentId ? change.patch.paymentIntentId : null;
+      if (newPayment) change = await withWaiting(order, change, newPayment, transaction);
       outcome = change.outcome;
       status = (await settle(order, change, transaction)).status;
+      await PaymentEvent.create({ providerEventId: event.id, type: event.type, orderId: order.id, outcome, payload: rawBody.slice(0, 20_000) }, { transaction });
+      return { outcome, status };
     }
-    await PaymentEvent.create({ providerEventId: event.id, type: event.type, orderId: order?.id ?? null, outcome, payload: rawBody.slice(0, 20_000) }, { transaction });
+    // Kept, not dropped: a refund or charge event may name only a payment the order learns about later.
+    await PaymentEvent.create({ providerEventId: event.id, type: event.type, orderId: null, outcome, payload: rawBody.slice(0, 20_000) }, { transaction });
     return { outcome, status };
   });
+}
+
+/**
+ * Once an order learns its payment id, events that arrived earlier naming only that payment (a refund delivered
+ * before the payment it refunds) join this change in the provider's order, so the effects run once, on the
+ * combined facts, as if the events had arrived in turn.
+ */
+async function withWaiting(order: Order, change: Change, pi: string, transaction: Transaction): Promise<Change> {
+  const waiting = await PaymentEvent.findAll({ where: { orderId: null, outcome: "no-order", payload: { [Op.like]: `%${pi.replace(/[%\\]/g, "")}%` } }, transaction });
+  const events = waiting
+    .map((row) => ({ row, event: JSON.parse(row.payload) as { type: string; created?: number; data: { object: Obj } } }))
+    .filter(({ event }) => idOf(event.data.object.payment_intent) === pi || (event.type.startsWith("payment_intent.") && event.data.object.id === pi))
+    .sort((a, b) => (a.event.created ?? 0) - (b.event.created ?? 0));
+  if (!events.length) return change;
+  const patch = { ...change.patch };
+  const reviews = change.review ? [change.review] : [];
+  order.set(change.patch);
+  for (const { row, event } of events) {
+    const late = factsFrom(order, event.type, event.data.object, new Date((event.created ?? 0) * 1000));
+    order.set(late.patch);
+    Object.assign(patch, late.patch);
+    if (late.review) reviews.push(late.review);
+    await row.update({ orderId: order.id, outcome: `${late.outcome} (applied late)` }, { transaction });
+  }
+  return { patch, outcome: `${change.outcome}+${events.length} waiting`, review: reviews.join(" ") || undefined };
 }
 
 async function place(order: Order, transaction: Transaction): Promise<string[]> {
