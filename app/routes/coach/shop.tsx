@@ -81,14 +81,15 @@ const column = createColumnHelper<Sale>();
  * Two steps in the page instead of window.confirm: the question replaces the button, focus moves to the answer,
  * and Escape or "Keep" puts the button back — the same by mouse, keyboard and touch.
  */
-function RefundButton({ sale }: { sale: { id: number; amount: string } }) {
+function RefundButton({ sale }: { sale: { id: number; amount: string; status?: string } }) {
   const fetcher = useFetcher<Result>();
   const [asking, setAsking] = useState(false);
   const confirmRef = useRef<HTMLButtonElement>(null);
   useEffect(() => {
     if (asking) confirmRef.current?.focus();
   }, [asking]);
-  if (fetcher.data?.ok) return <span className="block text-xs text-teal">{fetcher.data.message}</span>;
+  if (fetcher.data?.ok) return <span className="block text-xs text-teal" role="status">{fetcher.data.message}</span>;
+  if (sale.status && sale.status !== "fulfilled") return null;
   return (
     <fetcher.Form method="post" onSubmit={() => setAsking(false)} onKeyDown={(e) => e.key === "Escape" && setAsking(false)}>
       <input type="hidden" name="orderId" value={sale.id} />
@@ -128,7 +129,7 @@ const SALES_COLUMNS = [
   }),
   column.accessor("amountCents", { header: "Amount", cell: (c) => c.row.original.amount }),
   column.accessor("date", { header: "Date" }),
-  column.display({ id: "refund", header: "", cell: (c) => (c.row.original.status === "fulfilled" ? <RefundButton sale={c.row.original} /> : null) }),
+  column.display({ id: "refund", header: "", cell: (c) => <RefundButton sale={c.row.original} /> }),
 ];
 
 function ReviewItem({ row }: { row: ReviewRow }) {
