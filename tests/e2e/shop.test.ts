@@ -147,6 +147,31 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await warning.getByLabel(/start after it ends/).check();
     await page.getByRole("button", { name: /Buy for/ }).click();
     await page.waitForURL(/\/pay\/cs_test_/);
+    const payPage = page.url();
+    // Cancel, then come back to the pay page and pay anyway: the money is not lost, a person sees it.
+    await page.getByRole("button", { name: "Cancel and go back" }).click();
+    await page.locator("[data-testid=order-status][data-status=expired]").waitFor();
+    await page.goto(payPage);
+    await page.getByLabel("Card number").fill("4242 4242 4242 4242");
+    await page.getByRole("button", { name: /^Pay/ }).click();
+    await page.locator("[data-testid=order-status][data-status=needs_review]").waitFor();
+    await shot(page, "order-needs-review-phone");
+
+    const cctx = await env.browser.newContext({ viewport: { width: 390, height: 844 } });
+    const coach = await cctx.newPage();
+    await signInAs(coach, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
+    await coach.waitForURL(`${env.app.baseUrl}/coach`);
+    await coach.goto(`${env.app.baseUrl}/coach/shop`);
+    await ready(coach);
+    const item = coach.getByTestId("review-item").filter({ hasText: "Tomás Reyes" });
+    await item.getByText(/Paid after the checkout had expired/).waitFor();
+    await shot(coach, "coach-review-phone");
+    await item.getByRole("button", { name: "Deliver the plan" }).click();
+    await coach.getByText("Nothing waiting: every payment event matched its order.").waitFor();
+    await coach.getByRole("row").filter({ hasText: "Tomás Reyes" }).locator("[data-status=fulfilled]").waitFor();
+    await page.reload();
+    await page.locator("[data-testid=order-status][data-status=fulfilled]").waitFor();
+    await cctx.close();
     await ctx.close();
   });
 });

@@ -236,6 +236,15 @@ describe("plan shop against the local payment provider", () => {
     expect(await mails(coach)).toEqual(["order-review"]);
     const page = payloadOf(await run(coachShop.loader, getRequest("/coach/shop", coachCookie)));
     expect(page.review.map((r: { id: number }) => r.id)).toEqual([order.id]);
+    // Admins see it across the studio; another coach neither sees nor resolves it.
+    const admin = await makeUser({ role: "admin" });
+    const adminPage = payloadOf(await run(coachShop.loader, getRequest("/coach/shop", await signIn(admin.email))));
+    expect(adminPage.review.map((r: { id: number }) => r.id)).toContain(order.id);
+    const other = await signIn((await makeUser({ role: "coach" })).email);
+    expect(payloadOf(await run(coachShop.loader, getRequest("/coach/shop", other))).review).toEqual([]);
+    expect(statusOf(await run(coachShop.action, formRequest("/coach/shop", { intent: "deliver", orderId: String(order.id) }, { cookie: other })))).toBe(404);
+    const close = await run(coachShop.action, formRequest("/coach/shop", { intent: "close", orderId: String(order.id) }, { cookie: coachCookie }));
+    expect(payloadOf(close).message).toMatch(/Money was paid/);
     // The coach delivers: the plan lands and the receipt goes out once.
     const res = await run(coachShop.action, formRequest("/coach/shop", { intent: "deliver", orderId: String(order.id) }, { cookie: coachCookie }));
     expect(payloadOf(res).ok).toBe(true);

@@ -85,6 +85,7 @@ type Obj = {
 };
 
 const idOf = (v: string | { id: string } | null | undefined) => (typeof v === "string" ? v : (v?.id ?? null));
+const when = (d: Date) => `${d.toISOString().slice(0, 16).replace("T", " ")} UTC`;
 const money = (cents: number | null | undefined, currency: string | null | undefined) => (cents == null ? "nothing" : formatPrice(cents, (currency ?? "EUR").toUpperCase()));
 
 async function findOrder(type: string, o: Obj, transaction: Transaction) {
@@ -120,7 +121,7 @@ function factsFrom(order: Order, type: string, o: Obj, at: Date): Change {
       return { patch, outcome: "review", review: `Paid ${money(amount, currency)}, expected ${money(order.amountCents, order.currency)}.` };
     // Ties in the provider's one-second clock go by arrival: an expiry already on record came first.
     if (order.expiredAt && order.expiredAt.getTime() <= at.getTime())
-      return { patch, outcome: "review", review: `Paid after the checkout had expired or been cancelled (${order.expiredAt.toISOString()}); the plan was not placed.` };
+      return { patch, outcome: "review", review: `Paid after the checkout had expired or been cancelled (${when(order.expiredAt)}); the plan was not placed.` };
     return { patch, outcome: "paid" };
   };
   const refunded = (entries: { id: string; amount: number; status?: string }[], cumulative: number | undefined): Change => {
@@ -157,7 +158,7 @@ function factsFrom(order: Order, type: string, o: Obj, at: Date): Change {
     case "checkout.session.expired":
       if (order.expiredAt) return { patch: {}, outcome: "already-expired" };
       if (order.paidCents !== null && order.paidAt && at.getTime() < order.paidAt.getTime())
-        return { patch: { expiredAt: at }, outcome: "review", review: `Paid after the checkout had expired or been cancelled (${at.toISOString()}); the plan was placed before the expiry arrived.` };
+        return { patch: { expiredAt: at }, outcome: "review", review: `Paid after the checkout had expired or been cancelled (${when(at)}); the plan was placed before the expiry arrived.` };
       return { patch: { expiredAt: at }, outcome: order.paidCents !== null ? "stale-expiry" : "expired" };
     case "charge.refunded":
       return refunded((o.refunds?.data ?? []).map((r) => ({ id: r.id, amount: r.amount, status: r.status })), o.amount_refunded);
