@@ -262,31 +262,31 @@ export default function CoachShop({ loaderData }: Route.ComponentProps) {
       <div className={`grid gap-6 ${plans.length || !admin ? "lg:grid-cols-[22rem_1fr]" : ""}`}>
         {(plans.length > 0 || !admin) && (
           <Card className="self-start">
-          <h2 className="font-semibold">List a plan</h2>
-          <create.Form method="post" className="mt-3 flex flex-col gap-3" noValidate>
-            {create.data && <FormMessage tone={create.data.ok ? "ok" : "error"}>{create.data.message}</FormMessage>}
-            <SelectField label="Season plan" name="planId" error={errors.planId}>
-              {plans.map((p) => (
-                <option key={p.id} value={p.id}>
-                  {p.name}
-                </option>
-              ))}
-            </SelectField>
-            <ListingFields errors={errors} />
-            <div className="grid grid-cols-2 gap-2">
-              <Field label="Price" name="price" inputMode="decimal" error={errors.price} />
-              <SelectField label="Currency" name="currency" error={errors.currency}>
-                {CURRENCIES.map((c) => (
-                  <option key={c} value={c}>
-                    {c}
+            <h2 className="font-semibold">List a plan</h2>
+            <create.Form method="post" className="mt-3 flex flex-col gap-3" noValidate>
+              {create.data && <FormMessage tone={create.data.ok ? "ok" : "error"}>{create.data.message}</FormMessage>}
+              <SelectField label="Season plan" name="planId" error={errors.planId}>
+                {plans.map((p) => (
+                  <option key={p.id} value={p.id}>
+                    {p.name}
                   </option>
                 ))}
               </SelectField>
-            </div>
-            <button name="intent" value="create" className={buttonClass("primary")}>
-              Create listing
-            </button>
-          </create.Form>
+              <ListingFields errors={errors} />
+              <div className="grid grid-cols-2 gap-2">
+                <Field label="Price" name="price" inputMode="decimal" error={errors.price} />
+                <SelectField label="Currency" name="currency" error={errors.currency}>
+                  {CURRENCIES.map((c) => (
+                    <option key={c} value={c}>
+                      {c}
+                    </option>
+                  ))}
+                </SelectField>
+              </div>
+              <button name="intent" value="create" className={buttonClass("primary")}>
+                Create listing
+              </button>
+            </create.Form>
           </Card>
         )}
         <div className="flex min-w-0 flex-col gap-6">
