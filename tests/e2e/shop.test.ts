@@ -174,4 +174,28 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await cctx.close();
     await ctx.close();
   });
+
+  it("a buyer on another host name for the same machine comes back from paying still signed in", async () => {
+    const other = env.app.baseUrl.replace("localhost", "127.0.0.1");
+    const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await ctx.newPage();
+    await signInAs(page, other, "jonah@harbourline.example", "harbour-line-demo");
+    await page.waitForURL(`${other}/athlete`);
+    await page.goto(`${other}/shop`);
+    await ready(page);
+    await page.getByRole("link", { name: /Twelve-week road build/ }).click();
+    await page.waitForURL(/\/shop\/twelve-week-road-build-/);
+    await ready(page);
+    // Jonah runs and has no bike threshold: he is told before paying what his sessions will show.
+    await page.getByTestId("needs-test-warning").getByText(/no bike threshold yet/).waitFor();
+    await shot(page, "listing-needs-test");
+    await page.getByRole("button", { name: /Buy for/ }).click();
+    await page.waitForURL(/\/pay\/cs_test_/);
+    await page.getByLabel("Card number").fill("4242 4242 4242 4242");
+    await page.getByRole("button", { name: /^Pay/ }).click();
+    await page.waitForURL(new RegExp(`^${other.replace(/[.]/g, "\\.")}/shop/orders/\\d+`));
+    await page.locator("[data-testid=order-status][data-status=fulfilled]").waitFor();
+    await page.getByRole("button", { name: "Sign out" }).waitFor();
+    await ctx.close();
+  });
 });

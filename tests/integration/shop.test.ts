@@ -188,6 +188,17 @@ describe("provider event sequences end in one state, whatever their order", () =
     expect(await mails(bBuyer)).toEqual(["receipt"]);
   });
 
+  it("a payment for no known order is kept and shown to admins, not dropped", async () => {
+    const ghost = { order: { id: 987654, amountCents: 4900 } as Order, sessionId: "cs_test_ghost" };
+    const res = await deliverSigned(eventFor(ghost, PAID, Math.floor(Date.now() / 1000)));
+    expect(await res.json()).toMatchObject({ outcome: "no-order" });
+    const admin = await makeUser({ role: "admin" });
+    const page = payloadOf(await run(coachShop.loader, getRequest("/coach/shop", await signIn(admin.email))));
+    expect(page.unmatched.map((e: { providerEventId: string }) => e.providerEventId)).toContain("evt_987654_checkout.session.completed_2");
+    const coach = await makeUser({ role: "coach" });
+    expect(payloadOf(await run(coachShop.loader, getRequest("/coach/shop", await signIn(coach.email)))).unmatched).toEqual([]);
+  });
+
   it("the state follows from the facts alone (the machine's table)", () => {
     const base = { amountCents: 4900, paidCents: null, refundedCents: 0, reviewReason: null, expiredAt: null, declinedCount: 0 };
     expect(deriveStatus(base)).toBe("created");

@@ -341,8 +341,9 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
     if (order.status === "refunded") return { already: true as const, order };
     if (order.paidCents === null || !order.paymentIntentId) throw new OrderError("There is no payment on record to refund.");
     if (order.refundRequestedAt && Date.now() - order.refundRequestedAt.getTime() < 60_000) return { already: true as const, order };
-    await order.update({ refundRequestedAt: new Date() }, { transaction });
-    return { already: false as const, order };
+    const at = new Date();
+    await order.update({ refundRequestedAt: at }, { transaction });
+    return { already: false as const, order, at };
   });
   if (claim.already) return { already: true, removed: 0 };
   let refund;
@@ -354,12 +355,12 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
   }
   return writeTransaction(async (transaction) => {
     const order = (await Order.findByPk(claim.order.id, { transaction }))!;
-    const before = await ScheduledSession.count({ where: { assignmentId: order.assignmentId ?? 0, status: "cancelled" }, transaction });
     const change = factsFrom(order, "refund.created", { id: refund.id, amount: refund.amount, status: refund.status ?? "succeeded" }, new Date());
     if (order.reviewReason) change.patch.reviewReason = null;
     await settle(order, change, transaction, `Refunded by ${by.name}.`);
-    const after = await ScheduledSession.count({ where: { assignmentId: order.assignmentId ?? 0, status: "cancelled" }, transaction });
-    return { already: false, removed: after - before };
+    // Counted from the claim: the provider's own refund event may have removed them a moment earlier.
+    const removed = order.assignmentId ? await ScheduledSession.count({ where: { assignmentId: order.assignmentId, status: "cancelled", cancelledAt: { [Op.gte]: claim.at } }, transaction }) : 0;
+    return { already: false, removed };
   });
 }
 
@@ -375,6 +376,21 @@ export async function resolveReview(by: User, orderId: number, action: "deliver"
     }
     if (order.paidCents !== null && order.refundedCents < order.paidCents) throw new OrderError("Money was paid for this order: deliver the plan or refund it.");
     return settle(order, { patch: { reviewReason: null, expiredAt: order.expiredAt ?? new Date() }, outcome: "closed" }, transaction, `Closed by ${by.name} after review: ${reason}`);
+  });
+}
+
+/** Money events the provider sent that match no order at all: only an admin can chase them. */
+export async function unmatchedEvents() {
+  const rows = await PaymentEvent.findAll({ where: { orderId: null, outcome: "no-order", type: ["checkout.session.completed", "checkout.session.async_payment_succeeded", "payment_intent.succeeded", "charge.refunded", "refund.created", "refund.updated", "charge.dispute.created"] }, order: [["createdAt", "DESC"]], limit: 50 });
+  return rows.map((r) => {
+    let summary = "";
+    try {
+      const o = (JSON.parse(r.payload) as { data: { object: Obj } }).data.object;
+      summary = [o.id, idOf(o.payment_intent), o.amount_total ?? o.amount_refunded ?? o.amount_received ?? o.amount, o.currency].filter((x) => x !== undefined && x !== null).join(" · ");
+    } catch {
+      summary = "unreadable payload";
+    }
+    return { id: r.id, providerEventId: r.providerEventId, type: r.type, summary, at: r.createdAt.toISOString().slice(0, 16).replace("T", " ") };
   });
 }
 

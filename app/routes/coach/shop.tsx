@@ -7,7 +7,7 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage, SelectField } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { Listing, SeasonPlan } from "~/.server/models";
-import { OrderError, resolveReview, reviewQueue } from "~/.server/services/orders";
+import { OrderError, resolveReview, reviewQueue, unmatchedEvents } from "~/.server/services/orders";
 import { createListing, formatPrice, listingEditSchema, listingSchema, refundOrder, salesFor, setPublished, ShopError, updateListing } from "~/.server/services/shop";
 import { CURRENCIES, LEVELS } from "~/lib/shop";
 import { parseForm } from "~/lib/forms";
@@ -28,6 +28,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     listings: listings.map((l) => ({ id: l.id, slug: l.slug, title: l.title, description: l.description, coverText: l.coverText ?? "", level: l.level, priceText: (l.priceCents / 100).toFixed(2), currency: l.currency, price: formatPrice(l.priceCents, l.currency), published: l.published, weeks: l.weeks })),
     sales,
     review: await reviewQueue(coach),
+    unmatched: coach.role === "admin" ? await unmatchedEvents() : [],
     totals: [...totals.entries()].map(([c, cents]) => formatPrice(cents, c)),
   };
 }
@@ -141,7 +142,7 @@ function ReviewItem({ row }: { row: ReviewRow }) {
           #{row.id} · {row.listing}
         </span>
         <span className="text-ink-soft">
-          {row.buyer} ({row.buyerEmail}) · since {row.since}
+          {row.buyer} ({row.buyerEmail}) · sold by {row.coach} · since {row.since}
         </span>
       </div>
       <p className="text-brick">{row.reason}</p>
@@ -239,7 +240,7 @@ function ListingItem({ listing }: { listing: ListingRow }) {
 }
 
 export default function CoachShop({ loaderData }: Route.ComponentProps) {
-  const { plans, listings, sales, totals, review, admin } = loaderData;
+  const { plans, listings, sales, totals, review, admin, unmatched } = loaderData;
   const create = useFetcher<Result>();
   const errors = create.data?.fieldErrors ?? {};
   return (
@@ -257,6 +258,19 @@ export default function CoachShop({ loaderData }: Route.ComponentProps) {
               <ReviewItem key={r.id} row={r} />
             ))}
           </ul>
+        )}
+        {unmatched.length > 0 && (
+          <div className="mt-3 border-t border-line pt-3 text-sm" data-testid="unmatched-events">
+            <h3 className="font-medium">Provider events that match no order</h3>
+            <p className="text-xs text-ink-soft">Money moved at the provider for something this studio has no order for (or not yet): look it up there.</p>
+            <ul className="num mt-1 flex flex-col gap-1 text-xs">
+              {unmatched.map((e) => (
+                <li key={e.id}>
+                  {e.at} · {e.type} · {e.providerEventId} · {e.summary}
+                </li>
+              ))}
+            </ul>
+          </div>
         )}
       </section>
       <div className={`grid gap-6 ${plans.length || !admin ? "lg:grid-cols-[22rem_1fr]" : ""}`}>
