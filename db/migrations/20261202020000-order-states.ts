@@ -18,7 +18,8 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.addColumn("orders", "refund_notice_sent_at", { type: DataTypes.DATE, allowNull: true });
   await qi.addColumn("orders", "return_origin", { type: DataTypes.STRING(255), allowNull: true });
   await qi.addColumn("listings", "cover_text", { type: DataTypes.STRING(200), allowNull: true });
-  // Old names onto the machine's states; facts that the old columns imply are carried over.
+  // The column's database default stays 'pending' (SQLite cannot change a default in place); the model writes
+  // 'created' on every insert. Old names onto the machine's states; facts that the old columns imply are carried over.
   await qi.sequelize.query("UPDATE orders SET status = 'created' WHERE status = 'pending'");
   await qi.sequelize.query("UPDATE orders SET status = 'expired', expired_at = updated_at WHERE status = 'cancelled'");
   await qi.sequelize.query("UPDATE orders SET status = 'needs_review', review_reason = COALESCE(note, 'Flagged before the review queue existed.') WHERE status = 'flagged'");

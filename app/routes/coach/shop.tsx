@@ -123,9 +123,12 @@ const SALES_COLUMNS = [
   column.accessor("status", {
     header: "Status",
     cell: (c) => (
-      <span data-testid="sale-status" data-status={c.getValue()} className={c.getValue() === "needs_review" ? "font-medium text-brick" : undefined}>
-        {c.row.original.label}
-      </span>
+      <>
+        <span data-testid="sale-status" data-status={c.getValue()} className={c.getValue() === "needs_review" ? "font-medium text-brick" : undefined}>
+          {c.row.original.label}
+        </span>
+        {c.row.original.note && <span className="block max-w-56 text-xs text-ink-soft">{c.row.original.note}</span>}
+      </>
     ),
   }),
   column.accessor("amountCents", { header: "Amount", cell: (c) => c.row.original.amount }),
