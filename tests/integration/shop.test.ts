@@ -295,6 +295,22 @@ describe("plan shop against the local payment provider", () => {
     expect(sales.find((s: { id: number }) => s.id === order.id)).toMatchObject({ status: "refunded", label: "refunded" });
   });
 
+  it("two refund clicks at once make one refund at the provider and one notice", async () => {
+    const { listing, buyer, buyerCookie, coachCookie } = await shopScenario();
+    await pay(await checkout(listing.slug, buyerCookie), { action: "pay", card: TEST_CARDS.success });
+    const order = (await Order.findOne({ where: { buyerId: buyer.id } }))!;
+    const click = () => run(coachShop.action, formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: coachCookie }));
+    const messages = (await Promise.all([click(), click()])).map((r) => payloadOf(r).message as string).sort();
+    expect(messages[0]).toMatch(/^(A refund for this order is already on its way|Already refunded)/);
+    expect(messages[1]).toMatch(/^Refunded; /);
+    await fake.settle();
+    await order.reload();
+    expect(order).toMatchObject({ status: "refunded", refundedCents: 4900 });
+    expect(Object.keys(order.refunds)).toHaveLength(1);
+    expect(await PaymentEvent.count({ where: { orderId: order.id, type: "charge.refunded" } })).toBe(1);
+    expect(await mails(buyer)).toEqual(["receipt", "refund-notice"]);
+  });
+
   it("a refund made at the provider removes the buyer's future sessions and tells them", async () => {
     const { listing, buyer, buyerCookie } = await shopScenario();
     const url = await checkout(listing.slug, buyerCookie);

@@ -335,17 +335,17 @@ async function ownedOrder(by: User, orderId: number, transaction?: Transaction) 
  * A refund asked for by a person (the coach's button or a review's resolve). Refunding twice does nothing the
  * second time: the order is claimed first, and the provider call carries an idempotency key as well.
  */
-export async function refundByPerson(by: User, orderId: number): Promise<{ already: boolean; removed: number }> {
+export async function refundByPerson(by: User, orderId: number): Promise<{ already: boolean; removed: number; inFlight?: boolean }> {
   const claim = await writeTransaction(async (transaction) => {
     const order = await ownedOrder(by, orderId, transaction);
     if (order.status === "refunded") return { already: true as const, order };
     if (order.paidCents === null || !order.paymentIntentId) throw new OrderError("There is no payment on record to refund.");
-    if (order.refundRequestedAt && Date.now() - order.refundRequestedAt.getTime() < 60_000) return { already: true as const, order };
+    if (order.refundRequestedAt && Date.now() - order.refundRequestedAt.getTime() < 60_000) return { already: true as const, order, inFlight: true };
     const at = new Date();
     await order.update({ refundRequestedAt: at }, { transaction });
     return { already: false as const, order, at };
   });
-  if (claim.already) return { already: true, removed: 0 };
+  if (claim.already) return { already: true, removed: 0, inFlight: "inFlight" in claim };
   let refund;
   try {
     refund = await payments().refunds.create({ payment_intent: claim.order.paymentIntentId!, metadata: { orderId: String(claim.order.id) } }, { idempotencyKey: `pacewright-order-${claim.order.id}-refund` });

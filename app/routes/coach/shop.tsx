@@ -62,7 +62,7 @@ export async function action({ request }: Route.ActionArgs) {
     }
     if (intent === "refund") {
       const r = await refundOrder(coach, Number(form.get("orderId")));
-      if (r.already) return { ok: true, message: "Already refunded: nothing more to do." } satisfies Result;
+      if (r.already) return { ok: true, message: r.inFlight ? "A refund for this order is already on its way." : "Already refunded: nothing more to do." } satisfies Result;
       return { ok: true, message: `Refunded; ${r.removed} future session${r.removed === 1 ? "" : "s"} removed from the buyer's calendar.` } satisfies Result;
     }
   } catch (err) {
