@@ -179,6 +179,11 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     const other = env.app.baseUrl.replace("localhost", "127.0.0.1");
     const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await ctx.newPage();
+    // Signed out, the shop has its own small header with the way to sign in.
+    await page.goto(`${other}/shop`);
+    await ready(page);
+    await page.getByRole("link", { name: "Sign in" }).waitFor();
+    await shot(page, "shop-signed-out");
     await signInAs(page, other, "jonah@harbourline.example", "harbour-line-demo");
     await page.waitForURL(`${other}/athlete`);
     await page.goto(`${other}/shop`);
