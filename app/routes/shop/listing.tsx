@@ -123,7 +123,7 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
             </ul>
           </Card>
         </div>
-        <Card className="self-start">
+        <Card className="order-first self-start lg:order-none">
           <p className="num text-3xl font-semibold text-teal-dark">{listing.price}</p>
           {actionData?.error && (
             <div className="mt-3">
