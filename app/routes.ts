@@ -19,9 +19,11 @@ export default [
   route("api/athletes/:id/load", "routes/api/athlete-load.ts"),
   route("api/shop", "routes/api/shop.ts"),
   route("webhooks/payments", "routes/webhooks/payments.ts"),
-  route("shop", "routes/shop/index.tsx"),
-  route("shop/orders/:orderId", "routes/shop/order.tsx"),
-  route("shop/:slug", "routes/shop/listing.tsx"),
+  layout("routes/shop/layout.tsx", [
+    route("shop", "routes/shop/index.tsx"),
+    route("shop/orders/:orderId", "routes/shop/order.tsx"),
+    route("shop/:slug", "routes/shop/listing.tsx"),
+  ]),
 
   layout("routes/app-layout.tsx", [
     route("coach", "routes/coach/roster.tsx"),

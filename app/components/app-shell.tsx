@@ -20,7 +20,10 @@ const NAV: Record<Role, { to: string; label: string; end?: boolean }[]> = {
     { to: "/athlete/feed", label: "Calendar feed" },
     { to: "/shop", label: "Plan shop" },
   ],
-  admin: [{ to: "/admin/users", label: "Users" }],
+  admin: [
+    { to: "/admin/users", label: "Users" },
+    { to: "/coach/shop", label: "Orders" },
+  ],
 };
 
 export function AppShell({

@@ -15,7 +15,8 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     title: "Twelve-week road build",
     description: "Aerobic base into threshold and capacity work, with a recovery week every fourth week and field tests to keep your targets right.",
     level: "intermediate",
-    price: 39,
+    priceCents: 3900,
+    coverText: "Base to threshold in twelve weeks, retested along the way.",
     currency: "EUR",
   });
   await Listing.update({ published: true }, { where: { id: listing.id } });

@@ -48,6 +48,14 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
   const signer = new Stripe("sk_test_signer", { telemetry: false });
   let base = "";
   const deliveries: Promise<void>[] = [];
+  const refunded = new Map<string, { id: string; amount: number; status: string }[]>();
+  const refundsByKey = new Map<string, unknown>();
+  /** The charge behind a paid session, as charge.* events carry it. */
+  const chargeOf = (s: FakeSession) => {
+    const refunds = refunded.get(s.id) ?? [];
+    const amountRefunded = refunds.reduce((sum, r) => sum + r.amount, 0);
+    return { id: `ch_${s.id.slice(8)}`, object: "charge", amount: s.amount_total, currency: s.currency, payment_intent: s.payment_intent, amount_refunded: amountRefunded, refunded: amountRefunded >= s.amount_total, metadata: s.metadata, refunds: { object: "list", data: refunds } };
+  };
 
   const deliver = (type: string, object: unknown) => {
     const event = { id: `evt_${crypto.randomBytes(12).toString("hex")}`, object: "event", type, created: Math.floor(Date.now() / 1000), data: { object }, livemode: false, api_version: "2025-01-01" };
@@ -104,11 +112,20 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
       return s ? json(res, 200, s) : json(res, 404, { error: { type: "invalid_request_error", message: "No such checkout session" } });
     }
     if (req.method === "POST" && url.pathname === "/v1/refunds") {
+      // Like the real service: a repeated Idempotency-Key answers the first refund again, and a charge that is
+      // already refunded in full cannot be refunded a second time.
+      const key = String(req.headers["idempotency-key"] ?? "");
+      if (key && refundsByKey.has(key)) return json(res, 200, refundsByKey.get(key));
       const p = parseForm(body);
-      const session = [...sessions.values()].find((s) => s.payment_intent === p.payment_intent);
+      const session = [...sessions.values()].find((s) => s.payment_intent && s.payment_intent === p.payment_intent);
       if (!session) return json(res, 400, { error: { type: "invalid_request_error", message: "No such payment" } });
-      const refund = { id: `re_${crypto.randomBytes(10).toString("hex")}`, object: "refund", amount: session.amount_total, currency: session.currency, payment_intent: session.payment_intent, status: "succeeded" };
-      deliver("charge.refunded", { object: "charge", payment_intent: session.payment_intent, amount_refunded: session.amount_total, metadata: session.metadata });
+      const done = refunded.get(session.id) ?? [];
+      if (done.reduce((s, r) => s + r.amount, 0) >= session.amount_total) return json(res, 400, { error: { type: "invalid_request_error", code: "charge_already_refunded", message: "This charge has already been refunded." } });
+      const refund = { id: `re_${crypto.randomBytes(10).toString("hex")}`, object: "refund", amount: session.amount_total, currency: session.currency, payment_intent: session.payment_intent, status: "succeeded", metadata: p.metadata ?? {} };
+      done.push(refund);
+      refunded.set(session.id, done);
+      if (key) refundsByKey.set(key, refund);
+      deliver("charge.refunded", chargeOf(session));
       return json(res, 200, refund);
     }
     const pay = url.pathname.match(/^\/pay\/([\w-]+)$/);
@@ -159,6 +176,15 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
     port,
     sessions,
     deliver,
+    chargeOf,
+    /** A refund made by the provider's own dashboard, not through the app. */
+    refundAtProvider: (sessionId: string) => {
+      const s = sessions.get(sessionId);
+      if (!s?.payment_intent) throw new Error("no payment to refund");
+      const refund = { id: `re_${crypto.randomBytes(10).toString("hex")}`, amount: s.amount_total, status: "succeeded" };
+      refunded.set(s.id, [...(refunded.get(s.id) ?? []), refund]);
+      return deliver("charge.refunded", chargeOf(s));
+    },
     settle: () => Promise.all(deliveries),
     close: () => new Promise<void>((r) => server.close(() => r())),
   };

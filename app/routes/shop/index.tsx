@@ -1,6 +1,5 @@
 import { useEffect, useState } from "react";
 import { Link, useFetcher } from "react-router";
-import { Logo } from "~/components/logo";
 import { Card, PageHeader } from "~/components/ui/card";
 import { publishedListings } from "~/.server/services/shop";
 import type { Route } from "./+types/index";
@@ -25,10 +24,7 @@ export default function Shop({ loaderData }: Route.ComponentProps) {
   }, [sport, maxWeeks, maxHours]); // eslint-disable-line react-hooks/exhaustive-deps
   const listings = fetcher.data?.listings ?? loaderData.listings;
   return (
-    <div className="mx-auto max-w-6xl px-4 py-6">
-      <Link to="/" className="mb-6 flex items-center gap-2 text-xl font-semibold text-teal">
-        <Logo /> Pacewright
-      </Link>
+    <div>
       <PageHeader title="Plan shop" lead="Season plans from coaches, written in percent of threshold: they fit your numbers from day one." />
       <div className="mb-4 flex flex-wrap gap-3 rounded-xl border border-line bg-white p-4 text-sm">
         <label className="flex flex-col gap-1">
@@ -60,6 +56,7 @@ export default function Shop({ loaderData }: Route.ComponentProps) {
             <li key={l.id}>
               <Link to={`/shop/${l.slug}`} className="block h-full rounded-xl border border-line bg-white p-4 shadow-sm hover:border-teal">
                 <h2 className="font-semibold">{l.title}</h2>
+                {l.coverText && <p className="mt-0.5 text-sm font-medium text-teal-dark">{l.coverText}</p>}
                 <p className="num mt-1 text-sm text-ink-soft">
                   {l.weeks} weeks · about {l.weeklyHours} h a week · {l.level} · by {l.coach}
                 </p>

@@ -1,6 +1,6 @@
+import { useState } from "react";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
-import { Logo } from "~/components/logo";
 import { PhaseRibbon } from "~/components/phase-ribbon";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
@@ -8,10 +8,12 @@ import { Field, FormMessage } from "~/components/ui/field";
 import { getUser, requireUser } from "~/.server/auth";
 import { notFound } from "~/.server/http";
 import { Listing, PlanItem, PlanWeek, User } from "~/.server/models";
+import { placementContext } from "~/.server/services/placement";
 import { formatPrice, ShopError, startCheckout } from "~/.server/services/shop";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { parseForm } from "~/lib/forms";
+import { firstMondayAfter, overlapping, spanOf, type PlanSpan } from "~/lib/placement";
 import { describeBlock } from "~/lib/sessions";
 import { blockDuration, type Block } from "~/lib/training";
 import type { Route } from "./+types/listing";
@@ -31,16 +33,23 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     .slice(0, 4)
     .map((i) => ({ name: i.name, durationS: (i.blocks as Block[]).reduce((s, b) => s + blockDuration(b), 0), lines: (i.blocks as Block[]).map(describeBlock) }));
   const coach = await User.findByPk(listing.coachId);
+  const today = todayIn(viewer?.timezone ?? "UTC");
+  const placement = viewer?.role === "athlete" ? await placementContext(viewer.id, listing.planId, today) : null;
   return {
-    listing: { slug: listing.slug, title: listing.title, description: listing.description, sport: listing.sport, level: listing.level, weeks: listing.weeks, weeklyHours: listing.weeklyHours, price: formatPrice(listing.priceCents, listing.currency), published: listing.published, coach: coach?.name ?? "" },
+    placement,
+    listing: { slug: listing.slug, title: listing.title, coverText: listing.coverText, description: listing.description, sport: listing.sport, level: listing.level, weeks: listing.weeks, weeklyHours: listing.weeklyHours, price: formatPrice(listing.priceCents, listing.currency), published: listing.published, coach: coach?.name ?? "" },
     ribbon: weeks.map((w) => ({ idx: w.idx, phase: w.phase, recovery: w.recovery, test: w.test })),
     samples,
     viewer: viewer ? { role: viewer.role, name: viewer.name } : null,
-    today: todayIn(viewer?.timezone ?? "UTC"),
+    today,
   };
 }
 
-const checkoutSchema = z.object({ mode: z.enum(["start", "event"], { error: "Choose how to line the plan up." }), date: z.string().refine(isIsoDate, "Choose a date.") });
+const checkoutSchema = z.object({
+  mode: z.enum(["start", "event"], { error: "Choose how to line the plan up." }),
+  date: z.string().refine(isIsoDate, "Choose a date."),
+  placement: z.enum(["after", "alongside"]).optional(),
+});
 
 export async function action({ request, params }: Route.ActionArgs) {
   const buyer = await requireUser(request);
@@ -48,8 +57,16 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!listing) notFound("This plan is not in the shop.");
   const parsed = parseForm(checkoutSchema, await request.formData());
   if (!parsed.ok) return data({ error: Object.values(parsed.fieldErrors)[0] ?? "Check the form." }, { status: 400 });
+  // The same overlap check the page shows, repeated here: the buyer must have chosen before any money moves.
+  let align: { mode: "start" | "event"; date: string } = { mode: parsed.data.mode, date: parsed.data.date };
+  if (buyer.role === "athlete") {
+    const { current } = await placementContext(buyer.id, listing.planId, todayIn(buyer.timezone));
+    const clash = overlapping(current, spanOf(align.mode, align.date, listing.weeks));
+    if (clash.length && !parsed.data.placement) return data({ error: `These dates overlap ${clash.map((c) => `“${c.name}” (${c.from} to ${c.to})`).join(", ")}. Choose to start after it or to place the plan alongside.` }, { status: 400 });
+    if (clash.length && parsed.data.placement === "after") align = { mode: "start", date: firstMondayAfter(clash) };
+  }
   try {
-    const { url } = await startCheckout(buyer, listing, parsed.data);
+    const { url } = await startCheckout(buyer, listing, align, new URL(request.url).origin);
     return redirect(url);
   } catch (err) {
     if (err instanceof ShopError) return data({ error: err.message }, { status: err.status });
@@ -58,20 +75,28 @@ export async function action({ request, params }: Route.ActionArgs) {
 }
 
 export default function ListingPage({ loaderData, actionData }: Route.ComponentProps) {
-  const { listing, ribbon, samples, viewer, today } = loaderData;
+  const { listing, ribbon, samples, viewer, today, placement } = loaderData;
   const busy = useNavigation().state !== "idle";
   const back = `/shop/${listing.slug}`;
+  const [mode, setMode] = useState<"start" | "event">("start");
+  const [date, setDate] = useState(today);
+  const span = isIsoDate(date) ? spanOf(mode, date, listing.weeks) : null;
+  const clash = placement && span ? overlapping(placement.current, span) : [];
   return (
-    <div className="mx-auto max-w-5xl px-4 py-6">
-      <Link to="/shop" className="mb-6 flex items-center gap-2 text-xl font-semibold text-teal">
-        <Logo /> Plan shop
-      </Link>
+    <div className="mx-auto max-w-5xl">
+      <p className="mb-2 text-sm">
+        <Link to="/shop" className="text-teal underline">
+          Plan shop
+        </Link>{" "}
+        / {listing.title}
+      </p>
       {!listing.published && (
         <div className="mb-4">
           <FormMessage>Preview: this listing is not published, so buyers cannot see it yet.</FormMessage>
         </div>
       )}
       <h1 className="text-3xl font-semibold">{listing.title}</h1>
+      {listing.coverText && <p className="mt-1 text-lg text-teal-dark">{listing.coverText}</p>}
       <p className="num mt-1 text-ink-soft">
         {listing.weeks} weeks · about {listing.weeklyHours} h a week · {listing.level} · by {listing.coach}
       </p>
@@ -98,7 +123,7 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
             </ul>
           </Card>
         </div>
-        <Card className="self-start">
+        <Card className="order-first self-start lg:order-none">
           <p className="num text-3xl font-semibold text-teal-dark">{listing.price}</p>
           {actionData?.error && (
             <div className="mt-3">
@@ -110,13 +135,15 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
               <fieldset className="flex flex-col gap-1">
                 <legend className="font-medium">Line the plan up</legend>
                 <label className="flex items-center gap-2">
-                  <input type="radio" name="mode" value="start" defaultChecked /> start on the Monday on or after
+                  <input type="radio" name="mode" value="start" checked={mode === "start"} onChange={() => setMode("start")} /> start on the Monday on or after
                 </label>
                 <label className="flex items-center gap-2">
-                  <input type="radio" name="mode" value="event" /> end in the week of my event
+                  <input type="radio" name="mode" value="event" checked={mode === "event"} onChange={() => setMode("event")} /> end in the week of my event
                 </label>
               </fieldset>
-              <Field label="Date" name="date" type="date" defaultValue={today} min={today} required />
+              <Field label={mode === "start" ? "Start date" : "Event date"} name="date" type="date" value={date} onChange={(e) => setDate(e.target.value)} min={today} required />
+              {span && <p className="num text-xs text-ink-soft">Week 1 starts Monday {span.from}; the last week ends {span.to}.</p>}
+              <Consequences placement={placement} clash={clash} />
               <button type="submit" className={buttonClass("primary", "py-2.5")} disabled={busy}>
                 {busy ? "Opening checkout…" : `Buy for ${listing.price}`}
               </button>
@@ -137,5 +164,36 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
         </Card>
       </div>
     </div>
+  );
+}
+
+/** What buying will do to this athlete's calendar, shown before any money moves. */
+function Consequences({ placement, clash }: { placement: { current: PlanSpan[]; missingThresholds: { sport: string; sessions: number }[] } | null; clash: PlanSpan[] }) {
+  if (!placement) return null;
+  return (
+    <>
+      {placement.missingThresholds.map((m) => (
+        <div key={m.sport} className="rounded-lg border border-brick/40 bg-brick/5 p-3 text-xs" data-testid="needs-test-warning">
+          You have no {m.sport} threshold yet, so {m.sessions} session{m.sessions === 1 ? "" : "s"} will say “needs a field test” and show percentages until you do one; week 1 starts with a field test.{" "}
+          <Link to="/athlete/tests/new" className="text-teal underline">
+            Enter a test result first
+          </Link>
+        </div>
+      ))}
+      {clash.length > 0 && (
+        <fieldset className="flex flex-col gap-1 rounded-lg border border-brick/40 bg-brick/5 p-3 text-xs" data-testid="overlap-warning">
+          <legend className="px-1 font-medium">These dates overlap your current plan</legend>
+          <p>
+            {clash.map((c) => `“${c.name}” runs ${c.from} to ${c.to}`).join("; ")}. Choose one:
+          </p>
+          <label className="flex items-center gap-2">
+            <input type="radio" name="placement" value="after" required /> start after it ends (Monday {firstMondayAfter(clash)})
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="radio" name="placement" value="alongside" required /> place it alongside (both plans on the same days)
+          </label>
+        </fieldset>
+      )}
+    </>
   );
 }

@@ -1,6 +1,5 @@
 import { useEffect } from "react";
 import { Link, useFetcher } from "react-router";
-import { Logo } from "~/components/logo";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
@@ -18,16 +17,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (!order) notFound("No such order.");
   const listing = await Listing.findByPk(order.listingId);
   const assignment = order.assignmentId ? await Assignment.findByPk(order.assignmentId) : null;
-  return { order: { id: order.id, status: order.status, amount: formatPrice(order.amountCents, order.currency), title: listing?.title ?? "", slug: listing?.slug ?? "", start: assignment?.startDate ?? null, note: order.note } };
+  return { order: { id: order.id, status: order.status, amount: formatPrice(order.paidCents ?? order.amountCents, order.paidCurrency ?? order.currency), refunded: order.refundedCents ? formatPrice(order.refundedCents, order.paidCurrency ?? order.currency) : null, title: listing?.title ?? "", slug: listing?.slug ?? "", start: assignment?.startDate ?? null, reason: order.status === "needs_review" ? order.reviewReason : null } };
 }
 
 const MESSAGES: Record<string, string> = {
-  pending: "Waiting for the payment provider to confirm the payment…",
+  created: "Waiting for the payment provider to confirm the payment…",
   fulfilled: "Paid. The plan is on your calendar.",
-  cancelled: "You cancelled at checkout. Nothing was charged and no sessions were added.",
-  declined: "The payment was declined. Nothing was charged and no sessions were added.",
-  refunded: "This order was refunded; its future sessions were removed.",
-  flagged: "The payment did not match the order. We are checking it; no sessions were added yet.",
+  expired: "The checkout was cancelled or ran out of time. Nothing was charged and no sessions were added.",
+  declined: "The card was declined. Nothing was charged and no sessions were added; you can try another card.",
+  refunded: "This order was refunded; its upcoming sessions were taken off your calendar.",
+  needs_review: "Something about this payment needs a person to check it. Your coach has been told and will either deliver the plan or refund you; nothing is lost.",
 };
 
 export default function OrderPage({ loaderData }: Route.ComponentProps) {
@@ -35,22 +34,27 @@ export default function OrderPage({ loaderData }: Route.ComponentProps) {
   const fetcher = useFetcher<typeof loader>();
   const order = fetcher.data?.order ?? loaderData.order;
   useEffect(() => {
-    if (order.status !== "pending") return;
+    if (order.status !== "created") return;
     const t = setInterval(() => fetcher.load(`/shop/orders/${order.id}`), 1500);
     return () => clearInterval(t);
   }, [order.status, order.id]); // eslint-disable-line react-hooks/exhaustive-deps
   return (
-    <div className="mx-auto max-w-xl px-4 py-10">
-      <Link to="/shop" className="mb-6 flex items-center gap-2 text-xl font-semibold text-teal">
-        <Logo /> Plan shop
-      </Link>
+    <div className="mx-auto max-w-xl">
+      <p className="mb-2 text-sm">
+        <Link to="/shop" className="text-teal underline">
+          Plan shop
+        </Link>{" "}
+        / Order
+      </p>
       <Card>
         <h1 className="text-2xl font-semibold">Order #{order.id}</h1>
         <p className="num mt-1 text-ink-soft">
           {order.title} · {order.amount}
         </p>
         <div className="mt-4" data-testid="order-status" data-status={order.status}>
-          <FormMessage tone={order.status === "fulfilled" ? "ok" : order.status === "pending" ? "ok" : "error"}>{MESSAGES[order.status] ?? order.status}</FormMessage>
+          <FormMessage tone={order.status === "fulfilled" || order.status === "created" ? "ok" : "error"}>{MESSAGES[order.status] ?? order.status}</FormMessage>
+          {order.reason && <p className="mt-2 text-sm text-ink-soft">What we saw: {order.reason}</p>}
+          {order.refunded && <p className="num mt-2 text-sm text-ink-soft">Refunded: {order.refunded}</p>}
         </div>
         {order.status === "fulfilled" && (
           <p className="mt-4 text-sm">
@@ -60,7 +64,7 @@ export default function OrderPage({ loaderData }: Route.ComponentProps) {
             </Link>
           </p>
         )}
-        {(order.status === "cancelled" || order.status === "declined") && (
+        {(order.status === "expired" || order.status === "declined") && (
           <Link to={`/shop/${order.slug}`} className={buttonClass("secondary", "mt-4")}>
             Back to the plan
           </Link>
