@@ -86,12 +86,18 @@ async function planItems(planId: number, transaction: Transaction): Promise<Item
 
 const dateOf = (start: string, weekIdx: number, day: number) => addDays(start, (weekIdx - 1) * 7 + day);
 
+/**
+ * Inserts sessions and their resolved steps with multi-row INSERTs (sessions RETURNING their ids): a 416-session
+ * plan is a dozen statements, not one create and one bulk insert per session.
+ */
 async function insertScheduled(athleteId: number, assignmentId: number, entries: ItemWithWeek[], startDate: string, history: ThresholdRow[], transaction: Transaction) {
-  for (const { item, weekIdx } of entries) {
-    const blocks = item.blocks as Block[];
-    const date = dateOf(startDate, weekIdx, item.day);
-    const session = await ScheduledSession.create(
-      {
+  const SESSION_CHUNK = 250;
+  const STEP_CHUNK = 1000;
+  const placed = entries.map(({ item, weekIdx }) => ({ item, blocks: item.blocks as Block[], date: dateOf(startDate, weekIdx, item.day) }));
+  const ids: number[] = [];
+  for (let i = 0; i < placed.length; i += SESSION_CHUNK) {
+    const created = await ScheduledSession.bulkCreate(
+      placed.slice(i, i + SESSION_CHUNK).map(({ item, blocks, date }) => ({
         athleteId,
         assignmentId,
         planItemId: item.id,
@@ -104,12 +110,45 @@ async function insertScheduled(athleteId: number, assignmentId: number, entries:
         notes: item.notes,
         plannedDurationS: blocks.reduce((s, b) => s + blockDuration(b), 0),
         plannedLoad: plannedLoad(blocks),
-      },
-      { transaction },
+      })),
+      { transaction, returning: true },
     );
-    const rows = resolveSteps(blocks, { athleteId, date, sport: item.sport, history });
-    if (rows.length) await ScheduledBlock.bulkCreate(rows.map((r) => ({ ...r, scheduledSessionId: session.id })), { transaction });
+    ids.push(...created.map((c) => c.id));
   }
+  const steps = placed.flatMap(({ item, blocks, date }, i) => resolveSteps(blocks, { athleteId, date, sport: item.sport, history }).map((r) => ({ ...r, scheduledSessionId: ids[i] })));
+  // Straight to the query interface: building thousands of model instances cost more than the INSERTs themselves.
+  const qi = ScheduledBlock.sequelize!.getQueryInterface();
+  for (let i = 0; i < steps.length; i += STEP_CHUNK) {
+    await qi.bulkInsert("scheduled_blocks", steps.slice(i, i + STEP_CHUNK).map(stepRow), { transaction });
+  }
+}
+
+/** A resolved step as a scheduled_blocks row (column names as the migration writes them). */
+function stepRow(r: BlockRow & { scheduledSessionId: number }) {
+  return {
+    scheduled_session_id: r.scheduledSessionId,
+    athlete_id: r.athleteId,
+    date: r.date,
+    sport: r.sport,
+    position: r.position,
+    block_index: r.blockIndex,
+    kind: r.kind,
+    part: r.part,
+    rep: r.rep ?? null,
+    rep_count: r.repCount ?? null,
+    duration_s: r.durationS,
+    metric: r.metric ?? null,
+    low_pct: r.lowPct ?? null,
+    high_pct: r.highPct ?? null,
+    ramp: r.ramp,
+    low_abs: r.lowAbs ?? null,
+    high_abs: r.highAbs ?? null,
+    unit: r.unit ?? null,
+    threshold_id: r.thresholdId ?? null,
+    threshold_value: r.thresholdValue ?? null,
+    cue: r.cue ?? null,
+    cadence: r.cadence ?? null,
+  };
 }
 
 /**
