@@ -198,7 +198,7 @@ describe("undo is honest", () => {
     expect(after.current.find((t: { metric: string }) => t.metric === "power").value).toBe(276);
     expect(after.thresholds.filter((t: { metric: string }) => t.metric === "power").map((t: { value: number }) => t.value)).toEqual([276]);
     const roster = await rosterFor(coach.id);
-    expect(roster.athletes.find((a: { id: number }) => a.id === athlete.id)!.thresholds).toEqual([{ sport: "bike", metric: "power", value: 276, unit: "W" }]);
+    expect(roster.athletes.find((a: { id: number }) => a.id === athlete.id)!.thresholds).toEqual([expect.objectContaining({ sport: "bike", metric: "power", value: 276, unit: "W" })]);
 
     const corrections = await OutboundEmail.findAll({ where: { template: "rescale-undone" } });
     expect(corrections.map((m) => m.toAddress).sort()).toEqual([athlete.email, coach.email].sort());

@@ -7,10 +7,6 @@ import { AuthSession, CoachAthlete, Invitation, PasswordReset, User, type Role }
 import { hashToken, looksLikeToken, newToken } from "../tokens";
 import { INVITE_DEAD, RESET_LINK_DEAD } from "~/lib/messages";
 import { copyStarterShelf } from "./sessions";
-import { currentThresholds } from "./thresholds";
-import { retestStatus } from "./retests";
-import { rosterLoad } from "./load";
-import { todayIn } from "~/lib/dates";
 
 export const RESET_TTL_MS = 60 * 60 * 1000;
 export const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000;
@@ -213,43 +209,8 @@ export async function acceptInvitation(
 }
 
 /** The coach's roster: linked athletes and invitations still open. */
-export async function rosterFor(coachId: number) {
-  const links = await CoachAthlete.findAll({ where: { coachId } });
-  const athletes = links.length
-    ? await User.findAll({ where: { id: links.map((l) => l.athleteId) }, order: [["name", "ASC"]] })
-    : [];
-  const since = new Map(links.map((l) => [l.athleteId, l.createdAt]));
-  const invitations = await Invitation.findAll({
-    where: { coachId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
-    order: [["createdAt", "DESC"]],
-  });
-  const extra = new Map(
-    await Promise.all(
-      athletes.map(async (a) => {
-        const today = todayIn(a.timezone);
-        const th = await currentThresholds(a.id, today);
-        return [a.id, { thresholds: th.map((t) => ({ sport: t.sport, metric: t.metric, value: t.value, unit: t.unit })), retest: await retestStatus(a.id, today), load: await rosterLoad(a), today }] as const;
-      }),
-    ),
-  );
-  return {
-    athletes: athletes.map((a) => ({
-      id: a.id,
-      name: a.name,
-      email: a.email,
-      timezone: a.timezone,
-      since: since.get(a.id)!.toISOString(),
-      ...extra.get(a.id)!,
-    })),
-    invitations: invitations.map((i) => ({
-      id: i.id,
-      email: i.email,
-      name: i.name,
-      sentAt: i.updatedAt.toISOString(),
-      expiresAt: i.expiresAt.toISOString(),
-    })),
-  };
-}
+// The roster is read set-based in its own module; kept reachable from here for the pages that import it.
+export { rosterFor } from "./roster";
 
 /** A coach may only see athletes on their own roster; anything else is "not found", never "forbidden". */
 export async function coachHasAthlete(coachId: number, athleteId: number): Promise<boolean> {

@@ -71,7 +71,7 @@ export async function attachRide(athlete: User, uploadId: number, date: string, 
   });
 }
 
-interface DayRow {
+export interface DayRow {
   date: string;
   status: string;
   effort_score: number | null;
@@ -135,19 +135,29 @@ export async function rideBandMinutes(athlete: User, from: string, to: string, b
  * sessions up to today, and planned effort load from planned sessions after today. Fitness and fatigue run over the
  * whole series, done load then planned load, so the lines continue into the future.
  */
+/** Fitness needs history: the model starts well before the window (six time constants of fatigue, one of fitness). */
+export const warmStart = (from: string) => addDays(from, -84);
+
+/** The session columns the load model reads, for one athlete or (with athlete_id) for a roster at once. */
+export const DAY_COLUMNS = "date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, test_protocol, targeted_s, in_target_s";
+
 export async function loadSeries(athlete: User, from: string, to: string) {
   const today = todayIn(athlete.timezone);
-  // Fitness needs history: start the model well before the window (six time constants of fatigue, one of fitness).
-  const warmFrom = addDays(from, -84);
+  const warmFrom = warmStart(from);
   const rows = await db().query<DayRow>(
-    `SELECT date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, test_protocol, targeted_s, in_target_s
-     FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled'`,
+    `SELECT ${DAY_COLUMNS} FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled'`,
     { replacements: [athlete.id, warmFrom, to], type: QueryTypes.SELECT },
   );
-  const n = daysBetween(warmFrom, to) + 1;
   const powerBands = (await bandSetsFor(athlete))["bike:power"];
-  const nb = powerBands.bands.length;
   const rides = await rideBandMinutes(athlete, mondayOf(from), to, powerBands);
+  return seriesFromRows({ rows, rides, powerBands, from, to, today });
+}
+
+/** The load model over rows already read: pure, so a roster can read every athlete's rows in one query. */
+export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { rows: DayRow[]; rides: Map<string, number[]>; powerBands: BandSet; from: string; to: string; today: string }) {
+  const warmFrom = warmStart(from);
+  const n = daysBetween(warmFrom, to) + 1;
+  const nb = powerBands.bands.length;
   const days = Array.from({ length: n }, (_, i) => {
     const date = addDays(warmFrom, i);
     return { date, effortLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, targeted: 0, inTarget: 0, bandMinutes: rides.get(date) ?? (new Array(nb).fill(0) as number[]) };
@@ -311,7 +321,10 @@ export async function powerCurveComparison(athlete: User) {
 /** Roster figures: sessions done / planned over the last four weeks, and whether the load ratio is a spike. */
 export async function rosterLoad(athlete: User) {
   const today = todayIn(athlete.timezone);
-  const s = await loadSeries(athlete, addDays(today, -27), today);
+  return rosterFigures(await loadSeries(athlete, addDays(today, -27), today));
+}
+
+export function rosterFigures(s: Pick<ReturnType<typeof seriesFromRows>, "weekly" | "latestRatio">) {
   const planned = s.weekly.reduce((a, w) => a + w.plannedSessions, 0);
   const done = s.weekly.reduce((a, w) => a + w.doneSessions, 0);
   return { compliance: planned ? round(done / planned, 2) : null, done, planned, ratio: s.latestRatio, spike: s.latestRatio !== null && s.latestRatio > 1.5 };
