@@ -213,11 +213,16 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
     .filter((d) => d.date >= from);
 
   const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; bandMinutes: number[]; loads: number[]; usual: { low: number; high: number } | null }>();
-  for (const d of days.filter((x) => x.date >= mondayOf(from))) {
+  const firstMonday = mondayOf(from);
+  const todayIdx = daysBetween(warmFrom, today);
+  for (const d of days.filter((x) => x.date >= firstMonday)) {
     const w = mondayOf(d.date);
     // Weeks ahead are measured against the usual range as of today: only days already lived count as history.
-    const usual = firstRecord === -1 ? null : usualWeekRange(modelLoads, Math.min(daysBetween(warmFrom, w), daysBetween(warmFrom, today) + 1), { historyStart });
-    const e = weeks.get(w) ?? { week: w, plannedLoad: 0, doneLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, bandMinutes: new Array(nb).fill(0) as number[], loads: [] as number[], usual: usual && { low: round(usual.low), high: round(usual.high) } };
+    let e = weeks.get(w);
+    if (!e) {
+      const usual = firstRecord === -1 ? null : usualWeekRange(modelLoads, Math.min(daysBetween(warmFrom, w), todayIdx + 1), { historyStart });
+      e = { week: w, plannedLoad: 0, doneLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, bandMinutes: new Array(nb).fill(0) as number[], loads: [] as number[], usual: usual && { low: round(usual.low), high: round(usual.high) } };
+    }
     e.doneLoad += d.effortLoad;
     e.plannedLoad += d.plannedAll;
     e.plannedSessions += d.planned;
@@ -226,7 +231,7 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
     e.doneMinutes += d.doneMinutes;
     e.targeted += d.targeted;
     e.inTarget += d.inTarget;
-    d.bandMinutes.forEach((m, k) => (e.bandMinutes[k] += m));
+    d.bandMinutes.forEach((m, k) => (e!.bandMinutes[k] += m));
     e.loads.push(d.date <= today ? d.effortLoad : d.plannedLoad);
     weeks.set(w, e);
   }
