@@ -1,10 +1,7 @@
 import {
-  closestCorners,
   DndContext,
-  pointerWithin,
   type CollisionDetection,
   DragOverlay,
-  KeyboardSensor,
   PointerSensor,
   useDraggable,
   useDroppable,
@@ -15,8 +12,8 @@ import {
   type DragStartEvent,
   type UniqueIdentifier,
 } from "@dnd-kit/core";
-import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from "@dnd-kit/sortable";
-import { CSS } from "@dnd-kit/utilities";
+import { describeDay, describeTarget, type DropTarget, sameTarget, slotId, slotItems, stepTarget, targetAtPoint } from "~/components/board/drop-target";
+import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
 import { useEffect, useMemo, useRef, useState } from "react";
 import { useFetcher, useRevalidator } from "react-router";
 import { SessionProfile } from "~/components/session-profile";
@@ -72,17 +69,6 @@ type ServerReply = { version: number; items: BoardItem[] } | { error: string; ve
 /** Rise of planned load over the previous non-recovery week above which a week is flagged (common practice). */
 const RISE_CAP = 0.1;
 
-const slotId = (weekId: number, day: number) => `slot:${weekId}:${day}`;
-
-/**
- * With a pointer, what lies under it wins, a card before the day slot holding it; the keyboard has no pointer, so it
- * falls back to the nearest corners, which is how the arrow keys step between days and weeks.
- */
-const collision: CollisionDetection = (args) => {
-  const under = pointerWithin(args);
-  if (under.length) return [...under].sort((a, b) => Number(String(b.id).startsWith("item:")) - Number(String(a.id).startsWith("item:")));
-  return closestCorners(args);
-};
 const itemKey = (id: number) => `item:${id}`;
 
 function profileOf(blocks: Block[]) {
@@ -183,63 +169,132 @@ export function PlanBoard({ data }: { data: BoardData }) {
     else queue.current.push(op);
   };
 
-  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 5 } }), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
   const weekById = useMemo(() => new Map(weeks.map((w) => [w.id, w])), [weeks]);
-  const describeSlot = (id: UniqueIdentifier | undefined) => {
-    const s = String(id ?? "");
-    let weekId: number | undefined;
-    let day: number | undefined;
-    if (s.startsWith("slot:")) [, weekId, day] = s.split(":").map(Number) as [number, number, number];
-    else if (s.startsWith("item:")) {
-      const it = items.find((i) => i.id === Number(s.slice(5)));
-      weekId = it?.weekId;
-      day = it?.day;
-    }
-    const w = weekId !== undefined ? weekById.get(weekId) : undefined;
-    return w && day !== undefined ? `${DAY_LONG[day]}, week ${w.idx}` : "nowhere";
-  };
   const nameOf = (id: UniqueIdentifier) => {
     const s = String(id);
     if (s.startsWith("shelf:")) return shelf.find((x) => x.id === Number(s.slice(6)))?.name ?? "session";
     return items.find((i) => i.id === Number(s.slice(5)))?.name ?? "session";
   };
+  const movingItemId = (id: UniqueIdentifier | null | undefined) => (id && String(id).startsWith("item:") ? Number(String(id).slice(5)) : null);
+
+  // The drop target lives in refs for dnd-kit's callbacks (which run outside React's render cycle) and in state
+  // for the indicator drawn on the board.
+  const [drop, setDrop] = useState<DropTarget | null>(null);
+  const mode = useRef<"pointer" | "keyboard" | null>(null);
+  const target = useRef<DropTarget | null>(null);
+  const moving = useRef<number | null>(null);
+  const spoken = useRef("");
+  const finalWords = useRef("");
+  const focusAfter = useRef<number | null>(null);
+  const live = useRef({ items, weeks, startDate: plan.startDate });
+  live.current = { items, weeks, startDate: plan.startDate };
+  const describe = (t: DropTarget | null) => {
+    const w = t ? weekById.get(t.weekId) : undefined;
+    return t && w ? describeTarget(t, w.idx, plan.startDate, items, moving.current) : "no day";
+  };
+
+  const setTarget = (t: DropTarget | null) => {
+    target.current = t;
+    setDrop((old) => (sameTarget(old, t) ? old : t));
+  };
+  const step = (key: StepKey) => {
+    const now = target.current;
+    if (!now) return false;
+    const { weeks: ws, items: its } = live.current;
+    const next = stepTarget(now, key, ws.map((w) => w.id), its, moving.current);
+    if (!next) return false;
+    setTarget(next);
+    requestAnimationFrame(() => document.querySelector(`[data-drop-slot="${slotId(next.weekId, next.day)}"]`)?.scrollIntoView({ block: "nearest", inline: "nearest" }));
+    return true;
+  };
+  const stepRef = useRef(step);
+  stepRef.current = step;
+  const keyboardOptions = useMemo(() => ({ step: (k: StepKey) => stepRef.current(k) }), []);
+  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 5 } }), useSensor(StepKeyboardSensor, keyboardOptions));
+
+  const collision: CollisionDetection = ({ pointerCoordinates }) => {
+    if (pointerCoordinates) target.current = targetAtPoint(pointerCoordinates.x, pointerCoordinates.y, moving.current);
+    const t = target.current;
+    return t ? [{ id: slotId(t.weekId, t.day) }] : [];
+  };
+
+  const lastShelfDrop = useRef<DropTarget | null>(null);
   const announcements: Announcements = {
-    onDragStart: ({ active }) => `Picked up ${nameOf(active.id)}. Arrow keys move it between days and weeks; Space drops it; Escape cancels.`,
-    onDragOver: ({ active, over }) => `${nameOf(active.id)} is over ${describeSlot(over?.id)}.`,
-    onDragEnd: ({ active, over }) => (over ? `${nameOf(active.id)} placed on ${describeSlot(over.id)}.` : `${nameOf(active.id)} was not placed.`),
+    onDragStart: ({ active }) =>
+      mode.current === "keyboard"
+        ? `Picked up ${nameOf(active.id)}, now over ${describe(target.current)}. Up and down arrows move it through the days, left and right to the same day of another week; Space drops it, Escape cancels.`
+        : `Picked up ${nameOf(active.id)}.`,
+    onDragMove: ({ active }) => {
+      const words = `${nameOf(active.id)} is over ${describe(target.current)}.`;
+      if (words === spoken.current) return undefined;
+      spoken.current = words;
+      return words;
+    },
+    onDragOver: () => undefined,
+    onDragEnd: () => finalWords.current,
     onDragCancel: ({ active }) => `Cancelled. ${nameOf(active.id)} stays where it was.`,
   };
 
-  const onDragStart = (e: DragStartEvent) => setActiveId(e.active.id);
-  const onDragEnd = ({ active, over }: DragEndEvent) => {
+  const onDragStart = (e: DragStartEvent) => {
+    setActiveId(e.active.id);
+    mode.current = e.activatorEvent instanceof KeyboardEvent ? "keyboard" : "pointer";
+    moving.current = movingItemId(e.active.id);
+    spoken.current = "";
+    if (mode.current === "keyboard") {
+      const it = moving.current !== null ? items.find((i) => i.id === moving.current) : undefined;
+      const first = weeks[0];
+      const start: DropTarget | null = it
+        ? { weekId: it.weekId, day: it.day, index: slotItems(items, it.weekId, it.day, it.id).filter((o) => o.position < it.position).length }
+        : lastShelfDrop.current && weekById.has(lastShelfDrop.current.weekId)
+          ? { ...lastShelfDrop.current, index: slotItems(items, lastShelfDrop.current.weekId, lastShelfDrop.current.day, null).length }
+          : first
+            ? { weekId: first.id, day: 0, index: slotItems(items, first.id, 0, null).length }
+            : null;
+      setTarget(start);
+    } else setTarget(null);
+  };
+  const finish = () => {
     setActiveId(null);
-    if (!over) return;
-    const overId = String(over.id);
-    let toWeek: number;
-    let toDay: number;
-    let toIndex: number;
-    const activeItemId = String(active.id).startsWith("item:") ? Number(String(active.id).slice(5)) : null;
-    if (overId.startsWith("slot:")) {
-      [, toWeek, toDay] = overId.split(":").map(Number) as [number, number, number];
-      toIndex = items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== activeItemId).length;
-    } else {
-      const target = items.find((i) => i.id === Number(overId.slice(5)));
-      if (!target) return;
-      toWeek = target.weekId;
-      toDay = target.day;
-      toIndex = items.filter((i) => i.weekId === toWeek && i.day === toDay).sort((a, b) => a.position - b.position).findIndex((i) => i.id === target.id);
+    setDrop(null);
+    target.current = null;
+    mode.current = null;
+  };
+  const onDragEnd = ({ active, over }: DragEndEvent) => {
+    const t = target.current;
+    const viaKeyboard = mode.current === "keyboard";
+    const activeItemId = moving.current;
+    finish();
+    const name = nameOf(active.id);
+    if (!over || !t) {
+      finalWords.current = `${name} was not placed.`;
+      return;
     }
-    const where = `${DAY_LONG[toDay]}, week ${weekById.get(toWeek)?.idx}`;
+    const where = describeDay(weekById.get(t.weekId)?.idx ?? 0, t.day, plan.startDate);
+    finalWords.current = `${name} placed on ${describeTarget(t, weekById.get(t.weekId)?.idx ?? 0, plan.startDate, items, activeItemId)}.`;
     if (String(active.id).startsWith("shelf:")) {
       const sessionId = Number(String(active.id).slice(6));
-      change({ op: "copy", sessionId, toWeek, toDay, toIndex }, `Added ${nameOf(active.id)} on ${where}.`);
+      if (viaKeyboard) lastShelfDrop.current = t;
+      change({ op: "copy", sessionId, toWeek: t.weekId, toDay: t.day, toIndex: t.index }, `Added ${name} on ${where}.`);
     } else if (activeItemId !== null) {
       const it = items.find((i) => i.id === activeItemId)!;
-      const sameSlot = it.weekId === toWeek && it.day === toDay;
-      if (sameSlot && it.position === toIndex) return;
-      change({ op: "move", itemId: activeItemId, toWeek, toDay, toIndex }, `Moved ${it.name} to ${where}.`);
+      const sameSlot = it.weekId === t.weekId && it.day === t.day;
+      if (sameSlot && slotItems(items, t.weekId, t.day, it.id).filter((o) => o.position < it.position).length === t.index) return;
+      if (viaKeyboard) focusAfter.current = activeItemId;
+      change({ op: "move", itemId: activeItemId, toWeek: t.weekId, toDay: t.day, toIndex: t.index }, `Moved ${it.name} to ${where}.`);
     }
   };
+  const onDragCancel = () => {
+    finish();
+  };
+  // A card moved by keyboard is drawn anew in its new day; give it the focus back so the next move can start there.
+  useEffect(() => {
+    if (focusAfter.current === null) return;
+    const el = document.querySelector<HTMLElement>(`[data-card-id="${focusAfter.current}"]`);
+    if (el) {
+      el.focus();
+      focusAfter.current = null;
+    }
+  }, [items]);
 
   const estimates = useMemo(() => new Map(items.map((i) => [i.id, estimateOf(i.blocks)])), [items]);
   const weekStats = useMemo(() => {
@@ -271,7 +326,16 @@ export function PlanBoard({ data }: { data: BoardData }) {
   const activeItem = activeId && String(activeId).startsWith("item:") ? items.find((i) => i.id === Number(String(activeId).slice(5))) : null;
 
   return (
-    <DndContext id="plan-board" sensors={sensors} collisionDetection={collision} onDragStart={onDragStart} onDragEnd={onDragEnd} onDragCancel={() => setActiveId(null)} accessibility={{ announcements }}>
+    <DndContext
+      id="plan-board"
+      sensors={sensors}
+      collisionDetection={collision}
+      onDragStart={onDragStart}
+      onDragMove={() => mode.current === "pointer" && setTarget(target.current)}
+      onDragEnd={onDragEnd}
+      onDragCancel={onDragCancel}
+      accessibility={{ announcements, screenReaderInstructions: { draggable: "To move this session with the keyboard, press Space, then the arrow keys: up and down through the days, left and right between weeks. Space drops it, Escape cancels." } }}
+    >
       <div className="flex min-h-[70vh] flex-col gap-3 lg:flex-row">
         <aside className="flex w-full shrink-0 flex-col rounded-xl border border-line bg-white lg:w-60" aria-label="Session shelf">
           <div className="border-b border-line p-3">
@@ -314,6 +378,9 @@ export function PlanBoard({ data }: { data: BoardData }) {
                   items={items.filter((i) => i.weekId === week.id)}
                   selected={selected}
                   onSelect={setSelected}
+                  drop={drop && drop.weekId === week.id ? drop : null}
+                  dropName={activeShelf?.name ?? activeItem?.name ?? ""}
+                  movingId={activeItem?.id ?? null}
                   onWeekOp={(op, toWeek) => change({ op, fromWeek: week.id, toWeek }, op === "duplicate-week" ? `Copied week ${week.idx}.` : `Moved week ${week.idx}'s sessions.`)}
                 />
               </li>
@@ -335,8 +402,8 @@ export function PlanBoard({ data }: { data: BoardData }) {
           />
         )}
       </div>
-      <DragOverlay>
-        {activeShelf ? <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={activeShelf.profile} lifted /> : activeItem ? <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={profileOf(activeItem.blocks)} lifted /> : null}
+      <DragOverlay style={{ pointerEvents: "none" }}>
+        {mode.current === "keyboard" ? null : activeShelf ? <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={activeShelf.profile} lifted /> : activeItem ? <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={profileOf(activeItem.blocks)} lifted /> : null}
       </DragOverlay>
     </DndContext>
   );
@@ -382,6 +449,9 @@ function WeekColumn(props: {
   items: BoardItem[];
   selected: number | null;
   onSelect: (id: number) => void;
+  drop: DropTarget | null;
+  dropName: string;
+  movingId: number | null;
   onWeekOp: (op: "duplicate-week" | "move-week", toWeek: number) => void;
 }) {
   const { week, startDate } = props;
@@ -418,7 +488,21 @@ function WeekColumn(props: {
       </header>
       <div className="flex flex-1 flex-col divide-y divide-line/70">
         {DAY_NAMES.map((d, day) => (
-          <DaySlot key={day} weekId={week.id} day={day} label={d} weekIdx={week.idx} items={props.items.filter((i) => i.day === day).sort((a, b) => a.position - b.position)} selected={props.selected} onSelect={props.onSelect} />
+          <DaySlot
+            key={day}
+            weekId={week.id}
+            day={day}
+            label={d}
+            weekIdx={week.idx}
+            date={monday ? addDays(monday, day) : null}
+            startDate={startDate}
+            items={props.items.filter((i) => i.day === day).sort((a, b) => a.position - b.position)}
+            selected={props.selected}
+            onSelect={props.onSelect}
+            dropIndex={props.drop && props.drop.day === day ? props.drop.index : null}
+            dropName={props.dropName}
+            movingId={props.movingId}
+          />
         ))}
       </div>
       <footer className="flex flex-wrap items-center gap-1 border-t border-line p-2 text-xs">
@@ -445,38 +529,83 @@ function WeekColumn(props: {
   );
 }
 
-function DaySlot({ weekId, day, label, weekIdx, items, selected, onSelect }: { weekId: number; day: number; label: string; weekIdx: number; items: BoardItem[]; selected: number | null; onSelect: (id: number) => void }) {
-  const { setNodeRef, isOver } = useDroppable({ id: slotId(weekId, day) });
+function DaySlot(props: {
+  weekId: number;
+  day: number;
+  label: string;
+  weekIdx: number;
+  date: string | null;
+  startDate: string | null;
+  items: BoardItem[];
+  selected: number | null;
+  onSelect: (id: number) => void;
+  dropIndex: number | null;
+  dropName: string;
+  movingId: number | null;
+}) {
+  const { weekId, day, label, weekIdx, items, dropIndex } = props;
+  const { setNodeRef } = useDroppable({ id: slotId(weekId, day) });
+  const others = items.filter((i) => i.id !== props.movingId);
+  // The marker takes no room: a drop indicator that pushed the days below it down moved the day under the pointer,
+  // so a drop aimed at Sunday stayed on a grown Saturday.
+  const at = dropIndex === null ? -1 : Math.min(dropIndex, others.length);
+  const marker = (
+    <li key="drop-marker" aria-hidden="true" data-testid="drop-marker" className={`relative h-0 ${others.length === 0 ? "" : at === 0 ? "-mb-1" : "-mt-1"}`}>
+      <span className={`pointer-events-none absolute inset-x-0 h-1 rounded-full bg-teal ${others.length === 0 ? "top-0.5" : at === 0 ? "-top-0.5" : "top-0"}`} />
+    </li>
+  );
+  const cards = others.map((i) => (
+    <li key={i.id}>
+      <BoardCard item={i} selected={props.selected === i.id} onSelect={() => props.onSelect(i.id)} />
+    </li>
+  ));
+  if (at >= 0) cards.splice(at, 0, marker);
+  const moving = items.find((i) => i.id === props.movingId);
   return (
-    <div ref={setNodeRef} className={`min-h-12 px-1.5 py-1 ${isOver ? "bg-teal/10" : ""}`} data-testid={`slot-${weekIdx}-${day}`} aria-label={`${DAY_LONG[day]}, week ${weekIdx}`} role="group">
-      <span className="text-[10px] font-medium tracking-wide text-ink-soft uppercase">{label}</span>
-      <SortableContext id={slotId(weekId, day)} items={items.map((i) => itemKey(i.id))} strategy={verticalListSortingStrategy}>
-        <ul className="flex flex-col gap-1">
-          {items.map((i) => (
-            <li key={i.id}>
-              <BoardCard item={i} selected={selected === i.id} onSelect={() => onSelect(i.id)} />
-            </li>
-          ))}
-        </ul>
-      </SortableContext>
+    <div
+      ref={setNodeRef}
+      className={`relative min-h-12 px-1.5 py-1 ${dropIndex !== null ? "bg-teal/10 outline-2 -outline-offset-2 outline-teal" : ""}`}
+      data-testid={`slot-${weekIdx}-${day}`}
+      data-drop-slot={slotId(weekId, day)}
+      aria-label={describeDay(weekIdx, day, props.startDate)}
+      role="group"
+    >
+      <span className="text-[10px] font-medium tracking-wide text-ink-soft uppercase">
+        {label}
+        {props.date && <span className="num ml-1 normal-case">{formatDay(props.date, { day: "numeric", month: "short" })}</span>}
+      </span>
+      {dropIndex !== null && (
+        <span aria-hidden="true" className="pointer-events-none absolute top-0.5 right-1 max-w-[70%] truncate rounded bg-teal px-1 text-[10px] font-medium text-white">
+          {props.dropName || "Session"} here
+        </span>
+      )}
+      <ul className="flex flex-col gap-1">
+        {cards}
+        {/* The card being moved stays mounted (dnd-kit holds its node) but out of the flow while it is carried. */}
+        {moving && (
+          <li className="hidden">
+            <BoardCard item={moving} selected={false} onSelect={() => props.onSelect(moving.id)} />
+          </li>
+        )}
+      </ul>
     </div>
   );
 }
 
 function BoardCard({ item, selected, onSelect }: { item: BoardItem; selected: boolean; onSelect: () => void }) {
-  const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({ id: itemKey(item.id), disabled: item.id < 0 });
+  const { attributes, listeners, setNodeRef } = useDraggable({ id: itemKey(item.id), disabled: item.id < 0 });
   return (
     <button
       ref={setNodeRef}
       type="button"
-      style={{ transform: CSS.Transform.toString(transform), transition }}
       {...attributes}
       {...listeners}
       onClick={onSelect}
       aria-pressed={selected}
       aria-label={`${item.name}, ${formatMinutes(item.durationS)}`}
       data-testid="board-item"
-      className={`block w-full cursor-grab rounded-lg ${selected ? "ring-2 ring-teal" : ""} ${isDragging ? "opacity-40" : ""}`}
+      data-card-id={item.id}
+      className={`block w-full cursor-grab rounded-lg ${selected ? "ring-2 ring-teal" : ""}`}
     >
       <CardBody name={item.name} durationS={item.durationS} profile={profileOf(item.blocks)} test={Boolean(item.testProtocol)} time={item.timeOfDay} />
     </button>
