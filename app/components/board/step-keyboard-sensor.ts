@@ -1,10 +1,15 @@
 import type { Activators, SensorInstance, SensorProps } from "@dnd-kit/core";
+
+type Coordinates = { x: number; y: number };
 import type { KeyboardEvent as ReactKeyboardEvent } from "react";
 
 export type StepKey = "up" | "down" | "left" | "right";
 export interface StepKeyboardOptions {
-  /** Moves the drop target one step; returns false when there is nowhere to go in that direction. */
-  step: (key: StepKey) => boolean;
+  /**
+   * Moves the drop target one step; returns false when there is nowhere to go in that direction, or where the
+   * dragged element should now be drawn (its offset from where it started) when the caller wants it to follow.
+   */
+  step: (key: StepKey) => boolean | Coordinates;
 }
 
 const KEYS: Record<string, StepKey> = { ArrowUp: "up", ArrowDown: "down", ArrowLeft: "left", ArrowRight: "right" };
@@ -39,8 +44,9 @@ export class StepKeyboardSensor implements SensorInstance {
     this.props = props;
     this.doc = (props.event.target as Node | null)?.ownerDocument ?? document;
     props.onStart({ x: 0, y: 0 });
-    // Listen from the next task on, so the key press that started the drag does not also end it.
-    setTimeout(() => this.doc.addEventListener("keydown", this.onKeyDown));
+    // Listening at once (not from the next task) so a quick key press after the pick-up is not lost; the press that
+    // started the drag may still bubble up to the document, and is skipped there.
+    this.doc.addEventListener("keydown", this.onKeyDown);
     window.addEventListener("resize", this.cancel);
   }
 
@@ -55,6 +61,7 @@ export class StepKeyboardSensor implements SensorInstance {
   };
 
   private onKeyDown = (event: KeyboardEvent) => {
+    if (event === this.props.event) return;
     if (event.code === "Space" || event.code === "Enter") {
       event.preventDefault();
       this.detach();
@@ -69,6 +76,7 @@ export class StepKeyboardSensor implements SensorInstance {
     const key = KEYS[event.code];
     if (!key) return;
     event.preventDefault();
-    if (this.props.options.step(key)) this.props.onMove({ x: ++this.moves, y: 0 });
+    const moved = this.props.options.step(key);
+    if (moved) this.props.onMove(moved === true ? { x: ++this.moves, y: 0 } : moved);
   };
 }
