@@ -50,5 +50,9 @@ export default [
     route("coach/feed", "routes/athlete/feed.tsx", { id: "coach-feed" }),
     route("coach/shop", "routes/coach/shop.tsx"),
     route("admin/users", "routes/admin/users.tsx"),
+    // Unknown addresses under the signed-in areas get the in-app "nothing here" page rather than the bare router error.
+    route("coach/*", "routes/not-found.tsx", { id: "coach-not-found" }),
+    route("athlete/*", "routes/not-found.tsx", { id: "athlete-not-found" }),
+    route("admin/*", "routes/not-found.tsx", { id: "admin-not-found" }),
   ]),
 ] satisfies RouteConfig;

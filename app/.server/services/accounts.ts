@@ -228,7 +228,7 @@ export async function rosterFor(coachId: number) {
       athletes.map(async (a) => {
         const today = todayIn(a.timezone);
         const th = await currentThresholds(a.id, today);
-        return [a.id, { thresholds: th.map((t) => ({ sport: t.sport, metric: t.metric, value: t.value, unit: t.unit })), retest: await retestStatus(a.id, today), load: await rosterLoad(a), today }] as const;
+        return [a.id, { thresholds: th.map((t) => ({ sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, since: t.effectiveFrom })), retest: await retestStatus(a.id, today), load: await rosterLoad(a), today }] as const;
       }),
     ),
   );

@@ -362,9 +362,10 @@ export function PlanBoard({ data }: { data: BoardData }) {
               {message.text}
             </div>
           )}
-          <ol className="flex gap-3">
+          {/* On a phone each week is a list of its days, one week under the other, so nothing needs sideways scrolling. */}
+          <ol className="flex flex-col gap-3 md:flex-row">
             {weekStats.map(({ week, load, seconds, levels, warn, rise }) => (
-              <li key={week.id} className="w-52 shrink-0" data-testid={`week-${week.idx}`}>
+              <li key={week.id} className="w-full shrink-0 md:w-52" data-testid={`week-${week.idx}`}>
                 <WeekColumn
                   week={week}
                   weeks={weeks}
