@@ -105,6 +105,12 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     await page.getByLabel("start on the Monday on or after").check();
     await page.getByLabel("Start date").fill(monday);
     await page.getByRole("button", { name: "Place on calendars" }).click();
+    // Tomás already follows the demo season in these weeks: nothing is written until the coach chooses.
+    const checks = page.getByTestId("placement-checks");
+    await checks.getByText(/already has \d+ planned sessions?/).waitFor();
+    await checks.getByLabel("replace them from").check();
+    await checks.getByLabel("Replace from").fill(monday);
+    await checks.getByRole("button", { name: "Place with these choices" }).click();
     await page.getByText(/Placed \d+ sessions for Tomás Reyes/).waitFor();
     await ctx.close();
 

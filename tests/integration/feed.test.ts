@@ -37,8 +37,8 @@ async function scenario(timezone = "Europe/Berlin") {
   }
   // A session near today too, so the feed's window of −8 weeks … +1 year always has something.
   const near = mondayOf(todayIn(timezone));
-  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: start });
-  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: near });
+  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: start, choice: { overlap: "alongside", confirmSports: true, confirmTests: true } });
+  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: near, choice: { overlap: "alongside", confirmSports: true, confirmTests: true } });
   const token = await rotateFeed(athlete.id);
   return { coach, athlete, token };
 }
