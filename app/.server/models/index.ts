@@ -7,3 +7,4 @@ export { Threshold, Assignment, ScheduledSession, ScheduledBlock, type SessionSt
 export { Upload, FieldTest, RescaleReport } from "./tests";
 export { FeedToken } from "./feed";
 export { Listing, Order, PaymentEvent, type OrderStatus } from "./shop";
+export { SessionComment } from "./comments";

@@ -91,6 +91,9 @@ export interface PlanItemView {
   timeOfDay: string | null;
   recurrenceId: number | null;
   sourceSessionId: number | null;
+  /** The coach's note for this placed session (reaches the athlete's session page and feed). */
+  notes: string;
+  description: string;
 }
 
 export async function loadPlan(ownerId: number, planId: number) {
@@ -135,6 +138,8 @@ export function itemView(i: PlanItem): PlanItemView {
     timeOfDay: i.timeOfDay,
     recurrenceId: i.recurrenceId,
     sourceSessionId: i.sourceSessionId,
+    notes: i.notes,
+    description: i.description,
   };
 }
 

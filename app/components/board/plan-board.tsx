@@ -35,6 +35,7 @@ export interface BoardItem {
   blocks: Block[];
   durationS: number;
   timeOfDay: string | null;
+  notes?: string;
 }
 export interface BoardWeek {
   id: number;
@@ -63,7 +64,8 @@ type Op =
   | { op: "move"; itemId: number; toWeek: number; toDay: number; toIndex: number }
   | { op: "remove"; itemId: number }
   | { op: "duplicate-week" | "move-week"; fromWeek: number; toWeek: number }
-  | { op: "time"; itemId: number; timeOfDay: string | null };
+  | { op: "time"; itemId: number; timeOfDay: string | null }
+  | { op: "note"; itemId: number; notes: string };
 type ServerReply = { version: number; items: BoardItem[] } | { error: string; version?: number };
 
 /** Rise of planned load over the previous non-recovery week above which a week is flagged (common practice). */
@@ -111,6 +113,7 @@ function applyLocal(items: BoardItem[], op: Op, shelf: ShelfEntry[], tempId: num
   }
   if (op.op === "remove") return items.filter((i) => i.id !== op.itemId);
   if (op.op === "time") return items.map((i) => (i.id === op.itemId ? { ...i, timeOfDay: op.timeOfDay } : i));
+  if (op.op === "note") return items.map((i) => (i.id === op.itemId ? { ...i, notes: op.notes } : i));
   return items;
 }
 
@@ -400,6 +403,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
             }}
             onMove={(toWeek, toDay) => change({ op: "move", itemId: selectedItem.id, toWeek, toDay, toIndex: items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== selectedItem.id).length }, `Moved ${selectedItem.name}.`)}
             onTime={(t) => change({ op: "time", itemId: selectedItem.id, timeOfDay: t })}
+            onNote={(notes) => change({ op: "note", itemId: selectedItem.id, notes }, `Saved the note on ${selectedItem.name}.`)}
           />
         )}
       </div>
@@ -410,7 +414,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
   );
 }
 
-function CardBody({ name, durationS, profile, test, time, lifted }: { name: string; durationS: number; profile: ReturnType<typeof profileOf>; test?: boolean; time?: string | null; lifted?: boolean }) {
+function CardBody({ name, durationS, profile, test, time, note, lifted }: { name: string; durationS: number; profile: ReturnType<typeof profileOf>; test?: boolean; time?: string | null; note?: boolean; lifted?: boolean }) {
   return (
     <div className={`rounded-lg border bg-white p-2 text-left text-xs ${lifted ? "border-teal shadow-lg" : "border-line"}`}>
       <div className="flex items-start justify-between gap-1">
@@ -418,9 +422,10 @@ function CardBody({ name, durationS, profile, test, time, lifted }: { name: stri
         <span className="num shrink-0 text-ink-soft">{formatMinutes(durationS)}</span>
       </div>
       <SessionProfile steps={profile} height={18} className="mt-1" label={`Profile of ${name}`} />
-      {(test || time) && (
+      {(test || time || note) && (
         <div className="mt-1 flex gap-1">
           {test && <span className="rounded bg-brick/15 px-1 text-[10px] text-brick">field test</span>}
+          {note && <span className="rounded bg-teal/10 px-1 text-[10px] text-teal-dark">note</span>}
           {time && <span className="num rounded bg-paper-deep px-1 text-[10px]">{time}</span>}
         </div>
       )}
@@ -608,12 +613,30 @@ function BoardCard({ item, selected, onSelect }: { item: BoardItem; selected: bo
       data-card-id={item.id}
       className={`block w-full cursor-grab rounded-lg ${selected ? "ring-2 ring-teal" : ""}`}
     >
-      <CardBody name={item.name} durationS={item.durationS} profile={profileOf(item.blocks)} test={Boolean(item.testProtocol)} time={item.timeOfDay} />
+      <CardBody name={item.name} durationS={item.durationS} profile={profileOf(item.blocks)} test={Boolean(item.testProtocol)} time={item.timeOfDay} note={Boolean(item.notes)} />
     </button>
   );
 }
 
-function ItemDrawer({ item, weeks, onClose, onRemove, onMove, onTime }: { item: BoardItem; weeks: BoardWeek[]; onClose: () => void; onRemove: () => void; onMove: (w: number, d: number) => void; onTime: (t: string | null) => void }) {
+function ItemDrawer({
+  item,
+  weeks,
+  onClose,
+  onRemove,
+  onMove,
+  onTime,
+  onNote,
+}: {
+  item: BoardItem;
+  weeks: BoardWeek[];
+  onClose: () => void;
+  onRemove: () => void;
+  onMove: (w: number, d: number) => void;
+  onTime: (t: string | null) => void;
+  onNote: (notes: string) => void;
+}) {
+  const [note, setNote] = useState(item.notes ?? "");
+  useEffect(() => setNote(item.notes ?? ""), [item.id, item.notes]);
   const estimate = estimateOf(item.blocks);
   const [toWeek, setToWeek] = useState(item.weekId);
   const [toDay, setToDay] = useState(item.day);
@@ -649,6 +672,13 @@ function ItemDrawer({ item, weeks, onClose, onRemove, onMove, onTime }: { item: 
         Time of day
         <input type="time" defaultValue={item.timeOfDay ?? ""} onBlur={(e) => onTime(e.target.value || null)} className="rounded border border-line px-1 py-0.5" />
       </label>
+      <label className="mt-3 flex flex-col gap-1">
+        <span>Note for the athlete</span>
+        <textarea value={note} onChange={(e) => setNote(e.target.value)} rows={3} maxLength={2000} className="rounded border border-line px-2 py-1" placeholder="Shown on the athlete's session page and in the calendar feed" />
+      </label>
+      <button type="button" className={buttonClass("secondary", "mt-1 px-2 py-0.5")} disabled={note === (item.notes ?? "")} onClick={() => onNote(note)}>
+        Save note
+      </button>
       <fieldset className="mt-3 rounded-lg border border-line p-2">
         <legend className="px-1 text-xs text-ink-soft">Move to</legend>
         <div className="flex gap-1">
