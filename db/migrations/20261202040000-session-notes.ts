@@ -1,7 +1,11 @@
 import { DataTypes, type QueryInterface } from "sequelize";
 
-/** The shelf session's description travels with each placed copy; a thread of comments per scheduled session. */
+/**
+ * The shelf session's description travels with each placed copy; a thread of comments per scheduled session; an
+ * athlete's usual training time per weekday (JSON array of seven "HH:MM" or null) for timed feed events.
+ */
 export async function up({ context: qi }: { context: QueryInterface }) {
+  await qi.addColumn("users", "training_times", { type: DataTypes.TEXT, allowNull: true });
   await qi.addColumn("plan_items", "description", { type: DataTypes.TEXT, allowNull: false, defaultValue: "" });
   await qi.addColumn("scheduled_sessions", "description", { type: DataTypes.TEXT, allowNull: false, defaultValue: "" });
   await qi.sequelize.query("UPDATE plan_items SET description = COALESCE((SELECT s.description FROM sessions s WHERE s.id = plan_items.source_session_id), '')");
@@ -21,4 +25,5 @@ export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.dropTable("session_comments");
   await qi.removeColumn("scheduled_sessions", "description");
   await qi.removeColumn("plan_items", "description");
+  await qi.removeColumn("users", "training_times");
 }
