@@ -241,8 +241,10 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
               <dd className="text-right font-medium">{formatClock(estimate.durationS)}</dd>
               <dt className="text-ink-soft">Work</dt>
               <dd className="text-right font-medium">{estimate.workKj === null ? "—" : `${Math.round(estimate.workKj)} kJ`}</dd>
-              <dt className="text-ink-soft">Planned effort load</dt>
-              <dd className="text-right font-medium">{Math.round(estimate.plannedEffortLoad)}</dd>
+              <dt className="text-ink-soft" title="Effort score (0–10) times minutes, as planned">
+                Planned effort load
+              </dt>
+              <dd className="text-right font-medium">{Math.round(estimate.plannedEffortLoad)} points</dd>
             </dl>
           ) : (
             <p className="mt-4 text-sm text-brick">Fix the highlighted fields to see estimates.</p>

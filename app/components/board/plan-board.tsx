@@ -480,7 +480,7 @@ function WeekColumn(props: {
         <p className="num mt-1">
           {props.seconds ? formatMinutes(props.seconds) : "0 min"} of {week.plannedHours} h planned
         </p>
-        <div className="mt-1 h-1.5 rounded bg-paper-deep" title={`Planned load ${Math.round(props.load)}`}>
+        <div className="mt-1 h-1.5 rounded bg-paper-deep" title={`Planned effort load ${Math.round(props.load)} points (effort score × minutes)`}>
           <div className={`h-1.5 rounded ${props.warn ? "bg-brick" : "bg-teal"}`} style={{ width: `${(props.load / props.maxLoad) * 100}%` }} />
         </div>
         <div className="mt-1 flex h-1.5 overflow-hidden rounded" aria-label="Minutes per level">
@@ -665,7 +665,8 @@ function ItemDrawer({
           <dt className="text-ink-soft">Duration</dt>
           <dd className="text-right">{formatMinutes(estimate.durationS)}</dd>
           <dt className="text-ink-soft">Planned effort load</dt>
-          <dd className="text-right">{Math.round(estimate.plannedEffortLoad)}</dd>
+          <dd className="text-right">{Math.round(estimate.plannedEffortLoad)} points</dd>
+          <dd className="col-span-2 text-ink-soft">Effort score (0–10) times minutes, as planned.</dd>
         </dl>
       )}
       <label className="mt-3 flex items-center justify-between gap-2">

@@ -14,6 +14,7 @@ import { loadPlan, PlanError } from "~/.server/services/plans";
 import { currentThresholds } from "~/.server/services/thresholds";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
+import { formatThreshold } from "~/lib/zone-table";
 import type { Route } from "./+types/assign";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Assign · ${data?.plan.name ?? "Plan"} · Pacewright` }];
@@ -33,7 +34,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const rows = await Promise.all(
     athletes.map(async (a) => {
       const th = await currentThresholds(a.id, today);
-      return { id: a.id, name: a.name, thresholds: th.map((t) => `${t.sport} ${t.metric === "power" ? `${Math.round(t.value)} W` : t.metric === "heart_rate" ? `${Math.round(t.value)} bpm` : `${Math.round(t.value)} s`}`) };
+      // One threshold format everywhere (pace as min:ss per km or per 100 m), the same as the roster's.
+      return { id: a.id, name: a.name, thresholds: th.map((t) => `${t.sport} ${formatThreshold(t.value, t.unit)}`) };
     }),
   );
   const names = new Map(athletes.map((a) => [a.id, a.name]));
