@@ -180,7 +180,7 @@ function WeeksForm({ weeks, label, sessions, version }: { weeks: WeekRowData[]; 
   };
   return (
     <Card className="overflow-x-auto p-0">
-      <fetcher.Form method="post" onChange={touch} key={version}>
+      <fetcher.Form method="post" onChange={touch} key={version} noValidate>
         <input type="hidden" name="intent" value="weeks" />
         <table className="num w-full min-w-[48rem] text-left text-sm">
           <caption className="px-4 pt-4 text-left font-semibold">Weeks</caption>
@@ -188,8 +188,8 @@ function WeeksForm({ weeks, label, sessions, version }: { weeks: WeekRowData[]; 
             <tr>
               <th className="px-4 py-2 font-medium">Week</th>
               <th className="py-2 font-medium">Phase</th>
-              <th className="py-2 font-medium">Recovery</th>
-              <th className="py-2 font-medium">Test</th>
+              <th className="py-2 pr-3 font-medium">Recovery</th>
+              <th className="py-2 pr-3 font-medium">Test</th>
               <th className="py-2 font-medium">Hours</th>
               <th className="py-2 font-medium" title="Planned load relative to a normal loading week (1.00)">
                 Load factor
@@ -266,7 +266,7 @@ function RangeForm({ weeks }: { weeks: number }) {
   return (
     <Card>
       <h2 className="font-semibold">Change a run of weeks</h2>
-      <fetcher.Form method="post" className="mt-3 flex flex-col gap-3 text-sm" onChange={(e) => setEdited((s) => new Set(s).add((e.target as unknown as HTMLInputElement).name))}>
+      <fetcher.Form method="post" noValidate className="mt-3 flex flex-col gap-3 text-sm" onChange={(e) => setEdited((s) => new Set(s).add((e.target as unknown as HTMLInputElement).name))}>
         <input type="hidden" name="intent" value="range" />
         <Result result={fetcher.data} />
         <div className="grid grid-cols-2 gap-2">
