@@ -37,6 +37,7 @@ export default [
     route("coach/plans/new", "routes/coach/plan-new.tsx"),
     route("coach/plans/:planId", "routes/coach/plan.tsx"),
     route("coach/plans/:planId/board", "routes/coach/board.tsx"),
+    route("coach/plans/:planId/print", "routes/coach/plan-print.tsx"),
     route("coach/plans/:planId/assign", "routes/coach/assign.tsx"),
     route("athlete", "routes/athlete/today.tsx"),
     route("athlete/calendar", "routes/athlete/calendar.tsx"),

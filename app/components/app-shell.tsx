@@ -40,7 +40,7 @@ export function AppShell({
   useEffect(() => setMenuOpen(false), [pathname]);
   return (
     <div className="min-h-screen">
-      <header className="border-b border-line bg-white/80 backdrop-blur">
+      <header className="border-b border-line bg-white/80 backdrop-blur print:hidden">
         <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-3 gap-y-2 px-4 py-3 lg:gap-x-6">
           <Link to="/" className="flex items-center gap-2 font-semibold text-teal">
             <Logo className="h-7 w-7" /> Pacewright

@@ -135,9 +135,14 @@ export default function PlanPage({ loaderData }: Route.ComponentProps) {
         title={plan.name}
         lead={`${weeks.length} weeks · ${plan.pattern} loading · field test every ${plan.testEveryWeeks} weeks${plan.eventDate ? ` · event ${plan.eventDate}` : ""}`}
         actions={
-          <Link to={`/coach/plans/${plan.id}/board`} className={buttonClass("primary")}>
-            Open the plan board
-          </Link>
+          <>
+            <Link to={`/coach/plans/${plan.id}/print`} className={buttonClass("secondary")}>
+              Print view
+            </Link>
+            <Link to={`/coach/plans/${plan.id}/board`} className={buttonClass("primary")}>
+              Open the plan board
+            </Link>
+          </>
         }
       />
       {params.get("created") && (
