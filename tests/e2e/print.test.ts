@@ -3,7 +3,7 @@ import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
-describe.skipIf(!enabled)("month and print views", () => {
+describe.skipIf(!enabled)("calendar by keyboard, month and print views", () => {
   const env = useApp({ beforeAll, afterAll });
 
   it("the athlete's month view steps by month and prints without the app's frame; the coach prints a plan", async () => {
@@ -13,6 +13,34 @@ describe.skipIf(!enabled)("month and print views", () => {
     await page.waitForURL(`${env.app.baseUrl}/athlete`);
     await page.goto(`${env.app.baseUrl}/athlete/calendar`);
     await ready(page);
+    // Keyboard move on the two-week view: Space, one step right (a week later), Space.
+    const today = await page.evaluate(() => new Date().toISOString().slice(0, 10));
+    const handles = page.getByRole("button", { name: /^Move / });
+    let moved: { name: string; from: string } | null = null;
+    for (let i = 0; i < (await handles.count()); i++) {
+      const h = handles.nth(i);
+      const day = await h.evaluate((el) => el.closest("[data-day]")!.getAttribute("data-day")!);
+      if (day > today) {
+        const later = await page.evaluate((d) => {
+          const x = new Date(`${d}T00:00:00Z`);
+          x.setUTCDate(x.getUTCDate() + 7);
+          return x.toISOString().slice(0, 10);
+        }, day);
+        if ((await page.getByTestId(`day-${later}`).count()) === 0) continue;
+        moved = { name: (await h.getAttribute("aria-label"))!.slice(5), from: day };
+        await h.focus();
+        const posted = page.waitForResponse((r) => r.url().includes("/api/calendar") && r.request().method() === "POST");
+        await page.keyboard.press("Space");
+        await page.keyboard.press("ArrowRight");
+        await expect.poll(() => page.locator('[id^="DndLiveRegion"]').first().textContent()).toContain("is over");
+        await page.keyboard.press("Space");
+        expect((await posted).status()).toBe(200);
+        await page.getByTestId(`day-${later}`).getByText(moved.name).first().waitFor();
+        break;
+      }
+    }
+    expect(moved).not.toBeNull();
+
     await page.getByRole("navigation", { name: "Calendar view" }).getByRole("link", { name: "Month" }).click();
     await page.waitForURL(/view=month/);
     const month = await page.evaluate(() => new Date().toISOString().slice(0, 7));
