@@ -210,7 +210,8 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
       // Weeks 5 to 8 sit beyond the right edge: the board is scrolled sideways before these drops.
       if (week >= 5) await weeks.first().evaluate((el) => (el.scrollLeft = el.scrollWidth));
       await drop(shelfCard("Recovery spin"), week, day);
-      await expect.poll(async () => (await names(week, day)).length).toBe(before + 1);
+      // Wait for the server's answer to replace the optimistic card (its figures can grow the week's header).
+      await expect.poll(() => page.getByTestId(`slot-${week}-${day}`).locator('[data-card-id]:not([data-card-id^="-"])').count()).toBe(before + 1);
     }
     // Nothing landed anywhere else.
     const total = await page.getByTestId("board-item").count();
@@ -220,6 +221,7 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
     // Onto the day's heading, a session joins the end of the day; onto the top half of a card, it goes before it.
     await drop(shelfCard("Threshold repeats"), 2, 3);
     await expect.poll(() => names(2, 3)).toEqual(["Recovery spin", "Threshold repeats"]);
+    await expect.poll(() => page.getByTestId("slot-2-3").locator('[data-card-id]:not([data-card-id^="-"])').count()).toBe(2);
     const first = page.getByTestId("slot-2-3").getByRole("button", { name: /^Recovery spin/ });
     await page.getByTestId("slot-2-3").scrollIntoViewIfNeeded();
     const moving = page.getByTestId("slot-2-3").getByRole("button", { name: /^Threshold repeats/ });
@@ -233,6 +235,19 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
     await page.mouse.up();
     expect((await s).status()).toBe(200);
     await expect.poll(() => names(2, 3)).toEqual(["Threshold repeats", "Recovery spin"]);
+
+    // A note for the athlete on one placed session, from the drawer; the card says it has one, and it stays.
+    await page.getByTestId("slot-2-3").getByRole("button", { name: /^Recovery spin/ }).click();
+    const drawer = page.getByRole("complementary", { name: "Selected session" });
+    await drawer.getByLabel("Note for the athlete").fill("Keep it truly easy.");
+    const noted = saved();
+    await drawer.getByRole("button", { name: "Save note" }).click();
+    expect((await noted).status()).toBe(200);
+    await page.getByTestId("slot-2-3").getByText("note", { exact: true }).waitFor();
+    await page.reload();
+    await ready(page);
+    await page.getByTestId("slot-2-3").getByRole("button", { name: /^Recovery spin/ }).click();
+    expect(await page.getByRole("complementary", { name: "Selected session" }).getByLabel("Note for the athlete").inputValue()).toBe("Keep it truly easy.");
     await ctx.close();
   });
 });
