@@ -39,6 +39,7 @@ export default [
     route("coach/plans/new", "routes/coach/plan-new.tsx"),
     route("coach/plans/:planId", "routes/coach/plan.tsx"),
     route("coach/plans/:planId/board", "routes/coach/board.tsx"),
+    route("coach/plans/:planId/print", "routes/coach/plan-print.tsx"),
     route("coach/plans/:planId/assign", "routes/coach/assign.tsx"),
     route("athlete", "routes/athlete/today.tsx"),
     route("athlete/calendar", "routes/athlete/calendar.tsx"),
@@ -54,5 +55,9 @@ export default [
     route("admin/users", "routes/admin/users.tsx"),
     route("coach/bands", "routes/coach/bands.tsx"),
     route("bands/about", "routes/bands-about.tsx"),
+    // Unknown addresses under the signed-in areas get the in-app "nothing here" page rather than the bare router error.
+    route("coach/*", "routes/not-found.tsx", { id: "coach-not-found" }),
+    route("athlete/*", "routes/not-found.tsx", { id: "athlete-not-found" }),
+    route("admin/*", "routes/not-found.tsx", { id: "admin-not-found" }),
   ]),
 ] satisfies RouteConfig;

@@ -1,4 +1,5 @@
-import { Form, NavLink, Link, useMatches } from "react-router";
+import { useEffect, useState } from "react";
+import { Form, NavLink, Link, useLocation, useMatches } from "react-router";
 import type { Role } from "~/lib/roles";
 import { Logo } from "./logo";
 
@@ -37,19 +38,33 @@ export function AppShell({
 }) {
   // Pages that need the whole width (the plan board) say so in their route handle.
   const wide = useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide);
+  // Below the large breakpoint the links do not fit on one line; they fold into a menu that closes on navigation.
+  const [menuOpen, setMenuOpen] = useState(false);
+  const { pathname } = useLocation();
+  useEffect(() => setMenuOpen(false), [pathname]);
   return (
     <div className="min-h-screen">
-      <header className="border-b border-line bg-white/80 backdrop-blur">
-        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
+      <header className="border-b border-line bg-white/80 backdrop-blur print:hidden">
+        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-3 gap-y-2 px-4 py-3 lg:gap-x-6">
           <Link to="/" className="flex items-center gap-2 font-semibold text-teal">
             <Logo className="h-7 w-7" /> Pacewright
           </Link>
-          <nav aria-label="Main" className="order-last -mx-1 flex w-full gap-1 overflow-x-auto sm:order-none sm:mx-0 sm:w-auto sm:flex-1">
+          <button
+            type="button"
+            className="ml-auto rounded-md border border-line px-3 py-1.5 text-sm font-medium lg:hidden"
+            aria-expanded={menuOpen}
+            aria-controls="main-nav"
+            onClick={() => setMenuOpen((o) => !o)}
+          >
+            Menu
+          </button>
+          <nav id="main-nav" aria-label="Main" className={`${menuOpen ? "flex" : "hidden"} order-last w-full flex-col gap-1 lg:order-none lg:flex lg:w-auto lg:flex-1 lg:flex-row`}>
             {NAV[user.role].map((item) => (
               <NavLink
                 key={item.to}
                 to={item.to}
                 end={item.end}
+                onClick={() => setMenuOpen(false)}
                 className={({ isActive }) =>
                   `rounded-md px-3 py-1.5 text-sm font-medium whitespace-nowrap ${isActive ? "bg-teal text-paper" : "text-ink hover:bg-paper-deep"}`
                 }
@@ -58,13 +73,13 @@ export function AppShell({
               </NavLink>
             ))}
             {devMail && (
-              <NavLink to="/dev/mail" className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep">
+              <NavLink to="/dev/mail" onClick={() => setMenuOpen(false)} className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep">
                 Outbox (dev)
               </NavLink>
             )}
           </nav>
-          <div className="ml-auto flex items-center gap-3 text-sm sm:ml-0">
-            <span className="hidden text-ink-soft sm:inline">
+          <div className="flex items-center gap-3 text-sm">
+            <span className="hidden text-ink-soft xl:inline">
               {user.name} · <span className="capitalize">{user.role}</span>
             </span>
             <Form method="post" action="/logout">

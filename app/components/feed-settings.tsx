@@ -7,6 +7,7 @@ import { FormMessage } from "~/components/ui/field";
 export interface FeedSettingsData {
   feed: { https: string; webcal: string; qrSvg: string; createdAt: string; lastUsedAt: string | null } | null;
   alarmMinutes: number | null;
+  trainingTimes: (string | null)[];
   forCoach: boolean;
 }
 
@@ -93,6 +94,7 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
             </button>
           </fetcher.Form>
         )}
+        {!data.forCoach && <TrainingTimes times={data.trainingTimes} />}
       </Card>
       {feed && (
         <Card>
@@ -102,5 +104,54 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
         </Card>
       )}
     </div>
+  );
+}
+
+const WEEKDAYS = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"];
+
+/** When the athlete usually trains on each weekday; a session's own time on the plan still comes first. */
+function TrainingTimes({ times }: { times: (string | null)[] }) {
+  const fetcher = useFetcher<{ ok: boolean; message: string; fieldErrors?: Record<string, string> }>();
+  const [values, setValues] = useState(() => times.map((t) => t ?? ""));
+  const [sent, setSent] = useState<string[] | null>(null);
+  const errors = fetcher.data?.fieldErrors ?? {};
+  return (
+    <fetcher.Form method="post" className="mt-6 border-t border-line pt-4 text-sm" onSubmit={() => setSent(values)} noValidate>
+      <fieldset>
+        <legend className="font-medium">Usual training time</legend>
+        <p className="mt-1 text-xs text-ink-soft">
+          With a time, a session becomes an event that starts then and lasts as long as the session, in your time zone. Leave a day empty to keep its
+          sessions all-day.
+        </p>
+        {fetcher.data && (!fetcher.data.fieldErrors || sent === values) && (
+          <p role={fetcher.data.ok ? "status" : "alert"} className={`mt-2 ${fetcher.data.ok ? "text-teal-dark" : "text-brick"}`}>
+            {fetcher.data.message}
+          </p>
+        )}
+        <div className="mt-2 grid grid-cols-1 gap-2 sm:grid-cols-2">
+          {WEEKDAYS.map((day, i) => {
+            // An error belongs to the value that was sent; editing the field clears it.
+            const error = sent && sent[i] === values[i] ? errors[`time-${i}`] : undefined;
+            return (
+              <label key={day} className="flex items-center justify-between gap-2">
+                <span>{day}</span>
+                <input
+                  type="time"
+                  name={`time-${i}`}
+                  value={values[i]}
+                  onChange={(e) => setValues((v) => v.map((x, j) => (j === i ? e.target.value : x)))}
+                  aria-invalid={error ? true : undefined}
+                  className={`rounded-lg border px-2 py-1 ${error ? "border-brick" : "border-line"}`}
+                />
+                {error && <span className="text-xs text-brick">{error}</span>}
+              </label>
+            );
+          })}
+        </div>
+      </fieldset>
+      <button name="intent" value="times" className={buttonClass("secondary", "mt-3")}>
+        Save training times
+      </button>
+    </fetcher.Form>
   );
 }

@@ -1,16 +1,18 @@
 import {
   closestCenter,
+  type CollisionDetection,
   DndContext,
-  KeyboardSensor,
+  type DragStartEvent,
   PointerSensor,
   useSensor,
   useSensors,
   type Announcements,
   type DragEndEvent,
 } from "@dnd-kit/core";
-import { arrayMove, SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from "@dnd-kit/sortable";
+import { arrayMove, SortableContext, useSortable, verticalListSortingStrategy } from "@dnd-kit/sortable";
 import { CSS } from "@dnd-kit/utilities";
-import { useMemo, useState } from "react";
+import { useMemo, useRef, useState } from "react";
+import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
 import { Form, useNavigation } from "react-router";
 import { SessionProfile } from "~/components/session-profile";
 import { buttonClass } from "~/components/ui/button";
@@ -62,22 +64,59 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
   const allErrors: Record<string, string | undefined> = { ...clientErrors, ...errors };
   const bandSets = useBandSets();
   const bandSet = bandSets[bandSetKeyFor(sport, mainMetric(blocks))];
+  // A half-typed field (a duration "abc", an empty percentage) is not a number: figures and the profile wait until
+  // every block is valid, so nothing reads "NaN min" and the drawing never gets an impossible size.
+  const blocksValid = Object.values(clientErrors).every((v) => !v);
   const estimate = useMemo(() => {
+    if (!blocksValid) return null;
     try {
       return estimateSession(blocks, { power: reference > 0 ? reference : undefined }, bandSet.bands);
     } catch {
       return null;
     }
-  }, [blocks, reference, bandSet]);
+  }, [blocks, reference, bandSet, blocksValid]);
   const profile = useMemo(() => {
+    if (!blocksValid) return [];
     try {
       return expandBlocks(blocks).map((s) => ({ s: s.startS, d: s.durationS, lo: s.lowPct, hi: s.highPct, ramp: s.ramp }));
     } catch {
       return [];
     }
-  }, [blocks]);
+  }, [blocks, blocksValid]);
 
-  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 4 } }), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
+  // The keyboard walks the list by position, not by measured rectangles: the geometric stepper scrolled the page on
+  // its own and skipped or repeated positions once the blocks sat below the fold.
+  const keyTarget = useRef<{ from: number; to: number; tops: DOMRect[] } | null>(null);
+  const liveItems = useRef(items);
+  liveItems.current = items;
+  const keyboardOptions = useMemo(
+    () => ({
+      step: (key: StepKey) => {
+        const t = keyTarget.current;
+        if (!t || (key !== "up" && key !== "down")) return false;
+        const to = t.to + (key === "up" ? -1 : 1);
+        if (to < 0 || to >= liveItems.current.length) return false;
+        t.to = to;
+        // Drawn where it will land: top edges line up moving up, bottom edges moving down.
+        const a = t.tops[t.from];
+        const b = t.tops[to];
+        return { x: 0, y: to <= t.from ? b.top - a.top : b.bottom - a.bottom };
+      },
+    }),
+    [],
+  );
+  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 4 } }), useSensor(StepKeyboardSensor, keyboardOptions));
+  const collision: CollisionDetection = (args) => {
+    const t = keyTarget.current;
+    if (!args.pointerCoordinates && t) return [{ id: liveItems.current[t.to].key }];
+    return closestCenter(args);
+  };
+  const onDragStart = ({ active, activatorEvent }: DragStartEvent) => {
+    if (!(activatorEvent instanceof KeyboardEvent)) return;
+    const from = items.findIndex((i) => i.key === active.id);
+    const tops = [...document.querySelectorAll<HTMLElement>('[data-testid="block"]')].map((el) => el.getBoundingClientRect());
+    keyTarget.current = { from, to: from, tops };
+  };
   const position = (id: string | number) => items.findIndex((i) => i.key === id) + 1;
   const announcements: Announcements = {
     onDragStart: ({ active }) => `Picked up block ${position(active.id)} of ${items.length}. Use the arrow keys to move it, Space to drop, Escape to cancel.`,
@@ -86,6 +125,7 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
     onDragCancel: () => "Moving cancelled; the block is back where it was.",
   };
   const onDragEnd = ({ active, over }: DragEndEvent) => {
+    keyTarget.current = null;
     if (!over || active.id === over.id) return;
     setItems((list) => arrayMove(list, list.findIndex((i) => i.key === active.id), list.findIndex((i) => i.key === over.id)));
   };
@@ -152,7 +192,15 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
             </div>
           </div>
           {allErrors.blocks && <p className="text-sm text-brick">{allErrors.blocks}</p>}
-          <DndContext id="session-blocks" sensors={sensors} collisionDetection={closestCenter} onDragEnd={onDragEnd} accessibility={{ announcements }}>
+          <DndContext
+            id="session-blocks"
+            sensors={sensors}
+            collisionDetection={collision}
+            onDragStart={onDragStart}
+            onDragEnd={onDragEnd}
+            onDragCancel={() => (keyTarget.current = null)}
+            accessibility={{ announcements }}
+          >
             <SortableContext items={items.map((i) => i.key)} strategy={verticalListSortingStrategy}>
               <ol className="flex flex-col gap-2" aria-label="Blocks of this session">
                 {items.map((item, index) => (
@@ -178,7 +226,11 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
       <aside className="flex flex-col gap-4 lg:sticky lg:top-4 lg:self-start" aria-label="Preview and estimates">
         <div className="rounded-xl border border-line bg-white p-4">
           <h2 className="font-semibold">Preview</h2>
-          <SessionProfile steps={profile} height={80} className="mt-3 rounded bg-paper/60" label="Step profile of this session" />
+          {blocksValid ? (
+            <SessionProfile steps={profile} height={80} className="mt-3 rounded bg-paper/60" label="Step profile of this session" />
+          ) : (
+            <p className="mt-3 flex h-20 items-center justify-center rounded bg-paper/60 px-3 text-center text-sm text-ink-soft">The profile returns once the highlighted fields are fixed.</p>
+          )}
           <p className="mt-1 text-xs text-ink-soft">Height is % of threshold; the dashed line is threshold.</p>
           <label className="mt-4 flex items-center justify-between gap-2 text-sm">
             <span>Reference threshold power</span>
@@ -201,8 +253,10 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
               <dd className="text-right font-medium">{formatClock(estimate.durationS)}</dd>
               <dt className="text-ink-soft">Work</dt>
               <dd className="text-right font-medium">{estimate.workKj === null ? "—" : `${Math.round(estimate.workKj)} kJ`}</dd>
-              <dt className="text-ink-soft">Planned effort load</dt>
-              <dd className="text-right font-medium">{Math.round(estimate.plannedEffortLoad)}</dd>
+              <dt className="text-ink-soft" title="Effort score (0–10) times minutes, as planned">
+                Planned effort load
+              </dt>
+              <dd className="text-right font-medium">{Math.round(estimate.plannedEffortLoad)} points</dd>
             </dl>
           ) : (
             <p className="mt-4 text-sm text-brick">Fix the highlighted fields to see estimates.</p>
@@ -284,7 +338,8 @@ function SortableBlock(props: {
           ref={setActivatorNodeRef}
           {...attributes}
           {...listeners}
-          className="cursor-grab rounded-md border border-line px-2 py-1 text-ink-soft active:cursor-grabbing"
+          // Without touch-action: none a touch or pen drag on the handle scrolls the page instead of moving the block.
+          className="cursor-grab touch-none rounded-md border border-line px-2 py-1 text-ink-soft active:cursor-grabbing"
           aria-label={`Move block ${index + 1}, ${BLOCK_LABEL[block.kind]}`}
         >
           ⠿
@@ -292,7 +347,7 @@ function SortableBlock(props: {
         <span className="font-medium">
           {index + 1}. {BLOCK_LABEL[block.kind]}
         </span>
-        <span className="num hidden flex-1 truncate text-sm text-ink-soft sm:block">{safeDescribe(block)}</span>
+        <span className="num hidden flex-1 truncate text-sm text-ink-soft sm:block">{Object.keys(props.errors).some((k) => k.startsWith(`${prefix}.`) && props.errors[k]) ? "" : safeDescribe(block)}</span>
         <span className="ml-auto flex gap-1">
           <button type="button" onClick={() => props.onMove(-1)} disabled={index === 0} className={buttonClass("ghost", "px-2 py-1")} aria-label={`Move block ${index + 1} up`}>
             ↑

@@ -24,6 +24,7 @@ const COLUMNS: [table: string, column: string][] = [
   ["rescale_reports", "field_test_id"],
   ["rescale_reports", "confirmed_by"],
   ["scheduled_blocks", "threshold_id"],
+  ["session_comments", "author_id"],
   ["scheduled_sessions", "plan_item_id"],
   ["thresholds", "created_by"],
   ["uploads", "uploaded_by"],

@@ -120,7 +120,7 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await page.waitForURL(`${env.app.baseUrl}/athlete`);
     const response = await page.goto(`${env.app.baseUrl}/coach`);
     expect(response?.status()).toBe(403);
-    await page.getByRole("heading", { name: "Not allowed" }).waitFor();
+    await page.getByTestId("app-error").getByRole("heading", { name: "Not for this account" }).waitFor();
     await ctx.close();
   });
 });

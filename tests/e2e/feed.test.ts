@@ -31,7 +31,14 @@ describe.skipIf(!enabled)("calendar feed in the browser", () => {
     expect(res.headers.get("content-type")).toBe("text/calendar; charset=utf-8");
     const body = await res.text();
     expect(body.startsWith("BEGIN:VCALENDAR\r\n")).toBe(true);
-    expect(body).toMatch(/SUMMARY:.* W/);
+    expect(body.replace(/\r\n /g, "")).toMatch(/DESCRIPTION:.*\d+(–\d+)? W/);
+
+    // A usual training time makes that weekday's sessions timed events with a length.
+    await page.getByLabel("Tuesday").fill("06:30");
+    await page.getByRole("button", { name: "Save training times" }).click();
+    await page.getByText(/Saved\. Sessions on those days get a start time/).waitFor();
+    const timed = (await (await fetch(link)).text()).replace(/\r\n /g, "");
+    expect(timed).toMatch(/DTSTART;TZID=[^:]+:\d{8}T063000\r\nDURATION:PT\d+M/);
 
     page.once("dialog", (d) => d.accept());
     await page.getByRole("button", { name: "Turn the link off" }).click();

@@ -69,7 +69,7 @@ describe.skipIf(!enabled)("training load in the browser", () => {
     await signInAs(coach, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
     await coach.waitForURL(`${env.app.baseUrl}/coach`);
     const tomas = coach.locator("tr", { hasText: "Tomás Reyes" }).getByTestId("roster-compliance");
-    await expect.poll(() => tomas.textContent()).toMatch(/\d+ % \(\d+\/\d+\)/);
+    await expect.poll(() => tomas.textContent()).toMatch(/\d+ % \(\d+ of \d+ sessions\)/);
     await shot(coach, "roster-compliance");
     await cctx.close();
   });

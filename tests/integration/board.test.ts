@@ -116,7 +116,7 @@ describe("assignment and materialization", () => {
     await Threshold.create({ athleteId: withT.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
     await Threshold.create({ athleteId: withT.id, sport: "bike", metric: "heart_rate", value: 170, unit: "bpm", effectiveFrom: "2026-01-01", source: "manual" });
 
-    const res = await run(assign.action, formRequest(`/coach/plans/${plan.id}/assign`, { athleteIds: [String(withT.id), String(without.id)], mode: "start", date: "2027-01-06" }, { cookie }), { planId: String(plan.id) });
+    const res = await run(assign.action, formRequest(`/coach/plans/${plan.id}/assign`, { athleteIds: [String(withT.id), String(without.id)], mode: "start", date: "2027-01-06", decided: "1", confirmSports: "on" }, { cookie }), { planId: String(plan.id) });
     expect(payloadOf(res).ok).toBe(true);
     // The Monday on or after 6 January 2027 is 11 January; week 2's Tuesday is 19 January.
     const s = await ScheduledSession.findOne({ where: { athleteId: withT.id, name: "Threshold 4 × 8" } });
@@ -150,7 +150,7 @@ describe("assignment and materialization", () => {
     const runner = await makeUser({ role: "athlete" });
     await CoachAthlete.create({ coachId: coach.id, athleteId: runner.id });
     await Threshold.create({ athleteId: runner.id, sport: "run", metric: "pace", value: 240, unit: "s/km", effectiveFrom: "2026-01-01", source: "manual" });
-    await run(assign.action, formRequest(`/coach/plans/${plan.id}/assign`, { athleteIds: String(runner.id), mode: "event", date: "2027-03-07" }, { cookie }), { planId: String(plan.id) });
+    await run(assign.action, formRequest(`/coach/plans/${plan.id}/assign`, { athleteIds: String(runner.id), mode: "event", date: "2027-03-07", decided: "1", confirmSports: "on" }, { cookie }), { planId: String(plan.id) });
     const b = await ScheduledBlock.findOne({ where: { athleteId: runner.id } });
     expect(b).toMatchObject({ lowAbs: Math.round(240 / 0.95), highAbs: Math.round(240 / 1.1), unit: "s/km" });
     expect(b!.highAbs).toBe(218);
@@ -176,7 +176,7 @@ describe("assignment and materialization", () => {
     const start = addDays(mondayOf(today), -7); // week 1 is last week, week 2 this week
     const placed = await op(plan.id, { op: "copy", sessionId: threshold.id, toWeek: weeks[0].id, toDay: 0, toIndex: 0 }, cookie);
     await op(plan.id, { op: "copy", sessionId: threshold.id, toWeek: weeks[2].id, toDay: 2, toIndex: 0 }, cookie);
-    await run(assign.action, formRequest(`/coach/plans/${plan.id}/assign`, { athleteIds: String(athlete.id), mode: "start", date: start }, { cookie }), { planId: String(plan.id) });
+    await run(assign.action, formRequest(`/coach/plans/${plan.id}/assign`, { athleteIds: String(athlete.id), mode: "start", date: start, decided: "1", confirmSports: "on" }, { cookie }), { planId: String(plan.id) });
     const before = await ScheduledSession.findAll({ where: { athleteId: athlete.id }, order: [["date", "ASC"]] });
     expect(before).toHaveLength(2);
     // Change the plan: swap the future session and add one; also change the past one.
@@ -210,7 +210,7 @@ describe("athlete calendar", () => {
     await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
     await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 200, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
     await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 300, unit: "W", effectiveFrom: "2027-01-06", source: "manual" });
-    await run(assign.action, formRequest(`/coach/plans/${plan.id}/assign`, { athleteIds: String(athlete.id), mode: "start", date: "2027-01-04" }, { cookie }), { planId: String(plan.id) });
+    await run(assign.action, formRequest(`/coach/plans/${plan.id}/assign`, { athleteIds: String(athlete.id), mode: "start", date: "2027-01-04", decided: "1", confirmSports: "on" }, { cookie }), { planId: String(plan.id) });
     const s = (await ScheduledSession.findOne({ where: { athleteId: athlete.id } }))!;
     expect(s.date).toBe("2027-01-04");
     const work = async () => (await ScheduledBlock.findOne({ where: { scheduledSessionId: s.id, part: "work" } }))!;

@@ -37,8 +37,8 @@ async function scenario(timezone = "Europe/Berlin") {
   }
   // A session near today too, so the feed's window of −8 weeks … +1 year always has something.
   const near = mondayOf(todayIn(timezone));
-  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: start });
-  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: near });
+  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: start, choice: { overlap: "alongside", confirmSports: true, confirmTests: true } });
+  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: near, choice: { overlap: "alongside", confirmSports: true, confirmTests: true } });
   const token = await rotateFeed(athlete.id);
   return { coach, athlete, token };
 }
@@ -60,7 +60,8 @@ describe("calendar feed", () => {
     expect(text.replace(/\r\n/g, "").includes("\n")).toBe(false);
     for (const line of text.split("\r\n")) expect(Buffer.byteLength(line, "utf8")).toBeLessThanOrEqual(75);
     // Escaped commas and semicolons in the summary (§3.3.11).
-    expect(text.replace(/\r\n /g, "")).toContain("SUMMARY:Threshold\\; repeats\\, hard · 4 × 8 min at 238–248 W");
+    // Titles are the session's name alone; targets are in the description.
+    expect(text.replace(/\r\n /g, "")).toContain("SUMMARY:Threshold\\; repeats\\, hard\r\n");
     expect(text).toMatch(/DTSTAMP:\d{8}T\d{6}Z/);
     expect(text).toContain("BEGIN:VTIMEZONE");
     expect(text).toContain("TZID:Europe/Berlin");
@@ -103,7 +104,7 @@ describe("calendar feed", () => {
     await saveTest(athlete, athlete, { protocol: "manual", inputs: { sport: "bike", metric: "power", value: "300" }, testedOn: todayIn(athlete.timezone), confirmed: true });
     const second = find(new ICAL.Component(ICAL.parse(await (await fetchFeed(token)).text())));
     expect(Number(second.getFirstPropertyValue("sequence"))).toBe(1);
-    expect(String(second.getFirstPropertyValue("summary"))).toContain("285–297 W");
+    expect(String(second.getFirstPropertyValue("description"))).toContain("285–297 W");
     await moveSession(athlete.id, future.id, addDays(future.date, 1));
     const third = find(new ICAL.Component(ICAL.parse(await (await fetchFeed(token)).text())));
     expect(Number(third.getFirstPropertyValue("sequence"))).toBe(2);

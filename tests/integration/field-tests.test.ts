@@ -51,7 +51,7 @@ async function scenario() {
     await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: hr.id, toWeek: w.id, toDay: 3, toIndex: 0 });
     await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: runS.id, toWeek: w.id, toDay: 5, toIndex: 0 });
   }
-  await assignPlan(coach, plan.id, [athlete.id, bystander.id], { mode: "start", date: "2026-11-02" });
+  await assignPlan(coach, plan.id, [athlete.id, bystander.id], { mode: "start", date: "2026-11-02", choice: { overlap: "alongside", confirmSports: true, confirmTests: true } });
   // After the test date: one session done, one skipped. They must never change.
   const after = await ScheduledSession.findAll({ where: { athleteId: athlete.id, name: "Threshold" }, order: [["date", "ASC"]] });
   await after.find((s) => s.date === "2026-11-24")!.update({ status: "done", effortScore: 7 });

@@ -429,7 +429,8 @@ describe("what buying will do, shown before paying", () => {
     // The buyer's own coach already placed a plan on the same weeks.
     await CoachAthlete.create({ coachId: coach.id, athleteId: buyer.id });
     const start = addDays(todayIn("UTC"), 7);
-    const placed = await assignPlan(coach, plan.id, [buyer.id], { mode: "start", date: start });
+    // The coach places it knowingly: the buyer has no bike threshold yet.
+    const placed = await assignPlan(coach, plan.id, [buyer.id], { mode: "start", date: start, choice: { confirmSports: true } });
     const again = payloadOf(await run(listingPage.loader, getRequest(`/shop/${listing.slug}`, cookie), { slug: listing.slug }));
     expect(again.placement.current).toHaveLength(1);
     const refused = await run(listingPage.action, formRequest(`/shop/${listing.slug}`, { mode: "start", date: start }, { cookie }), { slug: listing.slug });

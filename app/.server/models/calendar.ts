@@ -77,6 +77,7 @@ export class ScheduledSession extends Model<InferAttributes<ScheduledSession>, I
   declare sport: string;
   declare testProtocol: CreationOptional<string | null>;
   declare notes: CreationOptional<string>;
+  declare description: CreationOptional<string>;
   declare plannedDurationS: CreationOptional<number>;
   declare plannedLoad: CreationOptional<number>;
   declare status: CreationOptional<SessionStatus>;
@@ -108,6 +109,7 @@ ScheduledSession.init(
     sport: { type: DataTypes.STRING(16), allowNull: false },
     testProtocol: { type: DataTypes.STRING(32), allowNull: true },
     notes: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
+    description: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
     plannedDurationS: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     plannedLoad: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 0 },
     status: { type: DataTypes.STRING(12), allowNull: false, defaultValue: "planned" },

@@ -8,3 +8,4 @@ export { Upload, FieldTest, RescaleReport } from "./tests";
 export { FeedToken } from "./feed";
 export { Listing, Order, PaymentEvent, type OrderStatus } from "./shop";
 export { BandSetRow } from "./bands";
+export { SessionComment } from "./comments";

@@ -155,6 +155,7 @@ export class PlanItem extends Model<InferAttributes<PlanItem>, InferCreationAttr
   declare blocks: unknown;
   declare timeOfDay: CreationOptional<string | null>;
   declare notes: CreationOptional<string>;
+  declare description: CreationOptional<string>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -173,6 +174,7 @@ PlanItem.init(
     blocks: json("blocks", "[]"),
     timeOfDay: { type: DataTypes.STRING(5), allowNull: true },
     notes: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
+    description: { type: DataTypes.TEXT, allowNull: false, defaultValue: "" },
     ...ts,
   },
   { sequelize: db(), tableName: "plan_items" },

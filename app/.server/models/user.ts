@@ -24,6 +24,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare restingHr: CreationOptional<number | null>;
   declare maxHr: CreationOptional<number | null>;
   declare feedAlarmMinutes: CreationOptional<number | null>;
+  /** Usual start time per weekday (Monday first), "HH:MM" or null for all-day events in the feed. */
+  declare trainingTimes: CreationOptional<(string | null)[] | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -49,6 +51,17 @@ User.init(
     restingHr: { type: DataTypes.INTEGER, allowNull: true },
     maxHr: { type: DataTypes.INTEGER, allowNull: true },
     feedAlarmMinutes: { type: DataTypes.INTEGER, allowNull: true },
+    trainingTimes: {
+      type: DataTypes.TEXT,
+      allowNull: true,
+      get(this: User) {
+        const raw = this.getDataValue("trainingTimes") as unknown as string | null;
+        return raw ? (JSON.parse(raw) as (string | null)[]) : null;
+      },
+      set(this: User, v: (string | null)[] | null) {
+        this.setDataValue("trainingTimes", (v ? JSON.stringify(v) : null) as never);
+      },
+    },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },

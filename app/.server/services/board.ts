@@ -14,6 +14,7 @@ export const boardOpSchema = z.discriminatedUnion("op", [
   z.object({ op: z.literal("remove"), version: z.number().int().optional(), itemId: z.number().int().positive() }),
   z.object({ op: z.literal("duplicate-week"), version: z.number().int().optional(), fromWeek: z.number().int().positive(), toWeek: z.number().int().positive() }),
   z.object({ op: z.literal("move-week"), version: z.number().int().optional(), fromWeek: z.number().int().positive(), toWeek: z.number().int().positive() }),
+  z.object({ op: z.literal("note"), version: z.number().int().optional(), itemId: z.number().int().positive(), notes: z.string().max(2000, "Keep the note under 2000 characters.") }),
   z.object({ op: z.literal("time"), version: z.number().int().optional(), itemId: z.number().int().positive(), timeOfDay: z.string().regex(/^([01]\d|2[0-3]):[0-5]\d$/).nullable() }),
 ]);
 export type BoardOp = z.infer<typeof boardOpSchema>;
@@ -60,7 +61,7 @@ export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp)
         const ids = await slotIds(op.toWeek, op.toDay, transaction);
         const { session, blocks } = shelfSession!;
         const item = await PlanItem.create(
-          { planId, weekId: op.toWeek, day: op.toDay, position: 1000 + ids.length, sourceSessionId: session.id, name: session.name, sport: session.sport, testProtocol: session.testProtocol, blocks },
+          { planId, weekId: op.toWeek, day: op.toDay, position: 1000 + ids.length, sourceSessionId: session.id, name: session.name, sport: session.sport, testProtocol: session.testProtocol, blocks, description: session.description },
           { transaction },
         );
         ids.splice(Math.min(op.toIndex, ids.length), 0, item.id);
@@ -100,13 +101,19 @@ export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp)
             ids.push(item.id);
           } else {
             const copy = await PlanItem.create(
-              { planId, weekId: op.toWeek, day: item.day, position: 1000 + ids.length, sourceSessionId: item.sourceSessionId, name: item.name, sport: item.sport, testProtocol: item.testProtocol, blocks: item.blocks, timeOfDay: item.timeOfDay, notes: item.notes },
+              { planId, weekId: op.toWeek, day: item.day, position: 1000 + ids.length, sourceSessionId: item.sourceSessionId, name: item.name, sport: item.sport, testProtocol: item.testProtocol, blocks: item.blocks, timeOfDay: item.timeOfDay, notes: item.notes, description: item.description },
               { transaction },
             );
             ids.push(copy.id);
           }
           await writeOrder(op.toWeek, item.day, ids, transaction);
         }
+        break;
+      }
+      case "note": {
+        const [n] = await PlanItem.update({ notes: op.notes.trim() }, { where: { id: op.itemId, planId }, transaction });
+        if (n !== 1) throw new PlanError("That session is no longer on this plan.", 404);
+        touchedItem = op.itemId;
         break;
       }
       case "time": {

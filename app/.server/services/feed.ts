@@ -7,7 +7,7 @@ import { db, writeTransaction } from "../db";
 import { env } from "../env";
 import { CoachAthlete, FeedToken, ScheduledSession, User } from "../models";
 import { hashToken, looksLikeToken } from "../tokens";
-import { addDays, todayIn } from "~/lib/dates";
+import { addDays, todayIn, weekday } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockBands, blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
 import type { BandSet, BandSetKey } from "~/lib/training";
@@ -99,8 +99,44 @@ async function stepsFor(sessionIds: number[]) {
   return map;
 }
 
+/** A title a phone calendar can show whole; the targets and everything else are in the description. */
+const TITLE_MAX = 48;
+const shortTitle = (s: string) => (s.length > TITLE_MAX ? `${s.slice(0, TITLE_MAX - 1).trimEnd()}…` : s);
+const STATE_PREFIX: Record<string, string> = { done: "✓ ", skipped: "Skipped: " };
+
+function stateLine(s: { status: string; effortScore: number | null; actualMinutes: number | null }) {
+  if (s.status === "done") return `Done${s.actualMinutes ? `: ${s.actualMinutes} min` : ""}${s.effortScore !== null ? `, effort ${s.effortScore} of 10` : ""}.`;
+  if (s.status === "skipped") return "Skipped.";
+  return null;
+}
+
+/** RFC 5545 duration of whole minutes ("PT75M"). */
+const durationText = (seconds: number) => `PT${Math.max(1, Math.round(seconds / 60))}M`;
+
+/**
+ * ical-generator writes an event's length as DTEND; the feed states it as DURATION, which stays right whatever a
+ * calendar app does with the zone of the end time. Lines here are short, so no folded line is touched.
+ */
+function endsAsDurations(ics: string, durations: Map<string, string>) {
+  if (durations.size === 0) return ics;
+  return ics
+    .split("BEGIN:VEVENT\r\n")
+    .map((chunk, i) => {
+      if (i === 0) return chunk;
+      const uid = /(?:^|\r\n)UID:([^\r\n]+)/.exec(chunk)?.[1];
+      const d = uid ? durations.get(uid) : undefined;
+      return d ? chunk.replace(/(^|\r\n)DTEND[^\r\n]*\r\n/, `$1DURATION:${d}\r\n`) : chunk;
+    })
+    .join("BEGIN:VEVENT\r\n");
+}
+
 /** Each block's line with its % of threshold and its intensity band, in the athlete's (their coach's) band set. */
-function description(s: { name: string; sport: string; testProtocol: string | null; notes: string }, steps: StepView[], link: string, sets: Record<BandSetKey, BandSet>) {
+function description(
+  s: { name: string; sport: string; testProtocol: string | null; notes: string; description?: string; state?: string | null },
+  steps: StepView[],
+  link: string,
+  sets: Record<BandSetKey, BandSet>,
+) {
   const bands = new Map(blockBands(steps, s.sport, sets).map((b) => [b.blockIndex, b.name]));
   const lines = blockLines(steps).map((l) => {
     const first = steps.find((x) => x.blockIndex === l.blockIndex && x.part !== "recovery");
@@ -108,12 +144,12 @@ function description(s: { name: string; sport: string; testProtocol: string | nu
     const pct = first?.lowPct != null ? ` (${first.lowPct}${first.highPct != null && first.highPct !== first.lowPct ? `–${first.highPct}` : ""} % of threshold${band ? `, ${band} band` : ""})` : "";
     return `• ${l.text}${pct}${l.needsTest ? " — needs a field test" : ""}`;
   });
-  const parts = [lines.join("\n")];
+  const parts = [s.state, s.name, s.description, lines.join("\n")].filter((x): x is string => Boolean(x));
   if (s.testProtocol) {
     const p = PROTOCOLS[s.testProtocol as ProtocolKey];
     parts.push(`FIELD TEST: ${p?.instructions ?? ""}\nAnswer the readiness questions in Pacewright first. Stop at once at ${READINESS.stopSigns.join(", ")}. ${READINESS.stopAdvice}`);
   }
-  if (s.notes) parts.push(s.notes);
+  if (s.notes) parts.push(`Note from the coach: ${s.notes}`);
   parts.push(`Open in Pacewright: ${link}`);
   return parts.join("\n\n");
 }
@@ -140,36 +176,39 @@ export async function buildFeed(owner: User, now = new Date()) {
     url: `${env().appUrl}${isCoach ? "/coach" : "/athlete/calendar"}`,
   });
   let lastModified = new Date(0);
+  const durations = new Map<string, string>();
   for (const s of sessions) {
     const athlete = byId.get(s.athleteId)!;
     const mySteps = steps.get(s.id) ?? [];
     const modified = s.updatedAt instanceof Date ? s.updatedAt : parseSqlDate(String(s.updatedAt));
     if (modified > lastModified) lastModified = modified;
     const link = `${env().appUrl}${isCoach ? `/coach/athletes/${athlete.id}/sessions/${s.id}` : `/athlete/sessions/${s.id}`}`;
-    const key = keyTarget(mySteps);
-    const summary = oneLine(`${isCoach ? `${athlete.name}: ` : ""}${s.name}${key ? ` · ${key}` : ""}`);
+    const summary = oneLine(`${STATE_PREFIX[s.status] ?? ""}${isCoach ? `${athlete.name}: ` : ""}${shortTitle(s.name)}`);
     const [y, m, d] = s.date.split("-").map(Number);
     const base = {
       id: `session-${s.id}@pacewright`,
       summary,
-      description: description({ name: s.name, sport: s.sport, testProtocol: s.testProtocol, notes: s.notes }, mySteps, link, bandSets.get(athlete.id)!),
+      description: description({ name: s.name, sport: s.sport, testProtocol: s.testProtocol, notes: s.notes, description: s.description, state: stateLine(s) }, mySteps, link, bandSets.get(athlete.id)!),
       sequence: s.feedSequence,
       lastModified: modified,
       stamp: modified,
       url: link,
       status: s.status === "cancelled" ? ICalEventStatus.CANCELLED : ICalEventStatus.CONFIRMED,
     };
-    if (s.timeOfDay) {
-      const [hh, mm] = s.timeOfDay.split(":").map(Number);
+    // The session's own time wins; otherwise the athlete's usual time for that weekday; otherwise all-day.
+    const time = s.timeOfDay ?? athlete.trainingTimes?.[weekday(s.date)] ?? null;
+    if (time) {
+      const [hh, mm] = time.split(":").map(Number);
       const start = new TZDate(y, m - 1, d, hh, mm, 0, athlete.timezone);
       const end = new TZDate(start.getTime() + Math.max(60, s.plannedDurationS) * 1000, athlete.timezone);
+      durations.set(base.id, durationText(Math.max(60, s.plannedDurationS)));
       const event = cal.createEvent({ ...base, start, end, timezone: athlete.timezone });
       if (!isCoach && owner.feedAlarmMinutes) event.createAlarm({ type: ICalAlarmType.display, trigger: owner.feedAlarmMinutes * 60, description: s.name });
     } else {
       cal.createEvent({ ...base, start: s.date, allDay: true });
     }
   }
-  return { body: withTimezones(cal.toString(), [...new Set(athletes.map((a) => a.timezone))]), lastModified: lastModified.getTime() > 0 ? lastModified : now, count: sessions.length };
+  return { body: withTimezones(endsAsDurations(cal.toString(), durations), [...new Set(athletes.map((a) => a.timezone))]), lastModified: lastModified.getTime() > 0 ? lastModified : now, count: sessions.length };
 }
 
 /**

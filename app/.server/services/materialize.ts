@@ -1,6 +1,7 @@
 import { Op, type InferCreationAttributes, type Transaction } from "sequelize";
 import { writeTransaction } from "../db";
 import { Assignment, CoachAthlete, PlanItem, PlanWeek, ScheduledBlock, ScheduledSession, SeasonPlan, User } from "../models";
+import { applyPlacementChoice, checkPlacement, needsChoice, type PlacementChoice, type PlacementEntry, type PlacementReport } from "./placement";
 import { thresholdHistory, thresholdOn, thresholdSport, unitFor, type ThresholdRow } from "./thresholds";
 import { addDays, mondayOf, todayIn, weekday } from "~/lib/dates";
 import { blockDuration, estimateSession, expandBlocks, resolveTarget, type Block } from "~/lib/training";
@@ -77,7 +78,7 @@ interface ItemWithWeek {
   weekIdx: number;
 }
 
-async function planItems(planId: number, transaction: Transaction): Promise<ItemWithWeek[]> {
+async function planItems(planId: number, transaction?: Transaction): Promise<ItemWithWeek[]> {
   const weeks = await PlanWeek.findAll({ where: { planId }, transaction });
   const idx = new Map(weeks.map((w) => [w.id, w.idx]));
   const items = await PlanItem.findAll({ where: { planId }, order: [["day", "ASC"], ["position", "ASC"]], transaction });
@@ -108,6 +109,7 @@ async function insertScheduled(athleteId: number, assignmentId: number, entries:
         sport: item.sport,
         testProtocol: item.testProtocol,
         notes: item.notes,
+        description: item.description,
         plannedDurationS: blocks.reduce((s, b) => s + blockDuration(b), 0),
         plannedLoad: plannedLoad(blocks),
       })),
@@ -151,6 +153,11 @@ function stepRow(r: BlockRow & { scheduledSessionId: number }) {
   };
 }
 
+/** The plan's sessions on the dates they would take from a week-1 Monday, for the placement checks. */
+export async function planEntries(planId: number, start: string, transaction?: Transaction): Promise<PlacementEntry[]> {
+  return (await planItems(planId, transaction)).map(({ item, weekIdx }) => ({ date: dateOf(start, weekIdx, item.day), name: item.name, sport: item.sport, testProtocol: item.testProtocol }));
+}
+
 /**
  * Places a plan on one athlete's calendar in one transaction: an Assignment and a ScheduledSession (with resolved
  * ScheduledBlocks) for every plan item. `start` is the Monday of week 1 in the athlete's own calendar.
@@ -171,7 +178,12 @@ export function alignStart(mode: "start" | "event", date: string, weeks: number)
   return addDays(mondayOf(date), -(weeks - 1) * 7);
 }
 
-export async function assignPlan(coach: User, planId: number, athleteIds: number[], opts: { mode: "start" | "event"; date: string }) {
+/**
+ * Assigns a plan to athletes. Without a `choice`, nothing is written when any athlete's calendar needs a decision
+ * (missing thresholds for the plan's sports, sessions already planned in those weeks, two maximal tests on a day):
+ * the reports come back for the coach to choose. With a choice, each athlete's check runs again inside the write.
+ */
+export async function assignPlan(coach: User, planId: number, athleteIds: number[], opts: { mode: "start" | "event"; date: string; choice?: PlacementChoice }) {
   const plan = await SeasonPlan.findOne({ where: { id: planId, ownerId: coach.id } });
   if (!plan) throw new AssignError("No plan with this id is yours.", 404);
   const links = await CoachAthlete.findAll({ where: { coachId: coach.id, athleteId: athleteIds } });
@@ -179,13 +191,22 @@ export async function assignPlan(coach: User, planId: number, athleteIds: number
   const weeks = await PlanWeek.count({ where: { planId } });
   const start = alignStart(opts.mode, opts.date, weeks);
   const athletes = await User.findAll({ where: { id: athleteIds } });
-  const results: { athleteId: number; assignmentId: number; sessions: number }[] = [];
+  const entries = await planEntries(planId, start);
+  if (!opts.choice) {
+    const reports: PlacementReport[] = [];
+    for (const a of athletes) reports.push(await checkPlacement(a.id, entries));
+    if (reports.some(needsChoice)) return { start, reports: reports.filter(needsChoice), results: [] };
+  }
+  const results: { athleteId: number; assignmentId: number; sessions: number; cancelled: number }[] = [];
   // One transaction per athlete: one athlete's failure does not undo another's calendar.
   for (const athlete of athletes) {
-    const assignment = await writeTransaction((transaction) => materialize(planId, athlete, start, { assignedBy: coach.id, transaction }));
-    results.push({ athleteId: athlete.id, assignmentId: assignment.id, sessions: await ScheduledSession.count({ where: { assignmentId: assignment.id } }) });
+    const { assignment, cancelled } = await writeTransaction(async (transaction) => {
+      const { cancelled } = await applyPlacementChoice(athlete.id, entries, opts.choice ?? {}, transaction);
+      return { assignment: await materialize(planId, athlete, start, { assignedBy: coach.id, transaction }), cancelled };
+    });
+    results.push({ athleteId: athlete.id, assignmentId: assignment.id, sessions: await ScheduledSession.count({ where: { assignmentId: assignment.id } }), cancelled });
   }
-  return { start, results };
+  return { start, reports: [] as PlacementReport[], results };
 }
 
 /**
@@ -230,6 +251,7 @@ export async function pushPlanChanges(coach: User, planId: number) {
             sport: entry.item.sport,
             testProtocol: entry.item.testProtocol,
             notes: entry.item.notes,
+            description: entry.item.description,
             plannedDurationS: blocks.reduce((s, b) => s + blockDuration(b), 0),
             plannedLoad: plannedLoad(blocks),
             feedSequence: existing.feedSequence + 1,

@@ -91,6 +91,9 @@ export interface PlanItemView {
   timeOfDay: string | null;
   recurrenceId: number | null;
   sourceSessionId: number | null;
+  /** The coach's note for this placed session (reaches the athlete's session page and feed). */
+  notes: string;
+  description: string;
 }
 
 export async function loadPlan(ownerId: number, planId: number) {
@@ -135,6 +138,8 @@ export function itemView(i: PlanItem): PlanItemView {
     timeOfDay: i.timeOfDay,
     recurrenceId: i.recurrenceId,
     sourceSessionId: i.sourceSessionId,
+    notes: i.notes,
+    description: i.description,
   };
 }
 
@@ -169,6 +174,50 @@ export async function updateWeek(ownerId: number, planId: number, input: { weekI
     await week.update({ phase: input.phase, recovery: input.recovery, test: input.test, plannedHours: input.plannedHours, notes: input.notes }, { transaction });
     await bumpVersion(planId, transaction);
     return week;
+  });
+}
+
+export interface WeekEdit {
+  weekId: number;
+  phase: string;
+  recovery: boolean;
+  test: boolean;
+  plannedHours: number;
+  loadFactor?: number;
+  notes: string;
+}
+
+/** Saves every week of the table at once, in one transaction: all of them or, on any error, none. */
+export async function updateWeeks(ownerId: number, planId: number, edits: WeekEdit[]) {
+  return writeTransaction(async (transaction) => {
+    await requirePlan(ownerId, planId, transaction);
+    const weeks = await PlanWeek.findAll({ where: { planId, id: edits.map((e) => e.weekId) }, transaction });
+    if (weeks.length !== new Set(edits.map((e) => e.weekId)).size) throw new PlanError("That week is not part of this plan.", 404);
+    const byId = new Map(weeks.map((w) => [w.id, w]));
+    let changed = 0;
+    for (const e of edits) {
+      const w = byId.get(e.weekId)!;
+      const next = { phase: e.phase, recovery: e.recovery, test: e.test, plannedHours: e.plannedHours, loadFactor: e.loadFactor ?? w.loadFactor, notes: e.notes };
+      if (Object.entries(next).every(([k, v]) => w.get(k as keyof typeof next) === v)) continue;
+      await w.update(next, { transaction });
+      changed++;
+    }
+    if (changed) await bumpVersion(planId, transaction);
+    return changed;
+  });
+}
+
+/** Sets phase, hours and load factor (each optional) on a run of weeks: one change for many weeks. */
+export async function editWeekRange(ownerId: number, planId: number, input: { fromWeek: number; toWeek: number; phase?: string; plannedHours?: number; loadFactor?: number }) {
+  return writeTransaction(async (transaction) => {
+    await requirePlan(ownerId, planId, transaction);
+    const count = await PlanWeek.count({ where: { planId }, transaction });
+    if (input.toWeek > count) throw new PlanError(`This plan has ${count} weeks.`, 400, "toWeek");
+    const set = { ...(input.phase ? { phase: input.phase } : {}), ...(input.plannedHours !== undefined ? { plannedHours: input.plannedHours } : {}), ...(input.loadFactor !== undefined ? { loadFactor: input.loadFactor } : {}) };
+    if (Object.keys(set).length === 0) throw new PlanError("Choose at least one thing to change.", 400, "phase");
+    const [n] = await PlanWeek.update(set, { where: { planId, idx: { [Op.between]: [input.fromWeek, input.toWeek] } }, transaction });
+    await bumpVersion(planId, transaction);
+    return n;
   });
 }
 

@@ -58,6 +58,7 @@ export async function sessionPageData(athlete: User, sessionId: number) {
       status: session.status,
       testProtocol: session.testProtocol,
       notes: session.notes,
+      description: session.description,
       plannedDurationS: session.plannedDurationS,
       effortScore: session.effortScore,
       actualMinutes: session.actualMinutes,

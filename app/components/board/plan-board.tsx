@@ -1,10 +1,7 @@
 import {
-  closestCorners,
   DndContext,
-  pointerWithin,
   type CollisionDetection,
   DragOverlay,
-  KeyboardSensor,
   PointerSensor,
   useDraggable,
   useDroppable,
@@ -15,8 +12,8 @@ import {
   type DragStartEvent,
   type UniqueIdentifier,
 } from "@dnd-kit/core";
-import { SortableContext, sortableKeyboardCoordinates, useSortable, verticalListSortingStrategy } from "@dnd-kit/sortable";
-import { CSS } from "@dnd-kit/utilities";
+import { describeDay, describeTarget, type DropTarget, sameTarget, slotId, slotItems, stepTarget, targetAtPoint } from "~/components/board/drop-target";
+import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
 import { useEffect, useMemo, useRef, useState } from "react";
 import { useFetcher, useRevalidator } from "react-router";
 import { SessionProfile } from "~/components/session-profile";
@@ -39,6 +36,7 @@ export interface BoardItem {
   blocks: Block[];
   durationS: number;
   timeOfDay: string | null;
+  notes?: string;
 }
 export interface BoardWeek {
   id: number;
@@ -67,23 +65,13 @@ type Op =
   | { op: "move"; itemId: number; toWeek: number; toDay: number; toIndex: number }
   | { op: "remove"; itemId: number }
   | { op: "duplicate-week" | "move-week"; fromWeek: number; toWeek: number }
-  | { op: "time"; itemId: number; timeOfDay: string | null };
+  | { op: "time"; itemId: number; timeOfDay: string | null }
+  | { op: "note"; itemId: number; notes: string };
 type ServerReply = { version: number; items: BoardItem[] } | { error: string; version?: number };
 
 /** Rise of planned load over the previous non-recovery week above which a week is flagged (common practice). */
 const RISE_CAP = 0.1;
 
-const slotId = (weekId: number, day: number) => `slot:${weekId}:${day}`;
-
-/**
- * With a pointer, what lies under it wins, a card before the day slot holding it; the keyboard has no pointer, so it
- * falls back to the nearest corners, which is how the arrow keys step between days and weeks.
- */
-const collision: CollisionDetection = (args) => {
-  const under = pointerWithin(args);
-  if (under.length) return [...under].sort((a, b) => Number(String(b.id).startsWith("item:")) - Number(String(a.id).startsWith("item:")));
-  return closestCorners(args);
-};
 const itemKey = (id: number) => `item:${id}`;
 
 function profileOf(blocks: Block[]) {
@@ -126,6 +114,7 @@ function applyLocal(items: BoardItem[], op: Op, shelf: ShelfEntry[], tempId: num
   }
   if (op.op === "remove") return items.filter((i) => i.id !== op.itemId);
   if (op.op === "time") return items.map((i) => (i.id === op.itemId ? { ...i, timeOfDay: op.timeOfDay } : i));
+  if (op.op === "note") return items.map((i) => (i.id === op.itemId ? { ...i, notes: op.notes } : i));
   return items;
 }
 
@@ -184,63 +173,132 @@ export function PlanBoard({ data }: { data: BoardData }) {
     else queue.current.push(op);
   };
 
-  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 5 } }), useSensor(KeyboardSensor, { coordinateGetter: sortableKeyboardCoordinates }));
   const weekById = useMemo(() => new Map(weeks.map((w) => [w.id, w])), [weeks]);
-  const describeSlot = (id: UniqueIdentifier | undefined) => {
-    const s = String(id ?? "");
-    let weekId: number | undefined;
-    let day: number | undefined;
-    if (s.startsWith("slot:")) [, weekId, day] = s.split(":").map(Number) as [number, number, number];
-    else if (s.startsWith("item:")) {
-      const it = items.find((i) => i.id === Number(s.slice(5)));
-      weekId = it?.weekId;
-      day = it?.day;
-    }
-    const w = weekId !== undefined ? weekById.get(weekId) : undefined;
-    return w && day !== undefined ? `${DAY_LONG[day]}, week ${w.idx}` : "nowhere";
-  };
   const nameOf = (id: UniqueIdentifier) => {
     const s = String(id);
     if (s.startsWith("shelf:")) return shelf.find((x) => x.id === Number(s.slice(6)))?.name ?? "session";
     return items.find((i) => i.id === Number(s.slice(5)))?.name ?? "session";
   };
+  const movingItemId = (id: UniqueIdentifier | null | undefined) => (id && String(id).startsWith("item:") ? Number(String(id).slice(5)) : null);
+
+  // The drop target lives in refs for dnd-kit's callbacks (which run outside React's render cycle) and in state
+  // for the indicator drawn on the board.
+  const [drop, setDrop] = useState<DropTarget | null>(null);
+  const mode = useRef<"pointer" | "keyboard" | null>(null);
+  const target = useRef<DropTarget | null>(null);
+  const moving = useRef<number | null>(null);
+  const spoken = useRef("");
+  const finalWords = useRef("");
+  const focusAfter = useRef<number | null>(null);
+  const live = useRef({ items, weeks, startDate: plan.startDate });
+  live.current = { items, weeks, startDate: plan.startDate };
+  const describe = (t: DropTarget | null) => {
+    const w = t ? weekById.get(t.weekId) : undefined;
+    return t && w ? describeTarget(t, w.idx, plan.startDate, items, moving.current) : "no day";
+  };
+
+  const setTarget = (t: DropTarget | null) => {
+    target.current = t;
+    setDrop((old) => (sameTarget(old, t) ? old : t));
+  };
+  const step = (key: StepKey) => {
+    const now = target.current;
+    if (!now) return false;
+    const { weeks: ws, items: its } = live.current;
+    const next = stepTarget(now, key, ws.map((w) => w.id), its, moving.current);
+    if (!next) return false;
+    setTarget(next);
+    requestAnimationFrame(() => document.querySelector(`[data-drop-slot="${slotId(next.weekId, next.day)}"]`)?.scrollIntoView({ block: "nearest", inline: "nearest" }));
+    return true;
+  };
+  const stepRef = useRef(step);
+  stepRef.current = step;
+  const keyboardOptions = useMemo(() => ({ step: (k: StepKey) => stepRef.current(k) }), []);
+  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 5 } }), useSensor(StepKeyboardSensor, keyboardOptions));
+
+  const collision: CollisionDetection = ({ pointerCoordinates }) => {
+    if (pointerCoordinates) target.current = targetAtPoint(pointerCoordinates.x, pointerCoordinates.y, moving.current);
+    const t = target.current;
+    return t ? [{ id: slotId(t.weekId, t.day) }] : [];
+  };
+
+  const lastShelfDrop = useRef<DropTarget | null>(null);
   const announcements: Announcements = {
-    onDragStart: ({ active }) => `Picked up ${nameOf(active.id)}. Arrow keys move it between days and weeks; Space drops it; Escape cancels.`,
-    onDragOver: ({ active, over }) => `${nameOf(active.id)} is over ${describeSlot(over?.id)}.`,
-    onDragEnd: ({ active, over }) => (over ? `${nameOf(active.id)} placed on ${describeSlot(over.id)}.` : `${nameOf(active.id)} was not placed.`),
+    onDragStart: ({ active }) =>
+      mode.current === "keyboard"
+        ? `Picked up ${nameOf(active.id)}, now over ${describe(target.current)}. Up and down arrows move it through the days, left and right to the same day of another week; Space drops it, Escape cancels.`
+        : `Picked up ${nameOf(active.id)}.`,
+    onDragMove: ({ active }) => {
+      const words = `${nameOf(active.id)} is over ${describe(target.current)}.`;
+      if (words === spoken.current) return undefined;
+      spoken.current = words;
+      return words;
+    },
+    onDragOver: () => undefined,
+    onDragEnd: () => finalWords.current,
     onDragCancel: ({ active }) => `Cancelled. ${nameOf(active.id)} stays where it was.`,
   };
 
-  const onDragStart = (e: DragStartEvent) => setActiveId(e.active.id);
-  const onDragEnd = ({ active, over }: DragEndEvent) => {
+  const onDragStart = (e: DragStartEvent) => {
+    setActiveId(e.active.id);
+    mode.current = e.activatorEvent instanceof KeyboardEvent ? "keyboard" : "pointer";
+    moving.current = movingItemId(e.active.id);
+    spoken.current = "";
+    if (mode.current === "keyboard") {
+      const it = moving.current !== null ? items.find((i) => i.id === moving.current) : undefined;
+      const first = weeks[0];
+      const start: DropTarget | null = it
+        ? { weekId: it.weekId, day: it.day, index: slotItems(items, it.weekId, it.day, it.id).filter((o) => o.position < it.position).length }
+        : lastShelfDrop.current && weekById.has(lastShelfDrop.current.weekId)
+          ? { ...lastShelfDrop.current, index: slotItems(items, lastShelfDrop.current.weekId, lastShelfDrop.current.day, null).length }
+          : first
+            ? { weekId: first.id, day: 0, index: slotItems(items, first.id, 0, null).length }
+            : null;
+      setTarget(start);
+    } else setTarget(null);
+  };
+  const finish = () => {
     setActiveId(null);
-    if (!over) return;
-    const overId = String(over.id);
-    let toWeek: number;
-    let toDay: number;
-    let toIndex: number;
-    const activeItemId = String(active.id).startsWith("item:") ? Number(String(active.id).slice(5)) : null;
-    if (overId.startsWith("slot:")) {
-      [, toWeek, toDay] = overId.split(":").map(Number) as [number, number, number];
-      toIndex = items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== activeItemId).length;
-    } else {
-      const target = items.find((i) => i.id === Number(overId.slice(5)));
-      if (!target) return;
-      toWeek = target.weekId;
-      toDay = target.day;
-      toIndex = items.filter((i) => i.weekId === toWeek && i.day === toDay).sort((a, b) => a.position - b.position).findIndex((i) => i.id === target.id);
+    setDrop(null);
+    target.current = null;
+    mode.current = null;
+  };
+  const onDragEnd = ({ active, over }: DragEndEvent) => {
+    const t = target.current;
+    const viaKeyboard = mode.current === "keyboard";
+    const activeItemId = moving.current;
+    finish();
+    const name = nameOf(active.id);
+    if (!over || !t) {
+      finalWords.current = `${name} was not placed.`;
+      return;
     }
-    const where = `${DAY_LONG[toDay]}, week ${weekById.get(toWeek)?.idx}`;
+    const where = describeDay(weekById.get(t.weekId)?.idx ?? 0, t.day, plan.startDate);
+    finalWords.current = `${name} placed on ${describeTarget(t, weekById.get(t.weekId)?.idx ?? 0, plan.startDate, items, activeItemId)}.`;
     if (String(active.id).startsWith("shelf:")) {
       const sessionId = Number(String(active.id).slice(6));
-      change({ op: "copy", sessionId, toWeek, toDay, toIndex }, `Added ${nameOf(active.id)} on ${where}.`);
+      if (viaKeyboard) lastShelfDrop.current = t;
+      change({ op: "copy", sessionId, toWeek: t.weekId, toDay: t.day, toIndex: t.index }, `Added ${name} on ${where}.`);
     } else if (activeItemId !== null) {
       const it = items.find((i) => i.id === activeItemId)!;
-      const sameSlot = it.weekId === toWeek && it.day === toDay;
-      if (sameSlot && it.position === toIndex) return;
-      change({ op: "move", itemId: activeItemId, toWeek, toDay, toIndex }, `Moved ${it.name} to ${where}.`);
+      const sameSlot = it.weekId === t.weekId && it.day === t.day;
+      if (sameSlot && slotItems(items, t.weekId, t.day, it.id).filter((o) => o.position < it.position).length === t.index) return;
+      if (viaKeyboard) focusAfter.current = activeItemId;
+      change({ op: "move", itemId: activeItemId, toWeek: t.weekId, toDay: t.day, toIndex: t.index }, `Moved ${it.name} to ${where}.`);
     }
   };
+  const onDragCancel = () => {
+    finish();
+  };
+  // A card moved by keyboard is drawn anew in its new day; give it the focus back so the next move can start there.
+  useEffect(() => {
+    if (focusAfter.current === null) return;
+    const el = document.querySelector<HTMLElement>(`[data-card-id="${focusAfter.current}"]`);
+    if (el) {
+      el.focus();
+      focusAfter.current = null;
+    }
+  }, [items]);
 
   const powerBands = useBandSet("bike:power").bands;
   const estimates = useMemo(() => new Map(items.map((i) => [i.id, estimateOf(i.blocks, powerBands)])), [items, powerBands]);
@@ -273,7 +331,16 @@ export function PlanBoard({ data }: { data: BoardData }) {
   const activeItem = activeId && String(activeId).startsWith("item:") ? items.find((i) => i.id === Number(String(activeId).slice(5))) : null;
 
   return (
-    <DndContext id="plan-board" sensors={sensors} collisionDetection={collision} onDragStart={onDragStart} onDragEnd={onDragEnd} onDragCancel={() => setActiveId(null)} accessibility={{ announcements }}>
+    <DndContext
+      id="plan-board"
+      sensors={sensors}
+      collisionDetection={collision}
+      onDragStart={onDragStart}
+      onDragMove={() => mode.current === "pointer" && setTarget(target.current)}
+      onDragEnd={onDragEnd}
+      onDragCancel={onDragCancel}
+      accessibility={{ announcements, screenReaderInstructions: { draggable: "To move this session with the keyboard, press Space, then the arrow keys: up and down through the days, left and right between weeks. Space drops it, Escape cancels." } }}
+    >
       <div className="flex min-h-[70vh] flex-col gap-3 lg:flex-row">
         <aside className="flex w-full shrink-0 flex-col rounded-xl border border-line bg-white lg:w-60" aria-label="Session shelf">
           <div className="border-b border-line p-3">
@@ -300,9 +367,10 @@ export function PlanBoard({ data }: { data: BoardData }) {
               {message.text}
             </div>
           )}
-          <ol className="flex gap-3">
+          {/* On a phone each week is a list of its days, one week under the other, so nothing needs sideways scrolling. */}
+          <ol className="flex flex-col gap-3 md:flex-row">
             {weekStats.map(({ week, load, seconds, levels, warn, rise }) => (
-              <li key={week.id} className="w-52 shrink-0" data-testid={`week-${week.idx}`}>
+              <li key={week.id} className="w-full shrink-0 md:w-52" data-testid={`week-${week.idx}`}>
                 <WeekColumn
                   week={week}
                   weeks={weeks}
@@ -316,6 +384,9 @@ export function PlanBoard({ data }: { data: BoardData }) {
                   items={items.filter((i) => i.weekId === week.id)}
                   selected={selected}
                   onSelect={setSelected}
+                  drop={drop && drop.weekId === week.id ? drop : null}
+                  dropName={activeShelf?.name ?? activeItem?.name ?? ""}
+                  movingId={activeItem?.id ?? null}
                   onWeekOp={(op, toWeek) => change({ op, fromWeek: week.id, toWeek }, op === "duplicate-week" ? `Copied week ${week.idx}.` : `Moved week ${week.idx}'s sessions.`)}
                 />
               </li>
@@ -334,17 +405,18 @@ export function PlanBoard({ data }: { data: BoardData }) {
             }}
             onMove={(toWeek, toDay) => change({ op: "move", itemId: selectedItem.id, toWeek, toDay, toIndex: items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== selectedItem.id).length }, `Moved ${selectedItem.name}.`)}
             onTime={(t) => change({ op: "time", itemId: selectedItem.id, timeOfDay: t })}
+            onNote={(notes) => change({ op: "note", itemId: selectedItem.id, notes }, `Saved the note on ${selectedItem.name}.`)}
           />
         )}
       </div>
-      <DragOverlay>
-        {activeShelf ? <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={activeShelf.profile} lifted /> : activeItem ? <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={profileOf(activeItem.blocks)} lifted /> : null}
+      <DragOverlay style={{ pointerEvents: "none" }}>
+        {mode.current === "keyboard" ? null : activeShelf ? <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={activeShelf.profile} lifted /> : activeItem ? <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={profileOf(activeItem.blocks)} lifted /> : null}
       </DragOverlay>
     </DndContext>
   );
 }
 
-function CardBody({ name, durationS, profile, test, time, lifted }: { name: string; durationS: number; profile: ReturnType<typeof profileOf>; test?: boolean; time?: string | null; lifted?: boolean }) {
+function CardBody({ name, durationS, profile, test, time, note, lifted }: { name: string; durationS: number; profile: ReturnType<typeof profileOf>; test?: boolean; time?: string | null; note?: boolean; lifted?: boolean }) {
   return (
     <div className={`rounded-lg border bg-white p-2 text-left text-xs ${lifted ? "border-teal shadow-lg" : "border-line"}`}>
       <div className="flex items-start justify-between gap-1">
@@ -352,9 +424,10 @@ function CardBody({ name, durationS, profile, test, time, lifted }: { name: stri
         <span className="num shrink-0 text-ink-soft">{formatMinutes(durationS)}</span>
       </div>
       <SessionProfile steps={profile} height={18} className="mt-1" label={`Profile of ${name}`} />
-      {(test || time) && (
+      {(test || time || note) && (
         <div className="mt-1 flex gap-1">
           {test && <span className="rounded bg-brick/15 px-1 text-[10px] text-brick">field test</span>}
+          {note && <span className="rounded bg-teal/10 px-1 text-[10px] text-teal-dark">note</span>}
           {time && <span className="num rounded bg-paper-deep px-1 text-[10px]">{time}</span>}
         </div>
       )}
@@ -384,6 +457,9 @@ function WeekColumn(props: {
   items: BoardItem[];
   selected: number | null;
   onSelect: (id: number) => void;
+  drop: DropTarget | null;
+  dropName: string;
+  movingId: number | null;
   onWeekOp: (op: "duplicate-week" | "move-week", toWeek: number) => void;
 }) {
   const { week, startDate } = props;
@@ -406,7 +482,7 @@ function WeekColumn(props: {
         <p className="num mt-1">
           {props.seconds ? formatMinutes(props.seconds) : "0 min"} of {week.plannedHours} h planned
         </p>
-        <div className="mt-1 h-1.5 rounded bg-paper-deep" title={`Planned load ${Math.round(props.load)}`}>
+        <div className="mt-1 h-1.5 rounded bg-paper-deep" title={`Planned effort load ${Math.round(props.load)} points (effort score × minutes)`}>
           <div className={`h-1.5 rounded ${props.warn ? "bg-brick" : "bg-teal"}`} style={{ width: `${(props.load / props.maxLoad) * 100}%` }} />
         </div>
         <div className="mt-1 flex h-1.5 overflow-hidden rounded" aria-label="Minutes per band">
@@ -420,7 +496,21 @@ function WeekColumn(props: {
       </header>
       <div className="flex flex-1 flex-col divide-y divide-line/70">
         {DAY_NAMES.map((d, day) => (
-          <DaySlot key={day} weekId={week.id} day={day} label={d} weekIdx={week.idx} items={props.items.filter((i) => i.day === day).sort((a, b) => a.position - b.position)} selected={props.selected} onSelect={props.onSelect} />
+          <DaySlot
+            key={day}
+            weekId={week.id}
+            day={day}
+            label={d}
+            weekIdx={week.idx}
+            date={monday ? addDays(monday, day) : null}
+            startDate={startDate}
+            items={props.items.filter((i) => i.day === day).sort((a, b) => a.position - b.position)}
+            selected={props.selected}
+            onSelect={props.onSelect}
+            dropIndex={props.drop && props.drop.day === day ? props.drop.index : null}
+            dropName={props.dropName}
+            movingId={props.movingId}
+          />
         ))}
       </div>
       <footer className="flex flex-wrap items-center gap-1 border-t border-line p-2 text-xs">
@@ -447,45 +537,108 @@ function WeekColumn(props: {
   );
 }
 
-function DaySlot({ weekId, day, label, weekIdx, items, selected, onSelect }: { weekId: number; day: number; label: string; weekIdx: number; items: BoardItem[]; selected: number | null; onSelect: (id: number) => void }) {
-  const { setNodeRef, isOver } = useDroppable({ id: slotId(weekId, day) });
+function DaySlot(props: {
+  weekId: number;
+  day: number;
+  label: string;
+  weekIdx: number;
+  date: string | null;
+  startDate: string | null;
+  items: BoardItem[];
+  selected: number | null;
+  onSelect: (id: number) => void;
+  dropIndex: number | null;
+  dropName: string;
+  movingId: number | null;
+}) {
+  const { weekId, day, label, weekIdx, items, dropIndex } = props;
+  const { setNodeRef } = useDroppable({ id: slotId(weekId, day) });
+  const others = items.filter((i) => i.id !== props.movingId);
+  // The marker takes no room: a drop indicator that pushed the days below it down moved the day under the pointer,
+  // so a drop aimed at Sunday stayed on a grown Saturday.
+  const at = dropIndex === null ? -1 : Math.min(dropIndex, others.length);
+  const marker = (
+    <li key="drop-marker" aria-hidden="true" data-testid="drop-marker" className={`relative h-0 ${others.length === 0 ? "" : at === 0 ? "-mb-1" : "-mt-1"}`}>
+      <span className={`pointer-events-none absolute inset-x-0 h-1 rounded-full bg-teal ${others.length === 0 ? "top-0.5" : at === 0 ? "-top-0.5" : "top-0"}`} />
+    </li>
+  );
+  const cards = others.map((i) => (
+    <li key={i.id}>
+      <BoardCard item={i} selected={props.selected === i.id} onSelect={() => props.onSelect(i.id)} />
+    </li>
+  ));
+  if (at >= 0) cards.splice(at, 0, marker);
+  const moving = items.find((i) => i.id === props.movingId);
   return (
-    <div ref={setNodeRef} className={`min-h-12 px-1.5 py-1 ${isOver ? "bg-teal/10" : ""}`} data-testid={`slot-${weekIdx}-${day}`} aria-label={`${DAY_LONG[day]}, week ${weekIdx}`} role="group">
-      <span className="text-[10px] font-medium tracking-wide text-ink-soft uppercase">{label}</span>
-      <SortableContext id={slotId(weekId, day)} items={items.map((i) => itemKey(i.id))} strategy={verticalListSortingStrategy}>
-        <ul className="flex flex-col gap-1">
-          {items.map((i) => (
-            <li key={i.id}>
-              <BoardCard item={i} selected={selected === i.id} onSelect={() => onSelect(i.id)} />
-            </li>
-          ))}
-        </ul>
-      </SortableContext>
+    <div
+      ref={setNodeRef}
+      className={`relative min-h-12 px-1.5 py-1 ${dropIndex !== null ? "bg-teal/10 outline-2 -outline-offset-2 outline-teal" : ""}`}
+      data-testid={`slot-${weekIdx}-${day}`}
+      data-drop-slot={slotId(weekId, day)}
+      aria-label={describeDay(weekIdx, day, props.startDate)}
+      role="group"
+    >
+      <span className="text-[10px] font-medium tracking-wide text-ink-soft uppercase">
+        {label}
+        {props.date && <span className="num ml-1 normal-case">{formatDay(props.date, { day: "numeric", month: "short" })}</span>}
+      </span>
+      {dropIndex !== null && (
+        <span aria-hidden="true" className="pointer-events-none absolute top-0.5 right-1 max-w-[70%] truncate rounded bg-teal px-1 text-[10px] font-medium text-white">
+          {props.dropName || "Session"} here
+        </span>
+      )}
+      <ul className="flex flex-col gap-1">
+        {cards}
+        {/* The card being moved stays mounted (dnd-kit holds its node) but out of the flow while it is carried. */}
+        {moving && (
+          <li className="hidden">
+            <BoardCard item={moving} selected={false} onSelect={() => props.onSelect(moving.id)} />
+          </li>
+        )}
+      </ul>
     </div>
   );
 }
 
 function BoardCard({ item, selected, onSelect }: { item: BoardItem; selected: boolean; onSelect: () => void }) {
-  const { attributes, listeners, setNodeRef, transform, transition, isDragging } = useSortable({ id: itemKey(item.id), disabled: item.id < 0 });
+  const { attributes, listeners, setNodeRef } = useDraggable({ id: itemKey(item.id), disabled: item.id < 0 });
   return (
     <button
       ref={setNodeRef}
       type="button"
-      style={{ transform: CSS.Transform.toString(transform), transition }}
       {...attributes}
       {...listeners}
       onClick={onSelect}
       aria-pressed={selected}
       aria-label={`${item.name}, ${formatMinutes(item.durationS)}`}
       data-testid="board-item"
-      className={`block w-full cursor-grab rounded-lg ${selected ? "ring-2 ring-teal" : ""} ${isDragging ? "opacity-40" : ""}`}
+      data-card-id={item.id}
+      className={`block w-full cursor-grab rounded-lg ${selected ? "ring-2 ring-teal" : ""}`}
     >
-      <CardBody name={item.name} durationS={item.durationS} profile={profileOf(item.blocks)} test={Boolean(item.testProtocol)} time={item.timeOfDay} />
+      <CardBody name={item.name} durationS={item.durationS} profile={profileOf(item.blocks)} test={Boolean(item.testProtocol)} time={item.timeOfDay} note={Boolean(item.notes)} />
     </button>
   );
 }
 
-function ItemDrawer({ item, weeks, onClose, onRemove, onMove, onTime }: { item: BoardItem; weeks: BoardWeek[]; onClose: () => void; onRemove: () => void; onMove: (w: number, d: number) => void; onTime: (t: string | null) => void }) {
+function ItemDrawer({
+  item,
+  weeks,
+  onClose,
+  onRemove,
+  onMove,
+  onTime,
+  onNote,
+}: {
+  item: BoardItem;
+  weeks: BoardWeek[];
+  onClose: () => void;
+  onRemove: () => void;
+  onMove: (w: number, d: number) => void;
+  onTime: (t: string | null) => void;
+  onNote: (notes: string) => void;
+}) {
+  const [note, setNote] = useState(item.notes ?? "");
+  useEffect(() => setNote(item.notes ?? ""), [item.id, item.notes]);
   const estimate = estimateOf(item.blocks);
   const [toWeek, setToWeek] = useState(item.weekId);
   const [toDay, setToDay] = useState(item.day);
@@ -514,13 +667,21 @@ function ItemDrawer({ item, weeks, onClose, onRemove, onMove, onTime }: { item: 
           <dt className="text-ink-soft">Duration</dt>
           <dd className="text-right">{formatMinutes(estimate.durationS)}</dd>
           <dt className="text-ink-soft">Planned effort load</dt>
-          <dd className="text-right">{Math.round(estimate.plannedEffortLoad)}</dd>
+          <dd className="text-right">{Math.round(estimate.plannedEffortLoad)} points</dd>
+          <dd className="col-span-2 text-ink-soft">Effort score (0–10) times minutes, as planned.</dd>
         </dl>
       )}
       <label className="mt-3 flex items-center justify-between gap-2">
         Time of day
         <input type="time" defaultValue={item.timeOfDay ?? ""} onBlur={(e) => onTime(e.target.value || null)} className="rounded border border-line px-1 py-0.5" />
       </label>
+      <label className="mt-3 flex flex-col gap-1">
+        <span>Note for the athlete</span>
+        <textarea value={note} onChange={(e) => setNote(e.target.value)} rows={3} maxLength={2000} className="rounded border border-line px-2 py-1" placeholder="Shown on the athlete's session page and in the calendar feed" />
+      </label>
+      <button type="button" className={buttonClass("secondary", "mt-1 px-2 py-0.5")} disabled={note === (item.notes ?? "")} onClick={() => onNote(note)}>
+        Save note
+      </button>
       <fieldset className="mt-3 rounded-lg border border-line p-2">
         <legend className="px-1 text-xs text-ink-soft">Move to</legend>
         <div className="flex gap-1">

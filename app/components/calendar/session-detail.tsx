@@ -21,6 +21,7 @@ export interface SessionDetailData {
     status: string;
     testProtocol: string | null;
     notes: string;
+    description?: string;
     plannedDurationS: number;
     effortScore: number | null;
     actualMinutes: number | null;
@@ -34,7 +35,9 @@ export interface SessionDetailData {
   timeInBand?: { metric: string; name: string; shade: string; minutes: number }[] | null;
 }
 
-export function SessionDetail({ data, canComplete }: { data: SessionDetailData; canComplete: boolean }) {
+/** `subjectName`: on a coach's view, the athlete whose session this is, so headings speak of them, not of "you". */
+export function SessionDetail({ data, canComplete, subjectName }: { data: SessionDetailData; canComplete: boolean; subjectName?: string }) {
+  const whose = subjectName ? `${subjectName}'s` : "Your";
   const { session: s, steps, zones } = data;
   const bandOfBlock = new Map((data.bandsByBlock ?? []).map((b) => [b.blockIndex, b]));
   const lines = blockLines(steps);
@@ -58,7 +61,17 @@ export function SessionDetail({ data, canComplete }: { data: SessionDetailData; 
               </li>
             ))}
           </ol>
-          {s.notes && <p className="mt-4 text-sm whitespace-pre-wrap">{s.notes}</p>}
+          {s.description && (
+            <p className="mt-4 text-sm whitespace-pre-wrap" data-testid="session-description">
+              {s.description}
+            </p>
+          )}
+          {s.notes && (
+            <div className="mt-4 rounded-lg border-l-4 border-teal bg-teal/5 px-3 py-2 text-sm" data-testid="coach-note">
+              <p className="text-xs font-medium text-teal-dark">{subjectName ? "Your note for this session" : "Note from your coach"}</p>
+              <p className="whitespace-pre-wrap">{s.notes}</p>
+            </div>
+          )}
         </Card>
         {protocol && (
           <Card className="border-brick/40">
@@ -74,7 +87,7 @@ export function SessionDetail({ data, canComplete }: { data: SessionDetailData; 
           </Card>
         )}
         {zones.map((z) => (
-          <BandTable key={z.key} title={`Your ${z.title.charAt(0).toLowerCase()}${z.title.slice(1)}`} table={z} />
+          <BandTable key={z.key} title={`${whose} ${z.title.charAt(0).toLowerCase()}${z.title.slice(1)}`} table={z} />
         ))}
       </div>
       <aside className="flex flex-col gap-4">

@@ -1,5 +1,6 @@
-import { DndContext, KeyboardSensor, PointerSensor, useDraggable, useDroppable, useSensor, useSensors, type Announcements, type DragEndEvent } from "@dnd-kit/core";
-import { useEffect, useState } from "react";
+import { type CollisionDetection, DndContext, PointerSensor, useDraggable, useDroppable, useSensor, useSensors, type Announcements, type DragEndEvent, type DragStartEvent } from "@dnd-kit/core";
+import { useEffect, useMemo, useRef, useState } from "react";
+import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
 import { Link, useFetcher } from "react-router";
 import { addDays, formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
@@ -53,10 +54,38 @@ export function WeekCalendar({ athleteId, from: initialFrom, today, sessions: in
     list.load(query(f));
   };
 
-  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 6 } }), useSensor(KeyboardSensor));
+  // Keyboard moves go by the calendar itself (up/down a day, left/right a week) and the pointer by the day under it,
+  // read from the page, so neither depends on rectangles measured before the page scrolled.
+  const keyDay = useRef<string | null>(null);
+  const shown = useRef(days);
+  shown.current = days;
+  const keyboardOptions = useMemo(
+    () => ({
+      step: (key: StepKey) => {
+        if (!keyDay.current) return false;
+        const next = addDays(keyDay.current, key === "up" ? -1 : key === "down" ? 1 : key === "left" ? -7 : 7);
+        if (!shown.current.includes(next)) return false;
+        keyDay.current = next;
+        requestAnimationFrame(() => document.querySelector(`[data-testid="day-${next}"]`)?.scrollIntoView({ block: "nearest" }));
+        return true;
+      },
+    }),
+    [],
+  );
+  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 6 } }), useSensor(StepKeyboardSensor, keyboardOptions));
+  const collision: CollisionDetection = ({ pointerCoordinates }) => {
+    if (pointerCoordinates) {
+      const el = document.elementFromPoint(pointerCoordinates.x, pointerCoordinates.y)?.closest<HTMLElement>("[data-day]");
+      return el ? [{ id: `day:${el.dataset.day}` }] : [];
+    }
+    return keyDay.current ? [{ id: `day:${keyDay.current}` }] : [];
+  };
+  const onDragStart = ({ active, activatorEvent }: DragStartEvent) => {
+    keyDay.current = activatorEvent instanceof KeyboardEvent ? (sessions.find((x) => `session:${x.id}` === active.id)?.date ?? null) : null;
+  };
   const nameOf = (id: unknown) => sessions.find((s) => `session:${s.id}` === id)?.name ?? "session";
   const announcements: Announcements = {
-    onDragStart: ({ active }) => `Picked up ${nameOf(active.id)}. Arrow keys move it; Space drops it on a day; Escape cancels.`,
+    onDragStart: ({ active }) => `Picked up ${nameOf(active.id)}. Up and down arrows move it a day, left and right a week; Space drops it; Escape cancels.`,
     onDragOver: ({ active, over }) => `${nameOf(active.id)} is over ${over ? formatDay(String(over.id).slice(4), { weekday: "long", day: "numeric", month: "long" }) : "no day"}.`,
     onDragEnd: ({ active, over }) => (over ? `${nameOf(active.id)} moved to ${formatDay(String(over.id).slice(4), { weekday: "long", day: "numeric", month: "long" })}.` : `${nameOf(active.id)} was not moved.`),
     onDragCancel: ({ active }) => `Cancelled; ${nameOf(active.id)} stays on its day.`,
@@ -91,10 +120,21 @@ export function WeekCalendar({ athleteId, from: initialFrom, today, sessions: in
           {message.text}
         </p>
       )}
-      <DndContext id="athlete-calendar" sensors={sensors} onDragEnd={onDragEnd} accessibility={{ announcements }}>
+      <DndContext
+        id="athlete-calendar"
+        sensors={sensors}
+        collisionDetection={collision}
+        onDragStart={onDragStart}
+        onDragEnd={(e) => {
+          keyDay.current = null;
+          onDragEnd(e);
+        }}
+        onDragCancel={() => (keyDay.current = null)}
+        accessibility={{ announcements }}
+      >
         <ol className="grid grid-cols-1 gap-2 sm:grid-cols-7">
-          {days.map((d) => (
-            <Day key={d} date={d} today={today} sessions={sessions.filter((s) => s.date === d).sort((a, b) => a.position - b.position)} sessionHref={sessionHref} />
+          {days.map((d, i) => (
+            <Day key={d} date={d} today={today} weekStart={i % 7 === 0} sessions={sessions.filter((s) => s.date === d).sort((a, b) => a.position - b.position)} sessionHref={sessionHref} />
           ))}
         </ol>
       </DndContext>
@@ -102,11 +142,25 @@ export function WeekCalendar({ athleteId, from: initialFrom, today, sessions: in
   );
 }
 
-function Day({ date, today, sessions, sessionHref }: { date: string; today: string; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
+function Day({ date, today, weekStart, sessions, sessionHref }: { date: string; today: string; weekStart: boolean; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
   const { setNodeRef, isOver } = useDroppable({ id: `day:${date}` });
   const isToday = date === today;
   return (
-    <li ref={setNodeRef} className={`min-h-10 rounded-xl border p-2 sm:min-h-24 ${isOver ? "border-teal bg-teal/5" : isToday ? "border-brick bg-white" : "border-line bg-white"} ${date < today ? "opacity-80" : ""}`} data-testid={`day-${date}`}>
+    <>
+      {/* The phone's day list is split into weeks; on wider screens each row of seven is a week already. */}
+      {weekStart && (
+        <li aria-hidden="true" className="mt-2 text-sm font-semibold first:mt-0 sm:hidden">
+          Week of {formatDay(date, { day: "numeric", month: "long" })}
+        </li>
+      )}
+      <DayCell refFn={setNodeRef} isOver={isOver} isToday={isToday} date={date} today={today} sessions={sessions} sessionHref={sessionHref} />
+    </>
+  );
+}
+
+function DayCell({ refFn, isOver, isToday, date, today, sessions, sessionHref }: { refFn: (el: HTMLElement | null) => void; isOver: boolean; isToday: boolean; date: string; today: string; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
+  return (
+    <li ref={refFn} data-day={date} className={`min-h-10 rounded-xl border p-2 sm:min-h-24 ${isOver ? "border-teal bg-teal/10 outline-2 -outline-offset-2 outline-teal" : isToday ? "border-brick bg-white" : "border-line bg-white"} ${date < today ? "opacity-80" : ""}`} data-testid={`day-${date}`}>
       <p className={`num text-xs font-medium ${isToday ? "text-brick" : "text-ink-soft"}`}>
         {formatDay(date)} {isToday && "· today"}
       </p>
@@ -133,7 +187,7 @@ function SessionChip({ session: s, href }: { session: CalendarSession; href: str
     >
       <div className="flex items-start gap-1">
         {s.status === "planned" && (
-          <button type="button" {...attributes} {...listeners} className="cursor-grab rounded px-0.5 text-ink-soft" aria-label={`Move ${s.name}`}>
+          <button type="button" {...attributes} {...listeners} className="cursor-grab touch-none rounded px-0.5 text-ink-soft" aria-label={`Move ${s.name}`}>
             ⠿
           </button>
         )}

@@ -1,4 +1,4 @@
-import { useId } from "react";
+import { useEffect, useId, useRef, useState } from "react";
 
 type InputProps = React.InputHTMLAttributes<HTMLInputElement>;
 
@@ -11,6 +11,19 @@ export function Field({
   ...input
 }: InputProps & { label: string; error?: string; hint?: string; name: string }) {
   const id = useId();
+  // An error speaks of the value that was sent. Once the field is edited it no longer applies and goes away; the
+  // next submit shows whatever the server says then.
+  const ref = useRef<HTMLInputElement>(null);
+  const [edited, setEdited] = useState(false);
+  useEffect(() => {
+    const form = ref.current?.form;
+    if (!form) return;
+    const reset = () => setEdited(false);
+    form.addEventListener("submit", reset);
+    return () => form.removeEventListener("submit", reset);
+  }, []);
+  useEffect(() => setEdited(false), [error]);
+  if (edited) error = undefined;
   const errorId = `${id}-error`;
   const hintId = `${id}-hint`;
   return (
@@ -26,6 +39,11 @@ export function Field({
           error ? "border-brick" : "border-line"
         }`}
         {...input}
+        ref={ref}
+        onChange={(e) => {
+          input.onChange?.(e);
+          setEdited(true);
+        }}
       />
       {hint && !error && (
         <p id={hintId} className="text-xs text-ink-soft">

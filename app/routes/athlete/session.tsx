@@ -5,18 +5,24 @@ import { requireRole } from "~/.server/auth";
 import { completeFromForm, sessionPageData } from "~/.server/services/session-page";
 import { attachRide, LoadError } from "~/.server/services/load";
 import { AttachRide } from "~/components/calendar/attach-ride";
+import { SessionComments } from "~/components/calendar/session-comments";
+import { commentAction, listComments } from "~/.server/services/comments";
+import { CoachAthlete, User } from "~/.server/models";
 import type { Route } from "./+types/session";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session.name ?? "Session"} · Pacewright` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const athlete = await requireRole(request, "athlete");
-  return sessionPageData(athlete, Number(params.id));
+  const page = await sessionPageData(athlete, Number(params.id));
+  const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) }, attributes: ["name"] });
+  return { ...page, comments: await listComments(athlete, page.session.id), coachNames: coaches.map((c) => c.name), timezone: athlete.timezone };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const athlete = await requireRole(request, "athlete");
   const form = await request.formData();
+  if (form.get("intent") === "comment") return commentAction(athlete, Number(params.id), form);
   if (form.get("intent") === "attach") {
     const page = await sessionPageData(athlete, Number(params.id));
     const score = form.get("effortScore");
@@ -43,6 +49,8 @@ export default function AthleteSession({ loaderData }: Route.ComponentProps) {
       <PageHeader title={loaderData.session.name} />
       <SessionDetail data={loaderData} canComplete />
       {loaderData.session.status === "planned" && loaderData.session.sport === "bike" && <AttachRide />}
+      {loaderData.coachNames.length > 0 && <SessionComments comments={loaderData.comments} otherSide={loaderData.coachNames.join(" and ")} timezone={loaderData.timezone} />}
     </>
   );
 }
+

@@ -366,7 +366,7 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
                   {preview.current ? `now ${preview.current.label}, since ${preview.current.since}` : "no threshold of this kind yet"}
                 </p>
                 <p className="num">
-                  <strong>{preview.changes.sessions}</strong> planned sessions ({preview.changes.blocks} steps) from {testedOn} will change.
+                  <strong>{preview.changes.sessions}</strong> planned sessions from {testedOn} get new targets.
                 </p>
                 {preview.ramp && <RampFacts ramp={preview.ramp} />}
                 {preview.fit && <CpFitChart fit={preview.fit} />}

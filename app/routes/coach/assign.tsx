@@ -9,10 +9,12 @@ import { notFound } from "~/.server/http";
 import { Assignment, User } from "~/.server/models";
 import { rosterFor } from "~/.server/services/accounts";
 import { AssignError, assignPlan, pushPlanChanges } from "~/.server/services/materialize";
+import { PlacementChoiceError } from "~/.server/services/placement";
 import { loadPlan, PlanError } from "~/.server/services/plans";
 import { currentThresholds } from "~/.server/services/thresholds";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
+import { formatThreshold } from "~/lib/zone-table";
 import type { Route } from "./+types/assign";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Assign · ${data?.plan.name ?? "Plan"} · Pacewright` }];
@@ -32,7 +34,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const rows = await Promise.all(
     athletes.map(async (a) => {
       const th = await currentThresholds(a.id, today);
-      return { id: a.id, name: a.name, thresholds: th.map((t) => `${t.sport} ${t.metric === "power" ? `${Math.round(t.value)} W` : t.metric === "heart_rate" ? `${Math.round(t.value)} bpm` : `${Math.round(t.value)} s`}`) };
+      // One threshold format everywhere (pace as min:ss per km or per 100 m), the same as the roster's.
+      return { id: a.id, name: a.name, thresholds: th.map((t) => `${t.sport} ${formatThreshold(t.value, t.unit)}`) };
     }),
   );
   const names = new Map(athletes.map((a) => [a.id, a.name]));
@@ -45,11 +48,19 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const assignSchema = z.object({
-  athleteIds: z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]), z.array(z.coerce.number().int().positive()).min(1, "Tick at least one athlete.")),
-  mode: z.enum(["start", "event"], { error: "Choose how to align the plan." }),
-  date: z.string().refine(isIsoDate, "Choose a date."),
-});
+const assignSchema = z
+  .object({
+    athleteIds: z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]), z.array(z.coerce.number().int().positive()).min(1, "Tick at least one athlete.")),
+    mode: z.enum(["start", "event"], { error: "Choose how to align the plan." }),
+    date: z.string().refine(isIsoDate, "Choose a date."),
+    // Present once the coach has seen the checks and answered them.
+    decided: z.literal("1").optional(),
+    overlap: z.enum(["replace", "alongside"], { error: "Choose replace or alongside." }).optional(),
+    replaceFrom: z.string().refine(isIsoDate, "Choose the date to replace from.").optional().or(z.literal("").transform(() => undefined)),
+    confirmSports: z.literal("on").optional(),
+    confirmTests: z.literal("on").optional(),
+  })
+  .refine((v) => v.overlap !== "replace" || v.replaceFrom, { path: ["replaceFrom"], message: "Choose the date to replace from." });
 
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
@@ -62,12 +73,30 @@ export async function action({ request, params }: Route.ActionArgs) {
     }
     const parsed = parseForm(assignSchema, form);
     if (!parsed.ok) return data({ ok: false as const, message: "Check the form.", fieldErrors: parsed.fieldErrors }, { status: 400 });
-    const r = await assignPlan(coach, planId, parsed.data.athleteIds, parsed.data);
+    const v = parsed.data;
+    const choice = v.decided ? { overlap: v.overlap, replaceFrom: v.replaceFrom, confirmSports: v.confirmSports === "on", confirmTests: v.confirmTests === "on" } : undefined;
+    const r = await assignPlan(coach, planId, v.athleteIds, { mode: v.mode, date: v.date, choice });
+    const users = await User.findAll({ where: { id: v.athleteIds } });
+    const nameOf = new Map(users.map((u) => [u.id, u.name]));
+    if (r.reports.length)
+      return {
+        ok: false as const,
+        message: "Nothing has been placed yet. Check what would happen and choose.",
+        fieldErrors: {},
+        start: r.start,
+        reports: r.reports.map((x) => ({ ...x, athlete: nameOf.get(x.athleteId) ?? "athlete" })),
+      };
     const total = r.results.reduce((s, x) => s + x.sessions, 0);
-    const names = (await User.findAll({ where: { id: parsed.data.athleteIds } })).map((u) => u.name).join(", ");
-    return { ok: true as const, message: `Placed ${total} sessions for ${names}, starting Monday ${r.start}.`, fieldErrors: {} };
+    const cancelled = r.results.reduce((s, x) => s + x.cancelled, 0);
+    const names = users.map((u) => u.name).join(", ");
+    return {
+      ok: true as const,
+      message: `Placed ${total} sessions for ${names}, starting Monday ${r.start}.${cancelled ? ` ${cancelled} earlier planned session${cancelled === 1 ? " was" : "s were"} replaced.` : ""}`,
+      fieldErrors: {},
+    };
   } catch (err) {
     if (err instanceof AssignError) return data({ ok: false as const, message: err.message, fieldErrors: {} }, { status: err.status });
+    if (err instanceof PlacementChoiceError) return data({ ok: false as const, message: err.message, fieldErrors: {} }, { status: 409 });
     throw err;
   }
 }
@@ -78,6 +107,10 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
   const push = useFetcher<typeof action>();
   const [mode, setMode] = useState<"start" | "event">(plan.eventDate ? "event" : "start");
   const errors: Record<string, string | undefined> = fetcher.data?.fieldErrors ?? {};
+  const reply = fetcher.data;
+  const reports = (reply && "reports" in reply ? reply.reports : undefined) ?? [];
+  const [dismissed, setDismissed] = useState<unknown>(null);
+  const asking = reports.length > 0 && dismissed !== reply;
   const outdated = assignments.filter((a) => a.outdated).length;
   return (
     <>
@@ -91,7 +124,8 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
       <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
         <Card>
           <fetcher.Form method="post" className="flex flex-col gap-4">
-            {fetcher.data && <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>}
+            {fetcher.data && (dismissed !== reply || !reports.length) && <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>}
+            {reports.length > 0 && dismissed === reply && <FormMessage tone="ok">Cancelled: nothing was placed.</FormMessage>}
             <table className="w-full text-left text-sm">
               <caption className="sr-only">Athletes on your roster</caption>
               <thead className="text-ink-soft">
@@ -128,9 +162,13 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
               </label>
             </fieldset>
             <Field label={mode === "start" ? "Start date" : "Event date"} name="date" type="date" defaultValue={mode === "event" ? (plan.eventDate ?? today) : today} error={errors.date} className="max-w-xs" />
-            <button type="submit" className={buttonClass("primary", "self-start")} disabled={fetcher.state !== "idle"}>
-              {fetcher.state !== "idle" ? "Placing…" : "Place on calendars"}
-            </button>
+            {asking && reply && "start" in reply ? (
+              <PlacementChoices reports={reports} start={reply.start!} errors={errors} busy={fetcher.state !== "idle"} onCancel={() => setDismissed(reply)} />
+            ) : (
+              <button type="submit" className={buttonClass("primary", "self-start")} disabled={fetcher.state !== "idle"}>
+                {fetcher.state !== "idle" ? "Checking…" : "Place on calendars"}
+              </button>
+            )}
           </fetcher.Form>
         </Card>
         <Card>
@@ -158,5 +196,76 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
         </Card>
       </div>
     </>
+  );
+}
+
+type Report = { athlete: string; athleteId: number; sportsWithoutThreshold: string[]; overlap: { from: string; to: string; sessions: number; plans: string[] } | null; testDays: { date: string; names: string[] }[] };
+
+/** What placing would do to each calendar, and the coach's answer; nothing is written until one is given. */
+function PlacementChoices({ reports, start, errors, busy, onCancel }: { reports: Report[]; start: string; errors: Record<string, string | undefined>; busy: boolean; onCancel: () => void }) {
+  const overlap = reports.some((r) => r.overlap);
+  const sports = [...new Set(reports.flatMap((r) => r.sportsWithoutThreshold))];
+  const tests = reports.some((r) => r.testDays.length);
+  const [choice, setChoice] = useState<"replace" | "alongside" | "">("");
+  return (
+    <section aria-labelledby="checks-heading" className="flex flex-col gap-3 rounded-xl border border-brick/40 bg-brick/5 p-4 text-sm" data-testid="placement-checks">
+      <input type="hidden" name="decided" value="1" />
+      <h2 id="checks-heading" className="font-semibold">
+        Before placing
+      </h2>
+      <ul className="flex flex-col gap-2">
+        {reports.map((r) => (
+          <li key={r.athleteId}>
+            <span className="font-medium">{r.athlete}</span>
+            <ul className="ml-4 list-disc">
+              {r.sportsWithoutThreshold.length > 0 && <li>has no threshold for {r.sportsWithoutThreshold.join(" or ")}: those sessions would show only percentages until a field test.</li>}
+              {r.overlap && (
+                <li>
+                  already has {r.overlap.sessions} planned session{r.overlap.sessions === 1 ? "" : "s"} between {r.overlap.from} and {r.overlap.to}
+                  {r.overlap.plans.length ? ` (from ${r.overlap.plans.join(", ")})` : ""}.
+                </li>
+              )}
+              {r.testDays.map((d) => (
+                <li key={d.date} className="font-medium text-brick">
+                  two maximal tests on {d.date}: {d.names.join(" and ")}.
+                </li>
+              ))}
+            </ul>
+          </li>
+        ))}
+      </ul>
+      {overlap && (
+        <fieldset className="flex flex-col gap-2">
+          <legend className="mb-1 font-medium">The sessions already planned</legend>
+          <label className="flex flex-wrap items-center gap-2">
+            <input type="radio" name="overlap" value="replace" checked={choice === "replace"} onChange={() => setChoice("replace")} /> replace them from
+            <input type="date" name="replaceFrom" defaultValue={start} aria-label="Replace from" className="rounded border border-line px-2 py-1" />
+            <span className="text-ink-soft">(done and skipped sessions stay)</span>
+          </label>
+          <label className="flex items-center gap-2">
+            <input type="radio" name="overlap" value="alongside" checked={choice === "alongside"} onChange={() => setChoice("alongside")} /> keep them and place this plan alongside
+          </label>
+          {(errors.overlap || errors.replaceFrom) && <p className="text-brick">{errors.overlap ?? errors.replaceFrom}</p>}
+        </fieldset>
+      )}
+      {sports.length > 0 && (
+        <label className="flex items-center gap-2">
+          <input type="checkbox" name="confirmSports" /> place it even without a {sports.join(" or ")} threshold
+        </label>
+      )}
+      {tests && (
+        <label className="flex items-center gap-2">
+          <input type="checkbox" name="confirmTests" /> I have checked with the athlete: two maximal tests on one day are intended (replacing from an earlier date may remove the clash instead)
+        </label>
+      )}
+      <div className="flex gap-2">
+        <button type="submit" className={buttonClass("primary")} disabled={busy}>
+          {busy ? "Placing…" : "Place with these choices"}
+        </button>
+        <button type="button" className={buttonClass("secondary")} onClick={onCancel}>
+          Cancel
+        </button>
+      </div>
+    </section>
   );
 }

@@ -1,9 +1,11 @@
 import { Link } from "react-router";
+import { CalendarViews, MonthCalendar } from "~/components/calendar/month-calendar";
 import { WeekCalendar } from "~/components/calendar/week-calendar";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { calendarRange, calendarSubject } from "~/.server/services/calendar";
 import { addDays, mondayOf, todayIn } from "~/lib/dates";
+import { monthGrid, monthOf } from "~/lib/month";
 import type { Route } from "./+types/athlete-calendar";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.athlete.name ?? "Athlete"}'s calendar · Pacewright` }];
@@ -12,8 +14,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   const athlete = await calendarSubject(coach, params.athleteId);
   const today = todayIn(athlete.timezone);
+  const who = { id: athlete.id, name: athlete.name };
+  const url = new URL(request.url);
+  if (url.searchParams.get("view") === "month") {
+    const month = monthOf(url.searchParams.get("month"), today);
+    const grid = monthGrid(month);
+    return { view: "month" as const, athlete: who, today, month, ...grid, sessions: await calendarRange(athlete.id, grid.from, grid.to) };
+  }
   const from = mondayOf(today);
-  return { athlete: { id: athlete.id, name: athlete.name }, today, from, sessions: await calendarRange(athlete.id, from, addDays(from, 13)) };
+  return { view: "weeks" as const, athlete: who, today, from, sessions: await calendarRange(athlete.id, from, addDays(from, 13)) };
 }
 
 export default function CoachAthleteCalendar({ loaderData }: Route.ComponentProps) {
@@ -27,7 +36,12 @@ export default function CoachAthleteCalendar({ loaderData }: Route.ComponentProp
         / Calendar
       </p>
       <PageHeader title={`${athlete.name}'s calendar`} />
-      <WeekCalendar athleteId={athlete.id} from={loaderData.from} today={loaderData.today} sessions={loaderData.sessions} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
+      <CalendarViews view={loaderData.view} />
+      {loaderData.view === "month" ? (
+        <MonthCalendar {...loaderData} title={`${athlete.name}'s calendar`} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
+      ) : (
+        <WeekCalendar athleteId={athlete.id} from={loaderData.from} today={loaderData.today} sessions={loaderData.sessions} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
+      )}
     </>
   );
 }

@@ -4,6 +4,8 @@ import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { calendarSubject } from "~/.server/services/calendar";
 import { sessionPageData } from "~/.server/services/session-page";
+import { SessionComments } from "~/components/calendar/session-comments";
+import { commentAction, listComments } from "~/.server/services/comments";
 import type { Route } from "./+types/athlete-session";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session.name ?? "Session"} · Pacewright` }];
@@ -11,7 +13,15 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   const athlete = await calendarSubject(coach, params.athleteId);
-  return { athleteId: athlete.id, athleteName: athlete.name, ...(await sessionPageData(athlete, Number(params.sessionId))) };
+  const page = await sessionPageData(athlete, Number(params.sessionId));
+  return { athleteId: athlete.id, athleteName: athlete.name, ...page, comments: await listComments(coach, page.session.id), timezone: coach.timezone };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const coach = await requireRole(request, "coach");
+  const athlete = await calendarSubject(coach, params.athleteId);
+  const page = await sessionPageData(athlete, Number(params.sessionId));
+  return commentAction(coach, page.session.id, await request.formData());
 }
 
 export default function CoachAthleteSession({ loaderData }: Route.ComponentProps) {
@@ -24,7 +34,8 @@ export default function CoachAthleteSession({ loaderData }: Route.ComponentProps
         / {loaderData.session.name}
       </p>
       <PageHeader title={loaderData.session.name} />
-      <SessionDetail data={loaderData} canComplete={false} />
+      <SessionDetail data={loaderData} canComplete={false} subjectName={loaderData.athleteName} />
+      <SessionComments comments={loaderData.comments} otherSide={loaderData.athleteName} timezone={loaderData.timezone} />
     </>
   );
 }

@@ -46,7 +46,7 @@ export default function Board({ loaderData }: Route.ComponentProps) {
         <div className="flex flex-wrap items-center gap-2 text-sm">
           {outdated > 0 && (
             <span className="rounded-lg bg-brick/10 px-3 py-2 text-brick" role="status">
-              {outdated} of {assigned} assigned athlete{assigned === 1 ? "" : "s"} follow an older version.{" "}
+              {assigned === 1 ? "The athlete on this plan follows" : outdated === assigned ? `All ${assigned} athletes on this plan follow` : `${outdated} of the ${assigned} athletes on this plan follow`} an older version of it.{" "}
               <Link to={`/coach/plans/${plan.id}/assign`} className="underline">
                 Push changes
               </Link>

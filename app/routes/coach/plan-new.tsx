@@ -90,7 +90,7 @@ export default function NewPlan({ loaderData, actionData }: Route.ComponentProps
             <div className="grid grid-cols-2 gap-3">
               <Field label="Weeks" name="weeks" type="number" min={4} max={104} value={weeks} onChange={(e) => setWeeks(e.target.value)} error={errors.weeks} />
               <Field label="Weekly hours" name="weeklyHours" type="number" step="0.5" min={1} max={40} value={hours} onChange={(e) => setHours(e.target.value)} error={errors.weeklyHours} />
-              <SelectField label="Loading pattern" name="pattern" value={pattern} onChange={(e) => setPattern(e.target.value)} error={errors.pattern}>
+              <SelectField label="Loading pattern" name="pattern" value={pattern} onChange={(e) => setPattern(e.target.value)} error={errors.pattern} className="col-span-2">
                 <option value="3:1">3 weeks up, 1 easy</option>
                 <option value="2:1">2 weeks up, 1 easy</option>
               </SelectField>

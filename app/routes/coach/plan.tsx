@@ -1,3 +1,4 @@
+import { useState } from "react";
 import { data, Link, redirect, useFetcher, useSearchParams } from "react-router";
 import { PhaseRibbon } from "~/components/phase-ribbon";
 import { buttonClass } from "~/components/ui/button";
@@ -6,7 +7,7 @@ import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { notFound } from "~/.server/http";
 import { listSessions } from "~/.server/services/sessions";
-import { addRecurrence, deletePlan, loadPlan, PlanError, renamePlan, setPhaseRange, updateWeek } from "~/.server/services/plans";
+import { addRecurrence, deletePlan, editWeekRange, loadPlan, PlanError, renamePlan, setPhaseRange, updateWeek, updateWeeks } from "~/.server/services/plans";
 import { parseForm } from "~/lib/forms";
 import { DAY_NAMES, PHASE_LABEL, phaseRangeSchema, recurrenceSchema, weekEditSchema } from "~/lib/plans";
 import { PHASES } from "~/lib/training";
@@ -27,6 +28,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   }
 }
 
+const loadFactor = z.coerce.number({ error: "Enter a load factor." }).min(0.3, "Use a load factor from 0.3 to 2.").max(2, "Use a load factor from 0.3 to 2.");
+const bulkWeekSchema = weekEditSchema.extend({ loadFactor });
+const rangeSchema = z
+  .object({
+    fromWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
+    toWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
+    phase: z.union([z.literal(""), z.enum(PHASES)]).default(""),
+    plannedHours: z.union([z.literal(""), z.coerce.number({ error: "Enter hours." }).min(0, "Hours cannot be negative.").max(60, "Use at most 60 hours.")]).default(""),
+    loadFactor: z.union([z.literal(""), loadFactor]).default(""),
+  })
+  .refine((v) => v.toWeek >= v.fromWeek, { message: "The last week must not be before the first.", path: ["toWeek"] });
+
 const renameSchema = z.object({ name: z.string().trim().min(1, "Give the plan a name.").max(120), description: z.string().trim().max(2000).default("") });
 
 type Result = { ok: boolean; message: string; fieldErrors: Record<string, string | undefined> };
@@ -43,6 +56,33 @@ export async function action({ request, params }: Route.ActionArgs) {
       if (!parsed.ok) return fail("Check the week's fields.", 400, parsed.fieldErrors);
       await updateWeek(coach.id, planId, parsed.data);
       return { ok: true, message: "Week saved.", fieldErrors: {} } satisfies Result;
+    }
+    if (intent === "weeks") {
+      // One form for the whole table: every week is checked first, and nothing is saved while any field is wrong.
+      const ids = form.getAll("weekId").map(String);
+      const edits = [];
+      const fieldErrors: Record<string, string | undefined> = {};
+      for (const id of ids) {
+        const one = new FormData();
+        one.set("weekId", id);
+        for (const f of ["phase", "recovery", "test", "plannedHours", "loadFactor", "notes"]) {
+          const v = form.get(`${f}-${id}`);
+          if (v !== null) one.set(f, v);
+        }
+        const parsed = parseForm(bulkWeekSchema, one);
+        if (parsed.ok) edits.push(parsed.data);
+        else for (const [k, v] of Object.entries(parsed.fieldErrors)) fieldErrors[`${k}-${id}`] = v;
+      }
+      if (Object.keys(fieldErrors).length) return fail("Nothing was saved: fix the marked fields.", 400, fieldErrors);
+      const n = await updateWeeks(coach.id, planId, edits);
+      return { ok: true, message: n ? `Saved ${n} changed week${n === 1 ? "" : "s"}.` : "Nothing had changed.", fieldErrors: {} } satisfies Result;
+    }
+    if (intent === "range") {
+      const parsed = parseForm(rangeSchema, form);
+      if (!parsed.ok) return fail("Check the change.", 400, parsed.fieldErrors);
+      const v = parsed.data;
+      const n = await editWeekRange(coach.id, planId, { fromWeek: v.fromWeek, toWeek: v.toWeek, phase: v.phase || undefined, plannedHours: v.plannedHours === "" ? undefined : v.plannedHours, loadFactor: v.loadFactor === "" ? undefined : v.loadFactor });
+      return { ok: true, message: `Changed weeks ${v.fromWeek}–${v.toWeek} (${n} week${n === 1 ? "" : "s"}).`, fieldErrors: {} } satisfies Result;
     }
     if (intent === "phase-range") {
       const parsed = parseForm(phaseRangeSchema, form);
@@ -95,9 +135,14 @@ export default function PlanPage({ loaderData }: Route.ComponentProps) {
         title={plan.name}
         lead={`${weeks.length} weeks · ${plan.pattern} loading · field test every ${plan.testEveryWeeks} weeks${plan.eventDate ? ` · event ${plan.eventDate}` : ""}`}
         actions={
-          <Link to={`/coach/plans/${plan.id}/board`} className={buttonClass("primary")}>
-            Open the plan board
-          </Link>
+          <>
+            <Link to={`/coach/plans/${plan.id}/print`} className={buttonClass("secondary")}>
+              Print view
+            </Link>
+            <Link to={`/coach/plans/${plan.id}/board`} className={buttonClass("primary")}>
+              Open the plan board
+            </Link>
+          </>
         }
       />
       {params.get("created") && (
@@ -107,30 +152,9 @@ export default function PlanPage({ loaderData }: Route.ComponentProps) {
       )}
       <PhaseRibbon weeks={weeks.map((w) => ({ idx: w.idx, phase: w.phase, recovery: w.recovery, test: w.test }))} className="mb-6" />
       <div className="grid gap-6 xl:grid-cols-[1fr_22rem]">
-        <Card className="overflow-x-auto p-0">
-          <table className="num w-full min-w-[44rem] text-left text-sm">
-            <caption className="px-4 pt-4 text-left font-semibold">Weeks</caption>
-            <thead className="text-ink-soft">
-              <tr>
-                <th className="px-4 py-2 font-medium">Week</th>
-                <th className="py-2 font-medium">Phase</th>
-                <th className="py-2 font-medium">Recovery</th>
-                <th className="py-2 font-medium">Test</th>
-                <th className="py-2 font-medium">Hours</th>
-                <th className="py-2 font-medium">Notes</th>
-                <th className="py-2 font-medium">Sessions</th>
-                <th className="py-2" />
-              </tr>
-            </thead>
-            <tbody>
-              {weeks.map((w) => (
-                <WeekRow key={`${w.id}-${plan.version}`} week={w} label={monday(w.idx)} sessions={dayCount(w.id)} />
-              ))}
-            </tbody>
-          </table>
-        </Card>
+        <WeeksForm weeks={weeks} label={monday} sessions={dayCount} version={plan.version} />
         <div className="flex flex-col gap-6">
-          <PhaseRangeForm weeks={weeks.length} />
+          <RangeForm weeks={weeks.length} />
           <RecurrenceForm weeks={weeks.length} shelf={shelf} recurrences={recurrences} />
           <RenameForm name={plan.name} description={plan.description} />
         </div>
@@ -139,82 +163,118 @@ export default function PlanPage({ loaderData }: Route.ComponentProps) {
   );
 }
 
-function WeekRow({ week, label, sessions }: { week: { id: number; idx: number; phase: string; recovery: boolean; test: boolean; plannedHours: number; notes: string }; label: string; sessions: number }) {
+type WeekRowData = { id: number; idx: number; phase: string; recovery: boolean; test: boolean; plannedHours: number; loadFactor: number; notes: string };
+
+/**
+ * Every week in one form with one Save. A field's error belongs to the value that was sent: editing the field
+ * clears it at once, without waiting for the next save.
+ */
+function WeeksForm({ weeks, label, sessions, version }: { weeks: WeekRowData[]; label: (idx: number) => string; sessions: (weekId: number) => number; version: number }) {
   const fetcher = useFetcher<Result>();
+  const [edited, setEdited] = useState<Set<string>>(new Set());
+  const [seen, setSeen] = useState<unknown>(null);
+  if (fetcher.data !== seen) {
+    setSeen(fetcher.data);
+    setEdited(new Set());
+  }
   const errors = fetcher.data?.fieldErrors ?? {};
-  const formId = `week-${week.id}`;
+  const err = (field: string, id: number) => (edited.has(`${field}-${id}`) ? undefined : errors[`${field}-${id}`]);
+  const touch = (e: React.FormEvent<HTMLFormElement>) => {
+    const name = (e.target as unknown as HTMLInputElement).name;
+    if (name) setEdited((s) => new Set(s).add(name));
+  };
   return (
-    <tr className="border-t border-line/60 align-top">
-      <td className="px-4 py-2">
-        <span className="font-medium">{week.idx}</span>
-        <span className="block text-xs text-ink-soft">{label}</span>
-        <fetcher.Form method="post" id={formId}>
-          <input type="hidden" name="intent" value="week" />
-          <input type="hidden" name="weekId" value={week.id} />
-        </fetcher.Form>
-      </td>
-      <td className="py-2">
-        <select name="phase" form={formId} defaultValue={week.phase} aria-label={`Phase of week ${week.idx}`} className="rounded-md border border-line bg-white px-2 py-1">
-          {PHASES.map((p) => (
-            <option key={p} value={p}>
-              {PHASE_LABEL[p]}
-            </option>
-          ))}
-        </select>
-      </td>
-      <td className="py-2">
-        <input type="checkbox" name="recovery" form={formId} defaultChecked={week.recovery} aria-label={`Week ${week.idx} is a recovery week`} />
-      </td>
-      <td className="py-2">
-        <input type="checkbox" name="test" form={formId} defaultChecked={week.test} aria-label={`Week ${week.idx} has a field test`} />
-      </td>
-      <td className="py-2">
-        <input name="plannedHours" form={formId} type="number" step="0.25" min={0} max={60} defaultValue={week.plannedHours} aria-label={`Hours of week ${week.idx}`} className="w-20 rounded-md border border-line px-2 py-1" />
-        {errors.plannedHours && <span className="block text-xs text-brick">{errors.plannedHours}</span>}
-      </td>
-      <td className="py-2 pr-2">
-        <input name="notes" form={formId} defaultValue={week.notes} maxLength={1000} aria-label={`Notes for week ${week.idx}`} className="w-full min-w-40 rounded-md border border-line px-2 py-1" />
-      </td>
-      <td className="py-2">{sessions}</td>
-      <td className="py-2 pr-4">
-        <button type="submit" form={formId} className={buttonClass("secondary", "px-3 py-1")} disabled={fetcher.state !== "idle"}>
-          {fetcher.state !== "idle" ? "…" : "Save"}
-        </button>
-        {fetcher.data && (
-          <span role="status" className={`block text-xs ${fetcher.data.ok ? "text-teal" : "text-brick"}`}>
-            {fetcher.data.message}
-          </span>
-        )}
-      </td>
-    </tr>
+    <Card className="overflow-x-auto p-0">
+      <fetcher.Form method="post" onChange={touch} key={version} noValidate>
+        <input type="hidden" name="intent" value="weeks" />
+        <table className="num w-full min-w-[48rem] text-left text-sm">
+          <caption className="px-4 pt-4 text-left font-semibold">Weeks</caption>
+          <thead className="text-ink-soft">
+            <tr>
+              <th className="px-4 py-2 font-medium">Week</th>
+              <th className="py-2 font-medium">Phase</th>
+              <th className="py-2 pr-3 font-medium">Recovery</th>
+              <th className="py-2 pr-3 font-medium">Test</th>
+              <th className="py-2 font-medium">Hours</th>
+              <th className="py-2 font-medium" title="Planned load relative to a normal loading week (1.00)">
+                Load factor
+              </th>
+              <th className="py-2 font-medium">Notes</th>
+              <th className="py-2 pr-4 font-medium">Sessions</th>
+            </tr>
+          </thead>
+          <tbody>
+            {weeks.map((w) => (
+              <tr key={w.id} className="border-t border-line/60 align-top">
+                <td className="px-4 py-2">
+                  <input type="hidden" name="weekId" value={w.id} />
+                  <span className="font-medium">{w.idx}</span>
+                  <span className="block text-xs text-ink-soft">{label(w.idx)}</span>
+                </td>
+                <td className="py-2">
+                  <select name={`phase-${w.id}`} defaultValue={w.phase} aria-label={`Phase of week ${w.idx}`} className="rounded-md border border-line bg-white py-1 pr-7 pl-2">
+                    {PHASES.map((p) => (
+                      <option key={p} value={p}>
+                        {PHASE_LABEL[p]}
+                      </option>
+                    ))}
+                  </select>
+                </td>
+                <td className="py-2">
+                  <input type="checkbox" name={`recovery-${w.id}`} defaultChecked={w.recovery} aria-label={`Week ${w.idx} is a recovery week`} />
+                </td>
+                <td className="py-2">
+                  <input type="checkbox" name={`test-${w.id}`} defaultChecked={w.test} aria-label={`Week ${w.idx} has a field test`} />
+                </td>
+                <td className="py-2">
+                  <input name={`plannedHours-${w.id}`} type="number" step="0.25" min={0} max={60} defaultValue={w.plannedHours} aria-label={`Hours of week ${w.idx}`} aria-invalid={err("plannedHours", w.id) ? true : undefined} className="w-20 rounded-md border border-line px-2 py-1" />
+                  {err("plannedHours", w.id) && <span className="block text-xs text-brick">{err("plannedHours", w.id)}</span>}
+                </td>
+                <td className="py-2">
+                  <input name={`loadFactor-${w.id}`} type="number" step="0.01" min={0.3} max={2} defaultValue={w.loadFactor} aria-label={`Load factor of week ${w.idx}`} aria-invalid={err("loadFactor", w.id) ? true : undefined} className="w-20 rounded-md border border-line px-2 py-1" />
+                  {err("loadFactor", w.id) && <span className="block text-xs text-brick">{err("loadFactor", w.id)}</span>}
+                </td>
+                <td className="py-2 pr-2">
+                  <input name={`notes-${w.id}`} defaultValue={w.notes} maxLength={1000} aria-label={`Notes for week ${w.idx}`} className="w-full min-w-40 rounded-md border border-line px-2 py-1" />
+                </td>
+                <td className="py-2 pr-4">{sessions(w.id)}</td>
+              </tr>
+            ))}
+          </tbody>
+        </table>
+        <div className="sticky bottom-0 flex flex-wrap items-center gap-3 border-t border-line bg-white px-4 py-3">
+          <button type="submit" className={buttonClass("primary")} disabled={fetcher.state !== "idle"}>
+            {fetcher.state !== "idle" ? "Saving…" : "Save all weeks"}
+          </button>
+          {fetcher.data && (
+            <span role={fetcher.data.ok ? "status" : "alert"} className={`text-sm ${fetcher.data.ok ? "text-teal" : "text-brick"}`}>
+              {fetcher.data.message}
+            </span>
+          )}
+        </div>
+      </fetcher.Form>
+    </Card>
   );
 }
 
-function Result({ result }: { result?: Result }) {
-  if (!result) return null;
-  return <FormMessage tone={result.ok ? "ok" : "error"}>{result.message}</FormMessage>;
-}
-
-function PhaseRangeForm({ weeks }: { weeks: number }) {
+/** Phase, hours and load factor for a run of weeks at once; an empty field leaves that value as it is. */
+function RangeForm({ weeks }: { weeks: number }) {
   const fetcher = useFetcher<Result>();
   const errors = fetcher.data?.fieldErrors ?? {};
+  const [edited, setEdited] = useState<Set<string>>(new Set());
+  const [seen, setSeen] = useState<unknown>(null);
+  if (fetcher.data !== seen) {
+    setSeen(fetcher.data);
+    setEdited(new Set());
+  }
+  const err = (f: string) => (edited.has(f) ? undefined : errors[f]);
   return (
     <Card>
-      <h2 className="font-semibold">Resize a phase</h2>
-      <fetcher.Form method="post" className="mt-3 flex flex-col gap-3 text-sm">
-        <input type="hidden" name="intent" value="phase-range" />
+      <h2 className="font-semibold">Change a run of weeks</h2>
+      <fetcher.Form method="post" noValidate className="mt-3 flex flex-col gap-3 text-sm" onChange={(e) => setEdited((s) => new Set(s).add((e.target as unknown as HTMLInputElement).name))}>
+        <input type="hidden" name="intent" value="range" />
         <Result result={fetcher.data} />
-        <div className="grid grid-cols-3 gap-2">
-          <label className="flex flex-col gap-1">
-            Phase
-            <select name="phase" className="rounded-md border border-line bg-white px-2 py-1">
-              {PHASES.map((p) => (
-                <option key={p} value={p}>
-                  {PHASE_LABEL[p]}
-                </option>
-              ))}
-            </select>
-          </label>
+        <div className="grid grid-cols-2 gap-2">
           <label className="flex flex-col gap-1">
             From week
             <input name="fromWeek" type="number" min={1} max={weeks} defaultValue={1} className="rounded-md border border-line px-2 py-1" />
@@ -222,13 +282,42 @@ function PhaseRangeForm({ weeks }: { weeks: number }) {
           <label className="flex flex-col gap-1">
             To week
             <input name="toWeek" type="number" min={1} max={weeks} defaultValue={Math.min(4, weeks)} className="rounded-md border border-line px-2 py-1" />
-            {errors.toWeek && <span className="text-xs text-brick">{errors.toWeek}</span>}
+            {err("toWeek") && <span className="text-xs text-brick">{err("toWeek")}</span>}
+          </label>
+          <label className="col-span-2 flex flex-col gap-1">
+            Phase
+            <select name="phase" defaultValue="" className="rounded-md border border-line bg-white py-1 pr-7 pl-2">
+              <option value="">keep as it is</option>
+              {PHASES.map((p) => (
+                <option key={p} value={p}>
+                  {PHASE_LABEL[p]}
+                </option>
+              ))}
+            </select>
+            {err("phase") && <span className="text-xs text-brick">{err("phase")}</span>}
+          </label>
+          <label className="flex flex-col gap-1">
+            Hours per week
+            <input name="plannedHours" type="number" step="0.25" min={0} max={60} placeholder="keep" className="rounded-md border border-line px-2 py-1" />
+            {err("plannedHours") && <span className="text-xs text-brick">{err("plannedHours")}</span>}
+          </label>
+          <label className="flex flex-col gap-1">
+            Load factor
+            <input name="loadFactor" type="number" step="0.01" min={0.3} max={2} placeholder="keep" className="rounded-md border border-line px-2 py-1" />
+            {err("loadFactor") && <span className="text-xs text-brick">{err("loadFactor")}</span>}
           </label>
         </div>
-        <button className={buttonClass("secondary")}>Apply</button>
+        <button className={buttonClass("secondary")} disabled={fetcher.state !== "idle"}>
+          Apply to these weeks
+        </button>
       </fetcher.Form>
     </Card>
   );
+}
+
+function Result({ result }: { result?: Result }) {
+  if (!result) return null;
+  return <FormMessage tone={result.ok ? "ok" : "error"}>{result.message}</FormMessage>;
 }
 
 function RecurrenceForm({ weeks, shelf, recurrences }: { weeks: number; shelf: { id: number; name: string; sport: string }[]; recurrences: { id: number; summary: string; count: number }[] }) {

@@ -38,6 +38,16 @@ type Athlete = Route.ComponentProps["loaderData"]["athletes"][number];
 const thresholdText = (t: { sport: string; value: number; unit: string }) => `${t.sport} ${formatThreshold(t.value, t.unit)}`;
 const column = createColumnHelper<Athlete>();
 
+/** The last field test; thresholds typed in by hand have no test, so their date says since when they hold. */
+function lastTestText(r: Athlete) {
+  if (r.retest.lastTest) return r.retest.lastTest;
+  const since = r.thresholds.map((t) => t.since).sort().at(-1);
+  return since ? `no test; thresholds set ${since}` : "none yet";
+}
+function complianceText(l: Athlete["load"]) {
+  return l.compliance === null ? "nothing planned yet" : `${Math.round(l.compliance * 100)} % (${l.done} of ${l.planned} sessions)`;
+}
+
 export default function Roster({ loaderData }: Route.ComponentProps) {
   const { athletes, invitations, timezone } = loaderData;
   const columns = [
@@ -51,7 +61,7 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
     }),
     column.accessor("email", { header: "E-mail" }),
     column.accessor((r) => r.thresholds.map((t) => thresholdText(t)).join(" · "), { id: "thresholds", header: "Thresholds", cell: (c) => c.getValue() || <span className="text-brick">needs a field test</span> }),
-    column.accessor((r) => r.retest.lastTest ?? "", { id: "lastTest", header: "Last test", cell: (c) => c.getValue() || "—" }),
+    column.accessor((r) => lastTestText(r), { id: "lastTest", header: "Last test" }),
     column.accessor((r) => r.retest.due ?? "", {
       id: "due",
       header: "Retest due",
@@ -74,8 +84,8 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
         const l = c.row.original.load;
         return (
           <span data-testid="roster-compliance">
-            {l.compliance === null ? "—" : `${Math.round(l.compliance * 100)} % (${l.done}/${l.planned})`}
-            {l.spike && <span className="ml-2 rounded bg-brick/15 px-1.5 text-xs font-medium text-brick" title={`Acute:chronic ratio ${l.ratio}`}>load spike</span>}
+            {complianceText(l)}
+            {l.spike && <SpikeFlag ratio={l.ratio} />}
           </span>
         );
       },
@@ -85,13 +95,45 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader title="Roster" lead={`${athletes.length} athlete${athletes.length === 1 ? "" : "s"} coached by you.`} />
       <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
-        <DataTable
-          data={athletes}
-          columns={columns}
-          caption="Athletes on your roster"
-          initialSort={[{ id: "name", desc: false }]}
-          empty="No athletes yet. Invite your first one with the form."
-        />
+        <div className="hidden md:block">
+          <DataTable
+            data={athletes}
+            columns={columns}
+            caption="Athletes on your roster"
+            initialSort={[{ id: "name", desc: false }]}
+            empty="No athletes yet. Invite your first one with the form."
+          />
+        </div>
+        {/* On a phone the table's columns do not fit: one card per athlete with the same facts. */}
+        <ul className="flex flex-col gap-3 md:hidden" aria-label="Athletes on your roster">
+          {athletes.length === 0 && <li className="text-sm text-ink-soft">No athletes yet. Invite your first one with the form.</li>}
+          {[...athletes]
+            .sort((a, b) => a.name.localeCompare(b.name))
+            .map((a) => (
+              <li key={a.id} className="rounded-xl border border-line bg-white p-4 text-sm" data-testid="roster-card">
+                <Link to={`/coach/athletes/${a.id}`} className="text-base font-semibold text-teal underline-offset-2 hover:underline">
+                  {a.name}
+                </Link>
+                <p className="break-all text-ink-soft">{a.email}</p>
+                <dl className="mt-2 grid grid-cols-[7rem_1fr] gap-x-2 gap-y-1">
+                  <dt className="text-ink-soft">Thresholds</dt>
+                  <dd>{a.thresholds.length ? a.thresholds.map((t) => thresholdText(t)).join(" · ") : <span className="text-brick">needs a field test</span>}</dd>
+                  <dt className="text-ink-soft">Last test</dt>
+                  <dd className="num">{lastTestText(a)}</dd>
+                  <dt className="text-ink-soft">Retest due</dt>
+                  <dd className="num">
+                    {a.retest.due ?? "—"}
+                    {a.retest.due && a.retest.due < a.today && <span className="font-medium text-brick"> (overdue)</span>}
+                  </dd>
+                  <dt className="text-ink-soft">Done, last 4 weeks</dt>
+                  <dd className="num">
+                    {complianceText(a.load)}
+                    {a.load.spike && <SpikeFlag ratio={a.load.ratio} />}
+                  </dd>
+                </dl>
+              </li>
+            ))}
+        </ul>
         <div className="flex flex-col gap-6">
           <InviteForm />
           <Card aria-labelledby="pending-heading">
@@ -117,6 +159,15 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
         </div>
       </div>
     </>
+  );
+}
+
+/** The acute:chronic flag in plain words (7-day against 28-day load; Gabbett 2016 bands are guidance only). */
+function SpikeFlag({ ratio }: { ratio: number | null }) {
+  return (
+    <span className="ml-2 inline-block rounded bg-brick/15 px-1.5 text-xs font-medium text-brick" title={`Last 7 days' load is ${ratio} times the 28-day usual`}>
+      load spike{ratio !== null ? `: ${ratio} × usual` : ""}
+    </span>
   );
 }
 
