@@ -1,5 +1,5 @@
 import crypto from "node:crypto";
-import { cachedFeed, feedFingerprint, feedRateLimited, REFRESH_SECONDS, userForToken } from "~/.server/services/feed";
+import { cachedFeed, feedFingerprint, feedRateLimited, noteFeedUse, REFRESH_SECONDS, userForToken } from "~/.server/services/feed";
 import { hashToken } from "~/.server/tokens";
 import type { Route } from "./+types/feed";
 
@@ -16,6 +16,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (feedRateLimited(hashToken(token))) {
     return new Response("Too many requests for this calendar link; try again in a few minutes.", { status: 429, headers: { "Retry-After": "600", "Content-Type": "text/plain; charset=utf-8" } });
   }
+  void noteFeedUse(hashToken(token));
   const fingerprint = await feedFingerprint(owner);
   const etag = `"${crypto.createHash("sha256").update(fingerprint).digest("base64url").slice(0, 32)}"`;
   const inm = request.headers.get("if-none-match");

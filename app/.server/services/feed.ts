@@ -1,5 +1,6 @@
 import crypto from "node:crypto";
 import { TZDate } from "@date-fns/tz";
+import { LRUCache } from "lru-cache";
 import ical, { ICalAlarmType, ICalCalendarMethod, ICalEventStatus } from "ical-generator";
 import { Op, QueryTypes } from "sequelize";
 import { tzlib_get_ical_block } from "timezones-ical-library";
@@ -51,9 +52,19 @@ export async function userForToken(token: string | undefined): Promise<User | nu
   if (!looksLikeToken(token)) return null;
   const row = await FeedToken.findOne({ where: { tokenHash: hashToken(token), revokedAt: null } });
   if (!row) return null;
-  // Recording use is best effort; a busy database must not fail the feed.
-  FeedToken.update({ lastUsedAt: new Date() }, { where: { id: row.id } }).catch(() => undefined);
   return User.findByPk(row.userId);
+}
+
+const USE_NOTE_MS = 60 * 60 * 1000;
+
+/**
+ * Records that a feed link is in use, at most once an hour: calendar apps poll every few minutes, and a write on
+ * every poll would cost more than answering it. Called only for requests the rate limit let through; best effort,
+ * so a busy database never fails the feed.
+ */
+export function noteFeedUse(tokenHash: string, now = new Date()) {
+  const stale = new Date(now.getTime() - USE_NOTE_MS);
+  return FeedToken.update({ lastUsedAt: now }, { where: { tokenHash, revokedAt: null, [Op.or]: [{ lastUsedAt: null }, { lastUsedAt: { [Op.lt]: stale } }] } }).catch(() => undefined);
 }
 
 export function feedUrls(token: string) {
@@ -230,7 +241,8 @@ function withTimezones(ics: string, zones: string[]) {
 
 declare global {
   var __pacewrightFeedHits: Map<string, number[]> | undefined;
-  var __pacewrightFeedCache: Map<number, { fingerprint: string; body: string; lastModified: Date }> | undefined;
+  var __pacewrightFeedCache: LRUCache<number, CachedFeed> | undefined;
+  var __pacewrightFeedBuilds: Map<string, Promise<CachedFeed>> | undefined;
 }
 
 /**
@@ -253,16 +265,39 @@ export async function feedFingerprint(owner: User, now = new Date()) {
   return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, row.m, row.q, row.u, bands].join("|");
 }
 
-/** The feed body for its fingerprint, rebuilt only when the fingerprint moved on. */
-export async function cachedFeed(owner: User, fingerprint: string) {
-  globalThis.__pacewrightFeedCache ??= new Map();
-  const hit = globalThis.__pacewrightFeedCache.get(owner.id);
+type CachedFeed = { fingerprint: string; body: string; lastModified: Date };
+
+/** Bodies kept across requests, bounded by their size in memory (UTF-16) rather than by a count of feeds. */
+const FEED_CACHE_BYTES = 64 * 1024 * 1024;
+
+function feedCache() {
+  globalThis.__pacewrightFeedCache ??= new LRUCache<number, CachedFeed>({ maxSize: FEED_CACHE_BYTES, sizeCalculation: (e) => e.body.length * 2 + 256 });
+  return globalThis.__pacewrightFeedCache;
+}
+
+/**
+ * The feed body for its fingerprint, rebuilt only when the fingerprint moved on, and by one request at a time: the
+ * calendar apps of a whole family polling at once after a plan change wait for the same rebuild.
+ */
+export async function cachedFeed(owner: User, fingerprint: string): Promise<CachedFeed> {
+  const cache = feedCache();
+  const hit = cache.get(owner.id);
   if (hit && hit.fingerprint === fingerprint) return hit;
-  const built = await buildFeed(owner);
-  const entry = { fingerprint, body: built.body, lastModified: built.lastModified };
-  if (globalThis.__pacewrightFeedCache.size > 500) globalThis.__pacewrightFeedCache.clear();
-  globalThis.__pacewrightFeedCache.set(owner.id, entry);
-  return entry;
+  globalThis.__pacewrightFeedBuilds ??= new Map();
+  const builds = globalThis.__pacewrightFeedBuilds;
+  const key = `${owner.id}|${fingerprint}`;
+  let pending = builds.get(key);
+  if (!pending) {
+    pending = buildFeed(owner)
+      .then((built) => {
+        const entry = { fingerprint, body: built.body, lastModified: built.lastModified };
+        cache.set(owner.id, entry);
+        return entry;
+      })
+      .finally(() => builds.delete(key));
+    builds.set(key, pending);
+  }
+  return pending;
 }
 
 export const FEED_RATE = { requests: 60, windowMs: 10 * 60 * 1000 };

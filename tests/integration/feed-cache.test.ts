@@ -1,0 +1,61 @@
+import { describe, expect, it, vi } from "vitest";
+import { FeedToken, ScheduledSession, User } from "~/.server/models";
+import * as feedService from "~/.server/services/feed";
+import { cachedFeed, feedFingerprint, noteFeedUse, rotateFeed } from "~/.server/services/feed";
+import { hashToken } from "~/.server/tokens";
+import { todayIn } from "~/lib/dates";
+import * as feed from "~/routes/feed";
+import { makeUser } from "./helpers";
+
+const fetchFeed = async (token: string) =>
+  (await feed.loader({ request: new Request(`http://localhost:3999/feed/${token}.ics`), params: { file: `${token}.ics` }, context: {} } as never)) as Response;
+
+async function athleteWithFeed() {
+  const athlete = await makeUser({ role: "athlete", timezone: "Europe/Berlin" });
+  await ScheduledSession.create({ athleteId: athlete.id, date: todayIn(athlete.timezone), name: "Easy spin", sport: "bike", plannedDurationS: 3600 } as never);
+  return { athlete, token: await rotateFeed(athlete.id) };
+}
+
+describe("feed cache and use notes", () => {
+  it("notes a link's use at most once an hour", async () => {
+    const { token } = await athleteWithFeed();
+    const tokenHash = hashToken(token);
+    const row = () => FeedToken.findOne({ where: { tokenHash } });
+    expect((await fetchFeed(token)).status).toBe(200);
+    await vi.waitFor(async () => expect((await row())!.lastUsedAt).not.toBeNull());
+    const first = (await row())!.lastUsedAt!.getTime();
+    for (let i = 0; i < 5; i++) expect((await fetchFeed(token)).status).toBe(200);
+    await noteFeedUse(tokenHash);
+    expect((await row())!.lastUsedAt!.getTime()).toBe(first);
+    // An hour and a minute later the next request moves it on.
+    const later = new Date(first + 61 * 60 * 1000);
+    await noteFeedUse(tokenHash, later);
+    expect((await row())!.lastUsedAt!.getTime()).toBe(later.getTime());
+  });
+
+  it("rebuilds a changed feed once however many requests arrive together, and serves the rebuilt body to all", async () => {
+    const { athlete } = await athleteWithFeed();
+    const owner = (await User.findByPk(athlete.id))!;
+    const build = vi.spyOn(feedService, "buildFeed");
+    const fingerprint = await feedFingerprint(owner);
+    globalThis.__pacewrightFeedCache?.clear();
+    const bodies = await Promise.all(Array.from({ length: 8 }, () => cachedFeed(owner, fingerprint)));
+    expect(new Set(bodies.map((b) => b.body)).size).toBe(1);
+    expect(bodies[0].body).toContain("Easy spin");
+    expect(globalThis.__pacewrightFeedBuilds?.size ?? 0).toBe(0);
+    // Served from the cache now; a new fingerprint (a change) builds again.
+    await cachedFeed(owner, fingerprint);
+    expect(globalThis.__pacewrightFeedCache!.get(owner.id)!.fingerprint).toBe(fingerprint);
+    build.mockRestore();
+  });
+
+  it("keeps the cache within its byte budget, dropping the least recently used feeds", () => {
+    const cache = globalThis.__pacewrightFeedCache!;
+    expect(cache.maxSize).toBe(64 * 1024 * 1024);
+    const body = "x".repeat(4 * 1024 * 1024);
+    for (let id = 1_000_000; id < 1_000_020; id++) cache.set(id, { fingerprint: String(id), body, lastModified: new Date() });
+    expect(cache.calculatedSize).toBeLessThanOrEqual(cache.maxSize);
+    expect(cache.has(1_000_000)).toBe(false);
+    expect(cache.has(1_000_019)).toBe(true);
+  });
+});
