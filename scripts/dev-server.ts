@@ -1,7 +1,7 @@
 import { createRequestHandler } from "@react-router/express";
 import express from "express";
 import type { ServerBuild } from "react-router";
-import { crossSiteGuard } from "./server";
+import { crossSiteGuard, getLoadContext } from "./server";
 
 /** Vite in middleware mode with hot reload, in the same process as the fakes so the dev outbox sees caught mail. */
 export async function createDevServer() {
@@ -13,6 +13,7 @@ export async function createDevServer() {
     "*",
     createRequestHandler({
       build: () => vite.ssrLoadModule("virtual:react-router/server-build") as Promise<ServerBuild>,
+      getLoadContext,
     }),
   );
   return app;

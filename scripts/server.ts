@@ -23,7 +23,7 @@ export async function createAppServer(buildDir = path.resolve("build")) {
   });
   app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
   app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
-  app.all("*", createRequestHandler({ build }));
+  app.all("*", createRequestHandler({ build, getLoadContext }));
   return app;
 }
 
@@ -34,3 +34,8 @@ export const crossSiteGuard: RequestHandler = (req, res, next) => {
   }
   next();
 };
+
+/** What every loader and action gets besides the request: the client's address (for per-client limits). */
+export function getLoadContext(req: express.Request, res: express.Response) {
+  return { clientAddress: req.ip ?? req.socket.remoteAddress ?? undefined, cspNonce: res.locals.cspNonce as string | undefined };
+}

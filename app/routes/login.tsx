@@ -2,7 +2,8 @@ import { data, Form, Link, redirect, useNavigation, useSearchParams } from "reac
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { authenticator, getUser, homeFor, SignInError, startSession } from "~/.server/auth";
+import { authenticator, getUser, guardSignIn, homeFor, SignInError, startSession } from "~/.server/auth";
+import { clientKey, RateLimited } from "~/.server/security/rate-limits";
 import { safeRedirect } from "~/.server/http";
 import type { Route } from "./+types/login";
 
@@ -14,17 +15,19 @@ export async function loader({ request }: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const form = await request.clone().formData();
   const email = String(form.get("email") ?? "");
   try {
+    const guard = await guardSignIn(email, clientKey(context));
     const user = await authenticator.authenticate("password", request);
+    await guard.succeeded();
     const cookie = await startSession(user, request);
     const to = safeRedirect(form.get("redirectTo"), homeFor(user.role));
     return redirect(to, { headers: { "Set-Cookie": cookie } });
   } catch (err) {
     if (err instanceof SignInError) return data({ error: err.message, email }, { status: 400 });
-    if (err instanceof Response && err.status === 429) return data({ error: await err.text(), email }, { status: 429 });
+    if (err instanceof RateLimited) return data({ error: err.message, email }, { status: 429, headers: { "Retry-After": String(err.retryAfterS) } });
     throw err;
   }
 }

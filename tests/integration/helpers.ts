@@ -37,10 +37,14 @@ export function getRequest(path: string, cookie?: string) {
   return new Request(BASE + path, { headers: cookie ? { Cookie: cookie } : {} });
 }
 
+let clients = 0;
+/** A load context as scripts/server.ts builds it; each call is a new client unless one is given. */
+export const clientContext = (clientAddress = `198.51.100.${++clients % 250}-${clients}`) => ({ clientAddress });
+
 /** Route functions are called the way React Router calls them; thrown Responses are returned for inspection. */
-export async function run<T>(fn: (args: any) => Promise<T>, request: Request, params: Record<string, string> = {}) {
+export async function run<T>(fn: (args: any) => Promise<T>, request: Request, params: Record<string, string> = {}, context: Record<string, unknown> = clientContext()) {
   try {
-    return await fn({ request, params, context: {} });
+    return await fn({ request, params, context });
   } catch (err) {
     if (err instanceof Response) return err;
     throw err;

@@ -48,17 +48,3 @@ PasswordReset.init(
   },
   { sequelize: db(), tableName: "password_resets" },
 );
-
-export class LoginFailure extends Model<InferAttributes<LoginFailure>, InferCreationAttributes<LoginFailure>> {
-  declare id: CreationOptional<number>;
-  declare email: string;
-  declare createdAt: CreationOptional<Date>;
-}
-LoginFailure.init(
-  {
-    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    email: { type: DataTypes.STRING, allowNull: false },
-    createdAt: DataTypes.DATE,
-  },
-  { sequelize: db(), tableName: "login_failures", updatedAt: false },
-);
