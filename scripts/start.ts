@@ -1,5 +1,6 @@
 import type { Server } from "node:http";
 import { closeDb } from "../app/.server/db";
+import { closeActivityPool } from "../app/.server/services/activity-pool";
 import { env } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
 import { startMailer } from "../app/.server/mail";
@@ -44,6 +45,7 @@ async function main() {
   const stop = async () => {
     server.close();
     await fakes.close();
+    await closeActivityPool();
     await closeDb();
     process.exit(0);
   };
