@@ -11,11 +11,15 @@ import { buildIfNeeded } from "./build-if-needed";
 
 const dev = process.argv.includes("--dev");
 process.env.NODE_ENV ??= dev ? "development" : "production";
+// `npm start` is the local demo: it turns the fakes on explicitly. `npm run serve` leaves them off.
+if (process.argv.includes("--demo")) process.env.PACEWRIGHT_FAKES ??= "on";
 process.env.MIGRATE_QUIET ??= "1";
 
 async function main() {
   const e = env();
-  await migrateAndSeed({ seed: process.env.PACEWRIGHT_SEED !== "off" });
+  // Demo accounts share a published password: they are seeded only where the demo doors are open.
+  const seed = process.env.PACEWRIGHT_SEED ? process.env.PACEWRIGHT_SEED !== "off" : e.fakes;
+  await migrateAndSeed({ seed });
   const fakes = await startFakes();
   startMailer();
   startRetestReminders();
@@ -36,8 +40,9 @@ async function main() {
   });
 
   console.log(`\nPacewright is running at ${e.appUrl}`);
-  if (fakes.smtpPort) console.log(`  Mail goes to the local catcher: ${e.appUrl}/dev/mail`);
-  if (process.env.PACEWRIGHT_SEED !== "off") {
+  if (fakes.smtpPort) console.log(`  Mail goes to the local catcher: ${e.appUrl}/dev/mail${e.demoInProduction ? " (sign in as an admin to read it)" : ""}`);
+  if (!e.fakes) console.log("  Demo fakes are off (set PACEWRIGHT_FAKES=on for the local demo).");
+  if (seed) {
     console.log("  Demo sign-ins (password for all: " + DEMO_ACCOUNTS.password + "):");
     for (const a of DEMO_ACCOUNTS.people) console.log(`    ${a.role.padEnd(8)} ${a.email.padEnd(30)} ${a.name}`);
   }

@@ -6,7 +6,7 @@ import type { Route } from "./+types/app-layout";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { user: { name: user.name, role: user.role, email: user.email }, devMail: env().fakes };
+  return { user: { name: user.name, role: user.role, email: user.email }, devMail: env().fakes && (!env().demoInProduction || user.role === "admin") };
 }
 
 export default function AppLayout({ loaderData }: Route.ComponentProps) {
