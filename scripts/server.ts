@@ -3,6 +3,7 @@ import { pathToFileURL } from "node:url";
 import { createRequestHandler } from "@react-router/express";
 import express, { type RequestHandler } from "express";
 import type { ServerBuild } from "react-router";
+import { env } from "../app/.server/env";
 import { isCrossSiteWrite } from "../app/.server/http";
 
 /**
@@ -28,7 +29,14 @@ export async function createAppServer(buildDir = path.resolve("build")) {
 }
 
 export const crossSiteGuard: RequestHandler = (req, res, next) => {
-  if (isCrossSiteWrite(req.method, { origin: req.get("origin"), referer: req.get("referer"), host: req.get("host") }, req.path)) {
+  const headers = {
+    origin: req.get("origin"),
+    referer: req.get("referer"),
+    host: req.get("host"),
+    secFetchSite: req.get("sec-fetch-site"),
+    hasSessionCookie: /(?:^|;\s*)pw_session=/.test(req.get("cookie") ?? ""),
+  };
+  if (isCrossSiteWrite(req.method, headers, req.path, [new URL(env().appUrl).origin])) {
     res.status(403).type("text/plain").send("Refused: this request came from another site.");
     return;
   }

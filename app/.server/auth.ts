@@ -4,7 +4,7 @@ import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { z } from "zod";
 import { env } from "./env";
-import { forbidden } from "./http";
+import { forbidden, requireSameOrigin } from "./http";
 import { AuthSession, User, type Role } from "./models";
 import { clear, consume, giveBack } from "./security/rate-limits";
 import { hashToken, newToken } from "./tokens";
@@ -93,7 +93,10 @@ export async function startSession(user: User, request: Request): Promise<string
 
 async function sessionIdFrom(request: Request): Promise<string | null> {
   const value = await sessionCookie.parse(request.headers.get("cookie"));
-  return typeof value === "string" && value.length > 0 ? value : null;
+  const id = typeof value === "string" && value.length > 0 ? value : null;
+  // Every use of the session cookie goes through here, so no write that relies on it can skip the origin check.
+  if (id) requireSameOrigin(request, env().appUrl);
+  return id;
 }
 
 export async function getUser(request: Request): Promise<User | null> {
