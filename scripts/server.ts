@@ -5,6 +5,7 @@ import express, { type RequestHandler } from "express";
 import type { ServerBuild } from "react-router";
 import { env } from "../app/.server/env";
 import { isCrossSiteWrite } from "../app/.server/http";
+import { securityHeaders } from "../app/.server/security/headers";
 
 /**
  * The production HTTP server: static assets from the client build, everything else through React Router.
@@ -15,13 +16,9 @@ export async function createAppServer(buildDir = path.resolve("build")) {
   const app = express();
   app.disable("x-powered-by");
   app.set("trust proxy", "loopback");
+  // Headers first, so refusals and errors carry them too.
+  app.use(securityHeaders({ appUrl: env().appUrl }));
   app.use(crossSiteGuard);
-  app.use((_req, res, next) => {
-    res.setHeader("X-Content-Type-Options", "nosniff");
-    res.setHeader("Referrer-Policy", "same-origin");
-    res.setHeader("X-Frame-Options", "DENY");
-    next();
-  });
   app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
   app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
   app.all("*", createRequestHandler({ build, getLoadContext }));

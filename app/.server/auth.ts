@@ -18,13 +18,16 @@ export const sessionCookie = createCookie("pw_session", {
   sameSite: "lax",
   path: "/",
   maxAge: SESSION_DAYS * 24 * 3600,
-  get secure() {
-    return env().isProduction;
-  },
   get secrets() {
     return [env().sessionSecret];
   },
 });
+
+/**
+ * Secure whenever the public URL is https (production and any https demo); decided per response because
+ * createCookie reads its options once, when the module loads.
+ */
+export const secureCookies = () => env().appUrl.startsWith("https://");
 
 export function hashPassword(password: string) {
   return bcrypt.hash(password, BCRYPT_COST);
@@ -88,7 +91,7 @@ export async function startSession(user: User, request: Request): Promise<string
     expiresAt: new Date(Date.now() + SESSION_DAYS * 24 * 3600 * 1000),
     userAgent: request.headers.get("user-agent")?.slice(0, 255) ?? null,
   });
-  return sessionCookie.serialize(id);
+  return sessionCookie.serialize(id, { secure: secureCookies() });
 }
 
 async function sessionIdFrom(request: Request): Promise<string | null> {
@@ -128,7 +131,7 @@ export async function requireRole(request: Request, role: Role | Role[]): Promis
 export async function endSession(request: Request): Promise<string> {
   const id = await sessionIdFrom(request);
   if (id) await AuthSession.destroy({ where: { id: hashToken(id) } });
-  return sessionCookie.serialize("", { maxAge: 0 });
+  return sessionCookie.serialize("", { maxAge: 0, secure: secureCookies() });
 }
 
 export function homeFor(role: Role): string {

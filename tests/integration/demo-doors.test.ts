@@ -74,3 +74,21 @@ describe("demo doors", () => {
     expect(env().fakes).toBe(false);
   });
 });
+
+describe("session cookie", () => {
+  it("is Secure whenever the public URL is https, also with the demo switch on, and not on a plain-http local run", async () => {
+    const user = await makeUser();
+    const { action } = await import("~/routes/login");
+    const { formRequest } = await import("./helpers");
+    const setCookie = async () => ((await run(action, formRequest("/login", { email: user.email, password: "correct-horse-battery" }))) as Response).headers.get("set-cookie") ?? "";
+    configure({ ...production, APP_URL: "https://pacewright.example", PACEWRIGHT_FAKES: "on" });
+    expect(await setCookie()).toMatch(/;\s*Secure/i);
+    configure({ ...production, APP_URL: "https://pacewright.example" });
+    const prod = await setCookie();
+    expect(prod).toMatch(/;\s*Secure/i);
+    expect(prod).toMatch(/HttpOnly/i);
+    expect(prod).toMatch(/SameSite=Lax/i);
+    configure({ APP_URL: "http://localhost:3999" });
+    expect(await setCookie()).not.toMatch(/Secure/i);
+  });
+});
