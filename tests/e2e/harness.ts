@@ -126,7 +126,7 @@ export async function shot(page: Page, name: string) {
 /**
  * Opens the newest message to `to` in the dev outbox (the mail sender runs in the background) and returns its link.
  * The app runs as a production build with the demo switch on, where the outbox is for admins: it is read in a
- * separate browser context signed in as the demo admin, so `page` keeps its own session.
+ * separate browser context signed in as the demo admin, so `page` keeps its own session (cookies are untouched).
  */
 export async function linkFromOutbox(page: Page, baseUrl: string, to: string, pathPart: string): Promise<string> {
   const context = await page.context().browser()!.newContext();
@@ -139,7 +139,12 @@ export async function linkFromOutbox(page: Page, baseUrl: string, to: string, pa
     for (;;) {
       await admin.goto(`${baseUrl}/dev/mail?to=${encodeURIComponent(to)}`);
       const link = admin.locator(`[data-testid=caught-mail] a[href*="${pathPart}"]`).first();
-      if ((await link.count()) > 0) return (await link.getAttribute("href"))!;
+      if ((await link.count()) > 0) {
+        const href = (await link.getAttribute("href"))!;
+        // `page` shows what the admin saw (a static copy), so a test can go on to read the message there.
+        await page.setContent(await admin.content());
+        return href;
+      }
       if (Date.now() > deadline) throw new Error(`no mail with ${pathPart} reached ${to}`);
       await admin.waitForTimeout(500);
     }
