@@ -4,6 +4,7 @@ export default [
   index("routes/home.tsx"),
   route("signup", "routes/signup.tsx"),
   route("login", "routes/login.tsx"),
+  route("login/two-step", "routes/login-two-step.tsx"),
   route("logout", "routes/logout.tsx"),
   route("forgot-password", "routes/forgot-password.tsx"),
   route("reset-password/:token", "routes/reset-password.tsx"),
@@ -50,5 +51,6 @@ export default [
     route("coach/feed", "routes/athlete/feed.tsx", { id: "coach-feed" }),
     route("coach/shop", "routes/coach/shop.tsx"),
     route("admin/users", "routes/admin/users.tsx"),
+    route("account/security", "routes/account/security.tsx"),
   ]),
 ] satisfies RouteConfig;

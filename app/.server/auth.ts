@@ -3,6 +3,7 @@ import { createCookie, redirect } from "react-router";
 import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { z } from "zod";
+import { writeTransaction } from "./db";
 import { env } from "./env";
 import { forbidden, requireSameOrigin } from "./http";
 import { AuthSession, User, type Role } from "./models";
@@ -102,12 +103,24 @@ async function sessionIdFrom(request: Request): Promise<string | null> {
   return id;
 }
 
+const SEEN_EVERY_MS = 5 * 60 * 1000;
+
 export async function getUser(request: Request): Promise<User | null> {
   const id = await sessionIdFrom(request);
   if (!id) return null;
   const row = await AuthSession.findByPk(hashToken(id));
   if (!row || row.expiresAt.getTime() <= Date.now()) return null;
+  // For the devices list; written at most every few minutes so reads stay reads.
+  if (!row.lastSeenAt || Date.now() - row.lastSeenAt.getTime() > SEEN_EVERY_MS) {
+    await writeTransaction((transaction) => AuthSession.update({ lastSeenAt: new Date() }, { where: { id: row.id }, transaction }));
+  }
   return User.findByPk(row.userId);
+}
+
+/** The stored id (hash) of the session this request rides on, to tell "this device" apart. */
+export async function currentSessionKey(request: Request): Promise<string | null> {
+  const id = await sessionIdFrom(request);
+  return id ? hashToken(id) : null;
 }
 
 export async function requireUser(request: Request): Promise<User> {

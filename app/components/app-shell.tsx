@@ -60,9 +60,9 @@ export function AppShell({
             )}
           </nav>
           <div className="ml-auto flex items-center gap-3 text-sm sm:ml-0">
-            <span className="hidden text-ink-soft sm:inline">
+            <NavLink to="/account/security" className="hidden text-ink-soft hover:text-teal hover:underline sm:inline" title="Sign-in and devices">
               {user.name} · <span className="capitalize">{user.role}</span>
-            </span>
+            </NavLink>
             <Form method="post" action="/logout">
               <button type="submit" className="rounded-md border border-line px-3 py-1.5 hover:bg-paper-deep">
                 Sign out

@@ -4,6 +4,7 @@ import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
 import { authenticator, getUser, guardSignIn, homeFor, SignInError, startSession } from "~/.server/auth";
 import { clientKey, RateLimited } from "~/.server/security/rate-limits";
+import { pendingCookieFor, twoStepOn } from "~/.server/services/two-step";
 import { safeRedirect } from "~/.server/http";
 import type { Route } from "./+types/login";
 
@@ -22,8 +23,10 @@ export async function action({ request, context }: Route.ActionArgs) {
     const guard = await guardSignIn(email, clientKey(context));
     const user = await authenticator.authenticate("password", request);
     await guard.succeeded();
-    const cookie = await startSession(user, request);
     const to = safeRedirect(form.get("redirectTo"), homeFor(user.role));
+    // With two-step sign-in on, the password alone opens no session: the code page does.
+    if (twoStepOn(user)) return redirect("/login/two-step", { headers: { "Set-Cookie": await pendingCookieFor(user, to) } });
+    const cookie = await startSession(user, request);
     return redirect(to, { headers: { "Set-Cookie": cookie } });
   } catch (err) {
     if (err instanceof SignInError) return data({ error: err.message, email }, { status: 400 });

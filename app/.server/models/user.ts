@@ -24,6 +24,9 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare restingHr: CreationOptional<number | null>;
   declare maxHr: CreationOptional<number | null>;
   declare feedAlarmMinutes: CreationOptional<number | null>;
+  declare totpSecret: CreationOptional<string | null>;
+  declare totpEnabledAt: CreationOptional<Date | null>;
+  declare totpLastStep: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -49,6 +52,9 @@ User.init(
     restingHr: { type: DataTypes.INTEGER, allowNull: true },
     maxHr: { type: DataTypes.INTEGER, allowNull: true },
     feedAlarmMinutes: { type: DataTypes.INTEGER, allowNull: true },
+    totpSecret: { type: DataTypes.STRING(64), allowNull: true },
+    totpEnabledAt: { type: DataTypes.DATE, allowNull: true },
+    totpLastStep: { type: DataTypes.INTEGER, allowNull: true },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },
