@@ -76,3 +76,45 @@ run("security headers and content security policy", () => {
     await page.close();
   });
 });
+
+run("two-step sign-in and devices in the browser", () => {
+  const ctx = useApp({ beforeAll, afterAll });
+
+  it("a coach sets up two-step sign-in from the QR page, signs in with a code, and sees this device", async () => {
+    const { totp } = await import("../../app/.server/security/totp");
+    const coach = DEMO_ACCOUNTS.people.find((p) => p.role === "coach")!;
+    for (const [name, viewport] of [["desktop", { width: 1280, height: 900 }], ["phone", { width: 390, height: 844 }]] as const) {
+      const context = await ctx.browser.newContext({ viewport });
+      const page = await context.newPage();
+      await signInAs(page, ctx.app.baseUrl, coach.email, DEMO_ACCOUNTS.password);
+      if (name === "phone") {
+        await page.waitForURL(/\/login\/two-step/);
+        await ready(page);
+        await page.getByLabel("Code").fill(totp(secret).generate());
+        await page.getByRole("button", { name: "Continue" }).click();
+      }
+      await page.waitForURL(/\/coach/);
+      await page.goto(`${ctx.app.baseUrl}/account/security`);
+      await ready(page);
+      if (name === "desktop") {
+        await page.getByRole("button", { name: "Set up two-step sign-in" }).click();
+        await page.getByRole("img", { name: /QR code to add Pacewright/ }).waitFor();
+        secret = (await page.getByTestId("totp-secret").textContent())!.trim();
+        await shot(page, "two-step-enrol-desktop");
+        await page.getByLabel("Code the app shows").fill(totp(secret).generate({ timestamp: Date.now() - 30_000 }));
+        await page.getByRole("button", { name: "Turn on" }).click();
+        await page.getByTestId("recovery-codes").waitFor();
+        expect(await page.getByTestId("recovery-codes").locator("li").count()).toBe(10);
+        await shot(page, "two-step-recovery-codes-desktop");
+      } else {
+        await page.getByText("this device").waitFor();
+        expect(await page.getByTestId("devices").locator("li").count()).toBeGreaterThanOrEqual(2);
+        await page.getByRole("button", { name: "Sign out everywhere else" }).click();
+        await page.getByText(/Signed out \d+ other device/).waitFor();
+        await shot(page, "devices-phone");
+      }
+      await context.close();
+    }
+  });
+});
+let secret = "";
