@@ -52,6 +52,8 @@ function pool() {
     maxThreads: ACTIVITY_LIMITS.threads,
     maxQueue: ACTIVITY_LIMITS.queue,
     concurrentTasksPerWorker: 1,
+    // Parsing yields the CPU to the request thread when both want it (Unix thread priority).
+    niceIncrement: 10,
     // Idle workers exit, so the memory a big file took is handed back instead of kept by a parked thread.
     idleTimeout: 2_000,
     // A file that balloons in memory kills its worker, not the server.
