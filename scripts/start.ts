@@ -1,7 +1,7 @@
 import type { Server } from "node:http";
 import { closeDb } from "../app/.server/db";
 import { closeActivityPool } from "../app/.server/services/activity-pool";
-import { env } from "../app/.server/env";
+import { env, resetEnvCache } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
 import { startMailer } from "../app/.server/mail";
 import { startRetestReminders } from "../app/.server/services/retests";
@@ -16,6 +16,8 @@ if (process.argv.includes("--demo")) process.env.PACEWRIGHT_FAKES ??= "on";
 process.env.MIGRATE_QUIET ??= "1";
 
 async function main() {
+  // Some imports read the environment while loading, before the lines above ran: read it again now.
+  resetEnvCache();
   const e = env();
   // Demo accounts share a published password: they are seeded only where the demo doors are open.
   const seed = process.env.PACEWRIGHT_SEED ? process.env.PACEWRIGHT_SEED !== "off" : e.fakes;
