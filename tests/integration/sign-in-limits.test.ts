@@ -5,6 +5,8 @@ import { LIMITS, used } from "~/.server/security/rate-limits";
 import * as login from "~/routes/login";
 import * as signup from "~/routes/signup";
 import * as forgot from "~/routes/forgot-password";
+import * as invite from "~/routes/invite";
+import * as reset from "~/routes/reset-password";
 import { clientContext, formRequest, makeUser, run, statusOf, uniqueEmail } from "./helpers";
 
 afterEach(() => vi.restoreAllMocks());
@@ -91,5 +93,23 @@ describe("sign-up and reset limits", () => {
       expect(statuses.at(-1)).toBe(429);
       expect(statuses.slice(0, -1).every((s) => s === 200)).toBe(true);
     }
+  });
+
+  it("limits attempts per invitation token, from any client, and token submissions per client", async () => {
+    const token = "y".repeat(43);
+    const statuses: number[] = [];
+    for (let i = 0; i < LIMITS.inviteToken.points + 1; i++) {
+      statuses.push(statusOf(await run(invite.action, formRequest(`/invite/${token}`, { name: "N", password: "a-long-enough-pass", timezone: "UTC" }), { token })));
+    }
+    expect(statuses.slice(0, -1).every((s) => s === 400)).toBe(true);
+    expect(statuses.at(-1)).toBe(429);
+    const client = clientContext("203.0.113.30");
+    const resets: number[] = [];
+    for (let i = 0; i < LIMITS.tokenClient.points + 1; i++) {
+      const t = `${i}`.padStart(43, "z");
+      resets.push(statusOf(await run(reset.action, formRequest(`/reset-password/${t}`, { password: "brand-new-password", confirm: "brand-new-password" }), { token: t }, client)));
+    }
+    expect(resets.at(-1)).toBe(429);
+    expect(resets.slice(0, -1).every((s) => s === 400)).toBe(true);
   });
 });
