@@ -1,6 +1,7 @@
 import type { Server } from "node:http";
 import { closeDb } from "../app/.server/db";
 import { closeActivityPool } from "../app/.server/services/activity-pool";
+import { startLimitCleanup } from "../app/.server/security/rate-limits";
 import { env, resetEnvCache } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
 import { startMailer } from "../app/.server/mail";
@@ -25,6 +26,7 @@ async function main() {
   const fakes = await startFakes();
   startMailer();
   startRetestReminders();
+  startLimitCleanup();
 
   let server: Server;
   const host = process.env.HOST ?? "127.0.0.1";

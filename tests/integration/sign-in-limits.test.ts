@@ -1,7 +1,8 @@
 import bcrypt from "bcryptjs";
 import { afterEach, describe, expect, it, vi } from "vitest";
 import { BCRYPT_COST } from "~/.server/auth";
-import { LIMITS, used } from "~/.server/security/rate-limits";
+import { db } from "~/.server/db";
+import { clearExpiredLimits, LIMITS, used } from "~/.server/security/rate-limits";
 import * as login from "~/routes/login";
 import * as signup from "~/routes/signup";
 import * as forgot from "~/routes/forgot-password";
@@ -111,5 +112,18 @@ describe("sign-up and reset limits", () => {
     }
     expect(resets.at(-1)).toBe(429);
     expect(resets.slice(0, -1).every((s) => s === 400)).toBe(true);
+  });
+
+  it("clears counters whose window has ended", async () => {
+    const live = uniqueEmail("live");
+    const old = uniqueEmail("old");
+    await attempt(live, "wrong-password-1");
+    await attempt(old, "wrong-password-1");
+    expect(await used("signInAddress", old)).toBe(1);
+    const rows = async () => Number(((await db().query("SELECT COUNT(*) AS n FROM rate_limits", { plain: true })) as { n: number }).n);
+    const before = await rows();
+    await clearExpiredLimits(Date.now() + LIMITS.signInAddress.duration * 1000 + 1000);
+    expect(await rows()).toBeLessThan(before);
+    expect(await used("signInAddress", live)).toBe(0);
   });
 });

@@ -181,3 +181,14 @@ export function clientKey(context: AppLoadContext | undefined | null): string {
   const address = (context as { clientAddress?: unknown } | undefined)?.clientAddress;
   return typeof address === "string" && address ? address : "unknown-client";
 }
+
+/** Deletes counters whose window ended; the server runs it hourly so the table holds only live windows. */
+export async function clearExpiredLimits(now = Date.now()) {
+  await writeTransaction((transaction) => db().query("DELETE FROM rate_limits WHERE expire IS NOT NULL AND expire < :now", { replacements: { now }, transaction }));
+}
+
+export function startLimitCleanup() {
+  const timer = setInterval(() => void clearExpiredLimits().catch((err) => console.error("[limits] cleanup failed", err)), 3600_000);
+  timer.unref();
+  return () => clearInterval(timer);
+}
