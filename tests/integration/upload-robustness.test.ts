@@ -124,7 +124,10 @@ describe("uploads cannot stall the server", () => {
       expect(csv.length).toBeGreaterThan(16_000_000);
       return pollWhile(upload(cookie, "wide.csv", csv));
     })();
-    expect(Math.max(...times)).toBeLessThan(250);
+    // This parse keeps a worker busy for seconds, so a loaded test machine (other test files, other work) shows up
+    // in the polls: the bound is wider than the 250 ms of the test above, and still far under the seconds-long
+    // stalls of a parse on the request thread.
+    expect(Math.max(...times)).toBeLessThan(500);
     // The engine's own 24-hour rule answers this one, after a full parse on the worker.
     expect(result.status).toBe(400);
     expect((await result.json()).error).toMatch(/longer than 24 hours/);
