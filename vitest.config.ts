@@ -25,6 +25,21 @@ export default defineConfig({
       {
         extends: true,
         test: {
+          // Timing bounds (a server that stays responsive while a heavy file is parsed) are measured alone, after
+          // the integration files, so other test files' CPU does not land in the figures.
+          name: "robustness",
+          include: ["tests/robustness/**/*.test.ts"],
+          environment: "node",
+          setupFiles: ["tests/integration/setup.ts"],
+          pool: "forks",
+          fileParallelism: false,
+          testTimeout: 120_000,
+          hookTimeout: 60_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
           name: "e2e",
           include: ["tests/e2e/**/*.test.ts"],
           environment: "node",

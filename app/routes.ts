@@ -4,6 +4,7 @@ export default [
   index("routes/home.tsx"),
   route("signup", "routes/signup.tsx"),
   route("login", "routes/login.tsx"),
+  route("login/two-step", "routes/login-two-step.tsx"),
   route("logout", "routes/logout.tsx"),
   route("forgot-password", "routes/forgot-password.tsx"),
   route("reset-password/:token", "routes/reset-password.tsx"),
@@ -59,5 +60,6 @@ export default [
     route("coach/*", "routes/not-found.tsx", { id: "coach-not-found" }),
     route("athlete/*", "routes/not-found.tsx", { id: "athlete-not-found" }),
     route("admin/*", "routes/not-found.tsx", { id: "admin-not-found" }),
+    route("account/security", "routes/account/security.tsx"),
   ]),
 ] satisfies RouteConfig;

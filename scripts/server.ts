@@ -4,7 +4,9 @@ import { createRequestHandler } from "@react-router/express";
 import compression from "compression";
 import express, { type RequestHandler } from "express";
 import type { ServerBuild } from "react-router";
+import { env } from "../app/.server/env";
 import { isCrossSiteWrite } from "../app/.server/http";
+import { securityHeaders } from "../app/.server/security/headers";
 
 /**
  * The production HTTP server: static assets from the client build, everything else through React Router.
@@ -15,25 +17,33 @@ export async function createAppServer(buildDir = path.resolve("build")) {
   const app = express();
   app.disable("x-powered-by");
   app.set("trust proxy", "loopback");
+  // Headers first, so refusals and errors carry them too.
+  app.use(securityHeaders({ appUrl: env().appUrl }));
   app.use(crossSiteGuard);
-  app.use((_req, res, next) => {
-    res.setHeader("X-Content-Type-Options", "nosniff");
-    res.setHeader("Referrer-Policy", "same-origin");
-    res.setHeader("X-Frame-Options", "DENY");
-    next();
-  });
   // gzip or brotli, whichever the client prefers, for HTML, JSON, the feed, JS and CSS alike.
   app.use(compression({ threshold: 1024 }));
   app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
   app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
-  app.all("*", createRequestHandler({ build }));
+  app.all("*", createRequestHandler({ build, getLoadContext }));
   return app;
 }
 
 export const crossSiteGuard: RequestHandler = (req, res, next) => {
-  if (isCrossSiteWrite(req.method, { origin: req.get("origin"), referer: req.get("referer"), host: req.get("host") }, req.path)) {
+  const headers = {
+    origin: req.get("origin"),
+    referer: req.get("referer"),
+    host: req.get("host"),
+    secFetchSite: req.get("sec-fetch-site"),
+    hasSessionCookie: /(?:^|;\s*)pw_session=/.test(req.get("cookie") ?? ""),
+  };
+  if (isCrossSiteWrite(req.method, headers, req.path, [new URL(env().appUrl).origin])) {
     res.status(403).type("text/plain").send("Refused: this request came from another site.");
     return;
   }
   next();
 };
+
+/** What every loader and action gets besides the request: the client's address (for per-client limits). */
+export function getLoadContext(req: express.Request, res: express.Response) {
+  return { clientAddress: req.ip ?? req.socket.remoteAddress ?? undefined, cspNonce: res.locals.cspNonce as string | undefined };
+}

@@ -1,6 +1,8 @@
 import type { Server } from "node:http";
 import { closeDb } from "../app/.server/db";
-import { env } from "../app/.server/env";
+import { closeActivityPool } from "../app/.server/services/activity-pool";
+import { startLimitCleanup } from "../app/.server/security/rate-limits";
+import { env, resetEnvCache } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
 import { startMailer } from "../app/.server/mail";
 import { startRetestReminders } from "../app/.server/services/retests";
@@ -10,14 +12,21 @@ import { buildIfNeeded } from "./build-if-needed";
 
 const dev = process.argv.includes("--dev");
 process.env.NODE_ENV ??= dev ? "development" : "production";
+// `npm start` is the local demo: it turns the fakes on explicitly. `npm run serve` leaves them off.
+if (process.argv.includes("--demo")) process.env.PACEWRIGHT_FAKES ??= "on";
 process.env.MIGRATE_QUIET ??= "1";
 
 async function main() {
+  // Some imports read the environment while loading, before the lines above ran: read it again now.
+  resetEnvCache();
   const e = env();
-  await migrateAndSeed({ seed: process.env.PACEWRIGHT_SEED !== "off" });
+  // Demo accounts share a published password: they are seeded only where the demo doors are open.
+  const seed = process.env.PACEWRIGHT_SEED ? process.env.PACEWRIGHT_SEED !== "off" : e.fakes;
+  await migrateAndSeed({ seed });
   const fakes = await startFakes();
   startMailer();
   startRetestReminders();
+  startLimitCleanup();
 
   let server: Server;
   const host = process.env.HOST ?? "127.0.0.1";
@@ -35,8 +44,9 @@ async function main() {
   });
 
   console.log(`\nPacewright is running at ${e.appUrl}`);
-  if (fakes.smtpPort) console.log(`  Mail goes to the local catcher: ${e.appUrl}/dev/mail`);
-  if (process.env.PACEWRIGHT_SEED !== "off") {
+  if (fakes.smtpPort) console.log(`  Mail goes to the local catcher: ${e.appUrl}/dev/mail${e.demoInProduction ? " (sign in as an admin to read it)" : ""}`);
+  if (!e.fakes) console.log("  Demo fakes are off (set PACEWRIGHT_FAKES=on for the local demo).");
+  if (seed) {
     console.log("  Demo sign-ins (password for all: " + DEMO_ACCOUNTS.password + "):");
     for (const a of DEMO_ACCOUNTS.people) console.log(`    ${a.role.padEnd(8)} ${a.email.padEnd(30)} ${a.name}`);
   }
@@ -44,6 +54,7 @@ async function main() {
   const stop = async () => {
     server.close();
     await fakes.close();
+    await closeActivityPool();
     await closeDb();
     process.exit(0);
   };

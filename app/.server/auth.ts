@@ -1,18 +1,17 @@
 import bcrypt from "bcryptjs";
-import { Op } from "sequelize";
 import { createCookie, redirect } from "react-router";
 import { Authenticator } from "remix-auth";
 import { FormStrategy } from "remix-auth-form";
 import { z } from "zod";
+import { writeTransaction } from "./db";
 import { env } from "./env";
-import { forbidden, httpError } from "./http";
-import { AuthSession, LoginFailure, User, type Role } from "./models";
+import { forbidden, requireSameOrigin } from "./http";
+import { AuthSession, User, type Role } from "./models";
+import { clear, consume, giveBack } from "./security/rate-limits";
 import { hashToken, newToken } from "./tokens";
 
 export const BCRYPT_COST = 11;
 const SESSION_DAYS = 30;
-const FAILURE_WINDOW_MS = 15 * 60 * 1000;
-const MAX_FAILURES = 10;
 export const WRONG_CREDENTIALS = "That e-mail and password do not match an account.";
 
 export const sessionCookie = createCookie("pw_session", {
@@ -20,13 +19,16 @@ export const sessionCookie = createCookie("pw_session", {
   sameSite: "lax",
   path: "/",
   maxAge: SESSION_DAYS * 24 * 3600,
-  get secure() {
-    return env().isProduction;
-  },
   get secrets() {
     return [env().sessionSecret];
   },
 });
+
+/**
+ * Secure whenever the public URL is https (production and any https demo); decided per response because
+ * createCookie reads its options once, when the module loads.
+ */
+export const secureCookies = () => env().appUrl.startsWith("https://");
 
 export function hashPassword(password: string) {
   return bcrypt.hash(password, BCRYPT_COST);
@@ -37,8 +39,13 @@ export class SignInError extends Error {
   name = "SignInError";
 }
 
-// Compared against when the address is unknown, so both failures take the same time.
-const DUMMY_HASH = bcrypt.hashSync("pacewright-dummy-password", 10);
+// Compared against when the address is unknown. Same cost as real hashes, so an unknown address costs the same
+// work and answers in the same time as a wrong password for a known one.
+let dummyHash: Promise<string> | null = null;
+export function dummyPasswordHash() {
+  dummyHash ??= bcrypt.hash("pacewright-dummy-password", BCRYPT_COST);
+  return dummyHash;
+}
 
 const credentials = z.object({
   email: z.string().trim().toLowerCase().email("Enter your e-mail address."),
@@ -52,23 +59,29 @@ authenticator.use(
     if (!parsed.success) throw new SignInError(parsed.error.issues[0].message);
     const { email, password } = parsed.data;
 
-    const since = new Date(Date.now() - FAILURE_WINDOW_MS);
-    const failures = await LoginFailure.count({ where: { email, createdAt: { [Op.gte]: since } } });
-    if (failures >= MAX_FAILURES) {
-      httpError(429, "Too many failed sign-ins for this address. Wait 15 minutes, or reset your password.");
-    }
-
     const user = await User.findOne({ where: { email } });
-    const ok = await bcrypt.compare(password, user?.passwordHash ?? DUMMY_HASH);
-    if (!user || !ok) {
-      await LoginFailure.create({ email });
-      throw new SignInError(WRONG_CREDENTIALS);
-    }
-    await LoginFailure.destroy({ where: { email } });
+    const ok = await bcrypt.compare(password, user?.passwordHash ?? (await dummyPasswordHash()));
+    if (!user || !ok) throw new SignInError(WRONG_CREDENTIALS);
     return user;
   }),
   "password",
 );
+
+/**
+ * Counts a sign-in attempt against the address and the client *before* the password is checked: each attempt is
+ * one atomic increment, so parallel guesses are cut off at the limit instead of all being checked. Call
+ * `succeeded()` after a good password: it clears the address and gives the client its point back.
+ */
+export async function guardSignIn(email: string, client: string) {
+  const address = email.trim().toLowerCase();
+  await consume(["signInClient", client], ...(address ? ([["signInAddress", address]] as const) : []));
+  return {
+    async succeeded() {
+      if (address) await clear("signInAddress", address);
+      await giveBack("signInClient", client);
+    },
+  };
+}
 
 /** Starts a new session row (a fresh id every sign-in) and returns the Set-Cookie header value. */
 export async function startSession(user: User, request: Request): Promise<string> {
@@ -79,20 +92,35 @@ export async function startSession(user: User, request: Request): Promise<string
     expiresAt: new Date(Date.now() + SESSION_DAYS * 24 * 3600 * 1000),
     userAgent: request.headers.get("user-agent")?.slice(0, 255) ?? null,
   });
-  return sessionCookie.serialize(id);
+  return sessionCookie.serialize(id, { secure: secureCookies() });
 }
 
 async function sessionIdFrom(request: Request): Promise<string | null> {
   const value = await sessionCookie.parse(request.headers.get("cookie"));
-  return typeof value === "string" && value.length > 0 ? value : null;
+  const id = typeof value === "string" && value.length > 0 ? value : null;
+  // Every use of the session cookie goes through here, so no write that relies on it can skip the origin check.
+  if (id) requireSameOrigin(request, env().appUrl);
+  return id;
 }
+
+const SEEN_EVERY_MS = 5 * 60 * 1000;
 
 export async function getUser(request: Request): Promise<User | null> {
   const id = await sessionIdFrom(request);
   if (!id) return null;
   const row = await AuthSession.findByPk(hashToken(id));
   if (!row || row.expiresAt.getTime() <= Date.now()) return null;
+  // For the devices list; written at most every few minutes so reads stay reads.
+  if (!row.lastSeenAt || Date.now() - row.lastSeenAt.getTime() > SEEN_EVERY_MS) {
+    await writeTransaction((transaction) => AuthSession.update({ lastSeenAt: new Date() }, { where: { id: row.id }, transaction }));
+  }
   return User.findByPk(row.userId);
+}
+
+/** The stored id (hash) of the session this request rides on, to tell "this device" apart. */
+export async function currentSessionKey(request: Request): Promise<string | null> {
+  const id = await sessionIdFrom(request);
+  return id ? hashToken(id) : null;
 }
 
 export async function requireUser(request: Request): Promise<User> {
@@ -116,7 +144,7 @@ export async function requireRole(request: Request, role: Role | Role[]): Promis
 export async function endSession(request: Request): Promise<string> {
   const id = await sessionIdFrom(request);
   if (id) await AuthSession.destroy({ where: { id: hashToken(id) } });
-  return sessionCookie.serialize("", { maxAge: 0 });
+  return sessionCookie.serialize("", { maxAge: 0, secure: secureCookies() });
 }
 
 export function homeFor(role: Role): string {

@@ -15,6 +15,8 @@ export interface Env {
   smtpCatcherPort: number;
   mailFrom: string;
   fakes: boolean;
+  /** Fakes switched on in a production build: the outbox page is then for admins only. */
+  demoInProduction: boolean;
   uploadDir: string;
   stripeSecretKey: string | null;
   stripeWebhookSecret: string;
@@ -29,8 +31,11 @@ export function env(): Env {
   const nodeEnv = e.NODE_ENV ?? "development";
   const port = Number(e.PORT ?? 3000);
   const smtpUrl = e.SMTP_URL?.trim() || null;
-  // Local fakes (mail catcher, payment provider, dev outbox page) run unless real services are configured.
-  const fakes = e.PACEWRIGHT_FAKES ? e.PACEWRIGHT_FAKES !== "off" : !smtpUrl;
+  // Local fakes (mail catcher, outbox page, fake payment provider) are demo doors. In production they open only
+  // with the explicit switch PACEWRIGHT_FAKES=on (`npm start` sets it for the local demo); in development they run
+  // unless switched off or real mail is configured.
+  const fakesSwitch = e.PACEWRIGHT_FAKES?.trim().toLowerCase();
+  const fakes = nodeEnv === "production" ? fakesSwitch === "on" : fakesSwitch ? fakesSwitch !== "off" : !smtpUrl;
   // With fakes on, this is a local demo on http://localhost: no Secure cookies, a built-in secret is fine.
   const isProduction = nodeEnv === "production" && !fakes;
   const sessionSecret = e.SESSION_SECRET ?? "";
@@ -48,6 +53,7 @@ export function env(): Env {
     smtpCatcherPort: Number(e.SMTP_CATCHER_PORT ?? 2525),
     mailFrom: e.MAIL_FROM ?? "Pacewright <no-reply@pacewright.local>",
     fakes,
+    demoInProduction: nodeEnv === "production" && fakes,
     uploadDir: path.resolve(e.UPLOAD_DIR ?? "db/data/uploads"),
     stripeSecretKey: e.STRIPE_SECRET_KEY?.trim() || null,
     stripeWebhookSecret: e.STRIPE_WEBHOOK_SECRET ?? "whsec_pacewright_local_fake",

@@ -27,22 +27,64 @@ export function safeRedirect(to: FormDataEntryValue | string | null | undefined,
 }
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+export const isSafeMethod = (method: string) => SAFE_METHODS.has(method.toUpperCase());
+
+function sameOrigin(source: string, allowed: string[]) {
+  if (source === "null") return false;
+  try {
+    return allowed.includes(new URL(source).origin);
+  } catch {
+    return false;
+  }
+}
 
 /**
- * Refuses state-changing requests sent by another site. Browsers send Origin on every cross-site POST;
- * a request without Origin or Referer comes from a non-browser client and cannot ride a user's cookie by accident.
+ * Whether a state-changing request may go on. Payment webhooks are signed server-to-server calls and always pass.
+ * A request from another origin never passes. A request that carries the session cookie must also prove where it
+ * comes from: a same-origin Origin header or `Sec-Fetch-Site: same-origin` (every current browser sends one of them
+ * on a form post or fetch); without either it could be a request forged by something that holds the cookie jar but
+ * is not our page. Requests without the cookie (a sign-in from a script) need no proof.
  */
-export function isCrossSiteWrite(method: string, headers: { origin?: string | null; referer?: string | null; host?: string | null }, path: string) {
-  if (SAFE_METHODS.has(method.toUpperCase())) return false;
-  // Payment webhooks are signed server-to-server calls.
+export function isCrossSiteWrite(
+  method: string,
+  headers: { origin?: string | null; referer?: string | null; host?: string | null; secFetchSite?: string | null; hasSessionCookie?: boolean },
+  path: string,
+  allowedOrigins: string[] = [],
+) {
+  if (isSafeMethod(method)) return false;
   if (path.startsWith("/webhooks/")) return false;
-  const source = headers.origin ?? headers.referer ?? null;
-  if (!source) return false;
-  if (source === "null") return true;
-  try {
-    return new URL(source).host !== headers.host;
-  } catch {
-    return true;
+  const allowed = [...allowedOrigins];
+  if (headers.host) allowed.push(`http://${headers.host}`, `https://${headers.host}`);
+  if (headers.origin) return !sameOrigin(headers.origin, allowed);
+  if (headers.secFetchSite) {
+    if (headers.secFetchSite === "same-origin") return false;
+    if (headers.secFetchSite !== "none") return true;
+  }
+  if (headers.hasSessionCookie) return true;
+  // No Origin: an old client or a script. A Referer from elsewhere still gives a cross-site request away.
+  if (headers.referer) return !sameOrigin(headers.referer, allowed);
+  return false;
+}
+
+/** Throws 403 unless a cookie-authenticated write comes from one of our own pages (see isCrossSiteWrite). */
+export function requireSameOrigin(request: Request, appUrl: string) {
+  if (isSafeMethod(request.method)) return;
+  const url = new URL(request.url);
+  const h = request.headers;
+  const refused = isCrossSiteWrite(
+    request.method,
+    { origin: h.get("origin"), referer: h.get("referer"), secFetchSite: h.get("sec-fetch-site"), hasSessionCookie: true },
+    url.pathname,
+    [url.origin, new URL(appUrl).origin],
+  );
+  if (refused) forbidden("Refused: this change did not come from a Pacewright page. Reload the page and try again.");
+}
+
+/** JSON resource routes read only JSON: a form or text body from another page answers 415 before anything runs. */
+export function requireJson(request: Request) {
+  const type = (request.headers.get("content-type") ?? "").split(";")[0].trim().toLowerCase();
+  if (type !== "application/json") {
+    throw Response.json({ error: "Send this as JSON (Content-Type: application/json)." }, { status: 415, headers: { "Cache-Control": "private, no-store" } });
   }
 }
 

@@ -14,6 +14,8 @@ declare global {
  */
 export function payments(): Stripe {
   const e = env();
+  // Without a real key the fake is the only provider, and it exists only while the demo fakes run.
+  if (!e.stripeSecretKey && !e.fakes) throw new PaymentsNotConfigured();
   const key = e.stripeSecretKey ?? FAKE_KEY;
   if (globalThis.__pacewrightStripe?.key === `${key}@${e.fakePaymentsPort}`) return globalThis.__pacewrightStripe.client;
   const client = e.stripeSecretKey
@@ -22,6 +24,15 @@ export function payments(): Stripe {
   globalThis.__pacewrightStripe = { key: `${key}@${e.fakePaymentsPort}`, client };
   return client;
 }
+
+export class PaymentsNotConfigured extends Error {
+  name = "PaymentsNotConfigured";
+  constructor() {
+    super("Payments are not set up on this server (STRIPE_SECRET_KEY is missing).");
+  }
+}
+
+export const paymentsConfigured = () => Boolean(env().stripeSecretKey) || env().fakes;
 
 /** Verifies a webhook's signature on its raw body; throws when it does not match. */
 export function verifyWebhook(rawBody: string, signature: string | null) {

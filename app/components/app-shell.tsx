@@ -79,9 +79,12 @@ export function AppShell({
             )}
           </nav>
           <div className="flex items-center gap-3 text-sm">
-            <span className="hidden text-ink-soft xl:inline">
+            <NavLink to="/account/security" className="hidden text-ink-soft hover:text-teal hover:underline xl:inline" title="Sign-in and devices">
               {user.name} · <span className="capitalize">{user.role}</span>
-            </span>
+            </NavLink>
+            <NavLink to="/account/security" className="rounded-md px-2 py-1.5 text-ink-soft hover:bg-paper-deep xl:hidden" aria-label="Sign-in and devices">
+              Account
+            </NavLink>
             <Form method="post" action="/logout">
               <button type="submit" className="rounded-md border border-line px-3 py-1.5 hover:bg-paper-deep">
                 Sign out

@@ -1,14 +1,22 @@
-import { isRouteErrorResponse, Link, Outlet, useRouteLoaderData } from "react-router";
+import { isRouteErrorResponse, Link, Outlet, redirect, useRouteLoaderData } from "react-router";
 import { AppShell } from "~/components/app-shell";
 import { BandsProvider } from "~/components/bands-context";
 import { homeFor, requireUser } from "~/.server/auth";
 import { env } from "~/.server/env";
 import { bandSetsFor } from "~/.server/services/bands";
+import { mustEnrol } from "~/.server/services/two-step";
 import type { Route } from "./+types/app-layout";
 
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
-  return { user: { name: user.name, role: user.role, email: user.email }, devMail: env().fakes, home: homeFor(user.role), bandSets: await bandSetsFor(user) };
+  // A studio that requires two-step sign-in keeps its coaches and admins on the set-up page until it is on.
+  if (new URL(request.url).pathname !== "/account/security" && (await mustEnrol(user))) throw redirect("/account/security");
+  return {
+    user: { name: user.name, role: user.role, email: user.email },
+    devMail: env().fakes && (!env().demoInProduction || user.role === "admin"),
+    home: homeFor(user.role),
+    bandSets: await bandSetsFor(user),
+  };
 }
 
 export default function AppLayout({ loaderData }: Route.ComponentProps) {

@@ -13,8 +13,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const token = file.slice(0, -4);
   const owner = await userForToken(token);
   if (!owner || (owner.role !== "athlete" && owner.role !== "coach")) return notFound();
-  if (feedRateLimited(hashToken(token))) {
-    return new Response("Too many requests for this calendar link; try again in a few minutes.", { status: 429, headers: { "Retry-After": "600", "Content-Type": "text/plain; charset=utf-8" } });
+  const wait = await feedRateLimited(hashToken(token));
+  if (wait !== null) {
+    return new Response("Too many requests for this calendar link; try again in a few minutes.", { status: 429, headers: { "Retry-After": String(wait), "Content-Type": "text/plain; charset=utf-8" } });
   }
   void noteFeedUse(hashToken(token));
   const fingerprint = await feedFingerprint(owner);

@@ -4,13 +4,16 @@ import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
 import { requestPasswordReset } from "~/.server/services/accounts";
 import { forgotSchema, parseForm } from "~/lib/forms";
+import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import type { Route } from "./+types/forgot-password";
 
 export const meta: Route.MetaFunction = () => [{ title: "Reset your password · Pacewright" }];
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const parsed = parseForm(forgotSchema, await request.formData());
   if (!parsed.ok) return data({ sent: false, fieldErrors: parsed.fieldErrors, values: parsed.values }, { status: 400 });
+  // Counted per typed address whether or not it has an account, so the limit reveals nothing either.
+  await consumeOr429(["resetClient", clientKey(context)], ["resetAddress", parsed.data.email]);
   await requestPasswordReset(parsed.data.email);
   return { sent: true, fieldErrors: {}, values: { email: parsed.data.email } };
 }

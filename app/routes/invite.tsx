@@ -7,6 +7,7 @@ import { getUser, startSession } from "~/.server/auth";
 import { acceptInvitation, AccountError, findInvitation } from "~/.server/services/accounts";
 import { INVITE_DEAD } from "~/lib/messages";
 import { acceptInviteSchema, parseForm } from "~/lib/forms";
+import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import type { Route } from "./+types/invite";
 
 export const meta: Route.MetaFunction = () => [{ title: "Your invitation · Pacewright" }];
@@ -26,7 +27,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, params, context }: Route.ActionArgs) {
+  await consumeOr429(["tokenClient", clientKey(context)], ["inviteToken", params.token ?? ""]);
   const signedIn = await getUser(request);
   const form = await request.formData();
   try {

@@ -2,7 +2,9 @@ import { data, Form, Link, redirect, useNavigation, useSearchParams } from "reac
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { authenticator, getUser, homeFor, SignInError, startSession } from "~/.server/auth";
+import { authenticator, getUser, guardSignIn, homeFor, SignInError, startSession } from "~/.server/auth";
+import { clientKey, RateLimited } from "~/.server/security/rate-limits";
+import { pendingCookieFor, twoStepOn } from "~/.server/services/two-step";
 import { safeRedirect } from "~/.server/http";
 import type { Route } from "./+types/login";
 
@@ -14,17 +16,21 @@ export async function loader({ request }: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const form = await request.clone().formData();
   const email = String(form.get("email") ?? "");
   try {
+    const guard = await guardSignIn(email, clientKey(context));
     const user = await authenticator.authenticate("password", request);
-    const cookie = await startSession(user, request);
+    await guard.succeeded();
     const to = safeRedirect(form.get("redirectTo"), homeFor(user.role));
+    // With two-step sign-in on, the password alone opens no session: the code page does.
+    if (twoStepOn(user)) return redirect("/login/two-step", { headers: { "Set-Cookie": await pendingCookieFor(user, to) } });
+    const cookie = await startSession(user, request);
     return redirect(to, { headers: { "Set-Cookie": cookie } });
   } catch (err) {
     if (err instanceof SignInError) return data({ error: err.message, email }, { status: 400 });
-    if (err instanceof Response && err.status === 429) return data({ error: await err.text(), email }, { status: 429 });
+    if (err instanceof RateLimited) return data({ error: err.message, email }, { status: 429, headers: { "Retry-After": String(err.retryAfterS) } });
     throw err;
   }
 }

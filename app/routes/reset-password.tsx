@@ -5,6 +5,7 @@ import { Field, FormMessage } from "~/components/ui/field";
 import { AccountError, checkResetToken, resetPassword } from "~/.server/services/accounts";
 import { RESET_LINK_DEAD } from "~/lib/messages";
 import { parseForm, resetSchema } from "~/lib/forms";
+import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import type { Route } from "./+types/reset-password";
 
 export const meta: Route.MetaFunction = () => [{ title: "Choose a new password · Pacewright" }];
@@ -14,7 +15,8 @@ export async function loader({ params }: Route.LoaderArgs) {
   return { valid: await checkResetToken(params.token) };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
+export async function action({ request, params, context }: Route.ActionArgs) {
+  await consumeOr429(["tokenClient", clientKey(context)]);
   const parsed = parseForm(resetSchema, await request.formData());
   if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors }, { status: 400 });
   try {

@@ -5,6 +5,7 @@ import { buttonClass } from "~/components/ui/button";
 import { TimezoneSelect } from "~/components/timezone-select";
 import { getUser, homeFor, startSession } from "~/.server/auth";
 import { safeRedirect } from "~/.server/http";
+import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import { AccountError, signUp } from "~/.server/services/accounts";
 import { parseForm, signUpSchema } from "~/lib/forms";
 import type { Route } from "./+types/signup";
@@ -17,12 +18,14 @@ export async function loader({ request }: Route.LoaderArgs) {
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const signedIn = await getUser(request);
   if (signedIn) throw redirect(homeFor(signedIn.role));
   const form = await request.formData();
   const parsed = parseForm(signUpSchema, form);
   if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors, values: parsed.values }, { status: 400 });
+  // Counted before the password is hashed: sign-up is also a way to ask whether an address has an account.
+  await consumeOr429(["signUpClient", clientKey(context)], ["signUpAddress", parsed.data.email]);
   try {
     const user = await signUp(parsed.data);
     const cookie = await startSession(user, request);

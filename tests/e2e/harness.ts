@@ -123,15 +123,33 @@ export async function shot(page: Page, name: string) {
   await page.screenshot({ path: path.join(SCREENSHOTS, `${name}.png`), fullPage: true });
 }
 
-/** Opens the newest message to `to` in the dev outbox (the mail sender runs in the background) and returns its link. */
+/**
+ * Opens the newest message to `to` in the dev outbox (the mail sender runs in the background) and returns its link.
+ * The app runs as a production build with the demo switch on, where the outbox is for admins: it is read in a
+ * separate browser context signed in as the demo admin, so `page` keeps its own session (cookies are untouched).
+ */
 export async function linkFromOutbox(page: Page, baseUrl: string, to: string, pathPart: string): Promise<string> {
-  const deadline = Date.now() + 30_000;
-  for (;;) {
-    await page.goto(`${baseUrl}/dev/mail?to=${encodeURIComponent(to)}`);
-    const link = page.locator(`[data-testid=caught-mail] a[href*="${pathPart}"]`).first();
-    if ((await link.count()) > 0) return (await link.getAttribute("href"))!;
-    if (Date.now() > deadline) throw new Error(`no mail with ${pathPart} reached ${to}`);
-    await page.waitForTimeout(500);
+  const context = await page.context().browser()!.newContext();
+  try {
+    const admin = await context.newPage();
+    const { DEMO_ACCOUNTS } = await import("../../db/demo/accounts");
+    await signInAs(admin, baseUrl, DEMO_ACCOUNTS.people.find((p) => p.role === "admin")!.email, DEMO_ACCOUNTS.password);
+    await admin.waitForURL((url) => !url.pathname.startsWith("/login"));
+    const deadline = Date.now() + 30_000;
+    for (;;) {
+      await admin.goto(`${baseUrl}/dev/mail?to=${encodeURIComponent(to)}`);
+      const link = admin.locator(`[data-testid=caught-mail] a[href*="${pathPart}"]`).first();
+      if ((await link.count()) > 0) {
+        const href = (await link.getAttribute("href"))!;
+        // `page` shows what the admin saw (a static copy), so a test can go on to read the message there.
+        await page.setContent(await admin.content());
+        return href;
+      }
+      if (Date.now() > deadline) throw new Error(`no mail with ${pathPart} reached ${to}`);
+      await admin.waitForTimeout(500);
+    }
+  } finally {
+    await context.close();
   }
 }
 

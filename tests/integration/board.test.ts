@@ -94,7 +94,7 @@ describe("plan board changes", () => {
     const { cookie, plan, weeks, threshold } = await setup();
     expect((await op(plan.id, { op: "teleport" }, cookie)).status).toBe(400);
     expect((await op(plan.id, { op: "copy", sessionId: threshold.id, toWeek: weeks[0].id, toDay: 9, toIndex: 0 }, cookie)).status).toBe(400);
-    const bad = (await run(items.action, new Request(`${BASE}/api/plans/${plan.id}/items`, { method: "POST", body: "{", headers: { Cookie: cookie } }), { planId: String(plan.id) })) as Response;
+    const bad = (await run(items.action, new Request(`${BASE}/api/plans/${plan.id}/items`, { method: "POST", body: "{", headers: { "Content-Type": "application/json", Cookie: cookie } }), { planId: String(plan.id) })) as Response;
     expect(bad.status).toBe(400);
     const other = await makeUser({ role: "coach" });
     const otherCookie = await signIn(other.email);

@@ -184,7 +184,7 @@ describe("field test → rescale", () => {
     expect(payloadOf(await save({ protocol: "swim_pair", inputs: { t400: "2:00", t200: "2:50" }, testedOn: "2026-11-20", readiness: READY }, cookie)).error).toMatch(/longer than the 200/);
     expect(payloadOf(await save({ protocol: "twenty_minute", inputs: { meanW: "-4" }, testedOn: "2026-11-20", readiness: READY }, cookie)).error).toMatch(/must be 50–700 W/);
 
-    const p = (await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20" }), headers: { Cookie: cookie } }))) as Response;
+    const p = (await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20" }), headers: { "Content-Type": "application/json", Cookie: cookie } }))) as Response;
     const body = await p.json();
     expect(body.proposed).toMatchObject({ value: 285, label: "285 W" });
     expect(body.current).toMatchObject({ label: "250 W" });
@@ -222,12 +222,12 @@ describe("ride-file uploads", () => {
     const { upload, trace } = await res.json();
     expect(upload.summary.efforts["20min"].mean).toBeCloseTo(300, 0);
     expect(trace.length).toBeGreaterThan(100);
-    const p = await ((await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20" }), headers: { Cookie: cookie } }))) as Response).json();
+    const p = await ((await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20" }), headers: { "Content-Type": "application/json", Cookie: cookie } }))) as Response).json();
     expect(p.proposed.value).toBe(285);
     expect(p.window).toEqual({ startS: 1440, lengthS: 1200 });
     expect(p.pacing.verdict).toBe("even");
     // Shifting the window by hand changes the proposal.
-    const shifted = await ((await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", uploadId: upload.id, windowStartS: 1500, testedOn: "2026-11-20" }), headers: { Cookie: cookie } }))) as Response).json();
+    const shifted = await ((await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", uploadId: upload.id, windowStartS: 1500, testedOn: "2026-11-20" }), headers: { "Content-Type": "application/json", Cookie: cookie } }))) as Response).json();
     expect(shifted.proposed.value).toBeLessThan(285);
     const saved = await save({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20", readiness: READY, confirmed: true }, cookie);
     expect(statusOf(saved)).toBe(302);

@@ -29,7 +29,7 @@ export function formRequest(path: string, fields: Record<string, string | string
   return new Request(BASE + path, {
     method: opts.method ?? "POST",
     body,
-    headers: { "Content-Type": "application/x-www-form-urlencoded", ...(opts.cookie ? { Cookie: opts.cookie } : {}) },
+    headers: { "Content-Type": "application/x-www-form-urlencoded", Origin: BASE, ...(opts.cookie ? { Cookie: opts.cookie } : {}) },
   });
 }
 
@@ -37,10 +37,28 @@ export function getRequest(path: string, cookie?: string) {
   return new Request(BASE + path, { headers: cookie ? { Cookie: cookie } : {} });
 }
 
-/** Route functions are called the way React Router calls them; thrown Responses are returned for inspection. */
-export async function run<T>(fn: (args: any) => Promise<T>, request: Request, params: Record<string, string> = {}) {
+let clients = 0;
+/** A load context as scripts/server.ts builds it; each call is a new client unless one is given. */
+export const clientContext = (clientAddress = `198.51.100.${++clients % 250}-${clients}`) => ({ clientAddress });
+
+const bare = new WeakSet<Request>();
+/** Marks a request to be sent as a non-browser client would: run() adds no Origin header to it. */
+export function withoutOrigin(request: Request) {
+  bare.add(request);
+  return request;
+}
+
+/**
+ * Route functions are called the way React Router calls them; thrown Responses are returned for inspection.
+ * Requests to this site get a same-origin Origin header, as a browser on one of our pages sends, unless they
+ * carry one already or were marked withoutOrigin().
+ */
+export async function run<T>(fn: (args: any) => Promise<T>, request: Request, params: Record<string, string> = {}, context: Record<string, unknown> = clientContext()) {
+  if (!bare.has(request) && !request.headers.has("origin") && !request.headers.has("sec-fetch-site") && new URL(request.url).origin === BASE) {
+    request.headers.set("Origin", BASE);
+  }
   try {
-    return await fn({ request, params, context: {} });
+    return await fn({ request, params, context });
   } catch (err) {
     if (err instanceof Response) return err;
     throw err;

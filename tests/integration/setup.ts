@@ -18,6 +18,8 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  const { closeActivityPool } = await import("../../app/.server/services/activity-pool");
+  await closeActivityPool();
   const { closeDb } = await import("../../app/.server/db");
   await closeDb();
   fs.rmSync(dir, { recursive: true, force: true });

@@ -51,7 +51,7 @@ const written = async (athleteId: number) => ({
 const save = (body: unknown, cookie: string) =>
   run(testNew.action, new Request(`${BASE}/athlete/tests/new`, { method: "POST", body: JSON.stringify(body), headers: { "Content-Type": "application/json", Cookie: cookie } }));
 const ask = async (body: unknown, cookie: string) => {
-  const res = (await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify(body), headers: { Cookie: cookie } }))) as Response;
+  const res = (await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify(body), headers: { Cookie: cookie, "Content-Type": "application/json" } }))) as Response;
   return { status: res.status, body: await res.json() };
 };
 const upload = async (cookie: string, samples: RideSample[], name = "laps.csv") => {

@@ -19,6 +19,18 @@ describe("safeRedirect", () => {
 
 describe("isCrossSiteWrite", () => {
   const host = "localhost:3000";
+  it("asks a cookie-authenticated write for a same-origin Origin or Sec-Fetch-Site", () => {
+    const cookie = { host, hasSessionCookie: true };
+    expect(isCrossSiteWrite("POST", cookie, "/coach")).toBe(true);
+    expect(isCrossSiteWrite("POST", { ...cookie, referer: "http://localhost:3000/coach" }, "/coach")).toBe(true);
+    expect(isCrossSiteWrite("POST", { ...cookie, origin: "http://localhost:3000" }, "/coach")).toBe(false);
+    expect(isCrossSiteWrite("POST", { ...cookie, secFetchSite: "same-origin" }, "/coach")).toBe(false);
+    expect(isCrossSiteWrite("POST", { ...cookie, secFetchSite: "same-site" }, "/coach")).toBe(true);
+    expect(isCrossSiteWrite("POST", { ...cookie, secFetchSite: "cross-site" }, "/coach")).toBe(true);
+    expect(isCrossSiteWrite("POST", { ...cookie, origin: "https://pacewright.example" }, "/coach", ["https://pacewright.example"])).toBe(false);
+    expect(isCrossSiteWrite("POST", cookie, "/webhooks/payments")).toBe(false);
+    expect(isCrossSiteWrite("GET", cookie, "/coach")).toBe(false);
+  });
   it("lets reads and same-site writes through", () => {
     expect(isCrossSiteWrite("GET", { origin: "https://evil.example", host }, "/coach")).toBe(false);
     expect(isCrossSiteWrite("POST", { origin: "http://localhost:3000", host }, "/login")).toBe(false);

@@ -12,6 +12,7 @@ export class AuthSession extends Model<InferAttributes<AuthSession>, InferCreati
   declare userId: number;
   declare expiresAt: Date;
   declare userAgent: CreationOptional<string | null>;
+  declare lastSeenAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -21,6 +22,7 @@ AuthSession.init(
     userId: { type: DataTypes.INTEGER, allowNull: false },
     expiresAt: { type: DataTypes.DATE, allowNull: false },
     userAgent: { type: DataTypes.STRING(255), allowNull: true },
+    lastSeenAt: { type: DataTypes.DATE, allowNull: true },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },
@@ -49,16 +51,34 @@ PasswordReset.init(
   { sequelize: db(), tableName: "password_resets" },
 );
 
-export class LoginFailure extends Model<InferAttributes<LoginFailure>, InferCreationAttributes<LoginFailure>> {
+export class RecoveryCode extends Model<InferAttributes<RecoveryCode>, InferCreationAttributes<RecoveryCode>> {
   declare id: CreationOptional<number>;
-  declare email: string;
+  declare userId: number;
+  declare codeHash: string;
+  declare usedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
 }
-LoginFailure.init(
+RecoveryCode.init(
   {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    email: { type: DataTypes.STRING, allowNull: false },
+    userId: { type: DataTypes.INTEGER, allowNull: false },
+    codeHash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
+    usedAt: { type: DataTypes.DATE, allowNull: true },
     createdAt: DataTypes.DATE,
   },
-  { sequelize: db(), tableName: "login_failures", updatedAt: false },
+  { sequelize: db(), tableName: "recovery_codes", updatedAt: false },
+);
+
+export class StudioSetting extends Model<InferAttributes<StudioSetting>, InferCreationAttributes<StudioSetting>> {
+  declare key: string;
+  declare value: string;
+  declare updatedAt: CreationOptional<Date>;
+}
+StudioSetting.init(
+  {
+    key: { type: DataTypes.STRING(64), primaryKey: true },
+    value: { type: DataTypes.TEXT, allowNull: false },
+    updatedAt: DataTypes.DATE,
+  },
+  { sequelize: db(), tableName: "studio_settings", createdAt: false },
 );

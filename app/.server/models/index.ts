@@ -1,5 +1,5 @@
 export { User, ROLES, publicUser, type Role, type PublicUser } from "./user";
-export { AuthSession, PasswordReset, LoginFailure } from "./auth";
+export { AuthSession, PasswordReset, RecoveryCode, StudioSetting } from "./auth";
 export { CoachAthlete, Invitation } from "./roster";
 export { OutboundEmail } from "./email";
 export { Session, SessionBlock, SeasonPlan, PlanWeek, PlanItem, PlanRecurrence } from "./plans";

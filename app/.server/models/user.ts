@@ -26,6 +26,9 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare feedAlarmMinutes: CreationOptional<number | null>;
   /** Usual start time per weekday (Monday first), "HH:MM" or null for all-day events in the feed. */
   declare trainingTimes: CreationOptional<(string | null)[] | null>;
+  declare totpSecret: CreationOptional<string | null>;
+  declare totpEnabledAt: CreationOptional<Date | null>;
+  declare totpLastStep: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -62,6 +65,9 @@ User.init(
         this.setDataValue("trainingTimes", (v ? JSON.stringify(v) : null) as never);
       },
     },
+    totpSecret: { type: DataTypes.STRING(64), allowNull: true },
+    totpEnabledAt: { type: DataTypes.DATE, allowNull: true },
+    totpLastStep: { type: DataTypes.INTEGER, allowNull: true },
     createdAt: DataTypes.DATE,
     updatedAt: DataTypes.DATE,
   },

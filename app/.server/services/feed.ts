@@ -1,4 +1,5 @@
 import crypto from "node:crypto";
+import { consume, LIMITS, RateLimited } from "../security/rate-limits";
 import { TZDate } from "@date-fns/tz";
 import { LRUCache } from "lru-cache";
 import ical, { ICalAlarmType, ICalCalendarMethod, ICalEventStatus } from "ical-generator";
@@ -240,7 +241,6 @@ function withTimezones(ics: string, zones: string[]) {
 }
 
 declare global {
-  var __pacewrightFeedHits: Map<string, number[]> | undefined;
   var __pacewrightFeedCache: LRUCache<number, CachedFeed> | undefined;
   var __pacewrightFeedBuilds: Map<string, Promise<CachedFeed>> | undefined;
 }
@@ -300,13 +300,18 @@ export async function cachedFeed(owner: User, fingerprint: string): Promise<Cach
   return pending;
 }
 
-export const FEED_RATE = { requests: 60, windowMs: 10 * 60 * 1000 };
+export const FEED_RATE = { requests: LIMITS.feedToken.points, windowMs: LIMITS.feedToken.duration * 1000 };
 
-/** Per-token request limit (in memory, per server process): calendar apps poll far less often than this. */
-export function feedRateLimited(tokenHash: string, now = Date.now()) {
-  globalThis.__pacewrightFeedHits ??= new Map();
-  const hits = (globalThis.__pacewrightFeedHits.get(tokenHash) ?? []).filter((t) => t > now - FEED_RATE.windowMs);
-  hits.push(now);
-  globalThis.__pacewrightFeedHits.set(tokenHash, hits);
-  return hits.length > FEED_RATE.requests;
+/**
+ * Per-token request limit, counted in the database so every app process shares it: calendar apps poll far less
+ * often than this. Answers the seconds to wait, or null when the request may go on.
+ */
+export async function feedRateLimited(tokenHash: string): Promise<number | null> {
+  try {
+    await consume(["feedToken", tokenHash]);
+    return null;
+  } catch (err) {
+    if (err instanceof RateLimited) return err.retryAfterS;
+    throw err;
+  }
 }

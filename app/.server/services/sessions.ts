@@ -1,6 +1,6 @@
 import fs from "node:fs/promises";
 import path from "node:path";
-import { Op, QueryTypes, type Transaction } from "sequelize";
+import { literal, Op, QueryTypes, type Transaction } from "sequelize";
 import { db, writeTransaction } from "../db";
 import { PlanItem, Session, SessionBlock } from "../models";
 import { describeIssues, EXPORT_FORMAT, exportSchema, sessionSchema, type SessionInput } from "~/lib/sessions";
@@ -53,11 +53,14 @@ export type ShelfQuery = { q?: string; sport?: string; tag?: string; sort?: "nam
 export async function listSessions(ownerId: number, query: ShelfQuery = {}): Promise<SessionSummary[]> {
   const where: Record<string | symbol, unknown> = { ownerId, archived: query.archived ?? false };
   if (query.sport) where.sport = query.sport;
+  let replacements: Record<string, string> | undefined;
   if (query.q) {
-    const like = `%${query.q.replace(/[%_]/g, (c) => `\\${c}`)}%`;
-    where[Op.or] = [{ name: { [Op.like]: like } }, { description: { [Op.like]: like } }, { tags: { [Op.like]: like } }];
+    // `%`, `_` and the escape character itself are matched literally; LIKE honours the backslash only with an
+    // explicit ESCAPE clause (SQLite and PostgreSQL alike).
+    replacements = { like: `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` };
+    where[Op.and] = [literal(`(name LIKE :like ESCAPE '\\' OR description LIKE :like ESCAPE '\\' OR tags LIKE :like ESCAPE '\\')`)];
   }
-  const sessions = await Session.findAll({ where, order: [["name", "ASC"]] });
+  const sessions = await Session.findAll({ where, order: [["name", "ASC"]], replacements });
   const filtered = query.tag ? sessions.filter((s) => s.tags.includes(query.tag!.toLowerCase())) : sessions;
   const ids = filtered.map((s) => s.id);
   const blocks = await blocksBySession(ids);

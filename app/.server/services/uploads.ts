@@ -3,7 +3,8 @@ import { MaxFileSizeExceededError, MaxFilesExceededError, MaxTotalSizeExceededEr
 import { writeTransaction } from "../db";
 import { Upload, type User } from "../models";
 import { fileStorage } from "../storage";
-import { bestEffort, detectRampTest, parseActivity, powerCurve, TrainingInputError, valueHistogram, workKj, type Activity } from "~/lib/training";
+import type { Activity } from "~/lib/training";
+import { ActivityReadError, readActivityOffThread } from "./activity-pool";
 
 export const MAX_UPLOAD_BYTES = 25 * 1024 * 1024;
 export const ALLOWED = ["csv", "gpx", "fit"] as const;
@@ -18,50 +19,8 @@ export class UploadError extends Error {
   }
 }
 
-/** Best efforts the tests use, found once when the file arrives. */
-function summarize(activity: Activity) {
-  const { samples, meta } = activity;
-  const hasPower = meta.channels.includes("power");
-  const efforts: Record<string, { startS: number; mean: number } | null> = {};
-  for (const [key, w] of [["1min", 60], ["3min", 180], ["8min", 480], ["12min", 720], ["20min", 1200]] as const) {
-    efforts[key] = hasPower && samples.length >= w ? bestEffort(samples, w) : null;
-  }
-  let ramp = null;
-  if (hasPower) {
-    try {
-      ramp = detectRampTest(samples);
-    } catch {
-      ramp = null;
-    }
-  }
-  const hrValues = samples.map((s) => s.hr).filter((v): v is number => typeof v === "number");
-  return {
-    format: meta.format,
-    startTime: meta.startTime,
-    durationS: meta.durationS,
-    channels: meta.channels,
-    interpolatedS: meta.interpolatedS,
-    stoppedS: meta.stoppedS,
-    workKj: hasPower ? workKj(samples) : null,
-    avgPower: hasPower ? samples.reduce((s, x) => s + (x.power ?? 0), 0) / samples.length : null,
-    avgHr: hrValues.length ? hrValues.reduce((a, b) => a + b, 0) / hrValues.length : null,
-    maxHr: hrValues.length ? Math.max(...hrValues) : null,
-    efforts,
-    ramp,
-    curve: hasPower ? powerCurve(samples) : [],
-    histograms: activityHistograms(activity),
-  };
-}
-
-/** Seconds per whole watt and per whole bpm: what time in band is computed from, for any threshold or band set. */
-export function activityHistograms(activity: Activity) {
-  const { samples, meta } = activity;
-  return {
-    power: meta.channels.includes("power") ? valueHistogram(samples.map((s) => s.power)) : null,
-    hr: samples.some((s) => typeof s.hr === "number") ? valueHistogram(samples.map((s) => s.hr)) : null,
-  };
-}
-export type UploadSummary = ReturnType<typeof summarize>;
+export type { UploadSummary, TracePoint } from "../workers/activity-task";
+export { activityHistograms } from "../workers/activity-task";
 
 /**
  * Takes one file from a multipart request: size and type are enforced while it streams (413 / 415), the engine
@@ -94,39 +53,47 @@ export async function receiveUpload(request: Request, athlete: User, uploadedBy:
   if (refused) throw refused;
   if (!received) throw new UploadError("Choose a file to upload.", 400);
   const { name, bytes } = received as { name: string; bytes: Uint8Array };
-  let activity: Activity;
+  // Parsed on a worker thread: a big file must not hold up everyone else's requests.
+  let read;
   try {
-    activity = parseActivity(bytes, name);
+    read = await readActivityOffThread({ bytes, name, want: "summary" }, uploadedBy.id);
   } catch (err) {
-    if (err instanceof TrainingInputError) throw new UploadError(`This file cannot be used: ${err.message}`, 400);
+    if (err instanceof ActivityReadError) throw new UploadError(err.message, err.status);
     throw err;
   }
-  const summary = summarize(activity);
-  const storageKey = `${athlete.id}/${crypto.randomUUID()}.${activity.meta.format}`;
+  const { summary, trace } = read;
+  const storageKey = `${athlete.id}/${crypto.randomUUID()}.${summary.format}`;
   await fileStorage().set(storageKey, new File([bytes as BlobPart], name, { type: "application/octet-stream" }));
   try {
-    return await writeTransaction((transaction) =>
-      Upload.create({ athleteId: athlete.id, uploadedBy: uploadedBy.id, originalName: name.slice(0, 255), format: activity.meta.format, size: bytes.byteLength, storageKey, summary }, { transaction }),
+    const upload = await writeTransaction((transaction) =>
+      Upload.create({ athleteId: athlete.id, uploadedBy: uploadedBy.id, originalName: name.slice(0, 255), format: summary.format, size: bytes.byteLength, storageKey, summary }, { transaction }),
     );
+    return { upload, trace };
   } catch (err) {
     await fileStorage().remove(storageKey);
     throw err;
   }
 }
 
-/** Reads a stored upload back into 1 Hz samples (for windows the user shifts). */
+/** Reads a stored upload back into 1 Hz samples (for windows the user shifts), on a worker thread. */
 export async function loadActivity(upload: Upload): Promise<Activity> {
-  const file = await fileStorage().get(upload.storageKey);
-  if (!file) throw new UploadError("The stored file is missing.", 410);
-  return parseActivity(new Uint8Array(await file.arrayBuffer()), `x.${upload.format}`);
+  return (await readStored(upload, "activity")).activity!;
 }
 
-/** A light trace for charts: one point every `step` seconds. */
-export function traceOf(activity: Activity, step = 5) {
-  const out: { t: number; power: number | null; hr: number | null }[] = [];
-  for (let i = 0; i < activity.samples.length; i += step) {
-    const s = activity.samples[i];
-    out.push({ t: s.t, power: s.power ?? null, hr: s.hr ?? null });
-  }
-  return out;
+/** The light chart trace of a stored upload. */
+export async function storedTrace(upload: Upload) {
+  return (await readStored(upload, "summary")).trace;
 }
+
+async function readStored(upload: Upload, want: "summary" | "activity") {
+  const file = await fileStorage().get(upload.storageKey);
+  if (!file) throw new UploadError("The stored file is missing.", 410);
+  try {
+    return await readActivityOffThread({ bytes: new Uint8Array(await file.arrayBuffer()), name: `x.${upload.format}`, want }, upload.athleteId);
+  } catch (err) {
+    if (err instanceof ActivityReadError) throw new UploadError(err.message, err.status);
+    throw err;
+  }
+}
+
+export { traceOf } from "../workers/activity-task";

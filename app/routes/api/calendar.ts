@@ -2,7 +2,7 @@ import { z } from "zod";
 import { requireUser } from "~/.server/auth";
 import { calendarRange, calendarSubject, CalendarError, moveSession } from "~/.server/services/calendar";
 import { daysBetween, isIsoDate } from "~/lib/dates";
-import { jsonResponse as json } from "~/.server/http";
+import { jsonResponse as json, requireJson } from "~/.server/http";
 import type { Route } from "./+types/calendar";
 
 
@@ -25,6 +25,7 @@ export async function action({ request }: Route.ActionArgs) {
   const viewer = await requireUser(request);
   const url = new URL(request.url);
   const athlete = await calendarSubject(viewer, url.searchParams.get("athleteId"));
+  requireJson(request);
   let body: unknown;
   try {
     body = await request.json();

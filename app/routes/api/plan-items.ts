@@ -1,7 +1,7 @@
 import { requireRole } from "~/.server/auth";
 import { applyBoardOp, boardOpSchema, StaleBoardError } from "~/.server/services/board";
 import { loadPlan, PlanError } from "~/.server/services/plans";
-import { jsonResponse as json } from "~/.server/http";
+import { jsonResponse as json, requireJson } from "~/.server/http";
 import type { Route } from "./+types/plan-items";
 
 
@@ -19,6 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 /** Board changes as JSON: { op: "copy" | "move" | "remove" | "duplicate-week" | "move-week" | "time", version, … }. */
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
+  requireJson(request);
   let body: unknown;
   try {
     body = await request.json();

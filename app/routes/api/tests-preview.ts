@@ -3,7 +3,7 @@ import { requireUser } from "~/.server/auth";
 import { calendarSubject } from "~/.server/services/calendar";
 import { preview, TestError } from "~/.server/services/field-tests";
 import { protocolSchema } from "~/lib/field-tests";
-import { jsonResponse as json } from "~/.server/http";
+import { jsonResponse as json, requireJson } from "~/.server/http";
 import type { Route } from "./+types/tests-preview";
 
 
@@ -19,6 +19,7 @@ export const submissionSchema = z.object({
 export async function action({ request }: Route.ActionArgs) {
   const viewer = await requireUser(request);
   const athlete = await calendarSubject(viewer, new URL(request.url).searchParams.get("athleteId"));
+  requireJson(request);
   let body: unknown;
   try {
     body = await request.json();

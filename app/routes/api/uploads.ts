@@ -1,7 +1,7 @@
 import { requireUser } from "~/.server/auth";
 import { Upload } from "~/.server/models";
 import { calendarSubject } from "~/.server/services/calendar";
-import { loadActivity, receiveUpload, traceOf, UploadError } from "~/.server/services/uploads";
+import { receiveUpload, storedTrace, UploadError } from "~/.server/services/uploads";
 import { jsonResponse as json } from "~/.server/http";
 import type { Route } from "./+types/uploads";
 
@@ -15,7 +15,12 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (id) {
     const upload = await Upload.findOne({ where: { id, athleteId: athlete.id } });
     if (!upload) return json({ error: "No such upload." }, 404);
-    return json({ upload: view(upload), trace: traceOf(await loadActivity(upload)) });
+    try {
+      return json({ upload: view(upload), trace: await storedTrace(upload) });
+    } catch (err) {
+      if (err instanceof UploadError) return json({ error: err.message }, err.status);
+      throw err;
+    }
   }
   const uploads = await Upload.findAll({ where: { athleteId: athlete.id }, order: [["createdAt", "DESC"]], limit: 100 });
   return json({ uploads: uploads.map(view) });
@@ -31,8 +36,8 @@ export async function action({ request }: Route.ActionArgs) {
   const url = new URL(request.url);
   const athlete = await calendarSubject(viewer, url.searchParams.get("athleteId"));
   try {
-    const upload = await receiveUpload(request, athlete, viewer);
-    return json({ upload: view(upload), trace: traceOf(await loadActivity(upload)) }, 201);
+    const { upload, trace } = await receiveUpload(request, athlete, viewer);
+    return json({ upload: view(upload), trace }, 201);
   } catch (err) {
     if (err instanceof UploadError) return json({ error: err.message }, err.status);
     throw err;

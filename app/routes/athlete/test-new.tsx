@@ -1,4 +1,5 @@
 import { useEffect, useMemo, useState } from "react";
+import { requireJson } from "~/.server/http";
 import { data, Link, redirect, useFetcher } from "react-router";
 import { z } from "zod";
 import { TraceChart } from "~/components/trace-chart";
@@ -35,6 +36,7 @@ const saveSchema = z.object({
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { athlete, viewer, base } = await athleteSubject(request, params.athleteId);
+  requireJson(request);
   let body: unknown;
   try {
     body = await request.json();

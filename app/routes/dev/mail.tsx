@@ -1,3 +1,4 @@
+import { requireRole } from "~/.server/auth";
 import { env } from "~/.server/env";
 import { notFound } from "~/.server/http";
 import { mailbox } from "~/.server/fakes/mailbox";
@@ -8,25 +9,33 @@ import type { Route } from "./+types/mail";
 export const meta: Route.MetaFunction = () => [{ title: "Outbox (dev) · Pacewright" }];
 
 /**
- * The local mail catcher's inbox. It exists only while the fakes run; it is open without sign-in so a new user can
- * read their own invitation or reset link, and it answers 404 whenever real e-mail is configured.
+ * The local mail catcher's inbox: it shows every reset and invitation link, so it is a demo door. It does not exist
+ * (404) unless the fakes run; in development it is open so a new user can read their own links; on a production
+ * build with the demo switch on only admins may read it.
  */
 export async function loader({ request }: Route.LoaderArgs) {
   if (!env().fakes) notFound();
+  const adminsOnly = env().demoInProduction;
+  if (adminsOnly) await requireRole(request, "admin");
   const url = new URL(request.url);
   const to = url.searchParams.get("to")?.toLowerCase() ?? "";
   const messages = mailbox().messages.filter((m) => !to || m.to.some((a) => a.toLowerCase() === to));
-  return { messages, to };
+  return { messages, to, adminsOnly };
 }
 
 export default function DevMail({ loaderData }: Route.ComponentProps) {
-  const { messages, to } = loaderData;
+  const { messages, to, adminsOnly } = loaderData;
   return (
     <main className="mx-auto max-w-4xl p-6">
       <PageHeader
         title="Outbox (local mail catcher)"
         lead="Messages the app sent while running with local fakes. Nothing here left this machine."
       />
+      <p className="mb-6 rounded-lg border border-line bg-white px-4 py-3 text-sm" data-testid="outbox-access">
+        {adminsOnly
+          ? "Admins only: this server runs a production build with the demo switch on (PACEWRIGHT_FAKES=on), and these messages hold sign-in links for every account."
+          : "Development only: open to anyone who can reach this machine. It never exists on a production build unless the demo switch is on, and then only for admins."}
+      </p>
       <form className="mb-6 flex gap-2" method="get">
         <label className="sr-only" htmlFor="to">
           Filter by recipient

@@ -1,0 +1,4 @@
+declare module "rate-limiter-flexible/lib/RateLimiterStoreAbstract.js" {
+  import { RateLimiterStoreAbstract } from "rate-limiter-flexible";
+  export default RateLimiterStoreAbstract;
+}
