@@ -26,9 +26,8 @@ export function bandSetTitle(sport: string, metric: Metric) {
   return `${METRIC_WORD[metric]} bands (${SPORT_WORD[sport] ?? sport})`;
 }
 
-/** The bands of one threshold for display; swim pace has no band set of ours yet (null). */
+/** The bands of one threshold for display (null where no band set applies). */
 export function bandTable(t: { sport: string; metric: string; value: number; unit: string }, set: BandSet): BandTableData | null {
-  if (t.metric === "pace" && t.sport === "swim") return null;
   const metric = t.metric as Metric;
   return {
     key: `${t.sport}:${t.metric}`,

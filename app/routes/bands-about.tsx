@@ -26,6 +26,11 @@ const BASIS: Record<string, string> = {
   "run:pace:96": "common practice: about 4 % below threshold speed",
   "run:pace:104": "common practice: above threshold speed, the severe domain",
   "run:pace:115": "common practice: short fast running, the extreme domain",
+  "swim:pace:84": "common practice for the first threshold in % of critical swim speed (Wakayoshi et al. 1992; Ginn 1993)",
+  "swim:pace:92": "common practice: the middle of the heavy domain",
+  "swim:pace:97": "common practice: about 3 % below critical swim speed; swim bands are narrower because speed rises far less than effort",
+  "swim:pace:103": "common practice: above critical swim speed, the severe domain",
+  "swim:pace:110": "common practice: short fast swimming, the extreme domain",
 };
 
 export default function AboutBands() {

@@ -26,6 +26,7 @@ const power = defaultBandSet("bike:power");
 const bikeHr = defaultBandSet("bike:heart_rate");
 const runHr = defaultBandSet("run:heart_rate");
 const pace = defaultBandSet("run:pace");
+const swim = defaultBandSet("swim:pace");
 
 describe("default band sets", () => {
   it.each(BAND_SET_KEYS)("%s is contiguous, ordered, starts at 0 and is open at the top", (key) => {
@@ -154,6 +155,19 @@ describe("absolute rows agree with classification", () => {
         });
       }),
     );
+  });
+
+  it("swim pace is % of critical swim speed (Wakayoshi et al. 1992): 1:30/100 m, 1:40 is Steady, 1:35 is Heavy, 1:27.4 is Severe, 1:21.8 is Extreme", () => {
+    const name = (s: number) => bandOfValue(s, 90, swim).name;
+    expect(name(90 / 0.84)).toBe("Steady"); // exactly 84 % of speed: 107.1 s
+    expect(name(90 / 0.84 + 0.01)).toBe("Easy");
+    expect(name(100)).toBe("Steady"); // 90 %
+    expect(name(95)).toBe("Heavy"); // 94.7 %
+    expect(name(90)).toBe("Ridge");
+    expect(name(90 / 1.03)).toBe("Severe"); // 87.4 s
+    expect(name(90 / 1.03 + 0.01)).toBe("Ridge");
+    expect(name(90 / 1.1)).toBe("Extreme"); // 81.8 s
+    expect(name(90 / 1.1 + 0.01)).toBe("Severe");
   });
 
   it("pace, 4:00/km: slowest and fastest whole seconds of each row classify into that row", () => {

@@ -2,9 +2,9 @@ import { requirePositive, TrainingInputError } from "./errors";
 
 export type Metric = "power" | "heart_rate" | "pace";
 /** Sports that carry thresholds (a run-pace set and a swim-pace set differ, so bands belong to sport and metric). */
-export type BandSport = "bike" | "run";
-export type BandSetKey = "bike:power" | "bike:heart_rate" | "run:heart_rate" | "run:pace";
-export const BAND_SET_KEYS: readonly BandSetKey[] = ["bike:power", "bike:heart_rate", "run:heart_rate", "run:pace"];
+export type BandSport = "bike" | "run" | "swim";
+export type BandSetKey = "bike:power" | "bike:heart_rate" | "run:heart_rate" | "run:pace" | "swim:pace";
+export const BAND_SET_KEYS: readonly BandSetKey[] = ["bike:power", "bike:heart_rate", "run:heart_rate", "run:pace", "swim:pace"];
 
 /**
  * One intensity band. Boundaries are in % of threshold (for pace: % of threshold *speed*, so faster = higher).
@@ -52,6 +52,9 @@ export const MAX_BOUNDARY_PCT = 250;
  * - power 130 %, pace 115 %: severe → extreme, where exhaustion comes before maximal oxygen uptake is reached (a
  *   couple of minutes or less); the domain is defined physiologically (Jamnick et al. 2020), the figure is common
  *   practice.
+ * - swim pace (% of critical swim speed, Wakayoshi et al. 1992; critical swim speed sits near the heavy–severe
+ *   boundary like a field threshold does): 84 % / 92 % / 97 % / 103 % / 110 %. Swimming speed rises far less than
+ *   effort does (drag grows steeply with speed), so the swim bands are narrower than the run bands — common practice.
  * - heart rate has no band above severe: heart rate lags seconds-to-minutes behind work and cannot show the extreme
  *   domain (Jamnick et al. 2020 on the delayed heart-rate and oxygen-uptake response).
  */
@@ -95,6 +98,14 @@ const DEFAULTS: Record<BandSetKey, [name: string, fromPct: number, meaning: stri
     ["Severe", 104, MEANING.severe],
     ["Extreme", 115, MEANING.extreme],
   ],
+  "swim:pace": [
+    ["Easy", 0, MEANING.easy],
+    ["Steady", 84, MEANING.steady],
+    ["Heavy", 92, MEANING.heavy],
+    ["Ridge", 97, MEANING.ridge],
+    ["Severe", 103, MEANING.severe],
+    ["Extreme", 110, MEANING.extreme],
+  ],
 };
 
 export function parseBandSetKey(key: string): { sport: BandSport; metric: Metric } | null {
@@ -118,10 +129,10 @@ export function defaultBandSets(): Record<BandSetKey, BandSet> {
   return Object.fromEntries(BAND_SET_KEYS.map((k) => [k, defaultBandSet(k)])) as Record<BandSetKey, BandSet>;
 }
 
-/** The band set key for a session's sport and metric; swim pace and bike pace fall back to the nearest set we keep. */
+/** The band set key for a session's sport and metric; bike pace and swim heart rate fall back to the nearest set we keep. */
 export function bandSetKeyFor(sport: string, metric: Metric): BandSetKey {
   if (metric === "power") return "bike:power";
-  if (metric === "pace") return "run:pace";
+  if (metric === "pace") return sport === "swim" ? "swim:pace" : "run:pace";
   return sport === "run" ? "run:heart_rate" : "bike:heart_rate";
 }
 
