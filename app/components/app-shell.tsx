@@ -72,6 +72,10 @@ export function AppShell({
                 {item.label}
               </NavLink>
             ))}
+            {/* Where the name (the link to sign-in and devices) does not fit in the bar, the menu carries it. */}
+            <NavLink to="/account/security" onClick={() => setMenuOpen(false)} aria-label="Sign-in and devices" className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep xl:hidden">
+              Account
+            </NavLink>
             {devMail && (
               <NavLink to="/dev/mail" onClick={() => setMenuOpen(false)} className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep">
                 Outbox (dev)
@@ -81,9 +85,6 @@ export function AppShell({
           <div className="flex items-center gap-3 text-sm">
             <NavLink to="/account/security" className="hidden text-ink-soft hover:text-teal hover:underline xl:inline" title="Sign-in and devices">
               {user.name} · <span className="capitalize">{user.role}</span>
-            </NavLink>
-            <NavLink to="/account/security" className="rounded-md px-2 py-1.5 text-ink-soft hover:bg-paper-deep xl:hidden" aria-label="Sign-in and devices">
-              Account
             </NavLink>
             <Form method="post" action="/logout">
               <button type="submit" className="rounded-md border border-line px-3 py-1.5 hover:bg-paper-deep">

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
+import { browserAvailable, linkFromOutbox, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
@@ -34,14 +34,7 @@ describe.skipIf(!enabled)("coach and athlete talk about a session where it happe
     await signInAs(coach, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
     await coach.waitForURL(`${env.app.baseUrl}/coach`);
     // The notice reached the coach through the outbox, with a link to the athlete's session.
-    const deadline = Date.now() + 30_000;
-    let mailLink: string | null = null;
-    while (!mailLink && Date.now() < deadline) {
-      await coach.goto(`${env.app.baseUrl}/dev/mail?to=${encodeURIComponent("coach@harbourline.example")}`);
-      const a = coach.locator(`[data-testid=caught-mail] a[href*="/sessions/${sessionId}"]`).first();
-      if ((await a.count()) > 0) mailLink = await a.getAttribute("href");
-      else await coach.waitForTimeout(500);
-    }
+    const mailLink = await linkFromOutbox(coach, env.app.baseUrl, "coach@harbourline.example", `/sessions/${sessionId}`);
     expect(mailLink).toMatch(new RegExp(`/coach/athletes/\\d+/sessions/${sessionId}$`));
     await coach.goto(mailLink!);
     await ready(coach);

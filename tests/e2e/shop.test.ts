@@ -53,8 +53,10 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await athlete.waitForURL(`${env.app.baseUrl}/athlete`);
     await athlete.goto(`${env.app.baseUrl}/shop`);
     await ready(athlete);
-    // Inside the app shell: the athlete's own navigation and sign-out are there.
+    // Inside the app shell: the athlete's own navigation (folded into the menu on a phone) and sign-out are there.
+    await athlete.getByRole("button", { name: "Menu" }).click();
     await athlete.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Plan shop" }).waitFor();
+    await athlete.getByRole("button", { name: "Menu" }).click();
     await athlete.getByRole("button", { name: "Sign out" }).waitFor();
     await shot(athlete, "shop-phone");
     await athlete.getByRole("link", { name: /Spring build for sale/ }).click();
