@@ -110,3 +110,12 @@ export async function closeDb() {
 export function sqlDate(d: Date): string {
   return d.toISOString().replace("T", " ").replace("Z", " +00:00");
 }
+
+/**
+ * Locks one row until the transaction ends (SELECT … FOR UPDATE on PostgreSQL), so writers to the same plan, athlete
+ * or order take turns across every app instance. On SQLite a write transaction already holds the one write lock.
+ */
+export async function lockRow(table: "users" | "season_plans" | "orders", id: number, transaction: Transaction) {
+  if (dialect() !== "postgres") return;
+  await db().query(`SELECT id FROM ${table} WHERE id = ? FOR UPDATE`, { replacements: [id], transaction });
+}

@@ -1,7 +1,7 @@
 import fs from "node:fs/promises";
 import path from "node:path";
 import { Op, QueryTypes, type Transaction } from "sequelize";
-import { db, writeTransaction } from "../db";
+import { db, dialect, writeTransaction } from "../db";
 import { PlanItem, Session, SessionBlock } from "../models";
 import { describeIssues, EXPORT_FORMAT, exportSchema, sessionSchema, type SessionInput } from "~/lib/sessions";
 import { blockDuration, expandBlocks, type Block } from "~/lib/training";
@@ -55,7 +55,9 @@ export async function listSessions(ownerId: number, query: ShelfQuery = {}): Pro
   if (query.sport) where.sport = query.sport;
   if (query.q) {
     const like = `%${query.q.replace(/[%_]/g, (c) => `\\${c}`)}%`;
-    where[Op.or] = [{ name: { [Op.like]: like } }, { description: { [Op.like]: like } }, { tags: { [Op.like]: like } }];
+    // SQLite's LIKE ignores ASCII case; PostgreSQL's does not, ILIKE does.
+    const op = dialect() === "postgres" ? Op.iLike : Op.like;
+    where[Op.or] = [{ name: { [op]: like } }, { description: { [op]: like } }, { tags: { [op]: like } }];
   }
   const sessions = await Session.findAll({ where, order: [["name", "ASC"]] });
   const filtered = query.tag ? sessions.filter((s) => s.tags.includes(query.tag!.toLowerCase())) : sessions;
