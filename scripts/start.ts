@@ -2,8 +2,8 @@ import type { Server } from "node:http";
 import { closeDb } from "../app/.server/db";
 import { env } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
-import { startMailer } from "../app/.server/mail";
-import { startRetestReminders } from "../app/.server/services/retests";
+import { startMailer, stopMailer } from "../app/.server/mail";
+import { startRetestReminders, stopRetestReminders } from "../app/.server/services/retests";
 import { migrateAndSeed } from "../db/migrator";
 import { DEMO_ACCOUNTS } from "../db/demo/accounts";
 import { buildIfNeeded } from "./build-if-needed";
@@ -14,7 +14,9 @@ process.env.MIGRATE_QUIET ??= "1";
 
 async function main() {
   const e = env();
-  await migrateAndSeed({ seed: process.env.PACEWRIGHT_SEED !== "off" });
+  // With several instances, one release step runs `npm run db:migrate` and the instances start with
+  // PACEWRIGHT_MIGRATE=off; if they do migrate, an advisory lock on PostgreSQL lets one at a time do it.
+  if (process.env.PACEWRIGHT_MIGRATE !== "off") await migrateAndSeed({ seed: process.env.PACEWRIGHT_SEED !== "off" });
   const fakes = await startFakes();
   startMailer();
   startRetestReminders();
@@ -41,8 +43,14 @@ async function main() {
     for (const a of DEMO_ACCOUNTS.people) console.log(`    ${a.role.padEnd(8)} ${a.email.padEnd(30)} ${a.name}`);
   }
 
+  // Graceful: stop taking requests, let those in flight finish, stop the background jobs after their current run
+  // (claimed e-mail is sent and marked), then close the database. A load balancer sees /healthz fail meanwhile.
   const stop = async () => {
-    server.close();
+    const closed = new Promise<void>((resolve) => server.close(() => resolve()));
+    server.closeIdleConnections?.();
+    stopRetestReminders();
+    await Promise.race([closed, new Promise((r) => setTimeout(r, 10_000))]);
+    await stopMailer();
     await fakes.close();
     await closeDb();
     process.exit(0);
