@@ -1,20 +1,22 @@
 import { closeDb } from "../app/.server/db";
-import { migrator, seeder } from "./migrator";
+import { migrator, seeder, withMigrationLock } from "./migrator";
 
 const [command, arg] = process.argv.slice(2);
 
 async function main() {
   switch (command) {
     case "up":
-      await migrator().up();
+      await withMigrationLock(() => migrator().up());
       break;
     case "down":
       // One step back by default; `down all` undoes every migration.
       await migrator().down(arg === "all" ? { to: 0 } : undefined);
       break;
     case "seed":
-      await migrator().up();
-      await seeder().up();
+      await withMigrationLock(async () => {
+        await migrator().up();
+        await seeder().up();
+      });
       break;
     case "status": {
       const pending = await migrator().pending();

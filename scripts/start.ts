@@ -4,8 +4,8 @@ import { closeActivityPool } from "../app/.server/services/activity-pool";
 import { startLimitCleanup } from "../app/.server/security/rate-limits";
 import { env, resetEnvCache } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
-import { startMailer } from "../app/.server/mail";
-import { startRetestReminders } from "../app/.server/services/retests";
+import { startMailer, stopMailer } from "../app/.server/mail";
+import { startRetestReminders, stopRetestReminders } from "../app/.server/services/retests";
 import { migrateAndSeed } from "../db/migrator";
 import { DEMO_ACCOUNTS } from "../db/demo/accounts";
 import { buildIfNeeded } from "./build-if-needed";
@@ -22,7 +22,9 @@ async function main() {
   const e = env();
   // Demo accounts share a published password: they are seeded only where the demo doors are open.
   const seed = process.env.PACEWRIGHT_SEED ? process.env.PACEWRIGHT_SEED !== "off" : e.fakes;
-  await migrateAndSeed({ seed });
+  // With several instances, one release step runs `npm run db:migrate` and the instances start with
+  // PACEWRIGHT_MIGRATE=off; if they do migrate, an advisory lock on PostgreSQL lets one at a time do it.
+  if (process.env.PACEWRIGHT_MIGRATE !== "off") await migrateAndSeed({ seed });
   const fakes = await startFakes();
   startMailer();
   startRetestReminders();
@@ -51,8 +53,14 @@ async function main() {
     for (const a of DEMO_ACCOUNTS.people) console.log(`    ${a.role.padEnd(8)} ${a.email.padEnd(30)} ${a.name}`);
   }
 
+  // Graceful: stop taking requests, let those in flight finish, stop the background jobs after their current run
+  // (claimed e-mail is sent and marked), then close the database. A load balancer sees /healthz fail meanwhile.
   const stop = async () => {
-    server.close();
+    const closed = new Promise<void>((resolve) => server.close(() => resolve()));
+    server.closeIdleConnections?.();
+    stopRetestReminders();
+    await Promise.race([closed, new Promise((r) => setTimeout(r, 10_000))]);
+    await stopMailer();
     await fakes.close();
     await closeActivityPool();
     await closeDb();

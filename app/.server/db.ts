@@ -1,15 +1,38 @@
 import { AsyncLocalStorage } from "node:async_hooks";
 import fs from "node:fs";
 import path from "node:path";
+import pg from "pg";
 import { Sequelize, Transaction, type Options } from "sequelize";
 import { env } from "./env";
+
+export type Dialect = "sqlite" | "postgres";
+
+/** Which database this process runs on: PostgreSQL when DATABASE_URL is set, else the SQLite file. */
+export function dialect(): Dialect {
+  return env().databaseUrl ? "postgres" : "sqlite";
+}
 
 declare global {
   // One instance per process, also across dev-server reloads.
   var __pacewrightDb: Sequelize | undefined;
 }
 
+// COUNT(*) and SUM over integers come back as int8, which pg leaves as strings; every count here fits a double.
+pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v));
+
+function createPostgres(url: string): Sequelize {
+  return new Sequelize(url, {
+    dialect: "postgres",
+    dialectModule: pg,
+    logging: process.env.SQL_LOG === "1" ? console.log : false,
+    define: { underscored: true, timestamps: true },
+    pool: { max: Number(process.env.DATABASE_POOL_MAX ?? 10), min: 0, idle: 10_000, acquire: 30_000 },
+  } as Options);
+}
+
 function createSequelize(): Sequelize {
+  const url = env().databaseUrl;
+  if (url) return createPostgres(url);
   const file = env().databasePath;
   fs.mkdirSync(path.dirname(file), { recursive: true });
   const sequelize = new Sequelize({
@@ -62,6 +85,11 @@ export function writeTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise
   if (inWrite.getStore()) {
     return Promise.reject(new Error("writeTransaction was called inside another one; pass the outer transaction down instead."));
   }
+  if (dialect() === "postgres") {
+    // PostgreSQL serialises conflicting writers itself, across every instance: row locks (see lockRow) and the
+    // version checks decide, not this process's order of arrival.
+    return inWrite.run(true, () => db().transaction(fn));
+  }
   const run = () => inWrite.run(true, () => db().transaction({ type: Transaction.TYPES.IMMEDIATE }, fn));
   const result = writeQueue.then(run, run);
   writeQueue = result.catch(() => undefined);
@@ -75,7 +103,19 @@ export async function closeDb() {
   }
 }
 
-/** The text form Sequelize stores DATE columns in on SQLite, for raw SQL that must compare with them. */
+/**
+ * The text form Sequelize stores DATE columns in on SQLite, for raw SQL that must compare with them. PostgreSQL
+ * reads the same text as a timestamptz literal, so the value binds on both.
+ */
 export function sqlDate(d: Date): string {
   return d.toISOString().replace("T", " ").replace("Z", " +00:00");
+}
+
+/**
+ * Locks one row until the transaction ends (SELECT … FOR UPDATE on PostgreSQL), so writers to the same plan, athlete
+ * or order take turns across every app instance. On SQLite a write transaction already holds the one write lock.
+ */
+export async function lockRow(table: "users" | "season_plans" | "orders", id: number, transaction: Transaction) {
+  if (dialect() !== "postgres") return;
+  await db().query(`SELECT id FROM ${table} WHERE id = ? FOR UPDATE`, { replacements: [id], transaction });
 }

@@ -10,6 +10,8 @@ export interface Env {
   port: number;
   appUrl: string;
   databasePath: string;
+  /** postgres://… (or postgres:///db?host=/socket/dir): run on PostgreSQL instead of the SQLite file. */
+  databaseUrl: string | null;
   sessionSecret: string;
   smtpUrl: string | null;
   smtpCatcherPort: number;
@@ -48,6 +50,7 @@ export function env(): Env {
     port,
     appUrl: (e.APP_URL ?? `http://localhost:${port}`).replace(/\/$/, ""),
     databasePath: path.resolve(e.DATABASE_PATH ?? "db/data/pacewright.sqlite"),
+    databaseUrl: e.DATABASE_URL?.trim() || null,
     sessionSecret: sessionSecret || "pacewright-local-development-secret-not-for-production",
     smtpUrl,
     smtpCatcherPort: Number(e.SMTP_CATCHER_PORT ?? 2525),

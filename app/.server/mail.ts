@@ -1,7 +1,8 @@
 import fs from "node:fs/promises";
 import path from "node:path";
 import nodemailer, { type Transporter } from "nodemailer";
-import { Op, type Transaction } from "sequelize";
+import { Op, QueryTypes, type Transaction } from "sequelize";
+import { db, dialect } from "./db";
 import { env } from "./env";
 import { OutboundEmail } from "./models";
 
@@ -82,21 +83,46 @@ export function resetTransport() {
   transporter = null;
 }
 
-/** Sends every message that is due. Each row is claimed first, so two senders never deliver one twice. */
-export async function deliverPending(limit = 25): Promise<{ sent: number; failed: number }> {
+/**
+ * Claims up to `limit` due messages for this sender. On PostgreSQL one statement takes them with FOR UPDATE SKIP
+ * LOCKED, so several app instances split the outbox without waiting on each other and never take one row twice.
+ * On SQLite each row is claimed by a conditional update (the attempts count acts as a version).
+ */
+async function claimDue(limit: number): Promise<{ mail: OutboundEmail; attempts: number }[]> {
+  if (dialect() === "postgres") {
+    const rows = await db().query<{ id: number }>(
+      `UPDATE outbound_emails SET attempts = attempts + 1,
+         next_attempt_at = NOW() + make_interval(secs => LEAST(3600, 10 * POWER(2, attempts)))
+       WHERE id IN (SELECT id FROM outbound_emails WHERE status = 'pending' AND next_attempt_at <= NOW()
+                    ORDER BY id LIMIT :limit FOR UPDATE SKIP LOCKED)
+       RETURNING id`,
+      { replacements: { limit }, type: QueryTypes.SELECT },
+    );
+    if (!rows.length) return [];
+    const mails = await OutboundEmail.findAll({ where: { id: rows.map((r) => r.id) }, order: [["id", "ASC"]] });
+    return mails.map((mail) => ({ mail, attempts: mail.attempts }));
+  }
   const due = await OutboundEmail.findAll({
     where: { status: "pending", nextAttemptAt: { [Op.lte]: new Date() } },
     order: [["id", "ASC"]],
     limit,
   });
-  let sent = 0;
-  let failed = 0;
+  const claimed: { mail: OutboundEmail; attempts: number }[] = [];
   for (const mail of due) {
-    const [claimed] = await OutboundEmail.update(
+    const [n] = await OutboundEmail.update(
       { attempts: mail.attempts + 1, nextAttemptAt: new Date(Date.now() + backoffMs(mail.attempts + 1)) },
       { where: { id: mail.id, status: "pending", attempts: mail.attempts } },
     );
-    if (claimed !== 1) continue;
+    if (n === 1) claimed.push({ mail, attempts: mail.attempts + 1 });
+  }
+  return claimed;
+}
+
+/** Sends every message that is due. Each row is claimed first, so two senders never deliver one twice. */
+export async function deliverPending(limit = 25): Promise<{ sent: number; failed: number }> {
+  let sent = 0;
+  let failed = 0;
+  for (const { mail, attempts } of await claimDue(limit)) {
     try {
       const info = await transport().sendMail({
         from: env().mailFrom,
@@ -112,7 +138,6 @@ export async function deliverPending(limit = 25): Promise<{ sent: number; failed
       sent++;
     } catch (err) {
       failed++;
-      const attempts = mail.attempts + 1;
       await OutboundEmail.update(
         { lastError: String((err as Error).message ?? err), status: attempts >= MAX_ATTEMPTS ? "failed" : "pending" },
         { where: { id: mail.id } },
@@ -158,6 +183,16 @@ export function startMailer(intervalMs = 5_000) {
   globalThis.__pacewrightMailer.timer = setInterval(runOnce, intervalMs);
   globalThis.__pacewrightMailer.timer.unref();
   void runOnce();
+}
+
+/** Stops the sender and waits for a delivery run in progress, so a shutting-down instance leaves no row half-sent. */
+export async function stopMailer(timeoutMs = 15_000) {
+  const state = globalThis.__pacewrightMailer;
+  if (!state) return;
+  if (state.timer) clearInterval(state.timer);
+  state.timer = null;
+  const until = Date.now() + timeoutMs;
+  while (state.busy && Date.now() < until) await new Promise((r) => setTimeout(r, 50));
 }
 
 export function kickMailer() {

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { caseInsensitiveText, dropInsertGuard, insertGuard, isPostgres, uniqueLower } from "../portable";
 
 const timestamps = {
   created_at: { type: DataTypes.DATE, allowNull: false },
@@ -9,8 +10,9 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.createTable("users", {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
     role: { type: DataTypes.STRING(16), allowNull: false },
-    // Stored lower-cased; NOCASE keeps the unique index case-insensitive even for rows written by hand.
-    email: { type: "TEXT COLLATE NOCASE", allowNull: false, unique: true },
+    // Stored lower-cased; NOCASE (SQLite) or a lower() unique index (PostgreSQL) keeps it unique whatever the case,
+    // even for rows written by hand.
+    email: { type: caseInsensitiveText(qi), allowNull: false, unique: !isPostgres(qi) },
     password_hash: { type: DataTypes.STRING, allowNull: false },
     name: { type: DataTypes.STRING(120), allowNull: false },
     timezone: { type: DataTypes.STRING(64), allowNull: false, defaultValue: "UTC" },
@@ -21,9 +23,8 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     max_hr: { type: DataTypes.INTEGER, allowNull: true },
     ...timestamps,
   });
-  await qi.sequelize.query(
-    "CREATE TRIGGER users_role_check BEFORE INSERT ON users WHEN NEW.role NOT IN ('admin','coach','athlete') BEGIN SELECT RAISE(ABORT, 'invalid role'); END;",
-  );
+  await uniqueLower(qi, "users", "email");
+  await insertGuard(qi, "users_role_check", "users", "NEW.role NOT IN ('admin','coach','athlete')", "invalid role");
 
   await qi.createTable("auth_sessions", {
     // SHA-256 of the cookie's random id: a copied database does not hand out live sessions.
@@ -67,7 +68,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
       references: { model: "users", key: "id" },
       onDelete: "CASCADE",
     },
-    email: { type: "TEXT COLLATE NOCASE", allowNull: false },
+    email: { type: caseInsensitiveText(qi), allowNull: false },
     name: { type: DataTypes.STRING(120), allowNull: true },
     token_hash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
     expires_at: { type: DataTypes.DATE, allowNull: false },
@@ -115,7 +116,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 
   await qi.createTable("login_failures", {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    email: { type: "TEXT COLLATE NOCASE", allowNull: false },
+    email: { type: caseInsensitiveText(qi), allowNull: false },
     created_at: { type: DataTypes.DATE, allowNull: false },
   });
   await qi.addIndex("login_failures", ["email", "created_at"]);
@@ -128,6 +129,6 @@ export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.dropTable("invitations");
   await qi.dropTable("coach_athletes");
   await qi.dropTable("auth_sessions");
-  await qi.sequelize.query("DROP TRIGGER IF EXISTS users_role_check");
+  await dropInsertGuard(qi, "users_role_check", "users");
   await qi.dropTable("users");
 }

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropInsertGuard, insertGuard } from "../portable";
 
 const timestamps = {
   created_at: { type: DataTypes.DATE, allowNull: false },
@@ -98,13 +99,11 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.addIndex("plan_items", ["week_id", "day", "position"], { unique: true });
   await qi.addIndex("plan_items", ["plan_id"]);
   await qi.addIndex("plan_items", ["source_session_id"]);
-  await qi.sequelize.query(
-    "CREATE TRIGGER plan_items_day_check BEFORE INSERT ON plan_items WHEN NEW.day NOT BETWEEN 0 AND 6 BEGIN SELECT RAISE(ABORT, 'day must be 0-6'); END;",
-  );
+  await insertGuard(qi, "plan_items_day_check", "plan_items", "NEW.day NOT BETWEEN 0 AND 6", "day must be 0-6");
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.sequelize.query("DROP TRIGGER IF EXISTS plan_items_day_check");
+  await dropInsertGuard(qi, "plan_items_day_check", "plan_items");
   await qi.dropTable("plan_items");
   await qi.dropTable("plan_recurrences");
   await qi.dropTable("plan_weeks");

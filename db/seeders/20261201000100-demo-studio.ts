@@ -13,7 +13,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
       const extra = p as Partial<{ sex: string; weightKg: number; restingHr: number; maxHr: number }>;
       await sequelize.query(
         `INSERT INTO users (role, email, password_hash, name, timezone, units, sex, weight_kg, resting_hr, max_hr, created_at, updated_at)
-         VALUES (?, ?, ?, ?, ?, 'metric', ?, ?, ?, ?, ?, ?) ON CONFLICT(email) DO NOTHING`,
+         VALUES (?, ?, ?, ?, ?, 'metric', ?, ?, ?, ?, ?, ?) ON CONFLICT DO NOTHING`,
         {
           replacements: [p.role, p.email, hash, p.name, p.timezone, extra.sex ?? null, extra.weightKg ?? null, extra.restingHr ?? null, extra.maxHr ?? null, now, now],
           transaction,

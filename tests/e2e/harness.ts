@@ -31,6 +31,8 @@ export interface RunningApp {
   baseUrl: string;
   dir: string;
   env: Record<string, string>;
+  /** The server process, for tests that kill an instance mid-write. */
+  child: ChildProcess;
   stop(): Promise<void>;
 }
 
@@ -76,6 +78,7 @@ export async function startApp(extraEnv: Record<string, string> = {}): Promise<R
     baseUrl,
     dir,
     env,
+    child,
     stop: async () => {
       if (child.exitCode === null) {
         child.kill("SIGTERM");

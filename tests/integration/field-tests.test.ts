@@ -14,6 +14,7 @@ import * as uploads from "~/routes/api/uploads";
 import { resolveTarget } from "~/lib/training";
 import { toCsv, toFit, toGpx, twentyMinuteTestRide } from "../../db/demo/rides";
 import { getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { injectUpdateFault } from "./schema";
 
 const BASE = "http://localhost:3999";
 const READY = { answers: ["no", "no", "no", "no", "no"], stopSignsRead: true };
@@ -153,11 +154,11 @@ describe("field test → rescale", () => {
     const counts = async () => [await FieldTest.count(), await Threshold.count(), await RescaleReport.count(), await OutboundEmail.count()];
     const c0 = await counts();
     // Fault injection in the database itself: the sessions update (after blocks were rewritten) aborts.
-    await db().query(`CREATE TRIGGER fault_injection BEFORE UPDATE OF feed_sequence ON scheduled_sessions WHEN NEW.athlete_id = ${athlete.id} BEGIN SELECT RAISE(ABORT, 'injected fault'); END;`);
+    const removeFault = await injectUpdateFault("fault_injection", "scheduled_sessions", "feed_sequence", `NEW.athlete_id = ${athlete.id}`, "injected fault");
     try {
       await expect(save({ protocol: "twenty_minute", inputs: { meanW: "310" }, testedOn: "2026-11-20", readiness: READY, confirmed: true }, cookie)).rejects.toThrow();
     } finally {
-      await db().query("DROP TRIGGER fault_injection");
+      await removeFault();
     }
     expect(await snapshot()).toEqual(before);
     expect(await counts()).toEqual(c0);

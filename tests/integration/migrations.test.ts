@@ -1,11 +1,12 @@
 import { QueryTypes } from "sequelize";
 import { describe, expect, it } from "vitest";
-import { db } from "~/.server/db";
+import { db, dialect } from "~/.server/db";
+import { tableNames } from "./schema";
 import { migrator, seeder } from "../../db/migrator";
 import { DEMO_ACCOUNTS } from "../../db/demo/accounts";
 
-const tables = async () =>
-  (await db().query<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%'", { type: QueryTypes.SELECT })).map((r) => r.name);
+const tables = tableNames;
+const T = "'2026-01-01 00:00:00.000 +00:00'";
 
 describe("migrations and demo data", () => {
   it("runs every migration down and up again", async () => {
@@ -18,18 +19,20 @@ describe("migrations and demo data", () => {
     expect(await tables()).toEqual(expect.arrayContaining(["users", "auth_sessions", "coach_athletes", "invitations", "password_resets", "outbound_emails"]));
   });
 
-  it("uses WAL, enforces foreign keys, and keeps e-mail unique whatever its case", async () => {
-    const [mode] = await db().query<{ journal_mode: string }>("PRAGMA journal_mode", { type: QueryTypes.SELECT });
-    expect(mode.journal_mode).toBe("wal");
+  it("uses WAL (SQLite), enforces foreign keys, and keeps e-mail unique whatever its case", async () => {
+    if (dialect() === "sqlite") {
+      const [mode] = await db().query<{ journal_mode: string }>("PRAGMA journal_mode", { type: QueryTypes.SELECT });
+      expect(mode.journal_mode).toBe("wal");
+    }
     await expect(
-      db().query("INSERT INTO coach_athletes (coach_id, athlete_id, created_at, updated_at) VALUES (999999, 999998, 'x', 'x')"),
-    ).rejects.toThrow(/FOREIGN KEY/);
-    await db().query("INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'Case@Example.test', 'h', 'n', 'UTC', 'metric', 'x', 'x')");
+      db().query(`INSERT INTO coach_athletes (coach_id, athlete_id, created_at, updated_at) VALUES (999999, 999998, ${T}, ${T})`),
+    ).rejects.toThrow(/FOREIGN KEY/i);
+    await db().query(`INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'Case@Example.test', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`);
     await expect(
-      db().query("INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'case@example.TEST', 'h', 'n', 'UTC', 'metric', 'x', 'x')"),
+      db().query(`INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'case@example.TEST', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`),
     ).rejects.toMatchObject({ name: "SequelizeUniqueConstraintError" });
     await expect(
-      db().query("INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('owner', 'role@example.test', 'h', 'n', 'UTC', 'metric', 'x', 'x')"),
+      db().query(`INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('owner', 'role@example.test', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`),
     ).rejects.toMatchObject({ original: expect.objectContaining({ message: expect.stringMatching(/invalid role/) }) });
   });
 

@@ -51,7 +51,9 @@ export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp)
   const shelfSession = op.op === "copy" ? await getSession(ownerId, op.sessionId) : null;
   if (op.op === "copy" && !shelfSession) throw new PlanError("That session is not on your shelf.", 404);
   return writeTransaction(async (transaction) => {
-    const plan = await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction });
+    // The plan row lock queues concurrent board changes to one plan on PostgreSQL, across instances; the version
+    // check then sees every earlier change.
+    const plan = await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction, lock: transaction.LOCK.UPDATE });
     if (!plan) throw new PlanError("No plan with this id is yours.", 404);
     if (op.version !== undefined && op.version !== plan.version) throw new StaleBoardError(plan.version);
     let touchedItem: number | null = null;

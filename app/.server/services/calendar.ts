@@ -1,5 +1,5 @@
 import { Op, QueryTypes } from "sequelize";
-import { db, writeTransaction } from "../db";
+import { db, lockRow, writeTransaction } from "../db";
 import { forbidden, notFound } from "../http";
 import { ScheduledBlock, ScheduledSession, User } from "../models";
 import { coachHasAthlete } from "./accounts";
@@ -66,8 +66,8 @@ export async function calendarRange(athleteId: number, from: string, to: string)
   // Plain SQL: building a model instance per step costs several times the query itself.
   const blocks = sessions.length
     ? await db().query<ScheduledBlock>(
-        `SELECT scheduled_session_id AS scheduledSessionId, position, block_index AS blockIndex, kind, part, rep, rep_count AS repCount,
-                duration_s AS durationS, metric, low_pct AS lowPct, high_pct AS highPct, ramp, low_abs AS lowAbs, high_abs AS highAbs, unit, cue
+        `SELECT scheduled_session_id AS "scheduledSessionId", position, block_index AS "blockIndex", kind, part, rep, rep_count AS "repCount",
+                duration_s AS "durationS", metric, low_pct AS "lowPct", high_pct AS "highPct", ramp, low_abs AS "lowAbs", high_abs AS "highAbs", unit, cue
          FROM scheduled_blocks WHERE scheduled_session_id IN (SELECT id FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled')
          ORDER BY scheduled_session_id, position`,
         { replacements: [athleteId, from, to], type: QueryTypes.SELECT },
@@ -124,6 +124,8 @@ export class CalendarError extends Error {
  */
 export async function moveSession(athleteId: number, id: number, date: string) {
   return writeTransaction(async (transaction) => {
+    // Re-resolved from the thresholds: a rescale of this athlete and this move take turns (PostgreSQL row lock).
+    await lockRow("users", athleteId, transaction);
     const session = await ScheduledSession.findOne({ where: { id, athleteId }, transaction });
     if (!session) throw new CalendarError("That session is not on this calendar.", 404);
     if (session.status !== "planned") throw new CalendarError("Only planned sessions can be moved; this one is already done or skipped.");
@@ -149,6 +151,8 @@ function resolveOne(b: ScheduledBlock, history: Awaited<ReturnType<typeof thresh
 
 export async function completeSession(athleteId: number, id: number, input: { status: "done" | "skipped" | "planned"; effortScore: number | null; minutes: number | null; comment: string }) {
   return writeTransaction(async (transaction) => {
+    // A rescale changes only planned sessions: a completion must not slip in between its read and its write.
+    await lockRow("users", athleteId, transaction);
     const session = await ScheduledSession.findOne({ where: { id, athleteId }, transaction });
     if (!session) throw new CalendarError("That session is not on this calendar.", 404);
     if (session.status === "cancelled") throw new CalendarError("This session was removed from the plan.");

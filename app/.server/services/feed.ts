@@ -98,8 +98,8 @@ async function stepsFor(sessionIds: number[]) {
   const map = new Map<number, StepView[]>();
   if (!sessionIds.length) return map;
   const rows = await db().query<StepView & { scheduledSessionId: number }>(
-    `SELECT scheduled_session_id AS scheduledSessionId, position, block_index AS blockIndex, kind, part, rep, rep_count AS repCount, duration_s AS durationS,
-            metric, low_pct AS lowPct, high_pct AS highPct, ramp, low_abs AS lowAbs, high_abs AS highAbs, unit, cue
+    `SELECT scheduled_session_id AS "scheduledSessionId", position, block_index AS "blockIndex", kind, part, rep, rep_count AS "repCount", duration_s AS "durationS",
+            metric, low_pct AS "lowPct", high_pct AS "highPct", ramp, low_abs AS "lowAbs", high_abs AS "highAbs", unit, cue
      FROM scheduled_blocks WHERE scheduled_session_id IN (:ids) ORDER BY scheduled_session_id, position`,
     { replacements: { ids: sessionIds }, type: QueryTypes.SELECT },
   );

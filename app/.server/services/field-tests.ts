@@ -1,6 +1,6 @@
 import { Op } from "sequelize";
 import { z } from "zod";
-import { writeTransaction } from "../db";
+import { lockRow, writeTransaction } from "../db";
 import { env } from "../env";
 import { queueEmail } from "../mail";
 import { CoachAthlete, FieldTest, RescaleReport, Threshold, Upload, User } from "../models";
@@ -233,7 +233,9 @@ export async function saveTest(
   }
   const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
   return writeTransaction(async (transaction) => {
-    // Checked inside the write lock, so two copies of one submission cannot both pass it.
+    // Checked inside the write lock (and, on PostgreSQL, the athlete's row lock), so two copies of one submission
+    // cannot both pass it and two tests of one athlete rescale in turn, whichever instance they reach.
+    await lockRow("users", athlete.id, transaction);
     if (body.requestKey) {
       const earlier = await FieldTest.findOne({ where: { requestKey: body.requestKey }, transaction });
       if (earlier) {
@@ -308,6 +310,7 @@ export async function saveTest(
 export async function undoTest(athlete: User, by: User, testId: number) {
   const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
   return writeTransaction(async (transaction) => {
+    await lockRow("users", athlete.id, transaction);
     const test = await FieldTest.findOne({ where: { id: testId, athleteId: athlete.id }, transaction });
     if (!test) throw new TestError("No such test for this athlete.", 404);
     if (test.status === "undone") throw new TestError("This test was already removed.");

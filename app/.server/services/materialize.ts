@@ -1,5 +1,5 @@
 import { Op, type InferCreationAttributes, type Transaction } from "sequelize";
-import { writeTransaction } from "../db";
+import { lockRow, writeTransaction } from "../db";
 import { Assignment, CoachAthlete, PlanItem, PlanWeek, ScheduledBlock, ScheduledSession, SeasonPlan, User } from "../models";
 import { applyPlacementChoice, checkPlacement, needsChoice, type PlacementChoice, type PlacementEntry, type PlacementReport } from "./placement";
 import { thresholdHistory, thresholdOn, thresholdSport, unitFor, type ThresholdRow } from "./thresholds";
@@ -164,6 +164,8 @@ export async function planEntries(planId: number, start: string, transaction?: T
  */
 export async function materialize(planId: number, athlete: User, start: string, opts: { assignedBy: number | null; transaction: Transaction }) {
   const { transaction } = opts;
+  // Targets are resolved from the athlete's thresholds: a rescale of the same athlete waits for this, or this for it.
+  await lockRow("users", athlete.id, transaction);
   const plan = await SeasonPlan.findByPk(planId, { transaction });
   if (!plan) throw new AssignError("That plan no longer exists.", 404);
   const assignment = await Assignment.create({ athleteId: athlete.id, planId, assignedBy: opts.assignedBy, startDate: start, planVersion: plan.version }, { transaction });
@@ -224,6 +226,7 @@ export async function pushPlanChanges(coach: User, planId: number) {
     if (!athlete) continue;
     const today = todayIn(athlete.timezone);
     await writeTransaction(async (transaction) => {
+      await lockRow("users", athlete.id, transaction);
       const entries = await planItems(planId, transaction);
       const history = await thresholdHistory(athlete.id, transaction);
       const future = await ScheduledSession.findAll({ where: { assignmentId: assignment.id, status: "planned", date: { [Op.gte]: today } }, transaction });

@@ -88,18 +88,24 @@ const idOf = (v: string | { id: string } | null | undefined) => (typeof v === "s
 const when = (d: Date) => `${d.toISOString().slice(0, 16).replace("T", " ")} UTC`;
 const money = (cents: number | null | undefined, currency: string | null | undefined) => (cents == null ? "nothing" : formatPrice(cents, (currency ?? "EUR").toUpperCase()));
 
+/**
+ * Every write that reads an order locks its row (FOR UPDATE on PostgreSQL; SQLite has a single writer), so events,
+ * refunds and reviews of one order take turns across every app instance and each sees the last one's result.
+ */
+const locked = (transaction: Transaction) => ({ transaction, lock: transaction.LOCK.UPDATE });
+
 async function findOrder(type: string, o: Obj, transaction: Transaction) {
   const byMeta = Number(o.metadata?.orderId);
   if (Number.isInteger(byMeta) && byMeta > 0) {
-    const order = await Order.findByPk(byMeta, { transaction });
+    const order = await Order.findByPk(byMeta, locked(transaction));
     if (order) return order;
   }
   if (type.startsWith("checkout.session.") && o.id) {
-    const order = await Order.findOne({ where: { checkoutSessionId: o.id }, transaction });
+    const order = await Order.findOne({ where: { checkoutSessionId: o.id }, ...locked(transaction) });
     if (order) return order;
   }
   const pi = type.startsWith("payment_intent.") ? (o.id ?? null) : idOf(o.payment_intent);
-  return pi ? Order.findOne({ where: { paymentIntentId: pi }, transaction }) : null;
+  return pi ? Order.findOne({ where: { paymentIntentId: pi }, ...locked(transaction) }) : null;
 }
 
 interface Change {
@@ -325,7 +331,7 @@ async function tellSeller(order: Order, transaction: Transaction): Promise<strin
 }
 
 async function ownedOrder(by: User, orderId: number, transaction?: Transaction) {
-  const order = Number.isInteger(orderId) && orderId > 0 ? await Order.findByPk(orderId, { transaction }) : null;
+  const order = Number.isInteger(orderId) && orderId > 0 ? await Order.findByPk(orderId, transaction ? locked(transaction) : {}) : null;
   const listing = order ? await Listing.findByPk(order.listingId, { transaction }) : null;
   if (!order || !listing || (by.role !== "admin" && listing.coachId !== by.id)) throw new OrderError("No such order among your sales.", 404);
   return order;
@@ -354,7 +360,7 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
     throw new OrderError(`The payment provider refused the refund: ${(err as Error).message}. Nothing changed.`, 502);
   }
   return writeTransaction(async (transaction) => {
-    const order = (await Order.findByPk(claim.order.id, { transaction }))!;
+    const order = (await Order.findByPk(claim.order.id, locked(transaction)))!;
     const change = factsFrom(order, "refund.created", { id: refund.id, amount: refund.amount, status: refund.status ?? "succeeded" }, new Date());
     if (order.reviewReason) change.patch.reviewReason = null;
     await settle(order, change, transaction, `Refunded by ${by.name}.`);

@@ -1,6 +1,6 @@
 import rrule from "rrule";
 import { literal, Op, QueryTypes, type Transaction } from "sequelize";
-import { db, writeTransaction } from "../db";
+import { db, dialect, writeTransaction } from "../db";
 import { PlanItem, PlanRecurrence, PlanWeek, SeasonPlan } from "../models";
 import { getSession } from "./sessions";
 import { defaultTestFor } from "~/lib/protocols";
@@ -73,7 +73,9 @@ export async function createPlan(ownerId: number, input: NewPlanInput): Promise<
 }
 
 export async function requirePlan(ownerId: number, planId: number, transaction?: Transaction): Promise<SeasonPlan> {
-  const plan = Number.isInteger(planId) && planId > 0 ? await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction }) : null;
+  // Inside a write the plan row is locked (PostgreSQL; SQLite has one writer anyway), so concurrent changes to one
+  // plan queue on the database, whichever instance they arrive at.
+  const plan = Number.isInteger(planId) && planId > 0 ? await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction, lock: transaction ? transaction.LOCK.UPDATE : undefined }) : null;
   if (!plan) throw new PlanError("No plan with this id is yours.", 404);
   return plan;
 }
@@ -148,17 +150,16 @@ export async function listPlans(ownerId: number) {
     `SELECT p.id, p.name, p.sport, p.start_date, p.event_date, p.updated_at,
             (SELECT COUNT(*) FROM plan_weeks w WHERE w.plan_id = p.id) AS weeks,
             (SELECT COUNT(*) FROM plan_items i WHERE i.plan_id = p.id) AS sessions,
-            (SELECT GROUP_CONCAT(phase, ',') FROM (SELECT phase FROM plan_weeks w WHERE w.plan_id = p.id ORDER BY idx)) AS phases,
+            ${dialect() === "postgres" ? "(SELECT string_agg(phase, ',' ORDER BY idx) FROM plan_weeks w WHERE w.plan_id = p.id)" : "(SELECT GROUP_CONCAT(phase, ',') FROM (SELECT phase FROM plan_weeks w WHERE w.plan_id = p.id ORDER BY idx))"} AS phases,
             ${(await tableExists("assignments")) ? "(SELECT COUNT(DISTINCT athlete_id) FROM assignments a WHERE a.plan_id = p.id)" : "0"} AS athletes,
-            ${(await tableExists("listings")) ? "(SELECT COUNT(*) FROM listings l WHERE l.plan_id = p.id AND l.published = 1)" : "0"} AS listed
-     FROM season_plans p WHERE p.owner_id = ? ORDER BY p.updated_at DESC`,
-    { replacements: [ownerId], type: QueryTypes.SELECT },
+            ${(await tableExists("listings")) ? "(SELECT COUNT(*) FROM listings l WHERE l.plan_id = p.id AND l.published = :published)" : "0"} AS listed
+     FROM season_plans p WHERE p.owner_id = :ownerId ORDER BY p.updated_at DESC`,
+    { replacements: { ownerId, published: true }, type: QueryTypes.SELECT },
   );
 }
 
 async function tableExists(name: string) {
-  const rows = await db().query("SELECT 1 FROM sqlite_master WHERE type = 'table' AND name = ?", { replacements: [name], type: QueryTypes.SELECT });
-  return rows.length > 0;
+  return db().getQueryInterface().tableExists(name);
 }
 
 /** Every change to a plan's weeks or items moves its version on; the board sends the version it was drawn from. */

@@ -1,5 +1,5 @@
 import { QueryTypes, type Transaction } from "sequelize";
-import { db, sqlDate } from "../db";
+import { db, dialect, sqlDate } from "../db";
 import { RescaleReport, Threshold } from "../models";
 import { stepTarget } from "~/lib/schedule-text";
 
@@ -13,9 +13,21 @@ const SCOPE = `
   WHERE b.athlete_id = :athleteId AND b.sport = :sport AND b.metric = :metric AND b.low_pct IS NOT NULL
     AND b.date >= :from AND (:until IS NULL OR b.date < :until) AND s.status = 'planned'`;
 
-/** pct × threshold / 100 for power and heart rate, threshold ÷ (pct / 100) for pace (pct of speed); ROUND as in JS. */
-const RESOLVE = (col: "low_pct" | "high_pct", table = "") =>
-  `CASE WHEN ${table}metric = 'pace' THEN CAST(ROUND(:value / (${table}${col} / 100.0)) AS INTEGER) ELSE CAST(ROUND(${table}${col} * :value / 100.0) AS INTEGER) END`;
+/**
+ * pct × threshold / 100 for power and heart rate, threshold ÷ (pct / 100) for pace (pct of speed), rounded as JS
+ * Math.round rounds these positive values. SQLite computes in doubles and its ROUND adds 0.5 and truncates. On
+ * PostgreSQL the same doubles are forced (a bare 100.0 is numeric there) and FLOOR(x + 0.5) replaces ROUND, whose
+ * float8 form rounds halves to even (180.5 → 180, one watt off).
+ */
+const RESOLVE = (col: "low_pct" | "high_pct", table = "") => {
+  if (dialect() === "postgres") {
+    const value = "CAST(:value AS DOUBLE PRECISION)";
+    const pct = `CAST(${table}${col} AS DOUBLE PRECISION)`;
+    const hundred = "CAST(100 AS DOUBLE PRECISION)";
+    return `CASE WHEN ${table}metric = 'pace' THEN CAST(FLOOR(${value} / (${pct} / ${hundred}) + 0.5) AS INTEGER) ELSE CAST(FLOOR(${pct} * ${value} / ${hundred} + 0.5) AS INTEGER) END`;
+  }
+  return `CASE WHEN ${table}metric = 'pace' THEN CAST(ROUND(:value / (${table}${col} / 100.0)) AS INTEGER) ELSE CAST(ROUND(${table}${col} * :value / 100.0) AS INTEGER) END`;
+};
 
 async function nextThresholdAfter(athleteId: number, sport: string, metric: string, from: string, transaction: Transaction) {
   const [row] = await db().query<{ d: string | null }>(
@@ -44,7 +56,8 @@ export async function countScope(p: { athleteId: number; sport: string; metric: 
 export async function examplesFor(p: { athleteId: number; sport: string; metric: string; from: string; value: number; unit: string }, transaction?: Transaction) {
   const until = await nextThresholdAfter(p.athleteId, p.sport, p.metric, p.from, transaction!);
   // The first three sessions in scope come off the (athlete, date) index; only their steps are ranked.
-  const first = await db().query<{ id: number }>(`SELECT DISTINCT s.id, s.date ${SCOPE} ORDER BY b.date LIMIT 3`, { replacements: { ...p, until }, type: QueryTypes.SELECT, transaction });
+  // PostgreSQL wants the ORDER BY of a DISTINCT in its select list; a block's date is its session's date.
+  const first = await db().query<{ id: number }>(`SELECT DISTINCT s.id, ${dialect() === "postgres" ? "b.date" : "s.date"} ${SCOPE} ORDER BY b.date LIMIT 3`, { replacements: { ...p, until }, type: QueryTypes.SELECT, transaction });
   if (first.length === 0) return [];
   const rows = await db().query<{ date: string; name: string; metric: string; low_pct: number; high_pct: number; low_abs: number | null; high_abs: number | null; unit: string | null; ramp: number; new_low: number; new_high: number }>(
     `SELECT date, name, metric, low_pct, high_pct, low_abs, high_abs, unit, ramp, new_low, new_high FROM (
@@ -52,7 +65,7 @@ export async function examplesFor(p: { athleteId: number; sport: string; metric:
               ${RESOLVE("low_pct", "b.")} AS new_low,
               ${RESOLVE("high_pct", "b.")} AS new_high,
               ROW_NUMBER() OVER (PARTITION BY s.id ORDER BY b.high_pct DESC, b.position) AS rn
-       ${SCOPE} AND s.id IN (:ids)) WHERE rn = 1 ORDER BY date`,
+       ${SCOPE} AND s.id IN (:ids)) ranked WHERE rn = 1 ORDER BY date`,
     { replacements: { ...p, until, ids: first.map((f) => f.id) }, type: QueryTypes.SELECT, transaction },
   );
   return rows.map((r) => {

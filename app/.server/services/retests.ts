@@ -76,6 +76,11 @@ export function startRetestReminders() {
   schedule();
 }
 
+export function stopRetestReminders() {
+  if (globalThis.__pacewrightReminders) clearTimeout(globalThis.__pacewrightReminders);
+  globalThis.__pacewrightReminders = undefined;
+}
+
 export async function coachIdsOf(athleteId: number) {
   return (await CoachAthlete.findAll({ where: { athleteId } })).map((l) => l.coachId);
 }

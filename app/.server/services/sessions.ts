@@ -1,7 +1,7 @@
 import fs from "node:fs/promises";
 import path from "node:path";
 import { literal, Op, QueryTypes, type Transaction } from "sequelize";
-import { db, writeTransaction } from "../db";
+import { db, dialect, writeTransaction } from "../db";
 import { PlanItem, Session, SessionBlock } from "../models";
 import { describeIssues, EXPORT_FORMAT, exportSchema, sessionSchema, type SessionInput } from "~/lib/sessions";
 import { blockDuration, expandBlocks, type Block } from "~/lib/training";
@@ -56,9 +56,10 @@ export async function listSessions(ownerId: number, query: ShelfQuery = {}): Pro
   let replacements: Record<string, string> | undefined;
   if (query.q) {
     // `%`, `_` and the escape character itself are matched literally; LIKE honours the backslash only with an
-    // explicit ESCAPE clause (SQLite and PostgreSQL alike).
+    // explicit ESCAPE clause (SQLite and PostgreSQL alike). SQLite's LIKE ignores ASCII case; on PostgreSQL ILIKE does.
     replacements = { like: `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` };
-    where[Op.and] = [literal(`(name LIKE :like ESCAPE '\\' OR description LIKE :like ESCAPE '\\' OR tags LIKE :like ESCAPE '\\')`)];
+    const like = dialect() === "postgres" ? "ILIKE" : "LIKE";
+    where[Op.and] = [literal(`(name ${like} :like ESCAPE '\\' OR description ${like} :like ESCAPE '\\' OR tags ${like} :like ESCAPE '\\')`)];
   }
   const sessions = await Session.findAll({ where, order: [["name", "ASC"]], replacements });
   const filtered = query.tag ? sessions.filter((s) => s.tags.includes(query.tag!.toLowerCase())) : sessions;
