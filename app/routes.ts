@@ -19,6 +19,8 @@ export default [
   route("api/athletes/:id/load", "routes/api/athlete-load.ts"),
   route("api/shop", "routes/api/shop.ts"),
   route("webhooks/payments", "routes/webhooks/payments.ts"),
+  route("athlete/sessions/:id/pacing", "routes/pacing-print.tsx"),
+  route("coach/athletes/:athleteId/sessions/:sessionId/pacing", "routes/pacing-print.tsx", { id: "coach-pacing-print" }),
   layout("routes/shop/layout.tsx", [
     route("shop", "routes/shop/index.tsx"),
     route("shop/orders/:orderId", "routes/shop/order.tsx"),

@@ -92,6 +92,7 @@ export class ScheduledSession extends Model<InferAttributes<ScheduledSession>, I
   declare zoneMinutes: CreationOptional<string | null>;
   declare targetedS: CreationOptional<number | null>;
   declare inTargetS: CreationOptional<number | null>;
+  declare pacingSplit: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -123,6 +124,7 @@ ScheduledSession.init(
     zoneMinutes: { type: DataTypes.TEXT, allowNull: true },
     targetedS: { type: DataTypes.INTEGER, allowNull: true },
     inTargetS: { type: DataTypes.INTEGER, allowNull: true },
+    pacingSplit: { type: DataTypes.TEXT, allowNull: true },
     ...ts,
   },
   { sequelize: db(), tableName: "scheduled_sessions" },

@@ -12,6 +12,7 @@ import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockBands, blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
 import type { BandSet, BandSetKey } from "~/lib/training";
 import { bandOwnerId, bandSetsFor, bandSetsStamp } from "./bands";
+import { pacingPlansFor, pacingText } from "./pacing";
 
 export const FEED_WEEKS_BACK = 8;
 export const FEED_DAYS_AHEAD = 365;
@@ -100,7 +101,7 @@ async function stepsFor(sessionIds: number[]) {
 }
 
 /** Each block's line with its % of threshold and its intensity band, in the athlete's (their coach's) band set. */
-function description(s: { name: string; sport: string; testProtocol: string | null; notes: string }, steps: StepView[], link: string, sets: Record<BandSetKey, BandSet>) {
+function description(s: { name: string; sport: string; testProtocol: string | null; notes: string }, steps: StepView[], link: string, sets: Record<BandSetKey, BandSet>, pacing: string | null = null) {
   const bands = new Map(blockBands(steps, s.sport, sets).map((b) => [b.blockIndex, b.name]));
   const lines = blockLines(steps).map((l) => {
     const first = steps.find((x) => x.blockIndex === l.blockIndex && x.part !== "recovery");
@@ -112,6 +113,7 @@ function description(s: { name: string; sport: string; testProtocol: string | nu
   if (s.testProtocol) {
     const p = PROTOCOLS[s.testProtocol as ProtocolKey];
     parts.push(`FIELD TEST: ${p?.instructions ?? ""}\nAnswer the readiness questions in Pacewright first. Stop at once at ${READINESS.stopSigns.join(", ")}. ${READINESS.stopAdvice}`);
+    if (pacing) parts.push(pacing);
   }
   if (s.notes) parts.push(s.notes);
   parts.push(`Open in Pacewright: ${link}`);
@@ -131,6 +133,7 @@ export async function buildFeed(owner: User, now = new Date()) {
   const sessions = await sessionsFor(athletes.map((a) => a.id), addDays(today, -FEED_WEEKS_BACK * 7), addDays(today, FEED_DAYS_AHEAD), { keyOnly: isCoach });
   const steps = await stepsFor(sessions.map((s) => s.id));
   const bandSets = new Map(await Promise.all(athletes.map(async (a) => [a.id, await bandSetsFor(a)] as const)));
+  const pacing = await pacingPlansFor(sessions);
   const cal = ical({
     name: oneLine(isCoach ? `Pacewright · ${owner.name}'s athletes` : `Pacewright · ${owner.name}`),
     description: isCoach ? "Field tests and key sessions of your athletes" : "Your training plan with your own targets",
@@ -152,7 +155,7 @@ export async function buildFeed(owner: User, now = new Date()) {
     const base = {
       id: `session-${s.id}@pacewright`,
       summary,
-      description: description({ name: s.name, sport: s.sport, testProtocol: s.testProtocol, notes: s.notes }, mySteps, link, bandSets.get(athlete.id)!),
+      description: description({ name: s.name, sport: s.sport, testProtocol: s.testProtocol, notes: s.notes }, mySteps, link, bandSets.get(athlete.id)!, pacingText(pacing.get(s.id))),
       sequence: s.feedSequence,
       lastModified: modified,
       stamp: modified,

@@ -5,13 +5,15 @@ import { requireRole } from "~/.server/auth";
 import { completeFromForm, sessionPageData } from "~/.server/services/session-page";
 import { attachRide, LoadError } from "~/.server/services/load";
 import { AttachRide } from "~/components/calendar/attach-ride";
+import { lapFromSearch } from "~/.server/services/pacing";
+import { PacingCard, pacingQuery } from "~/components/pacing-plan";
 import type { Route } from "./+types/session";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session.name ?? "Session"} · Pacewright` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const athlete = await requireRole(request, "athlete");
-  return sessionPageData(athlete, Number(params.id));
+  return sessionPageData(athlete, Number(params.id), { lap: lapFromSearch(new URL(request.url)) });
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -41,8 +43,14 @@ export default function AthleteSession({ loaderData }: Route.ComponentProps) {
         / {loaderData.session.name}
       </p>
       <PageHeader title={loaderData.session.name} />
+      {loaderData.pacing && (
+        <div className="mb-6">
+          <PacingCard data={loaderData.pacing} printHref={`/athlete/sessions/${loaderData.session.id}/pacing${pacingQuery(loaderData.pacing.lap)}`} canEditSplit={false} />
+        </div>
+      )}
       <SessionDetail data={loaderData} canComplete />
       {loaderData.session.status === "planned" && loaderData.session.sport === "bike" && <AttachRide />}
     </>
   );
 }
+

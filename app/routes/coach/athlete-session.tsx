@@ -1,9 +1,11 @@
-import { Link } from "react-router";
+import { data, Link } from "react-router";
 import { SessionDetail } from "~/components/calendar/session-detail";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { calendarSubject } from "~/.server/services/calendar";
 import { sessionPageData } from "~/.server/services/session-page";
+import { lapFromSearch, PacingError, savePacingSplit } from "~/.server/services/pacing";
+import { PacingCard, pacingQuery } from "~/components/pacing-plan";
 import type { Route } from "./+types/athlete-session";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session.name ?? "Session"} · Pacewright` }];
@@ -11,7 +13,23 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   const athlete = await calendarSubject(coach, params.athleteId);
-  return { athleteId: athlete.id, athleteName: athlete.name, ...(await sessionPageData(athlete, Number(params.sessionId))) };
+  return { athleteId: athlete.id, athleteName: athlete.name, ...(await sessionPageData(athlete, Number(params.sessionId), { lap: lapFromSearch(new URL(request.url)) })) };
+}
+
+/** The coach sets this test's pacing split. */
+export async function action({ request, params }: Route.ActionArgs) {
+  const coach = await requireRole(request, "coach");
+  const athlete = await calendarSubject(coach, params.athleteId);
+  const form = await request.formData();
+  if (form.get("intent") !== "pacing-split") return data({ ok: false, message: "Unknown action." }, { status: 400 });
+  try {
+    const reset = form.get("reset") === "1";
+    const r = await savePacingSplit(athlete.id, Number(params.sessionId), { split: form.getAll("split").map(String), reset });
+    return { ok: true, message: r.custom ? `Split saved: ${r.split.join(" / ")} %.` : "Back to the usual split." };
+  } catch (err) {
+    if (err instanceof PacingError) return data({ ok: false, message: err.message }, { status: err.status });
+    throw err;
+  }
 }
 
 export default function CoachAthleteSession({ loaderData }: Route.ComponentProps) {
@@ -24,6 +42,11 @@ export default function CoachAthleteSession({ loaderData }: Route.ComponentProps
         / {loaderData.session.name}
       </p>
       <PageHeader title={loaderData.session.name} />
+      {loaderData.pacing && (
+        <div className="mb-6">
+          <PacingCard data={loaderData.pacing} printHref={`/coach/athletes/${loaderData.athleteId}/sessions/${loaderData.session.id}/pacing${pacingQuery(loaderData.pacing.lap)}`} canEditSplit={loaderData.session.status === "planned"} />
+        </div>
+      )}
       <SessionDetail data={loaderData} canComplete={false} />
     </>
   );
