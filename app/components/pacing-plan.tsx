@@ -40,7 +40,7 @@ export function PacingChart({ plan, ridden }: { plan: PacingPlan; ridden?: numbe
       {plan.segments.map((s, k) => (
         <g key={k}>
           <rect x={x(s.startS) + 1} y={y(s.targetW)} width={x(s.durationS) - 2} height={H - 16 - y(s.targetW)} fill="#1F5F5B" fillOpacity={0.35 + (0.5 * k) / Math.max(1, plan.segments.length - 1)} rx={2} />
-          <text x={x(s.startS + s.durationS / 2)} y={y(s.targetW) - 3} textAnchor="middle" fontSize={10} fill="#1B2330">
+          <text x={x(s.startS + s.durationS / 2)} y={y(s.targetW) + 13} textAnchor="middle" fontSize={10} fontWeight={600} fill={k === 0 ? "#1B2330" : "#FFFFFF"}>
             {s.targetW} W
           </text>
           <text x={x(s.startS + s.durationS / 2)} y={H - 4} textAnchor="middle" fontSize={9} fill="#5b6472">
@@ -77,35 +77,23 @@ export function PacingSheet({ data, sessionName }: { data: PacingData; sessionNa
         )}
       </p>
       <PacingChart plan={plan} ridden={data.outcome?.segments.map((s) => s.riddenW)} />
-      <div className="overflow-x-auto">
-        <table className="num w-full text-sm" data-testid="pacing-segments">
-          <thead className="text-left text-xs text-ink-soft">
-            <tr>
-              <th className="py-1 pr-2 font-medium">Time</th>
-              <th className="py-1 pr-2 font-medium">Target</th>
-              <th className="py-1 pr-2 font-medium">Effort</th>
-              <th className="py-1 font-medium">How it should feel</th>
-            </tr>
-          </thead>
-          <tbody>
-            {plan.segments.map((s) => (
-              <tr key={s.index} className="border-t border-line align-top">
-                <td className="py-1.5 pr-2 whitespace-nowrap">
-                  {clock(s.startS)}–{clock(s.startS + s.durationS)}
-                </td>
-                <td className="py-1.5 pr-2 whitespace-nowrap">
-                  <strong>{s.targetW} W</strong>
-                  {plan.protocol !== "ramp" && <span className="block text-xs text-ink-soft">{s.pct} % of expected</span>}
-                </td>
-                <td className="py-1.5 pr-2 whitespace-nowrap">
-                  {s.effortScore} <span className="text-xs text-ink-soft">{EFFORT_WORDS[s.effortScore]}</span>
-                </td>
-                <td className="py-1.5">{s.cue}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-      </div>
+      <ol className="num flex flex-col text-sm" data-testid="pacing-segments">
+        {plan.segments.map((s) => (
+          <li key={s.index} className="grid grid-cols-[5.5rem_1fr] gap-x-3 gap-y-0.5 border-t border-line py-1.5 sm:grid-cols-[6rem_7.5rem_9rem_1fr]" data-testid="segment">
+            <span className="whitespace-nowrap">
+              {clock(s.startS)}–{clock(s.startS + s.durationS)}
+            </span>
+            <span className="whitespace-nowrap">
+              <strong data-testid="segment-target">{s.targetW} W</strong>
+              {plan.protocol !== "ramp" && <span className="ml-1 text-xs text-ink-soft sm:ml-0 sm:block">{s.pct} % of expected</span>}
+            </span>
+            <span className="whitespace-nowrap max-sm:col-start-2">
+              effort {s.effortScore} <span className="text-xs text-ink-soft">{EFFORT_WORDS[s.effortScore]}</span>
+            </span>
+            <span className="max-sm:col-span-2">{s.cue}</span>
+          </li>
+        ))}
+      </ol>
       {plan.laps && (
         <div className="overflow-x-auto">
           <p className="text-sm">
