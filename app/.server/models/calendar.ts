@@ -19,6 +19,7 @@ export class Threshold extends Model<InferAttributes<Threshold>, InferCreationAt
   declare effectiveFrom: string;
   declare source: string;
   declare fieldTestId: CreationOptional<number | null>;
+  declare sourceTests: CreationOptional<string | null>;
   declare createdBy: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -34,6 +35,7 @@ Threshold.init(
     effectiveFrom: { type: DataTypes.DATEONLY, allowNull: false },
     source: { type: DataTypes.STRING(16), allowNull: false },
     fieldTestId: { type: DataTypes.INTEGER, allowNull: true },
+    sourceTests: { type: DataTypes.TEXT, allowNull: true },
     createdBy: { type: DataTypes.INTEGER, allowNull: true },
     ...ts,
   },

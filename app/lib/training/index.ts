@@ -143,3 +143,4 @@ export {
   type PlanComparison,
   type PlanVerdict,
 } from "./pacing";
+export { crossCheck, checkPairWindow, CROSS_CHECK_DAYS, AGREE_PCT, ROUGHLY_PCT, type CrossCheck, type Agreement } from "./crosscheck";
