@@ -50,6 +50,7 @@ function summarize(activity: Activity) {
     ramp,
     curve: hasPower ? powerCurve(samples) : [],
     histograms: activityHistograms(activity),
+    laps: meta.laps ?? null,
   };
 }
 

@@ -144,3 +144,5 @@ export {
   type PlanVerdict,
 } from "./pacing";
 export { crossCheck, checkPairWindow, CROSS_CHECK_DAYS, AGREE_PCT, ROUGHLY_PCT, type CrossCheck, type Agreement } from "./crosscheck";
+export { trainingPaces, type TrainingPaces } from "./running";
+export { lapTable, lapsFromSplits, normaliseLaps, wPrimeBalance, bandLoad, type LapMark, type LapRow, type WPrimeBalance } from "./ride";
