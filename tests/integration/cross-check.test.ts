@@ -14,6 +14,22 @@ async function scenario() {
   return { coach, athlete, cookie: await signIn(athlete.email), coachCookie: await signIn(coach.email) };
 }
 
+describe("running paces on the athlete's tests page", () => {
+  it("a race gives the five training paces, each as % of threshold speed", async () => {
+    const { athlete, cookie } = await scenario();
+    // 10 km in 40:00 → running index ≈ 51.9 (Daniels–Gilbert).
+    await saveTest(athlete, athlete, { protocol: "run_race", inputs: { distanceM: 10000, time: "40:00" }, testedOn: "2026-11-01", readiness: READY });
+    const page = payloadOf(await run(tests.loader, getRequest("/athlete/tests", cookie)));
+    const paces = page.runningPaces;
+    expect(paces.index).toBeCloseTo(51.9, 0);
+    expect(paces.rows.map((r: { key: string }) => r.key)).toEqual(["easy", "marathon", "threshold", "interval", "repetition"]);
+    const t = paces.rows.find((r: { key: string }) => r.key === "threshold");
+    expect(t.lowPct).toBe(100);
+    expect(paces.rows.find((r: { key: string }) => r.key === "interval").lowPct).toBeGreaterThan(100);
+    expect(paces.rows.find((r: { key: string }) => r.key === "easy").lowPct).toBeLessThan(85);
+  });
+});
+
 describe("cross-check between two tests within 14 days", () => {
   it("shows both estimates, and the mean chosen becomes the threshold recording both tests", async () => {
     const { athlete, cookie } = await scenario();

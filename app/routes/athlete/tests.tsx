@@ -12,6 +12,8 @@ import { bandTable, formatThreshold as show } from "~/lib/band-table";
 import { bandSetKeyFor, type Metric } from "~/lib/training";
 import { applyCrossCheck, crossChecksFor } from "~/.server/services/cross-check";
 import { CrossCheckCard } from "~/components/cross-check";
+import { runningPacesFor } from "~/.server/services/running-paces";
+import { RunningPacesCard } from "~/components/running-paces";
 import type { Route } from "./+types/tests";
 
 export const meta: Route.MetaFunction = () => [{ title: "Field tests · Pacewright" }];
@@ -23,7 +25,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   for (const t of history.thresholds) latest.set(`${t.sport}:${t.metric}`, t);
   const sets = await bandSetsFor(athlete);
   const zones = [...latest.values()].flatMap((t) => bandTable(t, sets[bandSetKeyFor(t.sport, t.metric as Metric)]) ?? []);
-  return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, ...history, current: [...latest.values()], zones, crossChecks: await crossChecksFor(athlete.id) };
+  return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, ...history, current: [...latest.values()], zones, crossChecks: await crossChecksFor(athlete.id), runningPaces: await runningPacesFor(athlete.id) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -173,6 +175,7 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
               {current.length === 0 && <li className="text-ink-soft">None yet.</li>}
             </ul>
           </Card>
+          {loaderData.runningPaces && <RunningPacesCard paces={loaderData.runningPaces} />}
           {zones.map((z) => (
             <BandTable key={z.key} table={z} />
           ))}
