@@ -40,7 +40,7 @@ export function PacingChart({ plan, ridden }: { plan: PacingPlan; ridden?: numbe
       {plan.segments.map((s, k) => (
         <g key={k}>
           <rect x={x(s.startS) + 1} y={y(s.targetW)} width={x(s.durationS) - 2} height={H - 16 - y(s.targetW)} fill="#1F5F5B" fillOpacity={0.35 + (0.5 * k) / Math.max(1, plan.segments.length - 1)} rx={2} />
-          <text x={x(s.startS + s.durationS / 2)} y={y(s.targetW) + 13} textAnchor="middle" fontSize={10} fontWeight={600} fill={k === 0 ? "#1B2330" : "#FFFFFF"}>
+          <text x={x(s.startS + s.durationS / 2)} y={H - 21} textAnchor="middle" fontSize={10} fontWeight={600} fill={k === 0 ? "#1B2330" : "#FFFFFF"}>
             {s.targetW} W
           </text>
           <text x={x(s.startS + s.durationS / 2)} y={H - 4} textAnchor="middle" fontSize={9} fill="#5b6472">
@@ -79,7 +79,7 @@ export function PacingSheet({ data, sessionName }: { data: PacingData; sessionNa
       <PacingChart plan={plan} ridden={data.outcome?.segments.map((s) => s.riddenW)} />
       <ol className="num flex flex-col text-sm" data-testid="pacing-segments">
         {plan.segments.map((s) => (
-          <li key={s.index} className="grid grid-cols-[5.5rem_1fr] gap-x-3 gap-y-0.5 border-t border-line py-1.5 sm:grid-cols-[6rem_7.5rem_9rem_1fr]" data-testid="segment">
+          <li key={s.index} className="grid grid-cols-[5.5rem_1fr] gap-x-3 gap-y-0.5 border-t border-line py-1.5 sm:grid-cols-[6rem_7.5rem_11rem_1fr]" data-testid="segment">
             <span className="whitespace-nowrap">
               {clock(s.startS)}–{clock(s.startS + s.durationS)}
             </span>

@@ -10,8 +10,10 @@ export function RideChart({ trace, splitsS, onSplit, wPrimeKj }: { trace: Point[
   const data = trace.map((p) => ({ min: Math.round((p.t / 60) * 100) / 100, power: p.power, hr: p.hr, wbal: p.wbalKj }));
   const last = data.at(-1)?.min ?? 0;
   const click = (e: unknown) => {
-    const label = (e as { activeLabel?: number | string } | null)?.activeLabel;
-    if (onSplit && label !== undefined) onSplit(Math.round(Number(label) * 60));
+    const state = e as { activeLabel?: number | string; activeTooltipIndex?: number | string } | null;
+    const index = state?.activeTooltipIndex !== undefined ? Number(state.activeTooltipIndex) : NaN;
+    const minute = state?.activeLabel !== undefined ? Number(state.activeLabel) : data[index]?.min;
+    if (onSplit && minute !== undefined && Number.isFinite(minute)) onSplit(Math.round(minute * 60));
   };
   return (
     <div className="flex flex-col gap-1">

@@ -103,4 +103,48 @@ describe.skipIf(!enabled)("test day: plan the effort, print it, ride it, see it 
     await shot(page, "pacing-outcome-phone");
     await ctx.close();
   });
+
+  it("the ride page marks laps on the trace, shows the lap table, and hands the data back as CSV", async () => {
+    const ctx = await env.browser.newContext({ viewport: { width: 1280, height: 900 }, deviceScaleFactor: 1 });
+    const page = await ctx.newPage();
+    await signInAs(page, env.app.baseUrl, RIDER, "harbour-line-demo");
+    await page.waitForURL(`${env.app.baseUrl}/athlete`);
+    await page.goto(`${env.app.baseUrl}/athlete/uploads`);
+    await ready(page);
+    await page.getByRole("link", { name: "test-day.csv" }).first().click();
+    await page.waitForURL(/\/athlete\/uploads\/\d+$/);
+    await ready(page);
+    await page.getByLabel(/Lap splits/).fill("15:00, 35:00");
+    await page.getByRole("button", { name: "Save laps" }).click();
+    const table = page.getByTestId("lap-table");
+    await table.waitFor();
+    await page.getByText("Laps saved.").waitFor();
+    expect(await table.locator("tbody tr").count()).toBe(3);
+    // Clicking the trace adds a fourth split.
+    const box = (await page.locator(".recharts-surface").first().boundingBox())!;
+    await page.mouse.move(box.x + box.width * 0.85, box.y + box.height / 2);
+    await page.locator(".recharts-tooltip-wrapper").first().getByText(/min/).waitFor();
+    await page.mouse.down();
+    await page.mouse.up();
+    await page.waitForFunction(() => ((document.querySelector("input[name=splits]") as HTMLInputElement | null)?.value.split(",").length ?? 0) === 3);
+    expect((await page.getByLabel(/Lap splits/).inputValue()).split(",").length).toBe(3);
+    await page.getByLabel("Effort score of lap 2").fill("9");
+    await page.getByRole("button", { name: "Save laps" }).click();
+    await page.waitForFunction(() => document.querySelectorAll("[data-testid=lap-table] tbody tr").length === 4);
+    await page.getByTestId("band-load").waitFor();
+    const csvHref = await page.getByRole("link", { name: "1 Hz data (CSV)" }).getAttribute("href");
+    const res = await page.request.get(`${env.app.baseUrl}${csvHref}`);
+    expect(res.status()).toBe(200);
+    expect((await res.text()).split("\n")[0].trim()).toBe("time_s,power_w,heart_rate_bpm,cadence_rpm,speed_mps,distance_m");
+    await shot(page, "ride-desktop");
+    const phone = await env.browser.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 1, storageState: await ctx.storageState() });
+    const small = await phone.newPage();
+    await small.goto(page.url());
+    await ready(small);
+    await small.getByTestId("lap-table").waitFor();
+    expect(await small.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    await shot(small, "ride-phone");
+    await phone.close();
+    await ctx.close();
+  });
 });
