@@ -95,10 +95,9 @@ export async function applyCrossCheck(athlete: User, by: User, input: { aId: num
     throw new TestError(`${guard.headline} Read the likely reasons and confirm the change to save it.`, 409, "confirm");
   }
   return writeTransaction(async (transaction) => {
-    const { report, threshold } = await applyThreshold(
-      { athleteId: athlete.id, sport, metric, value, unit: first.unit, from, fieldTestId: (picked ?? second).id, createdBy: by.id },
-      transaction,
-    );
+    // No single field test owns this threshold (sourceTests names them), so undoing one test keeps to its own
+    // rescale report and never picks up this one.
+    const { report, threshold } = await applyThreshold({ athleteId: athlete.id, sport, metric, value, unit: first.unit, from, fieldTestId: null, createdBy: by.id }, transaction);
     await threshold.update({ source: "cross_check", sourceTests: JSON.stringify({ pair: [first.id, second.id], choice, tests: picked ? [picked.id] : [first.id, second.id] }) }, { transaction });
     await report.update(
       { guard: { flagged: guard.flagged, changePct: guard.changePct, headline: guard.headline, reasons: guard.reasons }, confirmedBy: guard.flagged ? by.id : null, confirmedAt: guard.flagged ? new Date() : null },
