@@ -20,17 +20,17 @@ export function RunningPacesCard({ paces }: { paces: RunningPacesView }) {
       <table className="num mt-2 w-full text-sm">
         <thead className="text-left text-xs text-ink-soft">
           <tr>
-            <th className="py-1 font-medium">Pace</th>
-            <th className="py-1 font-medium">per km</th>
-            <th className="py-1 font-medium">Target</th>
+            <th className="py-1 pr-2 font-medium">Pace</th>
+            <th className="py-1 pr-2 font-medium">per km</th>
+            <th className="py-1 font-medium">% of threshold speed</th>
           </tr>
         </thead>
         <tbody>
           {paces.rows.map((r) => (
             <tr key={r.key} className="border-t border-line">
-              <td className="py-1">{r.name}</td>
-              <td className="py-1">{r.slowS === r.fastS ? pace(r.slowS) : `${pace(r.slowS)}–${pace(r.fastS)}`}</td>
-              <td className="py-1">{r.lowPct === r.highPct ? `${r.lowPct} %` : `${r.lowPct}–${r.highPct} %`} of threshold speed</td>
+              <td className="py-1 pr-2">{r.name}</td>
+              <td className="py-1 pr-2 whitespace-nowrap">{r.slowS === r.fastS ? pace(r.slowS) : `${pace(r.slowS)}–${pace(r.fastS)}`}</td>
+              <td className="py-1 whitespace-nowrap">{r.lowPct === r.highPct ? `${r.lowPct} %` : `${r.lowPct}–${r.highPct} %`}</td>
             </tr>
           ))}
         </tbody>

@@ -93,8 +93,8 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
           <FormMessage tone={undo.data.ok ? "ok" : "error"}>{undo.data.message}</FormMessage>
         </div>
       )}
-      <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
-        <div className="flex flex-col gap-6">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
+        <div className="flex min-w-0 flex-col gap-6">
           <Card>
             <div className="flex flex-wrap items-center justify-between gap-2">
               <h2 className="font-semibold">Threshold history</h2>
