@@ -37,8 +37,10 @@ export function RideChart({ trace, splitsS, onSplit, wPrimeKj }: { trace: Point[
           <ResponsiveContainer width="100%" height="100%">
             <ComposedChart data={data} margin={{ top: 4, right: 8, bottom: 0, left: -16 }}>
               <XAxis dataKey="min" type="number" domain={[0, last]} tick={{ fontSize: 11 }} unit=" min" />
-              <YAxis tick={{ fontSize: 11 }} domain={[0, Math.ceil(wPrimeKj)]} unit=" kJ" />
-              <Area dataKey="wbal" type="stepAfter" stroke="#1B2330" fill="#B5523B" fillOpacity={0.18} isAnimationActive={false} dot={false} name="W′ balance (kJ)" />
+              <YAxis yAxisId="kj" tick={{ fontSize: 11 }} domain={[0, Math.ceil(wPrimeKj)]} unit=" kJ" />
+              {/* An empty right axis as wide as the heart-rate axis above keeps both plots on one time scale. */}
+              <YAxis yAxisId="pad" orientation="right" tick={false} axisLine={false} tickLine={false} />
+              <Area yAxisId="kj" dataKey="wbal" type="stepAfter" stroke="#1B2330" fill="#B5523B" fillOpacity={0.18} isAnimationActive={false} dot={false} name="W′ balance (kJ)" />
               <Tooltip formatter={(v) => [`${Number(v).toFixed(1)} kJ`, "W′ balance"]} labelFormatter={(l) => `${l} min`} />
             </ComposedChart>
           </ResponsiveContainer>

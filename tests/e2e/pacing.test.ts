@@ -109,11 +109,21 @@ describe.skipIf(!enabled)("test day: plan the effort, print it, ride it, see it 
     const page = await ctx.newPage();
     await signInAs(page, env.app.baseUrl, RIDER, "harbour-line-demo");
     await page.waitForURL(`${env.app.baseUrl}/athlete`);
+    // A critical power and W′ (3 min at 380 W, 12 min at 290 W → CP 260 W, W′ 21.6 kJ) put W′ balance under the trace.
+    const yesterday = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
+    const cp = await page.request.post(`${env.app.baseUrl}/athlete/tests/new`, {
+      data: { protocol: "critical_power", inputs: { efforts: [{ duration: "3:00", meanW: 380 }, { duration: "12:00", meanW: 290 }] }, testedOn: yesterday, readiness: { answers: ["no", "no", "no", "no", "no"], stopSignsRead: true }, confirmed: true },
+      headers: { Origin: env.app.baseUrl },
+      maxRedirects: 0,
+    });
+    expect(cp.status()).toBeLessThan(400);
     await page.goto(`${env.app.baseUrl}/athlete/uploads`);
     await ready(page);
     await page.getByRole("link", { name: "test-day.csv" }).first().click();
     await page.waitForURL(/\/athlete\/uploads\/\d+$/);
     await ready(page);
+    await page.getByTestId("wbal-chart").waitFor();
+    await page.getByTestId("wbal-note").getByText(/critical power 260 W and W′ 21\.6 kJ/).waitFor();
     await page.getByLabel(/Lap splits/).fill("15:00, 35:00");
     await page.getByRole("button", { name: "Save laps" }).click();
     const table = page.getByTestId("lap-table");
