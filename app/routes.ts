@@ -20,6 +20,9 @@ export default [
   route("api/athletes/:id/load", "routes/api/athlete-load.ts"),
   route("api/shop", "routes/api/shop.ts"),
   route("webhooks/payments", "routes/webhooks/payments.ts"),
+  route("athlete/sessions/:id/pacing", "routes/pacing-print.tsx"),
+  route("api/rides/:id/:file?", "routes/api/ride.ts"),
+  route("coach/athletes/:athleteId/sessions/:sessionId/pacing", "routes/pacing-print.tsx", { id: "coach-pacing-print" }),
   layout("routes/shop/layout.tsx", [
     route("shop", "routes/shop/index.tsx"),
     route("shop/orders/:orderId", "routes/shop/order.tsx"),
@@ -48,6 +51,8 @@ export default [
     route("athlete/tests", "routes/athlete/tests.tsx"),
     route("athlete/tests/new", "routes/athlete/test-new.tsx"),
     route("athlete/uploads", "routes/athlete/uploads.tsx"),
+    route("athlete/uploads/:id", "routes/ride.tsx"),
+    route("coach/athletes/:athleteId/uploads/:id", "routes/ride.tsx", { id: "coach-ride" }),
     route("athlete/feed", "routes/athlete/feed.tsx"),
     route("athlete/load", "routes/athlete/load.tsx"),
     route("coach/athletes/:athleteId/load", "routes/athlete/load.tsx", { id: "coach-athlete-load" }),

@@ -99,8 +99,11 @@ ${points.join("\n")}
 `;
 }
 
-/** A FIT activity file written with a general-purpose FIT writer (file id, records, lap, session, activity). */
-export function toFit(samples: readonly RideSample[], start = new Date("2026-11-14T08:00:00Z")): Uint8Array {
+/**
+ * A FIT activity file written with a general-purpose FIT writer (file id, records, laps, session, activity).
+ * `lapStartsS` (seconds from the start, first 0) writes one lap message per lap; by default the ride is one lap.
+ */
+export function toFit(samples: readonly RideSample[], start = new Date("2026-11-14T08:00:00Z"), lapStartsS: readonly number[] = [0]): Uint8Array {
   const w = new FitWriter();
   const t0 = w.time(start);
   w.writeMessage("file_id", { type: "activity", manufacturer: "development", product: 0, serial_number: 1234, time_created: t0 }, null, true);
@@ -116,8 +119,11 @@ export function toFit(samples: readonly RideSample[], start = new Date("2026-11-
   });
   const end = t0 + (samples.at(-1)?.t ?? 0);
   const elapsed = samples.length;
-  w.writeMessage("lap", { timestamp: end, start_time: t0, total_elapsed_time: elapsed, total_timer_time: elapsed }, null, true);
-  w.writeMessage("session", { timestamp: end, start_time: t0, total_elapsed_time: elapsed, total_timer_time: elapsed, sport: "cycling", num_laps: 1, first_lap_index: 0 }, null, true);
+  lapStartsS.forEach((from, i) => {
+    const to = lapStartsS[i + 1] ?? elapsed;
+    w.writeMessage("lap", { timestamp: t0 + to, start_time: t0 + from, total_elapsed_time: to - from, total_timer_time: to - from }, null, i === lapStartsS.length - 1);
+  });
+  w.writeMessage("session", { timestamp: end, start_time: t0, total_elapsed_time: elapsed, total_timer_time: elapsed, sport: "cycling", num_laps: lapStartsS.length, first_lap_index: 0 }, null, true);
   w.writeMessage("activity", { timestamp: end, total_timer_time: elapsed, num_sessions: 1, type: "manual" }, null, true);
   const view = w.finish();
   return new Uint8Array(view.buffer.slice(view.byteOffset, view.byteOffset + view.byteLength));

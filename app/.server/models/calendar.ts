@@ -19,6 +19,7 @@ export class Threshold extends Model<InferAttributes<Threshold>, InferCreationAt
   declare effectiveFrom: string;
   declare source: string;
   declare fieldTestId: CreationOptional<number | null>;
+  declare sourceTests: CreationOptional<string | null>;
   declare createdBy: CreationOptional<number | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -34,6 +35,7 @@ Threshold.init(
     effectiveFrom: { type: DataTypes.DATEONLY, allowNull: false },
     source: { type: DataTypes.STRING(16), allowNull: false },
     fieldTestId: { type: DataTypes.INTEGER, allowNull: true },
+    sourceTests: { type: DataTypes.TEXT, allowNull: true },
     createdBy: { type: DataTypes.INTEGER, allowNull: true },
     ...ts,
   },
@@ -93,6 +95,7 @@ export class ScheduledSession extends Model<InferAttributes<ScheduledSession>, I
   declare zoneMinutes: CreationOptional<string | null>;
   declare targetedS: CreationOptional<number | null>;
   declare inTargetS: CreationOptional<number | null>;
+  declare pacingSplit: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -125,6 +128,7 @@ ScheduledSession.init(
     zoneMinutes: { type: DataTypes.TEXT, allowNull: true },
     targetedS: { type: DataTypes.INTEGER, allowNull: true },
     inTargetS: { type: DataTypes.INTEGER, allowNull: true },
+    pacingSplit: { type: DataTypes.TEXT, allowNull: true },
     ...ts,
   },
   { sequelize: db(), tableName: "scheduled_sessions" },

@@ -18,6 +18,7 @@ export class Upload extends Model<InferAttributes<Upload>, InferCreationAttribut
   declare size: number;
   declare storageKey: string;
   declare summary: unknown;
+  declare laps: CreationOptional<string | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
@@ -32,6 +33,7 @@ Upload.init(
     size: { type: DataTypes.INTEGER, allowNull: false },
     storageKey: { type: DataTypes.STRING(255), allowNull: false },
     summary: json("summary", "{}"),
+    laps: { type: DataTypes.TEXT, allowNull: true },
     ...ts,
   },
   { sequelize: db(), tableName: "uploads" },

@@ -14,6 +14,7 @@ import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockBands, blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
 import type { BandSet, BandSetKey } from "~/lib/training";
 import { bandOwnerId, bandSetsFor, bandSetsStamp } from "./bands";
+import { pacingPlansFor, pacingText } from "./pacing";
 
 export const FEED_WEEKS_BACK = 8;
 export const FEED_DAYS_AHEAD = 365;
@@ -148,6 +149,7 @@ function description(
   steps: StepView[],
   link: string,
   sets: Record<BandSetKey, BandSet>,
+  pacing: string | null = null,
 ) {
   const bands = new Map(blockBands(steps, s.sport, sets).map((b) => [b.blockIndex, b.name]));
   const lines = blockLines(steps).map((l) => {
@@ -160,6 +162,7 @@ function description(
   if (s.testProtocol) {
     const p = PROTOCOLS[s.testProtocol as ProtocolKey];
     parts.push(`FIELD TEST: ${p?.instructions ?? ""}\nAnswer the readiness questions in Pacewright first. Stop at once at ${READINESS.stopSigns.join(", ")}. ${READINESS.stopAdvice}`);
+    if (pacing) parts.push(pacing);
   }
   if (s.notes) parts.push(`Note from the coach: ${s.notes}`);
   parts.push(`Open in Pacewright: ${link}`);
@@ -179,6 +182,7 @@ export async function buildFeed(owner: User, now = new Date()) {
   const sessions = await sessionsFor(athletes.map((a) => a.id), addDays(today, -FEED_WEEKS_BACK * 7), addDays(today, FEED_DAYS_AHEAD), { keyOnly: isCoach });
   const steps = await stepsFor(sessions.map((s) => s.id));
   const bandSets = new Map(await Promise.all(athletes.map(async (a) => [a.id, await bandSetsFor(a)] as const)));
+  const pacing = await pacingPlansFor(sessions);
   const cal = ical({
     name: oneLine(isCoach ? `Pacewright · ${owner.name}'s athletes` : `Pacewright · ${owner.name}`),
     description: isCoach ? "Field tests and key sessions of your athletes" : "Your training plan with your own targets",
@@ -200,7 +204,7 @@ export async function buildFeed(owner: User, now = new Date()) {
     const base = {
       id: `session-${s.id}@pacewright`,
       summary,
-      description: description({ name: s.name, sport: s.sport, testProtocol: s.testProtocol, notes: s.notes, description: s.description, state: stateLine(s) }, mySteps, link, bandSets.get(athlete.id)!),
+      description: description({ name: s.name, sport: s.sport, testProtocol: s.testProtocol, notes: s.notes, description: s.description, state: stateLine(s) }, mySteps, link, bandSets.get(athlete.id)!, pacingText(pacing.get(s.id))),
       sequence: s.feedSequence,
       lastModified: modified,
       stamp: modified,

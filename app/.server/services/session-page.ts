@@ -13,12 +13,14 @@ import { parseForm } from "~/lib/forms";
 import { bandSetKeyFor, bandShade, minutesPerBand, type Metric } from "~/lib/training";
 import { bandTable } from "~/lib/band-table";
 import { blockBands } from "~/lib/schedule-text";
+import { isPacedProtocol } from "~/lib/training";
+import { pacingOutcome, pacingPlansFor } from "./pacing";
 
 /**
  * What a session page shows: the session, its steps, the band of each block, the athlete's band tables for the
  * metrics it uses (their coach's sets), and time in band from an attached ride file.
  */
-export async function sessionPageData(athlete: User, sessionId: number) {
+export async function sessionPageData(athlete: User, sessionId: number, opts: { lap?: { lengthM?: number | null; lapTimeS?: number | null } | null } = {}) {
   const found = await sessionDetail(athlete.id, sessionId);
   if (!found) notFound("No session with this id is on this calendar.");
   const { session, steps } = found;
@@ -48,7 +50,14 @@ export async function sessionPageData(athlete: User, sessionId: number) {
       timeInBand = minutesPerBand(hist, threshold.value, set).map((m, i) => ({ metric, name: set.bands[i].name, shade: bandShade(i, set.bands.length), minutes: Math.round(m * 10) / 10 }));
     }
   }
+  // A paced test's plan (with the loop the athlete entered, if any) and, once ridden, the file against it.
+  let pacing = null;
+  if (isPacedProtocol(session.testProtocol)) {
+    const view = (await pacingPlansFor([session], { lap: opts.lap, systemKg: athlete.weightKg ? athlete.weightKg + 9 : null })).get(session.id)!;
+    pacing = { ...view, outcome: await pacingOutcome(athlete, session, view.plan), lap: opts.lap ?? null };
+  }
   return {
+    pacing,
     session: {
       id: session.id,
       date: session.date,

@@ -71,6 +71,7 @@ export function summarize(activity: Activity) {
     ramp,
     curve: hasPower ? powerCurve(samples) : [],
     histograms: activityHistograms(activity),
+    laps: meta.laps ?? null,
   };
 }
 export type UploadSummary = ReturnType<typeof summarize>;

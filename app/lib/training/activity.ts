@@ -29,6 +29,11 @@ export interface Activity {
     interpolatedS: number;
     /** Seconds inside long gaps (treated as stopped: power 0, other channels missing). */
     stoppedS: number;
+    /**
+     * Laps the file marks, as [startS, endS) of the 1 Hz series: FIT lap messages, a CSV "lap" column, or GPX track
+     * segments. Only when the file marks two or more; otherwise absent.
+     */
+    laps?: { startS: number; endS: number }[];
   };
 }
 
@@ -60,21 +65,42 @@ export function parseActivity(data: Uint8Array | string, fileName: string): Acti
   if (size === 0) throw new TrainingInputError("empty_file", "The file is empty.");
   let points: RawPoint[];
   let startTime: string | null = null;
+  let laps: RawLap[] = [];
   let format: Activity["meta"]["format"];
   if (ext === "csv" || ext === "txt") {
     format = "csv";
-    ({ points, startTime } = readCsv(asText(data)));
+    ({ points, startTime, laps } = readCsv(asText(data)));
   } else if (ext === "gpx") {
     format = "gpx";
-    ({ points, startTime } = readGpx(asText(data)));
+    ({ points, startTime, laps } = readGpx(asText(data)));
   } else if (ext === "fit") {
     format = "fit";
     if (typeof data === "string") throw new TrainingInputError("unreadable_file", "A FIT file must be read as bytes.");
-    ({ points, startTime } = readFit(data));
+    ({ points, startTime, laps } = readFit(data));
   } else {
     throw new TrainingInputError("unsupported_file", "Use a CSV, GPX or FIT file.");
   }
-  return resample(points, format, startTime);
+  return withLaps(resample(points, format, startTime), laps, points);
+}
+
+/** A lap in the file's own seconds (the same clock as its points' `t`). */
+type RawLap = { startT: number; endT: number };
+
+/** Puts the file's laps on the 1 Hz grid (second 0 = the first reading); fewer than two laps are dropped. */
+function withLaps(activity: Activity, laps: RawLap[], points: RawPoint[]): Activity {
+  if (laps.length < 2) return activity;
+  let t0 = Infinity;
+  for (const p of points) if (Number.isFinite(p.t) && p.t >= 0 && p.t < t0) t0 = p.t;
+  const n = activity.samples.length;
+  const marks = laps
+    .map((l) => ({ startS: Math.max(0, Math.round(l.startT - t0)), endS: Math.min(n, Math.round(l.endT - t0)) }))
+    .filter((l) => l.endS > l.startS)
+    .sort((a, b) => a.startS - b.startS);
+  // Consecutive laps share their boundary; a writer's rounding must not make them overlap.
+  for (let i = 1; i < marks.length; i++) if (marks[i].startS < marks[i - 1].endS) marks[i - 1].endS = marks[i].startS;
+  const clean = marks.filter((l) => l.endS > l.startS);
+  if (clean.length >= 2) activity.meta.laps = clean;
+  return activity;
 }
 
 function asText(data: Uint8Array | string): string {
@@ -106,9 +132,10 @@ export const CSV_HEADERS = {
   speedKmh: ["speed_kmh", "kph"],
   distance: ["distance", "distance_m", "dist"],
   distanceKm: ["distance_km", "km"],
+  lap: ["lap", "lap_number", "laps", "segment"],
 } as const;
 
-function readCsv(text: string): { points: RawPoint[]; startTime: string | null } {
+function readCsv(text: string): { points: RawPoint[]; startTime: string | null; laps: RawLap[] } {
   // Array mode is markedly faster than papaparse's header mode; columns are found by index instead.
   const parsed = Papa.parse<string[]>(text.trim(), { skipEmptyLines: true });
   const [header = [], ...body] = parsed.data;
@@ -126,6 +153,7 @@ function readCsv(text: string): { points: RawPoint[]; startTime: string | null }
     speedKmh: pick(CSV_HEADERS.speedKmh),
     distance: pick(CSV_HEADERS.distance),
     distanceKm: pick(CSV_HEADERS.distanceKm),
+    lap: pick(CSV_HEADERS.lap),
   };
   if (col.power === undefined && col.hr === undefined && col.speed === undefined && col.speedKmh === undefined && col.cadence === undefined) {
     throw new TrainingInputError(
@@ -137,6 +165,9 @@ function readCsv(text: string): { points: RawPoint[]; startTime: string | null }
   if (rows.length === 0) throw new TrainingInputError("empty_file", "The CSV file has a header but no rows.");
   let startMs: number | null = null;
   const points: RawPoint[] = [];
+  // A lap column: a new lap begins on the row where its value changes.
+  const laps: RawLap[] = [];
+  let lapValue: string | null = null;
   rows.forEach((row, i) => {
     let t: number | undefined = i;
     if (col.time !== undefined) {
@@ -158,10 +189,18 @@ function readCsv(text: string): { points: RawPoint[]; startTime: string | null }
     else if (col.speedKmh !== undefined) p.speed = scale(num(row[col.speedKmh]), 1 / 3.6);
     if (col.distance !== undefined) p.distance = num(row[col.distance]);
     else if (col.distanceKm !== undefined) p.distance = scale(num(row[col.distanceKm]), 1000);
+    if (col.lap !== undefined) {
+      const v = String(row[col.lap] ?? "").trim();
+      if (v !== "" && v !== lapValue) {
+        if (laps.length) laps[laps.length - 1].endT = t;
+        laps.push({ startT: t, endT: t + 1 });
+        lapValue = v;
+      } else if (laps.length) laps[laps.length - 1].endT = t + 1;
+    }
     points.push(p);
   });
   if (points.length === 0) throw new TrainingInputError("unreadable_file", "No row of the CSV file has a readable time.");
-  return { points, startTime: startMs === null ? null : new Date(startMs).toISOString() };
+  return { points, startTime: startMs === null ? null : new Date(startMs).toISOString(), laps };
 }
 
 const scale = (v: number | undefined, k: number) => (v === undefined ? undefined : v * k);
@@ -173,7 +212,7 @@ const scale = (v: number | undefined, k: number) => (v === undefined ? undefined
  * reading the same samples from CSV. tests/unit/gpx-scanner.test.ts checks it against a general-purpose XML
  * parser on many shapes of file.
  */
-export function readGpx(text: string): { points: RawPoint[]; startTime: string | null } {
+export function readGpx(text: string): { points: RawPoint[]; startTime: string | null; laps: RawLap[] } {
   if (!/<(?:[\w.-]+:)?gpx[\s>]/i.test(text)) throw new TrainingInputError("unreadable_file", "This is not a GPX file (no <gpx> element).");
   if (!/<\/(?:[\w.-]+:)?gpx\s*>\s*$/.test(text)) throw notWellFormed("the file ends before its closing </gpx> tag");
   const open = /<(?:[\w.-]+:)?trkpt\b([^>]*)>/g;
@@ -182,8 +221,14 @@ export function readGpx(text: string): { points: RawPoint[]; startTime: string |
   let distance = 0;
   let found = 0;
   const points: RawPoint[] = [];
+  // Track segments mark laps (several <trkseg> in one track); each point belongs to the last segment opened before it.
+  const segStarts: number[] = [];
+  for (const seg of text.matchAll(/<(?:[\w.-]+:)?trkseg[\s>]/g)) segStarts.push(seg.index!);
+  const laps: RawLap[] = [];
+  let seg = -1;
   for (let m = open.exec(text); m; m = open.exec(text)) {
     found++;
+    const at = m.index;
     const attrs = m[1];
     let body = "";
     if (!attrs.endsWith("/")) {
@@ -198,6 +243,13 @@ export function readGpx(text: string): { points: RawPoint[]; startTime: string |
     if (Number.isNaN(ms)) continue;
     startMs ??= ms;
     const t = (ms - startMs) / 1000;
+    let inSeg = seg;
+    while (inSeg + 1 < segStarts.length && segStarts[inSeg + 1] < at) inSeg++;
+    if (inSeg !== seg) {
+      if (laps.length) laps[laps.length - 1].endT = t;
+      laps.push({ startT: t, endT: t + 1 });
+      seg = inSeg;
+    } else if (laps.length) laps[laps.length - 1].endT = t + 1;
     const lat = num(attribute(attrs, "lat"));
     const lon = num(attribute(attrs, "lon"));
     const ext = extensionLeaves(body);
@@ -221,7 +273,7 @@ export function readGpx(text: string): { points: RawPoint[]; startTime: string |
   }
   if (found === 0) throw new TrainingInputError("empty_file", "The GPX file has no track points.");
   if (points.length === 0) throw new TrainingInputError("unreadable_file", "No GPX track point has a readable time.");
-  return { points, startTime: new Date(startMs!).toISOString() };
+  return { points, startTime: new Date(startMs!).toISOString(), laps };
 }
 
 const notWellFormed = (why: string) => new TrainingInputError("unreadable_file", `The GPX file is not well-formed XML: ${why}.`);
@@ -260,7 +312,7 @@ function haversine(lat1: number, lon1: number, lat2: number, lon2: number): numb
 }
 
 /** FIT activity files, decoded with fit-file-parser; record messages carry the samples. */
-function readFit(bytes: Uint8Array): { points: RawPoint[]; startTime: string | null } {
+function readFit(bytes: Uint8Array): { points: RawPoint[]; startTime: string | null; laps: RawLap[] } {
   if (bytes.byteLength < 14 || String.fromCharCode(bytes[8], bytes[9], bytes[10], bytes[11]) !== ".FIT") {
     throw new TrainingInputError("unreadable_file", "This is not a FIT file (its header lacks the .FIT signature).");
   }
@@ -288,7 +340,16 @@ function readFit(bytes: Uint8Array): { points: RawPoint[]; startTime: string | n
     speed: num(r.enhanced_speed ?? r.speed),
     distance: num(r.distance),
   }));
-  return { points, startTime: new Date(startMs).toISOString() };
+  // Lap messages: start_time and elapsed time (or the lap's closing timestamp), on the records' clock.
+  const laps: RawLap[] = (parsed.laps ?? [])
+    .map((l: any) => {
+      const start = l?.start_time ? new Date(l.start_time).getTime() : NaN;
+      const elapsed = num(l?.total_elapsed_time) ?? num(l?.total_timer_time);
+      const end = elapsed !== undefined ? start + elapsed * 1000 : l?.timestamp ? new Date(l.timestamp).getTime() : NaN;
+      return { startT: (start - startMs) / 1000, endT: (end - startMs) / 1000 };
+    })
+    .filter((l: RawLap) => Number.isFinite(l.startT) && Number.isFinite(l.endT) && l.endT > l.startT);
+  return { points, startTime: new Date(startMs).toISOString(), laps };
 }
 
 const PLAUSIBLE: Record<Channel, [number, number]> = {

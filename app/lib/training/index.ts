@@ -121,3 +121,28 @@ export {
   type GuardInput,
   type GuardResult,
 } from "./plausibility";
+export {
+  PACED_PROTOCOLS,
+  isPacedProtocol,
+  TEST_FACTOR,
+  TEST_WINDOW_S,
+  DEFAULT_SPLIT_PCT,
+  SPLIT_LIMITS,
+  PLAN_TOLERANCE_PCT,
+  PLAN_VERDICT_WORDS,
+  ROAD_MODEL,
+  validateSplit,
+  expectedTestPower,
+  pacingPlan,
+  flatSpeed,
+  comparePacing,
+  type PacedProtocol,
+  type PacingPlan,
+  type PacingSegment,
+  type PacingLap,
+  type PlanComparison,
+  type PlanVerdict,
+} from "./pacing";
+export { crossCheck, checkPairWindow, CROSS_CHECK_DAYS, AGREE_PCT, ROUGHLY_PCT, type CrossCheck, type Agreement } from "./crosscheck";
+export { trainingPaces, type TrainingPaces } from "./running";
+export { lapTable, lapsFromSplits, normaliseLaps, wPrimeBalance, bandLoad, type LapMark, type LapRow, type WPrimeBalance } from "./ride";

@@ -68,3 +68,40 @@ export function thresholdPaceForIndex(index: number): number {
   const v = (-b + Math.sqrt(b * b - 4 * a * c)) / (2 * a); // m/min
   return (1000 / v) * 60;
 }
+
+/** Speed (m/min) whose oxygen cost is `vo2` ml/kg/min, from the cost quadratic above. */
+function speedForCost(vo2: number): number {
+  const a = 0.000104;
+  const b = 0.182258;
+  const c = -4.6 - vo2;
+  return (-b + Math.sqrt(b * b - 4 * a * c)) / (2 * a);
+}
+
+export interface TrainingPaces {
+  /** Seconds per km; easy is a range (slower, faster). */
+  easy: { slowS: number; fastS: number };
+  marathon: number;
+  threshold: number;
+  interval: number;
+  repetition: number;
+}
+
+/**
+ * Training paces for a running index, after Daniels J, Daniels' Running Formula (intensities as fractions of the
+ * index): easy 59–74 %, marathon = the predicted marathon race pace, threshold 88 %, interval 97.5 % (about the
+ * pace held for 10–12 minutes), repetition = the interval pace per 400 m less 6 s (the book's rule of thumb; from
+ * memory). Seconds per km, unrounded; checked against the book's table in tests/unit/running-paces.test.ts.
+ */
+export function trainingPaces(index: number): TrainingPaces {
+  const vdot = requirePositive(index, "Running index", 90);
+  if (vdot < 30) throw new TrainingInputError("out_of_range", "Training paces are given for a running index of 30 and above.");
+  const perKm = (vMpm: number) => (1000 / vMpm) * 60;
+  const interval = perKm(speedForCost(0.975 * vdot));
+  return {
+    easy: { slowS: perKm(speedForCost(0.59 * vdot)), fastS: perKm(speedForCost(0.74 * vdot)) },
+    marathon: raceTimeForIndex(vdot, 42195) / 42.195,
+    threshold: thresholdPaceForIndex(vdot),
+    interval,
+    repetition: ((interval * 0.4 - 6) / 0.4),
+  };
+}

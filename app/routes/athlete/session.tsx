@@ -8,13 +8,15 @@ import { AttachRide } from "~/components/calendar/attach-ride";
 import { SessionComments } from "~/components/calendar/session-comments";
 import { commentAction, listComments } from "~/.server/services/comments";
 import { CoachAthlete, User } from "~/.server/models";
+import { lapFromSearch } from "~/.server/services/pacing";
+import { PacingCard, pacingQuery } from "~/components/pacing-plan";
 import type { Route } from "./+types/session";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session.name ?? "Session"} · Pacewright` }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const athlete = await requireRole(request, "athlete");
-  const page = await sessionPageData(athlete, Number(params.id));
+  const page = await sessionPageData(athlete, Number(params.id), { lap: lapFromSearch(new URL(request.url)) });
   const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) }, attributes: ["name"] });
   return { ...page, comments: await listComments(athlete, page.session.id), coachNames: coaches.map((c) => c.name), timezone: athlete.timezone };
 }
@@ -47,6 +49,11 @@ export default function AthleteSession({ loaderData }: Route.ComponentProps) {
         / {loaderData.session.name}
       </p>
       <PageHeader title={loaderData.session.name} />
+      {loaderData.pacing && (
+        <div className="mb-6">
+          <PacingCard data={loaderData.pacing} printHref={`/athlete/sessions/${loaderData.session.id}/pacing${pacingQuery(loaderData.pacing.lap)}`} canEditSplit={false} />
+        </div>
+      )}
       <SessionDetail data={loaderData} canComplete />
       {loaderData.session.status === "planned" && loaderData.session.sport === "bike" && <AttachRide />}
       {loaderData.coachNames.length > 0 && <SessionComments comments={loaderData.comments} otherSide={loaderData.coachNames.join(" and ")} timezone={loaderData.timezone} />}

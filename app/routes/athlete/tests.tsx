@@ -10,6 +10,10 @@ import { BandTable } from "~/components/band-table";
 import { bandSetsFor } from "~/.server/services/bands";
 import { bandTable, formatThreshold as show } from "~/lib/band-table";
 import { bandSetKeyFor, type Metric } from "~/lib/training";
+import { applyCrossCheck, crossChecksFor } from "~/.server/services/cross-check";
+import { CrossCheckCard } from "~/components/cross-check";
+import { runningPacesFor } from "~/.server/services/running-paces";
+import { RunningPacesCard } from "~/components/running-paces";
 import type { Route } from "./+types/tests";
 
 export const meta: Route.MetaFunction = () => [{ title: "Field tests · Pacewright" }];
@@ -21,12 +25,21 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   for (const t of history.thresholds) latest.set(`${t.sport}:${t.metric}`, t);
   const sets = await bandSetsFor(athlete);
   const zones = [...latest.values()].flatMap((t) => bandTable(t, sets[bandSetKeyFor(t.sport, t.metric as Metric)]) ?? []);
-  return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, ...history, current: [...latest.values()], zones };
+  return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, ...history, current: [...latest.values()], zones, crossChecks: await crossChecksFor(athlete.id), runningPaces: await runningPacesFor(athlete.id) };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { athlete, viewer } = await athleteSubject(request, params.athleteId);
   const form = await request.formData();
+  if (form.get("intent") === "cross-check") {
+    try {
+      const r = await applyCrossCheck(athlete, viewer, { aId: Number(form.get("aId")), bId: Number(form.get("bId")), choice: String(form.get("choice") ?? ""), confirmed: form.get("confirmed") === "1" });
+      return { ok: true, message: `Threshold set to ${r.value} from the cross-check; ${r.report.sessionsChanged} sessions rescaled.` };
+    } catch (err) {
+      if (err instanceof TestError) return data({ ok: false, message: err.message, needsConfirm: err.status === 409 }, { status: err.status });
+      throw err;
+    }
+  }
   try {
     const { undo } = await undoTest(athlete, viewer, Number(form.get("testId")));
     return { ok: true, message: `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets. A correction has been e-mailed to the athlete and coach.` };
@@ -70,13 +83,18 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
           </FormMessage>
         </div>
       )}
+      {loaderData.crossChecks.map((pair) => (
+        <div key={`${pair.sport}:${pair.metric}`} className="mb-6">
+          <CrossCheckCard pair={pair} />
+        </div>
+      ))}
       {undo.data && (
         <div className="mb-4">
           <FormMessage tone={undo.data.ok ? "ok" : "error"}>{undo.data.message}</FormMessage>
         </div>
       )}
-      <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
-        <div className="flex flex-col gap-6">
+      <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">
+        <div className="flex min-w-0 flex-col gap-6">
           <Card>
             <div className="flex flex-wrap items-center justify-between gap-2">
               <h2 className="font-semibold">Threshold history</h2>
@@ -157,6 +175,7 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
               {current.length === 0 && <li className="text-ink-soft">None yet.</li>}
             </ul>
           </Card>
+          {loaderData.runningPaces && <RunningPacesCard paces={loaderData.runningPaces} />}
           {zones.map((z) => (
             <BandTable key={z.key} table={z} />
           ))}

@@ -53,7 +53,11 @@ export default function Uploads({ loaderData }: Route.ComponentProps) {
             <tbody>
               {loaderData.uploads.map((u) => (
                 <tr key={u.id} className="border-t border-line/60">
-                  <td className="py-2">{u.name}</td>
+                  <td className="py-2">
+                    <a href={`/athlete/uploads/${u.id}`} className="text-teal underline">
+                      {u.name}
+                    </a>
+                  </td>
                   <td className="py-2">{u.createdAt.slice(0, 10)}</td>
                   <td className="py-2">{Math.round(u.durationS / 60)} min</td>
                   <td className="py-2">{u.workKj === null ? "—" : `${Math.round(u.workKj)} kJ`}</td>

@@ -1,4 +1,4 @@
-import { Link } from "react-router";
+import { data, Link } from "react-router";
 import { SessionDetail } from "~/components/calendar/session-detail";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
@@ -6,6 +6,8 @@ import { calendarSubject } from "~/.server/services/calendar";
 import { sessionPageData } from "~/.server/services/session-page";
 import { SessionComments } from "~/components/calendar/session-comments";
 import { commentAction, listComments } from "~/.server/services/comments";
+import { lapFromSearch, PacingError, savePacingSplit } from "~/.server/services/pacing";
+import { PacingCard, pacingQuery } from "~/components/pacing-plan";
 import type { Route } from "./+types/athlete-session";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session.name ?? "Session"} · Pacewright` }];
@@ -13,15 +15,27 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   const athlete = await calendarSubject(coach, params.athleteId);
-  const page = await sessionPageData(athlete, Number(params.sessionId));
+  const page = await sessionPageData(athlete, Number(params.sessionId), { lap: lapFromSearch(new URL(request.url)) });
   return { athleteId: athlete.id, athleteName: athlete.name, ...page, comments: await listComments(coach, page.session.id), timezone: coach.timezone };
 }
 
+/** The coach writes in the session's thread, or sets this test's pacing split. */
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
   const athlete = await calendarSubject(coach, params.athleteId);
-  const page = await sessionPageData(athlete, Number(params.sessionId));
-  return commentAction(coach, page.session.id, await request.formData());
+  const form = await request.formData();
+  if (form.get("intent") !== "pacing-split") {
+    const page = await sessionPageData(athlete, Number(params.sessionId));
+    return commentAction(coach, page.session.id, form);
+  }
+  try {
+    const reset = form.get("reset") === "1";
+    const r = await savePacingSplit(athlete.id, Number(params.sessionId), { split: form.getAll("split").map(String), reset });
+    return { ok: true, message: r.custom ? `Split saved: ${r.split.join(" / ")} %.` : "Back to the usual split." };
+  } catch (err) {
+    if (err instanceof PacingError) return data({ ok: false, message: err.message }, { status: err.status });
+    throw err;
+  }
 }
 
 export default function CoachAthleteSession({ loaderData }: Route.ComponentProps) {
@@ -34,6 +48,11 @@ export default function CoachAthleteSession({ loaderData }: Route.ComponentProps
         / {loaderData.session.name}
       </p>
       <PageHeader title={loaderData.session.name} />
+      {loaderData.pacing && (
+        <div className="mb-6">
+          <PacingCard data={loaderData.pacing} printHref={`/coach/athletes/${loaderData.athleteId}/sessions/${loaderData.session.id}/pacing${pacingQuery(loaderData.pacing.lap)}`} canEditSplit={loaderData.session.status === "planned"} />
+        </div>
+      )}
       <SessionDetail data={loaderData} canComplete={false} subjectName={loaderData.athleteName} />
       <SessionComments comments={loaderData.comments} otherSide={loaderData.athleteName} timezone={loaderData.timezone} />
     </>

@@ -1,0 +1,75 @@
+import { useFetcher } from "react-router";
+import { buttonClass } from "~/components/ui/button";
+import { Card } from "~/components/ui/card";
+import { FormMessage } from "~/components/ui/field";
+
+export interface CrossCheckView {
+  sport: string;
+  metric: string;
+  tests: { id: number; label: string; testedOn: string; display: string }[];
+  days: number;
+  check: { diffPct: number; agreement: "agree" | "roughly" | "disagree"; message: string };
+  meanDisplay: string;
+  settled: { choice: "a" | "b" | "mean"; display: string } | null;
+}
+
+const WORD = { agree: "agree", roughly: "roughly agree", disagree: "disagree" } as const;
+
+/** Two close tests side by side, how far apart they are, and the choice of which sets the threshold. */
+export function CrossCheckCard({ pair }: { pair: CrossCheckView }) {
+  const fetcher = useFetcher<{ ok: boolean; message: string; needsConfirm?: boolean }>();
+  const needsConfirm = fetcher.data?.needsConfirm === true;
+  const [a, b] = pair.tests;
+  return (
+    <Card data-testid="cross-check">
+      <h2 className="font-semibold">Cross-check: two tests {pair.days} days apart</h2>
+      <div className="num mt-3 grid grid-cols-2 gap-3">
+        {[a, b].map((t) => (
+          <div key={t.id} className="rounded-lg border border-line p-3">
+            <p className="text-xs text-ink-soft">
+              {t.label} · {t.testedOn}
+            </p>
+            <p className="text-lg font-semibold">{t.display}</p>
+          </div>
+        ))}
+      </div>
+      <p className="mt-3 text-sm">
+        <strong className={pair.check.agreement === "disagree" ? "text-brick" : "text-teal"}>They {WORD[pair.check.agreement]}.</strong> {pair.check.message}
+      </p>
+      <p className="mt-1 text-xs text-ink-soft">The difference is taken of the two estimates' mean. Within 3 %: agree; 3–6 %: roughly agree; above 6 %: disagree (common practice for repeated maximal tests).</p>
+      {pair.settled && (
+        <p className="mt-2 text-sm" data-testid="cross-check-settled">
+          The threshold now comes from this cross-check: {pair.settled.choice === "mean" ? "the mean of both tests" : `the ${pair.settled.choice === "a" ? "first" : "second"} test`} ({pair.settled.display}).
+        </p>
+      )}
+      <fetcher.Form method="post" className="mt-3 flex flex-col gap-2 text-sm">
+        <input type="hidden" name="intent" value="cross-check" />
+        <input type="hidden" name="aId" value={a.id} />
+        <input type="hidden" name="bId" value={b.id} />
+        <fieldset className="flex flex-wrap gap-3">
+          <legend className="mb-1 font-medium">Which sets the threshold?</legend>
+          <label className="flex items-center gap-1">
+            <input type="radio" name="choice" value="a" /> {a.label} ({a.display})
+          </label>
+          <label className="flex items-center gap-1">
+            <input type="radio" name="choice" value="b" /> {b.label} ({b.display})
+          </label>
+          <label className="flex items-center gap-1">
+            <input type="radio" name="choice" value="mean" defaultChecked /> Their mean ({pair.meanDisplay})
+          </label>
+        </fieldset>
+        {needsConfirm && (
+          <label className="flex items-center gap-2 text-brick">
+            <input type="checkbox" name="confirmed" value="1" /> I have read why this change is large and want it
+          </label>
+        )}
+        <div>
+          <button className={buttonClass("primary", "py-1.5")} disabled={fetcher.state !== "idle"}>
+            Set the threshold and rescale
+          </button>
+        </div>
+        {fetcher.data && <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>}
+      </fetcher.Form>
+    </Card>
+  );
+}

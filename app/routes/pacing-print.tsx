@@ -1,0 +1,42 @@
+import { PacingSheet } from "~/components/pacing-plan";
+import { requireUser } from "~/.server/auth";
+import { calendarSubject } from "~/.server/services/calendar";
+import { lapFromSearch } from "~/.server/services/pacing";
+import { sessionPageData } from "~/.server/services/session-page";
+import { notFound } from "~/.server/http";
+import type { Route } from "./+types/pacing-print";
+
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Pacing plan · ${data?.name ?? "Test"} · Pacewright` }];
+
+/** One page to take to the test: the plan alone, without the app around it. The athlete's own, or their coach's view. */
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const user = await requireUser(request);
+  let athlete = user;
+  if (params.athleteId !== undefined) {
+    if (user.role !== "coach") notFound("No such page.");
+    athlete = await calendarSubject(user, params.athleteId);
+  } else if (user.role !== "athlete") notFound("No such page.");
+  const page = await sessionPageData(athlete, Number(params.id ?? params.sessionId), { lap: lapFromSearch(new URL(request.url)) });
+  if (!page.pacing?.plan) notFound("This session has no pacing plan.");
+  return { name: page.session.name, date: page.session.date, athleteName: athlete.name, pacing: page.pacing };
+}
+
+export default function PacingPrint({ loaderData }: Route.ComponentProps) {
+  return (
+    <main className="pacing-print mx-auto max-w-3xl bg-white p-6 text-ink">
+      <style>{`@page { size: A4; margin: 12mm; } @media print { .print-hide { display: none !important; } body { background: #fff; } .pacing-print { padding: 0; max-width: none; } }`}</style>
+      <div className="print-hide mb-4 flex gap-2">
+        <button type="button" onClick={() => window.print()} className="rounded-lg bg-teal px-4 py-2 text-sm font-medium text-white">
+          Print
+        </button>
+        <button type="button" onClick={() => history.back()} className="rounded-lg border border-line px-4 py-2 text-sm">
+          Back
+        </button>
+      </div>
+      <p className="num text-sm text-ink-soft">
+        {loaderData.athleteName} · {loaderData.date}
+      </p>
+      <PacingSheet data={loaderData.pacing} sessionName={loaderData.name} />
+    </main>
+  );
+}

@@ -1,0 +1,16 @@
+import { DataTypes, type QueryInterface } from "sequelize";
+
+export async function up({ context: qi }: { context: QueryInterface }) {
+  // A coach's own split of a test's pacing plan (JSON array of % of expected power); null = the default split.
+  await qi.addColumn("scheduled_sessions", "pacing_split", { type: DataTypes.TEXT, allowNull: true });
+  // Which field tests a threshold came from when a cross-check chose it (JSON array of ids); null = fieldTestId alone.
+  await qi.addColumn("thresholds", "source_tests", { type: DataTypes.TEXT, allowNull: true });
+  // Laps a user marked on a ride, with an effort score per lap (JSON); null = the file's own laps, if any.
+  await qi.addColumn("uploads", "laps", { type: DataTypes.TEXT, allowNull: true });
+}
+
+export async function down({ context: qi }: { context: QueryInterface }) {
+  await qi.removeColumn("uploads", "laps");
+  await qi.removeColumn("thresholds", "source_tests");
+  await qi.removeColumn("scheduled_sessions", "pacing_split");
+}
