@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { caseInsensitiveText } from "../portable";
 
 export async function up({ context: qi }: { context: QueryInterface }) {
   // Counters for rate limits, shared by every app process that uses this database. One row per limiter key;
@@ -16,7 +17,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.createTable("login_failures", {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    email: { type: "TEXT COLLATE NOCASE", allowNull: false },
+    email: { type: caseInsensitiveText(qi), allowNull: false },
     created_at: { type: DataTypes.DATE, allowNull: false },
   });
   await qi.addIndex("login_failures", ["email", "created_at"]);

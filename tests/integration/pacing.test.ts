@@ -93,7 +93,7 @@ describe("pacing plan on the test session and in its calendar event", () => {
     const { athlete, session, cookie } = await scenario();
     const form = new FormData();
     form.append("file", rideFile());
-    const upload = await receiveUpload(new Request("http://localhost:3999/api/uploads", { method: "POST", body: form }), athlete, athlete);
+    const { upload } = await receiveUpload(new Request("http://localhost:3999/api/uploads", { method: "POST", body: form }), athlete, athlete);
     await session.update({ uploadId: upload.id, status: "done" });
     const page = payloadOf(await run(athleteSession.loader, getRequest(`/athlete/sessions/${session.id}`, cookie), { id: String(session.id) }));
     const outcome = page.pacing.outcome;
