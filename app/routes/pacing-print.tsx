@@ -23,9 +23,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export default function PacingPrint({ loaderData }: Route.ComponentProps) {
   return (
-    <main className="pacing-print mx-auto max-w-3xl bg-white p-6 text-ink">
-      <style>{`@page { size: A4; margin: 12mm; } @media print { .print-hide { display: none !important; } body { background: #fff; } .pacing-print { padding: 0; max-width: none; } }`}</style>
-      <div className="print-hide mb-4 flex gap-2">
+    // Print rules live in app.css: the content security policy admits no inline <style> element.
+    <main className="pacing-print mx-auto max-w-3xl bg-white p-6 text-ink print:max-w-none print:p-0">
+      <div className="mb-4 flex gap-2 print:hidden">
         <button type="button" onClick={() => window.print()} className="rounded-lg bg-teal px-4 py-2 text-sm font-medium text-white">
           Print
         </button>

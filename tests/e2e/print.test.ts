@@ -30,9 +30,13 @@ describe.skipIf(!enabled)("calendar by keyboard, month and print views", () => {
         moved = { name: (await h.getAttribute("aria-label"))!.slice(5), from: day };
         await h.focus();
         const posted = page.waitForResponse((r) => r.url().includes("/api/calendar") && r.request().method() === "POST");
+        const live = page.locator('[id^="DndLiveRegion"]').first();
+        // The announcement names the day under the session; wait for the target day itself, not the starting one.
+        const target = await page.evaluate((d) => new Intl.DateTimeFormat("en-GB", { weekday: "long", day: "numeric", month: "long", timeZone: "UTC" }).format(new Date(`${d}T00:00:00Z`)), later);
         await page.keyboard.press("Space");
+        await expect.poll(() => live.textContent()).toMatch(/Picked up|is over/);
         await page.keyboard.press("ArrowRight");
-        await expect.poll(() => page.locator('[id^="DndLiveRegion"]').first().textContent()).toContain("is over");
+        await expect.poll(() => live.textContent()).toContain(`is over ${target}`);
         await page.keyboard.press("Space");
         expect((await posted).status()).toBe(200);
         await page.getByTestId(`day-${later}`).getByText(moved.name).first().waitFor();
