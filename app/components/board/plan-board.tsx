@@ -240,6 +240,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
   };
 
   const onDragStart = (e: DragStartEvent) => {
+    focusAfter.current = null;
     setActiveId(e.active.id);
     mode.current = e.activatorEvent instanceof KeyboardEvent ? "keyboard" : "pointer";
     moving.current = movingItemId(e.active.id);
@@ -290,14 +291,14 @@ export function PlanBoard({ data }: { data: BoardData }) {
   const onDragCancel = () => {
     finish();
   };
-  // A card moved by keyboard is drawn anew in its new day; give it the focus back so the next move can start there.
+  // A card moved by keyboard is drawn anew in its new day, and again when the server's answer replaces the optimistic
+  // board; each time the focus would fall to the page, give it back to the card so the next move can start there.
+  // The wish lasts until the next drag, and never takes the focus from anything the user has moved on to.
   useEffect(() => {
     if (focusAfter.current === null) return;
     const el = document.querySelector<HTMLElement>(`[data-card-id="${focusAfter.current}"]`);
-    if (el) {
-      el.focus();
-      focusAfter.current = null;
-    }
+    const active = document.activeElement;
+    if (el && el !== active && (active === null || active === document.body)) el.focus();
   }, [items]);
 
   const powerBands = useBandSet("bike:power").bands;
