@@ -1,29 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, Page } from "playwright-core";
-import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
+import { browserAvailable, newPlanOnBoard, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
-
-/** The Monday after today, in the browser's reckoning, so the plan's dates are known to the test. */
-async function newPlan(page: Page, baseUrl: string, name: string): Promise<{ planId: string; monday: string }> {
-  await page.goto(`${baseUrl}/coach/plans/new`);
-  await ready(page);
-  await page.getByLabel("Plan name").fill(name);
-  await page.getByLabel("a start date").check();
-  const monday = await page.evaluate(() => {
-    const d = new Date();
-    d.setUTCDate(d.getUTCDate() + ((8 - d.getUTCDay()) % 7 || 7));
-    return d.toISOString().slice(0, 10);
-  });
-  await page.getByLabel("Start date", { exact: true }).fill(monday);
-  await page.getByLabel("Weeks", { exact: true }).fill("8");
-  await page.getByRole("button", { name: "Create the plan" }).click();
-  await page.waitForURL(/\/coach\/plans\/\d+\?created=1/);
-  const planId = page.url().match(/plans\/(\d+)/)![1];
-  await page.goto(`${baseUrl}/coach/plans/${planId}/board`);
-  await ready(page);
-  return { planId, monday };
-}
 
 /** "Tuesday 15 December" for a day of the plan, spelt as the board spells it. */
 function spoken(monday: string, week: number, day: number) {
@@ -40,7 +19,7 @@ async function coachOnBoard(browser: Browser, baseUrl: string, name: string) {
   page.on("console", (m) => m.type() === "error" && errors.push(m.text()));
   await signInAs(page, baseUrl, "coach@harbourline.example", "harbour-line-demo");
   await page.waitForURL(`${baseUrl}/coach`);
-  const plan = await newPlan(page, baseUrl, name);
+  const plan = await newPlanOnBoard(page, baseUrl, name);
   const saved = () => page.waitForResponse((r) => r.url().includes(`/api/plans/${plan.planId}/items`) && r.request().method() === "POST");
   const shelfCard = (n: string) => page.getByRole("button", { name: new RegExp(`^Shelf session ${n}`) });
   await shelfCard("Threshold repeats").waitFor();

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
-import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
+import { browserAvailable, newPlanOnBoard, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
@@ -28,22 +28,7 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     await page.waitForURL(`${env.app.baseUrl}/coach`);
 
     // A fresh plan, so week 2 starts empty.
-    await page.goto(`${env.app.baseUrl}/coach/plans/new`);
-    await ready(page);
-    await page.getByLabel("Plan name").fill("Board journey");
-    await page.getByLabel("a start date").check();
-    const monday = await page.evaluate(() => {
-      const d = new Date();
-      d.setUTCDate(d.getUTCDate() + ((8 - d.getUTCDay()) % 7 || 7));
-      return d.toISOString().slice(0, 10);
-    });
-    await page.getByLabel("Start date", { exact: true }).fill(monday);
-    await page.getByLabel("Weeks", { exact: true }).fill("8");
-    await page.getByRole("button", { name: "Create the plan" }).click();
-    await page.waitForURL(/\/coach\/plans\/\d+\?created=1/);
-    const planId = page.url().match(/plans\/(\d+)/)![1];
-    await page.goto(`${env.app.baseUrl}/coach/plans/${planId}/board`);
-    await ready(page);
+    const { planId, monday } = await newPlanOnBoard(page, env.app.baseUrl, "Board journey");
     const shelfCard = (name: string) => page.getByRole("button", { name: new RegExp(`^Shelf session ${name}`) });
     await shelfCard("Threshold repeats").waitFor();
 

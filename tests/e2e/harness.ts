@@ -180,3 +180,24 @@ export function useApp(hooks: { beforeAll: (fn: () => Promise<void>) => void; af
   });
   return ctx;
 }
+
+/** Creates an 8-week plan starting the Monday after today (in the browser's reckoning) and opens its board. */
+export async function newPlanOnBoard(page: Page, baseUrl: string, name: string): Promise<{ planId: string; monday: string }> {
+  await page.goto(`${baseUrl}/coach/plans/new`);
+  await ready(page);
+  await page.getByLabel("Plan name").fill(name);
+  await page.getByLabel("a start date").check();
+  const monday = await page.evaluate(() => {
+    const d = new Date();
+    d.setUTCDate(d.getUTCDate() + ((8 - d.getUTCDay()) % 7 || 7));
+    return d.toISOString().slice(0, 10);
+  });
+  await page.getByLabel("Start date", { exact: true }).fill(monday);
+  await page.getByLabel("Weeks", { exact: true }).fill("8");
+  await page.getByRole("button", { name: "Create the plan" }).click();
+  await page.waitForURL(/\/coach\/plans\/\d+\?created=1/);
+  const planId = page.url().match(/plans\/(\d+)/)![1];
+  await page.goto(`${baseUrl}/coach/plans/${planId}/board`);
+  await ready(page);
+  return { planId, monday };
+}
