@@ -25,8 +25,13 @@ export async function retestStatus(athleteId: number, today: string): Promise<Re
     where: { athleteId, status: "planned", testProtocol: { [Op.ne]: null }, date: { [Op.gte]: today } },
     order: [["date", "ASC"]],
   });
-  if (planned) return { lastTest: last?.testedOn ?? null, due: planned.date, why: `a test week in the plan: ${planned.name}` };
-  if (last) return { lastTest: last.testedOn, due: addDays(last.testedOn, RETEST_WEEKS * 7), why: `${RETEST_WEEKS} weeks after the last test` };
+  return retestFrom(last?.testedOn ?? null, planned);
+}
+
+/** The rule itself, for rows already read (the roster reads them for every athlete at once). */
+export function retestFrom(lastTest: string | null, planned: { date: string; name: string } | null | undefined): RetestStatus {
+  if (planned) return { lastTest, due: planned.date, why: `a test week in the plan: ${planned.name}` };
+  if (lastTest) return { lastTest, due: addDays(lastTest, RETEST_WEEKS * 7), why: `${RETEST_WEEKS} weeks after the last test` };
   return { lastTest: null, due: null, why: "no test yet" };
 }
 

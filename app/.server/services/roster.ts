@@ -2,7 +2,7 @@ import { Op, QueryTypes } from "sequelize";
 import { db } from "../db";
 import { CoachAthlete, Invitation, Threshold, User } from "../models";
 import { DAY_COLUMNS, rosterFigures, seriesFromRows, warmStart, type DayRow } from "./load";
-import { RETEST_WEEKS } from "./retests";
+import { retestFrom } from "./retests";
 import { addDays, todayIn } from "~/lib/dates";
 import { defaultBandSet } from "~/lib/training";
 
@@ -62,11 +62,7 @@ export async function rosterFor(coachId: number) {
       for (const t of thresholds) if (t.athleteId === a.id && t.effectiveFrom <= today) latestBy.set(`${t.sport}:${t.metric}`, t);
       const lastTest = lastBy.get(a.id) ?? null;
       const planned = (plannedBy.get(a.id) ?? []).find((p) => p.date >= today);
-      const retest = planned
-        ? { lastTest, due: planned.date, why: `a test week in the plan: ${planned.name}` }
-        : lastTest
-          ? { lastTest, due: addDays(lastTest, RETEST_WEEKS * 7), why: `${RETEST_WEEKS} weeks after the last test` }
-          : { lastTest: null, due: null, why: "no test yet" };
+      const retest = retestFrom(lastTest, planned);
       const from = addDays(today, -27);
       const mine = (rowsBy.get(a.id) ?? []).filter((r) => r.date >= warmStart(from) && r.date <= today);
       // Counts and the ratio do not depend on band minutes, so no ride files are read for the roster.
