@@ -14,6 +14,7 @@ export interface LoadData {
     week: string;
     plannedLoad: number;
     doneLoad: number;
+    powerLoad?: number;
     plannedSessions: number;
     doneSessions: number;
     plannedMinutes: number;
@@ -75,7 +76,7 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
         <Card>
           <h2 className="font-semibold">Weekly load and the usual range</h2>
           <p className="text-xs text-ink-soft">
-            Filled: effort load done. Outlined: planned. Shaded: the usual range, 0.8–1.3 × the average week of the 28 days before (guidance only).
+            Filled: load done (effort score × minutes; a ride without an effort score counts its band load from power). Outlined: planned. Shaded: the usual range, 0.8–1.3 × the average week of the 28 days before (guidance only).
           </p>
           <div className="mt-2 h-72" data-testid="weekly-load-chart">
             <ResponsiveContainer>
@@ -225,6 +226,7 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
                 </td>
                 <td className="py-1">
                   {Math.round(w.doneLoad)} / {Math.round(w.plannedLoad)}
+                  {w.powerLoad ? <span className="text-ink-soft"> (incl. {Math.round(w.powerLoad)} from power)</span> : null}
                 </td>
                 <td className="py-1">{w.inTargetPct == null ? "—" : `${w.inTargetPct} %`}</td>
                 <td className="py-1">{w.monotony ?? "—"}</td>

@@ -105,6 +105,15 @@ export default function AboutBands() {
             </p>
           </Card>
           <Card>
+            <h2 className="font-semibold">Band load</h2>
+            <p className="mt-2 text-sm">
+              A ride with power but no effort score still counts on the load page: its <strong>band load</strong> is the minutes in each power band times the
+              band's weight, its place from the bottom (1 for the easiest, 2 for the next …). An hour in the second band is 120. Pacewright's own measure, after the
+              zone weighting of Edwards (1993, <em>The Heart Rate Monitor Book</em>). Once an effort score is typed, effort score × minutes (Foster 2001) is counted
+              instead.
+            </p>
+          </Card>
+          <Card>
             <h2 className="font-semibold">Coaches</h2>
             <p className="mt-2 text-sm">
               Coaches can rename bands, move their boundaries and use 3 to 8 bands per sport and metric; their athletes then see the coach's bands everywhere.{" "}

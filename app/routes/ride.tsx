@@ -145,7 +145,7 @@ export default function Ride({ loaderData: d }: Route.ComponentProps) {
             <h2 className="font-semibold">
               Band load <span className="num">{d.load.value}</span>
             </h2>
-            <p className="text-xs text-ink-soft">Minutes in each power band (against {Math.round(d.load.thresholdW)} W) × the band's weight: its place from the bottom, 1 for the easiest. For rides with power but no heart rate or effort score; Pacewright's own measure, after Edwards' zone weighting.</p>
+            <p className="text-xs text-ink-soft">Minutes in each power band (against {Math.round(d.load.thresholdW)} W) × the band's weight: its place from the bottom, 1 for the easiest. When the ride has no effort score, this is the load the load page counts for it. Pacewright's own measure, after Edwards' zone weighting.</p>
             <ul className="num mt-2 grid grid-cols-[1fr_auto_auto] gap-x-4 text-sm" data-testid="band-load">
               {d.load.rows.map((r) => (
                 <li key={r.name} className="contents">

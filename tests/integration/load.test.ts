@@ -6,7 +6,7 @@ import * as roster from "~/routes/coach/roster";
 import * as uploads from "~/routes/api/uploads";
 import { addDays, todayIn } from "~/lib/dates";
 import { acuteChronicRatio, fitnessFatigue, monotonyStrain, trimpBanister } from "~/lib/training";
-import { twentyMinuteTestRide, toCsv } from "../../db/demo/rides";
+import { enduranceRide, twentyMinuteTestRide, toCsv } from "../../db/demo/rides";
 import { getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 const BASE = "http://localhost:3999";
@@ -75,7 +75,7 @@ describe("training load", () => {
     const csv = (await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?${q}&format=csv`, await signIn(coach.email)), { id: String(athlete.id) })) as Response;
     expect(csv.headers.get("content-type")).toMatch(/text\/csv/);
     const lines = (await csv.text()).trim().split("\n");
-    expect(lines[0]).toMatch(/^date,effort_load,planned_load,trimp,work_kj,fitness,fatigue,balance/);
+    expect(lines[0]).toMatch(/^date,done_load,of_which_power_load,planned_load,trimp,work_kj,fitness,fatigue,balance/);
     expect(lines).toHaveLength(22);
     const other = await makeUser({ role: "athlete" });
     expect(statusOf(await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?${q}`, await signIn(other.email)), { id: String(athlete.id) }))).toBe(404);
@@ -121,5 +121,46 @@ describe("training load", () => {
     const again = await attachRide(athlete, up.upload.id, "2026-11-20", 6);
     expect(again.matched).toBe(false);
     expect(again.session.name).toBe("Unplanned ride");
+  });
+  it("a power-only ride without an effort score counts its band load in the load series", async () => {
+    const athlete = await makeUser({ role: "athlete" });
+    await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
+    const today = todayIn(athlete.timezone);
+    const day = addDays(today, -3);
+    // Power only: no heart-rate column, so no TRIMP; no effort score typed.
+    const ride = enduranceRide(180);
+    const csv = ["time,power", ...ride.map((x) => `${x.t},${x.power}`)].join("\n") + "\n";
+    const body = new FormData();
+    body.append("file", new File([csv], "power-only.csv"));
+    const cookie = await signIn(athlete.email);
+    const up = await ((await run(uploads.action, new Request(`${BASE}/api/uploads`, { method: "POST", body, headers: { Cookie: cookie } }))) as Response).json();
+    const { session } = await attachRide(athlete, up.upload.id, day, null);
+    await session.reload();
+    expect(session.trimp).toBeNull();
+
+    // Worked by hand from the samples: Edwards' zone weighting (Edwards 1993, minutes per zone × 1…5) applied to the
+    // default power bands, whose lower edges are 0, 60, 80, 95, 105 and 130 % of threshold, weights 1…6.
+    const edges = [0, 60, 80, 95, 105, 130].map((p) => (p / 100) * 250);
+    let expected = 0;
+    for (const x of ride) {
+      if (x.power <= 0) continue;
+      let band = 0;
+      while (band + 1 < edges.length && x.power >= edges[band + 1]) band++;
+      expected += (band + 1) / 60;
+    }
+    expect(session.bandLoad).toBeCloseTo(expected, 1);
+
+    const series = await loadSeries(athlete, addDays(today, -13), today);
+    const d = series.daily.find((x) => x.date === day)!;
+    expect(d.effortLoad).toBeCloseTo(expected, 0);
+    expect(d.powerLoad).toBeCloseTo(expected, 0);
+    const week = series.weekly.find((w) => w.week <= day && day < addDays(w.week, 7))!;
+    expect(week.powerLoad).toBeCloseTo(expected, 0);
+
+    // Once an effort score is given, the effort load (Foster 2001: score × minutes) takes over and power stands aside.
+    await session.update({ effortScore: 4 });
+    const scored = (await loadSeries(athlete, addDays(today, -13), today)).daily.find((x) => x.date === day)!;
+    expect(scored.effortLoad).toBeCloseTo(4 * (ride.length / 60), 0);
+    expect(scored.powerLoad).toBe(0);
   });
 });

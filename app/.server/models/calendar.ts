@@ -93,6 +93,8 @@ export class ScheduledSession extends Model<InferAttributes<ScheduledSession>, I
   declare workKj: CreationOptional<number | null>;
   declare trimp: CreationOptional<number | null>;
   declare zoneMinutes: CreationOptional<string | null>;
+  /** Power-based load of a ride (bandLoad), counted by the load model when the session has no effort score. */
+  declare bandLoad: CreationOptional<number | null>;
   declare targetedS: CreationOptional<number | null>;
   declare inTargetS: CreationOptional<number | null>;
   declare pacingSplit: CreationOptional<string | null>;
@@ -126,6 +128,7 @@ ScheduledSession.init(
     workKj: { type: DataTypes.FLOAT, allowNull: true },
     trimp: { type: DataTypes.FLOAT, allowNull: true },
     zoneMinutes: { type: DataTypes.TEXT, allowNull: true },
+    bandLoad: { type: DataTypes.FLOAT, allowNull: true },
     targetedS: { type: DataTypes.INTEGER, allowNull: true },
     inTargetS: { type: DataTypes.INTEGER, allowNull: true },
     pacingSplit: { type: DataTypes.TEXT, allowNull: true },

@@ -6,6 +6,7 @@ import { activityHistograms, loadActivity, type UploadSummary } from "./uploads"
 import { addDays, daysBetween, mondayOf, todayIn } from "~/lib/dates";
 import {
   acuteChronicRatio,
+  bandLoad,
   effortLoad,
   fitnessFatigue,
   minutesPerBand,
@@ -32,8 +33,8 @@ export class LoadError extends Error {
 
 /**
  * Attaches a ride file to the planned session of its day (same sport, still planned), or keeps it as an unplanned
- * ride. Work, minutes per power band and Banister TRIMP (from the athlete's resting and maximum heart rate) are
- * stored on the session.
+ * ride. Work, minutes per power band, band load and Banister TRIMP (from the athlete's resting and maximum heart
+ * rate) are stored on the session.
  */
 export async function attachRide(athlete: User, uploadId: number, date: string, effortScore: number | null) {
   const upload = await Upload.findOne({ where: { id: uploadId, athleteId: athlete.id } });
@@ -46,13 +47,14 @@ export async function attachRide(athlete: User, uploadId: number, date: string, 
   // Kept on the session as a record of the bands at the time; pages recompute time in band from the file's histogram.
   const powerSet = (await bandSetsFor(athlete))["bike:power"];
   const hist = (upload.summary as Partial<UploadSummary>).histograms ?? activityHistograms(activity);
-  const zones = hasPower && power && hist.power ? minutesPerBand(hist.power, power.value, powerSet) : null;
+  const banded = hasPower && power && hist.power ? bandLoad(hist.power, power.value, powerSet) : null;
+  const zones = banded?.minutes ?? null;
   const hr = samples.map((s) => s.hr).filter((v): v is number => typeof v === "number");
   const trimp =
     hr.length > 60 && athlete.restingHr && athlete.maxHr
       ? trimpBanister({ minutes: hr.length / 60, avgHr: hr.reduce((a, b) => a + b, 0) / hr.length, restHr: athlete.restingHr, maxHr: athlete.maxHr, sex: athlete.sex === "female" ? "female" : "male" })
       : null;
-  const result = { workKj: hasPower ? workKj(samples) : null, trimp, zoneMinutes: zones ? JSON.stringify(zones) : null, uploadId: upload.id, actualMinutes: Math.round(minutes * 10) / 10 };
+  const result = { workKj: hasPower ? workKj(samples) : null, trimp, zoneMinutes: zones ? JSON.stringify(zones) : null, bandLoad: banded ? Math.round(banded.load * 10) / 10 : null, uploadId: upload.id, actualMinutes: Math.round(minutes * 10) / 10 };
   return writeTransaction(async (transaction) => {
     const planned = await ScheduledSession.findOne({ where: { athleteId: athlete.id, date, status: "planned", sport: "bike" }, order: [["position", "ASC"]], transaction });
     if (planned) {
@@ -83,6 +85,7 @@ export interface DayRow {
   test_protocol: string | null;
   targeted_s: number | null;
   in_target_s: number | null;
+  band_load: number | null;
 }
 
 /** The date a ride file belongs to: its session's day when attached, else the day it was ridden where the athlete lives. */
@@ -139,7 +142,7 @@ export async function rideBandMinutes(athlete: User, from: string, to: string, b
 export const warmStart = (from: string) => addDays(from, -84);
 
 /** The session columns the load model reads, for one athlete or (with athlete_id) for a roster at once. */
-export const DAY_COLUMNS = "date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, test_protocol, targeted_s, in_target_s";
+export const DAY_COLUMNS = "date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, test_protocol, targeted_s, in_target_s, band_load";
 
 export async function loadSeries(athlete: User, from: string, to: string) {
   const today = todayIn(athlete.timezone);
@@ -160,7 +163,7 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
   const nb = powerBands.bands.length;
   const days = Array.from({ length: n }, (_, i) => {
     const date = addDays(warmFrom, i);
-    return { date, effortLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, targeted: 0, inTarget: 0, bandMinutes: rides.get(date) ?? (new Array(nb).fill(0) as number[]) };
+    return { date, effortLoad: 0, powerLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, targeted: 0, inTarget: 0, bandMinutes: rides.get(date) ?? (new Array(nb).fill(0) as number[]) };
   });
   for (const r of rows) {
     const d = days[daysBetween(warmFrom, r.date)];
@@ -178,6 +181,11 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
       d.done++;
       d.doneMinutes += r.actual_minutes ?? 0;
       if (r.effort_score !== null && r.actual_minutes !== null) d.effortLoad += effortLoad(r.effort_score, r.actual_minutes);
+      else if (r.band_load !== null) {
+        // A ride with power but no effort score still carries load: its band load stands in (see bandLoad).
+        d.effortLoad += r.band_load;
+        d.powerLoad += r.band_load;
+      }
       d.trimp += r.trimp ?? 0;
       d.targeted += r.targeted_s ?? 0;
       d.inTarget += r.in_target_s ?? 0;
@@ -199,6 +207,7 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
       date: d.date,
       future: d.date > today,
       effortLoad: round(d.effortLoad),
+      powerLoad: round(d.powerLoad),
       plannedLoad: round(d.plannedLoad),
       trimp: round(d.trimp),
       workKj: round(d.workKj),
@@ -212,7 +221,7 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
     }))
     .filter((d) => d.date >= from);
 
-  const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; bandMinutes: number[]; loads: number[]; usual: { low: number; high: number } | null }>();
+  const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; powerLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; bandMinutes: number[]; loads: number[]; usual: { low: number; high: number } | null }>();
   const firstMonday = mondayOf(from);
   const todayIdx = daysBetween(warmFrom, today);
   for (const d of days.filter((x) => x.date >= firstMonday)) {
@@ -221,9 +230,10 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
     let e = weeks.get(w);
     if (!e) {
       const usual = firstRecord === -1 ? null : usualWeekRange(modelLoads, Math.min(daysBetween(warmFrom, w), todayIdx + 1), { historyStart });
-      e = { week: w, plannedLoad: 0, doneLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, bandMinutes: new Array(nb).fill(0) as number[], loads: [] as number[], usual: usual && { low: round(usual.low), high: round(usual.high) } };
+      e = { week: w, plannedLoad: 0, doneLoad: 0, powerLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, bandMinutes: new Array(nb).fill(0) as number[], loads: [] as number[], usual: usual && { low: round(usual.low), high: round(usual.high) } };
     }
     e.doneLoad += d.effortLoad;
+    e.powerLoad += d.powerLoad;
     e.plannedLoad += d.plannedAll;
     e.plannedSessions += d.planned;
     e.doneSessions += d.done;
@@ -241,6 +251,7 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
       ...w,
       plannedLoad: round(w.plannedLoad),
       doneLoad: round(w.doneLoad),
+      powerLoad: round(w.powerLoad),
       plannedMinutes: Math.round(w.plannedMinutes),
       doneMinutes: Math.round(w.doneMinutes),
       bandMinutes: w.bandMinutes.map((m) => round(m)),
