@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { CoachAthlete, RescaleReport, Threshold } from "~/.server/models";
+import { CoachAthlete, OutboundEmail, RescaleReport, Threshold } from "~/.server/models";
 import { saveTest } from "~/.server/services/field-tests";
 import * as tests from "~/routes/athlete/tests";
 import { formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
@@ -32,7 +32,7 @@ describe("running paces on the athlete's tests page", () => {
 
 describe("cross-check between two tests within 14 days", () => {
   it("shows both estimates, and the mean chosen becomes the threshold recording both tests", async () => {
-    const { athlete, cookie } = await scenario();
+    const { athlete, coach, cookie } = await scenario();
     const a = await saveTest(athlete, athlete, { protocol: "twenty_minute", inputs: { meanW: 290 }, testedOn: "2026-11-03", readiness: READY });
     const b = await saveTest(athlete, athlete, { protocol: "eight_minute", inputs: { meanW: 310 }, testedOn: "2026-11-10", readiness: READY });
     const page = payloadOf(await run(tests.loader, getRequest("/athlete/tests", cookie)));
@@ -50,6 +50,15 @@ describe("cross-check between two tests within 14 days", () => {
     expect(JSON.parse(latest!.sourceTests!)).toEqual({ pair: [a.test.id, b.test.id], choice: "mean", tests: [a.test.id, b.test.id] });
     const again = payloadOf(await run(tests.loader, getRequest("/athlete/tests", cookie)));
     expect(again.crossChecks[0].settled).toMatchObject({ choice: "mean" });
+    // The threshold history says which tests each value came from.
+    const basis = again.thresholds.map((t: { basis: string }) => t.basis);
+    expect(basis).toContain("From the 20-minute test of 2026-11-03");
+    expect(basis.at(-1)).toBe("Cross-check: mean of the 20-minute test of 2026-11-03 and the 8-minute test of 2026-11-10");
+    // Athlete and coach hear of it as of a saved test, with what it changed.
+    const mails = await OutboundEmail.findAll({ where: { template: "rescale-summary" }, order: [["id", "ASC"]] });
+    const crossMails = mails.filter((m) => m.textBody.includes("cross-check"));
+    expect(crossMails.map((m) => m.toAddress).sort()).toEqual([athlete.email, coach.email].sort());
+    expect(crossMails[0].textBody).toMatch(/threshold to 278 W/);
   });
 
   it("a large change from the cross-check goes through the guard: refused without confirmation, saved and recorded with it", async () => {

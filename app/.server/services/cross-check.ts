@@ -1,8 +1,8 @@
 import { Op } from "sequelize";
 import { writeTransaction } from "../db";
-import { FieldTest, Threshold, type User } from "../models";
+import { CoachAthlete, FieldTest, Threshold, User } from "../models";
 import { applyThreshold } from "./rescale";
-import { TestError } from "./field-tests";
+import { queueRescaleSummary, TestError } from "./field-tests";
 import { PROTOCOLS, type ProtocolKey } from "~/lib/protocols";
 import { checkPairWindow, crossCheck, CROSS_CHECK_DAYS, plausibilityGuard, type CrossCheck } from "~/lib/training";
 import { formatThreshold } from "~/lib/zone-table";
@@ -94,15 +94,21 @@ export async function applyCrossCheck(athlete: User, by: User, input: { aId: num
   if (guard.flagged && input.confirmed !== true) {
     throw new TestError(`${guard.headline} Read the likely reasons and confirm the change to save it.`, 409, "confirm");
   }
+  const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
+  const labelOf = (t: FieldTest) => (PROTOCOLS[t.protocol as ProtocolKey]?.label ?? t.protocol).toLowerCase();
+  const label = picked
+    ? `cross-check (the ${labelOf(picked)} of ${picked.testedOn}, checked against the ${labelOf(picked === first ? second : first)} of ${(picked === first ? second : first).testedOn})`
+    : `cross-check (the mean of the ${labelOf(first)} of ${first.testedOn} and the ${labelOf(second)} of ${second.testedOn})`;
   return writeTransaction(async (transaction) => {
     // No single field test owns this threshold (sourceTests names them), so undoing one test keeps to its own
     // rescale report and never picks up this one.
-    const { report, threshold } = await applyThreshold({ athleteId: athlete.id, sport, metric, value, unit: first.unit, from, fieldTestId: null, createdBy: by.id }, transaction);
+    const { report, threshold, previous } = await applyThreshold({ athleteId: athlete.id, sport, metric, value, unit: first.unit, from, fieldTestId: null, createdBy: by.id }, transaction);
     await threshold.update({ source: "cross_check", sourceTests: JSON.stringify({ pair: [first.id, second.id], choice, tests: picked ? [picked.id] : [first.id, second.id] }) }, { transaction });
     await report.update(
       { guard: { flagged: guard.flagged, changePct: guard.changePct, headline: guard.headline, reasons: guard.reasons }, confirmedBy: guard.flagged ? by.id : null, confirmedAt: guard.flagged ? new Date() : null },
       { transaction },
     );
+    await queueRescaleSummary({ athlete, coaches, by, label, testedOn: from, sport, metric, unit: first.unit, value, previous, report, guard }, transaction);
     return { threshold, report, value };
   });
 }

@@ -1,4 +1,5 @@
 import { Op } from "sequelize";
+import type { Transaction } from "sequelize";
 import { z } from "zod";
 import { lockRow, writeTransaction } from "../db";
 import { env } from "../env";
@@ -9,7 +10,7 @@ import { loadActivity } from "./uploads";
 import { computeThreshold, type ThresholdResult } from "~/lib/field-tests";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
-import { bestEffort, detectRampTest, pacingAdvice, pacingSplits, plausibilityGuard, thresholdHeartRate, TrainingInputError, type GuardResult, type RampDetection, type Sample } from "~/lib/training";
+import { bestEffort, detectRampTest, pacingAdvice, pacingSplits, plausibilityGuard, thresholdHeartRate, TrainingInputError, type GuardResult, type Metric, type RampDetection, type Sample, type ThresholdSport } from "~/lib/training";
 import { formatThreshold } from "~/lib/zone-table";
 import { thresholdBandsText } from "./bands";
 
@@ -270,37 +271,60 @@ export async function saveTest(
       { guard: { flagged: guard.flagged, changePct: guard.changePct, headline: guard.headline, reasons: guard.reasons }, confirmedBy: guard.flagged ? by.id : null, confirmedAt: guard.flagged ? new Date() : null },
       { transaction },
     );
-    const guardNote = guard.flagged
-      ? `${guard.headline} ${by.name} saw the likely reasons and confirmed the change${by.id === athlete.id ? "" : ` for ${athlete.name}`}.`
-      : "";
-    const examples = report.examples.map((e) => `${e.date} ${e.name}: ${e.before} → ${e.after}`).join("\n") || "No planned sessions needed a change.";
-    const bands = await thresholdBandsText(athlete, result.sport, result.metric, value, result.unit, transaction);
-    for (const person of [athlete, ...coaches]) {
-      await queueEmail(
-        {
-          to: person.email,
-          template: "rescale-summary",
-          vars: {
-            recipientName: person.name,
-            athleteName: athlete.name,
-            testLabel: protocol.label.toLowerCase(),
-            testedOn: body.testedOn,
-            metricLabel: METRIC_LABEL[result.metric],
-            newValue: formatThreshold(value, result.unit),
-            oldValue: previous ? formatThreshold(previous.value, result.unit) : "not set",
-            sessionsChanged: report.sessionsChanged,
-            blocksChanged: report.blocksChanged,
-            examples,
-            bands,
-            guardNote,
-            link: `${env().appUrl}${person.id === athlete.id ? "/athlete/calendar" : `/coach/athletes/${athlete.id}/calendar`}`,
-          },
-        },
-        transaction,
-      );
-    }
+    await queueRescaleSummary({ athlete, coaches, by, label: protocol.label.toLowerCase(), testedOn: body.testedOn, sport: result.sport, metric: result.metric, unit: result.unit, value, previous, report, guard }, transaction);
     return { test, report, repeated: false };
   });
+}
+
+/**
+ * The summary athlete and coaches get when a new threshold rescales the plan, from a saved test or a cross-check:
+ * old and new value, how many sessions changed with examples, the new bands, and who confirmed a flagged change.
+ */
+export async function queueRescaleSummary(
+  a: {
+    athlete: User;
+    coaches: User[];
+    by: User;
+    label: string;
+    testedOn: string;
+    sport: ThresholdSport;
+    metric: Metric;
+    unit: string;
+    value: number;
+    previous: { value: number } | null;
+    report: RescaleReport;
+    guard: GuardResult;
+  },
+  transaction: Transaction,
+) {
+  const { athlete, by, guard, report } = a;
+  const guardNote = guard.flagged ? `${guard.headline} ${by.name} saw the likely reasons and confirmed the change${by.id === athlete.id ? "" : ` for ${athlete.name}`}.` : "";
+  const examples = report.examples.map((e) => `${e.date} ${e.name}: ${e.before} → ${e.after}`).join("\n") || "No planned sessions needed a change.";
+  const bands = await thresholdBandsText(athlete, a.sport, a.metric, a.value, a.unit, transaction);
+  for (const person of [athlete, ...a.coaches]) {
+    await queueEmail(
+      {
+        to: person.email,
+        template: "rescale-summary",
+        vars: {
+          recipientName: person.name,
+          athleteName: athlete.name,
+          testLabel: a.label,
+          testedOn: a.testedOn,
+          metricLabel: METRIC_LABEL[a.metric],
+          newValue: formatThreshold(a.value, a.unit),
+          oldValue: a.previous ? formatThreshold(a.previous.value, a.unit) : "not set",
+          sessionsChanged: report.sessionsChanged,
+          blocksChanged: report.blocksChanged,
+          examples,
+          bands,
+          guardNote,
+          link: `${env().appUrl}${person.id === athlete.id ? "/athlete/calendar" : `/coach/athletes/${athlete.id}/calendar`}`,
+        },
+      },
+      transaction,
+    );
+  }
 }
 
 /**
@@ -352,6 +376,25 @@ export async function undoTest(athlete: User, by: User, testId: number) {
   });
 }
 
+const testWords = (t: FieldTest | undefined) => (t ? `the ${(PROTOCOLS[t.protocol as ProtocolKey]?.label ?? t.protocol).toLowerCase()} of ${t.testedOn}` : "a test no longer listed");
+
+/** Where a threshold came from, in words: its test, the cross-checked pair and the choice made, or a typed value. */
+export function thresholdBasis(t: Threshold, tests: Map<number, FieldTest>): string {
+  if (t.sourceTests) {
+    try {
+      const src = JSON.parse(t.sourceTests) as { pair: [number, number]; choice: "a" | "b" | "mean" };
+      const [a, b] = src.pair.map((id) => tests.get(id));
+      if (src.choice === "mean") return `Cross-check: mean of ${testWords(a)} and ${testWords(b)}`;
+      const [chosen, other] = src.choice === "a" ? [a, b] : [b, a];
+      return `Cross-check: ${testWords(chosen)}, checked against ${testWords(other)}`;
+    } catch {
+      return "Cross-check";
+    }
+  }
+  if (t.fieldTestId) return `From ${testWords(tests.get(t.fieldTestId))}`;
+  return t.source === "seed" ? "Starting value" : "Set by hand";
+}
+
 export async function testHistory(athleteId: number) {
   const [tests, thresholds, reports] = await Promise.all([
     FieldTest.findAll({ where: { athleteId }, order: [["testedOn", "DESC"], ["id", "DESC"]] }),
@@ -364,6 +407,7 @@ export async function testHistory(athleteId: number) {
   const inForce = new Set(latest.values());
   const people = await User.findAll({ where: { id: [...new Set([...tests.map((t) => t.undoneBy), ...reports.map((r) => r.confirmedBy)].filter((x): x is number => !!x))] }, attributes: ["id", "name"] });
   const names = new Map(people.map((p) => [p.id, p.name]));
+  const testsById = new Map(tests.map((t) => [t.id, t]));
   return {
     tests: tests.map((t) => ({
       id: t.id,
@@ -381,7 +425,7 @@ export async function testHistory(athleteId: number) {
       canUndo: t.status === "active" && t.createdAt.getTime() >= Date.now() - UNDO_DAYS * 86_400_000,
       savedAt: t.createdAt.toISOString(),
     })),
-    thresholds: thresholds.map((t) => ({ id: t.id, sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, effectiveFrom: t.effectiveFrom, source: t.source })),
+    thresholds: thresholds.map((t) => ({ id: t.id, sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, display: formatThreshold(t.value, t.unit), effectiveFrom: t.effectiveFrom, source: t.source, basis: thresholdBasis(t, testsById) })),
     reports: reports.map((r) => ({ id: r.id, fieldTestId: r.fieldTestId, kind: r.kind, sport: r.sport, metric: r.metric, oldValue: r.oldValue, newValue: r.newValue, unit: r.unit, fromDate: r.fromDate, sessions: r.sessionsChanged, blocks: r.blocksChanged, examples: r.examples, at: r.createdAt.toISOString(), guard: r.guard, confirmedBy: r.confirmedBy ? (names.get(r.confirmedBy) ?? null) : null })),
   };
 }

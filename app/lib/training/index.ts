@@ -120,6 +120,7 @@ export {
   FIRST_TEST_EXPECTATION,
   type GuardInput,
   type GuardResult,
+  type ThresholdSport,
 } from "./plausibility";
 export {
   PACED_PROTOCOLS,

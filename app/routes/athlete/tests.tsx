@@ -109,6 +109,20 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
               )}
             </div>
             {points.length ? <ThresholdChart points={points} unit={thresholds.find((t) => `${t.sport}:${t.metric}` === shown)!.unit} /> : <p className="mt-2 text-sm text-ink-soft">No thresholds yet: log a field test.</p>}
+            {points.length > 0 && (
+              <ol className="num mt-3 flex flex-col divide-y divide-line/60 text-sm" data-testid="threshold-basis" aria-label="Where each threshold came from">
+                {thresholds
+                  .filter((t) => `${t.sport}:${t.metric}` === shown)
+                  .reverse()
+                  .map((t) => (
+                    <li key={t.id} className="grid grid-cols-[6.5rem_5.5rem_1fr] gap-2 py-1.5 max-sm:grid-cols-[6.5rem_1fr]">
+                      <span className="text-ink-soft">{t.effectiveFrom}</span>
+                      <span className="font-medium">{t.display}</span>
+                      <span className="text-ink-soft max-sm:col-span-2">{t.basis}</span>
+                    </li>
+                  ))}
+              </ol>
+            )}
           </Card>
           <Card className="overflow-x-auto">
             <h2 className="font-semibold">Tests</h2>
