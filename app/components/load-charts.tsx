@@ -1,9 +1,9 @@
-import { useEffect, useState } from "react";
-import { useFetcher } from "react-router";
+import { Form, useLocation, useNavigation } from "react-router";
 import { Area, Bar, BarChart, CartesianGrid, ComposedChart, Legend, Line, LineChart, ReferenceArea, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { addDays } from "~/lib/dates";
+import { LOAD_RANGES } from "~/lib/load-ranges";
 
 export interface LoadData {
   today: string;
@@ -35,25 +35,14 @@ export interface LoadData {
   powerCurve: { windowS: number; recent: number | null; previous: number | null }[];
 }
 
-const RANGES = [
-  ["6 weeks", 42],
-  ["3 months", 90],
-  ["6 months", 182],
-  ["1 year", 365],
-] as const;
 const BAND_WORDS: Record<string, string> = { low: "below your usual load", usual: "within your usual range", raised: "raised", spike: "a spike: well above your usual load" };
 const short = (d: string) => d.slice(5);
 const windowLabel = (s: number) => (s < 60 ? `${s}s` : s < 3600 ? `${s / 60}m` : `${s / 3600}h`);
 
-/** The load page's charts; the range buttons ask the JSON route again, so the page never reloads. */
-export function LoadCharts({ athleteId, initial }: { athleteId: number; initial: LoadData }) {
-  const fetcher = useFetcher<LoadData>();
-  const [days, setDays] = useState(90);
-  const data = fetcher.data ?? initial;
-  useEffect(() => {
-    if (days === 90 && !fetcher.data) return;
-    fetcher.load(`/api/athletes/${athleteId}/load?from=${addDays(initial.today, -days + 1)}&to=${addDays(initial.today, 28)}`);
-  }, [days]); // eslint-disable-line react-hooks/exhaustive-deps
+/** The load page's charts. The range is a GET form: the loader reads `?range=`, so the period is part of the URL. */
+export function LoadCharts({ athleteId, data, range }: { athleteId: number; data: LoadData; range: string }) {
+  const navigation = useNavigation();
+  const location = useLocation();
   const thisWeek = data.weekly.find((w) => w.week <= data.today && data.today < addDays(w.week, 7))?.week;
   // Past weeks show what was done, the current and later weeks what is planned; the range is the same either way.
   const weekly = data.weekly.map((w) => ({ ...w, range: w.usual ? [w.usual.low, w.usual.high] : null, done: w.week <= data.today || w.doneLoad > 0 ? w.doneLoad : null }));
@@ -61,16 +50,18 @@ export function LoadCharts({ athleteId, initial }: { athleteId: number; initial:
   const noRatio = data.daily.every((d) => d.acwrRolling === null);
   return (
     <div className="flex flex-col gap-6">
-      <div className="flex flex-wrap items-center gap-2" role="group" aria-label="Range">
-        {RANGES.map(([label, n]) => (
-          <button key={n} type="button" aria-pressed={days === n} className={buttonClass(days === n ? "primary" : "secondary", "px-3 py-1")} onClick={() => setDays(n)}>
-            {label}
-          </button>
-        ))}
+      <div className="flex flex-wrap items-center gap-2">
+        <Form method="get" preventScrollReset className="flex flex-wrap gap-2" role="group" aria-label="Range">
+          {LOAD_RANGES.map((r) => (
+            <button key={r.key} type="submit" name="range" value={r.key} aria-pressed={range === r.key} className={buttonClass(range === r.key ? "primary" : "secondary", "px-3 py-1")}>
+              {r.label}
+            </button>
+          ))}
+        </Form>
         <a href={`/api/athletes/${athleteId}/load?from=${data.from}&to=${data.to}&format=csv`} className="ml-auto text-sm text-teal underline" download>
           Download the daily series (CSV)
         </a>
-        {fetcher.state === "loading" && <span className="text-sm text-ink-soft">Loading…</span>}
+        {navigation.state === "loading" && navigation.location.pathname === location.pathname && <span className="text-sm text-ink-soft">Loading…</span>}
       </div>
       <div className="grid gap-6 lg:grid-cols-[1fr_20rem]">
         <Card>

@@ -55,12 +55,15 @@ describe.skipIf(!enabled)("training load in the browser", () => {
     const after = await row.locator("td").nth(1).textContent();
     const doneOf = (s: string | null) => Number(s!.split("/")[0].trim());
     expect(doneOf(after)).toBe(doneOf(before) + 1);
-    // Changing the range asks the JSON route; the page does not reload.
-    const url = page.url();
-    const reply = page.waitForResponse((r) => r.url().includes("/load") && r.url().includes("from=") && r.status() === 200);
+    // The range is part of the URL: the loader reads it, the button shows it, and a reload keeps it.
     await page.getByRole("button", { name: "6 weeks" }).click();
-    await reply;
-    expect(page.url()).toBe(url);
+    await page.waitForURL((u) => u.searchParams.get("range") === "6w");
+    await expect.poll(() => page.getByRole("button", { name: "6 weeks" }).getAttribute("aria-pressed")).toBe("true");
+    const weeksShown = () => page.getByTestId("compliance-table").locator("tbody tr").count();
+    await expect.poll(weeksShown).toBeLessThan(13);
+    await page.reload();
+    await ready(page);
+    expect(await page.getByRole("button", { name: "6 weeks" }).getAttribute("aria-pressed")).toBe("true");
     await shot(page, "load-after");
     await ctx.close();
 

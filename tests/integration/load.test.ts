@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import { CoachAthlete, ScheduledBlock, ScheduledSession, Threshold } from "~/.server/models";
 import { attachRide, loadSeries } from "~/.server/services/load";
 import * as loadApi from "~/routes/api/athlete-load";
+import * as loadPage from "~/routes/athlete/load";
 import * as roster from "~/routes/coach/roster";
 import * as uploads from "~/routes/api/uploads";
 import { addDays, todayIn } from "~/lib/dates";
@@ -162,5 +163,15 @@ describe("training load", () => {
     const scored = (await loadSeries(athlete, addDays(today, -13), today)).daily.find((x) => x.date === day)!;
     expect(scored.effortLoad).toBeCloseTo(4 * (ride.length / 60), 0);
     expect(scored.powerLoad).toBe(0);
+  });
+  it("the load page reads its period from the URL; an unknown range falls back to three months", async () => {
+    const { athlete, today } = await fixture();
+    const cookie = await signIn(athlete.email);
+    const six = payloadOf(await run(loadPage.loader, getRequest("/athlete/load?range=6w", cookie)));
+    expect(six.range).toBe("6w");
+    expect(six.data.from).toBe(addDays(today, -41));
+    const odd = payloadOf(await run(loadPage.loader, getRequest("/athlete/load?range=forever", cookie)));
+    expect(odd.range).toBe("3m");
+    expect(odd.data.from).toBe(addDays(today, -89));
   });
 });

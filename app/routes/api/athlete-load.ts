@@ -1,3 +1,4 @@
+import Papa from "papaparse";
 import { requireUser } from "~/.server/auth";
 import { calendarSubject } from "~/.server/services/calendar";
 import { loadSeries, powerCurveComparison } from "~/.server/services/load";
@@ -23,9 +24,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (url.searchParams.get("format") === "csv") {
     // One column of ride minutes per power band of the athlete's band set, named after the band.
     const bandCols = series.bands.map((b, i) => `minutes_${b.name.toLowerCase().replace(/[^a-z0-9]+/g, "_").replace(/^_|_$/g, "") || `band_${i + 1}`}`);
-    const header = ["date,done_load,of_which_power_load,planned_load,trimp,work_kj,fitness,fatigue,balance,acute_chronic_rolling,acute_chronic_ewma", ...bandCols].join(",");
-    const lines = series.daily.map((d) => [d.date, d.effortLoad, d.powerLoad, d.plannedLoad, d.trimp, d.workKj, d.fitness, d.fatigue, d.balance, d.acwrRolling ?? "", d.acwrEwma ?? "", ...d.bandMinutes].join(","));
-    return new Response([header, ...lines].join("\n") + "\n", {
+    const fields = ["date", "done_load", "of_which_power_load", "planned_load", "trimp", "work_kj", "fitness", "fatigue", "balance", "acute_chronic_rolling", "acute_chronic_ewma", ...bandCols];
+    const rows = series.daily.map((d) => [d.date, d.effortLoad, d.powerLoad, d.plannedLoad, d.trimp, d.workKj, d.fitness, d.fatigue, d.balance, d.acwrRolling ?? "", d.acwrEwma ?? "", ...d.bandMinutes]);
+    return new Response(Papa.unparse({ fields, data: rows }, { newline: "\n" }) + "\n", {
       headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="pacewright-load-${from}-${to}.csv"`, "Cache-Control": "private, no-store" },
     });
   }

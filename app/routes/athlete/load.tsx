@@ -3,6 +3,7 @@ import { PageHeader } from "~/components/ui/card";
 import { loadSeries, powerCurveComparison } from "~/.server/services/load";
 import { athleteSubject } from "~/.server/subject";
 import { addDays, todayIn } from "~/lib/dates";
+import { loadRange } from "~/lib/load-ranges";
 import type { Route } from "./+types/load";
 
 export const meta: Route.MetaFunction = () => [{ title: "Training load · Pacewright" }];
@@ -10,16 +11,18 @@ export const meta: Route.MetaFunction = () => [{ title: "Training load · Pacewr
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { athlete, viewer } = await athleteSubject(request, params.athleteId);
   const today = todayIn(athlete.timezone);
-  const series = await loadSeries(athlete, addDays(today, -89), addDays(today, 28));
-  return { athlete: { id: athlete.id, name: athlete.name }, forCoach: viewer.id !== athlete.id, initial: { ...series, powerCurve: await powerCurveComparison(athlete) } };
+  // The period lives in the URL (?range=…), so it can be shared, bookmarked and kept on reload; unknown values fall back.
+  const range = loadRange(new URL(request.url).searchParams.get("range"));
+  const series = await loadSeries(athlete, addDays(today, -range.days + 1), addDays(today, 28));
+  return { athlete: { id: athlete.id, name: athlete.name }, forCoach: viewer.id !== athlete.id, range: range.key, data: { ...series, powerCurve: await powerCurveComparison(athlete) } };
 }
 
 export default function LoadPage({ loaderData }: Route.ComponentProps) {
-  const { athlete, forCoach, initial } = loaderData;
+  const { athlete, forCoach, data, range } = loaderData;
   return (
     <>
       <PageHeader title={forCoach ? `${athlete.name}: training load` : "Training load"} lead="What was planned against what was done, and where the load is heading." />
-      <LoadCharts athleteId={athlete.id} initial={initial} />
+      <LoadCharts athleteId={athlete.id} data={data} range={range} />
     </>
   );
 }
