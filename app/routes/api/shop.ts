@@ -1,11 +1,9 @@
 import { publishedListings } from "~/.server/services/shop";
+import { shopFilter } from "~/lib/shop-filter";
 import type { Route } from "./+types/shop";
 
-// Public: the shop window is open to anyone; only published listings are ever returned.
+// Public JSON for other clients (the page itself reads the same filters in its own loader); only published listings.
 export async function loader({ request }: Route.LoaderArgs) {
-  const url = new URL(request.url);
-  const sport = url.searchParams.get("sport") ?? "";
-  const maxWeeks = Number(url.searchParams.get("maxWeeks")) || undefined;
-  const maxHours = Number(url.searchParams.get("maxHours")) || undefined;
-  return Response.json({ listings: await publishedListings({ sport: ["bike", "run", "swim", "multi"].includes(sport) ? sport : undefined, maxWeeks, maxHours }) }, { headers: { "Cache-Control": "no-store" } });
+  const filter = shopFilter(new URL(request.url).searchParams);
+  return Response.json({ listings: await publishedListings(filter) }, { headers: { "Cache-Control": "no-store" } });
 }

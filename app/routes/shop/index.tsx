@@ -1,35 +1,37 @@
-import { useEffect, useState } from "react";
-import { Link, useFetcher } from "react-router";
+import { Form, Link, useNavigation, useSubmit } from "react-router";
+import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { publishedListings } from "~/.server/services/shop";
+import { shopFilter } from "~/lib/shop-filter";
 import type { Route } from "./+types/index";
 
 export const meta: Route.MetaFunction = () => [{ title: "Plan shop · Pacewright" }];
 
-// Public: anyone may look; buying needs an athlete account.
-export async function loader() {
-  return { listings: await publishedListings() };
+// Public: anyone may look; buying needs an athlete account. The filters are search params, so a filtered window can
+// be shared and survives a reload.
+export async function loader({ request }: Route.LoaderArgs) {
+  const filter = shopFilter(new URL(request.url).searchParams);
+  return { filter, listings: await publishedListings(filter) };
 }
 
-type Listings = Route.ComponentProps["loaderData"]["listings"];
-
 export default function Shop({ loaderData }: Route.ComponentProps) {
-  const fetcher = useFetcher<{ listings: Listings }>();
-  const [sport, setSport] = useState("");
-  const [maxWeeks, setMaxWeeks] = useState("");
-  const [maxHours, setMaxHours] = useState("");
-  useEffect(() => {
-    if (!sport && !maxWeeks && !maxHours && !fetcher.data) return;
-    fetcher.load(`/api/shop?${new URLSearchParams({ sport, maxWeeks, maxHours })}`);
-  }, [sport, maxWeeks, maxHours]); // eslint-disable-line react-hooks/exhaustive-deps
-  const listings = fetcher.data?.listings ?? loaderData.listings;
+  const { listings, filter } = loaderData;
+  const submit = useSubmit();
+  const navigation = useNavigation();
   return (
     <div>
       <PageHeader title="Plan shop" lead="Season plans from coaches, written in percent of threshold: they fit your numbers from day one." />
-      <div className="mb-4 flex flex-wrap gap-3 rounded-xl border border-line bg-white p-4 text-sm">
+      <Form
+        method="get"
+        role="search"
+        aria-label="Filter plans"
+        className="mb-4 flex flex-wrap items-end gap-3 rounded-xl border border-line bg-white p-4 text-sm"
+        // With JavaScript each change applies at once (replacing the history entry); without it, the button sends the form.
+        onChange={(e) => submit(e.currentTarget, { replace: true, preventScrollReset: true })}
+      >
         <label className="flex flex-col gap-1">
           <span className="font-medium">Sport</span>
-          <select value={sport} onChange={(e) => setSport(e.target.value)} className="rounded-lg border border-line bg-white px-3 py-2">
+          <select name="sport" defaultValue={filter.sport ?? ""} className="rounded-lg border border-line bg-white px-3 py-2">
             <option value="">All</option>
             <option value="bike">Bike</option>
             <option value="run">Run</option>
@@ -39,13 +41,17 @@ export default function Shop({ loaderData }: Route.ComponentProps) {
         </label>
         <label className="flex flex-col gap-1">
           <span className="font-medium">At most weeks</span>
-          <input type="number" min={4} max={104} value={maxWeeks} onChange={(e) => setMaxWeeks(e.target.value)} className="w-28 rounded-lg border border-line px-3 py-2" />
+          <input name="maxWeeks" type="number" min={1} max={104} defaultValue={filter.maxWeeks ?? ""} className="w-28 rounded-lg border border-line px-3 py-2" />
         </label>
         <label className="flex flex-col gap-1">
           <span className="font-medium">At most hours a week</span>
-          <input type="number" min={1} max={40} value={maxHours} onChange={(e) => setMaxHours(e.target.value)} className="w-28 rounded-lg border border-line px-3 py-2" />
+          <input name="maxHours" type="number" min={1} max={40} defaultValue={filter.maxHours ?? ""} className="w-28 rounded-lg border border-line px-3 py-2" />
         </label>
-      </div>
+        <button type="submit" className={buttonClass("secondary", "py-2")}>
+          Show plans
+        </button>
+        {navigation.state === "loading" && navigation.location.pathname === "/shop" && <span className="text-ink-soft">Loading…</span>}
+      </Form>
       {listings.length === 0 ? (
         <Card>
           <p className="text-ink-soft">No plans match.</p>
