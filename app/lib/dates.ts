@@ -1,14 +1,26 @@
-/** Calendar-date helpers on YYYY-MM-DD strings, computed in UTC so no daylight-saving shift can move a day. */
-const DAY = 86_400_000;
+import { UTCDate } from "@date-fns/utc";
+import { addDays as addDaysTo, addWeeks as addWeeksTo, differenceInCalendarDays, formatISO, getISODay, startOfISOWeek, subDays as subDaysFrom } from "date-fns";
 
-export const toMs = (iso: string) => Date.parse(`${iso}T00:00:00Z`);
-export const fromMs = (ms: number) => new Date(ms).toISOString().slice(0, 10);
-export const addDays = (iso: string, n: number) => fromMs(toMs(iso) + n * DAY);
-export const daysBetween = (a: string, b: string) => Math.round((toMs(b) - toMs(a)) / DAY);
+/**
+ * Calendar-date helpers on YYYY-MM-DD strings. Arithmetic is date-fns on UTCDate, so no daylight-saving shift can
+ * move a day; every other module does its date arithmetic through these.
+ */
+const day = (iso: string) => new UTCDate(`${iso}T00:00:00Z`);
+const iso = (d: Date) => formatISO(d, { representation: "date" });
+
+export const toMs = (isoDay: string) => Date.parse(`${isoDay}T00:00:00Z`);
+export const fromMs = (ms: number) => iso(new UTCDate(ms));
+export const addDays = (isoDay: string, n: number) => iso(addDaysTo(day(isoDay), n));
+export const addWeeks = (isoDay: string, n: number) => iso(addWeeksTo(day(isoDay), n));
+export const daysBetween = (a: string, b: string) => differenceInCalendarDays(day(b), day(a));
 /** 0 = Monday … 6 = Sunday. */
-export const weekday = (iso: string) => (new Date(toMs(iso)).getUTCDay() + 6) % 7;
-export const mondayOf = (iso: string) => addDays(iso, -weekday(iso));
+export const weekday = (isoDay: string) => getISODay(day(isoDay)) - 1;
+export const mondayOf = (isoDay: string) => iso(startOfISOWeek(day(isoDay)));
 export const isIsoDate = (s: unknown): s is string => typeof s === "string" && /^\d{4}-\d{2}-\d{2}$/.test(s) && Number.isFinite(toMs(s)) && fromMs(toMs(s)) === s;
+/** The instant `n` days before `now` (for "within the last n days" checks on timestamps). */
+export const daysAgo = (n: number, now = new Date()) => subDaysFrom(now, n);
+/** Whole days from one instant to another, rounded, e.g. between two test dates given as YYYY-MM-DD. */
+export const daysApart = (a: string, b: string) => Math.abs(daysBetween(a, b));
 
 /** Today's date where the athlete lives. */
 // Building an Intl formatter costs far more than using one: one per time zone (or option set), kept.

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { CoachAthlete, FieldTest, OutboundEmail, ScheduledSession } from "~/.server/models";
-import { REMINDER_RULE, retestStatus, sendRetestReminders } from "~/.server/services/retests";
+import { Cron } from "croner";
+import { REMINDER_CRON, retestStatus, sendRetestReminders } from "~/.server/services/retests";
 import * as roster from "~/routes/coach/roster";
 import { addDays, todayIn } from "~/lib/dates";
 import { getRequest, makeUser, payloadOf, run, signIn } from "./helpers";
@@ -26,8 +27,11 @@ describe("retest due dates and reminders", () => {
     expect(list.athletes[0].retest).toMatchObject({ due: addDays(today, 10), lastTest: addDays(today, -40) });
   });
 
-  it("schedules the job daily at 07:00 UTC with rrule", () => {
-    const next = REMINDER_RULE.after(new Date(Date.UTC(2027, 2, 28, 8, 0, 0)))!;
-    expect(next.toISOString()).toBe("2027-03-29T07:00:00.000Z");
+  it("schedules the job daily at 07:00 UTC (croner reads the cron line)", () => {
+    const rule = new Cron(REMINDER_CRON, { timezone: "UTC", paused: true });
+    // The day after a run, and across the night Europe moves its clocks: still 07:00 UTC.
+    expect(rule.nextRun(new Date(Date.UTC(2027, 2, 28, 8, 0, 0)))!.toISOString()).toBe("2027-03-29T07:00:00.000Z");
+    expect(rule.nextRun(new Date(Date.UTC(2027, 2, 28, 6, 59, 0)))!.toISOString()).toBe("2027-03-28T07:00:00.000Z");
+    rule.stop();
   });
 });

@@ -9,7 +9,7 @@ import { db, writeTransaction } from "../db";
 import { env } from "../env";
 import { CoachAthlete, FeedToken, ScheduledSession, User } from "../models";
 import { hashToken, looksLikeToken } from "../tokens";
-import { addDays, todayIn, weekday } from "~/lib/dates";
+import { addDays, daysAgo, todayIn, weekday } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockBands, blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
 import type { BandSet, BandSetKey } from "~/lib/training";
@@ -81,7 +81,7 @@ const parseSqlDate = (s: string) => new Date(s.replace(" +00:00", "Z").replace("
 
 async function sessionsFor(athleteIds: number[], from: string, to: string, opts: { keyOnly?: boolean } = {}) {
   if (athleteIds.length === 0) return [];
-  const graceFrom = new Date(Date.now() - CANCELLED_GRACE_DAYS * 86_400_000);
+  const graceFrom = daysAgo(CANCELLED_GRACE_DAYS);
   const rows = await ScheduledSession.findAll({
     where: {
       athleteId: athleteIds,

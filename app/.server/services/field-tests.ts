@@ -8,7 +8,7 @@ import { CoachAthlete, FieldTest, RescaleReport, Threshold, Upload, User } from 
 import { applyThreshold, countScope, examplesFor, undoRescale } from "./rescale";
 import { loadActivity } from "./uploads";
 import { computeThreshold, type ThresholdResult } from "~/lib/field-tests";
-import { isIsoDate, todayIn } from "~/lib/dates";
+import { daysAgo, daysBetween, isIsoDate, todayIn } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { bestEffort, detectRampTest, pacingAdvice, pacingSplits, plausibilityGuard, thresholdHeartRate, TrainingInputError, type GuardResult, type Metric, type RampDetection, type Sample, type ThresholdSport } from "~/lib/training";
 import { formatThreshold } from "~/lib/zone-table";
@@ -168,7 +168,7 @@ async function guardFor(athlete: User, body: Body, result: ThresholdResult, valu
     // A threshold typed in (on its own or as the "enter a threshold" test) is named as such in the reasons.
     previousProtocolLabel: currentTest && currentTest.protocol !== "manual" ? (PROTOCOLS[currentTest.protocol as ProtocolKey]?.label ?? null) : current ? "typed threshold" : null,
     typed: !fromFile,
-    daysSinceLastTest: lastTest ? Math.round((Date.parse(body.testedOn) - Date.parse(lastTest.testedOn)) / 86_400_000) : null,
+    daysSinceLastTest: lastTest ? daysBetween(lastTest.testedOn, body.testedOn) : null,
     cautions: result.cautions,
     pacing: fromFile?.pacing ?? null,
     gaps: fromFile?.file ? { gapS: fromFile.file.gapS, windowS: fromFile.file.windowS } : null,
@@ -338,7 +338,7 @@ export async function undoTest(athlete: User, by: User, testId: number) {
     const test = await FieldTest.findOne({ where: { id: testId, athleteId: athlete.id }, transaction });
     if (!test) throw new TestError("No such test for this athlete.", 404);
     if (test.status === "undone") throw new TestError("This test was already removed.");
-    if (test.createdAt.getTime() < Date.now() - UNDO_DAYS * 86_400_000) throw new TestError(`Tests can be removed for ${UNDO_DAYS} days after they were saved.`);
+    if (test.createdAt < daysAgo(UNDO_DAYS)) throw new TestError(`Tests can be removed for ${UNDO_DAYS} days after they were saved.`);
     const report = await RescaleReport.findOne({ where: { fieldTestId: test.id, kind: "apply" }, transaction });
     const threshold = test.thresholdId ? await Threshold.findByPk(test.thresholdId, { transaction }) : null;
     const undo = report ? await undoRescale(report, threshold, by.id, transaction) : null;
@@ -422,7 +422,7 @@ export async function testHistory(athleteId: number) {
       inForce: t.status === "active" && t.thresholdId !== null && inForce.has(t.thresholdId),
       undoneAt: t.undoneAt ? t.undoneAt.toISOString() : null,
       undoneBy: t.undoneBy ? (names.get(t.undoneBy) ?? "a former member") : null,
-      canUndo: t.status === "active" && t.createdAt.getTime() >= Date.now() - UNDO_DAYS * 86_400_000,
+      canUndo: t.status === "active" && t.createdAt >= daysAgo(UNDO_DAYS),
       savedAt: t.createdAt.toISOString(),
     })),
     thresholds: thresholds.map((t) => ({ id: t.id, sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, display: formatThreshold(t.value, t.unit), effectiveFrom: t.effectiveFrom, source: t.source, basis: thresholdBasis(t, testsById) })),

@@ -6,7 +6,7 @@ import { Assignment, Listing, Order, PaymentEvent, PlanWeek, ScheduledBlock, Sch
 import { payments } from "../payments";
 import { alignStart, materialize, resolveSteps } from "./materialize";
 import { thresholdHistory, thresholdSport } from "./thresholds";
-import { todayIn } from "~/lib/dates";
+import { addDays, todayIn } from "~/lib/dates";
 import { defaultTestFor } from "~/lib/protocols";
 import { formatPrice } from "~/lib/shop";
 
@@ -259,7 +259,7 @@ async function place(order: Order, transaction: Transaction): Promise<string[]> 
   const hasThreshold = tsport ? (await Threshold.count({ where: { athleteId: buyer.id, sport: tsport }, transaction })) > 0 : true;
   let testNote = "";
   if (!hasThreshold) {
-    const weekOne = await ScheduledSession.findOne({ where: { assignmentId: assignment.id, testProtocol: { [Op.ne]: null }, date: { [Op.lt]: new Date(Date.parse(`${start}T00:00:00Z`) + 7 * 86_400_000).toISOString().slice(0, 10) } }, transaction });
+    const weekOne = await ScheduledSession.findOne({ where: { assignmentId: assignment.id, testProtocol: { [Op.ne]: null }, date: { [Op.lt]: addDays(start, 7) } }, transaction });
     if (!weekOne) {
       const test = defaultTestFor(plan.sport);
       const session = await ScheduledSession.create({ athleteId: buyer.id, assignmentId: assignment.id, date: start, name: test.session!.name, sport: plan.sport === "multi" ? "bike" : plan.sport, testProtocol: test.key, plannedDurationS: test.session!.blocks.reduce((s, b) => s + ("durationS" in b ? b.durationS : 0), 0) }, { transaction });

@@ -6,6 +6,7 @@ import { getSession } from "./sessions";
 import { defaultTestFor } from "~/lib/protocols";
 import { recurrenceSummary, type NewPlanInput } from "~/lib/plans";
 import { blockDuration, seasonSkeleton, type Block } from "~/lib/training";
+import { addDays, addWeeks, daysBetween, fromMs, toMs } from "~/lib/dates";
 
 const { RRule } = rrule;
 
@@ -257,15 +258,13 @@ export async function addRecurrence(ownerId: number, planId: number, input: { se
     const weeks = await PlanWeek.findAll({ where: { planId }, order: [["idx", "ASC"]], transaction });
     if (input.toWeek > weeks.length) throw new PlanError(`This plan has ${weeks.length} weeks.`, 400, "toWeek");
     const anchor = plan.startDate ?? UNALIGNED_ANCHOR;
-    const dtstart = new Date(`${anchor}T00:00:00Z`);
-    dtstart.setUTCDate(dtstart.getUTCDate() + (input.fromWeek - 1) * 7);
-    const until = new Date(`${anchor}T23:59:59Z`);
-    until.setUTCDate(until.getUTCDate() + input.toWeek * 7 - 1);
+    // rrule works in UTC instants; the plan's calendar days are midnight UTC of each date.
+    const dtstart = new Date(toMs(addWeeks(anchor, input.fromWeek - 1)));
+    const until = new Date(toMs(addDays(anchor, input.toWeek * 7 - 1)) + 86_399_000);
     const byday = [RRule.MO, RRule.TU, RRule.WE, RRule.TH, RRule.FR, RRule.SA, RRule.SU];
     const rule = new RRule({ freq: RRule.WEEKLY, dtstart, until, byweekday: [...new Set(input.days)].sort().map((d) => byday[d]), wkst: RRule.MO });
-    const base = new Date(`${anchor}T00:00:00Z`).getTime();
     const occurrences = rule.all().map((d) => {
-      const days = Math.round((d.getTime() - base) / 86_400_000);
+      const days = daysBetween(anchor, fromMs(d.getTime()));
       return { weekIdx: Math.floor(days / 7) + 1, day: days % 7 };
     });
     const recurrence = await PlanRecurrence.create(

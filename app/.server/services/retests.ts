@@ -1,12 +1,10 @@
-import rrule from "rrule";
+import { Cron } from "croner";
 import { Op, QueryTypes } from "sequelize";
 import { db, sqlDate, writeTransaction } from "../db";
 import { env } from "../env";
 import { queueEmail } from "../mail";
 import { CoachAthlete, FieldTest, ScheduledSession, User } from "../models";
 import { addDays, todayIn } from "~/lib/dates";
-
-const { RRule } = rrule;
 
 /** Without a test week on the calendar, a retest falls due this many weeks after the last test (common practice: 4–8). */
 export const RETEST_WEEKS = 6;
@@ -59,30 +57,29 @@ export async function sendRetestReminders(now = new Date()) {
   return sent;
 }
 
-/** The reminder job's schedule: every day at 07:00 UTC. */
-export const REMINDER_RULE = new RRule({ freq: RRule.DAILY, byhour: [7], byminute: [0], bysecond: [0], dtstart: new Date(Date.UTC(2026, 0, 1, 7, 0, 0)) });
+/** The reminder job's schedule: every day at 07:00 UTC (cron syntax, read by croner). */
+export const REMINDER_CRON = "0 7 * * *";
 
 declare global {
-  var __pacewrightReminders: NodeJS.Timeout | undefined;
+  var __pacewrightReminders: Cron | undefined;
 }
 
-/** Runs the reminder job at each occurrence of REMINDER_RULE (and once at start, in case a run was missed). */
+const runReminders = async () => {
+  await sendRetestReminders().catch((err) => console.error("[reminders]", err));
+};
+
+/**
+ * Runs the reminder job on REMINDER_CRON, and once at start in case a run was missed while no instance was up.
+ * Several instances may all fire: each reminder is claimed once per athlete and day in the database.
+ */
 export function startRetestReminders() {
   if (globalThis.__pacewrightReminders) return;
-  const schedule = () => {
-    const next = REMINDER_RULE.after(new Date()) ?? new Date(Date.now() + 86_400_000);
-    globalThis.__pacewrightReminders = setTimeout(() => {
-      sendRetestReminders().catch((err) => console.error("[reminders]", err));
-      schedule();
-    }, Math.min(next.getTime() - Date.now(), 2 ** 31 - 1));
-    globalThis.__pacewrightReminders.unref();
-  };
-  sendRetestReminders().catch((err) => console.error("[reminders]", err));
-  schedule();
+  globalThis.__pacewrightReminders = new Cron(REMINDER_CRON, { timezone: "UTC", protect: true, unref: true, name: "retest-reminders" }, runReminders);
+  void runReminders();
 }
 
 export function stopRetestReminders() {
-  if (globalThis.__pacewrightReminders) clearTimeout(globalThis.__pacewrightReminders);
+  globalThis.__pacewrightReminders?.stop();
   globalThis.__pacewrightReminders = undefined;
 }
 

@@ -1,4 +1,5 @@
 import { requirePositive, TrainingInputError } from "./errors";
+import { daysApart, isIsoDate } from "~/lib/dates";
 
 /**
  * Cross-check of two tests of the same sport and metric taken close together. The difference is given in % of the
@@ -39,7 +40,7 @@ export function crossCheck(a: number, b: number, metric: "power" | "heart_rate" 
 }
 
 export function checkPairWindow(dateA: string, dateB: string): number {
-  const days = Math.abs(Math.round((Date.parse(dateB) - Date.parse(dateA)) / 86_400_000));
+  const days = isIsoDate(dateA) && isIsoDate(dateB) ? daysApart(dateA, dateB) : NaN;
   if (!Number.isFinite(days)) throw new TrainingInputError("out_of_range", "Both tests need a date.");
   return days;
 }

@@ -1,4 +1,5 @@
 import { requireFinite, TrainingInputError } from "./errors";
+import { addWeeks, daysBetween, isIsoDate, mondayOf } from "~/lib/dates";
 
 export const PHASES = ["base", "build", "peak", "taper", "race", "recovery"] as const;
 export type Phase = (typeof PHASES)[number];
@@ -26,18 +27,11 @@ export interface SkeletonInput {
   maxWeeklyRise?: number;
 }
 
-const DAY = 86_400_000;
-const isoDate = /^\d{4}-\d{2}-\d{2}$/;
-
-function parseDay(s: string, label: string): number {
-  if (!isoDate.test(s)) throw new TrainingInputError("out_of_range", `${label} must be a date like 2027-04-18.`);
-  const [y, m, d] = s.split("-").map(Number);
-  const ms = Date.UTC(y, m - 1, d);
-  if (new Date(ms).getUTCDate() !== d) throw new TrainingInputError("out_of_range", `${label} is not a real date.`);
-  return ms;
+function parseDay(s: string, label: string): string {
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(s)) throw new TrainingInputError("out_of_range", `${label} must be a date like 2027-04-18.`);
+  if (!isIsoDate(s)) throw new TrainingInputError("out_of_range", `${label} is not a real date.`);
+  return s;
 }
-const mondayOf = (ms: number) => ms - ((new Date(ms).getUTCDay() + 6) % 7) * DAY;
-const fmt = (ms: number) => new Date(ms).toISOString().slice(0, 10);
 
 /** Load pattern constants (common practice): the first loading week, the step between loading weeks and blocks. */
 const FIRST_WEEK = 0.9;
@@ -65,23 +59,23 @@ export function seasonSkeleton(input: SkeletonInput): { startDate: string; event
   if (input.pattern !== "3:1" && input.pattern !== "2:1") throw new TrainingInputError("out_of_range", "Choose the 3:1 or 2:1 loading pattern.");
   const cycle = input.pattern === "3:1" ? 4 : 3;
 
-  let startMs: number;
+  let start: string;
   let count: number;
-  const eventMs = input.eventDate ? parseDay(input.eventDate, "The event date") : null;
-  if (input.startDate && eventMs !== null) {
-    startMs = mondayOf(parseDay(input.startDate, "The start date"));
-    if (eventMs < startMs) throw new TrainingInputError("inconsistent", "The event must come after the start.");
-    count = Math.round((mondayOf(eventMs) - startMs) / (7 * DAY)) + 1;
+  const event = input.eventDate ? parseDay(input.eventDate, "The event date") : null;
+  if (input.startDate && event !== null) {
+    start = mondayOf(parseDay(input.startDate, "The start date"));
+    if (event < start) throw new TrainingInputError("inconsistent", "The event must come after the start.");
+    count = daysBetween(start, mondayOf(event)) / 7 + 1;
   } else if (input.weeks !== undefined) {
     count = input.weeks;
     if (!Number.isInteger(count)) throw new TrainingInputError("out_of_range", "Weeks must be a whole number.");
-    startMs = eventMs !== null ? mondayOf(eventMs) - (count - 1) * 7 * DAY : mondayOf(parseDay(input.startDate ?? "", "The start date"));
+    start = event !== null ? addWeeks(mondayOf(event), -(count - 1)) : mondayOf(parseDay(input.startDate ?? "", "The start date"));
   } else {
     throw new TrainingInputError("out_of_range", "Give a start date, an event date and a number of weeks, or both dates.");
   }
   if (count < 4 || count > 104) throw new TrainingInputError("out_of_range", "A season plan runs 4 to 104 weeks.");
 
-  const hasEvent = eventMs !== null;
+  const hasEvent = event !== null;
   const taperWeeks = hasEvent ? (count >= 12 ? 2 : 1) : 0;
   const raceWeeks = hasEvent ? 1 : 0;
   const pre = count - taperWeeks - raceWeeks;
@@ -131,7 +125,7 @@ export function seasonSkeleton(input: SkeletonInput): { startDate: string; event
     if (!recovery && phase !== "taper" && phase !== "race") lastLoading = factor;
     weeks.push({
       index: i,
-      startDate: fmt(startMs + (i - 1) * 7 * DAY),
+      startDate: addWeeks(start, i - 1),
       phase,
       recovery,
       test: false,
@@ -162,5 +156,5 @@ export function seasonSkeleton(input: SkeletonInput): { startDate: string; event
     weeks[next - 1].test = true;
     last = next;
   }
-  return { startDate: fmt(startMs), eventDate: eventMs === null ? null : fmt(eventMs), weeks };
+  return { startDate: start, eventDate: event, weeks };
 }

@@ -10,12 +10,12 @@ import { parseForm } from "~/lib/forms";
 import { newPlanSchema, PHASE_LABEL } from "~/lib/plans";
 import { seasonSkeleton, TrainingInputError } from "~/lib/training";
 import type { Route } from "./+types/plan-new";
+import { addWeeks, todayIn } from "~/lib/dates";
 
 export const meta: Route.MetaFunction = () => [{ title: "New season plan · Pacewright" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
-  await requireRole(request, "coach");
-  const inSixteenWeeks = new Date(Date.now() + 16 * 7 * 86_400_000).toISOString().slice(0, 10);
+  const inSixteenWeeks = addWeeks(todayIn((await requireRole(request, "coach")).timezone), 16);
   return { defaultDate: inSixteenWeeks };
 }
 

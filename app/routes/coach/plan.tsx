@@ -10,6 +10,7 @@ import { listSessions } from "~/.server/services/sessions";
 import { addRecurrence, deletePlan, editWeekRange, loadPlan, PlanError, renamePlan, setPhaseRange, updateWeek, updateWeeks } from "~/.server/services/plans";
 import { parseForm } from "~/lib/forms";
 import { DAY_NAMES, PHASE_LABEL, phaseRangeSchema, recurrenceSchema, weekEditSchema } from "~/lib/plans";
+import { addWeeks } from "~/lib/dates";
 import { PHASES } from "~/lib/training";
 import { z } from "zod";
 import type { Route } from "./+types/plan";
@@ -119,9 +120,7 @@ export default function PlanPage({ loaderData }: Route.ComponentProps) {
   const dayCount = (weekId: number) => items.filter((i) => i.weekId === weekId).length;
   const monday = (idx: number) => {
     if (!plan.startDate) return `Week ${idx}`;
-    const d = new Date(`${plan.startDate}T00:00:00Z`);
-    d.setUTCDate(d.getUTCDate() + (idx - 1) * 7);
-    return d.toISOString().slice(0, 10);
+    return addWeeks(plan.startDate, idx - 1);
   };
   return (
     <>
