@@ -2,16 +2,10 @@ import { useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
+import type { CrossCheckPair } from "~/.server/services/cross-check";
 
-export interface CrossCheckView {
-  sport: string;
-  metric: string;
-  tests: { id: number; label: string; testedOn: string; display: string }[];
-  days: number;
-  check: { diffPct: number; agreement: "agree" | "roughly" | "disagree"; message: string };
-  meanDisplay: string;
-  settled: { choice: "a" | "b" | "mean"; display: string } | null;
-}
+/** One pair as the server builds it (services/cross-check.ts). */
+export type CrossCheckView = CrossCheckPair;
 
 const WORD = { agree: "agree", roughly: "roughly agree", disagree: "disagree" } as const;
 

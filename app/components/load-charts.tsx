@@ -4,36 +4,10 @@ import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { addDays } from "~/lib/dates";
 import { LOAD_RANGES } from "~/lib/load-ranges";
+import type { loadSeries, powerCurveComparison } from "~/.server/services/load";
 
-export interface LoadData {
-  today: string;
-  from: string;
-  to: string;
-  daily: { date: string; future: boolean; effortLoad: number; plannedLoad: number; fitness: number; fatigue: number; balance: number; acwrRolling: number | null; acwrEwma: number | null }[];
-  weekly: {
-    week: string;
-    plannedLoad: number;
-    doneLoad: number;
-    powerLoad?: number;
-    plannedSessions: number;
-    doneSessions: number;
-    plannedMinutes: number;
-    doneMinutes: number;
-    bandMinutes: number[];
-    usual: { low: number; high: number } | null;
-    compliance: number | null;
-    inTargetPct?: number | null;
-    monotony: number | null;
-    strain: number | null;
-  }[];
-  bands: { name: string; shade: string; aboveThreshold: boolean }[];
-  historyDays: number;
-  readiness: string[];
-  latestRatio: number | null;
-  latestEwma?: number | null;
-  band: string | null;
-  powerCurve: { windowS: number; recent: number | null; previous: number | null }[];
-}
+/** What the load page's loader sends: the series from the load model and the power-curve comparison, as the server types them. */
+export type LoadData = Awaited<ReturnType<typeof loadSeries>> & { powerCurve: Awaited<ReturnType<typeof powerCurveComparison>> };
 
 const BAND_WORDS: Record<string, string> = { low: "below your usual load", usual: "within your usual range", raised: "raised", spike: "a spike: well above your usual load" };
 const short = (d: string) => d.slice(5);

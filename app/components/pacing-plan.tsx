@@ -3,17 +3,11 @@ import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { EFFORT_WORDS } from "~/lib/effort";
-import { PLAN_VERDICT_WORDS, type PacingPlan, type PlanComparison } from "~/lib/training";
+import { PLAN_VERDICT_WORDS, type PacingPlan } from "~/lib/training";
+import type { sessionPageData } from "~/.server/services/session-page";
 
-export interface PacingData {
-  plan: PacingPlan | null;
-  basis: { thresholdW: number; source: "threshold" | "ramp"; rampTestedOn: string | null } | null;
-  split: number[];
-  customSplit: boolean;
-  problem: string | null;
-  outcome: (PlanComparison & { effortStartS: number; windowS: number }) | null;
-  lap: { lengthM?: number | null; lapTimeS?: number | null } | null;
-}
+/** A paced test's plan, its basis and (once ridden) the outcome, as the session page's loader sends it. */
+export type PacingData = NonNullable<Awaited<ReturnType<typeof sessionPageData>>["pacing"]>;
 
 const clock = (s: number) => {
   const r = Math.round(s);

@@ -1,11 +1,8 @@
 import { Card } from "~/components/ui/card";
+import type { runningPacesFor } from "~/.server/services/running-paces";
 
-export interface RunningPacesView {
-  index: number;
-  testedOn: string;
-  thresholdPaceS: number;
-  rows: { key: string; name: string; slowS: number; fastS: number; lowPct: number; highPct: number }[];
-}
+/** The paces as the server builds them (services/running-paces.ts); only shown when the athlete has a running index. */
+export type RunningPacesView = NonNullable<Awaited<ReturnType<typeof runningPacesFor>>>;
 
 const pace = (s: number) => `${Math.floor(s / 60)}:${String(s % 60).padStart(2, "0")}`;
 

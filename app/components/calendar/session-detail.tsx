@@ -7,33 +7,12 @@ import { formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { EFFORT_WORDS } from "~/lib/effort";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
-import { blockLines, type BlockBand, type StepView } from "~/lib/schedule-text";
+import { blockLines, type BlockBand } from "~/lib/schedule-text";
 import { BandTable } from "~/components/band-table";
-import type { BandTableData } from "~/lib/band-table";
+import type { sessionPageData } from "~/.server/services/session-page";
 
-export interface SessionDetailData {
-  session: {
-    id: number;
-    date: string;
-    timeOfDay: string | null;
-    name: string;
-    sport: string;
-    status: string;
-    testProtocol: string | null;
-    notes: string;
-    description?: string;
-    plannedDurationS: number;
-    effortScore: number | null;
-    actualMinutes: number | null;
-    comment: string | null;
-    targetedS?: number | null;
-    inTargetS?: number | null;
-  };
-  steps: StepView[];
-  zones: BandTableData[];
-  bandsByBlock?: BlockBand[];
-  timeInBand?: { metric: string; name: string; shade: string; minutes: number }[] | null;
-}
+/** A scheduled session as the session page's loader sends it (services/session-page.ts). */
+export type SessionDetailData = Omit<Awaited<ReturnType<typeof sessionPageData>>, "pacing">;
 
 /** `subjectName`: on a coach's view, the athlete whose session this is, so headings speak of them, not of "you". */
 export function SessionDetail({ data, canComplete, subjectName }: { data: SessionDetailData; canComplete: boolean; subjectName?: string }) {
