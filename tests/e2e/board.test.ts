@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
-import { browserAvailable, newPlanOnBoard, ready, shot, signInAs, useApp } from "./harness";
+import { browserAvailable, framesSettled, newPlanOnBoard, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
@@ -14,7 +14,7 @@ async function dragTo(page: Page, from: ReturnType<Page["locator"]>, to: ReturnT
   // Small steps first so the pointer sensor's 5 px activation distance is passed, then glide to the target.
   await page.mouse.move(a.x + a.width / 2 + 10, a.y + a.height / 2 + 10, { steps: 4 });
   await page.mouse.move(b.x + b.width / 2, b.y + b.height / 2, { steps: 15 });
-  await page.waitForTimeout(150);
+  await framesSettled(page);
   await page.mouse.up();
 }
 
@@ -40,7 +40,7 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     expect((await s).status()).toBe(200);
     // Let the board settle on the server's answer before the next drag measures the slots.
     await expect.poll(() => tuesday.getByTestId("board-item").count()).toBe(1);
-    await page.waitForTimeout(300);
+    await framesSettled(page);
     s = saved();
     await dragTo(page, shelfCard("Recovery spin"), tuesday, "top");
     expect((await s).status()).toBe(200);
@@ -113,8 +113,9 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     }, monday);
     // Step forward until week 2 of the plan is in view.
     for (let i = 0; i < 3 && (await athlete.getByTestId(`day-${weekTwoTuesday}`).count()) === 0; i++) {
-      await athlete.getByRole("button", { name: "Later weeks" }).click();
-      await athlete.waitForTimeout(500);
+      const first = await athlete.locator("[data-day]").first().getAttribute("data-day");
+      await athlete.getByRole("link", { name: "Later weeks" }).click();
+      await expect.poll(() => athlete.locator("[data-day]").first().getAttribute("data-day")).not.toBe(first);
     }
     const day = athlete.getByTestId(`day-${weekTwoTuesday}`);
     await day.getByText("Threshold repeats").waitFor();

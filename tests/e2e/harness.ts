@@ -4,6 +4,7 @@ import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import { chromium, type Browser, type Page } from "playwright-core";
+import { expect } from "vitest";
 
 export const CHROMIUM = process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
 export const SCREENSHOTS = path.resolve("tests/e2e/.screenshots");
@@ -138,19 +139,21 @@ export async function linkFromOutbox(page: Page, baseUrl: string, to: string, pa
     const { DEMO_ACCOUNTS } = await import("../../db/demo/accounts");
     await signInAs(admin, baseUrl, DEMO_ACCOUNTS.people.find((p) => p.role === "admin")!.email, DEMO_ACCOUNTS.password);
     await admin.waitForURL((url) => !url.pathname.startsWith("/login"));
-    const deadline = Date.now() + 30_000;
-    for (;;) {
-      await admin.goto(`${baseUrl}/dev/mail?to=${encodeURIComponent(to)}`);
-      const link = admin.locator(`[data-testid=caught-mail] a[href*="${pathPart}"]`).first();
-      if ((await link.count()) > 0) {
-        const href = (await link.getAttribute("href"))!;
-        // `page` shows what the admin saw (a static copy), so a test can go on to read the message there.
-        await page.setContent(await admin.content());
-        return href;
-      }
-      if (Date.now() > deadline) throw new Error(`no mail with ${pathPart} reached ${to}`);
-      await admin.waitForTimeout(500);
-    }
+    const link = admin.locator(`[data-testid=caught-mail] a[href*="${pathPart}"]`).first();
+    // The sender delivers in the background: reload the outbox until the message is there (30 s at most).
+    await expect
+      .poll(
+        async () => {
+          await admin.goto(`${baseUrl}/dev/mail?to=${encodeURIComponent(to)}`);
+          return link.count();
+        },
+        { timeout: 30_000, interval: 500, message: `no mail with ${pathPart} reached ${to}` },
+      )
+      .toBeGreaterThan(0);
+    const href = (await link.getAttribute("href"))!;
+    // `page` shows what the admin saw (a static copy), so a test can go on to read the message there.
+    await page.setContent(await admin.content());
+    return href;
   } finally {
     await context.close();
   }
@@ -200,4 +203,9 @@ export async function newPlanOnBoard(page: Page, baseUrl: string, name: string):
   await page.goto(`${baseUrl}/coach/plans/${planId}/board`);
   await ready(page);
   return { planId, monday };
+}
+
+/** Waits until the browser has painted twice: dnd-kit reads positions on animation frames, so a drag step is then seen. */
+export async function framesSettled(page: Page) {
+  await page.evaluate(() => new Promise<void>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => resolve()))));
 }

@@ -44,6 +44,20 @@ describe.skipIf(!enabled)("calendar by keyboard, month and print views", () => {
       }
     }
     expect(moved).not.toBeNull();
+    // The move was saved (the page's loader, not local state, shows it after a reload), and the weeks are links.
+    await page.reload();
+    await page.getByTestId("calendar-session").first().waitFor();
+    const firstDay = await page.locator("[data-day]").first().getAttribute("data-day");
+    await page.getByRole("link", { name: "Later weeks" }).click();
+    await page.waitForURL(/from=\d{4}-\d{2}-\d{2}/);
+    const shifted = await page.evaluate((d) => {
+      const x = new Date(`${d}T00:00:00Z`);
+      x.setUTCDate(x.getUTCDate() + 14);
+      return x.toISOString().slice(0, 10);
+    }, firstDay!);
+    await expect.poll(() => page.locator("[data-day]").first().getAttribute("data-day")).toBe(shifted);
+    await page.goBack();
+    await expect.poll(() => page.locator("[data-day]").first().getAttribute("data-day")).toBe(firstDay);
 
     await page.getByRole("navigation", { name: "Calendar view" }).getByRole("link", { name: "Month" }).click();
     await page.waitForURL(/view=month/);

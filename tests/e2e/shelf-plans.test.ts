@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { browserAvailable, ready, shot, signInAs, useApp } from "./harness";
+import { browserAvailable, framesSettled, ready, shot, signInAs, useApp } from "./harness";
 
 const enabled = browserAvailable();
 
@@ -28,10 +28,13 @@ describe.skipIf(!enabled)("session shelf and season plans in the browser", () =>
     // Keyboard: pick the cool-down up by its handle, move it down twice, drop it.
     const handle = page.getByRole("button", { name: "Move block 1, Cool-down" });
     await handle.focus();
-    // dnd-kit measures between key presses, as it would for a person.
-    for (const key of ["Space", "ArrowDown", "ArrowDown", "Space"]) {
+    // dnd-kit measures between key presses, as it would for a person: each press is followed by its announcement.
+    const live = page.locator('[id^="DndLiveRegion"]').first();
+    const spoken = [/Picked up|is over position 1\./, /is over position 2/, /is over position 3/, /dropped at position 3/];
+    for (const [i, key] of ["Space", "ArrowDown", "ArrowDown", "Space"].entries()) {
       await page.keyboard.press(key);
-      await page.waitForTimeout(250);
+      await expect.poll(() => live.textContent()).toMatch(spoken[i]);
+      await framesSettled(page);
     }
     const kinds = () => page.getByTestId("block").evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset.kind));
     await expect.poll(kinds).toEqual(["warmup", "repeats", "cooldown"]);

@@ -1,7 +1,7 @@
 import { type CollisionDetection, DndContext, PointerSensor, useDraggable, useDroppable, useSensor, useSensors, type Announcements, type DragEndEvent, type DragStartEvent } from "@dnd-kit/core";
-import { useEffect, useMemo, useRef, useState } from "react";
+import { useMemo, useRef, useState } from "react";
 import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
-import { Link, useFetcher } from "react-router";
+import { Link, useFetcher, useNavigation } from "react-router";
 import { addDays, formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { buttonClass } from "~/components/ui/button";
@@ -24,35 +24,21 @@ export interface CalendarSession {
 const WEEKS_SHOWN = 2;
 
 /**
- * Two weeks of an athlete's calendar. Moving between weeks asks /api/calendar (no page reload); a session can be
- * dragged (or picked up with Space and moved with the arrow keys) to another day.
+ * Two weeks of an athlete's calendar. The weeks shown are the page's `?from=` (read by its loader), so Earlier and
+ * Later are links; a session can be dragged (or picked up with Space and moved with the arrow keys) to another day.
+ * The move is shown at once from the pending submission and the loaders' revalidation brings the saved state.
  */
-export function WeekCalendar({ athleteId, from: initialFrom, today, sessions: initial, sessionHref }: { athleteId?: number; from: string; today: string; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
-  const [from, setFrom] = useState(initialFrom);
-  const [sessions, setSessions] = useState(initial);
+export function WeekCalendar({ athleteId, from, today, sessions: saved, sessionHref }: { athleteId?: number; from: string; today: string; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
   const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
-  const list = useFetcher<{ sessions: CalendarSession[]; from: string }>();
   const move = useFetcher<{ ok?: boolean; error?: string }>();
+  const navigation = useNavigation();
   const days = Array.from({ length: WEEKS_SHOWN * 7 }, (_, i) => addDays(from, i));
   const to = days.at(-1)!;
-  const query = (f: string) => `/api/calendar?from=${f}&to=${addDays(f, WEEKS_SHOWN * 7 - 1)}${athleteId ? `&athleteId=${athleteId}` : ""}`;
-
-  useEffect(() => {
-    if (list.data?.sessions && list.data.from === from) setSessions(list.data.sessions);
-  }, [list.data, from]);
-  useEffect(() => {
-    if (move.state !== "idle" || !move.data) return;
-    if (move.data.error) {
-      setMessage({ tone: "error", text: move.data.error });
-      list.load(query(from));
-    }
-  }, [move.state, move.data]); // eslint-disable-line react-hooks/exhaustive-deps
-
-  const go = (weeks: number) => {
-    const f = addDays(from, weeks * 7);
-    setFrom(f);
-    list.load(query(f));
-  };
+  const pending = move.state !== "idle" ? (move.json as { sessionId: number; date: string } | undefined) : undefined;
+  const sessions = pending ? saved.map((x) => (x.id === pending.sessionId ? { ...x, date: pending.date } : x)) : saved;
+  const failed = move.state === "idle" ? move.data?.error : undefined;
+  const notice = failed ? { tone: "error" as const, text: failed } : message;
+  const weeksLink = (weeks: number) => `?from=${addDays(from, weeks * 7)}`;
 
   // Keyboard moves go by the calendar itself (up/down a day, left/right a week) and the pointer by the day under it,
   // read from the page, so neither depends on rectangles measured before the page scrolled.
@@ -96,7 +82,6 @@ export function WeekCalendar({ athleteId, from: initialFrom, today, sessions: in
     const date = String(over.id).slice(4);
     const s = sessions.find((x) => x.id === id);
     if (!s || s.date === date) return;
-    setSessions((list) => list.map((x) => (x.id === id ? { ...x, date } : x)));
     setMessage({ tone: "ok", text: `Moved ${s.name} to ${formatDay(date)}.` });
     move.submit({ sessionId: id, date }, { method: "post", action: `/api/calendar${athleteId ? `?athleteId=${athleteId}` : ""}`, encType: "application/json" });
   };
@@ -104,20 +89,20 @@ export function WeekCalendar({ athleteId, from: initialFrom, today, sessions: in
   return (
     <section aria-label="Calendar">
       <div className="mb-3 flex flex-wrap items-center gap-2">
-        <button type="button" className={buttonClass("secondary", "px-3 py-1")} onClick={() => go(-WEEKS_SHOWN)} aria-label="Earlier weeks">
+        <Link to={weeksLink(-WEEKS_SHOWN)} preventScrollReset className={buttonClass("secondary", "px-3 py-1")} aria-label="Earlier weeks">
           ← Earlier
-        </button>
-        <button type="button" className={buttonClass("secondary", "px-3 py-1")} onClick={() => go(WEEKS_SHOWN)} aria-label="Later weeks">
+        </Link>
+        <Link to={weeksLink(WEEKS_SHOWN)} preventScrollReset className={buttonClass("secondary", "px-3 py-1")} aria-label="Later weeks">
           Later →
-        </button>
+        </Link>
         <h2 className="num text-lg font-semibold" aria-live="polite">
           {formatDay(from, { day: "numeric", month: "short" })} – {formatDay(to, { day: "numeric", month: "short", year: "numeric" })}
         </h2>
-        {list.state === "loading" && <span className="text-sm text-ink-soft">Loading…</span>}
+        {navigation.state === "loading" && navigation.location.search.includes("from=") && <span className="text-sm text-ink-soft">Loading…</span>}
       </div>
-      {message && (
-        <p role={message.tone === "error" ? "alert" : "status"} className={`mb-2 rounded-lg px-3 py-2 text-sm ${message.tone === "error" ? "bg-brick/10 text-brick" : "bg-teal/10 text-teal-dark"}`}>
-          {message.text}
+      {notice && (
+        <p role={notice.tone === "error" ? "alert" : "status"} className={`mb-2 rounded-lg px-3 py-2 text-sm ${notice.tone === "error" ? "bg-brick/10 text-brick" : "bg-teal/10 text-teal-dark"}`}>
+          {notice.text}
         </p>
       )}
       <DndContext

@@ -3,7 +3,7 @@ import { WeekCalendar } from "~/components/calendar/week-calendar";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { calendarRange } from "~/.server/services/calendar";
-import { addDays, mondayOf, todayIn } from "~/lib/dates";
+import { addDays, isIsoDate, mondayOf, todayIn } from "~/lib/dates";
 import { monthGrid, monthOf } from "~/lib/month";
 import type { Route } from "./+types/calendar";
 
@@ -18,7 +18,9 @@ export async function loader({ request }: Route.LoaderArgs) {
     const grid = monthGrid(month);
     return { view: "month" as const, today, month, ...grid, sessions: await calendarRange(athlete.id, grid.from, grid.to) };
   }
-  const from = mondayOf(today);
+  // The two weeks shown start on the Monday of ?from= (any day of that week), else this week.
+  const asked = url.searchParams.get("from");
+  const from = mondayOf(isIsoDate(asked) ? asked : today);
   return { view: "weeks" as const, today, from, sessions: await calendarRange(athlete.id, from, addDays(from, 13)) };
 }
 

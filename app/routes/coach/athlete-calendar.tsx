@@ -4,7 +4,7 @@ import { WeekCalendar } from "~/components/calendar/week-calendar";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { calendarRange, calendarSubject } from "~/.server/services/calendar";
-import { addDays, mondayOf, todayIn } from "~/lib/dates";
+import { addDays, isIsoDate, mondayOf, todayIn } from "~/lib/dates";
 import { monthGrid, monthOf } from "~/lib/month";
 import type { Route } from "./+types/athlete-calendar";
 
@@ -21,7 +21,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const grid = monthGrid(month);
     return { view: "month" as const, athlete: who, today, month, ...grid, sessions: await calendarRange(athlete.id, grid.from, grid.to) };
   }
-  const from = mondayOf(today);
+  // The two weeks shown start on the Monday of ?from= (any day of that week), else this week.
+  const asked = url.searchParams.get("from");
+  const from = mondayOf(isIsoDate(asked) ? asked : today);
   return { view: "weeks" as const, athlete: who, today, from, sessions: await calendarRange(athlete.id, from, addDays(from, 13)) };
 }
 
@@ -40,7 +42,7 @@ export default function CoachAthleteCalendar({ loaderData }: Route.ComponentProp
       {loaderData.view === "month" ? (
         <MonthCalendar {...loaderData} title={`${athlete.name}'s calendar`} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
       ) : (
-        <WeekCalendar athleteId={athlete.id} from={loaderData.from} today={loaderData.today} sessions={loaderData.sessions} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
+        <WeekCalendar key={loaderData.from} athleteId={athlete.id} from={loaderData.from} today={loaderData.today} sessions={loaderData.sessions} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
       )}
     </>
   );
