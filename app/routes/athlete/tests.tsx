@@ -11,7 +11,7 @@ import { bandSetsFor } from "~/.server/services/bands";
 import { bandTable, formatThreshold as show } from "~/lib/band-table";
 import { bandSetKeyFor, type Metric } from "~/lib/training";
 import { applyCrossCheck, crossChecksFor } from "~/.server/services/cross-check";
-import { CrossCheckCard } from "~/components/cross-check";
+import { CrossCheckCard } from "~/components/cross-check-card";
 import { runningPacesFor } from "~/.server/services/running-paces";
 import { RunningPacesCard } from "~/components/running-paces";
 import type { Route } from "./+types/tests";
