@@ -48,7 +48,9 @@ async function downInTransaction(sequelize: Sequelize, name: string, down: Step)
           transaction,
         });
         if (broken.length) {
-          throw new Error(`${name}: rolling back would leave rows in ${broken[0].table} pointing at missing ${broken[0].parent} rows`);
+          throw new Error(
+            `${name}: rolling back would leave rows in ${broken[0].table} pointing at missing ${broken[0].parent} rows`,
+          );
         }
       }
       await sequelize.query(`DELETE FROM ${MIGRATIONS_TABLE} WHERE name = ?`, { replacements: [name], transaction });
@@ -120,12 +122,20 @@ export async function moveSeederRecords() {
   await seeds.executed(); // creates schema_seeds when missing
   await sequelize.transaction(async (transaction) => {
     const recorded = new Set(
-      (await sequelize.query<{ name: string }>(`SELECT name FROM ${SEEDS_TABLE}`, { type: QueryTypes.SELECT, transaction })).map((r) => r.name),
+      (
+        await sequelize.query<{ name: string }>(`SELECT name FROM ${SEEDS_TABLE}`, {
+          type: QueryTypes.SELECT,
+          transaction,
+        })
+      ).map((r) => r.name),
     );
     for (const name of misplaced.filter((n) => !recorded.has(n))) {
       await sequelize.query(`INSERT INTO ${SEEDS_TABLE} (name) VALUES (?)`, { replacements: [name], transaction });
     }
-    await sequelize.query(`DELETE FROM ${MIGRATIONS_TABLE} WHERE name IN (?)`, { replacements: [misplaced], transaction });
+    await sequelize.query(`DELETE FROM ${MIGRATIONS_TABLE} WHERE name IN (?)`, {
+      replacements: [misplaced],
+      transaction,
+    });
   });
 }
 

@@ -25,10 +25,14 @@ export async function insertGuard(qi: QueryInterface, name: string, table: strin
     await qi.sequelize.query(
       `CREATE FUNCTION ${name}() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN IF ${failsWhen} THEN RAISE EXCEPTION '${message}'; END IF; RETURN NEW; END $$`,
     );
-    await qi.sequelize.query(`CREATE TRIGGER ${name} BEFORE INSERT ON ${table} FOR EACH ROW EXECUTE FUNCTION ${name}()`);
+    await qi.sequelize.query(
+      `CREATE TRIGGER ${name} BEFORE INSERT ON ${table} FOR EACH ROW EXECUTE FUNCTION ${name}()`,
+    );
     return;
   }
-  await qi.sequelize.query(`CREATE TRIGGER ${name} BEFORE INSERT ON ${table} WHEN ${failsWhen} BEGIN SELECT RAISE(ABORT, '${message}'); END;`);
+  await qi.sequelize.query(
+    `CREATE TRIGGER ${name} BEFORE INSERT ON ${table} WHEN ${failsWhen} BEGIN SELECT RAISE(ABORT, '${message}'); END;`,
+  );
 }
 
 export async function dropInsertGuard(qi: QueryInterface, name: string, table: string) {
@@ -56,7 +60,9 @@ export async function dropColumn(qi: QueryInterface, table: string, column: stri
     { replacements: [table], type: QueryTypes.SELECT },
   );
   for (const { name } of indexes) {
-    const columns = await qi.sequelize.query<{ name: string }>(`PRAGMA index_info(\`${name}\`)`, { type: QueryTypes.SELECT });
+    const columns = await qi.sequelize.query<{ name: string }>(`PRAGMA index_info(\`${name}\`)`, {
+      type: QueryTypes.SELECT,
+    });
     if (columns.some((c) => c.name === column)) await qi.sequelize.query(`DROP INDEX \`${name}\``);
   }
   await qi.sequelize.query(`ALTER TABLE \`${table}\` DROP COLUMN \`${column}\``);
