@@ -38,7 +38,7 @@ function inTransaction(qi: QueryInterface, transaction: Transaction): QueryInter
  * Undoes one migration and forgets it in one transaction, so a failing step leaves the database as it was. On
  * SQLite foreign keys are off for that transaction (see withForeignKeysOff) and checked before it commits.
  */
-async function downInTransaction(sequelize: Sequelize, name: string, down: Step) {
+export async function downInTransaction(sequelize: Sequelize, name: string, down: Step) {
   await withForeignKeysOff(() =>
     sequelize.transaction(async (transaction) => {
       await down({ context: inTransaction(sequelize.getQueryInterface(), transaction) });

@@ -1,8 +1,9 @@
-import { QueryTypes } from "sequelize";
+import { QueryTypes, type QueryInterface } from "sequelize";
 import { describe, expect, it } from "vitest";
 import { db, dialect } from "~/.server/db";
 import { tableNames } from "./schema";
-import { migrator, moveSeederRecords, rollback, seeder } from "../../db/migrator";
+import { downInTransaction, migrator, moveSeederRecords, rollback, seeder } from "../../db/migrator";
+import { dropColumn } from "../../db/portable";
 import { DEMO_ACCOUNTS } from "../../db/demo/accounts";
 
 const tables = tableNames;
@@ -96,5 +97,19 @@ describe("migrations and demo data", () => {
     expect((await migrator().executed()).map((m) => m.name)).not.toEqual(expect.arrayContaining([seeded[0]]));
     await moveSeederRecords();
     expect((await seeder().executed()).map((m) => m.name)).toEqual(seeded);
+  });
+
+  it("leaves the database as it was when a down step fails halfway", async () => {
+    const last = (await migrator().executed()).at(-1)!.name;
+    const columns = async () => Object.keys(await db().getQueryInterface().describeTable("users")).sort();
+    const before = await columns();
+    expect(before).toContain("training_times");
+    const failing = async ({ context: qi }: { context: QueryInterface }) => {
+      await dropColumn(qi, "users", "training_times");
+      throw new Error("second statement failed");
+    };
+    await expect(downInTransaction(db(), last, failing)).rejects.toThrow("second statement failed");
+    expect(await columns()).toEqual(before);
+    expect((await migrator().executed()).at(-1)!.name).toBe(last);
   });
 });
