@@ -1,27 +1,33 @@
 import { closeDb } from "../app/.server/db";
-import { migrator, seeder, withMigrationLock } from "./migrator";
+import { migrateAndSeed, migrator, moveSeederRecords, rollback, seeder, withMigrationLock } from "./migrator";
 
 const [command, arg] = process.argv.slice(2);
 
 async function main() {
   switch (command) {
     case "up":
-      await withMigrationLock(() => migrator().up());
+      await migrateAndSeed({ seed: false });
       break;
     case "down":
-      // One step back by default; `down all` undoes every migration.
-      await migrator().down(arg === "all" ? { to: 0 } : undefined);
+      // One step back by default; `down all` undoes every migration (and forgets the seeders).
+      if (arg !== undefined && arg !== "all") {
+        console.error(`usage: tsx db/cli.ts down [all] (got "${arg}")`);
+        process.exitCode = 2;
+        break;
+      }
+      await withMigrationLock(() => rollback(arg === "all" ? { to: 0 } : undefined));
       break;
     case "seed":
-      await withMigrationLock(async () => {
-        await migrator().up();
-        await seeder().up();
-      });
+      await migrateAndSeed();
       break;
     case "status": {
-      const pending = await migrator().pending();
-      const executed = await migrator().executed();
-      console.log({ executed: executed.map((m) => m.name), pending: pending.map((m) => m.name) });
+      await moveSeederRecords();
+      const names = (list: { name: string }[]) => list.map((m) => m.name);
+      console.log({
+        executed: names(await migrator().executed()),
+        pending: names(await migrator().pending()),
+        seeded: names(await seeder().executed()),
+      });
       break;
     }
     default:

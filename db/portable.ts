@@ -1,4 +1,4 @@
-import type { QueryInterface } from "sequelize";
+import { QueryTypes, type QueryInterface } from "sequelize";
 
 /**
  * The few schema pieces that SQLite and PostgreSQL spell differently. Migrations call these so that one migration
@@ -25,10 +25,14 @@ export async function insertGuard(qi: QueryInterface, name: string, table: strin
     await qi.sequelize.query(
       `CREATE FUNCTION ${name}() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN IF ${failsWhen} THEN RAISE EXCEPTION '${message}'; END IF; RETURN NEW; END $$`,
     );
-    await qi.sequelize.query(`CREATE TRIGGER ${name} BEFORE INSERT ON ${table} FOR EACH ROW EXECUTE FUNCTION ${name}()`);
+    await qi.sequelize.query(
+      `CREATE TRIGGER ${name} BEFORE INSERT ON ${table} FOR EACH ROW EXECUTE FUNCTION ${name}()`,
+    );
     return;
   }
-  await qi.sequelize.query(`CREATE TRIGGER ${name} BEFORE INSERT ON ${table} WHEN ${failsWhen} BEGIN SELECT RAISE(ABORT, '${message}'); END;`);
+  await qi.sequelize.query(
+    `CREATE TRIGGER ${name} BEFORE INSERT ON ${table} WHEN ${failsWhen} BEGIN SELECT RAISE(ABORT, '${message}'); END;`,
+  );
 }
 
 export async function dropInsertGuard(qi: QueryInterface, name: string, table: string) {
@@ -38,4 +42,28 @@ export async function dropInsertGuard(qi: QueryInterface, name: string, table: s
     return;
   }
   await qi.sequelize.query(`DROP TRIGGER IF EXISTS ${name}`);
+}
+
+/**
+ * Drops a column (for `down` steps). Sequelize's SQLite removeColumn rebuilds the table from describeTable, which
+ * turns a column of a composite unique index into a unique column of its own and loses every index; SQLite's own
+ * ALTER TABLE … DROP COLUMN (3.35+) keeps the table, and refuses only while an index covers the column, so those
+ * indexes go first. PostgreSQL drops them with the column.
+ */
+export async function dropColumn(qi: QueryInterface, table: string, column: string) {
+  if (isPostgres(qi)) {
+    await qi.removeColumn(table, column);
+    return;
+  }
+  const indexes = await qi.sequelize.query<{ name: string }>(
+    "SELECT name FROM sqlite_master WHERE type = 'index' AND tbl_name = ? AND sql IS NOT NULL",
+    { replacements: [table], type: QueryTypes.SELECT },
+  );
+  for (const { name } of indexes) {
+    const columns = await qi.sequelize.query<{ name: string }>(`PRAGMA index_info(\`${name}\`)`, {
+      type: QueryTypes.SELECT,
+    });
+    if (columns.some((c) => c.name === column)) await qi.sequelize.query(`DROP INDEX \`${name}\``);
+  }
+  await qi.sequelize.query(`ALTER TABLE \`${table}\` DROP COLUMN \`${column}\``);
 }

@@ -11,6 +11,7 @@ import { DEMO_ACCOUNTS } from "../db/demo/accounts";
 import { buildIfNeeded } from "./build-if-needed";
 
 const dev = process.argv.includes("--dev");
+const verbose = process.argv.includes("--verbose");
 process.env.NODE_ENV ??= dev ? "development" : "production";
 // `npm start` is the local demo: it turns the fakes on explicitly. `npm run serve` leaves them off.
 if (process.argv.includes("--demo")) process.env.PACEWRIGHT_FAKES ??= "on";
@@ -36,7 +37,7 @@ async function main() {
     const { createDevServer } = await import("./dev-server");
     server = (await createDevServer()).listen(e.port, host);
   } else {
-    buildIfNeeded();
+    buildIfNeeded({ verbose });
     const { createAppServer } = await import("./server");
     server = (await createAppServer()).listen(e.port, host);
   }
@@ -45,7 +46,7 @@ async function main() {
     server.once("error", reject);
   });
 
-  console.log(`\nPacewright is running at ${e.appUrl}`);
+  console.log(`Pacewright is running at ${e.appUrl}`);
   if (fakes.smtpPort) console.log(`  Mail goes to the local catcher: ${e.appUrl}/dev/mail${e.demoInProduction ? " (sign in as an admin to read it)" : ""}`);
   if (!e.fakes) console.log("  Demo fakes are off (set PACEWRIGHT_FAKES=on for the local demo).");
   if (seed) {
@@ -70,7 +71,17 @@ async function main() {
   process.once("SIGTERM", stop);
 }
 
+/** A port someone else holds gets one line naming the variable that moves it, not a stack trace. */
+function portInUse(err: unknown): string | null {
+  const e = err as NodeJS.ErrnoException & { port?: number };
+  if (e?.code !== "EADDRINUSE") return null;
+  const settings = env();
+  const variable =
+    e.port === settings.smtpCatcherPort ? "SMTP_CATCHER_PORT" : e.port === settings.fakePaymentsPort ? "FAKE_PAYMENTS_PORT" : "PORT";
+  return `Port ${e.port} is already in use: stop what holds it, or set ${variable} to another port (e.g. ${variable}=${(e.port ?? 3000) + 10} npm start).`;
+}
+
 main().catch((err) => {
-  console.error(err);
+  console.error(portInUse(err) ?? err);
   process.exit(1);
 });

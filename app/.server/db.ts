@@ -62,9 +62,28 @@ function createSequelize(): Sequelize {
         ),
       );
     }
+    // A transaction opened inside withForeignKeysOff gets a connection of its own (Sequelize opens one per
+    // transaction and closes it after), so switching enforcement off here, before BEGIN, touches no other query.
+    if (foreignKeysOff.getStore() && (options as { uuid?: string } | undefined)?.uuid) {
+      await new Promise<void>((resolve, reject) =>
+        connection.exec("PRAGMA foreign_keys = OFF;", (err) => (err ? reject(err) : resolve())),
+      );
+    }
     return connection;
   };
   return sequelize;
+}
+
+const foreignKeysOff = new AsyncLocalStorage<true>();
+
+/**
+ * SQLite rebuilds a table to drop a column, and dropping a parent table with foreign keys enforced fails (or
+ * cascades its children away). SQLite's own recipe: enforcement off on the connection (PRAGMA foreign_keys cannot
+ * change inside a transaction), one transaction, `PRAGMA foreign_key_check` before COMMIT. Transactions opened in
+ * `fn` run that way; PostgreSQL is unaffected.
+ */
+export function withForeignKeysOff<T>(fn: () => Promise<T>): Promise<T> {
+  return foreignKeysOff.run(true, fn);
 }
 
 export function db(): Sequelize {

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropColumn } from "../portable";
 
 export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.createTable("feed_tokens", {
@@ -18,6 +19,6 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("users", "feed_alarm_minutes");
+  await dropColumn(qi, "users", "feed_alarm_minutes");
   await qi.dropTable("feed_tokens");
 }

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropColumn } from "../portable";
 
 export async function up({ context: qi }: { context: QueryInterface }) {
   // What a ride file told us about a done session: mechanical work, heart-rate load and minutes per power level.
@@ -10,7 +11,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 
 export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.removeIndex("scheduled_sessions", ["athlete_id", "status", "date"]);
-  await qi.removeColumn("scheduled_sessions", "zone_minutes");
-  await qi.removeColumn("scheduled_sessions", "trimp");
-  await qi.removeColumn("scheduled_sessions", "work_kj");
+  await dropColumn(qi, "scheduled_sessions", "zone_minutes");
+  await dropColumn(qi, "scheduled_sessions", "trimp");
+  await dropColumn(qi, "scheduled_sessions", "work_kj");
 }

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropColumn } from "../portable";
 
 export async function up({ context: qi }: { context: QueryInterface }) {
   // From an attached ride file: seconds of power-targeted steps, and how many of them were ridden within target.
@@ -7,6 +8,6 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("scheduled_sessions", "in_target_s");
-  await qi.removeColumn("scheduled_sessions", "targeted_s");
+  await dropColumn(qi, "scheduled_sessions", "in_target_s");
+  await dropColumn(qi, "scheduled_sessions", "targeted_s");
 }

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropColumn } from "../portable";
 
 /**
  * Orders become one explicit state machine (see app/.server/services/orders.ts): the facts the provider reported
@@ -36,6 +37,6 @@ export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.sequelize.query("UPDATE orders SET status = 'pending' WHERE status = 'created'");
   await qi.sequelize.query("UPDATE orders SET status = 'cancelled' WHERE status = 'expired'");
   await qi.sequelize.query("UPDATE orders SET status = 'flagged', note = COALESCE(review_reason, note) WHERE status = 'needs_review'");
-  for (const c of ["paid_cents", "paid_currency", "paid_at", "expired_at", "declined_count", "refunded_cents", "refunds", "refund_requested_at", "review_reason", "receipt_sent_at", "refund_notice_sent_at", "return_origin"]) await qi.removeColumn("orders", c);
-  await qi.removeColumn("listings", "cover_text");
+  for (const c of ["paid_cents", "paid_currency", "paid_at", "expired_at", "declined_count", "refunded_cents", "refunds", "refund_requested_at", "review_reason", "receipt_sent_at", "refund_notice_sent_at", "return_origin"]) await dropColumn(qi, "orders", c);
+  await dropColumn(qi, "listings", "cover_text");
 }

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropColumn } from "../portable";
 
 export async function up({ context: qi }: { context: QueryInterface }) {
   // What the plausibility guard said about a rescale (flag, change, reasons), and who confirmed it when flagged.
@@ -10,8 +11,8 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("field_tests", "undone_by");
-  await qi.removeColumn("rescale_reports", "confirmed_at");
-  await qi.removeColumn("rescale_reports", "confirmed_by");
-  await qi.removeColumn("rescale_reports", "guard");
+  await dropColumn(qi, "field_tests", "undone_by");
+  await dropColumn(qi, "rescale_reports", "confirmed_at");
+  await dropColumn(qi, "rescale_reports", "confirmed_by");
+  await dropColumn(qi, "rescale_reports", "guard");
 }

@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropColumn } from "../portable";
 
 /**
  * The shelf session's description travels with each placed copy; a thread of comments per scheduled session; an
@@ -23,7 +24,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 
 export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.dropTable("session_comments");
-  await qi.removeColumn("scheduled_sessions", "description");
-  await qi.removeColumn("plan_items", "description");
-  await qi.removeColumn("users", "training_times");
+  await dropColumn(qi, "scheduled_sessions", "description");
+  await dropColumn(qi, "plan_items", "description");
+  await dropColumn(qi, "users", "training_times");
 }

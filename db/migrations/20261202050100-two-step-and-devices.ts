@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropColumn } from "../portable";
 
 export async function up({ context: qi }: { context: QueryInterface }) {
   // When a signed-in device last made a request (updated at most every few minutes), for the devices list.
@@ -28,8 +29,8 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.dropTable("studio_settings");
   await qi.dropTable("recovery_codes");
-  await qi.removeColumn("users", "totp_last_step");
-  await qi.removeColumn("users", "totp_enabled_at");
-  await qi.removeColumn("users", "totp_secret");
-  await qi.removeColumn("auth_sessions", "last_seen_at");
+  await dropColumn(qi, "users", "totp_last_step");
+  await dropColumn(qi, "users", "totp_enabled_at");
+  await dropColumn(qi, "users", "totp_secret");
+  await dropColumn(qi, "auth_sessions", "last_seen_at");
 }

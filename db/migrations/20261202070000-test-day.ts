@@ -1,4 +1,5 @@
 import { DataTypes, type QueryInterface } from "sequelize";
+import { dropColumn } from "../portable";
 
 export async function up({ context: qi }: { context: QueryInterface }) {
   // A coach's own split of a test's pacing plan (JSON array of % of expected power); null = the default split.
@@ -10,7 +11,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  await qi.removeColumn("uploads", "laps");
-  await qi.removeColumn("thresholds", "source_tests");
-  await qi.removeColumn("scheduled_sessions", "pacing_split");
+  await dropColumn(qi, "uploads", "laps");
+  await dropColumn(qi, "thresholds", "source_tests");
+  await dropColumn(qi, "scheduled_sessions", "pacing_split");
 }

@@ -123,4 +123,22 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await page.getByTestId("app-error").getByRole("heading", { name: "Not for this account" }).waitFor();
     await ctx.close();
   });
+
+  it("keeps the host the person opened: signed in on 127.0.0.1 while APP_URL says localhost", async () => {
+    const { DEMO_ACCOUNTS } = await import("../../db/demo/accounts");
+    const coach = DEMO_ACCOUNTS.people.find((p) => p.role === "coach")!;
+    const other = env.app.baseUrl.replace("//localhost:", "//127.0.0.1:");
+    expect(other).not.toBe(env.app.baseUrl);
+    const ctx = await env.browser.newContext();
+    const page = await ctx.newPage();
+    await signInAs(page, other, coach.email, DEMO_ACCOUNTS.password);
+    await page.waitForURL((url) => !url.pathname.startsWith("/login"));
+    expect(new URL(page.url()).host).toBe(new URL(other).host);
+    // A page behind sign-in on the same host still knows the session (the cookie belongs to 127.0.0.1 only).
+    await page.goto(`${other}/coach/sessions`);
+    await ready(page);
+    expect(new URL(page.url())).toMatchObject({ host: new URL(other).host, pathname: "/coach/sessions" });
+    await ctx.close();
+  });
 });
+

@@ -1,8 +1,9 @@
-import { QueryTypes } from "sequelize";
+import { QueryTypes, type QueryInterface } from "sequelize";
 import { describe, expect, it } from "vitest";
 import { db, dialect } from "~/.server/db";
 import { tableNames } from "./schema";
-import { migrator, seeder } from "../../db/migrator";
+import { downInTransaction, migrator, moveSeederRecords, rollback, seeder } from "../../db/migrator";
+import { dropColumn } from "../../db/portable";
 import { DEMO_ACCOUNTS } from "../../db/demo/accounts";
 
 const tables = tableNames;
@@ -47,5 +48,68 @@ describe("migrations and demo data", () => {
       { replacements: [DEMO_ACCOUNTS.people[1].email], type: QueryTypes.SELECT },
     );
     expect(links.n).toBe(3);
+  });
+
+  it("rolls a seeded database all the way down and up again, and seeds the demo data again", async () => {
+    const demoUsers = async () =>
+      (await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM users WHERE email LIKE '%@harbourline.example'", { type: QueryTypes.SELECT }))[0].n;
+    await seeder().up();
+    expect(await demoUsers()).toBe(DEMO_ACCOUNTS.people.length);
+    const seeded = (await seeder().executed()).map((m) => m.name);
+    expect(seeded.length).toBeGreaterThan(0);
+    // Seeders are recorded apart from the migrations.
+    expect((await migrator().executed()).map((m) => m.name)).not.toEqual(expect.arrayContaining([seeded[0]]));
+    const migrations = (await migrator().executed()).length;
+
+    await rollback({ to: 0 });
+    expect((await tables()).filter((t) => t !== "schema_migrations")).toEqual([]);
+    expect(await migrator().executed()).toEqual([]);
+
+    await migrator().up();
+    expect((await migrator().executed()).length).toBe(migrations);
+    expect(await demoUsers()).toBe(0);
+    await seeder().up();
+    expect((await seeder().executed()).map((m) => m.name)).toEqual(seeded);
+    expect(await demoUsers()).toBe(DEMO_ACCOUNTS.people.length);
+    const [plans] = await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM season_plans", { type: QueryTypes.SELECT });
+    expect(plans.n).toBeGreaterThan(0);
+  });
+
+  it("rolls back one step on a seeded database and keeps the rows of the columns that stay", async () => {
+    const before = await db().query<{ id: number; email: string }>("SELECT id, email FROM users ORDER BY id", { type: QueryTypes.SELECT });
+    const executed = (await migrator().executed()).map((m) => m.name);
+    await rollback();
+    expect((await migrator().executed()).map((m) => m.name)).toEqual(executed.slice(0, -1));
+    expect(await db().query("SELECT id, email FROM users ORDER BY id", { type: QueryTypes.SELECT })).toEqual(before);
+    await migrator().up();
+    expect((await migrator().executed()).map((m) => m.name)).toEqual(executed);
+  });
+
+  it("moves seeder records left in schema_migrations by older versions to schema_seeds", async () => {
+    const seeded = (await seeder().executed()).map((m) => m.name);
+    // An older database: the seeders' names sat in the migrations table and schema_seeds did not exist.
+    for (const name of seeded) {
+      await db().query("INSERT INTO schema_migrations (name) VALUES (?)", { replacements: [name] });
+    }
+    await db().getQueryInterface().dropTable("schema_seeds");
+    await moveSeederRecords();
+    expect((await seeder().executed()).map((m) => m.name)).toEqual(seeded);
+    expect((await migrator().executed()).map((m) => m.name)).not.toEqual(expect.arrayContaining([seeded[0]]));
+    await moveSeederRecords();
+    expect((await seeder().executed()).map((m) => m.name)).toEqual(seeded);
+  });
+
+  it("leaves the database as it was when a down step fails halfway", async () => {
+    const last = (await migrator().executed()).at(-1)!.name;
+    const columns = async () => Object.keys(await db().getQueryInterface().describeTable("users")).sort();
+    const before = await columns();
+    expect(before).toContain("training_times");
+    const failing = async ({ context: qi }: { context: QueryInterface }) => {
+      await dropColumn(qi, "users", "training_times");
+      throw new Error("second statement failed");
+    };
+    await expect(downInTransaction(db(), last, failing)).rejects.toThrow("second statement failed");
+    expect(await columns()).toEqual(before);
+    expect((await migrator().executed()).at(-1)!.name).toBe(last);
   });
 });
