@@ -4,12 +4,15 @@ import { db, writeTransaction } from "~/.server/db";
 import { CoachAthlete, PlanItem, PlanWeek, ScheduledBlock, Session, SessionBlock, Threshold, User } from "~/.server/models";
 import { calendarRange } from "~/.server/services/calendar";
 import { materialize, resolveSteps } from "~/.server/services/materialize";
-import { createPlan, loadPlan } from "~/.server/services/plans";
+import { loadBoard } from "~/.server/services/board";
+import { createPlan } from "~/.server/services/plans";
 import { thresholdHistory } from "~/.server/services/thresholds";
 import { addDays } from "~/lib/dates";
 import { expandBlocks, type Block } from "~/lib/training";
 import { compare, compareEach, type BenchFigure } from "./lib";
+import { BASE, pageHandler, signedIn } from "./pages";
 import { countStatements } from "./statements";
+import { getUser } from "~/.server/auth";
 
 /**
  * A 52-week plan, 8 sessions a week, 6 blocks each. Each path is measured against a baseline that does the same
@@ -56,13 +59,35 @@ export async function run(): Promise<BenchFigure[]> {
     return { p, w, items: items.map((i) => ({ ...i, blocks: JSON.parse(String(i.blocks)) })) };
   };
   const figures: BenchFigure[] = [
-    await compare(`board loader, 52 weeks × 8 sessions × ${blocks.length} blocks`, () => loadPlan(coach.id, plan.id), rawBoard, {
+    await compare(`board loader, 52 weeks × 8 sessions × ${blocks.length} blocks`, () => loadBoard(coach, plan.id), rawBoard, {
       baselineName: "raw reads of the same plan, week and item rows with blocks decoded",
       runs: 9,
       aim: 3,
-      note: "the service alone, without rendering the page",
+      note: "the board page's loader service alone (cards, distinct shapes with load and minutes per band), without rendering",
     }),
   ];
+
+  // The whole board page: every loader of the route tree (session, layout, board) and the HTML with its data. The
+  // baseline is what a bare JSON route reading the same rows does: the session lookup, the same reads, JSON out.
+  if (await pageHandler()) {
+    const get = await signedIn(coach);
+    const url = `/coach/plans/${plan.id}/board`;
+    const page = await get(url);
+    if (process.env.BENCH_DUMP) (await import("node:fs")).writeFileSync(process.env.BENCH_DUMP, page.body);
+    const signedInRequest = new Request(`${BASE}${url}`, { headers: { cookie: get.cookie } });
+    const rawRoute = async () => new Response(JSON.stringify(await rawBoard())).text();
+    const fig = await compare(`board page, 52 weeks × 8 sessions, HTML + data`, () => get(url), async () => {
+      await getUser(signedInRequest);
+      return rawRoute();
+    }, {
+      baselineName: "a bare route: session lookup, raw reads of the same plan, week and item rows, JSON out",
+      runs: 9,
+      aim: 3,
+    });
+    const kb = Math.round(page.bytes / 1024);
+    fig.note = `HTML ${kb} kB (aim ≤ 80 kB: ${kb <= 80 ? "meets" : "misses"}), ${(await rawRoute()).length} bytes of raw JSON for the same rows`;
+    figures.push(fig);
+  }
 
   // Placing the plan: each run uses a fresh athlete, so every calendar holds the plan once. The baseline inserts the
   // same resolved rows (computed untimed) with one multi-row INSERT per 500 rows, in one transaction.
