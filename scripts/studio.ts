@@ -52,9 +52,11 @@ const SESSIONS = [
 ];
 const DAYS_OF_WEEK = [0, 1, 3, 4, 5];
 
+const DEMO_DATABASE = path.resolve("db/data/pacewright.sqlite");
+
 export async function generateStudio(o: StudioOptions) {
   const target = path.resolve(o.db);
-  if (target === path.resolve("db/data/pacewright.sqlite")) throw new Error("Refusing to write the studio into the demo database.");
+  if (target === DEMO_DATABASE) throw new Error("Refusing to write the studio into the demo database.");
   process.env.DATABASE_PATH = target;
   process.env.MIGRATE_QUIET = "1";
   delete process.env.DATABASE_URL;
@@ -188,6 +190,10 @@ export async function generateStudio(o: StudioOptions) {
 
 if (process.argv[1] && path.resolve(process.argv[1]) === path.resolve(new URL(import.meta.url).pathname)) {
   const db = arg("db");
+  if (path.resolve(db) === DEMO_DATABASE) {
+    console.error("Refusing to write the studio into the demo database; give another file.");
+    process.exit(1);
+  }
   if (fs.existsSync(db) && !process.argv.includes("--force")) {
     console.error(`${db} exists; pass --force to replace it.`);
     process.exit(1);
