@@ -4,16 +4,23 @@ import { pathToFileURL } from "node:url";
 import { createRequestHandler, type ServerBuild } from "react-router";
 import { startSession } from "~/.server/auth";
 import type { User } from "~/.server/models";
+import { buildIfNeeded } from "../../scripts/build-if-needed";
 
 /**
- * Whole pages through the built server (`npx react-router build` first): loaders of every matching route and the
- * HTML rendering, without the network. The build reaches the same database file through its own connection.
+ * Whole pages through the built server (built first when a source is newer than the build, as `npm start` does):
+ * loaders of every matching route and the HTML rendering, without the network. The build reaches the same database
+ * file through its own connection.
  */
 let handler: ((request: Request) => Promise<Response>) | null | undefined;
 
 export async function pageHandler(): Promise<((request: Request) => Promise<Response>) | null> {
   if (handler !== undefined) return handler;
   const file = path.resolve("build/server/index.js");
+  try {
+    buildIfNeeded();
+  } catch (err) {
+    console.warn("[bench] the build failed:", err);
+  }
   if (!fs.existsSync(file)) {
     console.warn("[bench] no build/server/index.js: run `npx react-router build` for the page figures");
     return (handler = null);
