@@ -30,13 +30,24 @@ export function SessionProfile({
   maxPct?: number;
   bands?: readonly Band[];
 }) {
+  return (
+    <svg viewBox={`0 0 ${PROFILE_WIDTH} ${height}`} preserveAspectRatio="none" className={`block w-full ${className}`} role="img" aria-label={label ?? "Session profile"} style={{ height }}>
+      <ProfileMarks steps={steps} height={height} maxPct={maxPct} bands={bands} />
+    </svg>
+  );
+}
+
+const PROFILE_WIDTH = 300;
+
+/** The marks of a profile in a 300 × `height` box, without the box: the board draws each distinct one once as a symbol. */
+export function ProfileMarks({ steps, height, maxPct = 130, bands }: { steps: ProfileStep[]; height: number; maxPct?: number; bands?: readonly Band[] }) {
   const powerSet = useBandSet("bike:power");
   const levelColour = (pct: number) => shadeOfPct(pct, bands ?? powerSet.bands);
   const total = steps.reduce((m, s) => Math.max(m, s.s + s.d), 0) || 1;
-  const W = 300;
+  const W = PROFILE_WIDTH;
   const y = (pct: number) => height - (Math.min(pct, maxPct) / maxPct) * (height - 2);
   return (
-    <svg viewBox={`0 0 ${W} ${height}`} preserveAspectRatio="none" className={`block w-full ${className}`} role="img" aria-label={label ?? "Session profile"} style={{ height }}>
+    <>
       <line x1={0} x2={W} y1={y(100)} y2={y(100)} stroke="var(--color-brick)" strokeDasharray="3 3" strokeWidth={0.75} vectorEffect="non-scaling-stroke" />
       {steps.map((st, i) => {
         const x = (st.s / total) * W;
@@ -72,6 +83,6 @@ export function SessionProfile({
           />
         );
       })}
-    </svg>
+    </>
   );
 }

@@ -1,17 +1,9 @@
 import { z } from "zod";
 import { PHASES } from "~/lib/training";
 
-export const PLAN_SPORTS = ["bike", "run", "swim", "multi"] as const;
-export const PHASE_LABEL: Record<(typeof PHASES)[number], string> = {
-  base: "Base",
-  build: "Build",
-  peak: "Peak",
-  taper: "Taper",
-  race: "Race",
-  recovery: "Recovery",
-};
-export const DAY_NAMES = ["Mon", "Tue", "Wed", "Thu", "Fri", "Sat", "Sun"] as const;
-export const DAY_LONG = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"] as const;
+// Labels live in a module without zod, so pages that only show plans (the board) do not load the schemas.
+export { DAY_LONG, DAY_NAMES, PHASE_LABEL, PLAN_SPORTS } from "./plan-labels";
+import { DAY_NAMES, PLAN_SPORTS } from "./plan-labels";
 
 const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Choose a date.");
 

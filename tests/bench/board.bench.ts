@@ -4,11 +4,13 @@ import { db, writeTransaction } from "~/.server/db";
 import { CoachAthlete, PlanItem, PlanWeek, ScheduledBlock, Session, SessionBlock, Threshold, User } from "~/.server/models";
 import { calendarRange } from "~/.server/services/calendar";
 import { materialize, resolveSteps } from "~/.server/services/materialize";
-import { createPlan, loadPlan } from "~/.server/services/plans";
+import { loadBoard } from "~/.server/services/board";
+import { createPlan } from "~/.server/services/plans";
 import { thresholdHistory } from "~/.server/services/thresholds";
 import { addDays } from "~/lib/dates";
 import { expandBlocks, type Block } from "~/lib/training";
-import { compare, compareEach, type BenchFigure } from "./lib";
+import { compare, compareEach, round, type BenchFigure } from "./lib";
+import { pageHandler, signedIn } from "./pages";
 import { countStatements } from "./statements";
 
 /**
@@ -56,13 +58,42 @@ export async function run(): Promise<BenchFigure[]> {
     return { p, w, items: items.map((i) => ({ ...i, blocks: JSON.parse(String(i.blocks)) })) };
   };
   const figures: BenchFigure[] = [
-    await compare(`board loader, 52 weeks × 8 sessions × ${blocks.length} blocks`, () => loadPlan(coach.id, plan.id), rawBoard, {
+    await compare(`board loader, 52 weeks × 8 sessions × ${blocks.length} blocks`, () => loadBoard(coach, plan.id), rawBoard, {
       baselineName: "raw reads of the same plan, week and item rows with blocks decoded",
       runs: 9,
       aim: 3,
-      note: "the service alone, without rendering the page",
+      note: "the board page's loader service alone (cards, distinct shapes with load and minutes per band), without rendering",
     }),
   ];
+
+  // The whole board page: every loader of the route tree (session, layout, board) and the HTML with its data. The
+  // baseline is the route that reads the same rows and answers JSON (the board's own resource route), through the
+  // same built server with the same session.
+  if (await pageHandler()) {
+    const get = await signedIn(coach);
+    const url = `/coach/plans/${plan.id}/board`;
+    const page = await get(url);
+    // BENCH_DUMP=<file> keeps the page's HTML, to see what it is made of.
+    if (process.env.BENCH_DUMP) (await import("node:fs")).writeFileSync(process.env.BENCH_DUMP, page.body);
+    const jsonRoute = `/api/plans/${plan.id}/items`;
+    const json = await get(jsonRoute);
+    const fig = await compare(`board page, 52 weeks × 8 sessions, HTML + data`, () => get(url), () => get(jsonRoute), {
+      baselineName: "the plan's JSON route through the same server: session, plan, weeks and items with blocks, as JSON",
+      runs: 9,
+      aim: 3,
+    });
+    const kb = Math.round(page.bytes / 1024);
+    fig.note = `HTML ${kb} kB (aim ≤ 80 kB: ${kb <= 80 ? "meets" : "misses"}); the JSON route answers ${Math.round(json.bytes / 1024)} kB`;
+    figures.push(fig, {
+      name: "board page HTML, 52 weeks × 8 sessions: kB against the 80 kB aim",
+      subjectMs: round(page.bytes / 1024),
+      baselineMs: 80,
+      baseline: "the issue's 80 kB budget",
+      ratio: round(page.bytes / 1024 / 80),
+      aim: 1,
+      note: "sizes in kB (uncompressed), not times; everything the browser gets in the HTML, page data included",
+    });
+  }
 
   // Placing the plan: each run uses a fresh athlete, so every calendar holds the plan once. The baseline inserts the
   // same resolved rows (computed untimed) with one multi-row INSERT per 500 rows, in one transaction.

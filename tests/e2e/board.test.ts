@@ -60,6 +60,10 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     const endurance = page.getByRole("button", { name: /^Endurance 90/ });
     await endurance.click();
     const drawer = page.getByRole("complementary", { name: "Selected session" });
+    // The board ships no blocks: the drawer fetches them when the card opens.
+    const blocks = drawer.getByRole("list", { name: "Blocks" });
+    await expect.poll(() => blocks.getByRole("listitem").count()).toBeGreaterThan(0);
+    expect(await blocks.innerText()).toMatch(/\d+ min at \d+/);
     await drawer.getByLabel("Move to week").selectOption({ label: "Week 2" });
     await drawer.getByLabel("Move to day").selectOption({ label: "Sat" });
     s = saved();

@@ -2,6 +2,9 @@ import { describe, expect, it } from "vitest";
 import { CoachAthlete, PlanItem, PlanWeek, ScheduledBlock, ScheduledSession, SeasonPlan, Session, SessionBlock, Threshold } from "~/.server/models";
 import { createPlan } from "~/.server/services/plans";
 import * as items from "~/routes/api/plan-items";
+import * as boardPage from "~/routes/coach/board";
+import { boardItems } from "~/lib/board";
+import { estimateSession, expandBlocks, type Block } from "~/lib/training";
 import * as assign from "~/routes/coach/assign";
 import * as calendarApi from "~/routes/api/calendar";
 import * as athleteSession from "~/routes/athlete/session";
@@ -241,5 +244,45 @@ describe("athlete calendar", () => {
     expect(statusOf(await run(calendarApi.loader, getRequest(`/api/calendar?from=2027-01-04&to=2027-01-10&athleteId=${athlete.id}`, ocCookie)))).toBe(404);
     const mine = (await run(calendarApi.loader, getRequest(`/api/calendar?from=2027-01-04&to=2027-01-10&athleteId=${athlete.id}`, cookie))) as Response;
     expect((await mine.json()).sessions).toHaveLength(1);
+  });
+
+  it("sends the board page compact cards with one shape per distinct session, and the blocks only when a card opens", async () => {
+    const { coach, cookie, plan, weeks, threshold, hr } = await setup();
+    let r = await op(plan.id, { op: "copy", sessionId: threshold.id, toWeek: weeks[0].id, toDay: 1, toIndex: 0 }, cookie);
+    r = await op(plan.id, { op: "copy", sessionId: threshold.id, toWeek: weeks[1].id, toDay: 1, toIndex: 0, version: r.body.version }, cookie);
+    r = await op(plan.id, { op: "copy", sessionId: hr.id, toWeek: weeks[1].id, toDay: 3, toIndex: 0, version: r.body.version }, cookie);
+    r = await op(plan.id, { op: "note", itemId: r.body.items.find((i: { name: string }) => i.name === "HR steady").id, notes: "Nose breathing only.", version: r.body.version }, cookie);
+    const full = r.body.items as { id: number; name: string; blocks: Block[]; durationS: number; weekId: number; day: number; position: number }[];
+
+    const page = payloadOf(await run(boardPage.loader, getRequest(`/coach/plans/${plan.id}/board`, cookie), { planId: String(plan.id) }));
+    expect(page.cards).toHaveLength(3);
+    expect(page.shapes).toHaveLength(2);
+    expect(JSON.stringify(page)).not.toContain('"blocks"');
+    const cards = boardItems(page.cards, page.shapes);
+    for (const item of full) {
+      const card = cards.find((c) => c.id === item.id)!;
+      expect([card.weekId, card.day, card.position, card.name, card.durationS]).toEqual([item.weekId, item.day, item.position, item.name, item.durationS]);
+      // The shape is the engine's own reading of the item's blocks (default power bands: the coach has none of their own).
+      const shape = page.shapes[card.shape];
+      expect(shape.steps.map((s: { d: number }) => s.d)).toEqual(expandBlocks(item.blocks).map((s) => s.durationS));
+      expect(shape.load).toBeCloseTo(estimateSession(item.blocks).plannedEffortLoad, 9);
+      expect(shape.levels).toEqual(estimateSession(item.blocks).minutesPerBand);
+    }
+    expect(cards.find((c) => c.name === "HR steady")!.notes).toBe("Nose breathing only.");
+    expect(cards.filter((c) => c.name === "Threshold 4 × 8").map((c) => c.shape)).toEqual([0, 0]);
+
+    const one = full.find((i) => i.name === "HR steady")!;
+    const detail = (await run(items.loader, getRequest(`/api/plans/${plan.id}/items?item=${one.id}`, cookie), { planId: String(plan.id) })) as Response;
+    expect(detail.status).toBe(200);
+    expect((await detail.json()).item.blocks).toEqual(one.blocks);
+
+    // Another coach's plan or item, or an item of another plan: 404, whoever asks.
+    const other = await makeUser({ role: "coach" });
+    const otherCookie = await signIn(other.email);
+    expect(statusOf(await run(items.loader, getRequest(`/api/plans/${plan.id}/items?item=${one.id}`, otherCookie), { planId: String(plan.id) }))).toBe(404);
+    const second = await createPlan(coach.id, { name: "Second", sport: "bike", description: "", alignment: "start", date: "2027-01-04", weeks: 4, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+    expect(statusOf(await run(items.loader, getRequest(`/api/plans/${second.id}/items?item=${one.id}`, cookie), { planId: String(second.id) }))).toBe(404);
+    expect(statusOf(await run(items.loader, getRequest(`/api/plans/${plan.id}/items?item=abc`, cookie), { planId: String(plan.id) }))).toBe(404);
+    expect(statusOf(await run(boardPage.loader, getRequest(`/coach/plans/${plan.id}/board`, otherCookie), { planId: String(plan.id) }))).toBe(404);
   });
 });

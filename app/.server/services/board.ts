@@ -1,8 +1,11 @@
-import { Op, type Transaction } from "sequelize";
+import { Op, QueryTypes, type Transaction } from "sequelize";
 import { z } from "zod";
-import { writeTransaction } from "../db";
-import { PlanItem, PlanWeek, SeasonPlan } from "../models";
-import { bumpVersion, itemView, PlanError } from "./plans";
+import { db, writeTransaction } from "../db";
+import { boardView } from "~/lib/board";
+import type { Block } from "~/lib/training";
+import { PlanItem, PlanWeek, SeasonPlan, type User } from "../models";
+import { bandSetFor } from "./bands";
+import { bumpVersion, itemView, PlanError, requirePlan } from "./plans";
 import { getSession } from "./sessions";
 
 const target = { toWeek: z.number().int().positive(), toDay: z.number().int().min(0).max(6), toIndex: z.number().int().min(0).max(1000) };
@@ -129,4 +132,45 @@ export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp)
     const items = await PlanItem.findAll({ where: { planId }, order: [["day", "ASC"], ["position", "ASC"]], transaction });
     return { version: plan.version + 1, items: items.map(itemView), touchedItem };
   });
+}
+
+/**
+ * The board page's data: the plan's heading fields, its weeks and one compact card per placed session, with the
+ * distinct block lists turned into shapes (profile, duration, load, minutes per band in the coach's power bands).
+ * Descriptions, recurrences and the blocks themselves stay on the server until a card is opened. The items are read
+ * raw: their blocks arrive as JSON text, and cards with the same text share one parse and one estimate.
+ */
+export async function loadBoard(coach: Pick<User, "id" | "role">, planId: number) {
+  const plan = await requirePlan(coach.id, planId);
+  const [weeks, items, assignments, bands] = await Promise.all([
+    db().query<{ id: number; idx: number; phase: string; recovery: boolean | number; test: boolean | number; planned_hours: number }>(
+      "SELECT id, idx, phase, recovery, test, planned_hours FROM plan_weeks WHERE plan_id = ? ORDER BY idx",
+      { replacements: [planId], type: QueryTypes.SELECT },
+    ),
+    db().query<{ id: number; week_id: number; day: number; position: number; name: string; test_protocol: string | null; blocks: string | Block[]; time_of_day: string | null; notes: string | null }>(
+      "SELECT id, week_id, day, position, name, test_protocol, blocks, time_of_day, notes FROM plan_items WHERE plan_id = ? ORDER BY day, position",
+      { replacements: [planId], type: QueryTypes.SELECT },
+    ),
+    db().query<{ plan_version: number }>("SELECT plan_version FROM assignments WHERE plan_id = ?", { replacements: [planId], type: QueryTypes.SELECT }),
+    bandSetFor(coach, "bike", "power"),
+  ]);
+  const view = boardView(
+    items.map((i) => ({ id: i.id, weekId: i.week_id, day: i.day, position: i.position, name: i.name, testProtocol: i.test_protocol, blocks: i.blocks, timeOfDay: i.time_of_day, notes: i.notes })),
+    bands.bands,
+  );
+  return {
+    plan: { id: plan.id, name: plan.name, startDate: plan.startDate, version: plan.version },
+    weeks: weeks.map((w) => ({ id: w.id, idx: w.idx, phase: w.phase, recovery: Boolean(w.recovery), test: Boolean(w.test), plannedHours: Number(w.planned_hours) })),
+    ...view,
+    assigned: assignments.length,
+    outdated: assignments.filter((a) => Number(a.plan_version) < plan.version).length,
+  };
+}
+
+/** One placed session in full, for the board's drawer when a card opens. */
+export async function boardItemDetail(ownerId: number, planId: number, itemId: number) {
+  await requirePlan(ownerId, planId);
+  const item = Number.isInteger(itemId) && itemId > 0 ? await PlanItem.findOne({ where: { id: itemId, planId } }) : null;
+  if (!item) throw new PlanError("That session is no longer on this plan.", 404);
+  return itemView(item);
 }

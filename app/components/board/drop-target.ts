@@ -1,6 +1,6 @@
 import type { StepKey } from "~/components/board/step-keyboard-sensor";
 import { addDays, formatDay } from "~/lib/dates";
-import { DAY_LONG } from "~/lib/plans";
+import { DAY_LONG } from "~/lib/plan-labels";
 
 /** Where a dragged session would land: a day of a week and its place among the sessions already there. */
 export interface DropTarget {

@@ -1,93 +1,80 @@
-import {
-  DndContext,
-  type CollisionDetection,
-  DragOverlay,
-  PointerSensor,
-  useDraggable,
-  useDroppable,
-  useSensor,
-  useSensors,
-  type Announcements,
-  type DragEndEvent,
-  type DragStartEvent,
-  type UniqueIdentifier,
-} from "@dnd-kit/core";
+import { DndContext, type CollisionDetection, DragOverlay, PointerSensor, useDraggable, useDroppable, useSensor, useSensors, type Announcements, type DragEndEvent, type DragStartEvent, type UniqueIdentifier } from "@dnd-kit/core";
 import { describeDay, describeTarget, type DropTarget, sameTarget, slotId, slotItems, stepTarget, targetAtPoint } from "~/components/board/drop-target";
 import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
-import { useEffect, useMemo, useRef, useState } from "react";
+import { useEffect, useMemo, useRef, useState, useSyncExternalStore } from "react";
 import { useFetcher, useRevalidator } from "react-router";
-import { SessionProfile } from "~/components/session-profile";
+import { ProfileMarks, SessionProfile, type ProfileStep } from "~/components/session-profile";
 import { buttonClass } from "~/components/ui/button";
+import { boardItems, boardView, type BoardCard, type BoardItem, type BoardShape, type BoardWeek } from "~/lib/board";
 import { addDays, formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
-import { DAY_LONG, DAY_NAMES, PHASE_LABEL } from "~/lib/plans";
-import { describeBlock } from "~/lib/sessions";
+import { DAY_NAMES, PHASE_LABEL } from "~/lib/plan-labels";
+import { describeBlock } from "~/lib/session-text";
 import { useBandSet } from "~/components/bands-context";
-import { bandShade, estimateSession, expandBlocks, type Band, type Block } from "~/lib/training";
+import { bandShade, type Block } from "~/lib/training";
 
-export interface BoardItem {
-  id: number;
-  weekId: number;
-  day: number;
-  position: number;
-  name: string;
-  sport: string;
-  testProtocol: string | null;
-  blocks: Block[];
-  durationS: number;
-  timeOfDay: string | null;
-  notes?: string;
-}
-export interface BoardWeek {
-  id: number;
-  idx: number;
-  phase: string;
-  recovery: boolean;
-  test: boolean;
-  plannedHours: number;
-  notes: string;
-}
+export type { BoardItem, BoardWeek };
 export interface BoardData {
   plan: { id: number; name: string; startDate: string | null; version: number };
   weeks: BoardWeek[];
-  items: BoardItem[];
+  cards: BoardCard[];
+  shapes: BoardShape[];
 }
 interface ShelfEntry {
   id: number;
   name: string;
   sport: string;
   durationS: number;
-  profile: { s: number; d: number; lo: number | null; hi: number | null; ramp: boolean }[];
+  profile: {
+    s: number;
+    d: number;
+    lo: number | null;
+    hi: number | null;
+    ramp: boolean;
+  }[];
   tags: string[];
 }
 type Op =
-  | { op: "copy"; sessionId: number; toWeek: number; toDay: number; toIndex: number }
-  | { op: "move"; itemId: number; toWeek: number; toDay: number; toIndex: number }
+  | {
+      op: "copy";
+      sessionId: number;
+      toWeek: number;
+      toDay: number;
+      toIndex: number;
+    }
+  | {
+      op: "move";
+      itemId: number;
+      toWeek: number;
+      toDay: number;
+      toIndex: number;
+    }
   | { op: "remove"; itemId: number }
   | { op: "duplicate-week" | "move-week"; fromWeek: number; toWeek: number }
   | { op: "time"; itemId: number; timeOfDay: string | null }
   | { op: "note"; itemId: number; notes: string };
-type ServerReply = { version: number; items: BoardItem[] } | { error: string; version?: number };
+/** The JSON route answers with the plan's items in full; the board turns them into its cards and shapes. */
+type ServerReply = { version: number; items: Parameters<typeof boardView>[0] } | { error: string; version?: number };
+type Drawn = { items: BoardItem[]; shapes: BoardShape[] };
+
+/**
+ * Weeks drawn by the server: the ones a wide screen shows without scrolling, and more. The rest follow as soon as
+ * the page is live, so a year-long plan does not ship its whole board as HTML (nothing on it works before then).
+ */
+const SERVER_WEEKS = 4;
+const noSubscribe = () => () => {};
+/** False while the server renders and the browser hydrates; true from then on (and at once after client navigation). */
+const useHydrated = () =>
+  useSyncExternalStore(
+    noSubscribe,
+    () => true,
+    () => false,
+  );
 
 /** Rise of planned load over the previous non-recovery week above which a week is flagged (common practice). */
 const RISE_CAP = 0.1;
 
 const itemKey = (id: number) => `item:${id}`;
-
-function profileOf(blocks: Block[]) {
-  try {
-    return expandBlocks(blocks).map((s) => ({ s: s.startS, d: s.durationS, lo: s.lowPct, hi: s.highPct, ramp: s.ramp }));
-  } catch {
-    return [];
-  }
-}
-function estimateOf(blocks: Block[], bands?: readonly Band[]) {
-  try {
-    return estimateSession(blocks, {}, bands);
-  } catch {
-    return null;
-  }
-}
 
 /** Applies a change to the local items at once (optimistic); the server's answer then replaces them. */
 function applyLocal(items: BoardItem[], op: Op, shelf: ShelfEntry[], tempId: number): BoardItem[] {
@@ -105,7 +92,18 @@ function applyLocal(items: BoardItem[], op: Op, shelf: ShelfEntry[], tempId: num
       rest = renumber(rest, moving.weekId, moving.day, slot(moving.weekId, moving.day, rest));
     } else {
       const s = shelf.find((x) => x.id === op.sessionId)!;
-      moving = { id: tempId, weekId: op.toWeek, day: op.toDay, position: 0, name: s.name, sport: s.sport, testProtocol: null, blocks: [], durationS: s.durationS, timeOfDay: null };
+      moving = {
+        id: tempId,
+        weekId: op.toWeek,
+        day: op.toDay,
+        position: 0,
+        name: s.name,
+        durationS: s.durationS,
+        shape: -1,
+        test: false,
+        timeOfDay: null,
+        notes: "",
+      };
     }
     const target = slot(op.toWeek, op.toDay, rest);
     const placed = { ...moving, weekId: op.toWeek, day: op.toDay };
@@ -120,23 +118,31 @@ function applyLocal(items: BoardItem[], op: Op, shelf: ShelfEntry[], tempId: num
 
 export function PlanBoard({ data }: { data: BoardData }) {
   const { plan, weeks } = data;
-  const [items, setItems] = useState<BoardItem[]>(data.items);
+  const hydrated = useHydrated();
+  const shipped = useMemo(() => boardItems(data.cards, data.shapes), [data.cards, data.shapes]);
+  const [items, setItems] = useState<BoardItem[]>(shipped);
+  const [shapes, setShapes] = useState<BoardShape[]>(data.shapes);
   const [version, setVersion] = useState(plan.version);
   const [selected, setSelected] = useState<number | null>(null);
-  const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
+  const [message, setMessage] = useState<{
+    tone: "ok" | "error";
+    text: string;
+  } | null>(null);
   const [activeId, setActiveId] = useState<UniqueIdentifier | null>(null);
   const fetcher = useFetcher<ServerReply>();
   const revalidator = useRevalidator();
   const queue = useRef<Op[]>([]);
-  const confirmed = useRef<BoardItem[]>(data.items);
+  const confirmed = useRef<Drawn>({ items: shipped, shapes: data.shapes });
   const tempIds = useRef(-1);
 
   // A reload (after a 409, or navigation back) brings fresh server data: adopt it.
   useEffect(() => {
-    setItems(data.items);
-    confirmed.current = data.items;
+    setItems(shipped);
+    setShapes(data.shapes);
+    confirmed.current = { items: shipped, shapes: data.shapes };
     setVersion(data.plan.version);
-  }, [data.items, data.plan.version]);
+  }, [shipped, data.shapes, data.plan.version]);
+  const powerBands = useBandSet("bike:power").bands;
 
   const shelfFetcher = useFetcher<{ sessions: ShelfEntry[] }>();
   const [q, setQ] = useState("");
@@ -146,7 +152,15 @@ export function PlanBoard({ data }: { data: BoardData }) {
   }, [q]); // eslint-disable-line react-hooks/exhaustive-deps
   const shelf = shelfFetcher.data?.sessions ?? [];
 
-  const send = (op: Op, v: number) => fetcher.submit({ ...op, version: v }, { method: "post", action: `/api/plans/${plan.id}/items`, encType: "application/json" });
+  const send = (op: Op, v: number) =>
+    fetcher.submit(
+      { ...op, version: v },
+      {
+        method: "post",
+        action: `/api/plans/${plan.id}/items`,
+        encType: "application/json",
+      },
+    );
 
   // Changes go to the server one at a time, each with the version the previous answer gave.
   useEffect(() => {
@@ -154,15 +168,23 @@ export function PlanBoard({ data }: { data: BoardData }) {
     const reply = fetcher.data;
     if ("error" in reply) {
       queue.current = [];
-      setItems(confirmed.current);
+      setItems(confirmed.current.items);
+      setShapes(confirmed.current.shapes);
       setMessage({ tone: "error", text: reply.error });
       if (reply.version !== undefined) revalidator.revalidate();
     } else {
-      confirmed.current = reply.items;
+      const view = boardView(reply.items, powerBands);
+      confirmed.current = {
+        items: boardItems(view.cards, view.shapes),
+        shapes: view.shapes,
+      };
       setVersion(reply.version);
       const next = queue.current.shift();
       if (next) send(next, reply.version);
-      else setItems(reply.items);
+      else {
+        setItems(confirmed.current.items);
+        setShapes(confirmed.current.shapes);
+      }
     }
   }, [fetcher.state, fetcher.data]); // eslint-disable-line react-hooks/exhaustive-deps
 
@@ -205,7 +227,13 @@ export function PlanBoard({ data }: { data: BoardData }) {
     const now = target.current;
     if (!now) return false;
     const { weeks: ws, items: its } = live.current;
-    const next = stepTarget(now, key, ws.map((w) => w.id), its, moving.current);
+    const next = stepTarget(
+      now,
+      key,
+      ws.map((w) => w.id),
+      its,
+      moving.current,
+    );
     if (!next) return false;
     setTarget(next);
     requestAnimationFrame(() => document.querySelector(`[data-drop-slot="${slotId(next.weekId, next.day)}"]`)?.scrollIntoView({ block: "nearest", inline: "nearest" }));
@@ -249,11 +277,22 @@ export function PlanBoard({ data }: { data: BoardData }) {
       const it = moving.current !== null ? items.find((i) => i.id === moving.current) : undefined;
       const first = weeks[0];
       const start: DropTarget | null = it
-        ? { weekId: it.weekId, day: it.day, index: slotItems(items, it.weekId, it.day, it.id).filter((o) => o.position < it.position).length }
+        ? {
+            weekId: it.weekId,
+            day: it.day,
+            index: slotItems(items, it.weekId, it.day, it.id).filter((o) => o.position < it.position).length,
+          }
         : lastShelfDrop.current && weekById.has(lastShelfDrop.current.weekId)
-          ? { ...lastShelfDrop.current, index: slotItems(items, lastShelfDrop.current.weekId, lastShelfDrop.current.day, null).length }
+          ? {
+              ...lastShelfDrop.current,
+              index: slotItems(items, lastShelfDrop.current.weekId, lastShelfDrop.current.day, null).length,
+            }
           : first
-            ? { weekId: first.id, day: 0, index: slotItems(items, first.id, 0, null).length }
+            ? {
+                weekId: first.id,
+                day: 0,
+                index: slotItems(items, first.id, 0, null).length,
+              }
             : null;
       setTarget(start);
     } else setTarget(null);
@@ -279,13 +318,31 @@ export function PlanBoard({ data }: { data: BoardData }) {
     if (String(active.id).startsWith("shelf:")) {
       const sessionId = Number(String(active.id).slice(6));
       if (viaKeyboard) lastShelfDrop.current = t;
-      change({ op: "copy", sessionId, toWeek: t.weekId, toDay: t.day, toIndex: t.index }, `Added ${name} on ${where}.`);
+      change(
+        {
+          op: "copy",
+          sessionId,
+          toWeek: t.weekId,
+          toDay: t.day,
+          toIndex: t.index,
+        },
+        `Added ${name} on ${where}.`,
+      );
     } else if (activeItemId !== null) {
       const it = items.find((i) => i.id === activeItemId)!;
       const sameSlot = it.weekId === t.weekId && it.day === t.day;
       if (sameSlot && slotItems(items, t.weekId, t.day, it.id).filter((o) => o.position < it.position).length === t.index) return;
       if (viaKeyboard) focusAfter.current = activeItemId;
-      change({ op: "move", itemId: activeItemId, toWeek: t.weekId, toDay: t.day, toIndex: t.index }, `Moved ${it.name} to ${where}.`);
+      change(
+        {
+          op: "move",
+          itemId: activeItemId,
+          toWeek: t.weekId,
+          toDay: t.day,
+          toIndex: t.index,
+        },
+        `Moved ${it.name} to ${where}.`,
+      );
     }
   };
   const onDragCancel = () => {
@@ -301,8 +358,6 @@ export function PlanBoard({ data }: { data: BoardData }) {
     if (el && el !== active && (active === null || active === document.body)) el.focus();
   }, [items]);
 
-  const powerBands = useBandSet("bike:power").bands;
-  const estimates = useMemo(() => new Map(items.map((i) => [i.id, estimateOf(i.blocks, powerBands)])), [items, powerBands]);
   const weekStats = useMemo(() => {
     const stats = weeks.map((w) => {
       const mine = items.filter((i) => i.weekId === w.id);
@@ -310,11 +365,11 @@ export function PlanBoard({ data }: { data: BoardData }) {
       let load = 0;
       let seconds = 0;
       for (const i of mine) {
-        const e = estimates.get(i.id);
+        const e = shapes[i.shape];
         seconds += i.durationS;
         if (e) {
-          load += e.plannedEffortLoad;
-          e.minutesPerBand.forEach((m, k) => (levels[k] += m));
+          load += e.load;
+          e.levels.forEach((m, k) => (levels[k] += m));
         }
       }
       return { week: w, load, seconds, levels };
@@ -325,7 +380,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
       if (!s.week.recovery && s.load > 0) prev = s.load;
       return { ...s, rise, warn: rise > RISE_CAP };
     });
-  }, [weeks, items, estimates]);
+  }, [weeks, items, shapes, powerBands.length]);
   const maxLoad = Math.max(1, ...weekStats.map((s) => s.load));
   const selectedItem = items.find((i) => i.id === selected) ?? null;
   const activeShelf = activeId && String(activeId).startsWith("shelf:") ? shelf.find((s) => s.id === Number(String(activeId).slice(6))) : null;
@@ -340,8 +395,14 @@ export function PlanBoard({ data }: { data: BoardData }) {
       onDragMove={() => mode.current === "pointer" && setTarget(target.current)}
       onDragEnd={onDragEnd}
       onDragCancel={onDragCancel}
-      accessibility={{ announcements, screenReaderInstructions: { draggable: "To move this session with the keyboard, press Space, then the arrow keys: up and down through the days, left and right between weeks. Space drops it, Escape cancels." } }}
+      accessibility={{
+        announcements,
+        screenReaderInstructions: {
+          draggable: "To move this session with the keyboard, press Space, then the arrow keys: up and down through the days, left and right between weeks. Space drops it, Escape cancels.",
+        },
+      }}
     >
+      <ShapeDefs shapes={shapes} />
       <div className="flex min-h-[70vh] flex-col gap-3 lg:flex-row">
         <aside className="flex w-full shrink-0 flex-col rounded-xl border border-line bg-white lg:w-60" aria-label="Session shelf">
           <div className="border-b border-line p-3">
@@ -370,11 +431,12 @@ export function PlanBoard({ data }: { data: BoardData }) {
           )}
           {/* On a phone each week is a list of its days, one week under the other, so nothing needs sideways scrolling. */}
           <ol className="flex flex-col gap-3 md:flex-row">
-            {weekStats.map(({ week, load, seconds, levels, warn, rise }) => (
+            {(hydrated ? weekStats : weekStats.slice(0, SERVER_WEEKS)).map(({ week, load, seconds, levels, warn, rise }) => (
               <li key={week.id} className="w-full shrink-0 md:w-52" data-testid={`week-${week.idx}`}>
                 <WeekColumn
                   week={week}
                   weeks={weeks}
+                  live={hydrated}
                   startDate={plan.startDate}
                   load={load}
                   maxLoad={maxLoad}
@@ -392,44 +454,97 @@ export function PlanBoard({ data }: { data: BoardData }) {
                 />
               </li>
             ))}
+            {!hydrated && weeks.length > SERVER_WEEKS && (
+              <li className="bw-week w-full shrink-0 p-2.5 text-sm text-ink-soft md:w-52">
+                Weeks {weeks[SERVER_WEEKS].idx}–{weeks[weeks.length - 1].idx} appear in a moment.
+              </li>
+            )}
           </ol>
         </div>
 
         {selectedItem && (
           <ItemDrawer
+            planId={plan.id}
             item={selectedItem}
+            steps={shapes[selectedItem.shape]?.steps ?? []}
+            load={shapes[selectedItem.shape]?.load ?? null}
             weeks={weeks}
             onClose={() => setSelected(null)}
             onRemove={() => {
               change({ op: "remove", itemId: selectedItem.id }, `Removed ${selectedItem.name}.`);
               setSelected(null);
             }}
-            onMove={(toWeek, toDay) => change({ op: "move", itemId: selectedItem.id, toWeek, toDay, toIndex: items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== selectedItem.id).length }, `Moved ${selectedItem.name}.`)}
+            onMove={(toWeek, toDay) =>
+              change(
+                {
+                  op: "move",
+                  itemId: selectedItem.id,
+                  toWeek,
+                  toDay,
+                  toIndex: items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== selectedItem.id).length,
+                },
+                `Moved ${selectedItem.name}.`,
+              )
+            }
             onTime={(t) => change({ op: "time", itemId: selectedItem.id, timeOfDay: t })}
             onNote={(notes) => change({ op: "note", itemId: selectedItem.id, notes }, `Saved the note on ${selectedItem.name}.`)}
           />
         )}
       </div>
       <DragOverlay style={{ pointerEvents: "none" }}>
-        {mode.current === "keyboard" ? null : activeShelf ? <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={activeShelf.profile} lifted /> : activeItem ? <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={profileOf(activeItem.blocks)} lifted /> : null}
+        {mode.current === "keyboard" ? null : activeShelf ? (
+          <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={<SessionProfile steps={activeShelf.profile} height={CARD_PROFILE_HEIGHT} className="mt-1" />} lifted />
+        ) : activeItem ? (
+          <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={<ShapeUse shape={activeItem.shape} />} lifted />
+        ) : null}
       </DragOverlay>
     </DndContext>
   );
 }
 
-function CardBody({ name, durationS, profile, test, time, note, lifted }: { name: string; durationS: number; profile: ReturnType<typeof profileOf>; test?: boolean; time?: string | null; note?: boolean; lifted?: boolean }) {
+const CARD_PROFILE_HEIGHT = 18;
+const shapeId = (k: number) => `bs${k}`;
+
+/**
+ * Each distinct profile is drawn once, as a symbol; the cards reuse it. A year's board holds hundreds of cards but
+ * only a few different sessions, and each profile is a dozen shapes.
+ */
+function ShapeDefs({ shapes }: { shapes: BoardShape[] }) {
   return (
-    <div className={`rounded-lg border bg-white p-2 text-left text-xs ${lifted ? "border-teal shadow-lg" : "border-line"}`}>
-      <div className="flex items-start justify-between gap-1">
-        <span className="font-medium leading-tight">{name}</span>
-        <span className="num shrink-0 text-ink-soft">{formatMinutes(durationS)}</span>
+    <svg aria-hidden="true" className="absolute h-0 w-0 overflow-hidden">
+      <defs>
+        {shapes.map((sh, k) => (
+          <symbol key={k} id={shapeId(k)} viewBox={`0 0 300 ${CARD_PROFILE_HEIGHT}`} preserveAspectRatio="none">
+            <ProfileMarks steps={sh.steps} height={CARD_PROFILE_HEIGHT} />
+          </symbol>
+        ))}
+      </defs>
+    </svg>
+  );
+}
+
+function ShapeUse({ shape }: { shape: number }) {
+  if (shape < 0) return <div className="mt-1" style={{ height: CARD_PROFILE_HEIGHT }} />;
+  return (
+    <svg className="bc-profile" aria-hidden="true">
+      <use href={`#${shapeId(shape)}`} />
+    </svg>
+  );
+}
+
+function CardBody({ name, durationS, profile, test, time, note, lifted }: { name: string; durationS: number; profile: React.ReactNode; test?: boolean; time?: string | null; note?: boolean; lifted?: boolean }) {
+  return (
+    <div className={lifted ? "bc bc-lifted" : "bc"}>
+      <div className="bc-head">
+        <span>{name}</span>
+        <span>{formatMinutes(durationS)}</span>
       </div>
-      <SessionProfile steps={profile} height={18} className="mt-1" label={`Profile of ${name}`} />
+      {profile}
       {(test || time || note) && (
-        <div className="mt-1 flex gap-1">
-          {test && <span className="rounded bg-brick/15 px-1 text-[10px] text-brick">field test</span>}
-          {note && <span className="rounded bg-teal/10 px-1 text-[10px] text-teal-dark">note</span>}
-          {time && <span className="num rounded bg-paper-deep px-1 text-[10px]">{time}</span>}
+        <div className="bc-tags">
+          {test && <span className="bg-brick/15 text-brick">field test</span>}
+          {note && <span className="bg-teal/10 text-teal-dark">note</span>}
+          {time && <span className="num bg-paper-deep">{time}</span>}
         </div>
       )}
     </div>
@@ -437,10 +552,13 @@ function CardBody({ name, durationS, profile, test, time, note, lifted }: { name
 }
 
 function ShelfCard({ session }: { session: ShelfEntry }) {
-  const { attributes, listeners, setNodeRef, isDragging } = useDraggable({ id: `shelf:${session.id}`, data: { sessionId: session.id } });
+  const { attributes, listeners, setNodeRef, isDragging } = useDraggable({
+    id: `shelf:${session.id}`,
+    data: { sessionId: session.id },
+  });
   return (
     <button ref={setNodeRef} type="button" {...attributes} {...listeners} aria-label={`Shelf session ${session.name}, ${formatMinutes(session.durationS)}`} className={`block w-full cursor-grab ${isDragging ? "opacity-40" : ""}`}>
-      <CardBody name={session.name} durationS={session.durationS} profile={session.profile} />
+      <CardBody name={session.name} durationS={session.durationS} profile={<SessionProfile steps={session.profile} height={CARD_PROFILE_HEIGHT} className="mt-1" label={`Profile of ${session.name}`} />} />
     </button>
   );
 }
@@ -448,6 +566,8 @@ function ShelfCard({ session }: { session: ShelfEntry }) {
 function WeekColumn(props: {
   week: BoardWeek;
   weeks: BoardWeek[];
+  /** Whether the page is live: before then the target-week list holds only its chosen week (it does nothing yet). */
+  live: boolean;
   startDate: string | null;
   load: number;
   maxLoad: number;
@@ -468,8 +588,14 @@ function WeekColumn(props: {
   const [target, setTarget] = useState<number>(props.weeks.find((w) => w.id !== week.id)?.id ?? week.id);
   const totalLevels = props.levels.reduce((a, b) => a + b, 0) || 1;
   return (
-    <section className="flex h-full flex-col overflow-hidden rounded-xl border border-line bg-white" aria-label={`Week ${week.idx}`}>
-      <div className="h-2" style={{ background: `var(--color-phase-${week.phase})`, opacity: week.recovery ? 0.45 : 1 }} />
+    <section className="bw-week flex h-full flex-col" aria-label={`Week ${week.idx}`}>
+      <div
+        className="h-2"
+        style={{
+          background: `var(--color-phase-${week.phase})`,
+          opacity: week.recovery ? 0.45 : 1,
+        }}
+      />
       <header className="border-b border-line px-2.5 py-2 text-xs">
         <div className="flex items-baseline justify-between">
           <h3 className="text-sm font-semibold">Week {week.idx}</h3>
@@ -487,7 +613,17 @@ function WeekColumn(props: {
           <div className={`h-1.5 rounded ${props.warn ? "bg-brick" : "bg-teal"}`} style={{ width: `${(props.load / props.maxLoad) * 100}%` }} />
         </div>
         <div className="mt-1 flex h-1.5 overflow-hidden rounded" aria-label="Minutes per band">
-          {props.levels.map((m, i) => (m > 0 ? <span key={i} style={{ width: `${(m / totalLevels) * 100}%`, background: bandShade(i, props.levels.length) }} /> : null))}
+          {props.levels.map((m, i) =>
+            m > 0 ? (
+              <span
+                key={i}
+                style={{
+                  width: `${(m / totalLevels) * 100}%`,
+                  background: bandShade(i, props.levels.length),
+                }}
+              />
+            ) : null,
+          )}
         </div>
         {props.warn && (
           <p role="note" className="mt-1 font-medium text-brick">
@@ -520,17 +656,17 @@ function WeekColumn(props: {
         </label>
         <select id={`week-target-${week.id}`} value={target} onChange={(e) => setTarget(Number(e.target.value))} className="rounded border border-line px-1 py-0.5">
           {props.weeks
-            .filter((w) => w.id !== week.id)
+            .filter((w) => w.id !== week.id && (props.live || w.id === target))
             .map((w) => (
               <option key={w.id} value={w.id}>
                 to week {w.idx}
               </option>
             ))}
         </select>
-        <button type="button" aria-label={`Copy week ${week.idx}'s sessions to the chosen week`} className="rounded px-1.5 py-0.5 text-teal hover:bg-teal/10" onClick={() => props.onWeekOp("duplicate-week", target)}>
+        <button type="button" aria-label={`Copy week ${week.idx}'s sessions to the chosen week`} className="bw-op" onClick={() => props.onWeekOp("duplicate-week", target)}>
           Copy
         </button>
-        <button type="button" aria-label={`Move week ${week.idx}'s sessions to the chosen week`} className="rounded px-1.5 py-0.5 text-teal hover:bg-teal/10" onClick={() => props.onWeekOp("move-week", target)}>
+        <button type="button" aria-label={`Move week ${week.idx}'s sessions to the chosen week`} className="bw-op" onClick={() => props.onWeekOp("move-week", target)}>
           Move
         </button>
       </footer>
@@ -573,13 +709,13 @@ function DaySlot(props: {
   return (
     <div
       ref={setNodeRef}
-      className={`relative min-h-12 px-1.5 py-1 ${dropIndex !== null ? "bg-teal/10 outline-2 -outline-offset-2 outline-teal" : ""}`}
+      className={`bw-day${dropIndex !== null ? " bg-teal/10 outline-2 -outline-offset-2 outline-teal" : ""}`}
       data-testid={`slot-${weekIdx}-${day}`}
       data-drop-slot={slotId(weekId, day)}
       aria-label={describeDay(weekIdx, day, props.startDate)}
       role="group"
     >
-      <span className="text-[10px] font-medium tracking-wide text-ink-soft uppercase">
+      <span className="bw-day-label">
         {label}
         {props.date && <span className="num ml-1 normal-case">{formatDay(props.date, { day: "numeric", month: "short" })}</span>}
       </span>
@@ -588,21 +724,26 @@ function DaySlot(props: {
           {props.dropName || "Session"} here
         </span>
       )}
-      <ul className="flex flex-col gap-1">
-        {cards}
-        {/* The card being moved stays mounted (dnd-kit holds its node) but out of the flow while it is carried. */}
-        {moving && (
-          <li className="hidden">
-            <BoardCard item={moving} selected={false} onSelect={() => props.onSelect(moving.id)} />
-          </li>
-        )}
-      </ul>
+      {(cards.length > 0 || moving) && (
+        <ul className="flex flex-col gap-1">
+          {cards}
+          {/* The card being moved stays mounted (dnd-kit holds its node) but out of the flow while it is carried. */}
+          {moving && (
+            <li className="hidden">
+              <BoardCard item={moving} selected={false} onSelect={() => props.onSelect(moving.id)} />
+            </li>
+          )}
+        </ul>
+      )}
     </div>
   );
 }
 
 function BoardCard({ item, selected, onSelect }: { item: BoardItem; selected: boolean; onSelect: () => void }) {
-  const { attributes, listeners, setNodeRef } = useDraggable({ id: itemKey(item.id), disabled: item.id < 0 });
+  const { attributes, listeners, setNodeRef } = useDraggable({
+    id: itemKey(item.id),
+    disabled: item.id < 0,
+  });
   return (
     <button
       ref={setNodeRef}
@@ -614,15 +755,18 @@ function BoardCard({ item, selected, onSelect }: { item: BoardItem; selected: bo
       aria-label={`${item.name}, ${formatMinutes(item.durationS)}`}
       data-testid="board-item"
       data-card-id={item.id}
-      className={`block w-full cursor-grab rounded-lg ${selected ? "ring-2 ring-teal" : ""}`}
+      className={selected ? "bc-button ring-2 ring-teal" : "bc-button"}
     >
-      <CardBody name={item.name} durationS={item.durationS} profile={profileOf(item.blocks)} test={Boolean(item.testProtocol)} time={item.timeOfDay} note={Boolean(item.notes)} />
+      <CardBody name={item.name} durationS={item.durationS} profile={<ShapeUse shape={item.shape} />} test={item.test} time={item.timeOfDay} note={Boolean(item.notes)} />
     </button>
   );
 }
 
 function ItemDrawer({
+  planId,
   item,
+  steps,
+  load,
   weeks,
   onClose,
   onRemove,
@@ -630,7 +774,10 @@ function ItemDrawer({
   onTime,
   onNote,
 }: {
+  planId: number;
   item: BoardItem;
+  steps: ProfileStep[];
+  load: number | null;
   weeks: BoardWeek[];
   onClose: () => void;
   onRemove: () => void;
@@ -638,9 +785,14 @@ function ItemDrawer({
   onTime: (t: string | null) => void;
   onNote: (notes: string) => void;
 }) {
-  const [note, setNote] = useState(item.notes ?? "");
-  useEffect(() => setNote(item.notes ?? ""), [item.id, item.notes]);
-  const estimate = estimateOf(item.blocks);
+  const [note, setNote] = useState(item.notes);
+  useEffect(() => setNote(item.notes), [item.id, item.notes]);
+  // The blocks in words are the one thing the board does not carry: they come when the card is opened.
+  const detail = useFetcher<{ item: { id: number; blocks: Block[] } }>();
+  useEffect(() => {
+    if (item.id > 0) detail.load(`/api/plans/${planId}/items?item=${item.id}`);
+  }, [planId, item.id]); // eslint-disable-line react-hooks/exhaustive-deps
+  const blocks = detail.data?.item?.id === item.id ? detail.data.item.blocks : null;
   const [toWeek, setToWeek] = useState(item.weekId);
   const [toDay, setToDay] = useState(item.day);
   useEffect(() => {
@@ -655,23 +807,31 @@ function ItemDrawer({
           ✕
         </button>
       </div>
-      <SessionProfile steps={profileOf(item.blocks)} height={48} className="mt-2" />
-      <ol className="mt-3 flex flex-col gap-1">
-        {item.blocks.map((b, i) => (
-          <li key={i} className="num">
-            {describeBlock(b)}
-          </li>
-        ))}
-      </ol>
-      {estimate && (
-        <dl className="num mt-3 grid grid-cols-2 gap-1 text-xs">
-          <dt className="text-ink-soft">Duration</dt>
-          <dd className="text-right">{formatMinutes(estimate.durationS)}</dd>
-          <dt className="text-ink-soft">Planned effort load</dt>
-          <dd className="text-right">{Math.round(estimate.plannedEffortLoad)} points</dd>
-          <dd className="col-span-2 text-ink-soft">Effort score (0–10) times minutes, as planned.</dd>
-        </dl>
+      <SessionProfile steps={steps} height={48} className="mt-2" />
+      {blocks ? (
+        <ol className="mt-3 flex flex-col gap-1" aria-label="Blocks">
+          {blocks.map((b, i) => (
+            <li key={i} className="num">
+              {describeBlock(b)}
+            </li>
+          ))}
+        </ol>
+      ) : (
+        <p className="mt-3 text-ink-soft" role="status">
+          {detail.state === "idle" && detail.data ? "The blocks could not be loaded." : "Loading the blocks…"}
+        </p>
       )}
+      <dl className="num mt-3 grid grid-cols-2 gap-1 text-xs">
+        <dt className="text-ink-soft">Duration</dt>
+        <dd className="text-right">{formatMinutes(item.durationS)}</dd>
+        {load !== null && (
+          <>
+            <dt className="text-ink-soft">Planned effort load</dt>
+            <dd className="text-right">{Math.round(load)} points</dd>
+            <dd className="col-span-2 text-ink-soft">Effort score (0–10) times minutes, as planned.</dd>
+          </>
+        )}
+      </dl>
       <label className="mt-3 flex items-center justify-between gap-2">
         Time of day
         <input type="time" defaultValue={item.timeOfDay ?? ""} onBlur={(e) => onTime(e.target.value || null)} className="rounded border border-line px-1 py-0.5" />
@@ -680,7 +840,7 @@ function ItemDrawer({
         <span>Note for the athlete</span>
         <textarea value={note} onChange={(e) => setNote(e.target.value)} rows={3} maxLength={2000} className="rounded border border-line px-2 py-1" placeholder="Shown on the athlete's session page and in the calendar feed" />
       </label>
-      <button type="button" className={buttonClass("secondary", "mt-1 px-2 py-0.5")} disabled={note === (item.notes ?? "")} onClick={() => onNote(note)}>
+      <button type="button" className={buttonClass("secondary", "mt-1 px-2 py-0.5")} disabled={note === item.notes} onClick={() => onNote(note)}>
         Save note
       </button>
       <fieldset className="mt-3 rounded-lg border border-line p-2">

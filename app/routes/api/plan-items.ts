@@ -1,13 +1,15 @@
 import { requireRole } from "~/.server/auth";
-import { applyBoardOp, boardOpSchema, StaleBoardError } from "~/.server/services/board";
+import { applyBoardOp, boardItemDetail, boardOpSchema, StaleBoardError } from "~/.server/services/board";
 import { loadPlan, PlanError } from "~/.server/services/plans";
 import { jsonResponse as json, requireJson } from "~/.server/http";
 import type { Route } from "./+types/plan-items";
 
-
+/** The plan's items in full; with `?item=<id>` that one item (the board's drawer asks when a card opens). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   try {
+    const itemId = new URL(request.url).searchParams.get("item");
+    if (itemId !== null) return json({ item: await boardItemDetail(coach.id, Number(params.planId), Number(itemId)) });
     const { plan, items } = await loadPlan(coach.id, Number(params.planId));
     return json({ version: plan.version, items });
   } catch (err) {

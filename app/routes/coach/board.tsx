@@ -2,8 +2,8 @@ import { Link } from "react-router";
 import { PlanBoard } from "~/components/board/plan-board";
 import { requireRole } from "~/.server/auth";
 import { notFound } from "~/.server/http";
-import { Assignment } from "~/.server/models";
-import { loadPlan, PlanError } from "~/.server/services/plans";
+import { loadBoard } from "~/.server/services/board";
+import { PlanError } from "~/.server/services/plans";
 import type { Route } from "./+types/board";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Board · ${data?.plan.name ?? "Plan"} · Pacewright` }];
@@ -12,13 +12,7 @@ export const handle = { wide: true };
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   try {
-    const loaded = await loadPlan(coach.id, Number(params.planId));
-    const assignments = await Assignment.findAll({ where: { planId: loaded.plan.id }, attributes: ["planVersion"] });
-    return {
-      ...loaded,
-      assigned: assignments.length,
-      outdated: assignments.filter((a) => a.planVersion < loaded.plan.version).length,
-    };
+    return await loadBoard(coach, Number(params.planId));
   } catch (err) {
     if (err instanceof PlanError && err.status === 404) notFound(err.message);
     throw err;
