@@ -135,13 +135,18 @@ export function PlanBoard({ data }: { data: BoardData }) {
   const confirmed = useRef<Drawn>({ items: shipped, shapes: data.shapes });
   const tempIds = useRef(-1);
 
-  // A reload (after a 409, or navigation back) brings fresh server data: adopt it.
-  useEffect(() => {
+  // A reload (after a 409, or navigation back) brings fresh server data: adopt it while rendering, as React advises
+  // for state that follows a prop, so no frame shows the old board.
+  const [adopted, setAdopted] = useState({ shipped, shapes: data.shapes, version: data.plan.version });
+  if (adopted.shipped !== shipped || adopted.shapes !== data.shapes || adopted.version !== data.plan.version) {
+    setAdopted({ shipped, shapes: data.shapes, version: data.plan.version });
     setItems(shipped);
     setShapes(data.shapes);
-    confirmed.current = { items: shipped, shapes: data.shapes };
     setVersion(data.plan.version);
-  }, [shipped, data.shapes, data.plan.version]);
+  }
+  useEffect(() => {
+    confirmed.current = { items: shipped, shapes: data.shapes };
+  }, [shipped, data.shapes]);
   const powerBands = useBandSet("bike:power").bands;
 
   const shelfFetcher = useFetcher<{ sessions: ShelfEntry[] }>();
@@ -206,14 +211,19 @@ export function PlanBoard({ data }: { data: BoardData }) {
   // The drop target lives in refs for dnd-kit's callbacks (which run outside React's render cycle) and in state
   // for the indicator drawn on the board.
   const [drop, setDrop] = useState<DropTarget | null>(null);
+  // A keyboard move shows no floating copy; the pointer's does. Kept as state because the overlay is drawn from it.
+  const [keyboardDrag, setKeyboardDrag] = useState(false);
   const mode = useRef<"pointer" | "keyboard" | null>(null);
   const target = useRef<DropTarget | null>(null);
   const moving = useRef<number | null>(null);
   const spoken = useRef("");
   const finalWords = useRef("");
   const focusAfter = useRef<number | null>(null);
+  // dnd-kit's keyboard callbacks run between renders; they read the board as last drawn.
   const live = useRef({ items, weeks, startDate: plan.startDate });
-  live.current = { items, weeks, startDate: plan.startDate };
+  useEffect(() => {
+    live.current = { items, weeks, startDate: plan.startDate };
+  }, [items, weeks, plan.startDate]);
   const describe = (t: DropTarget | null) => {
     const w = t ? weekById.get(t.weekId) : undefined;
     return t && w ? describeTarget(t, w.idx, plan.startDate, items, moving.current) : "no day";
@@ -240,7 +250,9 @@ export function PlanBoard({ data }: { data: BoardData }) {
     return true;
   };
   const stepRef = useRef(step);
-  stepRef.current = step;
+  useEffect(() => {
+    stepRef.current = step;
+  });
   const keyboardOptions = useMemo(() => ({ step: (k: StepKey) => stepRef.current(k) }), []);
   const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 5 } }), useSensor(StepKeyboardSensor, keyboardOptions));
 
@@ -271,6 +283,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
     focusAfter.current = null;
     setActiveId(e.active.id);
     mode.current = e.activatorEvent instanceof KeyboardEvent ? "keyboard" : "pointer";
+    setKeyboardDrag(mode.current === "keyboard");
     moving.current = movingItemId(e.active.id);
     spoken.current = "";
     if (mode.current === "keyboard") {
@@ -302,6 +315,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
     setDrop(null);
     target.current = null;
     mode.current = null;
+    setKeyboardDrag(false);
   };
   const onDragEnd = ({ active, over }: DragEndEvent) => {
     const t = target.current;
@@ -374,12 +388,15 @@ export function PlanBoard({ data }: { data: BoardData }) {
       }
       return { week: w, load, seconds, levels };
     });
+    // The rise is measured from the last loaded week that was not a recovery week.
+    const out: ((typeof stats)[number] & { rise: number; warn: boolean })[] = [];
     let prev: number | null = null;
-    return stats.map((s) => {
+    for (const s of stats) {
       const rise = prev && prev > 0 && !s.week.recovery ? (s.load - prev) / prev : 0;
       if (!s.week.recovery && s.load > 0) prev = s.load;
-      return { ...s, rise, warn: rise > RISE_CAP };
-    });
+      out.push({ ...s, rise, warn: rise > RISE_CAP });
+    }
+    return out;
   }, [weeks, items, shapes, powerBands.length]);
   const maxLoad = Math.max(1, ...weekStats.map((s) => s.load));
   const selectedItem = items.find((i) => i.id === selected) ?? null;
@@ -464,6 +481,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
 
         {selectedItem && (
           <ItemDrawer
+            key={`${selectedItem.id}:${selectedItem.weekId}:${selectedItem.day}:${selectedItem.notes}`}
             planId={plan.id}
             item={selectedItem}
             steps={shapes[selectedItem.shape]?.steps ?? []}
@@ -492,7 +510,7 @@ export function PlanBoard({ data }: { data: BoardData }) {
         )}
       </div>
       <DragOverlay style={{ pointerEvents: "none" }}>
-        {mode.current === "keyboard" ? null : activeShelf ? (
+        {keyboardDrag ? null : activeShelf ? (
           <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={<SessionProfile steps={activeShelf.profile} height={CARD_PROFILE_HEIGHT} className="mt-1" />} lifted />
         ) : activeItem ? (
           <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={<ShapeUse shape={activeItem.shape} />} lifted />
@@ -785,20 +803,16 @@ function ItemDrawer({
   onTime: (t: string | null) => void;
   onNote: (notes: string) => void;
 }) {
+  // The board gives this drawer a key per card, place and note, so its fields start afresh from the item.
   const [note, setNote] = useState(item.notes);
-  useEffect(() => setNote(item.notes), [item.id, item.notes]);
   // The blocks in words are the one thing the board does not carry: they come when the card is opened.
   const detail = useFetcher<{ item: { id: number; blocks: Block[] } }>();
   useEffect(() => {
     if (item.id > 0) detail.load(`/api/plans/${planId}/items?item=${item.id}`);
-  }, [planId, item.id]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [planId, item.id]); // eslint-disable-line react-hooks/exhaustive-deps -- the fetcher object changes with every answer; the card is the trigger
   const blocks = detail.data?.item?.id === item.id ? detail.data.item.blocks : null;
   const [toWeek, setToWeek] = useState(item.weekId);
   const [toDay, setToDay] = useState(item.day);
-  useEffect(() => {
-    setToWeek(item.weekId);
-    setToDay(item.day);
-  }, [item.weekId, item.day]);
   return (
     <aside className="w-full shrink-0 rounded-xl border border-line bg-white p-4 text-sm lg:w-72" aria-label="Selected session">
       <div className="flex items-start justify-between gap-2">

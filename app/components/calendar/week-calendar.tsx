@@ -43,20 +43,19 @@ export function WeekCalendar({ athleteId, from, today, sessions: saved, sessionH
   // Keyboard moves go by the calendar itself (up/down a day, left/right a week) and the pointer by the day under it,
   // read from the page, so neither depends on rectangles measured before the page scrolled.
   const keyDay = useRef<string | null>(null);
-  const shown = useRef(days);
-  shown.current = days;
   const keyboardOptions = useMemo(
     () => ({
       step: (key: StepKey) => {
         if (!keyDay.current) return false;
         const next = addDays(keyDay.current, key === "up" ? -1 : key === "down" ? 1 : key === "left" ? -7 : 7);
-        if (!shown.current.includes(next)) return false;
+        // Only the days on screen are targets: from `from` to the last day shown.
+        if (next < from || next > addDays(from, WEEKS_SHOWN * 7 - 1)) return false;
         keyDay.current = next;
         requestAnimationFrame(() => document.querySelector(`[data-testid="day-${next}"]`)?.scrollIntoView({ block: "nearest" }));
         return true;
       },
     }),
-    [],
+    [from],
   );
   const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 6 } }), useSensor(StepKeyboardSensor, keyboardOptions));
   const collision: CollisionDetection = ({ pointerCoordinates }) => {
