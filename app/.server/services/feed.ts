@@ -13,7 +13,7 @@ import { addDays, todayIn, weekday } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockBands, blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
 import type { BandSet, BandSetKey } from "~/lib/training";
-import { bandOwnerId, bandSetsFor, bandSetsStamp } from "./bands";
+import { bandSetsFor } from "./bands";
 import { pacingPlansFor, pacingText } from "./pacing";
 
 export const FEED_WEEKS_BACK = 8;
@@ -51,13 +51,19 @@ export async function revokeFeed(userId: number) {
 }
 
 export async function userForToken(token: string | undefined): Promise<User | null> {
+  return (await feedLink(token))?.owner ?? null;
+}
+
+/** The owner of a live link and when the link was last noted in use (so a fresh note costs no write). */
+export async function feedLink(token: string | undefined): Promise<{ owner: User; lastUsedAt: Date | null } | null> {
   if (!looksLikeToken(token)) return null;
   const row = await FeedToken.findOne({ where: { tokenHash: hashToken(token), revokedAt: null } });
   if (!row) return null;
-  return User.findByPk(row.userId);
+  const owner = await User.findByPk(row.userId);
+  return owner ? { owner, lastUsedAt: row.lastUsedAt ?? null } : null;
 }
 
-const USE_NOTE_MS = 60 * 60 * 1000;
+export const USE_NOTE_MS = 60 * 60 * 1000;
 
 /**
  * Records that a feed link is in use, at most once an hour: calendar apps poll every few minutes, and a write on
@@ -257,16 +263,21 @@ declare global {
 export async function feedFingerprint(owner: User, now = new Date()) {
   const ids = owner.role === "coach" ? (await CoachAthlete.findAll({ where: { coachId: owner.id } })).map((l) => l.athleteId) : [owner.id];
   const today = todayIn(owner.timezone, now);
-  const [row] = ids.length
-    ? await db().query<{ n: number; m: string | null; q: number | null; u: string | null }>(
-        `SELECT COUNT(*) AS n, MAX(s.updated_at) AS m, SUM(s.feed_sequence) AS q, (SELECT MAX(updated_at) FROM users WHERE id IN (:ids)) AS u
-         FROM scheduled_sessions s WHERE s.athlete_id IN (:ids) AND s.date BETWEEN :from AND :to`,
-        { replacements: { ids, from: addDays(today, -FEED_WEEKS_BACK * 7), to: addDays(today, FEED_DAYS_AHEAD) }, type: QueryTypes.SELECT },
-      )
-    : [{ n: 0, m: null, q: 0, u: null }];
-  // Band edits change event descriptions, so the band sets' stamp is part of the fingerprint.
-  const bands = await bandSetsStamp(await bandOwnerId(owner));
-  return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, row.m, row.q, row.u, bands].join("|");
+  // Band edits change event descriptions, so the band sets' count and latest change are part of it too; the band
+  // owner is bandOwnerId's rule in SQL (a coach's own sets, an athlete's first coach's, no one else's). One
+  // statement, because calendar apps poll often and each poll pays for every round trip.
+  const bandOwner = owner.role === "coach" ? ":ownerId" : owner.role === "athlete" ? "(SELECT coach_id FROM coach_athletes WHERE athlete_id = :ownerId ORDER BY id LIMIT 1)" : "NULL";
+  const [row] = await db().query<{ n: number; m: unknown; q: number | null; u: unknown; bo: number | null; bn: number; bm: unknown }>(
+    `SELECT COUNT(*) AS n, MAX(s.updated_at) AS m, SUM(s.feed_sequence) AS q, (SELECT MAX(updated_at) FROM users WHERE id IN (:ids)) AS u,
+            ${bandOwner} AS bo,
+            (SELECT COUNT(*) FROM band_sets WHERE coach_id = ${bandOwner}) AS bn,
+            (SELECT MAX(updated_at) FROM band_sets WHERE coach_id = ${bandOwner}) AS bm
+     FROM scheduled_sessions s WHERE s.athlete_id IN (:ids) AND s.date BETWEEN :from AND :to`,
+    { replacements: { ids: ids.length ? ids : [0], ownerId: owner.id, from: addDays(today, -FEED_WEEKS_BACK * 7), to: addDays(today, FEED_DAYS_AHEAD) }, type: QueryTypes.SELECT },
+  );
+  const stamp = (v: unknown) => (v instanceof Date ? v.toISOString() : v === null || v === undefined ? "-" : String(v));
+  const bands = row.bo === null || row.bo === undefined ? "default" : `${Number(row.bn)}:${stamp(row.bm)}`;
+  return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, stamp(row.m), row.q, stamp(row.u), bands].join("|");
 }
 
 type CachedFeed = { fingerprint: string; body: string; lastModified: Date };
