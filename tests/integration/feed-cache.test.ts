@@ -73,6 +73,23 @@ describe("feed cache and use notes", () => {
     expect(edited[2]).toBe(added[2]);
   });
 
+  it("keeps a removed session as CANCELLED for the grace days only, and leaves out other athletes' sessions", async () => {
+    const { athlete } = await athleteWithFeed();
+    const other = (await athleteWithFeed()).athlete;
+    const day = todayIn(athlete.timezone);
+    const base = { athleteId: athlete.id, date: day, sport: "bike", plannedDurationS: 3600, status: "cancelled" } as const;
+    await ScheduledSession.create({ ...base, name: "Dropped lately", cancelledAt: new Date(Date.now() - 2 * 86_400_000) } as never);
+    await ScheduledSession.create({ ...base, name: "Dropped long ago", cancelledAt: new Date(Date.now() - (feedService.CANCELLED_GRACE_DAYS + 2) * 86_400_000) } as never);
+    await ScheduledSession.create({ athleteId: other.id, date: day, name: "Someone else's ride", sport: "bike", plannedDurationS: 3600 } as never);
+    const { body, count } = await feedService.buildFeed((await User.findByPk(athlete.id))!);
+    expect(count).toBe(2);
+    expect(body).toContain("Easy spin");
+    const dropped = body.split("BEGIN:VEVENT").find((e) => e.includes("SUMMARY:Dropped lately"));
+    expect(dropped).toContain("STATUS:CANCELLED");
+    expect(body).not.toContain("Dropped long ago");
+    expect(body).not.toContain("Someone else");
+  });
+
   it("keeps the cache within its byte budget, dropping the least recently used feeds", () => {
     const cache = globalThis.__pacewrightFeedCache!;
     expect(cache.maxSize).toBe(64 * 1024 * 1024);

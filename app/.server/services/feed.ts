@@ -85,20 +85,23 @@ const oneLine = (s: string) => s.replace(/[\r\n]+/g, " ").trim();
 
 const parseSqlDate = (s: string) => new Date(s.replace(" +00:00", "Z").replace(" ", "T"));
 
-async function sessionsFor(athleteIds: number[], from: string, to: string, opts: { keyOnly?: boolean } = {}) {
+/** The session columns an event is made of (plus what pacingPlansFor reads), in model attribute names. */
+type FeedSession = Pick<ScheduledSession, "id" | "athleteId" | "date" | "timeOfDay" | "name" | "sport" | "status" | "testProtocol" | "pacingSplit" | "notes" | "description" | "effortScore" | "actualMinutes" | "feedSequence" | "plannedDurationS"> & { updatedAt: Date | string };
+
+async function sessionsFor(athleteIds: number[], from: string, to: string, opts: { keyOnly?: boolean } = {}): Promise<FeedSession[]> {
   if (athleteIds.length === 0) return [];
   const graceFrom = new Date(Date.now() - CANCELLED_GRACE_DAYS * 86_400_000);
-  const rows = await ScheduledSession.findAll({
-    where: {
-      athleteId: athleteIds,
-      date: { [Op.between]: [from, to] },
-      [Op.or]: [{ status: { [Op.ne]: "cancelled" } }, { cancelledAt: { [Op.gte]: graceFrom } }],
-      ...(opts.keyOnly ? { [Op.and]: [{ [Op.or]: [{ testProtocol: { [Op.ne]: null } }, { plannedLoad: { [Op.gte]: KEY_SESSION_LOAD } }] }] } : {}),
-    },
-    order: [["date", "ASC"], ["position", "ASC"], ["id", "ASC"]],
-    raw: true,
-  });
-  return rows as unknown as (ScheduledSession & { createdAt: Date; updatedAt: Date })[];
+  // Raw and only the columns used: a full rebuild reads hundreds of sessions, and building model rows of every
+  // column was a large share of it.
+  return db().query<FeedSession>(
+    `SELECT id, athlete_id AS "athleteId", date, time_of_day AS "timeOfDay", name, sport, status, test_protocol AS "testProtocol", pacing_split AS "pacingSplit",
+            notes, description, effort_score AS "effortScore", actual_minutes AS "actualMinutes", feed_sequence AS "feedSequence", planned_duration_s AS "plannedDurationS", updated_at AS "updatedAt"
+     FROM scheduled_sessions
+     WHERE athlete_id IN (:ids) AND date BETWEEN :from AND :to AND (status <> 'cancelled' OR cancelled_at >= :graceFrom)
+       ${opts.keyOnly ? "AND (test_protocol IS NOT NULL OR planned_load >= :keyLoad)" : ""}
+     ORDER BY date, position, id`,
+    { replacements: { ids: athleteIds, from, to, graceFrom, keyLoad: KEY_SESSION_LOAD }, type: QueryTypes.SELECT },
+  );
 }
 
 async function stepsFor(sessionIds: number[]) {
@@ -133,8 +136,10 @@ function stateLine(s: { status: string; effortScore: number | null; actualMinute
 const durationText = (seconds: number) => `PT${Math.max(1, Math.round(seconds / 60))}M`;
 
 /**
- * ical-generator writes an event's length as DTEND; the feed states it as DURATION, which stays right whatever a
- * calendar app does with the zone of the end time. Lines here are short, so no folded line is touched.
+ * The feed states a timed event's length as DURATION (which stays right whatever a calendar app does with the zone
+ * of an end time) where ical-generator would write DTEND, right after DTSTART. Such events are given no end, so
+ * no end time is converted to the zone only to be dropped again, and the DURATION line goes in after DTSTART.
+ * Lines here are short, so no folded line is touched.
  */
 function endsAsDurations(ics: string, durations: Map<string, string>) {
   if (durations.size === 0) return ics;
@@ -144,7 +149,7 @@ function endsAsDurations(ics: string, durations: Map<string, string>) {
       if (i === 0) return chunk;
       const uid = /(?:^|\r\n)UID:([^\r\n]+)/.exec(chunk)?.[1];
       const d = uid ? durations.get(uid) : undefined;
-      return d ? chunk.replace(/(^|\r\n)DTEND[^\r\n]*\r\n/, `$1DURATION:${d}\r\n`) : chunk;
+      return d ? chunk.replace(/(^|\r\n)(DTSTART[^\r\n]*\r\n)/, `$1$2DURATION:${d}\r\n`) : chunk;
     })
     .join("BEGIN:VEVENT\r\n");
 }
@@ -222,9 +227,8 @@ export async function buildFeed(owner: User, now = new Date()) {
     if (time) {
       const [hh, mm] = time.split(":").map(Number);
       const start = new TZDate(y, m - 1, d, hh, mm, 0, athlete.timezone);
-      const end = new TZDate(start.getTime() + Math.max(60, s.plannedDurationS) * 1000, athlete.timezone);
       durations.set(base.id, durationText(Math.max(60, s.plannedDurationS)));
-      const event = cal.createEvent({ ...base, start, end, timezone: athlete.timezone });
+      const event = cal.createEvent({ ...base, start, timezone: athlete.timezone });
       if (!isCoach && owner.feedAlarmMinutes) event.createAlarm({ type: ICalAlarmType.display, trigger: owner.feedAlarmMinutes * 60, description: s.name });
     } else {
       cal.createEvent({ ...base, start: s.date, allDay: true });
