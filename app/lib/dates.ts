@@ -17,6 +17,11 @@ export const daysBetween = (a: string, b: string) => differenceInCalendarDays(da
 export const weekday = (isoDay: string) => getISODay(day(isoDay)) - 1;
 export const mondayOf = (isoDay: string) => iso(startOfISOWeek(day(isoDay)));
 export const isIsoDate = (s: unknown): s is string => typeof s === "string" && /^\d{4}-\d{2}-\d{2}$/.test(s) && Number.isFinite(toMs(s)) && fromMs(toMs(s)) === s;
+/** `n` consecutive days from `first`; built in one pass because long series (years of days) ask for it. */
+export function dayRange(first: string, n: number): string[] {
+  const start = toMs(first);
+  return Array.from({ length: n }, (_, i) => fromMs(start + i * 86_400_000));
+}
 /** The instant `n` days before `now` (for "within the last n days" checks on timestamps). */
 export const daysAgo = (n: number, now = new Date()) => subDaysFrom(now, n);
 /** Whole days from one instant to another, rounded, e.g. between two test dates given as YYYY-MM-DD. */

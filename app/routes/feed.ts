@@ -1,5 +1,5 @@
 import crypto from "node:crypto";
-import { cachedFeed, feedFingerprint, feedRateLimited, noteFeedUse, REFRESH_SECONDS, userForToken } from "~/.server/services/feed";
+import { cachedFeed, feedFingerprint, feedLink, feedRateLimited, noteFeedUse, REFRESH_SECONDS, USE_NOTE_MS } from "~/.server/services/feed";
 import { hashToken } from "~/.server/tokens";
 import type { Route } from "./+types/feed";
 
@@ -11,13 +11,15 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const file = params.file ?? "";
   if (!file.endsWith(".ics")) return notFound();
   const token = file.slice(0, -4);
-  const owner = await userForToken(token);
-  if (!owner || (owner.role !== "athlete" && owner.role !== "coach")) return notFound();
+  const link = await feedLink(token);
+  const owner = link?.owner;
+  if (!link || !owner || (owner.role !== "athlete" && owner.role !== "coach")) return notFound();
   const wait = await feedRateLimited(hashToken(token));
   if (wait !== null) {
     return new Response("Too many requests for this calendar link; try again in a few minutes.", { status: 429, headers: { "Retry-After": String(wait), "Content-Type": "text/plain; charset=utf-8" } });
   }
-  void noteFeedUse(hashToken(token));
+  // The link row just read says whether a note is due; most polls need no write at all.
+  if (!link.lastUsedAt || Date.now() - link.lastUsedAt.getTime() >= USE_NOTE_MS) void noteFeedUse(hashToken(token));
   const fingerprint = await feedFingerprint(owner);
   const etag = `"${crypto.createHash("sha256").update(fingerprint).digest("base64url").slice(0, 32)}"`;
   const inm = request.headers.get("if-none-match");

@@ -1,5 +1,5 @@
 import { describe, expect, it, vi } from "vitest";
-import { FeedToken, ScheduledSession, User } from "~/.server/models";
+import { BandSetRow, CoachAthlete, FeedToken, ScheduledSession, User } from "~/.server/models";
 import * as feedService from "~/.server/services/feed";
 import { cachedFeed, feedFingerprint, noteFeedUse, rotateFeed } from "~/.server/services/feed";
 import { hashToken } from "~/.server/tokens";
@@ -47,6 +47,47 @@ describe("feed cache and use notes", () => {
     await cachedFeed(owner, fingerprint);
     expect(globalThis.__pacewrightFeedCache!.get(owner.id)!.fingerprint).toBe(fingerprint);
     build.mockRestore();
+  });
+
+  it("moves the fingerprint on when the coach's band sets change, for the coach and their athlete, and not for others", async () => {
+    const { athlete } = await athleteWithFeed();
+    const coach = await makeUser({ role: "coach" });
+    const loner = (await athleteWithFeed()).athlete;
+    const prints = async () => Promise.all([athlete, coach, loner].map(async (u) => feedFingerprint((await User.findByPk(u.id))!)));
+    const before = await prints();
+    await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
+    const linked = await prints();
+    expect(linked[0]).not.toBe(before[0]); // the athlete's bands now come from the coach
+    expect(linked[2]).toBe(before[2]);
+    const row = await BandSetRow.create({ coachId: coach.id, setKey: "bike:power", bands: [] });
+    const added = await prints();
+    expect(added[0]).not.toBe(linked[0]);
+    expect(added[1]).not.toBe(linked[1]);
+    expect(added[2]).toBe(linked[2]);
+    await new Promise((r) => setTimeout(r, 5));
+    row.changed("bands", true);
+    await row.update({ bands: [{ name: "x" }] });
+    const edited = await prints();
+    expect(edited[0]).not.toBe(added[0]);
+    expect(edited[1]).not.toBe(added[1]);
+    expect(edited[2]).toBe(added[2]);
+  });
+
+  it("keeps a removed session as CANCELLED for the grace days only, and leaves out other athletes' sessions", async () => {
+    const { athlete } = await athleteWithFeed();
+    const other = (await athleteWithFeed()).athlete;
+    const day = todayIn(athlete.timezone);
+    const base = { athleteId: athlete.id, date: day, sport: "bike", plannedDurationS: 3600, status: "cancelled" } as const;
+    await ScheduledSession.create({ ...base, name: "Dropped lately", cancelledAt: new Date(Date.now() - 2 * 86_400_000) } as never);
+    await ScheduledSession.create({ ...base, name: "Dropped long ago", cancelledAt: new Date(Date.now() - (feedService.CANCELLED_GRACE_DAYS + 2) * 86_400_000) } as never);
+    await ScheduledSession.create({ athleteId: other.id, date: day, name: "Someone else's ride", sport: "bike", plannedDurationS: 3600 } as never);
+    const { body, count } = await feedService.buildFeed((await User.findByPk(athlete.id))!);
+    expect(count).toBe(2);
+    expect(body).toContain("Easy spin");
+    const dropped = body.split("BEGIN:VEVENT").find((e) => e.includes("SUMMARY:Dropped lately"));
+    expect(dropped).toContain("STATUS:CANCELLED");
+    expect(body).not.toContain("Dropped long ago");
+    expect(body).not.toContain("Someone else");
   });
 
   it("keeps the cache within its byte budget, dropping the least recently used feeds", () => {

@@ -8,7 +8,8 @@ import { describe, expect, it } from "vitest";
 /**
  * ical-generator folds content lines at 75 octets (RFC 5545 §3.1). Its own code counted each character's bytes by
  * running a TextEncoder over it, about half of a large feed's CPU; patches/ical-generator+*.patch (applied by
- * patch-package at install) counts them from the character codes. The reference below is the library's original
+ * patch-package at install) counts them from the character codes, returns short ASCII lines as they are and copies
+ * the runs between folds as slices instead of one character at a time. The reference below is the library's original
  * folding, kept verbatim: the patched output must match it byte for byte.
  */
 function referenceFold(input: string): string {

@@ -11,9 +11,9 @@ import { CoachAthlete, FeedToken, ScheduledSession, User } from "../models";
 import { hashToken, looksLikeToken } from "../tokens";
 import { addDays, daysAgo, todayIn, weekday } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
-import { blockBands, blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
+import { blockBands, blockLines, type StepView } from "~/lib/schedule-text";
 import type { BandSet, BandSetKey } from "~/lib/training";
-import { bandOwnerId, bandSetsFor, bandSetsStamp } from "./bands";
+import { bandSetsFor } from "./bands";
 import { pacingPlansFor, pacingText } from "./pacing";
 
 export const FEED_WEEKS_BACK = 8;
@@ -51,13 +51,19 @@ export async function revokeFeed(userId: number) {
 }
 
 export async function userForToken(token: string | undefined): Promise<User | null> {
+  return (await feedLink(token))?.owner ?? null;
+}
+
+/** The owner of a live link and when the link was last noted in use (so a fresh note costs no write). */
+export async function feedLink(token: string | undefined): Promise<{ owner: User; lastUsedAt: Date | null } | null> {
   if (!looksLikeToken(token)) return null;
   const row = await FeedToken.findOne({ where: { tokenHash: hashToken(token), revokedAt: null } });
   if (!row) return null;
-  return User.findByPk(row.userId);
+  const owner = await User.findByPk(row.userId);
+  return owner ? { owner, lastUsedAt: row.lastUsedAt ?? null } : null;
 }
 
-const USE_NOTE_MS = 60 * 60 * 1000;
+export const USE_NOTE_MS = 60 * 60 * 1000;
 
 /**
  * Records that a feed link is in use, at most once an hour: calendar apps poll every few minutes, and a write on
@@ -79,20 +85,23 @@ const oneLine = (s: string) => s.replace(/[\r\n]+/g, " ").trim();
 
 const parseSqlDate = (s: string) => new Date(s.replace(" +00:00", "Z").replace(" ", "T"));
 
-async function sessionsFor(athleteIds: number[], from: string, to: string, opts: { keyOnly?: boolean } = {}) {
+/** The session columns an event is made of (plus what pacingPlansFor reads), in model attribute names. */
+type FeedSession = Pick<ScheduledSession, "id" | "athleteId" | "date" | "timeOfDay" | "name" | "sport" | "status" | "testProtocol" | "pacingSplit" | "notes" | "description" | "effortScore" | "actualMinutes" | "feedSequence" | "plannedDurationS"> & { updatedAt: Date | string };
+
+async function sessionsFor(athleteIds: number[], from: string, to: string, opts: { keyOnly?: boolean } = {}): Promise<FeedSession[]> {
   if (athleteIds.length === 0) return [];
   const graceFrom = daysAgo(CANCELLED_GRACE_DAYS);
-  const rows = await ScheduledSession.findAll({
-    where: {
-      athleteId: athleteIds,
-      date: { [Op.between]: [from, to] },
-      [Op.or]: [{ status: { [Op.ne]: "cancelled" } }, { cancelledAt: { [Op.gte]: graceFrom } }],
-      ...(opts.keyOnly ? { [Op.and]: [{ [Op.or]: [{ testProtocol: { [Op.ne]: null } }, { plannedLoad: { [Op.gte]: KEY_SESSION_LOAD } }] }] } : {}),
-    },
-    order: [["date", "ASC"], ["position", "ASC"], ["id", "ASC"]],
-    raw: true,
-  });
-  return rows as unknown as (ScheduledSession & { createdAt: Date; updatedAt: Date })[];
+  // Raw and only the columns used: a full rebuild reads hundreds of sessions, and building model rows of every
+  // column was a large share of it.
+  return db().query<FeedSession>(
+    `SELECT id, athlete_id AS "athleteId", date, time_of_day AS "timeOfDay", name, sport, status, test_protocol AS "testProtocol", pacing_split AS "pacingSplit",
+            notes, description, effort_score AS "effortScore", actual_minutes AS "actualMinutes", feed_sequence AS "feedSequence", planned_duration_s AS "plannedDurationS", updated_at AS "updatedAt"
+     FROM scheduled_sessions
+     WHERE athlete_id IN (:ids) AND date BETWEEN :from AND :to AND (status <> 'cancelled' OR cancelled_at >= :graceFrom)
+       ${opts.keyOnly ? "AND (test_protocol IS NOT NULL OR planned_load >= :keyLoad)" : ""}
+     ORDER BY date, position, id`,
+    { replacements: { ids: athleteIds, from, to, graceFrom, keyLoad: KEY_SESSION_LOAD }, type: QueryTypes.SELECT },
+  );
 }
 
 async function stepsFor(sessionIds: number[]) {
@@ -127,8 +136,10 @@ function stateLine(s: { status: string; effortScore: number | null; actualMinute
 const durationText = (seconds: number) => `PT${Math.max(1, Math.round(seconds / 60))}M`;
 
 /**
- * ical-generator writes an event's length as DTEND; the feed states it as DURATION, which stays right whatever a
- * calendar app does with the zone of the end time. Lines here are short, so no folded line is touched.
+ * The feed states a timed event's length as DURATION (which stays right whatever a calendar app does with the zone
+ * of an end time) where ical-generator would write DTEND, right after DTSTART. Such events are given no end, so
+ * no end time is converted to the zone only to be dropped again, and the DURATION line goes in after DTSTART.
+ * Lines here are short, so no folded line is touched.
  */
 function endsAsDurations(ics: string, durations: Map<string, string>) {
   if (durations.size === 0) return ics;
@@ -138,7 +149,7 @@ function endsAsDurations(ics: string, durations: Map<string, string>) {
       if (i === 0) return chunk;
       const uid = /(?:^|\r\n)UID:([^\r\n]+)/.exec(chunk)?.[1];
       const d = uid ? durations.get(uid) : undefined;
-      return d ? chunk.replace(/(^|\r\n)DTEND[^\r\n]*\r\n/, `$1DURATION:${d}\r\n`) : chunk;
+      return d ? chunk.replace(/(^|\r\n)(DTSTART[^\r\n]*\r\n)/, `$1$2DURATION:${d}\r\n`) : chunk;
     })
     .join("BEGIN:VEVENT\r\n");
 }
@@ -216,9 +227,8 @@ export async function buildFeed(owner: User, now = new Date()) {
     if (time) {
       const [hh, mm] = time.split(":").map(Number);
       const start = new TZDate(y, m - 1, d, hh, mm, 0, athlete.timezone);
-      const end = new TZDate(start.getTime() + Math.max(60, s.plannedDurationS) * 1000, athlete.timezone);
       durations.set(base.id, durationText(Math.max(60, s.plannedDurationS)));
-      const event = cal.createEvent({ ...base, start, end, timezone: athlete.timezone });
+      const event = cal.createEvent({ ...base, start, timezone: athlete.timezone });
       if (!isCoach && owner.feedAlarmMinutes) event.createAlarm({ type: ICalAlarmType.display, trigger: owner.feedAlarmMinutes * 60, description: s.name });
     } else {
       cal.createEvent({ ...base, start: s.date, allDay: true });
@@ -257,16 +267,21 @@ declare global {
 export async function feedFingerprint(owner: User, now = new Date()) {
   const ids = owner.role === "coach" ? (await CoachAthlete.findAll({ where: { coachId: owner.id } })).map((l) => l.athleteId) : [owner.id];
   const today = todayIn(owner.timezone, now);
-  const [row] = ids.length
-    ? await db().query<{ n: number; m: string | null; q: number | null; u: string | null }>(
-        `SELECT COUNT(*) AS n, MAX(s.updated_at) AS m, SUM(s.feed_sequence) AS q, (SELECT MAX(updated_at) FROM users WHERE id IN (:ids)) AS u
-         FROM scheduled_sessions s WHERE s.athlete_id IN (:ids) AND s.date BETWEEN :from AND :to`,
-        { replacements: { ids, from: addDays(today, -FEED_WEEKS_BACK * 7), to: addDays(today, FEED_DAYS_AHEAD) }, type: QueryTypes.SELECT },
-      )
-    : [{ n: 0, m: null, q: 0, u: null }];
-  // Band edits change event descriptions, so the band sets' stamp is part of the fingerprint.
-  const bands = await bandSetsStamp(await bandOwnerId(owner));
-  return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, row.m, row.q, row.u, bands].join("|");
+  // Band edits change event descriptions, so the band sets' count and latest change are part of it too; the band
+  // owner is bandOwnerId's rule in SQL (a coach's own sets, an athlete's first coach's, no one else's). One
+  // statement, because calendar apps poll often and each poll pays for every round trip.
+  const bandOwner = owner.role === "coach" ? ":ownerId" : owner.role === "athlete" ? "(SELECT coach_id FROM coach_athletes WHERE athlete_id = :ownerId ORDER BY id LIMIT 1)" : "NULL";
+  const [row] = await db().query<{ n: number; m: unknown; q: number | null; u: unknown; bo: number | null; bn: number; bm: unknown }>(
+    `SELECT COUNT(*) AS n, MAX(s.updated_at) AS m, SUM(s.feed_sequence) AS q, (SELECT MAX(updated_at) FROM users WHERE id IN (:ids)) AS u,
+            ${bandOwner} AS bo,
+            (SELECT COUNT(*) FROM band_sets WHERE coach_id = ${bandOwner}) AS bn,
+            (SELECT MAX(updated_at) FROM band_sets WHERE coach_id = ${bandOwner}) AS bm
+     FROM scheduled_sessions s WHERE s.athlete_id IN (:ids) AND s.date BETWEEN :from AND :to`,
+    { replacements: { ids: ids.length ? ids : [0], ownerId: owner.id, from: addDays(today, -FEED_WEEKS_BACK * 7), to: addDays(today, FEED_DAYS_AHEAD) }, type: QueryTypes.SELECT },
+  );
+  const stamp = (v: unknown) => (v instanceof Date ? v.toISOString() : v === null || v === undefined ? "-" : String(v));
+  const bands = row.bo === null || row.bo === undefined ? "default" : `${Number(row.bn)}:${stamp(row.bm)}`;
+  return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, stamp(row.m), row.q, stamp(row.u), bands].join("|");
 }
 
 type CachedFeed = { fingerprint: string; body: string; lastModified: Date };

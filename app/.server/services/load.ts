@@ -3,7 +3,7 @@ import { db, writeTransaction } from "../db";
 import { ScheduledBlock, ScheduledSession, Threshold, Upload, type User } from "../models";
 import { bandSetsFor } from "./bands";
 import { activityHistograms, loadActivity, type UploadSummary } from "./uploads";
-import { addDays, daysBetween, mondayOf, todayIn } from "~/lib/dates";
+import { addDays, dayRange, daysBetween, mondayOf, todayIn, weekday } from "~/lib/dates";
 import {
   acuteChronicRatio,
   bandLoad,
@@ -147,12 +147,17 @@ export const DAY_COLUMNS = "date, status, effort_score, actual_minutes, planned_
 export async function loadSeries(athlete: User, from: string, to: string) {
   const today = todayIn(athlete.timezone);
   const warmFrom = warmStart(from);
-  const rows = await db().query<DayRow>(
-    `SELECT ${DAY_COLUMNS} FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled'`,
-    { replacements: [athlete.id, warmFrom, to], type: QueryTypes.SELECT },
-  );
-  const powerBands = (await bandSetsFor(athlete))["bike:power"];
-  const rides = await rideBandMinutes(athlete, mondayOf(from), to, powerBands);
+  // The day rows and the ride minutes are independent reads: issued together, one waits while the other runs.
+  const [rows, { powerBands, rides }] = await Promise.all([
+    db().query<DayRow>(`SELECT ${DAY_COLUMNS} FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled'`, {
+      replacements: [athlete.id, warmFrom, to],
+      type: QueryTypes.SELECT,
+    }),
+    bandSetsFor(athlete).then(async (sets) => {
+      const powerBands = sets["bike:power"];
+      return { powerBands, rides: await rideBandMinutes(athlete, mondayOf(from), to, powerBands) };
+    }),
+  ]);
   return seriesFromRows({ rows, rides, powerBands, from, to, today });
 }
 
@@ -161,12 +166,18 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
   const warmFrom = warmStart(from);
   const n = daysBetween(warmFrom, to) + 1;
   const nb = powerBands.bands.length;
+  // Day i is warmFrom + i days: dates are made once here and rows find their day through a map, since parsing a
+  // date string per row and per day was a large share of the series' own time.
+  const dates = dayRange(warmFrom, n);
+  const dayIndex = new Map<string, number>();
   const days = Array.from({ length: n }, (_, i) => {
-    const date = addDays(warmFrom, i);
+    const date = dates[i];
+    dayIndex.set(date, i);
     return { date, effortLoad: 0, powerLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, targeted: 0, inTarget: 0, bandMinutes: rides.get(date) ?? (new Array(nb).fill(0) as number[]) };
   });
   for (const r of rows) {
-    const d = days[daysBetween(warmFrom, r.date)];
+    const at = dayIndex.get(r.date);
+    const d = at === undefined ? undefined : days[at];
     if (!d) continue;
     d.plannedAll += r.planned_load;
     if (r.status !== "done" && r.planned_duration_s > 0) {
@@ -224,8 +235,12 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
   const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; powerLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; bandMinutes: number[]; loads: number[]; usual: { low: number; high: number } | null }>();
   const firstMonday = mondayOf(from);
   const todayIdx = daysBetween(warmFrom, today);
-  for (const d of days.filter((x) => x.date >= firstMonday)) {
-    const w = mondayOf(d.date);
+  const firstWeekday = weekday(warmFrom);
+  for (let i = 0; i < n; i++) {
+    const d = days[i];
+    if (d.date < firstMonday) continue;
+    const back = (firstWeekday + i) % 7;
+    const w = i >= back ? days[i - back].date : mondayOf(d.date);
     // Weeks ahead are measured against the usual range as of today: only days already lived count as history.
     let e = weeks.get(w);
     if (!e) {

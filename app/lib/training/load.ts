@@ -1,5 +1,8 @@
 import { requireFinite, requirePositive, TrainingInputError } from "./errors";
 
+/** A day's load checked as requireFinite checks it; the message is only built for a bad value (years of days add up). */
+const dayLoad = (l: number, i: number) => (typeof l === "number" && Number.isFinite(l) && l >= 0 ? l : requireFinite(l, `Load on day ${i + 1}`, { min: 0 }));
+
 /** Session effort load = effort score (0–10) × minutes. Source: Foster C et al. (2001) J Strength Cond Res 15(1):109–115. */
 export function effortLoad(effortScore: number, minutes: number): number {
   const score = requireFinite(effortScore, "Effort score", { min: 0, max: 10 });
@@ -76,7 +79,7 @@ export function trimpEdwardsFromHeartRate(hr1Hz: readonly (number | null | undef
  */
 export function monotonyStrain(dailyLoads: readonly number[], opts: { sd?: "population" | "sample" } = {}) {
   if (!Array.isArray(dailyLoads) || dailyLoads.length < 2) throw new TrainingInputError("too_short", "Monotony needs at least two days of loads.");
-  const loads = dailyLoads.map((l, i) => requireFinite(l, `Load on day ${i + 1}`, { min: 0 }));
+  const loads = dailyLoads.map((l, i) => dayLoad(l, i));
   const n = loads.length;
   const total = loads.reduce((s, l) => s + l, 0);
   const mean = total / n;
@@ -102,7 +105,7 @@ export function fitnessFatigue(
   let fitness = requireFinite(opts.startFitness ?? 0, "Starting fitness", { min: 0 });
   let fatigue = requireFinite(opts.startFatigue ?? 0, "Starting fatigue", { min: 0 });
   return dailyLoads.map((w, i) => {
-    const load = requireFinite(w, `Load on day ${i + 1}`, { min: 0 });
+    const load = dayLoad(w, i);
     fitness += (load - fitness) * kF;
     fatigue += (load - fatigue) * kA;
     return { fitness, fatigue, balance: fitness - fatigue };
@@ -126,7 +129,7 @@ export function acuteChronicRatio(
   const acuteN = opts.acuteDays ?? 7;
   const chronicN = opts.chronicDays ?? 28;
   if (!(acuteN >= 1 && chronicN > acuteN)) throw new TrainingInputError("out_of_range", "The chronic window must be longer than the acute window.");
-  const loads = dailyLoads.map((l, i) => requireFinite(l, `Load on day ${i + 1}`, { min: 0 }));
+  const loads = dailyLoads.map((l, i) => dayLoad(l, i));
   const first = opts.historyStart ?? loads.findIndex((l) => l > 0);
   const enough = (i: number) => first !== -1 && i >= first && i - first + 1 >= chronicN;
   if (opts.method === "ewma") {
@@ -163,7 +166,7 @@ export function usualWeekRange(dailyLoads: readonly number[], weekStart: number,
   const first = opts.historyStart ?? dailyLoads.findIndex((l) => l > 0);
   if (first === -1 || weekStart - first < 28 || weekStart > dailyLoads.length) return null;
   let sum = 0;
-  for (let i = weekStart - 28; i < weekStart; i++) sum += requireFinite(dailyLoads[i], `Load on day ${i + 1}`, { min: 0 });
+  for (let i = weekStart - 28; i < weekStart; i++) sum += dayLoad(dailyLoads[i], i);
   const chronic = (sum / 28) * 7;
   return { low: chronic * (opts.low ?? 0.8), high: chronic * (opts.high ?? 1.3), chronic };
 }
