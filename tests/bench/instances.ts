@@ -2,8 +2,9 @@
  * Signed-in page requests per second: one app instance against two (scripts/start.ts, production build, one
  * PostgreSQL database), the same load generator and the same number of open connections in both cases, split
  * round-robin over the instances when there are two. Runs interleaved (one, two, one, two …), median of three.
- * Also reports where the CPU went during each run (instances, load generator, the rest: PostgreSQL and anything
- * else on the machine), because on a small machine they all share the same cores.
+ * Also reports where the CPU went during each run (each instance, the load generator, PostgreSQL, and every other
+ * process on the machine), because on a small machine they all share the same cores: two instances can only serve
+ * more than one if a core is left over while one instance runs.
  * Run: `npm run bench:instances` (builds, starts a throwaway PostgreSQL cluster). A report, never a gate.
  */
 import fs from "node:fs";
@@ -74,8 +75,20 @@ const cannon = (url: string, cookie: string, connections: number) =>
     autocannon({ url, connections, duration: SECONDS, headers: { cookie } }, (err, r) => (err ? reject(err) : resolve(r))),
   );
 
+/** The PostgreSQL server's main process (its first line of postmaster.pid), found from the socket folder. */
+function postmasterPid(): number | null {
+  const host = new URL(adminUrl).searchParams.get("host");
+  try {
+    return host ? Number(fs.readFileSync(`${host}/data/postmaster.pid`, "utf8").split("\n")[0]) : null;
+  } catch {
+    return null;
+  }
+}
+
 async function measure(targets: { app: RunningApp; cookie: string }[], all: RunningApp[]) {
-  const before = { apps: all.map((a) => treeCpu(a.child.pid!)), self: process.cpuUsage(), machine: machineCpu(), at: performance.now() };
+  const pgPid = postmasterPid();
+  const pgCpu = () => (pgPid ? treeCpu(pgPid) : 0);
+  const before = { apps: all.map((a) => treeCpu(a.child.pid!)), pg: pgCpu(), self: process.cpuUsage(), machine: machineCpu(), at: performance.now() };
   // Round-robin at connection level: each instance gets an equal share of the same total of open connections.
   const results = await Promise.all(targets.map((t) => cannon(`${t.app.baseUrl}${PAGE}`, t.cookie, CONNECTIONS / targets.length)));
   const wall = (performance.now() - before.at) / 1000;
@@ -83,9 +96,10 @@ async function measure(targets: { app: RunningApp; cookie: string }[], all: Runn
   const apps = all.map((a, i) => (treeCpu(a.child.pid!) - before.apps[i]) / wall);
   const generator = (self.user + self.system) / 1e6 / wall;
   const machine = (machineCpu() - before.machine) / wall;
+  const postgres = (pgCpu() - before.pg) / wall;
   const ok = results.reduce((n, r) => n + r.requests.total - r.non2xx - r.errors, 0);
   const bad = results.reduce((n, r) => n + r.non2xx + r.errors, 0);
-  return { rps: ok / wall, bad, apps, generator, rest: machine - apps.reduce((a, b) => a + b, 0) - generator, machine };
+  return { rps: ok / wall, bad, apps, generator, postgres, rest: machine - apps.reduce((a, b) => a + b, 0) - generator - postgres, machine, load: os.loadavg()[0] };
 }
 
 async function main() {
@@ -124,15 +138,15 @@ async function main() {
       for (const side of r % 2 ? (["two", "one"] as const) : (["one", "two"] as const)) {
         const m = await measure(side === "one" ? one : two, apps);
         runs[side].push(m);
-        console.log(`  round ${r + 1} ${side === "one" ? "one instance " : "two instances"}: ${m.rps.toFixed(0)} req/s${m.bad ? ` (${m.bad} not 2xx)` : ""} · CPU cores busy: instance A ${m.apps[0].toFixed(2)}, instance B ${m.apps[1].toFixed(2)}, load generator ${m.generator.toFixed(2)}, rest (PostgreSQL …) ${m.rest.toFixed(2)}, machine ${m.machine.toFixed(2)} of ${os.cpus().length}`);
+        console.log(`  round ${r + 1} ${side === "one" ? "one instance " : "two instances"}: ${m.rps.toFixed(0)} req/s${m.bad ? ` (${m.bad} not 2xx)` : ""} · CPU cores busy: instance A ${m.apps[0].toFixed(2)}, instance B ${m.apps[1].toFixed(2)}, load generator ${m.generator.toFixed(2)}, PostgreSQL ${m.postgres.toFixed(2)}, other processes ${m.rest.toFixed(2)}, machine ${m.machine.toFixed(2)} of ${os.cpus().length}, load average ${m.load.toFixed(1)}`);
       }
     }
     const oneRps = median(runs.one.map((m) => m.rps));
     const twoRps = median(runs.two.map((m) => m.rps));
     const cpu = (ms: typeof runs.one, f: (m: (typeof ms)[number]) => number) => median(ms.map(f)).toFixed(2);
     console.log(`\nSigned-in ${PAGE} page, ${CONNECTIONS} connections, ${SECONDS} s per run, median of ${ROUNDS}, interleaved:`);
-    console.log(`  one instance : ${oneRps.toFixed(0)} req/s (instance ${cpu(runs.one, (m) => m.apps[0])} cores, load generator ${cpu(runs.one, (m) => m.generator)}, rest ${cpu(runs.one, (m) => m.rest)}, machine ${cpu(runs.one, (m) => m.machine)} of ${os.cpus().length})`);
-    console.log(`  two instances: ${twoRps.toFixed(0)} req/s (instances ${cpu(runs.two, (m) => m.apps[0] + m.apps[1])} cores, load generator ${cpu(runs.two, (m) => m.generator)}, rest ${cpu(runs.two, (m) => m.rest)}, machine ${cpu(runs.two, (m) => m.machine)} of ${os.cpus().length})`);
+    console.log(`  one instance : ${oneRps.toFixed(0)} req/s (instance ${cpu(runs.one, (m) => m.apps[0])} cores, load generator ${cpu(runs.one, (m) => m.generator)}, PostgreSQL ${cpu(runs.one, (m) => m.postgres)}, other processes ${cpu(runs.one, (m) => m.rest)}, machine ${cpu(runs.one, (m) => m.machine)} of ${os.cpus().length})`);
+    console.log(`  two instances: ${twoRps.toFixed(0)} req/s (instances ${cpu(runs.two, (m) => m.apps[0] + m.apps[1])} cores, load generator ${cpu(runs.two, (m) => m.generator)}, PostgreSQL ${cpu(runs.two, (m) => m.postgres)}, other processes ${cpu(runs.two, (m) => m.rest)}, machine ${cpu(runs.two, (m) => m.machine)} of ${os.cpus().length})`);
     console.log(`  two / one    : ${(twoRps / oneRps).toFixed(2)}× (aim ≥ 1.6×; a report, not a gate — timings on a shared machine are noisy)`);
   } finally {
     await Promise.all(apps.map((a) => a.stop()));
