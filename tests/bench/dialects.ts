@@ -42,6 +42,8 @@ async function measure() {
   for (const w of weeks) for (let d = 0; d < 5; d++) await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: d, toIndex: 0 });
   await writeTransaction((transaction) => materialize(plan.id, athlete, mondayOf(today), { assignedBy: coach.id, transaction }));
   const items = (await PlanItem.findAll({ where: { planId: plan.id } })).map((i) => i.id);
+  // BENCH_ANALYZE=1: planner statistics for the freshly filled tables first (autovacuum would gather them later).
+  if (process.env.BENCH_ANALYZE === "1" && process.env.DATABASE_URL) await (await import("~/.server/db")).db().query("ANALYZE");
 
   const moves: number[] = [];
   for (let k = 0; k < 40; k++) {

@@ -217,8 +217,8 @@ describe.runIf(adminUrl !== "")("two instances on one PostgreSQL", () => {
     const { Assignment, Job, Listing, Order, OutboundEmail, User } = await import("~/.server/models");
     const { addDays, todayIn } = await import("~/lib/dates");
     const coach = (await User.findOne({ where: { email: ctx.coachEmail } }))!;
-    const plan = await createPlan(coach.id, { name: "For sale", sport: "bike", description: "", alignment: "start", date: "2027-01-04", weeks: 3, weeklyHours: 6, pattern: "3:1", testEveryWeeks: 6 });
-    const listing = await Listing.create({ planId: plan.id, coachId: coach.id, slug: "two-instances-sale", title: "For sale", description: "Three weeks.", sport: "bike", level: "intermediate", weeks: 3, weeklyHours: 6, priceCents: 2500, currency: "EUR", published: true });
+    const plan = await createPlan(coach.id, { name: "For sale", sport: "bike", description: "", alignment: "start", date: "2027-01-04", weeks: 4, weeklyHours: 6, pattern: "3:1", testEveryWeeks: 6 });
+    const listing = await Listing.create({ planId: plan.id, coachId: coach.id, slug: `two-instances-sale-${Date.now()}`, title: "For sale", description: "Four weeks.", sport: "bike", level: "intermediate", weeks: 4, weeklyHours: 6, priceCents: 2500, currency: "EUR", published: true });
     const orders = [];
     for (let k = 0; k < 12; k++) {
       const buyer = await User.create({ role: "athlete", email: `buyer.${k}@example.test`, name: `Buyer ${k}`, passwordHash: "x", timezone: "UTC" });

@@ -68,6 +68,15 @@ describe("webhook follow-ups as claimed jobs", () => {
     expect(await templates(buyer.email)).toEqual(["receipt"]);
   });
 
+  it("one event delivered twice at the same moment is applied once; the other answer is a duplicate", async () => {
+    const { buyer, order } = await pendingOrder();
+    const outcomes = (await Promise.all([event(order, "checkout.session.completed"), event(order, "checkout.session.completed")])).map((r) => r.outcome).sort();
+    expect(outcomes).toEqual(["duplicate", "paid"].sort());
+    expect(await jobsOf(order.id)).toHaveLength(1);
+    await runOrderFollowUps({ orderId: order.id });
+    expect(await placements(buyer.id)).toBe(1);
+  });
+
   it("two runners claiming at once place the plan once", async () => {
     const orders = await Promise.all([pendingOrder(), pendingOrder(), pendingOrder()]);
     for (const { order } of orders) await event(order, "checkout.session.completed");

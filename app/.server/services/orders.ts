@@ -1,4 +1,4 @@
-import { Op, type Transaction } from "sequelize";
+import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { writeTransaction } from "../db";
 import { env } from "../env";
 import { enqueueJob, runDueJobs, type JobHandlers } from "../jobs";
@@ -249,6 +249,17 @@ export const runOrderFollowUps = (opts: { orderId?: number } = {}) => runDueJobs
 export async function applyProviderEvent(event: { id: string; type: string; created?: number; data: { object: unknown } }, rawBody: string) {
   const o = (event.data?.object ?? {}) as Obj;
   const at = new Date((event.created ?? Math.floor(Date.now() / 1000)) * 1000);
+  try {
+    return await recordProviderEvent(event, o, at, rawBody);
+  } catch (err) {
+    // The same event delivered to two instances at once: both found it unseen, the order's lock made them take
+    // turns, and the second one's insert of the event id failed. The first applied it; this one changed nothing.
+    if (err instanceof UniqueConstraintError && (await PaymentEvent.count({ where: { providerEventId: event.id } })) > 0) return { outcome: "duplicate", status: null as OrderStatus | null };
+    throw err;
+  }
+}
+
+async function recordProviderEvent(event: { id: string; type: string }, o: Obj, at: Date, rawBody: string) {
   return writeTransaction(async (transaction) => {
     const seen = await PaymentEvent.findOne({ where: { providerEventId: event.id }, transaction });
     if (seen) return { outcome: "duplicate", status: null as OrderStatus | null };
