@@ -4,7 +4,9 @@ import { closeActivityPool } from "../app/.server/services/activity-pool";
 import { startLimitCleanup } from "../app/.server/security/rate-limits";
 import { env, resetEnvCache } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
+import { startJobRunner, stopJobRunner } from "../app/.server/jobs";
 import { startMailer, stopMailer } from "../app/.server/mail";
+import { ORDER_FOLLOW_UPS } from "../app/.server/services/orders";
 import { startRetestReminders, stopRetestReminders } from "../app/.server/services/retests";
 import { migrateAndSeed } from "../db/migrator";
 import { DEMO_ACCOUNTS } from "../db/demo/accounts";
@@ -28,6 +30,7 @@ async function main() {
   if (process.env.PACEWRIGHT_MIGRATE !== "off") await migrateAndSeed({ seed });
   const fakes = await startFakes();
   startMailer();
+  startJobRunner(ORDER_FOLLOW_UPS);
   startRetestReminders();
   startLimitCleanup();
 
@@ -55,12 +58,13 @@ async function main() {
   }
 
   // Graceful: stop taking requests, let those in flight finish, stop the background jobs after their current run
-  // (claimed e-mail is sent and marked), then close the database. A load balancer sees /healthz fail meanwhile.
+  // (claimed e-mail is sent and marked, a claimed follow-up commits or rolls back), then close the database. A load balancer sees /healthz fail meanwhile.
   const stop = async () => {
     const closed = new Promise<void>((resolve) => server.close(() => resolve()));
     server.closeIdleConnections?.();
     stopRetestReminders();
     await Promise.race([closed, new Promise((r) => setTimeout(r, 10_000))]);
+    await stopJobRunner();
     await stopMailer();
     await fakes.close();
     await closeActivityPool();

@@ -42,6 +42,8 @@ async function measure() {
   for (const w of weeks) for (let d = 0; d < 5; d++) await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: d, toIndex: 0 });
   await writeTransaction((transaction) => materialize(plan.id, athlete, mondayOf(today), { assignedBy: coach.id, transaction }));
   const items = (await PlanItem.findAll({ where: { planId: plan.id } })).map((i) => i.id);
+  // BENCH_ANALYZE=1: planner statistics for the freshly filled tables first (autovacuum would gather them later).
+  if (process.env.BENCH_ANALYZE === "1" && process.env.DATABASE_URL) await (await import("~/.server/db")).db().query("ANALYZE");
 
   const moves: number[] = [];
   for (let k = 0; k < 40; k++) {
@@ -50,25 +52,31 @@ async function measure() {
     moves.push(performance.now() - t0);
   }
   const rescales: number[] = [];
-  for (let k = 0; k < 9; k++) {
+  // The last rescale is traced: how many statements (round trips on PostgreSQL) it takes and which cost most.
+  const { db } = await import("~/.server/db");
+  const trace: { sql: string; ms: number }[] = [];
+  for (let k = 0; k < 10; k++) {
+    if (k === 9) Object.assign((db() as unknown as { options: object }).options, { benchmark: true, logging: (sql: string, ms: number) => trace.push({ sql: sql.replace(/^Executed \([^)]*\): /, "").slice(0, 160), ms }) });
     const t0 = performance.now();
-    await saveTest(athlete, athlete, { protocol: "manual", inputs: { sport: "bike", metric: "power", value: String(255 + k) }, testedOn: addDays(today, k - 9) } as never);
-    rescales.push(performance.now() - t0);
+    await saveTest(athlete, athlete, { protocol: "manual", inputs: { sport: "bike", metric: "power", value: String(255 + k) }, testedOn: addDays(today, k - 10) } as never);
+    if (k < 9) rescales.push(performance.now() - t0);
   }
+  Object.assign((db() as unknown as { options: object }).options, { benchmark: false, logging: false });
   // A figure only counts if the rescale did its work (each test is newer than the last, so it rescales every future step).
   const { RescaleReport } = await import("~/.server/models");
   const last = await RescaleReport.findOne({ order: [["id", "DESC"]] });
   if (!last || last.blocksChanged === 0) throw new Error("the rescale touched no step");
   const blocksChanged = last.blocksChanged;
   await closeDb();
-  console.log(JSON.stringify({ blocksChanged, boardMoveMs: median(moves), rescaleMs: median(rescales), sessions: weeks.length * 5 }));
+  const slowest = [...trace].sort((a, b) => b.ms - a.ms).slice(0, 6).map((t) => `${t.ms} ms ${t.sql}`);
+  console.log(JSON.stringify({ blocksChanged, boardMoveMs: median(moves), rescaleMs: median(rescales), sessions: weeks.length * 5, rescaleStatements: trace.length, rescaleStatementMs: trace.reduce((n, t) => n + t.ms, 0), slowest }));
 }
 
 function side(env: Record<string, string>) {
   const res = spawnSync(process.execPath, [path.resolve("node_modules/tsx/dist/cli.mjs"), "tests/bench/dialects.ts", "measure"], { env: { ...process.env, ...env }, encoding: "utf8" });
   const line = res.stdout.trim().split("\n").pop() ?? "";
   if (res.status !== 0 || !line.startsWith("{")) throw new Error(`bench side failed:\n${res.stdout}\n${res.stderr}`);
-  return JSON.parse(line) as { blocksChanged: number; boardMoveMs: number; rescaleMs: number; sessions: number };
+  return JSON.parse(line) as { blocksChanged: number; boardMoveMs: number; rescaleMs: number; sessions: number; rescaleStatements: number; rescaleStatementMs: number; slowest: string[] };
 }
 
 async function main() {

@@ -14,6 +14,7 @@ const adminUrl = process.env.TEST_DATABASE_URL?.trim() || "";
 const dbName = `pw_two_${process.pid}`;
 const READY = { answers: ["no", "no", "no", "no", "no"], stopSignsRead: true };
 const PASSWORD = "two-instances-password";
+const WEBHOOK_SECRET = "whsec_two_instances";
 
 async function admin(sql: string) {
   const { default: pg } = await import("pg");
@@ -120,6 +121,9 @@ describe.runIf(adminUrl !== "")("two instances on one PostgreSQL", () => {
       PACEWRIGHT_SEED: "off",
       SESSION_SECRET: "two-instances-session-secret-0123456789abcdef",
       DATABASE_POOL_MAX: "5",
+      // Only webhook signatures are checked with these; no call goes to a provider.
+      STRIPE_SECRET_KEY: "sk_test_two_instances",
+      STRIPE_WEBHOOK_SECRET: WEBHOOK_SECRET,
     };
     // One after the other: the first rebuilds a stale build, which the second must not race.
     apps = [await startApp(shared)];
@@ -205,6 +209,49 @@ describe.runIf(adminUrl !== "")("two instances on one PostgreSQL", () => {
     const { db } = await import("~/.server/db");
     const [{ n }] = await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM retest_reminders WHERE athlete_id = ?", { replacements: [ctx.remindedId], type: "SELECT" as never });
     expect(Number(n)).toBe(1);
+  }, 120_000);
+
+  it("payment webhooks split across both, each sent twice and reported twice: every order placed exactly once", async () => {
+    const { default: Stripe } = await import("stripe");
+    const { createPlan } = await import("~/.server/services/plans");
+    const { Assignment, Job, Listing, Order, OutboundEmail, User } = await import("~/.server/models");
+    const { addDays, todayIn } = await import("~/lib/dates");
+    const coach = (await User.findOne({ where: { email: ctx.coachEmail } }))!;
+    const plan = await createPlan(coach.id, { name: "For sale", sport: "bike", description: "", alignment: "start", date: "2027-01-04", weeks: 4, weeklyHours: 6, pattern: "3:1", testEveryWeeks: 6 });
+    const listing = await Listing.create({ planId: plan.id, coachId: coach.id, slug: `two-instances-sale-${Date.now()}`, title: "For sale", description: "Four weeks.", sport: "bike", level: "intermediate", weeks: 4, weeklyHours: 6, priceCents: 2500, currency: "EUR", published: true });
+    const orders = [];
+    for (let k = 0; k < 12; k++) {
+      const buyer = await User.create({ role: "athlete", email: `buyer.${k}@example.test`, name: `Buyer ${k}`, passwordHash: "x", timezone: "UTC" });
+      orders.push(await Order.create({ listingId: listing.id, buyerId: buyer.id, amountCents: 2500, currency: "EUR", alignMode: "start", alignDate: addDays(todayIn("UTC"), 7), checkoutSessionId: `cs_two_${k}` }));
+    }
+    const signer = new Stripe("sk_test_signer", { telemetry: false });
+    const send = (app: RunningApp, event: object) => {
+      const payload = JSON.stringify(event);
+      return fetch(`${app.baseUrl}/webhooks/payments`, { method: "POST", body: payload, headers: { "Content-Type": "application/json", "stripe-signature": signer.webhooks.generateTestHeaderString({ payload, secret: WEBHOOK_SECRET }) } }).then((r) => r.status);
+    };
+    const created = Math.floor(Date.now() / 1000);
+    // Per order: the checkout's completion to one instance and its redelivery to the other, and the payment's own
+    // event (same payment, another event id) to the other as well, all at once.
+    const deliveries = orders.flatMap((o, k) => {
+      const meta = { orderId: String(o.id) };
+      const pi = `pi_two_${k}`;
+      const completed = { id: `evt_two_${k}_completed`, type: "checkout.session.completed", created, data: { object: { id: o.checkoutSessionId, object: "checkout.session", amount_total: 2500, currency: "eur", metadata: meta, payment_intent: pi, payment_status: "paid" } } };
+      const succeeded = { id: `evt_two_${k}_succeeded`, type: "payment_intent.succeeded", created, data: { object: { id: pi, object: "payment_intent", amount: 2500, amount_received: 2500, currency: "eur", metadata: meta } } };
+      return [send(apps[k % 2], completed), send(apps[(k + 1) % 2], completed), send(apps[(k + 1) % 2], succeeded)];
+    });
+    expect(await Promise.all(deliveries)).toEqual(Array(deliveries.length).fill(200));
+    const ids = orders.map((o) => o.id);
+    const deadline = Date.now() + 60_000;
+    while ((await Job.count({ where: { orderId: ids, status: "pending" } })) > 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 200));
+    const jobs = await Job.findAll({ where: { orderId: ids } });
+    expect(jobs.map((j) => `${j.kind}:${j.status}`)).toEqual(Array(orders.length).fill("place:done"));
+    for (const o of orders) {
+      await o.reload();
+      expect(o.status).toBe("fulfilled");
+      expect(await Assignment.count({ where: { athleteId: o.buyerId } })).toBe(1);
+      const buyer = (await User.findByPk(o.buyerId))!;
+      expect(await OutboundEmail.count({ where: { toAddress: buyer.email, template: "receipt" } })).toBe(1);
+    }
   }, 120_000);
 
   // No retry: the killed instance stays dead.

@@ -8,7 +8,7 @@ import { startFakePayments, TEST_CARDS } from "~/.server/fakes/payments";
 import { Listing, OutboundEmail, Order, PaymentEvent, PlanWeek, ScheduledBlock, ScheduledSession, Session, SessionBlock, Threshold, type User } from "~/.server/models";
 import { applyBoardOp } from "~/.server/services/board";
 import { assignPlan } from "~/.server/services/materialize";
-import { deriveStatus } from "~/.server/services/orders";
+import { deriveStatus, runOrderFollowUps } from "~/.server/services/orders";
 import { createPlan } from "~/.server/services/plans";
 import * as coachShop from "~/routes/coach/shop";
 import * as listingPage from "~/routes/shop/listing";
@@ -32,8 +32,12 @@ const freePort = () =>
     });
   });
 
-const post = (body: string, signature: string | null) =>
-  webhook.action({ request: new Request("http://localhost:3999/webhooks/payments", { method: "POST", body, headers: signature === null ? {} : { "stripe-signature": signature } }), params: {}, context: {} } as never) as Promise<Response>;
+/** The webhook route's answer; then the follow-ups it enqueued run, as an app instance's prompt runner does. */
+const post = async (body: string, signature: string | null) => {
+  const res = (await webhook.action({ request: new Request("http://localhost:3999/webhooks/payments", { method: "POST", body, headers: signature === null ? {} : { "stripe-signature": signature } }), params: {}, context: {} } as never)) as Response;
+  await runOrderFollowUps();
+  return res;
+};
 
 beforeAll(async () => {
   // The fake provider posts webhooks over HTTP; this forwarder hands them to the route's action as a Request.

@@ -9,3 +9,4 @@ export { FeedToken } from "./feed";
 export { Listing, Order, PaymentEvent, type OrderStatus } from "./shop";
 export { BandSetRow } from "./bands";
 export { SessionComment } from "./comments";
+export { Job, type JobStatus } from "./jobs";

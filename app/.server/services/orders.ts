@@ -1,8 +1,9 @@
-import { Op, type Transaction } from "sequelize";
+import { Op, UniqueConstraintError, type Transaction } from "sequelize";
 import { writeTransaction } from "../db";
 import { env } from "../env";
+import { enqueueJob, runDueJobs, type JobHandlers } from "../jobs";
 import { queueEmail } from "../mail";
-import { Assignment, Listing, Order, PaymentEvent, PlanWeek, ScheduledBlock, ScheduledSession, SeasonPlan, Threshold, User, type OrderStatus } from "../models";
+import { Assignment, Job, Listing, Order, PaymentEvent, PlanWeek, ScheduledBlock, ScheduledSession, SeasonPlan, Threshold, User, type OrderStatus } from "../models";
 import { payments } from "../payments";
 import { alignStart, materialize, resolveSteps } from "./materialize";
 import { thresholdHistory, thresholdSport } from "./thresholds";
@@ -24,9 +25,12 @@ import { formatPrice } from "~/lib/shop";
  * Each event adds a *fact* to the order (paid amount and time, expiry time, declines, refunds by id, a reason for a
  * person to look), and the state is derived from all facts together by `deriveStatus`. Facts only ever grow, and
  * the same fact reported twice (a redelivered event, or the coach's refund and the provider's `charge.refunded`)
- * is absorbed, so any order and any duplication of the same events ends in the same state. Effects run on the way
- * into a state and are guarded by their own marks: sessions are placed once (`assignmentId`), the receipt and the
- * refund notice are sent once (`receiptSentAt`, `refundNoticeSentAt`).
+ * is absorbed, so any order and any duplication of the same events ends in the same state. Effects of entering a
+ * state are follow-up jobs (see `app/.server/jobs.ts`), enqueued in the event's transaction under one key per order
+ * and kind, and run by whichever instance claims them: the webhook only records the fact, moves the order and
+ * answers. A follow-up re-reads the order under its row lock and acts only if the order is still in that state,
+ * guarded by its own marks: sessions are placed once (`assignmentId`), the receipt and the refund notice are sent
+ * once (`receiptSentAt`, `refundNoticeSentAt`). A follow-up that keeps failing puts the order in review.
  *
  * A reason for review sticks until a person resolves it (deliver, refund, or close when nothing was paid), except
  * that a full refund settles everything: the money is back with the buyer.
@@ -180,7 +184,7 @@ function factsFrom(order: Order, type: string, o: Obj, at: Date): Change {
   }
 }
 
-/** Applies facts, derives the new state and runs the effects of entering it — all inside the caller's transaction. */
+/** Applies facts, derives the new state and enqueues the follow-ups of entering it — inside the caller's transaction. */
 async function settle(order: Order, change: Change, transaction: Transaction, note?: string) {
   const before = order.status;
   const patch: Partial<Order> = { ...change.patch };
@@ -190,16 +194,72 @@ async function settle(order: Order, change: Change, transaction: Transaction, no
   const status = deriveStatus(facts);
   await order.update({ ...patch, status, ...(note ? { note } : {}) }, { transaction });
   const effects: string[] = [];
-  if (status === "fulfilled" && !order.assignmentId) effects.push(...(await place(order, transaction)));
-  if (status === "refunded") effects.push(...(await unplace(order, transaction)));
-  if (status === "needs_review" && before !== "needs_review") effects.push(...(await tellSeller(order, transaction)));
+  const follow = async (kind: FollowUp, key: string = kind) => {
+    await enqueueJob({ kind, key: `order:${order.id}:${key}`, orderId: order.id }, transaction);
+    effects.push(`${kind} queued`);
+  };
+  if (status === "fulfilled" && !order.assignmentId) await follow("place");
+  if (status === "refunded" && before !== "refunded") await follow("unplace");
+  if (status === "needs_review" && before !== "needs_review") {
+    // Each entry into review is told once; the order row is locked, so the count is this order's own.
+    const told = await Job.count({ where: { orderId: order.id, kind: "review-notice" }, transaction });
+    await follow("review-notice", `review-notice:${told + 1}`);
+  }
   return { status, effects };
 }
+
+type FollowUp = "place" | "unplace" | "review-notice";
+
+/** The order's follow-ups: each re-reads the order under its lock and acts only if it is still in that state. */
+export const ORDER_FOLLOW_UPS: JobHandlers = {
+  place: {
+    async run(job, transaction) {
+      const order = await Order.findByPk(job.orderId!, locked(transaction));
+      if (order?.status === "fulfilled" && !order.assignmentId) await place(order, transaction);
+    },
+    giveUp: (job, error) => putInReview(job.orderId!, `Placing the plan on the buyer's calendar failed ${job.attempts} times (${error}). Deliver it again or refund.`),
+  },
+  unplace: {
+    async run(job, transaction) {
+      const order = await Order.findByPk(job.orderId!, locked(transaction));
+      if (order?.status === "refunded") await unplace(order, transaction);
+    },
+    giveUp: (job, error) => putInReview(job.orderId!, `Taking the refunded sessions off the buyer's calendar failed ${job.attempts} times (${error}).`),
+  },
+  "review-notice": {
+    async run(job, transaction) {
+      const order = await Order.findByPk(job.orderId!, locked(transaction));
+      if (order?.status === "needs_review") await tellSeller(order, transaction);
+    },
+  },
+};
+
+/** What a person sees when a follow-up gave up: the reason on the order (in review unless refunded) and its note. */
+async function putInReview(orderId: number, reason: string) {
+  await writeTransaction(async (transaction) => {
+    const order = await Order.findByPk(orderId, locked(transaction));
+    if (order) await settle(order, { patch: {}, outcome: "follow-up failed", review: reason }, transaction, reason);
+  });
+}
+
+/** Runs the order follow-ups that are due now (all orders, or one); the app's runner does this in the background. */
+export const runOrderFollowUps = (opts: { orderId?: number } = {}) => runDueJobs(ORDER_FOLLOW_UPS, opts);
 
 /** Handles one verified provider event. Recording the event id (unique) first makes a redelivery a no-op. */
 export async function applyProviderEvent(event: { id: string; type: string; created?: number; data: { object: unknown } }, rawBody: string) {
   const o = (event.data?.object ?? {}) as Obj;
   const at = new Date((event.created ?? Math.floor(Date.now() / 1000)) * 1000);
+  try {
+    return await recordProviderEvent(event, o, at, rawBody);
+  } catch (err) {
+    // The same event delivered to two instances at once: both found it unseen, the order's lock made them take
+    // turns, and the second one's insert of the event id failed. The first applied it; this one changed nothing.
+    if (err instanceof UniqueConstraintError && (await PaymentEvent.count({ where: { providerEventId: event.id } })) > 0) return { outcome: "duplicate", status: null as OrderStatus | null };
+    throw err;
+  }
+}
+
+async function recordProviderEvent(event: { id: string; type: string }, o: Obj, at: Date, rawBody: string) {
   return writeTransaction(async (transaction) => {
     const seen = await PaymentEvent.findOne({ where: { providerEventId: event.id }, transaction });
     if (seen) return { outcome: "duplicate", status: null as OrderStatus | null };
@@ -359,20 +419,24 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
     await Order.update({ refundRequestedAt: null }, { where: { id: claim.order.id } });
     throw new OrderError(`The payment provider refused the refund: ${(err as Error).message}. Nothing changed.`, 502);
   }
-  return writeTransaction(async (transaction) => {
+  const assignmentId = await writeTransaction(async (transaction) => {
     const order = (await Order.findByPk(claim.order.id, locked(transaction)))!;
     const change = factsFrom(order, "refund.created", { id: refund.id, amount: refund.amount, status: refund.status ?? "succeeded" }, new Date());
     if (order.reviewReason) change.patch.reviewReason = null;
     await settle(order, change, transaction, `Refunded by ${by.name}.`);
-    // Counted from the claim: the provider's own refund event may have removed them a moment earlier.
-    const removed = order.assignmentId ? await ScheduledSession.count({ where: { assignmentId: order.assignmentId, status: "cancelled", cancelledAt: { [Op.gte]: claim.at } }, transaction }) : 0;
-    return { already: false, removed };
+    return order.assignmentId;
   });
+  // The coach waits for the answer, so the removal runs now rather than on the runner's next turn (claimed like
+  // any job: if another instance took it first, it is already running there).
+  await runOrderFollowUps({ orderId: claim.order.id });
+  // Counted from the claim: the provider's own refund event may have removed them a moment earlier.
+  const removed = assignmentId ? await ScheduledSession.count({ where: { assignmentId, status: "cancelled", cancelledAt: { [Op.gte]: claim.at } } }) : 0;
+  return { already: false, removed };
 }
 
 /** Resolves an order in review: deliver the plan (the payment stands), or close it when nothing was paid. */
 export async function resolveReview(by: User, orderId: number, action: "deliver" | "close") {
-  return writeTransaction(async (transaction) => {
+  const result = await writeTransaction(async (transaction) => {
     const order = await ownedOrder(by, orderId, transaction);
     if (order.status !== "needs_review") throw new OrderError("This order is not waiting for review.");
     const reason = order.reviewReason ?? "";
@@ -383,6 +447,9 @@ export async function resolveReview(by: User, orderId: number, action: "deliver"
     if (order.paidCents !== null && order.refundedCents < order.paidCents) throw new OrderError("Money was paid for this order: deliver the plan or refund it.");
     return settle(order, { patch: { reviewReason: null, expiredAt: order.expiredAt ?? new Date() }, outcome: "closed" }, transaction, `Closed by ${by.name} after review: ${reason}`);
   });
+  // Delivering places the plan at once, as the coach expects to see it; the job is claimed like any other.
+  await runOrderFollowUps({ orderId });
+  return result;
 }
 
 /** Money events the provider sent that match no order at all: only an admin can chase them. */
