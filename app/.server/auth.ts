@@ -9,6 +9,7 @@ import { forbidden, requireSameOrigin } from "./http";
 import { AuthSession, User, type Role } from "./models";
 import { clear, consume, giveBack } from "./security/rate-limits";
 import { hashToken, newToken } from "./tokens";
+import { DomainError } from "./errors";
 
 export const BCRYPT_COST = 11;
 const SESSION_DAYS = 30;
@@ -34,11 +35,6 @@ export function hashPassword(password: string) {
   return bcrypt.hash(password, BCRYPT_COST);
 }
 
-/** A sign-in failure the form shows beside its fields. */
-export class SignInError extends Error {
-  name = "SignInError";
-}
-
 // Compared against when the address is unknown. Same cost as real hashes, so an unknown address costs the same
 // work and answers in the same time as a wrong password for a known one.
 let dummyHash: Promise<string> | null = null;
@@ -56,12 +52,12 @@ export const authenticator = new Authenticator<User>();
 authenticator.use(
   new FormStrategy(async ({ form }) => {
     const parsed = credentials.safeParse({ email: form.get("email"), password: form.get("password") });
-    if (!parsed.success) throw new SignInError(parsed.error.issues[0].message);
+    if (!parsed.success) throw new DomainError("invalid", parsed.error.issues[0].message);
     const { email, password } = parsed.data;
 
     const user = await User.findOne({ where: { email } });
     const ok = await bcrypt.compare(password, user?.passwordHash ?? (await dummyPasswordHash()));
-    if (!user || !ok) throw new SignInError(WRONG_CREDENTIALS);
+    if (!user || !ok) throw new DomainError("invalid", WRONG_CREDENTIALS);
     return user;
   }),
   "password",

@@ -14,9 +14,9 @@ import {
   startEnrolment,
   twoStepOn,
   twoStepRequiredForStaff,
-  TwoStepError,
 } from "~/.server/services/two-step";
 import { forbidden, notFound } from "~/.server/http";
+import { pageFailure } from "~/.server/replies";
 import { formatDateTime } from "~/lib/format";
 import type { Route } from "./+types/security";
 
@@ -87,8 +87,7 @@ export async function action({ request }: Route.ActionArgs) {
         return fail("Unknown action.");
     }
   } catch (err) {
-    if (err instanceof TwoStepError) return fail(err.message);
-    throw err;
+    return pageFailure(err, (e): Result => ({ ok: false, message: e.message }));
   }
 }
 

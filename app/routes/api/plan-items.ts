@@ -1,18 +1,22 @@
+import { planFor } from "~/.server/access";
 import { requireRole } from "~/.server/auth";
-import { applyBoardOp, boardOpSchema, StaleBoardError } from "~/.server/services/board";
-import { loadPlan, PlanError } from "~/.server/services/plans";
+import { applyBoardOp, boardOpSchema } from "~/.server/services/board";
+import { loadPlan } from "~/.server/services/plans";
 import { jsonResponse as json, requireJson } from "~/.server/http";
+import { jsonFailure } from "~/.server/replies";
+
+const NOT_YOURS = { error: "No plan with this id is yours." };
 import type { Route } from "./+types/plan-items";
 
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
+  if (!(await planFor(coach, Number(params.planId)))) return json(NOT_YOURS, 404);
   try {
     const { plan, items } = await loadPlan(coach.id, Number(params.planId));
     return json({ version: plan.version, items });
   } catch (err) {
-    if (err instanceof PlanError) return json({ error: err.message }, err.status);
-    throw err;
+    return jsonFailure(err);
   }
 }
 
@@ -20,6 +24,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
   requireJson(request);
+  if (!(await planFor(coach, Number(params.planId)))) return json(NOT_YOURS, 404);
   let body: unknown;
   try {
     body = await request.json();
@@ -31,8 +36,6 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     return json(await applyBoardOp(coach.id, Number(params.planId), parsed.data));
   } catch (err) {
-    if (err instanceof StaleBoardError) return json({ error: err.message, version: err.currentVersion }, 409);
-    if (err instanceof PlanError) return json({ error: err.message }, err.status);
-    throw err;
+    return jsonFailure(err);
   }
 }

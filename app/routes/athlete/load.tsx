@@ -1,14 +1,14 @@
 import { LoadCharts } from "~/components/load-charts";
 import { PageHeader } from "~/components/ui/card";
 import { loadSeries, powerCurveComparison } from "~/.server/services/load";
-import { athleteSubject } from "~/.server/subject";
+import { requireAthleteSubject } from "~/.server/access";
 import { addDays, todayIn } from "~/lib/dates";
 import type { Route } from "./+types/load";
 
 export const meta: Route.MetaFunction = () => [{ title: "Training load · Pacewright" }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { athlete, viewer } = await athleteSubject(request, params.athleteId);
+  const { athlete, viewer } = await requireAthleteSubject(request, params.athleteId);
   const today = todayIn(athlete.timezone);
   const series = await loadSeries(athlete, addDays(today, -89), addDays(today, 28));
   return { athlete: { id: athlete.id, name: athlete.name }, forCoach: viewer.id !== athlete.id, initial: { ...series, powerCurve: await powerCurveComparison(athlete) } };

@@ -1,9 +1,10 @@
 import { Link } from "react-router";
 import { PlanBoard } from "~/components/board/plan-board";
 import { requireRole } from "~/.server/auth";
-import { notFound } from "~/.server/http";
+import { requirePlan } from "~/.server/access";
+import { loaderFailure } from "~/.server/replies";
 import { Assignment } from "~/.server/models";
-import { loadPlan, PlanError } from "~/.server/services/plans";
+import { loadPlan } from "~/.server/services/plans";
 import type { Route } from "./+types/board";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Board · ${data?.plan.name ?? "Plan"} · Pacewright` }];
@@ -11,6 +12,7 @@ export const handle = { wide: true };
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
+  await requirePlan(coach, params.planId);
   try {
     const loaded = await loadPlan(coach.id, Number(params.planId));
     const assignments = await Assignment.findAll({ where: { planId: loaded.plan.id }, attributes: ["planVersion"] });
@@ -20,8 +22,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       outdated: assignments.filter((a) => a.planVersion < loaded.plan.version).length,
     };
   } catch (err) {
-    if (err instanceof PlanError && err.status === 404) notFound(err.message);
-    throw err;
+    loaderFailure(err);
   }
 }
 
