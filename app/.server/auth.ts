@@ -146,3 +146,34 @@ export async function endSession(request: Request): Promise<string> {
 export function homeFor(role: Role): string {
   return role === "coach" ? "/coach" : role === "admin" ? "/admin/users" : "/athlete";
 }
+
+/** Whether the account signs in with a code from an authenticator app as well as its password. */
+export const twoStepOn = (user: User) => Boolean(user.totpEnabledAt && user.totpSecret);
+
+/**
+ * Between the password and the code: a short-lived signed cookie naming the account. It grants nothing by itself;
+ * only a matching code turns it into a session.
+ */
+export const pendingSignIn = createCookie("pw_two_step", {
+  httpOnly: true,
+  sameSite: "lax",
+  path: "/login",
+  maxAge: 5 * 60,
+  get secrets() {
+    return [env().sessionSecret];
+  },
+});
+
+export async function pendingCookieFor(user: User, redirectTo: string) {
+  return pendingSignIn.serialize({ userId: user.id, until: Date.now() + 5 * 60 * 1000, redirectTo }, { secure: env().appUrl.startsWith("https://") });
+}
+
+export async function readPending(request: Request): Promise<{ user: User; redirectTo: string } | null> {
+  const value = (await pendingSignIn.parse(request.headers.get("cookie"))) as { userId?: unknown; until?: unknown; redirectTo?: unknown } | null;
+  if (!value || typeof value.userId !== "number" || typeof value.until !== "number" || value.until < Date.now()) return null;
+  const user = await User.findByPk(value.userId);
+  if (!user || !twoStepOn(user)) return null;
+  return { user, redirectTo: typeof value.redirectTo === "string" ? value.redirectTo : "/" };
+}
+
+export const clearPendingCookie = () => pendingSignIn.serialize("", { maxAge: 0 });

@@ -2,10 +2,10 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { startSession } from "~/.server/auth";
+import { clearPendingCookie, readPending, startSession } from "~/.server/auth";
 import { pageFailure } from "~/.server/replies";
 import { consume } from "~/.server/security/rate-limits";
-import { clearPendingCookie, readPending, verifySecondStep } from "~/.server/services/two-step";
+import { verifySecondStep } from "~/.server/services/two-step";
 import type { Route } from "./+types/login-two-step";
 
 export const meta: Route.MetaFunction = () => [{ title: "Two-step sign-in · Pacewright" }];

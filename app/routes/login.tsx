@@ -2,10 +2,9 @@ import { data, Form, Link, redirect, useNavigation, useSearchParams } from "reac
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { authenticator, getUser, guardSignIn, homeFor, startSession } from "~/.server/auth";
+import { authenticator, getUser, guardSignIn, homeFor, pendingCookieFor, startSession, twoStepOn } from "~/.server/auth";
 import { pageFailure } from "~/.server/replies";
 import { clientKey } from "~/.server/security/rate-limits";
-import { pendingCookieFor, twoStepOn } from "~/.server/services/two-step";
 import { safeRedirect } from "~/.server/http";
 import type { Route } from "./+types/login";
 

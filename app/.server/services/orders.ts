@@ -10,6 +10,7 @@ import { todayIn } from "~/lib/dates";
 import { defaultTestFor } from "~/lib/protocols";
 import { formatPrice } from "~/lib/shop";
 import { DomainError } from "../errors";
+import { orderRole } from "../access";
 
 /*
  * THE ORDER STATE MACHINE
@@ -324,7 +325,7 @@ async function tellSeller(order: Order, transaction: Transaction): Promise<strin
 async function ownedOrder(by: User, orderId: number, transaction?: Transaction) {
   const order = Number.isInteger(orderId) && orderId > 0 ? await Order.findByPk(orderId, transaction ? locked(transaction) : {}) : null;
   const listing = order ? await Listing.findByPk(order.listingId, { transaction }) : null;
-  if (!order || !listing || (by.role !== "admin" && listing.coachId !== by.id)) throw new DomainError("not_found", "No such order among your sales.");
+  if (!order || !listing || orderRole(by, order, listing) !== "seller") throw new DomainError("not_found", "No such order among your sales.");
   return order;
 }
 

@@ -1,11 +1,12 @@
 import crypto from "node:crypto";
 import QRCode from "qrcode";
-import { createCookie } from "react-router";
 import { writeTransaction } from "../db";
-import { env } from "../env";
 import { RecoveryCode, StudioSetting, User } from "../models";
 import { matchingStep, newTotpSecret, totp } from "../security/totp";
 import { DomainError } from "../errors";
+import { twoStepOn } from "../auth";
+
+export { twoStepOn };
 
 export const RECOVERY_CODE_COUNT = 10;
 const REQUIRED_KEY = "two_step_required_for_staff";
@@ -29,7 +30,6 @@ export async function setTwoStepRequiredForStaff(required: boolean) {
   await writeTransaction((transaction) => StudioSetting.upsert({ key: REQUIRED_KEY, value: String(required) }, { transaction }));
 }
 
-export const twoStepOn = (user: User) => Boolean(user.totpEnabledAt && user.totpSecret);
 
 /** A coach or admin in a studio that requires two-step sign-in, who has not set it up yet. */
 export async function mustEnrol(user: User) {
@@ -103,31 +103,3 @@ export async function verifySecondStep(user: User, input: string): Promise<boole
 export async function recoveryCodesLeft(user: User) {
   return RecoveryCode.count({ where: { userId: user.id, usedAt: null } });
 }
-
-/**
- * Between the password and the code: a short-lived signed cookie naming the account. It grants nothing by itself;
- * only a matching code turns it into a session.
- */
-export const pendingSignIn = createCookie("pw_two_step", {
-  httpOnly: true,
-  sameSite: "lax",
-  path: "/login",
-  maxAge: 5 * 60,
-  get secrets() {
-    return [env().sessionSecret];
-  },
-});
-
-export async function pendingCookieFor(user: User, redirectTo: string) {
-  return pendingSignIn.serialize({ userId: user.id, until: Date.now() + 5 * 60 * 1000, redirectTo }, { secure: env().appUrl.startsWith("https://") });
-}
-
-export async function readPending(request: Request): Promise<{ user: User; redirectTo: string } | null> {
-  const value = (await pendingSignIn.parse(request.headers.get("cookie"))) as { userId?: unknown; until?: unknown; redirectTo?: unknown } | null;
-  if (!value || typeof value.userId !== "number" || typeof value.until !== "number" || value.until < Date.now()) return null;
-  const user = await User.findByPk(value.userId);
-  if (!user || !twoStepOn(user)) return null;
-  return { user, redirectTo: typeof value.redirectTo === "string" ? value.redirectTo : "/" };
-}
-
-export const clearPendingCookie = () => pendingSignIn.serialize("", { maxAge: 0 });

@@ -1,5 +1,4 @@
 import crypto from "node:crypto";
-import { MaxFileSizeExceededError, MaxFilesExceededError, MaxTotalSizeExceededError, parseFormData, type FileUpload } from "@remix-run/form-data-parser";
 import { writeTransaction } from "../db";
 import { Upload, type User } from "../models";
 import { fileStorage } from "../storage";
@@ -14,36 +13,10 @@ export type { UploadSummary, TracePoint } from "../workers/activity-task";
 export { activityHistograms } from "../workers/activity-task";
 
 /**
- * Takes one file from a multipart request: size and type are enforced while it streams (413 / 415), the engine
- * must be able to read it (400 with its reason), and only then is it stored and recorded. A file that fails any
- * check leaves nothing behind.
+ * Stores one ride file the route has read from its request: the engine must be able to read it (400 with its
+ * reason), and only then is it stored and recorded. A file that fails leaves nothing behind.
  */
-export async function receiveUpload(request: Request, athlete: User, uploadedBy: User) {
-  const type = request.headers.get("content-type") ?? "";
-  if (!type.startsWith("multipart/form-data")) throw new DomainError("unsupported", "Send the file as multipart/form-data.");
-  const declared = Number(request.headers.get("content-length") ?? 0);
-  if (declared > MAX_UPLOAD_BYTES + 64 * 1024) throw new DomainError("too_large", "That file is larger than 25 MB.");
-  let received: { name: string; bytes: Uint8Array } | null = null;
-  let refused: DomainError | null = null;
-  const handler = async (file: FileUpload) => {
-    if (file.fieldName !== "file" || received || refused) return;
-    const ext = file.name.toLowerCase().split(".").pop() ?? "";
-    if (!(ALLOWED as readonly string[]).includes(ext)) {
-      refused = new DomainError("unsupported", `Files ending in .${ext || "?"} are not accepted; use CSV, GPX or FIT.`);
-      return;
-    }
-    received = { name: file.name, bytes: new Uint8Array(await file.arrayBuffer()) };
-  };
-  try {
-    await parseFormData(request, { maxFileSize: MAX_UPLOAD_BYTES, maxFiles: 1 }, handler);
-  } catch (err) {
-    if (err instanceof MaxFileSizeExceededError || err instanceof MaxTotalSizeExceededError) throw new DomainError("too_large", "That file is larger than 25 MB.");
-    if (err instanceof MaxFilesExceededError) throw new DomainError("invalid", "Send one file at a time.");
-    throw new DomainError("invalid", "The upload could not be read; try again.");
-  }
-  if (refused) throw refused;
-  if (!received) throw new DomainError("invalid", "Choose a file to upload.");
-  const { name, bytes } = received as { name: string; bytes: Uint8Array };
+export async function storeUpload({ name, bytes }: { name: string; bytes: Uint8Array }, athlete: User, uploadedBy: User) {
   // Parsed on a worker thread: a big file must not hold up everyone else's requests.
   const read = await readActivityOffThread({ bytes, name, want: "summary" }, uploadedBy.id);
   const { summary, trace } = read;

@@ -1,7 +1,8 @@
 import { requireAthleteFor, uploadFor } from "~/.server/access";
 import { requireUser } from "~/.server/auth";
 import { Upload } from "~/.server/models";
-import { receiveUpload, storedTrace } from "~/.server/services/uploads";
+import { storedTrace, storeUpload } from "~/.server/services/uploads";
+import { readUploadBody } from "./uploads.server";
 import { jsonResponse as json } from "~/.server/http";
 import { jsonFailure } from "~/.server/replies";
 import type { Route } from "./+types/uploads";
@@ -36,7 +37,7 @@ export async function action({ request }: Route.ActionArgs) {
   const url = new URL(request.url);
   const athlete = await requireAthleteFor(viewer, url.searchParams.get("athleteId"));
   try {
-    const { upload, trace } = await receiveUpload(request, athlete, viewer);
+    const { upload, trace } = await storeUpload(await readUploadBody(request), athlete, viewer);
     return json({ upload: view(upload), trace }, 201);
   } catch (err) {
     return jsonFailure(err);
