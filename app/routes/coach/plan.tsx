@@ -47,7 +47,7 @@ type Result = { ok: boolean; message: string; fieldErrors: Record<string, string
 
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
-  const planId = Number(params.planId);
+  const planId = (await requirePlan(coach, params.planId)).id;
   const form = await request.formData();
   const intent = form.get("intent");
   const fail = (message: string, status = 400, fieldErrors: Record<string, string | undefined> = {}) => data<Result>({ ok: false, message, fieldErrors }, { status });
