@@ -9,6 +9,7 @@ import { forbidden, requireSameOrigin } from "./http";
 import { AuthSession, User, type Role } from "./models";
 import { clear, consume, giveBack } from "./security/rate-limits";
 import { hashToken, newToken } from "./tokens";
+import { DomainError } from "./errors";
 
 export const BCRYPT_COST = 11;
 const SESSION_DAYS = 30;
@@ -34,11 +35,6 @@ export function hashPassword(password: string) {
   return bcrypt.hash(password, BCRYPT_COST);
 }
 
-/** A sign-in failure the form shows beside its fields. */
-export class SignInError extends Error {
-  name = "SignInError";
-}
-
 // Compared against when the address is unknown. Same cost as real hashes, so an unknown address costs the same
 // work and answers in the same time as a wrong password for a known one.
 let dummyHash: Promise<string> | null = null;
@@ -56,12 +52,12 @@ export const authenticator = new Authenticator<User>();
 authenticator.use(
   new FormStrategy(async ({ form }) => {
     const parsed = credentials.safeParse({ email: form.get("email"), password: form.get("password") });
-    if (!parsed.success) throw new SignInError(parsed.error.issues[0].message);
+    if (!parsed.success) throw new DomainError("invalid", parsed.error.issues[0].message);
     const { email, password } = parsed.data;
 
     const user = await User.findOne({ where: { email } });
     const ok = await bcrypt.compare(password, user?.passwordHash ?? (await dummyPasswordHash()));
-    if (!user || !ok) throw new SignInError(WRONG_CREDENTIALS);
+    if (!user || !ok) throw new DomainError("invalid", WRONG_CREDENTIALS);
     return user;
   }),
   "password",
@@ -150,3 +146,34 @@ export async function endSession(request: Request): Promise<string> {
 export function homeFor(role: Role): string {
   return role === "coach" ? "/coach" : role === "admin" ? "/admin/users" : "/athlete";
 }
+
+/** Whether the account signs in with a code from an authenticator app as well as its password. */
+export const twoStepOn = (user: User) => Boolean(user.totpEnabledAt && user.totpSecret);
+
+/**
+ * Between the password and the code: a short-lived signed cookie naming the account. It grants nothing by itself;
+ * only a matching code turns it into a session.
+ */
+export const pendingSignIn = createCookie("pw_two_step", {
+  httpOnly: true,
+  sameSite: "lax",
+  path: "/login",
+  maxAge: 5 * 60,
+  get secrets() {
+    return [env().sessionSecret];
+  },
+});
+
+export async function pendingCookieFor(user: User, redirectTo: string) {
+  return pendingSignIn.serialize({ userId: user.id, until: Date.now() + 5 * 60 * 1000, redirectTo }, { secure: env().appUrl.startsWith("https://") });
+}
+
+export async function readPending(request: Request): Promise<{ user: User; redirectTo: string } | null> {
+  const value = (await pendingSignIn.parse(request.headers.get("cookie"))) as { userId?: unknown; until?: unknown; redirectTo?: unknown } | null;
+  if (!value || typeof value.userId !== "number" || typeof value.until !== "number" || value.until < Date.now()) return null;
+  const user = await User.findByPk(value.userId);
+  if (!user || !twoStepOn(user)) return null;
+  return { user, redirectTo: typeof value.redirectTo === "string" ? value.redirectTo : "/" };
+}
+
+export const clearPendingCookie = () => pendingSignIn.serialize("", { maxAge: 0 });

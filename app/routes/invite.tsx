@@ -4,7 +4,8 @@ import { TimezoneSelect } from "~/components/timezone-select";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
 import { getUser, startSession } from "~/.server/auth";
-import { acceptInvitation, AccountError, findInvitation } from "~/.server/services/accounts";
+import { pageFailure } from "~/.server/replies";
+import { acceptInvitation, findInvitation } from "~/.server/services/accounts";
 import { INVITE_DEAD } from "~/lib/messages";
 import { acceptInviteSchema, parseForm } from "~/lib/forms";
 import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
@@ -42,8 +43,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     const cookie = await startSession(athlete, request);
     return redirect("/athlete?joined=1", { headers: { "Set-Cookie": cookie } });
   } catch (err) {
-    if (err instanceof AccountError) return data({ fieldErrors: { form: err.message }, values: {} }, { status: 400 });
-    throw err;
+    return pageFailure(err, (e) => ({ fieldErrors: { form: e.message }, values: {} }));
   }
 }
 

@@ -2,9 +2,10 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { startSession } from "~/.server/auth";
-import { consume, RateLimited } from "~/.server/security/rate-limits";
-import { clearPendingCookie, readPending, verifySecondStep } from "~/.server/services/two-step";
+import { clearPendingCookie, readPending, startSession } from "~/.server/auth";
+import { pageFailure } from "~/.server/replies";
+import { consume } from "~/.server/security/rate-limits";
+import { verifySecondStep } from "~/.server/services/two-step";
 import type { Route } from "./+types/login-two-step";
 
 export const meta: Route.MetaFunction = () => [{ title: "Two-step sign-in · Pacewright" }];
@@ -23,8 +24,7 @@ export async function action({ request }: Route.ActionArgs) {
     // Counted before the code is checked, per account: six guesses per quarter hour.
     await consume(["twoStepUser", String(pending.user.id)]);
   } catch (err) {
-    if (err instanceof RateLimited) return data({ error: err.message }, { status: 429, headers: { "Retry-After": String(err.retryAfterS) } });
-    throw err;
+    return pageFailure(err, (e) => ({ error: e.message }));
   }
   if (!code.trim()) return data({ error: "Enter the code from your app, or a recovery code." }, { status: 400 });
   if (!(await verifySecondStep(pending.user, code))) {

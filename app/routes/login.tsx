@@ -2,9 +2,9 @@ import { data, Form, Link, redirect, useNavigation, useSearchParams } from "reac
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { authenticator, getUser, guardSignIn, homeFor, SignInError, startSession } from "~/.server/auth";
-import { clientKey, RateLimited } from "~/.server/security/rate-limits";
-import { pendingCookieFor, twoStepOn } from "~/.server/services/two-step";
+import { authenticator, getUser, guardSignIn, homeFor, pendingCookieFor, startSession, twoStepOn } from "~/.server/auth";
+import { pageFailure } from "~/.server/replies";
+import { clientKey } from "~/.server/security/rate-limits";
 import { safeRedirect } from "~/.server/http";
 import type { Route } from "./+types/login";
 
@@ -29,9 +29,7 @@ export async function action({ request, context }: Route.ActionArgs) {
     const cookie = await startSession(user, request);
     return redirect(to, { headers: { "Set-Cookie": cookie } });
   } catch (err) {
-    if (err instanceof SignInError) return data({ error: err.message, email }, { status: 400 });
-    if (err instanceof RateLimited) return data({ error: err.message, email }, { status: 429, headers: { "Retry-After": String(err.retryAfterS) } });
-    throw err;
+    return pageFailure(err, (e) => ({ error: e.message, email }));
   }
 }
 

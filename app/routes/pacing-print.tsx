@@ -1,6 +1,7 @@
 import { PacingSheet } from "~/components/pacing-plan";
 import { requireUser } from "~/.server/auth";
-import { calendarSubject } from "~/.server/services/calendar";
+import { requireAthleteFor } from "~/.server/access";
+import { loaderFailure } from "~/.server/replies";
 import { lapFromSearch } from "~/.server/services/pacing";
 import { sessionPageData } from "~/.server/services/session-page";
 import { notFound } from "~/.server/http";
@@ -14,9 +15,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   let athlete = user;
   if (params.athleteId !== undefined) {
     if (user.role !== "coach") notFound("No such page.");
-    athlete = await calendarSubject(user, params.athleteId);
+    athlete = await requireAthleteFor(user, params.athleteId);
   } else if (user.role !== "athlete") notFound("No such page.");
-  const page = await sessionPageData(athlete, Number(params.id ?? params.sessionId), { lap: lapFromSearch(new URL(request.url)) });
+  const page = await sessionPageData(athlete, Number(params.id ?? params.sessionId), { lap: lapFromSearch(new URL(request.url)) }).catch(loaderFailure);
   if (!page.pacing?.plan) notFound("This session has no pacing plan.");
   return { name: page.session.name, date: page.session.date, athleteName: athlete.name, pacing: page.pacing };
 }

@@ -2,7 +2,8 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { AccountError, checkResetToken, resetPassword } from "~/.server/services/accounts";
+import { pageFailure } from "~/.server/replies";
+import { checkResetToken, resetPassword } from "~/.server/services/accounts";
 import { RESET_LINK_DEAD } from "~/lib/messages";
 import { parseForm, resetSchema } from "~/lib/forms";
 import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
@@ -22,8 +23,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   try {
     await resetPassword(params.token, parsed.data.password);
   } catch (err) {
-    if (err instanceof AccountError) return data({ fieldErrors: { form: err.message } }, { status: 400 });
-    throw err;
+    return pageFailure(err, (e) => ({ fieldErrors: { form: e.message } }));
   }
   return redirect("/login?reset=1");
 }

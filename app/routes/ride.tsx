@@ -4,19 +4,19 @@ import { RideChart } from "~/components/ride-chart";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
+import { requireAthleteSubject, requireUpload } from "~/.server/access";
 import { notFound } from "~/.server/http";
-import { Upload } from "~/.server/models";
-import { RideError, rideAnalysis, saveLaps } from "~/.server/services/ride";
-import { athleteSubject } from "~/.server/subject";
+import { pageFailure } from "~/.server/replies";
+import { rideAnalysis, saveLaps } from "~/.server/services/ride";
 import type { Route } from "./+types/ride";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.ride.name ?? "Ride"} · Pacewright` }];
 
 async function subjectUpload(request: Request, params: { athleteId?: string; id: string }) {
-  const { athlete, base } = await athleteSubject(request, params.athleteId);
-  const id = Number(params.id);
-  const upload = Number.isInteger(id) && id > 0 ? await Upload.findOne({ where: { id, athleteId: athlete.id } }) : null;
-  if (!upload) notFound("No ride file with this id.");
+  const { athlete, base, viewer } = await requireAthleteSubject(request, params.athleteId);
+  const { upload } = await requireUpload(viewer, params.id);
+  // A coach's URL names the athlete too: a file of another of their athletes is not on this page.
+  if (upload.athleteId !== athlete.id) notFound("No ride file with this id.");
   return { athlete, upload, base };
 }
 
@@ -32,8 +32,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     await saveLaps(upload, { splits: form.get("splits"), efforts: form.getAll("effort") });
     return { ok: true, message: "Laps saved." };
   } catch (err) {
-    if (err instanceof RideError) return data({ ok: false, message: err.message }, { status: err.status });
-    throw err;
+    return pageFailure(err, (e) => ({ ok: false, message: e.message }));
   }
 }
 

@@ -6,7 +6,8 @@ import { TimezoneSelect } from "~/components/timezone-select";
 import { getUser, homeFor, startSession } from "~/.server/auth";
 import { safeRedirect } from "~/.server/http";
 import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
-import { AccountError, signUp } from "~/.server/services/accounts";
+import { pageFailure } from "~/.server/replies";
+import { signUp } from "~/.server/services/accounts";
 import { parseForm, signUpSchema } from "~/lib/forms";
 import type { Route } from "./+types/signup";
 
@@ -31,11 +32,8 @@ export async function action({ request, context }: Route.ActionArgs) {
     const cookie = await startSession(user, request);
     return redirect(safeRedirect(form.get("redirectTo"), homeFor(user.role)), { headers: { "Set-Cookie": cookie } });
   } catch (err) {
-    if (err instanceof AccountError) {
-      const { password: _omit, ...values } = parsed.data;
-      return data({ fieldErrors: { [err.field ?? "form"]: err.message }, values }, { status: 400 });
-    }
-    throw err;
+    const { password: _omit, ...values } = parsed.data;
+    return pageFailure(err, (e) => ({ fieldErrors: { [e.field ?? "form"]: e.message }, values }));
   }
 }
 

@@ -80,7 +80,7 @@ describe("notes and comments between coach and athlete", () => {
     expect(statusOf(coachPost)).toBe(404);
     expect(statusOf(await run(coachSession.loader, getRequest("/", oCookie), { athleteId: String(athlete.id), sessionId: String(scheduled.id) }))).toBe(404);
     expect(await SessionComment.count({ where: { scheduledSessionId: scheduled.id } })).toBe(0);
-    await expect(applyBoardOp(otherCoach.id, planId, { op: "note", itemId, notes: "mine now" })).rejects.toMatchObject({ status: 404 });
+    await expect(applyBoardOp(otherCoach.id, planId, { op: "note", itemId, notes: "mine now" })).rejects.toMatchObject({ kind: "not_found" });
     expect((await PlanItem.findByPk(itemId))!.notes).toBe("Bring two bottles.");
   });
 });

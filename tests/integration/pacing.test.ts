@@ -2,7 +2,8 @@ import nodeIcal from "node-ical";
 import { describe, expect, it } from "vitest";
 import { CoachAthlete, FieldTest, ScheduledBlock, ScheduledSession, Threshold } from "~/.server/models";
 import { buildFeed } from "~/.server/services/feed";
-import { receiveUpload } from "~/.server/services/uploads";
+import { storeUpload } from "~/.server/services/uploads";
+import { readUploadBody } from "~/routes/api/uploads.server";
 import * as athleteSession from "~/routes/athlete/session";
 import * as coachSession from "~/routes/coach/athlete-session";
 import * as printView from "~/routes/pacing-print";
@@ -93,7 +94,7 @@ describe("pacing plan on the test session and in its calendar event", () => {
     const { athlete, session, cookie } = await scenario();
     const form = new FormData();
     form.append("file", rideFile());
-    const { upload } = await receiveUpload(new Request("http://localhost:3999/api/uploads", { method: "POST", body: form }), athlete, athlete);
+    const { upload } = await storeUpload(await readUploadBody(new Request("http://localhost:3999/api/uploads", { method: "POST", body: form })), athlete, athlete);
     await session.update({ uploadId: upload.id, status: "done" });
     const page = payloadOf(await run(athleteSession.loader, getRequest(`/athlete/sessions/${session.id}`, cookie), { id: String(session.id) }));
     const outcome = page.pacing.outcome;

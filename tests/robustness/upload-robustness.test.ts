@@ -142,11 +142,11 @@ describe("uploads cannot stall the server", () => {
     const bytes = new TextEncoder().encode(hugeCsv(20_000));
     const three = await Promise.allSettled([1, 2, 3].map(() => readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)));
     expect(three.map((r) => r.status)).toEqual(["fulfilled", "fulfilled", "rejected"]);
-    expect((three[2] as PromiseRejectedResult).reason).toMatchObject({ status: 429, message: expect.stringMatching(/already have 2 files being read/) });
+    expect((three[2] as PromiseRejectedResult).reason).toMatchObject({ kind: "rate_limited", message: expect.stringMatching(/already have 2 files being read/) });
     const saved = ACTIVITY_LIMITS.parseMs;
     ACTIVITY_LIMITS.parseMs = 1;
     try {
-      await expect(readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)).rejects.toMatchObject({ status: 422, message: expect.stringMatching(/took longer than/) });
+      await expect(readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)).rejects.toMatchObject({ kind: "unreadable", message: expect.stringMatching(/took longer than/) });
     } finally {
       ACTIVITY_LIMITS.parseMs = saved;
     }

@@ -4,6 +4,7 @@ import { RateLimiterRes } from "rate-limiter-flexible";
 import RateLimiterStoreAbstract from "rate-limiter-flexible/lib/RateLimiterStoreAbstract.js";
 import type { AppLoadContext } from "react-router";
 import { db, writeTransaction } from "../db";
+import { DomainError } from "../errors";
 
 interface Row {
   points: number;
@@ -113,27 +114,16 @@ function limiter(name: LimitName) {
 // Addresses and tokens are stored as digests: the table is about counting, not about who tried.
 const digest = (key: string) => crypto.createHash("sha256").update(key.trim().toLowerCase()).digest("base64url").slice(0, 32);
 
-/** Thrown when a limit is used up; `retryAfterS` is for the Retry-After header. */
-export class RateLimited extends Error {
-  name = "RateLimited";
-  constructor(
-    message: string,
-    readonly retryAfterS: number,
-  ) {
-    super(message);
-  }
-}
-
 /**
  * Takes one point from every listed limit before the guarded work runs, so parallel requests cannot all slip in
- * before the first one is counted. Throws RateLimited when any limit is used up.
+ * before the first one is counted. Throws a "rate_limited" DomainError when any limit is used up.
  */
 export async function consume(...limits: (readonly [LimitName, string])[]) {
   for (const [name, key] of limits) {
     try {
       await limiter(name).consume(digest(key));
     } catch (err) {
-      if (err instanceof RateLimiterRes) throw new RateLimited(LIMITS[name].message, Math.max(1, Math.ceil(err.msBeforeNext / 1000)));
+      if (err instanceof RateLimiterRes) throw new DomainError("rate_limited", LIMITS[name].message, { retryAfterS: Math.max(1, Math.ceil(err.msBeforeNext / 1000)) });
       throw err;
     }
   }
@@ -144,12 +134,12 @@ export async function consumeOr429(...limits: (readonly [LimitName, string])[]) 
   try {
     await consume(...limits);
   } catch (err) {
-    if (err instanceof RateLimited) tooMany(err);
+    if (err instanceof DomainError && err.kind === "rate_limited") tooMany(err);
     throw err;
   }
 }
 
-export function tooMany(err: RateLimited): never {
+export function tooMany(err: DomainError): never {
   throw new Response(err.message, { status: 429, headers: { "Content-Type": "text/plain; charset=utf-8", "Retry-After": String(err.retryAfterS) } });
 }
 

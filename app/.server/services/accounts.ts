@@ -7,19 +7,10 @@ import { AuthSession, CoachAthlete, Invitation, PasswordReset, User, type Role }
 import { hashToken, looksLikeToken, newToken } from "../tokens";
 import { INVITE_DEAD, RESET_LINK_DEAD } from "~/lib/messages";
 import { copyStarterShelf } from "./sessions";
+import { DomainError } from "../errors";
 
 export const RESET_TTL_MS = 60 * 60 * 1000;
 export const INVITE_TTL_MS = 7 * 24 * 60 * 60 * 1000;
-
-export class AccountError extends Error {
-  name = "AccountError";
-  constructor(
-    message: string,
-    readonly field?: string,
-  ) {
-    super(message);
-  }
-}
 
 export async function signUp(input: {
   name: string;
@@ -31,7 +22,7 @@ export async function signUp(input: {
   const passwordHash = await hashPassword(input.password);
   return writeTransaction(async (transaction) => {
     const taken = await User.findOne({ where: { email: input.email }, transaction });
-    if (taken) throw new AccountError("An account with this e-mail already exists. Sign in or reset your password.", "email");
+    if (taken) throw new DomainError("invalid", "An account with this e-mail already exists. Sign in or reset your password.", { field: "email" });
     const user = await User.create(
       { name: input.name, email: input.email, passwordHash, role: input.role, timezone: input.timezone },
       { transaction },
@@ -79,18 +70,18 @@ export async function checkResetToken(token: string | undefined): Promise<boolea
 
 /** Sets the new password, spends the token, and signs out every existing session of that account. */
 export async function resetPassword(token: string | undefined, password: string): Promise<User> {
-  if (!looksLikeToken(token)) throw new AccountError(RESET_LINK_DEAD);
+  if (!looksLikeToken(token)) throw new DomainError("invalid", RESET_LINK_DEAD);
   const passwordHash = await hashPassword(password);
   return writeTransaction(async (transaction) => {
     const reset = await PasswordReset.findOne({ where: { tokenHash: hashToken(token) }, transaction });
-    if (!reset || reset.usedAt || reset.expiresAt.getTime() <= Date.now()) throw new AccountError(RESET_LINK_DEAD);
+    if (!reset || reset.usedAt || reset.expiresAt.getTime() <= Date.now()) throw new DomainError("invalid", RESET_LINK_DEAD);
     const [spent] = await PasswordReset.update(
       { usedAt: new Date() },
       { where: { id: reset.id, usedAt: null }, transaction },
     );
-    if (spent !== 1) throw new AccountError(RESET_LINK_DEAD);
+    if (spent !== 1) throw new DomainError("invalid", RESET_LINK_DEAD);
     const user = await User.findByPk(reset.userId, { transaction });
-    if (!user) throw new AccountError(RESET_LINK_DEAD);
+    if (!user) throw new DomainError("invalid", RESET_LINK_DEAD);
     user.passwordHash = passwordHash;
     await user.save({ transaction });
     await AuthSession.destroy({ where: { userId: user.id }, transaction });
@@ -103,9 +94,9 @@ export async function inviteAthlete(coach: User, input: { email: string; name: s
     const existing = await User.findOne({ where: { email: input.email }, transaction });
     if (existing) {
       const linked = await CoachAthlete.findOne({ where: { coachId: coach.id, athleteId: existing.id }, transaction });
-      if (linked) throw new AccountError("This athlete is already on your roster.", "email");
+      if (linked) throw new DomainError("invalid", "This athlete is already on your roster.", { field: "email" });
       if (existing.role !== "athlete")
-        throw new AccountError("This address belongs to a coach or admin account, not an athlete.", "email");
+        throw new DomainError("invalid", "This address belongs to a coach or admin account, not an athlete.", { field: "email" });
     }
     const pending = await Invitation.findOne({
       where: { coachId: coach.id, email: input.email, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
@@ -164,25 +155,21 @@ export async function acceptInvitation(
   token: string | undefined,
   opts: { signedIn: User | null; newAccount?: { name: string; password: string; timezone: string } },
 ): Promise<User> {
-  if (!looksLikeToken(token)) throw new AccountError(INVITE_DEAD);
+  if (!looksLikeToken(token)) throw new DomainError("invalid", INVITE_DEAD);
   const passwordHash = opts.newAccount ? await hashPassword(opts.newAccount.password) : null;
   return writeTransaction(async (transaction) => {
     const invitation = await Invitation.findOne({ where: { tokenHash: hashToken(token) }, transaction });
     if (!invitation || invitation.acceptedAt || invitation.expiresAt.getTime() <= Date.now())
-      throw new AccountError(INVITE_DEAD);
+      throw new DomainError("invalid", INVITE_DEAD);
     let athlete = await User.findOne({ where: { email: invitation.email }, transaction });
     if (athlete) {
       if (!opts.signedIn || opts.signedIn.id !== athlete.id)
-        throw new AccountError(
-          `This invitation is for ${invitation.email}. Sign in with that address to accept it.`,
-        );
-      if (athlete.role !== "athlete") throw new AccountError("Only athlete accounts can join a coach's roster.");
+        throw new DomainError("invalid", `This invitation is for ${invitation.email}. Sign in with that address to accept it.`);
+      if (athlete.role !== "athlete") throw new DomainError("invalid", "Only athlete accounts can join a coach's roster.");
     } else {
       if (opts.signedIn)
-        throw new AccountError(
-          `This invitation is for ${invitation.email}, but you are signed in as ${opts.signedIn.email}. Sign out first.`,
-        );
-      if (!opts.newAccount || !passwordHash) throw new AccountError("Choose a name and a password to accept.");
+        throw new DomainError("invalid", `This invitation is for ${invitation.email}, but you are signed in as ${opts.signedIn.email}. Sign out first.`);
+      if (!opts.newAccount || !passwordHash) throw new DomainError("invalid", "Choose a name and a password to accept.");
       athlete = await User.create(
         {
           name: opts.newAccount.name,
@@ -198,7 +185,7 @@ export async function acceptInvitation(
       { acceptedAt: new Date(), acceptedUserId: athlete.id },
       { where: { id: invitation.id, acceptedAt: null }, transaction },
     );
-    if (accepted !== 1) throw new AccountError(INVITE_DEAD);
+    if (accepted !== 1) throw new DomainError("invalid", INVITE_DEAD);
     await CoachAthlete.findOrCreate({
       where: { coachId: invitation.coachId, athleteId: athlete.id },
       defaults: { coachId: invitation.coachId, athleteId: athlete.id },
@@ -212,18 +199,12 @@ export async function acceptInvitation(
 // The roster is read set-based in its own module; kept reachable from here for the pages that import it.
 export { rosterFor } from "./roster";
 
-/** A coach may only see athletes on their own roster; anything else is "not found", never "forbidden". */
-export async function coachHasAthlete(coachId: number, athleteId: number): Promise<boolean> {
-  if (!Number.isInteger(athleteId) || athleteId <= 0) return false;
-  return (await CoachAthlete.count({ where: { coachId, athleteId } })) > 0;
-}
-
 export async function changeRole(admin: User, userId: number, role: Role) {
   if (admin.id === userId && role !== "admin")
-    throw new AccountError("You cannot remove your own admin role; ask another admin.", "role");
+    throw new DomainError("invalid", "You cannot remove your own admin role; ask another admin.", { field: "role" });
   return writeTransaction(async (transaction) => {
     const user = await User.findByPk(userId, { transaction });
-    if (!user) throw new AccountError("That user no longer exists.");
+    if (!user) throw new DomainError("invalid", "That user no longer exists.");
     user.role = role;
     await user.save({ transaction });
     return user;

@@ -3,6 +3,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { Piscina } from "piscina";
 import type { ActivityLimits, ActivityTask, ActivityTaskResult } from "../workers/activity-task";
+import { DomainError } from "../errors";
 
 /**
  * Limits on reading ride files. A day-long event at one reading a second is 86,400 rows; a few more rows are
@@ -19,16 +20,6 @@ export const ACTIVITY_LIMITS: ActivityLimits & { parseMs: number; perUser: numbe
   threads: 2,
   queue: 8,
 };
-
-export class ActivityReadError extends Error {
-  name = "ActivityReadError";
-  constructor(
-    message: string,
-    readonly status: number,
-  ) {
-    super(message);
-  }
-}
 
 /** The project root, found from this file in the sources and in the server build alike. */
 function projectRoot() {
@@ -76,27 +67,27 @@ export async function readActivityOffThread(task: Omit<ActivityTask, "limits">, 
   const running = globalThis.__pacewrightParsesByUser;
   const mine = running.get(userId) ?? 0;
   if (mine >= ACTIVITY_LIMITS.perUser) {
-    throw new ActivityReadError(`You already have ${mine} files being read; wait until they are done.`, 429);
+    throw new DomainError("rate_limited", `You already have ${mine} files being read; wait until they are done.`);
   }
   const p = pool();
   if (p.queueSize >= ACTIVITY_LIMITS.queue) {
-    throw new ActivityReadError("The server is reading many files right now; try again in a minute.", 503);
+    throw new DomainError("busy", "The server is reading many files right now; try again in a minute.");
   }
   running.set(userId, mine + 1);
   try {
     const result = (await p.run({ ...task, limits: { maxRows: ACTIVITY_LIMITS.maxRows, maxDurationS: ACTIVITY_LIMITS.maxDurationS } } satisfies ActivityTask, {
       signal: AbortSignal.timeout(ACTIVITY_LIMITS.parseMs),
     })) as ActivityTaskResult;
-    if (!result.ok) throw new ActivityReadError(result.message, result.status);
+    if (!result.ok) throw new DomainError(result.kind, result.message);
     return result;
   } catch (err) {
-    if (err instanceof ActivityReadError) throw err;
+    if (err instanceof DomainError) throw err;
     const e = err as { name?: string; code?: string; message?: string };
     if (e?.name === "AbortError" || e?.name === "TimeoutError") {
-      throw new ActivityReadError(`Reading this file took longer than ${ACTIVITY_LIMITS.parseMs / 1000} s, so it was stopped. Export one ride at a time.`, 422);
+      throw new DomainError("unreadable", `Reading this file took longer than ${ACTIVITY_LIMITS.parseMs / 1000} s, so it was stopped. Export one ride at a time.`);
     }
-    if (e?.code === "ERR_WORKER_OUT_OF_MEMORY") throw new ActivityReadError("This file needs too much memory to read. Export one ride at a time.", 413);
-    if (/queue is at limit/i.test(e?.message ?? "")) throw new ActivityReadError("The server is reading many files right now; try again in a minute.", 503);
+    if (e?.code === "ERR_WORKER_OUT_OF_MEMORY") throw new DomainError("too_large", "This file needs too much memory to read. Export one ride at a time.");
+    if (/queue is at limit/i.test(e?.message ?? "")) throw new DomainError("busy", "The server is reading many files right now; try again in a minute.");
     throw err;
   } finally {
     const left = (running.get(userId) ?? 1) - 1;

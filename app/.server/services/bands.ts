@@ -1,6 +1,7 @@
 import { Op, type Transaction } from "sequelize";
 import { writeTransaction } from "../db";
 import { BandSetRow, CoachAthlete, type User } from "../models";
+import { DomainError } from "../errors";
 import { bandTable } from "~/lib/band-table";
 import {
   BAND_SET_KEYS,
@@ -57,7 +58,7 @@ export type SaveBandSetResult = { ok: true; set: BandSet } | { ok: false; errors
 
 /** Saves a coach's edit of one set after validation; bad input saves nothing. */
 export async function saveBandSet(coach: User, key: string, rows: BandInputRow[]): Promise<SaveBandSetResult> {
-  if (coach.role !== "coach") throw new Response("Only coaches edit band sets.", { status: 403 });
+  if (coach.role !== "coach") throw new DomainError("forbidden", "Only coaches edit band sets.");
   if (!parseBandSetKey(key)) return { ok: false, errors: { form: "Choose a band set to edit.", rows: {} } };
   const v = validateBandSet(rows);
   if (!v.ok) return v;
@@ -76,7 +77,7 @@ export async function saveBandSet(coach: User, key: string, rows: BandInputRow[]
 
 /** Back to Pacewright's defaults for one set. */
 export async function restoreDefaultBandSet(coach: User, key: string) {
-  if (coach.role !== "coach") throw new Response("Only coaches edit band sets.", { status: 403 });
+  if (coach.role !== "coach") throw new DomainError("forbidden", "Only coaches edit band sets.");
   if (!parseBandSetKey(key)) return false;
   await writeTransaction((transaction) => BandSetRow.destroy({ where: { coachId: coach.id, setKey: key }, transaction }));
   return true;

@@ -5,8 +5,9 @@ import { boardView } from "~/lib/board";
 import type { Block } from "~/lib/training";
 import { PlanItem, PlanWeek, SeasonPlan, type User } from "../models";
 import { bandSetFor } from "./bands";
-import { bumpVersion, itemView, PlanError, requirePlan } from "./plans";
+import { bumpVersion, itemView, requirePlan } from "./plans";
 import { getSession } from "./sessions";
+import { DomainError } from "../errors";
 
 const target = { toWeek: z.number().int().positive(), toDay: z.number().int().min(0).max(6), toIndex: z.number().int().min(0).max(1000) };
 
@@ -22,12 +23,6 @@ export const boardOpSchema = z.discriminatedUnion("op", [
 ]);
 export type BoardOp = z.infer<typeof boardOpSchema>;
 
-export class StaleBoardError extends PlanError {
-  constructor(readonly currentVersion: number) {
-    super("This plan was changed elsewhere (another tab or person). The board has been reloaded; try again.", 409);
-  }
-}
-
 /** Rewrites one day slot's positions as 0…n−1 in the given order, in two passes so the unique index never clashes. */
 async function writeOrder(weekId: number, day: number, ids: number[], transaction: Transaction) {
   if (ids.length === 0) return;
@@ -42,7 +37,7 @@ async function slotIds(weekId: number, day: number, transaction: Transaction, ex
 
 async function week(planId: number, weekId: number, transaction: Transaction) {
   const w = await PlanWeek.findOne({ where: { id: weekId, planId }, transaction });
-  if (!w) throw new PlanError("That week is not part of this plan.", 404);
+  if (!w) throw new DomainError("not_found", "That week is not part of this plan.");
   return w;
 }
 
@@ -52,13 +47,13 @@ async function week(planId: number, weekId: number, transaction: Transaction) {
  */
 export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp) {
   const shelfSession = op.op === "copy" ? await getSession(ownerId, op.sessionId) : null;
-  if (op.op === "copy" && !shelfSession) throw new PlanError("That session is not on your shelf.", 404);
+  if (op.op === "copy" && !shelfSession) throw new DomainError("not_found", "That session is not on your shelf.");
   return writeTransaction(async (transaction) => {
     // The plan row lock queues concurrent board changes to one plan on PostgreSQL, across instances; the version
     // check then sees every earlier change.
     const plan = await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction, lock: transaction.LOCK.UPDATE });
-    if (!plan) throw new PlanError("No plan with this id is yours.", 404);
-    if (op.version !== undefined && op.version !== plan.version) throw new StaleBoardError(plan.version);
+    if (!plan) throw new DomainError("not_found", "No plan with this id is yours.");
+    if (op.version !== undefined && op.version !== plan.version) throw new DomainError("stale", "This plan was changed elsewhere (another tab or person). The board has been reloaded; try again.", { version: plan.version });
     let touchedItem: number | null = null;
     switch (op.op) {
       case "copy": {
@@ -76,7 +71,7 @@ export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp)
       }
       case "move": {
         const item = await PlanItem.findOne({ where: { id: op.itemId, planId }, transaction });
-        if (!item) throw new PlanError("That session is no longer on this plan.", 404);
+        if (!item) throw new DomainError("not_found", "That session is no longer on this plan.");
         await week(planId, op.toWeek, transaction);
         const from = { weekId: item.weekId, day: item.day };
         const ids = await slotIds(op.toWeek, op.toDay, transaction, item.id);
@@ -88,14 +83,14 @@ export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp)
       }
       case "remove": {
         const item = await PlanItem.findOne({ where: { id: op.itemId, planId }, transaction });
-        if (!item) throw new PlanError("That session is no longer on this plan.", 404);
+        if (!item) throw new DomainError("not_found", "That session is no longer on this plan.");
         await item.destroy({ transaction });
         await writeOrder(item.weekId, item.day, await slotIds(item.weekId, item.day, transaction), transaction);
         break;
       }
       case "duplicate-week":
       case "move-week": {
-        if (op.fromWeek === op.toWeek) throw new PlanError("Choose a different week.", 400);
+        if (op.fromWeek === op.toWeek) throw new DomainError("invalid", "Choose a different week.");
         await week(planId, op.fromWeek, transaction);
         await week(planId, op.toWeek, transaction);
         const source = await PlanItem.findAll({ where: { weekId: op.fromWeek }, order: [["day", "ASC"], ["position", "ASC"]], transaction });
@@ -117,13 +112,13 @@ export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp)
       }
       case "note": {
         const [n] = await PlanItem.update({ notes: op.notes.trim() }, { where: { id: op.itemId, planId }, transaction });
-        if (n !== 1) throw new PlanError("That session is no longer on this plan.", 404);
+        if (n !== 1) throw new DomainError("not_found", "That session is no longer on this plan.");
         touchedItem = op.itemId;
         break;
       }
       case "time": {
         const [n] = await PlanItem.update({ timeOfDay: op.timeOfDay }, { where: { id: op.itemId, planId }, transaction });
-        if (n !== 1) throw new PlanError("That session is no longer on this plan.", 404);
+        if (n !== 1) throw new DomainError("not_found", "That session is no longer on this plan.");
         touchedItem = op.itemId;
         break;
       }
@@ -171,6 +166,6 @@ export async function loadBoard(coach: Pick<User, "id" | "role">, planId: number
 export async function boardItemDetail(ownerId: number, planId: number, itemId: number) {
   await requirePlan(ownerId, planId);
   const item = Number.isInteger(itemId) && itemId > 0 ? await PlanItem.findOne({ where: { id: itemId, planId } }) : null;
-  if (!item) throw new PlanError("That session is no longer on this plan.", 404);
+  if (!item) throw new DomainError("not_found", "That session is no longer on this plan.");
   return itemView(item);
 }

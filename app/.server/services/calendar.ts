@@ -1,25 +1,10 @@
 import { Op, QueryTypes } from "sequelize";
 import { db, lockRow, writeTransaction } from "../db";
-import { forbidden, notFound } from "../http";
 import { ScheduledBlock, ScheduledSession, User } from "../models";
-import { coachHasAthlete } from "./accounts";
 import { thresholdHistory } from "./thresholds";
 import { resolveSteps } from "./materialize";
 import { blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
-
-/**
- * Whose calendar a request may read: an athlete their own; a coach any athlete on their roster (others: 404).
- * The athlete id comes from the URL for coaches and is ignored for athletes.
- */
-export async function calendarSubject(viewer: User, athleteIdParam: string | null | undefined): Promise<User> {
-  if (viewer.role === "athlete") return viewer;
-  if (viewer.role !== "coach") forbidden("Calendars belong to athletes and their coaches.");
-  const id = Number(athleteIdParam);
-  if (!(await coachHasAthlete(viewer.id, id))) notFound("No athlete with this id is on your roster.");
-  const athlete = await User.findByPk(id);
-  if (!athlete) notFound("No athlete with this id is on your roster.");
-  return athlete;
-}
+import { DomainError } from "../errors";
 
 export function stepView(b: ScheduledBlock): StepView {
   return {
@@ -108,16 +93,6 @@ export async function sessionDetail(athleteId: number, id: number) {
   return { session, steps: blocks.map(stepView), thresholdValues: [...new Set(blocks.map((b) => b.thresholdValue).filter((v) => v !== null))] };
 }
 
-export class CalendarError extends Error {
-  name = "CalendarError";
-  constructor(
-    message: string,
-    readonly status = 400,
-  ) {
-    super(message);
-  }
-}
-
 /**
  * Moves a planned session to another day. Targets are resolved again for the new date (a threshold may differ),
  * and the feed sequence moves on so subscribed calendars pick the change up.
@@ -127,8 +102,8 @@ export async function moveSession(athleteId: number, id: number, date: string) {
     // Re-resolved from the thresholds: a rescale of this athlete and this move take turns (PostgreSQL row lock).
     await lockRow("users", athleteId, transaction);
     const session = await ScheduledSession.findOne({ where: { id, athleteId }, transaction });
-    if (!session) throw new CalendarError("That session is not on this calendar.", 404);
-    if (session.status !== "planned") throw new CalendarError("Only planned sessions can be moved; this one is already done or skipped.");
+    if (!session) throw new DomainError("not_found", "That session is not on this calendar.");
+    if (session.status !== "planned") throw new DomainError("invalid", "Only planned sessions can be moved; this one is already done or skipped.");
     const old = await ScheduledBlock.findAll({ where: { scheduledSessionId: id }, order: [["position", "ASC"]], transaction });
     const history = await thresholdHistory(athleteId, transaction);
     const last = (await ScheduledSession.max("position", { where: { athleteId, date }, transaction })) as number | null;
@@ -154,8 +129,8 @@ export async function completeSession(athleteId: number, id: number, input: { st
     // A rescale changes only planned sessions: a completion must not slip in between its read and its write.
     await lockRow("users", athleteId, transaction);
     const session = await ScheduledSession.findOne({ where: { id, athleteId }, transaction });
-    if (!session) throw new CalendarError("That session is not on this calendar.", 404);
-    if (session.status === "cancelled") throw new CalendarError("This session was removed from the plan.");
+    if (!session) throw new DomainError("not_found", "That session is not on this calendar.");
+    if (session.status === "cancelled") throw new DomainError("invalid", "This session was removed from the plan.");
     await session.update(
       {
         status: input.status,

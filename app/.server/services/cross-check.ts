@@ -2,7 +2,8 @@ import { Op } from "sequelize";
 import { writeTransaction } from "../db";
 import { CoachAthlete, FieldTest, Threshold, User } from "../models";
 import { applyThreshold } from "./rescale";
-import { queueRescaleSummary, TestError } from "./field-tests";
+import { queueRescaleSummary } from "./field-tests";
+import { DomainError } from "../errors";
 import { PROTOCOLS, type ProtocolKey } from "~/lib/protocols";
 import { checkPairWindow, crossCheck, CROSS_CHECK_DAYS, plausibilityGuard, type CrossCheck } from "~/lib/training";
 import { formatThreshold } from "~/lib/zone-table";
@@ -67,13 +68,13 @@ const sameIds = (x: unknown, y: number[]) => Array.isArray(x) && x.length === y.
  * The threshold records the pair and the choice in `sourceTests`.
  */
 export async function applyCrossCheck(athlete: User, by: User, input: { aId: number; bId: number; choice: string; confirmed?: boolean }) {
-  if (!["a", "b", "mean"].includes(input.choice)) throw new TestError("Choose one test or their mean.");
+  if (!["a", "b", "mean"].includes(input.choice)) throw new DomainError("invalid", "Choose one test or their mean.");
   const choice = input.choice as "a" | "b" | "mean";
   const [a, b] = await Promise.all([input.aId, input.bId].map((id) => (Number.isInteger(id) && id > 0 ? FieldTest.findOne({ where: { id, athleteId: athlete.id, status: "active" } }) : null)));
-  if (!a || !b || a.id === b.id) throw new TestError("These tests are not this athlete's active tests.", 404);
+  if (!a || !b || a.id === b.id) throw new DomainError("not_found", "These tests are not this athlete's active tests.");
   const [first, second] = a.testedOn <= b.testedOn ? [a, b] : [b, a];
-  if (first.sport !== second.sport || first.metric !== second.metric) throw new TestError("A cross-check needs two tests of the same sport and metric.");
-  if (checkPairWindow(first.testedOn, second.testedOn) > CROSS_CHECK_DAYS) throw new TestError(`A cross-check needs two tests within ${CROSS_CHECK_DAYS} days of each other.`);
+  if (first.sport !== second.sport || first.metric !== second.metric) throw new DomainError("invalid", "A cross-check needs two tests of the same sport and metric.");
+  if (checkPairWindow(first.testedOn, second.testedOn) > CROSS_CHECK_DAYS) throw new DomainError("invalid", `A cross-check needs two tests within ${CROSS_CHECK_DAYS} days of each other.`);
   const metric = first.metric as Metric;
   const sport = first.sport as Sport;
   const picked = choice === "a" ? first : choice === "b" ? second : null;
@@ -92,7 +93,7 @@ export async function applyCrossCheck(athlete: User, by: User, input: { aId: num
     profile: { weightKg: athlete.weightKg, maxHr: athlete.maxHr },
   });
   if (guard.flagged && input.confirmed !== true) {
-    throw new TestError(`${guard.headline} Read the likely reasons and confirm the change to save it.`, 409, "confirm");
+    throw new DomainError("confirm_needed", `${guard.headline} Read the likely reasons and confirm the change to save it.`, { field: "confirm" });
   }
   const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
   const labelOf = (t: FieldTest) => (PROTOCOLS[t.protocol as ProtocolKey]?.label ?? t.protocol).toLowerCase();

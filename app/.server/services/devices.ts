@@ -1,5 +1,4 @@
 import { Op } from "sequelize";
-import { currentSessionKey } from "../auth";
 import { writeTransaction } from "../db";
 import { AuthSession, type User } from "../models";
 
@@ -32,9 +31,8 @@ export function deviceLabel(userAgent: string | null): string {
   return os ? `${browser} on ${os}` : browser;
 }
 
-/** The user's live sessions, newest first; `current` marks the one this request uses. */
-export async function listDevices(user: User, request: Request) {
-  const current = await currentSessionKey(request);
+/** The user's live sessions, newest first; `current` marks the one with the stored key `current` (this request's). */
+export async function listDevices(user: User, current: string | null) {
   const rows = await AuthSession.findAll({ where: { userId: user.id, expiresAt: { [Op.gt]: new Date() } }, order: [["createdAt", "DESC"]] });
   return rows.map((r) => ({
     // The stored id is a hash of the cookie's secret, so showing it gives nobody a way in.
@@ -52,9 +50,8 @@ export async function signOutDevice(user: User, handle: string): Promise<boolean
   return n > 0;
 }
 
-/** Ends every session of the user except the one this request uses; answers how many ended. */
-export async function signOutEverywhereElse(user: User, request: Request): Promise<number> {
-  const current = await currentSessionKey(request);
+/** Ends every session of the user except the one with the stored key `current`; answers how many ended. */
+export async function signOutEverywhereElse(user: User, current: string | null): Promise<number> {
   return writeTransaction((transaction) =>
     AuthSession.destroy({ where: { userId: user.id, ...(current ? { id: { [Op.ne]: current } } : {}) }, transaction }),
   );

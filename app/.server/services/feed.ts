@@ -1,5 +1,6 @@
 import crypto from "node:crypto";
-import { consume, LIMITS, RateLimited } from "../security/rate-limits";
+import { consume, LIMITS } from "../security/rate-limits";
+import { DomainError } from "../errors";
 import { TZDate } from "@date-fns/tz";
 import { LRUCache } from "lru-cache";
 import ical, { ICalAlarmType, ICalCalendarMethod, ICalEventStatus } from "ical-generator";
@@ -330,7 +331,7 @@ export async function feedRateLimited(tokenHash: string): Promise<number | null>
     await consume(["feedToken", tokenHash]);
     return null;
   } catch (err) {
-    if (err instanceof RateLimited) return err.retryAfterS;
+    if (err instanceof DomainError && err.kind === "rate_limited") return err.retryAfterS ?? 1;
     throw err;
   }
 }

@@ -13,19 +13,9 @@ import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { bestEffort, detectRampTest, pacingAdvice, pacingSplits, plausibilityGuard, thresholdHeartRate, TrainingInputError, type GuardResult, type Metric, type RampDetection, type Sample, type ThresholdSport } from "~/lib/training";
 import { formatThreshold } from "~/lib/zone-table";
 import { thresholdBandsText } from "./bands";
+import { DomainError } from "../errors";
 
 export const UNDO_DAYS = 14;
-
-export class TestError extends Error {
-  name = "TestError";
-  constructor(
-    message: string,
-    readonly status = 400,
-    readonly field?: string,
-  ) {
-    super(message);
-  }
-}
 
 /** The window each protocol reads from a file, in seconds. */
 const WINDOW: Partial<Record<ProtocolKey, number>> = { twenty_minute: 1200, eight_minute: 480, hr_thirty: 1800 };
@@ -45,7 +35,7 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
         ramp = detectRampTest(samples);
       } catch (err) {
         if (err instanceof TrainingInputError && err.code === "not_a_ramp") {
-          throw new TestError("No ramp of equal rising steps was found in this file, so its rate is unknown. Type the best minute and how many watts the ramp added each minute instead.");
+          throw new DomainError("invalid", "No ramp of equal rising steps was found in this file, so its rate is unknown. Type the best minute and how many watts the ramp added each minute instead.");
         }
         throw err;
       }
@@ -65,7 +55,7 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
     }
     if (window && (protocol === "twenty_minute" || protocol === "eight_minute")) {
       const start = windowStartS ?? bestEffort(samples, window).startS;
-      if (!Number.isInteger(start) || start < 0 || start + window > samples.length) throw new TestError("The chosen window runs past the end of the ride.");
+      if (!Number.isInteger(start) || start < 0 || start + window > samples.length) throw new DomainError("invalid", "The chosen window runs past the end of the ride.");
       const split = pacingSplits(samples, start, window, 3);
       const pacing = { ...split, advice: pacingAdvice(split.verdict, split.changePct) };
       const mean = samples.slice(start, start + window).reduce((s, x) => s + (x.power ?? 0), 0) / window;
@@ -73,7 +63,7 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
     }
     if (protocol === "hr_thirty") {
       const hr = samples.map((s) => s.hr ?? null);
-      if (hr.length < 1800) throw new TestError("The file is shorter than 30 minutes.");
+      if (hr.length < 1800) throw new DomainError("invalid", "The file is shorter than 30 minutes.");
       // The 30 minutes with the highest mean heart rate, unless the user shifted the window.
       let start = windowStartS ?? 0;
       if (windowStartS === undefined) {
@@ -92,10 +82,10 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
       return { inputs: { sport: "bike", meanHr: Math.round(meanHr) }, window: { startS: start, lengthS: 1800 }, pacing: null, ramp: null, file: null };
     }
   } catch (err) {
-    if (err instanceof TrainingInputError) throw new TestError(`This file cannot be used for a ${PROTOCOLS[protocol].label.toLowerCase()}: ${err.message}`);
+    if (err instanceof TrainingInputError) throw new DomainError("invalid", `This file cannot be used for a ${PROTOCOLS[protocol].label.toLowerCase()}: ${err.message}`);
     throw err;
   }
-  throw new TestError("This test is entered by hand, not from a file.");
+  throw new DomainError("invalid", "This test is entered by hand, not from a file.");
 }
 
 /** Seconds without power in a test window (dropouts and stops) and its mean heart rate, for the guard's reasons. */
@@ -129,7 +119,7 @@ export async function resolveSubmission(athlete: User, body: { protocol: Protoco
   let upload: Upload | null = null;
   if (body.uploadId) {
     upload = await Upload.findOne({ where: { id: body.uploadId, athleteId: athlete.id } });
-    if (!upload) throw new TestError("That upload is not this athlete's.", 404);
+    if (!upload) throw new DomainError("not_found", "That upload is not this athlete's.");
     fromFile = await inputsFromUpload(body.protocol, upload, body.windowStartS ?? undefined);
     inputs = fromFile.inputs;
   }
@@ -137,7 +127,7 @@ export async function resolveSubmission(athlete: User, body: { protocol: Protoco
   try {
     result = computeThreshold(body.protocol, inputs);
   } catch (err) {
-    if (err instanceof TrainingInputError) throw new TestError(err.message);
+    if (err instanceof TrainingInputError) throw new DomainError("invalid", err.message);
     throw err;
   }
   return { result, inputs, fromFile, upload };
@@ -178,8 +168,8 @@ async function guardFor(athlete: User, body: Body, result: ThresholdResult, valu
 }
 
 export async function preview(athlete: User, body: Body) {
-  if (!isIsoDate(body.testedOn)) throw new TestError("Give the test date.", 400, "testedOn");
-  if (body.testedOn > todayIn(athlete.timezone)) throw new TestError("A test cannot be dated in the future.", 400, "testedOn");
+  if (!isIsoDate(body.testedOn)) throw new DomainError("invalid", "Give the test date.", { field: "testedOn" });
+  if (body.testedOn > todayIn(athlete.timezone)) throw new DomainError("invalid", "A test cannot be dated in the future.", { field: "testedOn" });
   const { result, fromFile } = await resolveSubmission(athlete, body);
   const current = await thresholdOn(athlete.id, result.sport, result.metric, body.testedOn);
   const scope = { athleteId: athlete.id, sport: result.sport, metric: result.metric, from: body.testedOn };
@@ -218,19 +208,19 @@ export async function saveTest(
   body: Body & { readiness?: unknown; requestKey?: string | null; confirmed?: boolean | null },
 ) {
   const protocol = PROTOCOLS[body.protocol];
-  if (!isIsoDate(body.testedOn)) throw new TestError("Give the test date.", 400, "testedOn");
-  if (body.testedOn > todayIn(athlete.timezone)) throw new TestError("A test cannot be dated in the future.", 400, "testedOn");
+  if (!isIsoDate(body.testedOn)) throw new DomainError("invalid", "Give the test date.", { field: "testedOn" });
+  if (body.testedOn > todayIn(athlete.timezone)) throw new DomainError("invalid", "A test cannot be dated in the future.", { field: "testedOn" });
   let readiness: z.infer<typeof readinessSchema> | null = null;
   if (protocol.maximal) {
     const parsed = readinessSchema.safeParse(body.readiness);
-    if (!parsed.success) throw new TestError(`Before a maximal test: ${parsed.error.issues[0].message}`, 400, "readiness");
+    if (!parsed.success) throw new DomainError("invalid", `Before a maximal test: ${parsed.error.issues[0].message}`, { field: "readiness" });
     readiness = parsed.data;
   }
   const { result, inputs, upload, fromFile } = await resolveSubmission(athlete, body);
   const value = roundThreshold(result);
   const guard = await guardFor(athlete, body, result, value, fromFile);
   if (guard.flagged && body.confirmed !== true) {
-    throw new TestError(`${guard.headline} Read the likely reasons and confirm the change to save it.`, 409, "confirm");
+    throw new DomainError("confirm_needed", `${guard.headline} Read the likely reasons and confirm the change to save it.`, { field: "confirm" });
   }
   const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
   return writeTransaction(async (transaction) => {
@@ -240,7 +230,7 @@ export async function saveTest(
     if (body.requestKey) {
       const earlier = await FieldTest.findOne({ where: { requestKey: body.requestKey }, transaction });
       if (earlier) {
-        if (earlier.athleteId !== athlete.id) throw new TestError("That request was already used.", 409);
+        if (earlier.athleteId !== athlete.id) throw new DomainError("conflict", "That request was already used.");
         return { test: earlier, report: await RescaleReport.findOne({ where: { fieldTestId: earlier.id, kind: "apply" }, transaction }), repeated: true };
       }
     }
@@ -336,9 +326,9 @@ export async function undoTest(athlete: User, by: User, testId: number) {
   return writeTransaction(async (transaction) => {
     await lockRow("users", athlete.id, transaction);
     const test = await FieldTest.findOne({ where: { id: testId, athleteId: athlete.id }, transaction });
-    if (!test) throw new TestError("No such test for this athlete.", 404);
-    if (test.status === "undone") throw new TestError("This test was already removed.");
-    if (test.createdAt < daysAgo(UNDO_DAYS)) throw new TestError(`Tests can be removed for ${UNDO_DAYS} days after they were saved.`);
+    if (!test) throw new DomainError("not_found", "No such test for this athlete.");
+    if (test.status === "undone") throw new DomainError("invalid", "This test was already removed.");
+    if (test.createdAt < daysAgo(UNDO_DAYS)) throw new DomainError("invalid", `Tests can be removed for ${UNDO_DAYS} days after they were saved.`);
     const report = await RescaleReport.findOne({ where: { fieldTestId: test.id, kind: "apply" }, transaction });
     const threshold = test.thresholdId ? await Threshold.findByPk(test.thresholdId, { transaction }) : null;
     const undo = report ? await undoRescale(report, threshold, by.id, transaction) : null;

@@ -20,16 +20,7 @@ import {
   workKj,
   type BandSet,
 } from "~/lib/training";
-
-export class LoadError extends Error {
-  name = "LoadError";
-  constructor(
-    message: string,
-    readonly status = 400,
-  ) {
-    super(message);
-  }
-}
+import { DomainError } from "../errors";
 
 /**
  * Attaches a ride file to the planned session of its day (same sport, still planned), or keeps it as an unplanned
@@ -38,7 +29,7 @@ export class LoadError extends Error {
  */
 export async function attachRide(athlete: User, uploadId: number, date: string, effortScore: number | null) {
   const upload = await Upload.findOne({ where: { id: uploadId, athleteId: athlete.id } });
-  if (!upload) throw new LoadError("That upload is not yours.", 404);
+  if (!upload) throw new DomainError("not_found", "That upload is not yours.");
   const activity = await loadActivity(upload);
   const samples = activity.samples;
   const minutes = samples.length / 60;

@@ -5,16 +5,7 @@ import { applyPlacementChoice, checkPlacement, needsChoice, type PlacementChoice
 import { thresholdHistory, thresholdOn, thresholdSport, unitFor, type ThresholdRow } from "./thresholds";
 import { addDays, mondayOf, todayIn, weekday } from "~/lib/dates";
 import { blockDuration, estimateSession, expandBlocks, resolveTarget, type Block } from "~/lib/training";
-
-export class AssignError extends Error {
-  name = "AssignError";
-  constructor(
-    message: string,
-    readonly status = 400,
-  ) {
-    super(message);
-  }
-}
+import { DomainError } from "../errors";
 
 type BlockRow = Omit<InferCreationAttributes<ScheduledBlock>, "scheduledSessionId" | "id">;
 
@@ -167,7 +158,7 @@ export async function materialize(planId: number, athlete: User, start: string, 
   // Targets are resolved from the athlete's thresholds: a rescale of the same athlete waits for this, or this for it.
   await lockRow("users", athlete.id, transaction);
   const plan = await SeasonPlan.findByPk(planId, { transaction });
-  if (!plan) throw new AssignError("That plan no longer exists.", 404);
+  if (!plan) throw new DomainError("not_found", "That plan no longer exists.");
   const assignment = await Assignment.create({ athleteId: athlete.id, planId, assignedBy: opts.assignedBy, startDate: start, planVersion: plan.version }, { transaction });
   const history = await thresholdHistory(athlete.id, transaction);
   await insertScheduled(athlete.id, assignment.id, await planItems(planId, transaction), start, history, transaction);
@@ -187,9 +178,9 @@ export function alignStart(mode: "start" | "event", date: string, weeks: number)
  */
 export async function assignPlan(coach: User, planId: number, athleteIds: number[], opts: { mode: "start" | "event"; date: string; choice?: PlacementChoice }) {
   const plan = await SeasonPlan.findOne({ where: { id: planId, ownerId: coach.id } });
-  if (!plan) throw new AssignError("No plan with this id is yours.", 404);
+  if (!plan) throw new DomainError("not_found", "No plan with this id is yours.");
   const links = await CoachAthlete.findAll({ where: { coachId: coach.id, athleteId: athleteIds } });
-  if (links.length !== new Set(athleteIds).size) throw new AssignError("Athletes can only be given plans by their own coach.", 404);
+  if (links.length !== new Set(athleteIds).size) throw new DomainError("not_found", "Athletes can only be given plans by their own coach.");
   const weeks = await PlanWeek.count({ where: { planId } });
   const start = alignStart(opts.mode, opts.date, weeks);
   const athletes = await User.findAll({ where: { id: athleteIds } });
@@ -218,7 +209,7 @@ export async function assignPlan(coach: User, planId: number, athleteIds: number
  */
 export async function pushPlanChanges(coach: User, planId: number) {
   const plan = await SeasonPlan.findOne({ where: { id: planId, ownerId: coach.id } });
-  if (!plan) throw new AssignError("No plan with this id is yours.", 404);
+  if (!plan) throw new DomainError("not_found", "No plan with this id is yours.");
   const assignments = await Assignment.findAll({ where: { planId } });
   let updated = 0;
   for (const assignment of assignments) {

@@ -10,6 +10,8 @@ import { thresholdHistory, thresholdSport } from "./thresholds";
 import { addDays, todayIn } from "~/lib/dates";
 import { defaultTestFor } from "~/lib/protocols";
 import { formatPrice } from "~/lib/shop";
+import { DomainError } from "../errors";
+import { orderRole } from "../access";
 
 /*
  * THE ORDER STATE MACHINE
@@ -45,16 +47,6 @@ export function deriveStatus(f: OrderFacts): OrderStatus {
   if (f.expiredAt) return "expired";
   if (f.declinedCount > 0) return "declined";
   return "created";
-}
-
-export class OrderError extends Error {
-  name = "OrderError";
-  constructor(
-    message: string,
-    readonly status = 400,
-  ) {
-    super(message);
-  }
 }
 
 /** Every provider event type the checkout flow listens to; the README lists them too. */
@@ -393,7 +385,7 @@ async function tellSeller(order: Order, transaction: Transaction): Promise<strin
 async function ownedOrder(by: User, orderId: number, transaction?: Transaction) {
   const order = Number.isInteger(orderId) && orderId > 0 ? await Order.findByPk(orderId, transaction ? locked(transaction) : {}) : null;
   const listing = order ? await Listing.findByPk(order.listingId, { transaction }) : null;
-  if (!order || !listing || (by.role !== "admin" && listing.coachId !== by.id)) throw new OrderError("No such order among your sales.", 404);
+  if (!order || !listing || orderRole(by, order, listing) !== "seller") throw new DomainError("not_found", "No such order among your sales.");
   return order;
 }
 
@@ -405,7 +397,7 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
   const claim = await writeTransaction(async (transaction) => {
     const order = await ownedOrder(by, orderId, transaction);
     if (order.status === "refunded") return { already: true as const, order };
-    if (order.paidCents === null || !order.paymentIntentId) throw new OrderError("There is no payment on record to refund.");
+    if (order.paidCents === null || !order.paymentIntentId) throw new DomainError("invalid", "There is no payment on record to refund.");
     if (order.refundRequestedAt && Date.now() - order.refundRequestedAt.getTime() < 60_000) return { already: true as const, order, inFlight: true };
     const at = new Date();
     await order.update({ refundRequestedAt: at }, { transaction });
@@ -417,7 +409,7 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
     refund = await payments().refunds.create({ payment_intent: claim.order.paymentIntentId!, metadata: { orderId: String(claim.order.id) } }, { idempotencyKey: `pacewright-order-${claim.order.id}-refund` });
   } catch (err) {
     await Order.update({ refundRequestedAt: null }, { where: { id: claim.order.id } });
-    throw new OrderError(`The payment provider refused the refund: ${(err as Error).message}. Nothing changed.`, 502);
+    throw new DomainError("upstream", `The payment provider refused the refund: ${(err as Error).message}. Nothing changed.`);
   }
   const assignmentId = await writeTransaction(async (transaction) => {
     const order = (await Order.findByPk(claim.order.id, locked(transaction)))!;
@@ -438,13 +430,13 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
 export async function resolveReview(by: User, orderId: number, action: "deliver" | "close") {
   const result = await writeTransaction(async (transaction) => {
     const order = await ownedOrder(by, orderId, transaction);
-    if (order.status !== "needs_review") throw new OrderError("This order is not waiting for review.");
+    if (order.status !== "needs_review") throw new DomainError("invalid", "This order is not waiting for review.");
     const reason = order.reviewReason ?? "";
     if (action === "deliver") {
-      if (order.paidCents === null) throw new OrderError("Nothing was paid for this order, so there is nothing to deliver. Close it instead.");
+      if (order.paidCents === null) throw new DomainError("invalid", "Nothing was paid for this order, so there is nothing to deliver. Close it instead.");
       return settle(order, { patch: { reviewReason: null }, outcome: "delivered" }, transaction, `Delivered by ${by.name} after review: ${reason}`);
     }
-    if (order.paidCents !== null && order.refundedCents < order.paidCents) throw new OrderError("Money was paid for this order: deliver the plan or refund it.");
+    if (order.paidCents !== null && order.refundedCents < order.paidCents) throw new DomainError("invalid", "Money was paid for this order: deliver the plan or refund it.");
     return settle(order, { patch: { reviewReason: null, expiredAt: order.expiredAt ?? new Date() }, outcome: "closed" }, transaction, `Closed by ${by.name} after review: ${reason}`);
   });
   // Delivering places the plan at once, as the coach expects to see it; the job is claimed like any other.

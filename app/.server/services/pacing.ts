@@ -15,6 +15,7 @@ import {
   type PacingPlan,
   type PlanComparison,
 } from "~/lib/training";
+import { DomainError } from "../errors";
 
 export interface PacingBasis {
   thresholdW: number;
@@ -106,16 +107,6 @@ export function pacingText(view: PacingView | undefined): string | null {
 
 const splitSchema = z.object({ split: z.array(z.coerce.number()).min(1) });
 
-export class PacingError extends Error {
-  name = "PacingError";
-  constructor(
-    message: string,
-    readonly status = 400,
-  ) {
-    super(message);
-  }
-}
-
 /**
  * A coach sets a test's split (or `reset` for the default). The feed sequence moves on so subscribed calendars
  * show the new targets. Only planned paced tests of this athlete; anything else is 404 or a clear 400.
@@ -123,15 +114,15 @@ export class PacingError extends Error {
 export async function savePacingSplit(athleteId: number, sessionId: number, input: { split?: unknown; reset?: boolean }) {
   return writeTransaction(async (transaction) => {
     const session = await ScheduledSession.findOne({ where: { id: sessionId, athleteId }, transaction });
-    if (!session) throw new PacingError("No session with this id is on this calendar.", 404);
-    if (!isPacedProtocol(session.testProtocol)) throw new PacingError("Only 20-minute and 8-minute tests have a split to edit.");
-    if (session.testProtocol === "ramp") throw new PacingError("A ramp is paced by its steps; it has no split to edit.");
+    if (!session) throw new DomainError("not_found", "No session with this id is on this calendar.");
+    if (!isPacedProtocol(session.testProtocol)) throw new DomainError("invalid", "Only 20-minute and 8-minute tests have a split to edit.");
+    if (session.testProtocol === "ramp") throw new DomainError("invalid", "A ramp is paced by its steps; it has no split to edit.");
     let value: string | null = null;
     if (!input.reset) {
       const parsed = splitSchema.safeParse({ split: input.split });
-      if (!parsed.success) throw new PacingError("Give each segment as a number (% of expected power).");
+      if (!parsed.success) throw new DomainError("invalid", "Give each segment as a number (% of expected power).");
       const problem = validateSplit(parsed.data.split);
-      if (problem) throw new PacingError(problem);
+      if (problem) throw new DomainError("invalid", problem);
       value = JSON.stringify(parsed.data.split);
     }
     await session.update({ pacingSplit: value, feedSequence: session.feedSequence + 1 }, { transaction });

@@ -1,6 +1,7 @@
 import { Op, type Transaction } from "sequelize";
 import { Assignment, ScheduledSession, SeasonPlan, Threshold } from "../models";
 import { thresholdSport } from "./thresholds";
+import { DomainError } from "../errors";
 
 /**
  * Checks made before a plan lands on an athlete's calendar, whoever places it (a coach assigning, a paid order):
@@ -26,10 +27,6 @@ export interface PlacementReport {
 export type PlacementChoice = { overlap?: "replace" | "alongside"; replaceFrom?: string; confirmSports?: boolean; confirmTests?: boolean };
 
 export const needsChoice = (r: PlacementReport) => r.sportsWithoutThreshold.length > 0 || r.overlap !== null || r.testDays.length > 0;
-
-export class PlacementChoiceError extends Error {
-  name = "PlacementChoiceError";
-}
 
 async function planned(athleteId: number, from: string, to: string, transaction?: Transaction) {
   return ScheduledSession.findAll({ where: { athleteId, status: "planned", date: { [Op.between]: [from, to] } }, order: [["date", "ASC"]], transaction });
@@ -74,9 +71,9 @@ export async function checkPlacement(athleteId: number, entries: PlacementEntry[
 export async function applyPlacementChoice(athleteId: number, entries: PlacementEntry[], choice: PlacementChoice, transaction: Transaction): Promise<{ cancelled: number }> {
   const replaceFrom = choice.overlap === "replace" ? (choice.replaceFrom ?? entries.map((e) => e.date).sort()[0]) : undefined;
   const report = await checkPlacement(athleteId, entries, { replaceFrom, transaction });
-  if (report.sportsWithoutThreshold.length && !choice.confirmSports) throw new PlacementChoiceError(`No threshold yet for ${report.sportsWithoutThreshold.join(", ")}: confirm to place the plan anyway.`);
-  if (report.overlap && !choice.overlap) throw new PlacementChoiceError("Sessions are already planned in these weeks: choose to replace them from a date or to place the plan alongside.");
-  if (report.testDays.length && !choice.confirmTests) throw new PlacementChoiceError(`Two maximal tests would fall on ${report.testDays.map((d) => d.date).join(", ")}: confirm, or replace the sessions already there.`);
+  if (report.sportsWithoutThreshold.length && !choice.confirmSports) throw new DomainError("confirm_needed", `No threshold yet for ${report.sportsWithoutThreshold.join(", ")}: confirm to place the plan anyway.`);
+  if (report.overlap && !choice.overlap) throw new DomainError("confirm_needed", "Sessions are already planned in these weeks: choose to replace them from a date or to place the plan alongside.");
+  if (report.testDays.length && !choice.confirmTests) throw new DomainError("confirm_needed", `Two maximal tests would fall on ${report.testDays.map((d) => d.date).join(", ")}: confirm, or replace the sessions already there.`);
   if (!replaceFrom || !report.overlap) return { cancelled: 0 };
   const last = entries.map((e) => e.date).sort().at(-1)!;
   const doomed = await planned(athleteId, replaceFrom, last, transaction);

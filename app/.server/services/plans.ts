@@ -7,19 +7,9 @@ import { defaultTestFor } from "~/lib/protocols";
 import { recurrenceSummary, type NewPlanInput } from "~/lib/plans";
 import { blockDuration, seasonSkeleton, type Block } from "~/lib/training";
 import { addDays, addWeeks, daysBetween, fromMs, toMs } from "~/lib/dates";
+import { DomainError } from "../errors";
 
 const { RRule } = rrule;
-
-export class PlanError extends Error {
-  name = "PlanError";
-  constructor(
-    message: string,
-    readonly status = 400,
-    readonly field?: string,
-  ) {
-    super(message);
-  }
-}
 
 /** Day index of the automatic field test in a test week: Tuesday, after a Monday rest day. */
 const TEST_DAY = 1;
@@ -77,7 +67,7 @@ export async function requirePlan(ownerId: number, planId: number, transaction?:
   // Inside a write the plan row is locked (PostgreSQL; SQLite has one writer anyway), so concurrent changes to one
   // plan queue on the database, whichever instance they arrive at.
   const plan = Number.isInteger(planId) && planId > 0 ? await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction, lock: transaction ? transaction.LOCK.UPDATE : undefined }) : null;
-  if (!plan) throw new PlanError("No plan with this id is yours.", 404);
+  if (!plan) throw new DomainError("not_found", "No plan with this id is yours.");
   return plan;
 }
 
@@ -172,7 +162,7 @@ export async function updateWeek(ownerId: number, planId: number, input: { weekI
   return writeTransaction(async (transaction) => {
     await requirePlan(ownerId, planId, transaction);
     const week = await PlanWeek.findOne({ where: { id: input.weekId, planId }, transaction });
-    if (!week) throw new PlanError("That week is not part of this plan.", 404);
+    if (!week) throw new DomainError("not_found", "That week is not part of this plan.");
     await week.update({ phase: input.phase, recovery: input.recovery, test: input.test, plannedHours: input.plannedHours, notes: input.notes }, { transaction });
     await bumpVersion(planId, transaction);
     return week;
@@ -194,7 +184,7 @@ export async function updateWeeks(ownerId: number, planId: number, edits: WeekEd
   return writeTransaction(async (transaction) => {
     await requirePlan(ownerId, planId, transaction);
     const weeks = await PlanWeek.findAll({ where: { planId, id: edits.map((e) => e.weekId) }, transaction });
-    if (weeks.length !== new Set(edits.map((e) => e.weekId)).size) throw new PlanError("That week is not part of this plan.", 404);
+    if (weeks.length !== new Set(edits.map((e) => e.weekId)).size) throw new DomainError("not_found", "That week is not part of this plan.");
     const byId = new Map(weeks.map((w) => [w.id, w]));
     let changed = 0;
     for (const e of edits) {
@@ -214,9 +204,9 @@ export async function editWeekRange(ownerId: number, planId: number, input: { fr
   return writeTransaction(async (transaction) => {
     await requirePlan(ownerId, planId, transaction);
     const count = await PlanWeek.count({ where: { planId }, transaction });
-    if (input.toWeek > count) throw new PlanError(`This plan has ${count} weeks.`, 400, "toWeek");
+    if (input.toWeek > count) throw new DomainError("invalid", `This plan has ${count} weeks.`, { field: "toWeek" });
     const set = { ...(input.phase ? { phase: input.phase } : {}), ...(input.plannedHours !== undefined ? { plannedHours: input.plannedHours } : {}), ...(input.loadFactor !== undefined ? { loadFactor: input.loadFactor } : {}) };
-    if (Object.keys(set).length === 0) throw new PlanError("Choose at least one thing to change.", 400, "phase");
+    if (Object.keys(set).length === 0) throw new DomainError("invalid", "Choose at least one thing to change.", { field: "phase" });
     const [n] = await PlanWeek.update(set, { where: { planId, idx: { [Op.between]: [input.fromWeek, input.toWeek] } }, transaction });
     await bumpVersion(planId, transaction);
     return n;
@@ -228,7 +218,7 @@ export async function setPhaseRange(ownerId: number, planId: number, input: { ph
   return writeTransaction(async (transaction) => {
     await requirePlan(ownerId, planId, transaction);
     const count = await PlanWeek.count({ where: { planId }, transaction });
-    if (input.toWeek > count) throw new PlanError(`This plan has ${count} weeks.`, 400, "toWeek");
+    if (input.toWeek > count) throw new DomainError("invalid", `This plan has ${count} weeks.`, { field: "toWeek" });
     const [n] = await PlanWeek.update({ phase: input.phase }, { where: { planId, idx: { [Op.between]: [input.fromWeek, input.toWeek] } }, transaction });
     await bumpVersion(planId, transaction);
     return n;
@@ -252,11 +242,11 @@ const UNALIGNED_ANCHOR = "2001-01-01";
  */
 export async function addRecurrence(ownerId: number, planId: number, input: { sessionId: number; days: number[]; fromWeek: number; toWeek: number; timeOfDay?: string }) {
   const found = await getSession(ownerId, input.sessionId);
-  if (!found) throw new PlanError("That session is not on your shelf.", 404, "sessionId");
+  if (!found) throw new DomainError("not_found", "That session is not on your shelf.", { field: "sessionId" });
   return writeTransaction(async (transaction) => {
     const plan = await requirePlan(ownerId, planId, transaction);
     const weeks = await PlanWeek.findAll({ where: { planId }, order: [["idx", "ASC"]], transaction });
-    if (input.toWeek > weeks.length) throw new PlanError(`This plan has ${weeks.length} weeks.`, 400, "toWeek");
+    if (input.toWeek > weeks.length) throw new DomainError("invalid", `This plan has ${weeks.length} weeks.`, { field: "toWeek" });
     const anchor = plan.startDate ?? UNALIGNED_ANCHOR;
     // rrule works in UTC instants; the plan's calendar days are midnight UTC of each date.
     const dtstart = new Date(toMs(addWeeks(anchor, input.fromWeek - 1)));

@@ -1,32 +1,11 @@
 import Papa from "papaparse";
 import { Op } from "sequelize";
 import { writeTransaction } from "../db";
-import { notFound } from "../http";
-import { CoachAthlete, FieldTest, Threshold, Upload, User } from "../models";
+import { FieldTest, Threshold, Upload, User } from "../models";
 import { bandSetsFor } from "./bands";
 import { loadActivity, type UploadSummary } from "./uploads";
 import { bandLoad, bandSetKeyFor, lapsFromSplits, lapTable, normaliseLaps, wPrimeBalance, type Activity, type LapMark } from "~/lib/training";
-
-export class RideError extends Error {
-  name = "RideError";
-  constructor(
-    message: string,
-    readonly status = 400,
-  ) {
-    super(message);
-  }
-}
-
-/** A ride file the viewer may see: their own, or one of their athlete's when they coach them. Anything else is 404. */
-export async function rideForViewer(viewer: User, uploadId: number): Promise<{ upload: Upload; athlete: User }> {
-  const upload = Number.isInteger(uploadId) && uploadId > 0 ? await Upload.findByPk(uploadId) : null;
-  if (!upload) notFound("No ride file with this id.");
-  if (upload.athleteId === viewer.id) return { upload, athlete: viewer };
-  if (viewer.role === "coach" && (await CoachAthlete.findOne({ where: { coachId: viewer.id, athleteId: upload.athleteId } }))) {
-    return { upload, athlete: (await User.findByPk(upload.athleteId))! };
-  }
-  notFound("No ride file with this id.");
-}
+import { DomainError } from "../errors";
 
 type StoredLaps = { laps: LapMark[]; efforts: (number | null)[]; marked: boolean };
 
@@ -112,15 +91,15 @@ export async function saveLaps(upload: Upload, input: { splits: unknown; efforts
   const splits: number[] = [];
   for (const r of raw) {
     const s = clockToSeconds(r);
-    if (s === null) throw new RideError(`“${r}” is not a time; write splits as m:ss, separated by commas.`);
-    if (s <= 0 || s >= length) throw new RideError(`The split at ${r} lies outside the ride.`);
+    if (s === null) throw new DomainError("invalid", `“${r}” is not a time; write splits as m:ss, separated by commas.`);
+    if (s <= 0 || s >= length) throw new DomainError("invalid", `The split at ${r} lies outside the ride.`);
     splits.push(s);
   }
   const efforts = input.efforts.map((e) => {
     const v = String(e ?? "").trim();
     if (v === "") return null;
     const n = Number(v);
-    if (!Number.isInteger(n) || n < 0 || n > 10) throw new RideError("An effort score is a whole number from 0 to 10.");
+    if (!Number.isInteger(n) || n < 0 || n > 10) throw new DomainError("invalid", "An effort score is a whole number from 0 to 10.");
     return n;
   });
   let value: string | null;

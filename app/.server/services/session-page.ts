@@ -1,15 +1,12 @@
-import { data } from "react-router";
-import { z } from "zod";
-import { notFound } from "../http";
+import { DomainError } from "../errors";
 import type { User } from "../models";
-import { CalendarError, completeSession, sessionDetail } from "./calendar";
+import { sessionDetail } from "./calendar";
 import { bandSetsFor } from "./bands";
 import { currentThresholds, thresholdSport, unitFor } from "./thresholds";
 import type { UploadSummary } from "./uploads";
 import { Threshold, Upload } from "../models";
 import { Op } from "sequelize";
 import { todayIn } from "~/lib/dates";
-import { parseForm } from "~/lib/forms";
 import { bandSetKeyFor, bandShade, minutesPerBand, type Metric } from "~/lib/training";
 import { bandTable } from "~/lib/band-table";
 import { blockBands } from "~/lib/schedule-text";
@@ -22,7 +19,7 @@ import { pacingOutcome, pacingPlansFor } from "./pacing";
  */
 export async function sessionPageData(athlete: User, sessionId: number, opts: { lap?: { lengthM?: number | null; lapTimeS?: number | null } | null } = {}) {
   const found = await sessionDetail(athlete.id, sessionId);
-  if (!found) notFound("No session with this id is on this calendar.");
+  if (!found) throw new DomainError("not_found", "No session with this id is on this calendar.");
   const { session, steps } = found;
   const tsport = thresholdSport(session.sport);
   const metrics = [...new Set(steps.map((s) => s.metric).filter((m): m is Metric => m !== null))];
@@ -80,25 +77,4 @@ export async function sessionPageData(athlete: User, sessionId: number, opts: { 
     bandsByBlock,
     timeInBand,
   };
-}
-
-const completeSchema = z
-  .object({
-    status: z.enum(["done", "skipped", "planned"], { error: "Choose done or skipped." }),
-    effortScore: z.coerce.number().int().min(0).max(10).optional(),
-    minutes: z.coerce.number().min(1, "Minutes must be at least 1.").max(1440, "Minutes must be at most 1440.").optional(),
-    comment: z.string().max(1000).default(""),
-  })
-  .refine((v) => v.status !== "done" || v.effortScore !== undefined, { message: "Choose how hard it felt (0–10).", path: ["effortScore"] });
-
-export async function completeFromForm(athlete: User, sessionId: number, form: FormData) {
-  const parsed = parseForm(completeSchema, form);
-  if (!parsed.ok) return data({ ok: false, message: "Check the form.", fieldErrors: parsed.fieldErrors }, { status: 400 });
-  try {
-    const s = await completeSession(athlete.id, sessionId, { status: parsed.data.status, effortScore: parsed.data.effortScore ?? null, minutes: parsed.data.minutes ?? null, comment: parsed.data.comment });
-    return { ok: true, message: s.status === "done" ? "Marked done. Nice work." : s.status === "skipped" ? "Marked skipped." : "Back to planned.", fieldErrors: {} };
-  } catch (err) {
-    if (err instanceof CalendarError) return data({ ok: false, message: err.message, fieldErrors: {} }, { status: err.status });
-    throw err;
-  }
 }

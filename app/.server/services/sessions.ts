@@ -5,16 +5,7 @@ import { db, dialect, writeTransaction } from "../db";
 import { PlanItem, Session, SessionBlock } from "../models";
 import { describeIssues, EXPORT_FORMAT, exportSchema, sessionSchema, type SessionInput } from "~/lib/sessions";
 import { blockDuration, expandBlocks, type Block } from "~/lib/training";
-
-export class SessionError extends Error {
-  name = "SessionError";
-  constructor(
-    message: string,
-    readonly details: string[] = [],
-  ) {
-    super(message);
-  }
-}
+import { DomainError } from "../errors";
 
 export interface SessionSummary {
   id: number;
@@ -192,10 +183,10 @@ export function parseSessionFile(text: string): SessionInput[] {
   try {
     json = JSON.parse(text);
   } catch {
-    throw new SessionError("The file is not valid JSON.");
+    throw new DomainError("invalid", "The file is not valid JSON.");
   }
   const head = exportSchema.safeParse(json);
-  if (!head.success) throw new SessionError("The file could not be imported.", describeIssues(head.error));
+  if (!head.success) throw new DomainError("invalid", "The file could not be imported.", { details: describeIssues(head.error) });
   const out: SessionInput[] = [];
   const problems: string[] = [];
   head.data.sessions.forEach((raw, i) => {
@@ -203,7 +194,7 @@ export function parseSessionFile(text: string): SessionInput[] {
     if (parsed.success) out.push(parsed.data);
     else problems.push(...describeIssues(parsed.error, `session ${i + 1}: `));
   });
-  if (problems.length) throw new SessionError("Nothing was imported: some sessions are not valid.", problems.slice(0, 10));
+  if (problems.length) throw new DomainError("invalid", "Nothing was imported: some sessions are not valid.", { details: problems.slice(0, 10) });
   return out;
 }
 

@@ -6,19 +6,10 @@ import { env } from "../env";
 import { queueEmail } from "../mail";
 import { Listing, Order, PlanWeek, SeasonPlan, User } from "../models";
 import { payments, verifyWebhook } from "../payments";
-import { applyProviderEvent, OrderError, refundByPerson } from "./orders";
+import { applyProviderEvent, refundByPerson } from "./orders";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { CURRENCIES, formatPrice, LEVELS, ORDER_STATUS_LABELS, parsePriceCents } from "~/lib/shop";
-
-export class ShopError extends Error {
-  name = "ShopError";
-  constructor(
-    message: string,
-    readonly status = 400,
-  ) {
-    super(message);
-  }
-}
+import { DomainError } from "../errors";
 
 export { CURRENCIES, LEVELS };
 
@@ -48,7 +39,7 @@ const slugify = (s: string) => s.toLowerCase().normalize("NFKD").replace(/[^\w\s
 
 export async function createListing(coach: User, input: z.infer<typeof listingSchema>) {
   const plan = await SeasonPlan.findOne({ where: { id: input.planId, ownerId: coach.id } });
-  if (!plan) throw new ShopError("That plan is not yours.", 404);
+  if (!plan) throw new DomainError("not_found", "That plan is not yours.");
   const weeks = await PlanWeek.findAll({ where: { planId: plan.id } });
   const hours = weeks.reduce((s, w) => s + w.plannedHours, 0) / Math.max(1, weeks.length);
   return writeTransaction((transaction) =>
@@ -74,7 +65,7 @@ export async function createListing(coach: User, input: z.infer<typeof listingSc
 
 export async function setPublished(coach: User, listingId: number, published: boolean) {
   const [n] = await Listing.update({ published }, { where: { id: listingId, coachId: coach.id } });
-  if (n !== 1) throw new ShopError("That listing is not yours.", 404);
+  if (n !== 1) throw new DomainError("not_found", "That listing is not yours.");
 }
 
 /**
@@ -84,7 +75,7 @@ export async function setPublished(coach: User, listingId: number, published: bo
 export async function updateListing(coach: User, input: z.infer<typeof listingEditSchema>) {
   return writeTransaction(async (transaction) => {
     const listing = await Listing.findOne({ where: { id: input.listingId, coachId: coach.id }, transaction });
-    if (!listing) throw new ShopError("That listing is not yours.", 404);
+    if (!listing) throw new DomainError("not_found", "That listing is not yours.");
     await listing.update({ title: input.title, description: input.description, coverText: input.coverText, level: input.level, priceCents: input.priceCents }, { transaction });
     return listing;
   });
@@ -104,10 +95,10 @@ export async function publishedListings(filter: { sport?: string; maxWeeks?: num
 
 /** Creates the pending order and the provider's checkout session; returns where to send the buyer. */
 export async function startCheckout(buyer: User, listing: Listing, align: { mode: "start" | "event"; date: string }, requestOrigin?: string) {
-  if (buyer.role !== "athlete") throw new ShopError("Plans are bought with an athlete account.", 403);
-  if (!listing.published) throw new ShopError("This plan is not for sale right now.", 404);
-  if (!isIsoDate(align.date)) throw new ShopError("Choose a date.");
-  if (align.mode === "start" && align.date < todayIn(buyer.timezone)) throw new ShopError("Choose a start date from today on.");
+  if (buyer.role !== "athlete") throw new DomainError("forbidden", "Plans are bought with an athlete account.");
+  if (!listing.published) throw new DomainError("not_found", "This plan is not for sale right now.");
+  if (!isIsoDate(align.date)) throw new DomainError("invalid", "Choose a date.");
+  if (align.mode === "start" && align.date < todayIn(buyer.timezone)) throw new DomainError("invalid", "Choose a start date from today on.");
   const order = await writeTransaction((transaction) =>
     Order.create({ listingId: listing.id, buyerId: buyer.id, amountCents: listing.priceCents, currency: listing.currency, alignMode: align.mode, alignDate: align.date, returnOrigin: returnOrigin(requestOrigin) }, { transaction }),
   );
@@ -129,7 +120,7 @@ export async function startCheckout(buyer: User, listing: Listing, align: { mode
     return { order, url: session.url! };
   } catch (err) {
     await order.update({ status: "expired", expiredAt: new Date(), note: `The payment provider could not be reached: ${(err as Error).message}` });
-    throw new ShopError("The payment provider could not be reached. Nothing was charged; try again in a moment.", 502);
+    throw new DomainError("upstream", "The payment provider could not be reached. Nothing was charged; try again in a moment.");
   }
 }
 
@@ -139,19 +130,14 @@ export async function handlePaymentEvent(rawBody: string, signature: string | nu
   try {
     event = verifyWebhook(rawBody, signature);
   } catch {
-    throw new ShopError("Webhook signature does not match.", 400);
+    throw new DomainError("invalid", "Webhook signature does not match.");
   }
   return applyProviderEvent(event as never, rawBody);
 }
 
 /** The coach's (or an admin's) refund; a second click, or the provider's own refund event, changes nothing more. */
 export async function refundOrder(by: User, orderId: number) {
-  try {
-    return await refundByPerson(by, orderId);
-  } catch (err) {
-    if (err instanceof OrderError) throw new ShopError(err.message, err.status);
-    throw err;
-  }
+  return refundByPerson(by, orderId);
 }
 
 /**

@@ -1,18 +1,16 @@
 import crypto from "node:crypto";
 import QRCode from "qrcode";
-import { createCookie } from "react-router";
 import { writeTransaction } from "../db";
-import { env } from "../env";
 import { RecoveryCode, StudioSetting, User } from "../models";
 import { matchingStep, newTotpSecret, totp } from "../security/totp";
+import { DomainError } from "../errors";
+import { twoStepOn } from "../auth";
+
+export { twoStepOn };
 
 export const RECOVERY_CODE_COUNT = 10;
 const REQUIRED_KEY = "two_step_required_for_staff";
 const STAFF = new Set(["coach", "admin"]);
-
-export class TwoStepError extends Error {
-  name = "TwoStepError";
-}
 
 const hashCode = (code: string) => crypto.createHash("sha256").update(code.replace(/[\s-]/g, "").toLowerCase()).digest("hex");
 
@@ -32,7 +30,6 @@ export async function setTwoStepRequiredForStaff(required: boolean) {
   await writeTransaction((transaction) => StudioSetting.upsert({ key: REQUIRED_KEY, value: String(required) }, { transaction }));
 }
 
-export const twoStepOn = (user: User) => Boolean(user.totpEnabledAt && user.totpSecret);
 
 /** A coach or admin in a studio that requires two-step sign-in, who has not set it up yet. */
 export async function mustEnrol(user: User) {
@@ -41,8 +38,8 @@ export async function mustEnrol(user: User) {
 
 /** Starts (or restarts) enrolment: a new secret, not yet in force, with the QR code an authenticator app scans. */
 export async function startEnrolment(user: User) {
-  if (!STAFF.has(user.role)) throw new TwoStepError("Two-step sign-in is for coach and admin accounts.");
-  if (twoStepOn(user)) throw new TwoStepError("Two-step sign-in is already on. Turn it off first to set up a new app.");
+  if (!STAFF.has(user.role)) throw new DomainError("invalid", "Two-step sign-in is for coach and admin accounts.");
+  if (twoStepOn(user)) throw new DomainError("invalid", "Two-step sign-in is already on. Turn it off first to set up a new app.");
   const secret = newTotpSecret();
   await writeTransaction((transaction) => User.update({ totpSecret: secret, totpEnabledAt: null, totpLastStep: null }, { where: { id: user.id }, transaction }));
   user.totpSecret = secret;
@@ -57,9 +54,9 @@ export async function enrolmentView(user: User) {
 
 /** Turns two-step sign-in on once the app shows a matching code; answers the recovery codes, shown this once. */
 export async function confirmEnrolment(user: User, code: string): Promise<string[]> {
-  if (!user.totpSecret || twoStepOn(user)) throw new TwoStepError("Start the set-up again.");
+  if (!user.totpSecret || twoStepOn(user)) throw new DomainError("invalid", "Start the set-up again.");
   const step = matchingStep(user.totpSecret, code.replace(/\s/g, ""));
-  if (step === null) throw new TwoStepError("That code does not match. Check the time on your phone and enter the newest code.");
+  if (step === null) throw new DomainError("invalid", "That code does not match. Check the time on your phone and enter the newest code.");
   const codes = Array.from({ length: RECOVERY_CODE_COUNT }, newRecoveryCode);
   await writeTransaction(async (transaction) => {
     await User.update({ totpEnabledAt: new Date(), totpLastStep: step }, { where: { id: user.id }, transaction });
@@ -71,8 +68,8 @@ export async function confirmEnrolment(user: User, code: string): Promise<string
 
 /** Turns two-step sign-in off after a current code or a recovery code; not while the studio requires it. */
 export async function disableTwoStep(user: User, code: string) {
-  if (STAFF.has(user.role) && (await twoStepRequiredForStaff())) throw new TwoStepError("Your studio requires two-step sign-in for coaches and admins.");
-  if (!(await verifySecondStep(user, code))) throw new TwoStepError("That code does not match.");
+  if (STAFF.has(user.role) && (await twoStepRequiredForStaff())) throw new DomainError("invalid", "Your studio requires two-step sign-in for coaches and admins.");
+  if (!(await verifySecondStep(user, code))) throw new DomainError("invalid", "That code does not match.");
   await writeTransaction(async (transaction) => {
     await User.update({ totpSecret: null, totpEnabledAt: null, totpLastStep: null }, { where: { id: user.id }, transaction });
     await RecoveryCode.destroy({ where: { userId: user.id }, transaction });
@@ -106,31 +103,3 @@ export async function verifySecondStep(user: User, input: string): Promise<boole
 export async function recoveryCodesLeft(user: User) {
   return RecoveryCode.count({ where: { userId: user.id, usedAt: null } });
 }
-
-/**
- * Between the password and the code: a short-lived signed cookie naming the account. It grants nothing by itself;
- * only a matching code turns it into a session.
- */
-export const pendingSignIn = createCookie("pw_two_step", {
-  httpOnly: true,
-  sameSite: "lax",
-  path: "/login",
-  maxAge: 5 * 60,
-  get secrets() {
-    return [env().sessionSecret];
-  },
-});
-
-export async function pendingCookieFor(user: User, redirectTo: string) {
-  return pendingSignIn.serialize({ userId: user.id, until: Date.now() + 5 * 60 * 1000, redirectTo }, { secure: env().appUrl.startsWith("https://") });
-}
-
-export async function readPending(request: Request): Promise<{ user: User; redirectTo: string } | null> {
-  const value = (await pendingSignIn.parse(request.headers.get("cookie"))) as { userId?: unknown; until?: unknown; redirectTo?: unknown } | null;
-  if (!value || typeof value.userId !== "number" || typeof value.until !== "number" || value.until < Date.now()) return null;
-  const user = await User.findByPk(value.userId);
-  if (!user || !twoStepOn(user)) return null;
-  return { user, redirectTo: typeof value.redirectTo === "string" ? value.redirectTo : "/" };
-}
-
-export const clearPendingCookie = () => pendingSignIn.serialize("", { maxAge: 0 });

@@ -22,7 +22,7 @@ export interface ActivityTask {
 
 export type ActivityTaskResult =
   | { ok: true; summary: UploadSummary; trace: TracePoint[]; activity: Activity | null }
-  | { ok: false; status: number; message: string };
+  | { ok: false; kind: "invalid" | "too_large"; message: string };
 
 export interface TracePoint {
   t: number;
@@ -121,7 +121,7 @@ export default function readActivity(task: ActivityTask): ActivityTaskResult {
   if (rows > task.limits.maxRows) {
     return {
       ok: false,
-      status: 413,
+      kind: "too_large",
       message: `This file has about ${rows.toLocaleString("en")} rows; at most ${task.limits.maxRows.toLocaleString("en")} are read (${hours(task.limits.maxDurationS)} hours at one a second). Split it or export one ride.`,
     };
   }
@@ -129,13 +129,13 @@ export default function readActivity(task: ActivityTask): ActivityTaskResult {
   try {
     activity = parseActivity(bytes, task.name);
   } catch (err) {
-    if (err instanceof TrainingInputError) return { ok: false, status: 400, message: `This file cannot be used: ${err.message}` };
+    if (err instanceof TrainingInputError) return { ok: false, kind: "invalid", message: `This file cannot be used: ${err.message}` };
     throw err;
   }
   if (activity.meta.durationS > task.limits.maxDurationS) {
     return {
       ok: false,
-      status: 413,
+      kind: "too_large",
       message: `This file covers ${hours(activity.meta.durationS)} hours; at most ${hours(task.limits.maxDurationS)} hours are read. Split it or export one ride.`,
     };
   }

@@ -2,7 +2,7 @@ import { data, redirect, useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage } from "~/components/ui/field";
-import { endSession, requireUser } from "~/.server/auth";
+import { currentSessionKey, endSession, requireUser } from "~/.server/auth";
 import { listDevices, signOutDevice, signOutEverywhereElse } from "~/.server/services/devices";
 import {
   confirmEnrolment,
@@ -14,9 +14,9 @@ import {
   startEnrolment,
   twoStepOn,
   twoStepRequiredForStaff,
-  TwoStepError,
 } from "~/.server/services/two-step";
 import { forbidden, notFound } from "~/.server/http";
+import { pageFailure } from "~/.server/replies";
 import { formatDateTime } from "~/lib/format";
 import type { Route } from "./+types/security";
 
@@ -27,7 +27,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const staff = user.role === "coach" || user.role === "admin";
   return {
     timezone: user.timezone,
-    devices: await listDevices(user, request),
+    devices: await listDevices(user, await currentSessionKey(request)),
     twoStep: staff
       ? {
           on: twoStepOn(user),
@@ -53,7 +53,7 @@ export async function action({ request }: Route.ActionArgs) {
     switch (intent) {
       case "sign-out-device": {
         const handle = String(form.get("handle") ?? "");
-        const devices = await listDevices(user, request);
+        const devices = await listDevices(user, await currentSessionKey(request));
         const device = devices.find((d) => d.handle === handle);
         if (!device) notFound("That device is not signed in to your account.");
         if (device.current) {
@@ -64,7 +64,7 @@ export async function action({ request }: Route.ActionArgs) {
         return data<Result>({ ok: true, message: `${device.label} is signed out.` });
       }
       case "sign-out-others": {
-        const n = await signOutEverywhereElse(user, request);
+        const n = await signOutEverywhereElse(user, await currentSessionKey(request));
         return data<Result>({ ok: true, message: n === 0 ? "No other device was signed in." : `Signed out ${n} other ${n === 1 ? "device" : "devices"}.` });
       }
       case "two-step-start":
@@ -87,8 +87,7 @@ export async function action({ request }: Route.ActionArgs) {
         return fail("Unknown action.");
     }
   } catch (err) {
-    if (err instanceof TwoStepError) return fail(err.message);
-    throw err;
+    return pageFailure(err, (e): Result => ({ ok: false, message: e.message }));
   }
 }
 

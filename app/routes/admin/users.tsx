@@ -5,7 +5,8 @@ import { buttonClass } from "~/components/ui/button";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { User } from "~/.server/models";
-import { AccountError, changeRole } from "~/.server/services/accounts";
+import { pageFailure } from "~/.server/replies";
+import { changeRole } from "~/.server/services/accounts";
 import { formatDate } from "~/lib/format";
 import { parseForm, roleChangeSchema } from "~/lib/forms";
 import { ROLES } from "~/lib/roles";
@@ -31,8 +32,7 @@ export async function action({ request }: Route.ActionArgs) {
     const user = await changeRole(admin, parsed.data.userId, parsed.data.role);
     return { ok: true as const, message: `${user.name} is now ${user.role}.` };
   } catch (err) {
-    if (err instanceof AccountError) return data({ ok: false as const, error: err.message }, { status: 400 });
-    throw err;
+    return pageFailure(err, (e) => ({ ok: false as const, error: e.message }));
   }
 }
 

@@ -1,6 +1,6 @@
 import Papa from "papaparse";
 import { requireUser } from "~/.server/auth";
-import { calendarSubject } from "~/.server/services/calendar";
+import { requireAthleteFor } from "~/.server/access";
 import { loadSeries, powerCurveComparison } from "~/.server/services/load";
 import { addDays, daysBetween, isIsoDate, todayIn } from "~/lib/dates";
 import type { Route } from "./+types/athlete-load";
@@ -13,7 +13,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const viewer = await requireUser(request);
   // An athlete reads only their own series; asking for another id looks exactly like asking for a made-up one.
   if (viewer.role === "athlete" && String(viewer.id) !== params.id) return new Response("Not found", { status: 404 });
-  const athlete = viewer.role === "athlete" ? viewer : await calendarSubject(viewer, params.id);
+  const athlete = viewer.role === "athlete" ? viewer : await requireAthleteFor(viewer, params.id);
   const url = new URL(request.url);
   const today = todayIn(athlete.timezone);
   const from = url.searchParams.get("from") ?? addDays(today, -89);

@@ -1,6 +1,8 @@
 import { z } from "zod";
 import { requireUser } from "~/.server/auth";
-import { calendarRange, calendarSubject, CalendarError, moveSession } from "~/.server/services/calendar";
+import { requireAthleteFor } from "~/.server/access";
+import { calendarRange, moveSession } from "~/.server/services/calendar";
+import { jsonFailure } from "~/.server/replies";
 import { daysBetween, isIsoDate } from "~/lib/dates";
 import { jsonResponse as json, requireJson } from "~/.server/http";
 import type { Route } from "./+types/calendar";
@@ -10,7 +12,7 @@ import type { Route } from "./+types/calendar";
 export async function loader({ request }: Route.LoaderArgs) {
   const viewer = await requireUser(request);
   const url = new URL(request.url);
-  const athlete = await calendarSubject(viewer, url.searchParams.get("athleteId"));
+  const athlete = await requireAthleteFor(viewer, url.searchParams.get("athleteId"));
   const from = url.searchParams.get("from");
   const to = url.searchParams.get("to");
   if (!isIsoDate(from) || !isIsoDate(to)) return json({ error: "Give from and to as dates like 2027-01-04." }, 400);
@@ -24,7 +26,7 @@ const moveSchema = z.object({ sessionId: z.number().int().positive(), date: z.st
 export async function action({ request }: Route.ActionArgs) {
   const viewer = await requireUser(request);
   const url = new URL(request.url);
-  const athlete = await calendarSubject(viewer, url.searchParams.get("athleteId"));
+  const athlete = await requireAthleteFor(viewer, url.searchParams.get("athleteId"));
   requireJson(request);
   let body: unknown;
   try {
@@ -38,8 +40,7 @@ export async function action({ request }: Route.ActionArgs) {
     const s = await moveSession(athlete.id, parsed.data.sessionId, parsed.data.date);
     return json({ ok: true, id: s.id, date: s.date });
   } catch (err) {
-    if (err instanceof CalendarError) return json({ error: err.message }, err.status);
-    throw err;
+    return jsonFailure(err);
   }
 }
 

@@ -1,20 +1,25 @@
+import { planFor } from "~/.server/access";
 import { requireRole } from "~/.server/auth";
-import { applyBoardOp, boardItemDetail, boardOpSchema, StaleBoardError } from "~/.server/services/board";
-import { loadPlan, PlanError } from "~/.server/services/plans";
+import { applyBoardOp, boardItemDetail, boardOpSchema } from "~/.server/services/board";
+import { loadPlan } from "~/.server/services/plans";
 import { jsonResponse as json, requireJson } from "~/.server/http";
+import { jsonFailure } from "~/.server/replies";
+
 import type { Route } from "./+types/plan-items";
+
+const NOT_YOURS = { error: "No plan with this id is yours." };
 
 /** The plan's items in full; with `?item=<id>` that one item (the board's drawer asks when a card opens). */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
+  if (!(await planFor(coach, Number(params.planId)))) return json(NOT_YOURS, 404);
   try {
     const itemId = new URL(request.url).searchParams.get("item");
     if (itemId !== null) return json({ item: await boardItemDetail(coach.id, Number(params.planId), Number(itemId)) });
     const { plan, items } = await loadPlan(coach.id, Number(params.planId));
     return json({ version: plan.version, items });
   } catch (err) {
-    if (err instanceof PlanError) return json({ error: err.message }, err.status);
-    throw err;
+    return jsonFailure(err);
   }
 }
 
@@ -22,6 +27,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
   requireJson(request);
+  if (!(await planFor(coach, Number(params.planId)))) return json(NOT_YOURS, 404);
   let body: unknown;
   try {
     body = await request.json();
@@ -33,8 +39,6 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     return json(await applyBoardOp(coach.id, Number(params.planId), parsed.data));
   } catch (err) {
-    if (err instanceof StaleBoardError) return json({ error: err.message, version: err.currentVersion }, 409);
-    if (err instanceof PlanError) return json({ error: err.message }, err.status);
-    throw err;
+    return jsonFailure(err);
   }
 }

@@ -1,6 +1,7 @@
 import { requireUser } from "~/.server/auth";
 import { notFound } from "~/.server/http";
-import { curveCsv, lapsOf, RIDE_CSV_COLUMNS, rideCsv, rideForViewer } from "~/.server/services/ride";
+import { requireUpload } from "~/.server/access";
+import { curveCsv, lapsOf, RIDE_CSV_COLUMNS, rideCsv } from "~/.server/services/ride";
 import { loadActivity, type UploadSummary } from "~/.server/services/uploads";
 import type { Route } from "./+types/ride";
 
@@ -10,7 +11,7 @@ import type { Route } from "./+types/ride";
  */
 export async function loader({ request, params }: Route.LoaderArgs) {
   const viewer = await requireUser(request);
-  const { upload } = await rideForViewer(viewer, Number(params.id));
+  const { upload } = await requireUpload(viewer, params.id);
   const summary = upload.summary as UploadSummary;
   const base = upload.originalName.replace(/\.[^.]+$/, "").replace(/[^\w.-]+/g, "-").slice(0, 60) || `ride-${upload.id}`;
   const file = params.file;

@@ -1,7 +1,8 @@
 import { z } from "zod";
 import { requireUser } from "~/.server/auth";
-import { calendarSubject } from "~/.server/services/calendar";
-import { preview, TestError } from "~/.server/services/field-tests";
+import { requireAthleteFor } from "~/.server/access";
+import { preview } from "~/.server/services/field-tests";
+import { jsonFailure } from "~/.server/replies";
 import { protocolSchema } from "~/lib/field-tests";
 import { jsonResponse as json, requireJson } from "~/.server/http";
 import type { Route } from "./+types/tests-preview";
@@ -18,7 +19,7 @@ export const submissionSchema = z.object({
 /** What saving this test would do: the proposed threshold beside the current one, counts, and examples. Changes nothing. */
 export async function action({ request }: Route.ActionArgs) {
   const viewer = await requireUser(request);
-  const athlete = await calendarSubject(viewer, new URL(request.url).searchParams.get("athleteId"));
+  const athlete = await requireAthleteFor(viewer, new URL(request.url).searchParams.get("athleteId"));
   requireJson(request);
   let body: unknown;
   try {
@@ -31,7 +32,6 @@ export async function action({ request }: Route.ActionArgs) {
   try {
     return json(await preview(athlete, parsed.data));
   } catch (err) {
-    if (err instanceof TestError) return json({ error: err.message, field: err.field }, err.status);
-    throw err;
+    return jsonFailure(err);
   }
 }

@@ -1,8 +1,10 @@
+import { requireAthleteFor, uploadFor } from "~/.server/access";
 import { requireUser } from "~/.server/auth";
 import { Upload } from "~/.server/models";
-import { calendarSubject } from "~/.server/services/calendar";
-import { receiveUpload, storedTrace, UploadError } from "~/.server/services/uploads";
+import { storedTrace, storeUpload } from "~/.server/services/uploads";
+import { readUploadBody } from "./uploads.server";
 import { jsonResponse as json } from "~/.server/http";
+import { jsonFailure } from "~/.server/replies";
 import type { Route } from "./+types/uploads";
 
 
@@ -10,16 +12,15 @@ import type { Route } from "./+types/uploads";
 export async function loader({ request }: Route.LoaderArgs) {
   const viewer = await requireUser(request);
   const url = new URL(request.url);
-  const athlete = await calendarSubject(viewer, url.searchParams.get("athleteId"));
+  const athlete = await requireAthleteFor(viewer, url.searchParams.get("athleteId"));
   const id = Number(url.searchParams.get("id"));
   if (id) {
-    const upload = await Upload.findOne({ where: { id, athleteId: athlete.id } });
-    if (!upload) return json({ error: "No such upload." }, 404);
+    const upload = (await uploadFor(viewer, id))?.upload;
+    if (!upload || upload.athleteId !== athlete.id) return json({ error: "No such upload." }, 404);
     try {
       return json({ upload: view(upload), trace: await storedTrace(upload) });
     } catch (err) {
-      if (err instanceof UploadError) return json({ error: err.message }, err.status);
-      throw err;
+      return jsonFailure(err);
     }
   }
   const uploads = await Upload.findAll({ where: { athleteId: athlete.id }, order: [["createdAt", "DESC"]], limit: 100 });
@@ -34,12 +35,11 @@ function view(u: Upload) {
 export async function action({ request }: Route.ActionArgs) {
   const viewer = await requireUser(request);
   const url = new URL(request.url);
-  const athlete = await calendarSubject(viewer, url.searchParams.get("athleteId"));
+  const athlete = await requireAthleteFor(viewer, url.searchParams.get("athleteId"));
   try {
-    const { upload, trace } = await receiveUpload(request, athlete, viewer);
+    const { upload, trace } = await storeUpload(await readUploadBody(request), athlete, viewer);
     return json({ upload: view(upload), trace }, 201);
   } catch (err) {
-    if (err instanceof UploadError) return json({ error: err.message }, err.status);
-    throw err;
+    return jsonFailure(err);
   }
 }

@@ -1,7 +1,7 @@
 import { FeedSettings } from "~/components/feed-settings";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
-import { feedPageAction, feedPageData } from "~/.server/services/feed-page";
+import { feedPageAction, feedPageData } from "./feed.server";
 import type { Route } from "./+types/feed";
 
 export const meta: Route.MetaFunction = () => [{ title: "Calendar feed · Pacewright" }];

@@ -1,7 +1,7 @@
 import { LoadCharts } from "~/components/load-charts";
 import { PageHeader } from "~/components/ui/card";
 import { loadSeries, powerCurveComparison } from "~/.server/services/load";
-import { athleteSubject } from "~/.server/subject";
+import { requireAthleteSubject } from "~/.server/access";
 import { addDays, todayIn } from "~/lib/dates";
 import { loadRange } from "~/lib/load-ranges";
 import type { Route } from "./+types/load";
@@ -9,7 +9,7 @@ import type { Route } from "./+types/load";
 export const meta: Route.MetaFunction = () => [{ title: "Training load · Pacewright" }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { athlete, viewer } = await athleteSubject(request, params.athleteId);
+  const { athlete, viewer } = await requireAthleteSubject(request, params.athleteId);
   const today = todayIn(athlete.timezone);
   // The period lives in the URL (?range=…), so it can be shared, bookmarked and kept on reload; unknown values fall back.
   const range = loadRange(new URL(request.url).searchParams.get("range"));

@@ -2,11 +2,14 @@ import { data, Link } from "react-router";
 import { SessionDetail } from "~/components/calendar/session-detail";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
-import { completeFromForm, sessionPageData } from "~/.server/services/session-page";
-import { attachRide, LoadError } from "~/.server/services/load";
+import { requireScheduledSession } from "~/.server/access";
+import { loaderFailure, pageFailure } from "~/.server/replies";
+import { sessionPageData } from "~/.server/services/session-page";
+import { attachRide } from "~/.server/services/load";
 import { AttachRide } from "~/components/calendar/attach-ride";
 import { SessionComments } from "~/components/calendar/session-comments";
-import { commentAction, listComments } from "~/.server/services/comments";
+import { listComments } from "~/.server/services/comments";
+import { commentAction, completeFromForm } from "./session.server";
 import { CoachAthlete, User } from "~/.server/models";
 import { lapFromSearch } from "~/.server/services/pacing";
 import { PacingCard, pacingQuery } from "~/components/pacing-plan";
@@ -16,27 +19,28 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const athlete = await requireRole(request, "athlete");
-  const page = await sessionPageData(athlete, Number(params.id), { lap: lapFromSearch(new URL(request.url)) });
+  const { id } = await requireScheduledSession(athlete, params.id);
+  const page = await sessionPageData(athlete, id, { lap: lapFromSearch(new URL(request.url)) }).catch(loaderFailure);
   const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) }, attributes: ["name"] });
   return { ...page, comments: await listComments(athlete, page.session.id), coachNames: coaches.map((c) => c.name), timezone: athlete.timezone };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
   const athlete = await requireRole(request, "athlete");
+  const { id } = await requireScheduledSession(athlete, params.id);
   const form = await request.formData();
-  if (form.get("intent") === "comment") return commentAction(athlete, Number(params.id), form);
+  if (form.get("intent") === "comment") return commentAction(athlete, id, form);
   if (form.get("intent") === "attach") {
-    const page = await sessionPageData(athlete, Number(params.id));
+    const page = await sessionPageData(athlete, id).catch(loaderFailure);
     const score = form.get("effortScore");
     try {
       const r = await attachRide(athlete, Number(form.get("uploadId")), page.session.date, score === null || score === "" ? null : Math.max(0, Math.min(10, Math.round(Number(score)))));
       return { ok: true, message: r.matched ? "Ride file attached; the session is marked done." : "This day had no planned ride left; the file was kept as an unplanned ride.", fieldErrors: {} };
     } catch (err) {
-      if (err instanceof LoadError) return data({ ok: false, message: err.message, fieldErrors: {} }, { status: err.status });
-      throw err;
+      return pageFailure(err, (e) => ({ ok: false, message: e.message, fieldErrors: {} }));
     }
   }
-  return completeFromForm(athlete, Number(params.id), form);
+  return completeFromForm(athlete, id, form);
 }
 
 export default function AthleteSession({ loaderData }: Route.ComponentProps) {

@@ -8,8 +8,9 @@ import { UploadBox, type UploadResult } from "~/components/upload-box";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
-import { saveTest, TestError } from "~/.server/services/field-tests";
-import { athleteSubject } from "~/.server/subject";
+import { requireAthleteSubject } from "~/.server/access";
+import { pageFailure } from "~/.server/replies";
+import { saveTest } from "~/.server/services/field-tests";
 import { todayIn } from "~/lib/dates";
 import { protocolSchema } from "~/lib/field-tests";
 import { PROTOCOLS, PROTOCOL_KEYS, READINESS, type ProtocolKey } from "~/lib/protocols";
@@ -19,7 +20,7 @@ import type { Route } from "./+types/test-new";
 export const meta: Route.MetaFunction = () => [{ title: "New field test · Pacewright" }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { athlete, base, viewer } = await athleteSubject(request, params.athleteId);
+  const { athlete, base, viewer } = await requireAthleteSubject(request, params.athleteId);
   return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, today: todayIn(athlete.timezone) };
 }
 
@@ -35,7 +36,7 @@ const saveSchema = z.object({
 });
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { athlete, viewer, base } = await athleteSubject(request, params.athleteId);
+  const { athlete, viewer, base } = await requireAthleteSubject(request, params.athleteId);
   requireJson(request);
   let body: unknown;
   try {
@@ -49,8 +50,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const { test } = await saveTest(athlete, viewer, parsed.data);
     return redirect(`${base}/tests?saved=${test.id}`);
   } catch (err) {
-    if (err instanceof TestError) return data({ error: err.message, field: err.field }, { status: err.status });
-    throw err;
+    return pageFailure(err, (e) => ({ error: e.message, field: e.field }));
   }
 }
 

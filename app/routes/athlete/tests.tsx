@@ -4,8 +4,9 @@ import { ThresholdChart } from "~/components/threshold-chart";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
-import { testHistory, TestError, undoTest } from "~/.server/services/field-tests";
-import { athleteSubject } from "~/.server/subject";
+import { requireAthleteSubject } from "~/.server/access";
+import { pageFailure } from "~/.server/replies";
+import { testHistory, undoTest } from "~/.server/services/field-tests";
 import { BandTable } from "~/components/band-table";
 import { bandSetsFor } from "~/.server/services/bands";
 import { bandTable, formatThreshold as show } from "~/lib/band-table";
@@ -19,7 +20,7 @@ import type { Route } from "./+types/tests";
 export const meta: Route.MetaFunction = () => [{ title: "Field tests · Pacewright" }];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
-  const { athlete, base, viewer } = await athleteSubject(request, params.athleteId);
+  const { athlete, base, viewer } = await requireAthleteSubject(request, params.athleteId);
   const history = await testHistory(athlete.id);
   const latest = new Map<string, (typeof history.thresholds)[number]>();
   for (const t of history.thresholds) latest.set(`${t.sport}:${t.metric}`, t);
@@ -29,23 +30,21 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
-  const { athlete, viewer } = await athleteSubject(request, params.athleteId);
+  const { athlete, viewer } = await requireAthleteSubject(request, params.athleteId);
   const form = await request.formData();
   if (form.get("intent") === "cross-check") {
     try {
       const r = await applyCrossCheck(athlete, viewer, { aId: Number(form.get("aId")), bId: Number(form.get("bId")), choice: String(form.get("choice") ?? ""), confirmed: form.get("confirmed") === "1" });
       return { ok: true, message: `Threshold set to ${r.value} from the cross-check; ${r.report.sessionsChanged} sessions rescaled.` };
     } catch (err) {
-      if (err instanceof TestError) return data({ ok: false, message: err.message, needsConfirm: err.status === 409 }, { status: err.status });
-      throw err;
+      return pageFailure(err, (e) => ({ ok: false, message: e.message, needsConfirm: e.kind === "confirm_needed" }));
     }
   }
   try {
     const { undo } = await undoTest(athlete, viewer, Number(form.get("testId")));
     return { ok: true, message: `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets. A correction has been e-mailed to the athlete and coach.` };
   } catch (err) {
-    if (err instanceof TestError) return data({ ok: false, message: err.message }, { status: err.status });
-    throw err;
+    return pageFailure(err, (e) => ({ ok: false, message: e.message }));
   }
 }
 

@@ -5,12 +5,12 @@ import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
-import { notFound } from "~/.server/http";
+import { requirePlan } from "~/.server/access";
+import { loaderFailure, pageFailure } from "~/.server/replies";
 import { Assignment, User } from "~/.server/models";
 import { rosterFor } from "~/.server/services/accounts";
-import { AssignError, assignPlan, pushPlanChanges } from "~/.server/services/materialize";
-import { PlacementChoiceError } from "~/.server/services/placement";
-import { loadPlan, PlanError } from "~/.server/services/plans";
+import { assignPlan, pushPlanChanges } from "~/.server/services/materialize";
+import { loadPlan } from "~/.server/services/plans";
 import { currentThresholds } from "~/.server/services/thresholds";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { parseForm } from "~/lib/forms";
@@ -21,13 +21,8 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `Assign · ${dat
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
-  let loaded;
-  try {
-    loaded = await loadPlan(coach.id, Number(params.planId));
-  } catch (err) {
-    if (err instanceof PlanError) notFound(err.message);
-    throw err;
-  }
+  await requirePlan(coach, params.planId);
+  const loaded = await loadPlan(coach.id, Number(params.planId)).catch(loaderFailure);
   const { athletes } = await rosterFor(coach.id);
   const today = todayIn(coach.timezone);
   const assignments = await Assignment.findAll({ where: { planId: loaded.plan.id }, order: [["createdAt", "DESC"]] });
@@ -64,7 +59,7 @@ const assignSchema = z
 
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
-  const planId = Number(params.planId);
+  const planId = (await requirePlan(coach, params.planId)).id;
   const form = await request.formData();
   try {
     if (form.get("intent") === "push") {
@@ -95,9 +90,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       fieldErrors: {},
     };
   } catch (err) {
-    if (err instanceof AssignError) return data({ ok: false as const, message: err.message, fieldErrors: {} }, { status: err.status });
-    if (err instanceof PlacementChoiceError) return data({ ok: false as const, message: err.message, fieldErrors: {} }, { status: 409 });
-    throw err;
+    return pageFailure(err, (e) => ({ ok: false as const, message: e.message, fieldErrors: {} }));
   }
 }
 

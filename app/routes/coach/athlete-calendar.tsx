@@ -3,7 +3,8 @@ import { CalendarViews, MonthCalendar } from "~/components/calendar/month-calend
 import { WeekCalendar } from "~/components/calendar/week-calendar";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
-import { calendarRange, calendarSubject } from "~/.server/services/calendar";
+import { requireAthleteFor } from "~/.server/access";
+import { calendarRange } from "~/.server/services/calendar";
 import { addDays, isIsoDate, mondayOf, todayIn } from "~/lib/dates";
 import { monthGrid, monthOf } from "~/lib/month";
 import type { Route } from "./+types/athlete-calendar";
@@ -12,7 +13,7 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.athlete
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
-  const athlete = await calendarSubject(coach, params.athleteId);
+  const athlete = await requireAthleteFor(coach, params.athleteId);
   const today = todayIn(athlete.timezone);
   const who = { id: athlete.id, name: athlete.name };
   const url = new URL(request.url);

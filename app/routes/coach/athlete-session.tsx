@@ -2,11 +2,13 @@ import { data, Link } from "react-router";
 import { SessionDetail } from "~/components/calendar/session-detail";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
-import { calendarSubject } from "~/.server/services/calendar";
+import { requireAthleteFor, requireScheduledSession } from "~/.server/access";
+import { loaderFailure, pageFailure } from "~/.server/replies";
 import { sessionPageData } from "~/.server/services/session-page";
 import { SessionComments } from "~/components/calendar/session-comments";
-import { commentAction, listComments } from "~/.server/services/comments";
-import { lapFromSearch, PacingError, savePacingSplit } from "~/.server/services/pacing";
+import { listComments } from "~/.server/services/comments";
+import { lapFromSearch, savePacingSplit } from "~/.server/services/pacing";
+import { commentAction } from "../athlete/session.server";
 import { PacingCard, pacingQuery } from "~/components/pacing-plan";
 import type { Route } from "./+types/athlete-session";
 
@@ -14,27 +16,25 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.session
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
-  const athlete = await calendarSubject(coach, params.athleteId);
-  const page = await sessionPageData(athlete, Number(params.sessionId), { lap: lapFromSearch(new URL(request.url)) });
+  const athlete = await requireAthleteFor(coach, params.athleteId);
+  const { id } = await requireScheduledSession(coach, params.sessionId, athlete);
+  const page = await sessionPageData(athlete, id, { lap: lapFromSearch(new URL(request.url)) }).catch(loaderFailure);
   return { athleteId: athlete.id, athleteName: athlete.name, ...page, comments: await listComments(coach, page.session.id), timezone: coach.timezone };
 }
 
 /** The coach writes in the session's thread, or sets this test's pacing split. */
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
-  const athlete = await calendarSubject(coach, params.athleteId);
+  const athlete = await requireAthleteFor(coach, params.athleteId);
+  const { id } = await requireScheduledSession(coach, params.sessionId, athlete);
   const form = await request.formData();
-  if (form.get("intent") !== "pacing-split") {
-    const page = await sessionPageData(athlete, Number(params.sessionId));
-    return commentAction(coach, page.session.id, form);
-  }
+  if (form.get("intent") !== "pacing-split") return commentAction(coach, id, form);
   try {
     const reset = form.get("reset") === "1";
-    const r = await savePacingSplit(athlete.id, Number(params.sessionId), { split: form.getAll("split").map(String), reset });
+    const r = await savePacingSplit(athlete.id, id, { split: form.getAll("split").map(String), reset });
     return { ok: true, message: r.custom ? `Split saved: ${r.split.join(" / ")} %.` : "Back to the usual split." };
   } catch (err) {
-    if (err instanceof PacingError) return data({ ok: false, message: err.message }, { status: err.status });
-    throw err;
+    return pageFailure(err, (e) => ({ ok: false, message: e.message }));
   }
 }
 

@@ -6,18 +6,14 @@ import { requireRole } from "~/.server/auth";
 import { writeTransaction } from "~/.server/db";
 import { notFound } from "~/.server/http";
 import { User } from "~/.server/models";
-import { coachHasAthlete } from "~/.server/services/accounts";
+import { requireAthleteSubject } from "~/.server/access";
 import { athleteProfileSchema, parseForm } from "~/lib/forms";
 import type { Route } from "./+types/athlete";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.athlete.name ?? "Athlete"} · Pacewright` }];
 
 async function requireOwnAthlete(request: Request, athleteIdParam: string) {
-  const coach = await requireRole(request, "coach");
-  const athleteId = Number(athleteIdParam);
-  if (!(await coachHasAthlete(coach.id, athleteId))) notFound("No athlete with this id is on your roster.");
-  const athlete = await User.findByPk(athleteId);
-  if (!athlete) notFound("No athlete with this id is on your roster.");
+  const { viewer: coach, athlete } = await requireAthleteSubject(request, athleteIdParam);
   return { coach, athlete };
 }
 

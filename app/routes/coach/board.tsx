@@ -1,9 +1,9 @@
 import { Link } from "react-router";
 import { PlanBoard } from "~/components/board/plan-board";
 import { requireRole } from "~/.server/auth";
-import { notFound } from "~/.server/http";
+import { requirePlan } from "~/.server/access";
 import { loadBoard } from "~/.server/services/board";
-import { PlanError } from "~/.server/services/plans";
+import { loaderFailure } from "~/.server/replies";
 import type { Route } from "./+types/board";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `Board · ${data?.plan.name ?? "Plan"} · Pacewright` }];
@@ -11,11 +11,11 @@ export const handle = { wide: true };
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
+  await requirePlan(coach, params.planId);
   try {
     return await loadBoard(coach, Number(params.planId));
   } catch (err) {
-    if (err instanceof PlanError && err.status === 404) notFound(err.message);
-    throw err;
+    loaderFailure(err);
   }
 }
 

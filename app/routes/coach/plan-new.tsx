@@ -6,6 +6,7 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage, SelectField } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { createPlan } from "~/.server/services/plans";
+import { pageFailure } from "~/.server/replies";
 import { parseForm } from "~/lib/forms";
 import { newPlanSchema, PHASE_LABEL } from "~/lib/plans";
 import { seasonSkeleton, TrainingInputError } from "~/lib/training";
@@ -27,8 +28,7 @@ export async function action({ request }: Route.ActionArgs) {
     const plan = await createPlan(coach.id, parsed.data);
     return redirect(`/coach/plans/${plan.id}?created=1`);
   } catch (err) {
-    if (err instanceof TrainingInputError) return data({ fieldErrors: { date: err.message }, values: parsed.data as unknown as Record<string, string> }, { status: 400 });
-    throw err;
+    return pageFailure(err, (e) => ({ fieldErrors: { date: e.message }, values: parsed.data as unknown as Record<string, string> }));
   }
 }
 

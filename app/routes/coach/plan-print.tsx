@@ -1,8 +1,9 @@
 import { Link } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { requireRole } from "~/.server/auth";
-import { notFound } from "~/.server/http";
-import { loadPlan, PlanError } from "~/.server/services/plans";
+import { requirePlan } from "~/.server/access";
+import { loaderFailure } from "~/.server/replies";
+import { loadPlan } from "~/.server/services/plans";
 import { addDays, formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { DAY_LONG, PHASE_LABEL } from "~/lib/plans";
@@ -13,11 +14,11 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.plan.na
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
+  await requirePlan(coach, params.planId);
   try {
     return await loadPlan(coach.id, Number(params.planId));
   } catch (err) {
-    if (err instanceof PlanError && err.status === 404) notFound(err.message);
-    throw err;
+    loaderFailure(err);
   }
 }
 

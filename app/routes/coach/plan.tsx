@@ -5,9 +5,10 @@ import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
-import { notFound } from "~/.server/http";
+import { requirePlan } from "~/.server/access";
+import { loaderFailure, pageFailure } from "~/.server/replies";
 import { listSessions } from "~/.server/services/sessions";
-import { addRecurrence, deletePlan, editWeekRange, loadPlan, PlanError, renamePlan, setPhaseRange, updateWeek, updateWeeks } from "~/.server/services/plans";
+import { addRecurrence, deletePlan, editWeekRange, loadPlan, renamePlan, setPhaseRange, updateWeek, updateWeeks } from "~/.server/services/plans";
 import { parseForm } from "~/lib/forms";
 import { DAY_NAMES, PHASE_LABEL, phaseRangeSchema, recurrenceSchema, weekEditSchema } from "~/lib/plans";
 import { addWeeks } from "~/lib/dates";
@@ -19,13 +20,13 @@ export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.plan.na
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
+  await requirePlan(coach, params.planId);
   try {
     const loaded = await loadPlan(coach.id, Number(params.planId));
     const shelf = await listSessions(coach.id);
     return { ...loaded, shelf: shelf.map((s) => ({ id: s.id, name: s.name, sport: s.sport })) };
   } catch (err) {
-    if (err instanceof PlanError && err.status === 404) notFound(err.message);
-    throw err;
+    loaderFailure(err);
   }
 }
 
@@ -47,7 +48,7 @@ type Result = { ok: boolean; message: string; fieldErrors: Record<string, string
 
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
-  const planId = Number(params.planId);
+  const planId = (await requirePlan(coach, params.planId)).id;
   const form = await request.formData();
   const intent = form.get("intent");
   const fail = (message: string, status = 400, fieldErrors: Record<string, string | undefined> = {}) => data<Result>({ ok: false, message, fieldErrors }, { status });
@@ -108,7 +109,7 @@ export async function action({ request, params }: Route.ActionArgs) {
       return redirect("/coach/plans");
     }
   } catch (err) {
-    if (err instanceof PlanError) return fail(err.message, err.status, err.field ? { [err.field]: err.message } : {});
+    return pageFailure(err, (e): Result => ({ ok: false, message: e.message, fieldErrors: e.field ? { [e.field]: e.message } : {} }));
     throw err;
   }
   return fail("Unknown request.");

@@ -6,7 +6,8 @@ import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
-import { AccountError, inviteAthlete, rosterFor } from "~/.server/services/accounts";
+import { pageFailure } from "~/.server/replies";
+import { inviteAthlete, rosterFor } from "~/.server/services/accounts";
 import { formatDate } from "~/lib/format";
 import { formatThreshold } from "~/lib/zone-table";
 import { inviteSchema, parseForm } from "~/lib/forms";
@@ -26,9 +27,7 @@ export async function action({ request }: Route.ActionArgs) {
   try {
     await inviteAthlete(coach, parsed.data);
   } catch (err) {
-    if (err instanceof AccountError)
-      return data({ ok: false as const, fieldErrors: { [err.field ?? "form"]: err.message }, values: parsed.data }, { status: 400 });
-    throw err;
+    return pageFailure(err, (e) => ({ ok: false as const, fieldErrors: { [e.field ?? "form"]: e.message }, values: parsed.data }));
   }
   return { ok: true as const, sentTo: parsed.data.email, fieldErrors: {}, values: {} };
 }

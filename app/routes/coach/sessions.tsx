@@ -5,7 +5,8 @@ import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
-import { duplicateSession, importSessions, listSessions, removeSession, SessionError, setArchived, type SessionSummary } from "~/.server/services/sessions";
+import { pageFailure } from "~/.server/replies";
+import { duplicateSession, importSessions, listSessions, removeSession, setArchived, type SessionSummary } from "~/.server/services/sessions";
 import { formatMinutes } from "~/lib/duration";
 import { SPORTS, SPORT_LABEL, type Sport } from "~/lib/sessions";
 import type { Route } from "./+types/sessions";
@@ -33,8 +34,7 @@ export async function action({ request }: Route.ActionArgs) {
       const n = await importSessions(coach.id, await file.text());
       return { ok: true as const, message: `Imported ${n} session${n === 1 ? "" : "s"}.`, details: [] as string[] };
     } catch (err) {
-      if (err instanceof SessionError) return data({ ok: false as const, message: err.message, details: err.details }, { status: 400 });
-      throw err;
+      return pageFailure(err, (e) => ({ ok: false as const, message: e.message, details: e.details ?? [] }));
     }
   }
   if (intent === "duplicate") {

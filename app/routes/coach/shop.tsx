@@ -7,8 +7,9 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage, SelectField } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { Listing, SeasonPlan } from "~/.server/models";
-import { OrderError, resolveReview, reviewQueue, unmatchedEvents } from "~/.server/services/orders";
-import { createListing, formatPrice, listingEditSchema, listingSchema, refundOrder, salesFor, setPublished, ShopError, updateListing } from "~/.server/services/shop";
+import { pageFailure } from "~/.server/replies";
+import { resolveReview, reviewQueue, unmatchedEvents } from "~/.server/services/orders";
+import { createListing, formatPrice, listingEditSchema, listingSchema, refundOrder, salesFor, setPublished, updateListing } from "~/.server/services/shop";
 import { CURRENCIES, LEVELS } from "~/lib/shop";
 import { parseForm } from "~/lib/forms";
 import type { Route } from "./+types/shop";
@@ -66,8 +67,7 @@ export async function action({ request }: Route.ActionArgs) {
       return { ok: true, message: `Refunded; ${r.removed} future session${r.removed === 1 ? "" : "s"} removed from the buyer's calendar.` } satisfies Result;
     }
   } catch (err) {
-    if (err instanceof ShopError || err instanceof OrderError) return data<Result>({ ok: false, message: err.message }, { status: err.status });
-    throw err;
+    return pageFailure(err, (e): Result => ({ ok: false, message: e.message }));
   }
   return data<Result>({ ok: false, message: "Unknown request." }, { status: 400 });
 }

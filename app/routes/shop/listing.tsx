@@ -9,7 +9,8 @@ import { getUser, requireUser } from "~/.server/auth";
 import { notFound } from "~/.server/http";
 import { Listing, PlanItem, PlanWeek, User } from "~/.server/models";
 import { placementContext } from "~/.server/services/placement-context";
-import { formatPrice, ShopError, startCheckout } from "~/.server/services/shop";
+import { pageFailure } from "~/.server/replies";
+import { formatPrice, startCheckout } from "~/.server/services/shop";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { parseForm } from "~/lib/forms";
@@ -69,8 +70,7 @@ export async function action({ request, params }: Route.ActionArgs) {
     const { url } = await startCheckout(buyer, listing, align, new URL(request.url).origin);
     return redirect(url);
   } catch (err) {
-    if (err instanceof ShopError) return data({ error: err.message }, { status: err.status });
-    throw err;
+    return pageFailure(err, (e) => ({ error: e.message }));
   }
 }
 

@@ -4,8 +4,9 @@ import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireUser } from "~/.server/auth";
+import { requireOrder } from "~/.server/access";
 import { notFound } from "~/.server/http";
-import { Assignment, Listing, Order } from "~/.server/models";
+import { Assignment } from "~/.server/models";
 import { formatPrice } from "~/.server/services/shop";
 import type { Route } from "./+types/order";
 
@@ -13,9 +14,9 @@ export const meta: Route.MetaFunction = () => [{ title: "Your order · Pacewrigh
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const buyer = await requireUser(request);
-  const order = await Order.findOne({ where: { id: Number(params.orderId) || 0, buyerId: buyer.id } });
-  if (!order) notFound("No such order.");
-  const listing = await Listing.findByPk(order.listingId);
+  const { order, listing, as } = await requireOrder(buyer, params.orderId);
+  // This is the buyer's page; the seller follows the order in the shop's sales list.
+  if (as !== "buyer") notFound("No such order.");
   const assignment = order.assignmentId ? await Assignment.findByPk(order.assignmentId) : null;
   return { order: { id: order.id, status: order.status, amount: formatPrice(order.paidCents ?? order.amountCents, order.paidCurrency ?? order.currency), refunded: order.refundedCents ? formatPrice(order.refundedCents, order.paidCurrency ?? order.currency) : null, title: listing?.title ?? "", slug: listing?.slug ?? "", start: assignment?.startDate ?? null, reason: order.status === "needs_review" ? order.reviewReason : null } };
 }

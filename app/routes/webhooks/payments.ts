@@ -1,4 +1,5 @@
-import { handlePaymentEvent, ShopError } from "~/.server/services/shop";
+import { jsonFailure } from "~/.server/replies";
+import { handlePaymentEvent } from "~/.server/services/shop";
 import type { Route } from "./+types/payments";
 
 // Called by the payment provider, not a browser: the signature over the raw body is the authentication.
@@ -9,7 +10,6 @@ export async function action({ request }: Route.ActionArgs) {
     const { outcome } = await handlePaymentEvent(raw, request.headers.get("stripe-signature"));
     return Response.json({ received: true, outcome });
   } catch (err) {
-    if (err instanceof ShopError) return Response.json({ error: err.message }, { status: err.status });
-    throw err;
+    return jsonFailure(err);
   }
 }

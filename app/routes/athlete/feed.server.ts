@@ -1,8 +1,8 @@
 import QRCode from "qrcode";
 import { data } from "react-router";
 import { z } from "zod";
-import type { User } from "../models";
-import { activeFeed, feedUrls, revokeFeed, rotateFeed } from "./feed";
+import type { User } from "~/.server/models";
+import { activeFeed, feedUrls, revokeFeed, rotateFeed } from "~/.server/services/feed";
 
 export async function feedPageData(user: User) {
   const active = await activeFeed(user.id);
