@@ -52,7 +52,7 @@ describe.skipIf(!enabled)("session shelf and season plans in the browser", () =>
     await shot(page, "session-builder");
 
     await page.getByRole("button", { name: "Save to shelf" }).click();
-    await page.waitForURL(/\/coach\/sessions\/\d+\?saved=1/);
+    await page.waitForURL(/\/coach\/sessions\/\d+$/);
     await page.getByText("Saved to your shelf.").waitFor();
 
     await page.goto(`${env.app.baseUrl}/coach/sessions`);

@@ -1,8 +1,8 @@
-import { data, Link, redirect, useSearchParams } from "react-router";
+import { data, Link } from "react-router";
 import { SessionBuilder } from "~/components/session-builder";
 import { PageHeader } from "~/components/ui/card";
-import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
+import { redirectWithToast } from "~/.server/flash";
 import { notFound } from "~/.server/http";
 import { createSession, getSession, updateSession } from "~/.server/services/sessions";
 import { newBlock, sessionSchema } from "~/lib/sessions";
@@ -40,15 +40,14 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
   if (!params.sessionId) {
     const session = await createSession(coach.id, parsed.data);
-    return redirect(`/coach/sessions/${session.id}?saved=1`);
+    return redirectWithToast(request, `/coach/sessions/${session.id}`, "Saved to your shelf.");
   }
   const session = await updateSession(coach.id, Number(params.sessionId), parsed.data);
   if (!session) notFound("No session with this id is on your shelf.");
-  return redirect(`/coach/sessions/${session.id}?saved=1`);
+  return redirectWithToast(request, `/coach/sessions/${session.id}`, "Saved to your shelf.");
 }
 
 export default function SessionEdit({ loaderData, actionData }: Route.ComponentProps) {
-  const [params] = useSearchParams();
   const { id, values, usedIn } = loaderData;
   return (
     <>
@@ -62,11 +61,6 @@ export default function SessionEdit({ loaderData, actionData }: Route.ComponentP
         title={id ? values.name : "New session"}
         lead={usedIn ? `Used ${usedIn}× in plans. Plans keep the copy they were given; changes here apply to new placements.` : "Build the session from blocks; every target is a percentage of threshold."}
       />
-      {params.get("saved") && !actionData && (
-        <div className="mb-4">
-          <FormMessage tone="ok">Saved to your shelf.</FormMessage>
-        </div>
-      )}
       <SessionBuilder key={id ?? "new"} initial={values} errors={actionData?.fieldErrors} submitLabel={id ? "Save changes" : "Save to shelf"} />
     </>
   );

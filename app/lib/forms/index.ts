@@ -1,0 +1,3 @@
+// Shared by routes (actions validate with these) and components (conform validates with the same schema).
+export * from "./fields";
+export * from "./reply";
