@@ -1,4 +1,4 @@
-import { data, Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
+import { Form, Link, redirect, useNavigation, useSearchParams } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
@@ -6,6 +6,7 @@ import { authenticator, getUser, guardSignIn, homeFor, SignInError, startSession
 import { clientKey, RateLimited } from "~/.server/security/rate-limits";
 import { pendingCookieFor, twoStepOn } from "~/.server/services/two-step";
 import { safeRedirect } from "~/.server/http";
+import { fieldProps, parseSubmission, refuse, signInSchema, useSchemaForm } from "~/lib/forms";
 import type { Route } from "./+types/login";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Pacewright" }];
@@ -17,20 +18,20 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export async function action({ request, context }: Route.ActionArgs) {
-  const form = await request.clone().formData();
-  const email = String(form.get("email") ?? "");
+  const submission = parseSubmission(await request.clone().formData(), signInSchema);
+  if (submission.status !== "success") return refuse(submission);
   try {
-    const guard = await guardSignIn(email, clientKey(context));
+    const guard = await guardSignIn(submission.value.email, clientKey(context));
     const user = await authenticator.authenticate("password", request);
     await guard.succeeded();
-    const to = safeRedirect(form.get("redirectTo"), homeFor(user.role));
+    const to = safeRedirect(submission.value.redirectTo, homeFor(user.role));
     // With two-step sign-in on, the password alone opens no session: the code page does.
     if (twoStepOn(user)) return redirect("/login/two-step", { headers: { "Set-Cookie": await pendingCookieFor(user, to) } });
     const cookie = await startSession(user, request);
     return redirect(to, { headers: { "Set-Cookie": cookie } });
   } catch (err) {
-    if (err instanceof SignInError) return data({ error: err.message, email }, { status: 400 });
-    if (err instanceof RateLimited) return data({ error: err.message, email }, { status: 429, headers: { "Retry-After": String(err.retryAfterS) } });
+    if (err instanceof SignInError) return refuse(submission, { form: err.message });
+    if (err instanceof RateLimited) return refuse(submission, { form: err.message }, { status: 429, headers: { "Retry-After": String(err.retryAfterS) } });
     throw err;
   }
 }
@@ -38,6 +39,7 @@ export async function action({ request, context }: Route.ActionArgs) {
 export default function Login({ actionData }: Route.ComponentProps) {
   const [params] = useSearchParams();
   const busy = useNavigation().state === "submitting";
+  const [form, fields] = useSchemaForm(signInSchema, actionData);
   return (
     <AuthFrame
       title="Sign in"
@@ -47,14 +49,11 @@ export default function Login({ actionData }: Route.ComponentProps) {
         </>
       }
     >
-      <Form method="post" className="flex flex-col gap-4">
-        {actionData?.error && <FormMessage>{actionData.error}</FormMessage>}
-        {!actionData && params.get("reset") && (
-          <FormMessage tone="ok">Your password was changed. Sign in with the new one.</FormMessage>
-        )}
+      <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
+        {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
         <input type="hidden" name="redirectTo" value={params.get("redirectTo") ?? ""} />
-        <Field label="E-mail" name="email" type="email" autoComplete="email" defaultValue={actionData?.email} required />
-        <Field label="Password" name="password" type="password" autoComplete="current-password" required />
+        <Field label="E-mail" type="email" autoComplete="email" required {...fieldProps(fields.email)} />
+        <Field label="Password" type="password" autoComplete="current-password" required {...fieldProps(fields.password)} />
         <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
           {busy ? "Signing in…" : "Sign in"}
         </button>

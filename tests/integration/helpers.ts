@@ -105,7 +105,7 @@ export function fieldErrorsOf(result: unknown): Record<string, string> {
 /** The one-time note a redirect carries in its flash cookie, read the way the root loader reads it. */
 export async function toastOf(response: Response) {
   const { readToast } = await import("~/.server/flash");
-  const set = response.headers.get("set-cookie");
-  if (!set) return null;
-  return (await readToast(new Request(BASE, { headers: { Cookie: set.split(";")[0] } }))).toast;
+  const flash = response.headers.getSetCookie().find((c) => c.startsWith("pw_flash="));
+  if (!flash) return null;
+  return (await readToast(new Request(BASE, { headers: { Cookie: flash.split(";")[0] } }))).toast;
 }

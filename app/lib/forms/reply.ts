@@ -37,7 +37,7 @@ export function refuse(
 
 /** Success that stays on the page (fetcher forms): the form resets, and `message` says what happened. */
 export function accepted(submission: Submission<unknown, string[], unknown>, message?: string) {
-  return { ...(submission.reply({ resetForm: true }) as FormReply), message };
+  return { ...(submission.reply({ resetForm: true }) as FormReply), status: "success" as const, message };
 }
 
 /** The first message of a field (or the form's, under `""`) in a reply. */
