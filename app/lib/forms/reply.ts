@@ -58,3 +58,10 @@ export function firstMessage(reply: FormReply | undefined | null): string | unde
   for (const messages of Object.values(reply?.error ?? {})) if (messages?.[0]) return messages[0];
   return undefined;
 }
+
+/** First message per field of a reply, the form's under `form`: for editors that place messages themselves. */
+export function errorsOf(reply: FormReply | undefined | null): Record<string, string | undefined> {
+  const out: Record<string, string | undefined> = {};
+  for (const [k, v] of Object.entries(reply?.error ?? {})) if (v?.[0]) out[k === "" ? "form" : k] = v[0];
+  return out;
+}
