@@ -17,7 +17,7 @@ describe("coach invites an athlete", () => {
     const cookie = await signIn(coach.email);
     const email = uniqueEmail("newbie");
     const res = await run(roster.action, formRequest("/coach", { email, name: "Newbie Rider" }, { cookie }));
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res)).toMatchObject({ status: "success", message: `Invitation sent to ${email}.` });
     const token = await inviteLink(email);
 
     const page = payloadOf(await run(invite.loader, getRequest(`/invite/${token}`), { token }));
@@ -72,9 +72,9 @@ describe("coach invites an athlete", () => {
     const otherCoach = await makeUser({ role: "coach" });
     const cookie = await signIn(coach.email);
     const before = await OutboundEmail.count();
-    expect(payloadOf(await run(roster.action, formRequest("/coach", { email: "nope" }, { cookie }))).fieldErrors.email).toBeTruthy();
-    expect(payloadOf(await run(roster.action, formRequest("/coach", { email: athlete.email }, { cookie }))).fieldErrors.email).toMatch(/already on your roster/);
-    expect(payloadOf(await run(roster.action, formRequest("/coach", { email: otherCoach.email }, { cookie }))).fieldErrors.email).toMatch(/not an athlete/);
+    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: "nope" }, { cookie }))).email).toBeTruthy();
+    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: athlete.email }, { cookie }))).email).toMatch(/already on your roster/);
+    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: otherCoach.email }, { cookie }))).email).toMatch(/not an athlete/);
     expect(await OutboundEmail.count()).toBe(before);
   });
 
