@@ -13,11 +13,12 @@ export const PHASE_LABEL: Record<(typeof PHASES)[number], string> = {
 export const DAY_NAMES = ["Mon", "Tue", "Wed", "Thu", "Fri", "Sat", "Sun"] as const;
 export const DAY_LONG = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"] as const;
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Choose a date.");
+// The `error` speaks for an empty field too: conform sends an empty input as missing, not as "".
+const isoDate = z.string({ error: "Choose a date." }).regex(/^\d{4}-\d{2}-\d{2}$/, "Choose a date.");
 
 export const newPlanSchema = z
   .object({
-    name: z.string().trim().min(1, "Give the plan a name.").max(120, "Use at most 120 characters."),
+    name: z.string({ error: "Give the plan a name." }).trim().min(1, "Give the plan a name.").max(120, "Use at most 120 characters."),
     sport: z.enum(PLAN_SPORTS, { error: "Choose a sport." }),
     description: z.string().trim().max(2000).default(""),
     alignment: z.enum(["start", "event"], { error: "Choose how the plan is aligned." }),
