@@ -1,7 +1,9 @@
 import "@fontsource/lexend/400.css";
 import "@fontsource/lexend/500.css";
 import "@fontsource/lexend/600.css";
-import { isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { data, isRouteErrorResponse, Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
+import { Toast } from "./components/ui/toast";
+import { readToast } from "~/.server/flash";
 import type { Route } from "./+types/root";
 import appCss from "./app.css?url";
 import { useNonce } from "./lib/nonce";
@@ -33,8 +35,19 @@ export function Layout({ children }: { children: React.ReactNode }) {
   );
 }
 
-export default function App() {
-  return <Outlet />;
+/** The one-time note a redirect left (see `.server/flash.ts`): read here so every page, signed in or not, shows it. */
+export async function loader({ request }: Route.LoaderArgs) {
+  const { toast, headers } = await readToast(request);
+  return data({ toast }, { headers });
+}
+
+export default function App({ loaderData }: Route.ComponentProps) {
+  return (
+    <>
+      <Toast toast={loaderData.toast} />
+      <Outlet />
+    </>
+  );
 }
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {

@@ -1,6 +1,8 @@
 import { data } from "react-router";
 import { asDomainError, type DomainError, type DomainErrorKind } from "./errors";
 import { httpError, jsonResponse } from "./http";
+import { jsonRefusal, refuse } from "~/lib/forms";
+import type { Submission } from "@conform-to/react";
 
 /** The one place a domain failure becomes an HTTP status. */
 export const STATUS_FOR_KIND: Record<DomainErrorKind, number> = {
@@ -57,4 +59,20 @@ export function pageFailure<T>(err: unknown, reply: (e: DomainError) => T) {
 export function loaderFailure(err: unknown): never {
   const e = domainFailure(err);
   httpError(statusFor(e.kind), e.message);
+}
+
+/**
+ * Form actions: the failure as the one form reply (conform's), under its field (or `field` when the failure names
+ * none), else the form's, with the kind's status and any Retry-After.
+ */
+export function formFailure(err: unknown, submission: Submission<unknown, string[], unknown>, opts: { field?: string } = {}) {
+  const e = domainFailure(err);
+  const field = e.field ?? opts.field;
+  return refuse(submission, field ? { fields: { [field]: e.message } } : { form: e.message }, { status: statusFor(e.kind), headers: headersFor(e) });
+}
+
+/** Actions that post JSON but answer in the one form reply: the message under its field (or the form's). */
+export function jsonFormFailure(err: unknown) {
+  const e = domainFailure(err);
+  return jsonRefusal(e.message, e.field ?? "", statusFor(e.kind));
 }

@@ -40,3 +40,6 @@ export function bandTable(t: { sport: string; metric: string; value: number; uni
     rows: bandRows({ metric, bands: set.bands }, t.value, (v) => formatThreshold(v, t.unit)),
   };
 }
+
+/** The page's name for each kind of threshold, keyed `sport:metric`. */
+export const THRESHOLD_LABEL: Record<string, string> = { "bike:power": "Bike power", "bike:heart_rate": "Bike heart rate", "run:heart_rate": "Run heart rate", "run:pace": "Run pace", "swim:pace": "Swim pace" };

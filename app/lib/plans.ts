@@ -5,11 +5,12 @@ import { PHASES } from "~/lib/training";
 export { DAY_LONG, DAY_NAMES, PHASE_LABEL, PLAN_SPORTS } from "./plan-labels";
 import { DAY_NAMES, PLAN_SPORTS } from "./plan-labels";
 
-const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Choose a date.");
+// The `error` speaks for an empty field too: conform sends an empty input as missing, not as "".
+const isoDate = z.string({ error: "Choose a date." }).regex(/^\d{4}-\d{2}-\d{2}$/, "Choose a date.");
 
 export const newPlanSchema = z
   .object({
-    name: z.string().trim().min(1, "Give the plan a name.").max(120, "Use at most 120 characters."),
+    name: z.string({ error: "Give the plan a name." }).trim().min(1, "Give the plan a name.").max(120, "Use at most 120 characters."),
     sport: z.enum(PLAN_SPORTS, { error: "Choose a sport." }),
     description: z.string().trim().max(2000).default(""),
     alignment: z.enum(["start", "event"], { error: "Choose how the plan is aligned." }),

@@ -1,13 +1,14 @@
-import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { Form, Link, useNavigation } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { TimezoneSelect } from "~/components/timezone-select";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
 import { getUser, startSession } from "~/.server/auth";
-import { pageFailure } from "~/.server/replies";
+import { formFailure } from "~/.server/replies";
 import { acceptInvitation, findInvitation } from "~/.server/services/accounts";
 import { INVITE_DEAD } from "~/lib/messages";
-import { acceptInviteSchema, parseForm } from "~/lib/forms";
+import { acceptInviteSchema, fieldProps, parseSubmission, refuse, useSchemaForm } from "~/lib/forms";
+import { redirectWithToast } from "~/.server/flash";
 import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import type { Route } from "./+types/invite";
 
@@ -28,29 +29,30 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
+const JOINED = "You joined your coach's roster. Your plan will show up here.";
+
 export async function action({ request, params, context }: Route.ActionArgs) {
   await consumeOr429(["tokenClient", clientKey(context)], ["inviteToken", params.token ?? ""]);
   const signedIn = await getUser(request);
   const form = await request.formData();
+  // Joining with the account already signed in sends no fields: the schema is the new-account form's.
+  const submission = parseSubmission(form, acceptInviteSchema);
   try {
     if (form.get("intent") === "join") {
       await acceptInvitation(params.token, { signedIn });
-      return redirect("/athlete?joined=1");
+      return redirectWithToast(request, "/athlete", JOINED);
     }
-    const parsed = parseForm(acceptInviteSchema, form);
-    if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors, values: parsed.values }, { status: 400 });
-    const athlete = await acceptInvitation(params.token, { signedIn, newAccount: parsed.data });
-    const cookie = await startSession(athlete, request);
-    return redirect("/athlete?joined=1", { headers: { "Set-Cookie": cookie } });
+    if (submission.status !== "success") return refuse(submission);
+    const athlete = await acceptInvitation(params.token, { signedIn, newAccount: submission.value });
+    return redirectWithToast(request, "/athlete", JOINED, "ok", { headers: { "Set-Cookie": await startSession(athlete, request) } });
   } catch (err) {
-    return pageFailure(err, (e) => ({ fieldErrors: { form: e.message }, values: {} }));
+    return formFailure(err, submission);
   }
 }
 
 export default function Invite({ loaderData, actionData, params }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
-  const errors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
-  const values: Record<string, string | undefined> = actionData?.values ?? {};
+  const [form, fields] = useSchemaForm(acceptInviteSchema, actionData);
   if (!loaderData.valid) {
     return (
       <AuthFrame title="This invitation no longer works">
@@ -62,9 +64,9 @@ export default function Invite({ loaderData, actionData, params }: Route.Compone
   const { coachName, email, hasAccount, signedInAs, suggestedName } = loaderData;
   return (
     <AuthFrame title={`Train with ${coachName}`} lead={`${coachName} invited ${email} to Pacewright.`}>
-      {errors.form && (
+      {form.errors?.[0] && (
         <div className="mb-4">
-          <FormMessage>{errors.form}</FormMessage>
+          <FormMessage>{form.errors[0]}</FormMessage>
         </div>
       )}
       {hasAccount ? (
@@ -84,11 +86,11 @@ export default function Invite({ loaderData, actionData, params }: Route.Compone
           </div>
         )
       ) : (
-        <Form method="post" className="flex flex-col gap-4" noValidate>
+        <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
           <Field label="E-mail" name="email-display" value={email} readOnly disabled />
-          <Field label="Your name" name="name" autoComplete="name" defaultValue={values.name ?? suggestedName} error={errors.name} required />
-          <Field label="Choose a password" name="password" type="password" autoComplete="new-password" hint="At least 10 characters." error={errors.password} required minLength={10} />
-          <TimezoneSelect defaultValue={values.timezone} error={errors.timezone} />
+          <Field label="Your name" autoComplete="name" required {...fieldProps(fields.name)} defaultValue={fieldProps(fields.name).defaultValue ?? suggestedName} />
+          <Field label="Choose a password" type="password" autoComplete="new-password" hint="At least 10 characters." required minLength={10} {...fieldProps(fields.password)} />
+          <TimezoneSelect defaultValue={fieldProps(fields.timezone).defaultValue} error={fields.timezone.errors?.[0]} />
           <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
             {busy ? "Joining…" : "Accept and create my account"}
           </button>

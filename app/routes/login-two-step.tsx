@@ -1,11 +1,13 @@
-import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { Form, Link, redirect, useNavigation } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { clearPendingCookie, readPending, startSession } from "~/.server/auth";
-import { pageFailure } from "~/.server/replies";
+import { startSession } from "~/.server/auth";
+import { clearPendingCookie, readPending } from "~/.server/auth";
+import { formFailure } from "~/.server/replies";
 import { consume } from "~/.server/security/rate-limits";
 import { verifySecondStep } from "~/.server/services/two-step";
+import { fieldProps, parseSubmission, refuse, twoStepSchema, useSchemaForm } from "~/lib/forms";
 import type { Route } from "./+types/login-two-step";
 
 export const meta: Route.MetaFunction = () => [{ title: "Two-step sign-in · Pacewright" }];
@@ -19,16 +21,16 @@ export async function loader({ request }: Route.LoaderArgs) {
 export async function action({ request }: Route.ActionArgs) {
   const pending = await readPending(request);
   if (!pending) throw redirect("/login");
-  const code = String((await request.formData()).get("code") ?? "");
+  const submission = parseSubmission(await request.formData(), twoStepSchema);
   try {
-    // Counted before the code is checked, per account: six guesses per quarter hour.
+    // Counted before the code is checked (an empty one too), per account: six guesses per quarter hour.
     await consume(["twoStepUser", String(pending.user.id)]);
   } catch (err) {
-    return pageFailure(err, (e) => ({ error: e.message }));
+    return formFailure(err, submission);
   }
-  if (!code.trim()) return data({ error: "Enter the code from your app, or a recovery code." }, { status: 400 });
-  if (!(await verifySecondStep(pending.user, code))) {
-    return data({ error: "That code does not match. Enter the newest code from your app, or an unused recovery code." }, { status: 400 });
+  if (submission.status !== "success") return refuse(submission);
+  if (!(await verifySecondStep(pending.user, submission.value.code))) {
+    return refuse(submission, { fields: { code: "That code does not match. Enter the newest code from your app, or an unused recovery code." } });
   }
   const headers = new Headers();
   headers.append("Set-Cookie", await startSession(pending.user, request));
@@ -38,6 +40,7 @@ export async function action({ request }: Route.ActionArgs) {
 
 export default function TwoStep({ actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
+  const [form, fields] = useSchemaForm(twoStepSchema, actionData);
   return (
     <AuthFrame
       title="Two-step sign-in"
@@ -48,9 +51,9 @@ export default function TwoStep({ actionData }: Route.ComponentProps) {
         </Link>
       }
     >
-      <Form method="post" className="flex flex-col gap-4">
-        {actionData?.error && <FormMessage>{actionData.error}</FormMessage>}
-        <Field label="Code" name="code" inputMode="text" autoComplete="one-time-code" autoFocus required hint="Lost your phone? Enter one of your recovery codes instead (each works once)." />
+      <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
+        {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
+        <Field label="Code" inputMode="text" autoComplete="one-time-code" autoFocus required hint="Lost your phone? Enter one of your recovery codes instead (each works once)." {...fieldProps(fields.code)} />
         <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
           {busy ? "Checking…" : "Continue"}
         </button>

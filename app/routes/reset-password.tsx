@@ -1,11 +1,12 @@
-import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { Form, Link, useNavigation } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { pageFailure } from "~/.server/replies";
+import { formFailure } from "~/.server/replies";
 import { checkResetToken, resetPassword } from "~/.server/services/accounts";
 import { RESET_LINK_DEAD } from "~/lib/messages";
-import { parseForm, resetSchema } from "~/lib/forms";
+import { fieldProps, parseSubmission, refuse, resetSchema, useSchemaForm } from "~/lib/forms";
+import { redirectWithToast } from "~/.server/flash";
 import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import type { Route } from "./+types/reset-password";
 
@@ -18,19 +19,19 @@ export async function loader({ params }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   await consumeOr429(["tokenClient", clientKey(context)]);
-  const parsed = parseForm(resetSchema, await request.formData());
-  if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors }, { status: 400 });
+  const submission = parseSubmission(await request.formData(), resetSchema);
+  if (submission.status !== "success") return refuse(submission);
   try {
-    await resetPassword(params.token, parsed.data.password);
+    await resetPassword(params.token, submission.value.password);
   } catch (err) {
-    return pageFailure(err, (e) => ({ fieldErrors: { form: e.message } }));
+    return formFailure(err, submission);
   }
-  return redirect("/login?reset=1");
+  return redirectWithToast(request, "/login", "Your password was changed. Sign in with the new one.");
 }
 
 export default function ResetPassword({ loaderData, actionData }: Route.ComponentProps) {
   const busy = useNavigation().state === "submitting";
-  const errors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
+  const [form, fields] = useSchemaForm(resetSchema, actionData);
   if (!loaderData.valid) {
     return (
       <AuthFrame title="This link no longer works">
@@ -43,10 +44,10 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
   }
   return (
     <AuthFrame title="Choose a new password" lead="Every device signed in to this account will be signed out.">
-      <Form method="post" className="flex flex-col gap-4" noValidate>
-        {errors.form && <FormMessage>{errors.form}</FormMessage>}
-        <Field label="New password" name="password" type="password" autoComplete="new-password" hint="At least 10 characters." error={errors.password} required minLength={10} />
-        <Field label="Repeat it" name="confirm" type="password" autoComplete="new-password" error={errors.confirm} required />
+      <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
+        {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
+        <Field label="New password" type="password" autoComplete="new-password" hint="At least 10 characters." required minLength={10} {...fieldProps(fields.password)} />
+        <Field label="Repeat it" type="password" autoComplete="new-password" required {...fieldProps(fields.confirm)} />
         <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
           {busy ? "Saving…" : "Save the new password"}
         </button>

@@ -51,7 +51,7 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await athlete.getByLabel("Your name").fill("Robin Rider");
     await athlete.getByLabel("Choose a password").fill("rider-password-123");
     await athlete.getByRole("button", { name: "Accept and create my account" }).click();
-    await athlete.waitForURL(/\/athlete\?joined=1$/);
+    await athlete.waitForURL(/\/athlete$/);
     await athlete.getByText("You joined your coach's roster").waitFor();
     await athlete.getByText("Pat Coach").waitFor();
     await shot(athlete, "athlete-today-phone");
@@ -93,7 +93,7 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await page.getByLabel("New password").fill("fresh-password-456");
     await page.getByLabel("Repeat it").fill("fresh-password-456");
     await page.getByRole("button", { name: "Save the new password" }).click();
-    await page.waitForURL(/\/login\?reset=1/);
+    await page.waitForURL(/\/login$/);
     await page.getByText("Your password was changed").waitFor();
 
     await signInAs(page, env.app.baseUrl, email, "fresh-password-456");

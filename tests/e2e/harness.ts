@@ -198,7 +198,7 @@ export async function newPlanOnBoard(page: Page, baseUrl: string, name: string):
   await page.getByLabel("Start date", { exact: true }).fill(monday);
   await page.getByLabel("Weeks", { exact: true }).fill("8");
   await page.getByRole("button", { name: "Create the plan" }).click();
-  await page.waitForURL(/\/coach\/plans\/\d+\?created=1/);
+  await page.waitForURL(/\/coach\/plans\/\d+$/);
   const planId = page.url().match(/plans\/(\d+)/)![1];
   await page.goto(`${baseUrl}/coach/plans/${planId}/board`);
   await ready(page);

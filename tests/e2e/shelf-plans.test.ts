@@ -55,7 +55,7 @@ describe.skipIf(!enabled)("session shelf and season plans in the browser", () =>
     await shot(page, "session-builder");
 
     await page.getByRole("button", { name: "Save to shelf" }).click();
-    await page.waitForURL(/\/coach\/sessions\/\d+\?saved=1/);
+    await page.waitForURL(/\/coach\/sessions\/\d+$/);
     await page.getByText("Saved to your shelf.").waitFor();
 
     await page.goto(`${env.app.baseUrl}/coach/sessions`);
@@ -80,7 +80,7 @@ describe.skipIf(!enabled)("session shelf and season plans in the browser", () =>
     await page.getByLabel("Weeks", { exact: true }).fill("16");
     await page.getByText("16 weeks from Monday 2027-02-22, event on 2027-06-13.").waitFor();
     await page.getByRole("button", { name: "Create the plan" }).click();
-    await page.waitForURL(/\/coach\/plans\/\d+\?created=1/);
+    await page.waitForURL(/\/coach\/plans\/\d+$/);
     await page.getByRole("heading", { name: "Gran fondo 2027" }).waitFor();
     await expect.poll(() => page.locator("tbody tr").count()).toBe(16);
     await page.goto(`${env.app.baseUrl}/coach/plans`);

@@ -10,7 +10,7 @@ import * as reset from "~/routes/reset-password";
 import * as roster from "~/routes/coach/roster";
 import * as adminUsers from "~/routes/admin/users";
 import * as layout from "~/routes/app-layout";
-import { cookieFrom, formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf, uniqueEmail } from "./helpers";
+import { cookieFrom, fieldErrorsOf, formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf, toastOf, uniqueEmail } from "./helpers";
 
 describe("sign up", () => {
   it("creates a coach, signs them in and sends them to the roster", async () => {
@@ -32,7 +32,7 @@ describe("sign up", () => {
     const before = await User.count();
     const res = await run(signup.action, formRequest("/signup", { name: "Dup", email: existing.email.toUpperCase(), password: "a-long-enough-pass", role: "coach", timezone: "UTC" }));
     expect(statusOf(res)).toBe(400);
-    expect(payloadOf(res).fieldErrors.email).toMatch(/already exists/);
+    expect(fieldErrorsOf(res).email).toMatch(/already exists/);
     expect(await User.count()).toBe(before);
   });
 
@@ -40,19 +40,20 @@ describe("sign up", () => {
     const before = await User.count();
     const res = await run(signup.action, formRequest("/signup", { name: "", email: "not-an-address", password: "short", role: "coach", timezone: "Mars/Olympus" }));
     expect(statusOf(res)).toBe(400);
-    const errors = payloadOf(res).fieldErrors;
+    const errors = fieldErrorsOf(res);
     expect(errors.password).toMatch(/at least 10/);
     expect(errors.email).toMatch(/valid e-mail/);
     expect(errors.name).toBeTruthy();
     expect(errors.timezone).toMatch(/time zone/);
-    expect(payloadOf(res).values.password).toBeUndefined(); // never echoed back
+    expect(payloadOf(res).initialValue.email).toBe("not-an-address"); // values come back to refill the form…
+    expect(payloadOf(res).initialValue.password).toBeUndefined(); // …but never the password
     expect(await User.count()).toBe(before);
   });
 
   it("never lets a visitor sign up as admin", async () => {
     const res = await run(signup.action, formRequest("/signup", { name: "X", email: uniqueEmail(), password: "a-long-enough-pass", role: "admin", timezone: "UTC" }));
     expect(statusOf(res)).toBe(400);
-    expect(payloadOf(res).fieldErrors.role).toBeTruthy();
+    expect(fieldErrorsOf(res).role).toBeTruthy();
   });
 });
 
@@ -63,8 +64,8 @@ describe("sign in and out", () => {
     const unknown = await run(login.action, formRequest("/login", { email: uniqueEmail("nobody"), password: "whatever-it-is" }));
     expect(statusOf(wrong)).toBe(400);
     expect(statusOf(unknown)).toBe(400);
-    expect(payloadOf(wrong).error).toBe(WRONG_CREDENTIALS);
-    expect(payloadOf(unknown).error).toBe(WRONG_CREDENTIALS);
+    expect(fieldErrorsOf(wrong)).toEqual({ form: WRONG_CREDENTIALS });
+    expect(fieldErrorsOf(unknown)).toEqual({ form: WRONG_CREDENTIALS });
   });
 
   it("issues a new session id at every sign-in and only accepts local redirect targets", async () => {
@@ -98,7 +99,7 @@ describe("sign in and out", () => {
     }
     const blocked = await run(login.action, formRequest("/login", { email: user.email, password: "correct-horse-battery" }));
     expect(statusOf(blocked)).toBe(429);
-    expect(payloadOf(blocked).error).toMatch(/Too many failed sign-ins/);
+    expect(fieldErrorsOf(blocked).form).toMatch(/Too many failed sign-ins/);
     // Failures older than the window no longer count.
     await db().query("UPDATE rate_limits SET expire = :past WHERE key LIKE 'signInAddress:%'", { replacements: { past: Date.now() - 1 } });
     const ok = await run(login.action, formRequest("/login", { email: user.email, password: "correct-horse-battery" }));
@@ -143,7 +144,7 @@ describe("password reset", () => {
     const user = await makeUser();
     const session = await signIn(user.email);
     const res = await run(forgot.action, formRequest("/forgot-password", { email: user.email.toUpperCase() }));
-    expect(payloadOf(res).sent).toBe(true);
+    expect(payloadOf(res)).toMatchObject({ status: "success", message: `If an account uses ${user.email}, a reset link is on its way. Check your inbox.` });
     const mail = await OutboundEmail.findOne({ where: { toAddress: user.email, template: "password-reset" } });
     expect(mail).toBeTruthy();
     const token = linkIn(mail!.textBody, "/reset-password/");
@@ -154,15 +155,17 @@ describe("password reset", () => {
     expect(payloadOf(await run(reset.loader, getRequest(`/reset-password/${token}`), { token })).valid).toBe(true);
     const mismatch = await run(reset.action, formRequest(`/reset-password/${token}`, { password: "brand-new-password", confirm: "other-password" }), { token });
     expect(statusOf(mismatch)).toBe(400);
+    expect(fieldErrorsOf(mismatch)).toEqual({ confirm: "The two passwords differ." });
     const done = await run(reset.action, formRequest(`/reset-password/${token}`, { password: "brand-new-password", confirm: "brand-new-password" }), { token });
-    expect((done as Response).headers.get("location")).toBe("/login?reset=1");
+    expect((done as Response).headers.get("location")).toBe("/login");
+    expect(await toastOf(done as Response)).toEqual({ tone: "ok", message: "Your password was changed. Sign in with the new one." });
     expect(await AuthSession.count({ where: { userId: user.id } })).toBe(0);
     expect(statusOf(await run(layout.loader, getRequest("/athlete", session)))).toBe(302);
     await signIn(user.email, "brand-new-password");
 
     const reused = await run(reset.action, formRequest(`/reset-password/${token}`, { password: "another-new-password", confirm: "another-new-password" }), { token });
     expect(statusOf(reused)).toBe(400);
-    expect(payloadOf(reused).fieldErrors.form).toMatch(/expired or was already used/);
+    expect(fieldErrorsOf(reused).form).toMatch(/expired or was already used/);
     await signIn(user.email, "brand-new-password"); // unchanged by the refused reuse
   });
 
@@ -180,8 +183,9 @@ describe("password reset", () => {
 
   it("answers an unknown address exactly like a known one, without sending anything", async () => {
     const before = await OutboundEmail.count();
-    const res = await run(forgot.action, formRequest("/forgot-password", { email: uniqueEmail("ghost") }));
-    expect(payloadOf(res).sent).toBe(true);
+    const ghost = uniqueEmail("ghost");
+    const res = await run(forgot.action, formRequest("/forgot-password", { email: ghost }));
+    expect(payloadOf(res)).toMatchObject({ status: "success", message: `If an account uses ${ghost}, a reset link is on its way. Check your inbox.` });
     expect(await OutboundEmail.count()).toBe(before);
     const garbage = "x".repeat(43);
     expect(payloadOf(await run(reset.loader, getRequest(`/reset-password/${garbage}`), { token: garbage })).valid).toBe(false);

@@ -13,7 +13,10 @@ import * as preview from "~/routes/api/tests-preview";
 import * as uploads from "~/routes/api/uploads";
 import { resolveTarget } from "~/lib/training";
 import { toCsv, toFit, toGpx, twentyMinuteTestRide } from "../../db/demo/rides";
-import { getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { fieldErrorsOf, getRequest, makeUser, payloadOf, run, signIn, statusOf, toastOf } from "./helpers";
+
+/** A refused save carries one message, under its field or the form's. */
+const saveMessage = (res: unknown) => Object.values(fieldErrorsOf(res)).join(" ");
 import { injectUpdateFault } from "./schema";
 
 const BASE = "http://localhost:3999";
@@ -77,7 +80,8 @@ describe("field test → rescale", () => {
     const before = new Map((await snapshot()).map((r) => [r.id, r]));
     const res = await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20", readiness: READY, requestKey: "k-20min-1", confirmed: true }, cookie);
     expect(statusOf(res)).toBe(302);
-    expect((res as Response).headers.get("location")).toMatch(/^\/athlete\/tests\?saved=\d+$/);
+    expect((res as Response).headers.get("location")).toBe("/athlete/tests");
+    expect(await toastOf(res as Response)).toEqual({ tone: "ok", message: expect.stringMatching(/^Saved\. Bike power is now 285 W \(was 250 W\): \d+ planned sessions, \d+ steps rescaled\./) });
 
     const t = await Threshold.findOne({ where: { athleteId: athlete.id, sport: "bike", metric: "power", effectiveFrom: "2026-11-20" } });
     expect(t!.value).toBe(285); // 300 × 0.95
@@ -180,10 +184,10 @@ describe("field test → rescale", () => {
     const before = await snapshot();
     const noReady = await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20" }, cookie);
     expect(statusOf(noReady)).toBe(400);
-    expect(payloadOf(noReady).error).toMatch(/readiness|Answer every/);
+    expect(saveMessage(noReady)).toMatch(/readiness|Answer every/);
     expect(statusOf(await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2027-06-01", readiness: READY }, cookie))).toBe(400);
-    expect(payloadOf(await save({ protocol: "swim_pair", inputs: { t400: "2:00", t200: "2:50" }, testedOn: "2026-11-20", readiness: READY }, cookie)).error).toMatch(/longer than the 200/);
-    expect(payloadOf(await save({ protocol: "twenty_minute", inputs: { meanW: "-4" }, testedOn: "2026-11-20", readiness: READY }, cookie)).error).toMatch(/must be 50–700 W/);
+    expect(saveMessage(await save({ protocol: "swim_pair", inputs: { t400: "2:00", t200: "2:50" }, testedOn: "2026-11-20", readiness: READY }, cookie))).toMatch(/longer than the 200/);
+    expect(saveMessage(await save({ protocol: "twenty_minute", inputs: { meanW: "-4" }, testedOn: "2026-11-20", readiness: READY }, cookie))).toMatch(/must be 50–700 W/);
 
     const p = (await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20" }), headers: { "Content-Type": "application/json", Cookie: cookie } }))) as Response;
     const body = await p.json();
@@ -198,7 +202,9 @@ describe("field test → rescale", () => {
   it("a coach logs a test for their own athlete; another coach gets 404", async () => {
     const { athlete, coachCookie } = await scenario();
     const res = await save({ protocol: "manual", inputs: { sport: "bike", metric: "power", value: "270" }, testedOn: "2026-11-25" }, coachCookie, athlete.id);
-    expect((res as Response).headers.get("location")).toBe(`/coach/athletes/${athlete.id}/tests?saved=${(await FieldTest.findOne({ where: { athleteId: athlete.id } }))!.id}`);
+    expect((res as Response).headers.get("location")).toBe(`/coach/athletes/${athlete.id}/tests`);
+    expect(await FieldTest.count({ where: { athleteId: athlete.id } })).toBe(1);
+    expect((await toastOf(res as Response))?.message).toMatch(/^Saved\. Bike power is now 270 W/);
     const stranger = await makeUser({ role: "coach" });
     expect(statusOf(await save({ protocol: "manual", inputs: { sport: "bike", metric: "power", value: "999" }, testedOn: "2026-11-25" }, await signIn(stranger.email), athlete.id))).toBe(404);
     expect(statusOf(await run(tests.loader, getRequest(`/coach/athletes/${athlete.id}/tests`, await signIn(stranger.email)), { athleteId: String(athlete.id) }))).toBe(404);
@@ -265,7 +271,7 @@ describe("ride-file uploads", () => {
     const snap = await snapshot();
     const res = await save({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20", readiness: READY }, cookie);
     expect(statusOf(res)).toBe(400);
-    expect(payloadOf(res).error).toMatch(/no power/);
+    expect(saveMessage(res)).toMatch(/no power/);
     expect(await snapshot()).toEqual(snap);
     expect(await FieldTest.count({ where: { athleteId: athlete.id } })).toBe(0);
   });

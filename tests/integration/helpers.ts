@@ -90,3 +90,22 @@ export async function signIn(email: string, password = "correct-horse-battery") 
   if (!(res instanceof Response) || res.status !== 302) throw new Error(`sign-in failed for ${email}`);
   return cookieFrom(res);
 }
+
+/**
+ * The messages of a form reply (conform's `SubmissionResult`), first one per field; the whole form's message
+ * (conform keeps it under "") is read as `form`.
+ */
+export function fieldErrorsOf(result: unknown): Record<string, string> {
+  const reply = payloadOf<{ error?: Record<string, string[] | null> }>(result);
+  const out: Record<string, string> = {};
+  for (const [k, v] of Object.entries(reply?.error ?? {})) if (v?.[0]) out[k === "" ? "form" : k] = v[0];
+  return out;
+}
+
+/** The one-time note a redirect carries in its flash cookie, read the way the root loader reads it. */
+export async function toastOf(response: Response) {
+  const { readToast } = await import("~/.server/flash");
+  const flash = response.headers.getSetCookie().find((c) => c.startsWith("pw_flash="));
+  if (!flash) return null;
+  return (await readToast(new Request(BASE, { headers: { Cookie: flash.split(";")[0] } }))).toast;
+}

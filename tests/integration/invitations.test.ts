@@ -3,7 +3,7 @@ import { CoachAthlete, Invitation, OutboundEmail, User } from "~/.server/models"
 import * as invite from "~/routes/invite";
 import * as roster from "~/routes/coach/roster";
 import * as athletePage from "~/routes/coach/athlete";
-import { cookieFrom, formRequest, getRequest, makeCoachWithAthlete, makeUser, payloadOf, run, signIn, statusOf, uniqueEmail } from "./helpers";
+import { cookieFrom, fieldErrorsOf, formRequest, getRequest, makeCoachWithAthlete, makeUser, payloadOf, run, signIn, statusOf, toastOf, uniqueEmail } from "./helpers";
 
 async function inviteLink(email: string) {
   const mail = await OutboundEmail.findOne({ where: { toAddress: email, template: "invitation" }, order: [["id", "DESC"]] });
@@ -17,7 +17,7 @@ describe("coach invites an athlete", () => {
     const cookie = await signIn(coach.email);
     const email = uniqueEmail("newbie");
     const res = await run(roster.action, formRequest("/coach", { email, name: "Newbie Rider" }, { cookie }));
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res)).toMatchObject({ status: "success", message: `Invitation sent to ${email}.` });
     const token = await inviteLink(email);
 
     const page = payloadOf(await run(invite.loader, getRequest(`/invite/${token}`), { token }));
@@ -25,10 +25,12 @@ describe("coach invites an athlete", () => {
 
     const short = await run(invite.action, formRequest(`/invite/${token}`, { name: "Newbie Rider", password: "short", timezone: "UTC" }), { token });
     expect(statusOf(short)).toBe(400);
+    expect(fieldErrorsOf(short).password).toMatch(/at least 10/);
     expect(await User.count({ where: { email } })).toBe(0);
 
     const accepted = await run(invite.action, formRequest(`/invite/${token}`, { name: "Newbie Rider", password: "newbie-password-1", timezone: "Europe/Paris" }), { token });
-    expect((accepted as Response).headers.get("location")).toBe("/athlete?joined=1");
+    expect((accepted as Response).headers.get("location")).toBe("/athlete");
+    expect((await toastOf(accepted as Response))?.message).toMatch(/You joined your coach's roster/);
     cookieFrom(accepted as Response);
     const athlete = await User.findOne({ where: { email } });
     expect(athlete).toMatchObject({ role: "athlete", timezone: "Europe/Paris" });
@@ -54,7 +56,7 @@ describe("coach invites an athlete", () => {
     const otherCookie = await signIn(someoneElse.email);
     const res = await run(invite.action, formRequest(`/invite/${token}`, { intent: "join" }, { cookie: otherCookie }), { token });
     expect(statusOf(res)).toBe(400);
-    expect(payloadOf(res).fieldErrors.form).toMatch(/Sign in with that address/);
+    expect(fieldErrorsOf(res).form).toMatch(/Sign in with that address/);
     expect(await CoachAthlete.count({ where: { coachId: coach.id } })).toBe(0);
     expect((await Invitation.findOne({ where: { email: invited.email } }))!.acceptedAt).toBeNull();
 
@@ -70,9 +72,9 @@ describe("coach invites an athlete", () => {
     const otherCoach = await makeUser({ role: "coach" });
     const cookie = await signIn(coach.email);
     const before = await OutboundEmail.count();
-    expect(payloadOf(await run(roster.action, formRequest("/coach", { email: "nope" }, { cookie }))).fieldErrors.email).toBeTruthy();
-    expect(payloadOf(await run(roster.action, formRequest("/coach", { email: athlete.email }, { cookie }))).fieldErrors.email).toMatch(/already on your roster/);
-    expect(payloadOf(await run(roster.action, formRequest("/coach", { email: otherCoach.email }, { cookie }))).fieldErrors.email).toMatch(/not an athlete/);
+    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: "nope" }, { cookie }))).email).toBeTruthy();
+    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: athlete.email }, { cookie }))).email).toMatch(/already on your roster/);
+    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: otherCoach.email }, { cookie }))).email).toMatch(/not an athlete/);
     expect(await OutboundEmail.count()).toBe(before);
   });
 

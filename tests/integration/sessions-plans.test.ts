@@ -6,7 +6,7 @@ import * as shelf from "~/routes/coach/sessions";
 import * as sessionEdit from "~/routes/coach/session-edit";
 import * as planNew from "~/routes/coach/plan-new";
 import * as planPage from "~/routes/coach/plan";
-import { formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { fieldErrorsOf, formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 const blocks = [
   { kind: "warmup", durationS: 600, target: { metric: "power", lowPct: 50, highPct: 65 } },
@@ -55,7 +55,7 @@ describe("session shelf", () => {
     const bad = [{ kind: "steady", durationS: 0, target: { metric: "power", lowPct: 400 } }, { kind: "repeats", count: 60, work: { durationS: 60, target: { metric: "power", lowPct: 100 } }, recovery: { durationS: 60 } }];
     const res = await run(sessionEdit.action, formRequest("/coach/sessions/new", { payload: JSON.stringify({ name: "", sport: "bike", blocks: bad }) }, { cookie }));
     expect(statusOf(res)).toBe(400);
-    const errors = payloadOf(res).fieldErrors;
+    const errors = fieldErrorsOf(res);
     expect(errors.name).toMatch(/name/);
     expect(errors["blocks.0.durationS"]).toMatch(/1 second and 12 hours/);
     expect(errors["blocks.0.target.lowPct"]).toMatch(/300/);
@@ -153,7 +153,7 @@ describe("season plans", () => {
     const { user, cookie } = await coach();
     const res = await run(planNew.action, formRequest("/coach/plans/new", { name: "", sport: "bike", alignment: "event", date: "2027-02-30", weeks: "2", weeklyHours: "0", pattern: "4:1", testEveryWeeks: "6" }, { cookie }));
     expect(statusOf(res)).toBe(400);
-    const e = payloadOf(res).fieldErrors;
+    const e = fieldErrorsOf(res);
     expect(Object.keys(e)).toEqual(expect.arrayContaining(["name", "weeks", "weeklyHours", "pattern"]));
     expect(await SeasonPlan.count({ where: { ownerId: user.id } })).toBe(0);
   });

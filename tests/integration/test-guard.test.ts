@@ -11,7 +11,7 @@ import * as testNew from "~/routes/athlete/test-new";
 import * as preview from "~/routes/api/tests-preview";
 import * as uploads from "~/routes/api/uploads";
 import { toCsv, type RideSample } from "../../db/demo/rides";
-import { BASE, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { BASE, fieldErrorsOf, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 const READY = { answers: ["no", "no", "no", "no", "no"], stopSignsRead: true };
 
@@ -82,7 +82,7 @@ describe("plausibility guard", () => {
     const before = await written(athlete.id);
     const refused = await save({ ...body, readiness: READY }, cookie);
     expect(statusOf(refused)).toBe(409);
-    expect(payloadOf(refused)).toMatchObject({ field: "confirm", error: expect.stringMatching(/confirm the change/) });
+    expect(fieldErrorsOf(refused)).toEqual({ confirm: expect.stringMatching(/confirm the change/) });
     expect(await written(athlete.id)).toEqual(before);
     // "confirmed: false" is the same as no confirmation.
     expect(statusOf(await save({ ...body, readiness: READY, confirmed: false }, cookie))).toBe(409);
@@ -167,7 +167,7 @@ describe("bounds on typed values", () => {
       expect(p.body.error, JSON.stringify(body)).toMatch(message);
       const s = await save({ ...(body as object), testedOn: "2026-11-10", readiness: READY, confirmed: true }, cookie);
       expect(statusOf(s), JSON.stringify(body)).toBe(400);
-      expect(payloadOf(s).error).toMatch(message);
+      expect(Object.values(fieldErrorsOf(s)).join(" ")).toMatch(message);
     }
     expect(await written(athlete.id)).toEqual(before);
   });

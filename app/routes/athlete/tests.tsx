@@ -1,5 +1,5 @@
 import { useState } from "react";
-import { data, Link, useFetcher, useSearchParams } from "react-router";
+import { data, Link, useFetcher } from "react-router";
 import { ThresholdChart } from "~/components/threshold-chart";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
@@ -9,7 +9,7 @@ import { pageFailure } from "~/.server/replies";
 import { testHistory, undoTest } from "~/.server/services/field-tests";
 import { BandTable } from "~/components/band-table";
 import { bandSetsFor } from "~/.server/services/bands";
-import { bandTable, formatThreshold as show } from "~/lib/band-table";
+import { bandTable, formatThreshold as show, THRESHOLD_LABEL } from "~/lib/band-table";
 import { bandSetKeyFor, type Metric } from "~/lib/training";
 import { applyCrossCheck, crossChecksFor } from "~/.server/services/cross-check";
 import { CrossCheckCard } from "~/components/cross-check-card";
@@ -48,19 +48,14 @@ export async function action({ request, params }: Route.ActionArgs) {
   }
 }
 
-const LABEL: Record<string, string> = { "bike:power": "Bike power", "bike:heart_rate": "Bike heart rate", "run:heart_rate": "Run heart rate", "run:pace": "Run pace", "swim:pace": "Swim pace" };
+const LABEL = THRESHOLD_LABEL;
 
 export default function Tests({ loaderData }: Route.ComponentProps) {
   const { athlete, base, forCoach, tests, thresholds, current, zones, reports } = loaderData;
-  const [params] = useSearchParams();
   const undo = useFetcher<typeof action>();
   const series = [...new Set(thresholds.map((t) => `${t.sport}:${t.metric}`))];
   const [shown, setShown] = useState(series[0] ?? "");
   const points = thresholds.filter((t) => `${t.sport}:${t.metric}` === shown).map((t) => ({ date: t.effectiveFrom, value: t.value, source: t.source }));
-  // The "saved" note speaks only for a test that still stands: after an undo it would contradict the list.
-  const savedId = Number(params.get("saved"));
-  const savedTest = savedId ? tests.find((t) => t.id === savedId) : undefined;
-  const saved = savedTest?.status === "active" ? reports.find((r) => r.kind === "apply" && r.fieldTestId === savedId) : null;
   return (
     <>
       <PageHeader
@@ -72,16 +67,6 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
           </Link>
         }
       />
-      {saved && (
-        <div className="mb-4">
-          <FormMessage tone="ok">
-            Saved. {LABEL[`${saved.sport}:${saved.metric}`]} is now {show(saved.newValue ?? 0, saved.unit)}
-            {saved.oldValue ? ` (was ${show(saved.oldValue, saved.unit)})` : ""}: {saved.sessions} planned sessions, {saved.blocks} steps rescaled.
-            {saved.examples.length > 0 && ` For example ${saved.examples[0].name} on ${saved.examples[0].date}: ${saved.examples[0].before} → ${saved.examples[0].after}.`}
-            {saved.guard?.flagged && saved.confirmedBy && ` ${saved.confirmedBy} confirmed this change after the plausibility check.`}
-          </FormMessage>
-        </div>
-      )}
       {loaderData.crossChecks.map((pair) => (
         <div key={`${pair.sport}:${pair.metric}`} className="mb-6">
           <CrossCheckCard pair={pair} />

@@ -1,6 +1,5 @@
-import { Link, useSearchParams } from "react-router";
+import { Link } from "react-router";
 import { Card, PageHeader } from "~/components/ui/card";
-import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { CoachAthlete, User } from "~/.server/models";
 import { calendarRange } from "~/.server/services/calendar";
@@ -32,16 +31,10 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 export default function Today({ loaderData }: Route.ComponentProps) {
-  const [params] = useSearchParams();
   const { name, today, coaches, todays, next } = loaderData;
   return (
     <>
       <PageHeader title={`Hello, ${name.split(" ")[0]}`} lead={today} />
-      {params.get("joined") && (
-        <div className="mb-6">
-          <FormMessage tone="ok">You joined your coach's roster. Your plan will show up here.</FormMessage>
-        </div>
-      )}
       <div className="grid gap-6 md:grid-cols-2">
         <Card>
           <h2 className="font-semibold">Today</h2>

@@ -1,13 +1,14 @@
 import { useMemo, useState } from "react";
-import { data, Form, redirect, useNavigation } from "react-router";
+import { Form, useNavigation } from "react-router";
 import { PhaseRibbon } from "~/components/phase-ribbon";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage, SelectField } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { createPlan } from "~/.server/services/plans";
-import { pageFailure } from "~/.server/replies";
-import { parseForm } from "~/lib/forms";
+import { redirectWithToast } from "~/.server/flash";
+import { formFailure } from "~/.server/replies";
+import { fieldProps, parseSubmission, refuse, useSchemaForm } from "~/lib/forms";
 import { newPlanSchema, PHASE_LABEL } from "~/lib/plans";
 import { seasonSkeleton, TrainingInputError } from "~/lib/training";
 import type { Route } from "./+types/plan-new";
@@ -22,19 +23,20 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
-  const parsed = parseForm(newPlanSchema, await request.formData());
-  if (!parsed.ok) return data({ fieldErrors: parsed.fieldErrors, values: parsed.values }, { status: 400 });
+  const submission = parseSubmission(await request.formData(), newPlanSchema);
+  if (submission.status !== "success") return refuse(submission);
   try {
-    const plan = await createPlan(coach.id, parsed.data);
-    return redirect(`/coach/plans/${plan.id}?created=1`);
+    const plan = await createPlan(coach.id, submission.value);
+    return redirectWithToast(request, `/coach/plans/${plan.id}`, "Plan created. Test weeks already hold a field-test session; drag the rest from your shelf on the board.");
   } catch (err) {
-    return pageFailure(err, (e) => ({ fieldErrors: { date: e.message }, values: parsed.data as unknown as Record<string, string> }));
+    return formFailure(err, submission, { field: "date" });
   }
 }
 
 export default function NewPlan({ loaderData, actionData }: Route.ComponentProps) {
-  const v: Record<string, string | undefined> = actionData?.values ?? {};
-  const errors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
+  const [form, fields] = useSchemaForm(newPlanSchema, actionData);
+  const v = (actionData?.initialValue ?? {}) as Record<string, string | undefined>;
+  const errors = Object.fromEntries(Object.entries(fields).map(([k, f]) => [k, f.errors?.[0]])) as Record<keyof typeof fields, string | undefined>;
   const [alignment, setAlignment] = useState(v.alignment ?? "event");
   const [date, setDate] = useState(v.date ?? loaderData.defaultDate);
   const [weeks, setWeeks] = useState(v.weeks ?? "16");
@@ -66,9 +68,9 @@ export default function NewPlan({ loaderData, actionData }: Route.ComponentProps
       <PageHeader title="New season plan" lead="Start from an event date (or a start date); the skeleton fills in phases, recovery and test weeks." />
       <div className="grid gap-6 lg:grid-cols-[24rem_1fr]">
         <Card>
-          <Form method="post" className="flex flex-col gap-4" noValidate>
-            {errors.form && <FormMessage>{errors.form}</FormMessage>}
-            <Field label="Plan name" name="name" defaultValue={v.name} error={errors.name} required />
+          <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
+            {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
+            <Field label="Plan name" required {...fieldProps(fields.name)} />
             <SelectField label="Sport" name="sport" defaultValue={v.sport ?? "bike"} error={errors.sport}>
               <option value="bike">Bike</option>
               <option value="run">Run</option>

@@ -1,5 +1,5 @@
 import { useState } from "react";
-import { data, Link, redirect, useFetcher, useSearchParams } from "react-router";
+import { data, Link, redirect, useFetcher } from "react-router";
 import { PhaseRibbon } from "~/components/phase-ribbon";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
@@ -117,7 +117,6 @@ export async function action({ request, params }: Route.ActionArgs) {
 
 export default function PlanPage({ loaderData }: Route.ComponentProps) {
   const { plan, weeks, items, recurrences, shelf } = loaderData;
-  const [params] = useSearchParams();
   const dayCount = (weekId: number) => items.filter((i) => i.weekId === weekId).length;
   const monday = (idx: number) => {
     if (!plan.startDate) return `Week ${idx}`;
@@ -145,11 +144,6 @@ export default function PlanPage({ loaderData }: Route.ComponentProps) {
           </>
         }
       />
-      {params.get("created") && (
-        <div className="mb-4">
-          <FormMessage tone="ok">Plan created. Test weeks already hold a field-test session; drag the rest from your shelf on the board.</FormMessage>
-        </div>
-      )}
       <PhaseRibbon weeks={weeks.map((w) => ({ idx: w.idx, phase: w.phase, recovery: w.recovery, test: w.test }))} className="mb-6" />
       <div className="grid gap-6 xl:grid-cols-[1fr_22rem]">
         <WeeksForm weeks={weeks} label={monday} sessions={dayCount} version={plan.version} />

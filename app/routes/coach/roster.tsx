@@ -1,16 +1,15 @@
 import { createColumnHelper } from "@tanstack/react-table";
-import { useEffect, useRef } from "react";
-import { data, Link, useFetcher } from "react-router";
+import { Link, useFetcher } from "react-router";
 import { DataTable } from "~/components/data-table";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
-import { pageFailure } from "~/.server/replies";
+import { formFailure } from "~/.server/replies";
 import { inviteAthlete, rosterFor } from "~/.server/services/accounts";
 import { formatDate } from "~/lib/format";
 import { formatThreshold } from "~/lib/zone-table";
-import { inviteSchema, parseForm } from "~/lib/forms";
+import { accepted, fieldProps, inviteSchema, parseSubmission, refuse, useSchemaForm } from "~/lib/forms";
 import type { Route } from "./+types/roster";
 
 export const meta: Route.MetaFunction = () => [{ title: "Roster · Pacewright" }];
@@ -22,14 +21,15 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
-  const parsed = parseForm(inviteSchema, await request.formData());
-  if (!parsed.ok) return data({ ok: false as const, fieldErrors: parsed.fieldErrors, values: parsed.values }, { status: 400 });
+  const submission = parseSubmission(await request.formData(), inviteSchema);
+  if (submission.status !== "success") return refuse(submission);
   try {
-    await inviteAthlete(coach, parsed.data);
+    await inviteAthlete(coach, submission.value);
   } catch (err) {
-    return pageFailure(err, (e) => ({ ok: false as const, fieldErrors: { [e.field ?? "form"]: e.message }, values: parsed.data }));
+    return formFailure(err, submission);
   }
-  return { ok: true as const, sentTo: parsed.data.email, fieldErrors: {}, values: {} };
+  // The form empties for the next address (conform resets it on this reply).
+  return accepted(submission, `Invitation sent to ${submission.value.email}.`);
 }
 
 type Athlete = Route.ComponentProps["loaderData"]["athletes"][number];
@@ -172,23 +172,20 @@ function SpikeFlag({ ratio }: { ratio: number | null }) {
 
 function InviteForm() {
   const fetcher = useFetcher<typeof action>();
-  const formRef = useRef<HTMLFormElement>(null);
   const result = fetcher.data;
-  const errors: Record<string, string | undefined> = result && !result.ok ? result.fieldErrors : {};
-  useEffect(() => {
-    if (fetcher.state === "idle" && result?.ok) formRef.current?.reset();
-  }, [fetcher.state, result]);
+  const [form, fields] = useSchemaForm(inviteSchema, result, { id: "invite-athlete" });
+  const sent = result && "message" in result ? result.message : null;
   return (
     <Card aria-labelledby="invite-heading">
       <h2 id="invite-heading" className="font-semibold">
         Invite an athlete
       </h2>
       <p className="mt-1 text-sm text-ink-soft">They get an e-mail with a link to join your roster.</p>
-      <fetcher.Form method="post" ref={formRef} className="mt-4 flex flex-col gap-3" noValidate>
-        {errors.form && <FormMessage>{errors.form}</FormMessage>}
-        {result?.ok && <FormMessage tone="ok">Invitation sent to {result.sentTo}.</FormMessage>}
-        <Field label="E-mail" name="email" type="email" error={errors.email} required />
-        <Field label="Name (optional)" name="name" error={errors.name} />
+      <fetcher.Form method="post" id={form.id} onSubmit={form.onSubmit} className="mt-4 flex flex-col gap-3" noValidate>
+        {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
+        {sent && <FormMessage tone="ok">{sent}</FormMessage>}
+        <Field key={fields.email.key} label="E-mail" type="email" required {...fieldProps(fields.email)} />
+        <Field key={fields.name.key} label="Name (optional)" {...fieldProps(fields.name)} />
         <button type="submit" className={buttonClass("primary")} disabled={fetcher.state !== "idle"}>
           {fetcher.state !== "idle" ? "Sending…" : "Send invitation"}
         </button>

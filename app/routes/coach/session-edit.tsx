@@ -1,8 +1,10 @@
-import { data, Link, redirect, useSearchParams } from "react-router";
+import { Link } from "react-router";
+import { z } from "zod";
+import { errorsOf, parseSubmission, refuse } from "~/lib/forms";
 import { SessionBuilder } from "~/components/session-builder";
 import { PageHeader } from "~/components/ui/card";
-import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
+import { redirectWithToast } from "~/.server/flash";
 import { notFound } from "~/.server/http";
 import { createSession, getSession, updateSession } from "~/.server/services/sessions";
 import { newBlock, sessionSchema } from "~/lib/sessions";
@@ -23,32 +25,38 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   return { id: session.id, usedIn, values: { name: session.name, sport: session.sport, description: session.description, tags: session.tags, blocks } };
 }
 
+const payloadSchema = z.object({ payload: z.string() });
+const UNREADABLE = "The session could not be read; reload the page and try again.";
+
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
-  const form = await request.formData();
+  // The builder sends the whole session as one JSON field (its steps nest too deep for flat names); the reply is
+  // the usual one, with each message under the step field's path (`blocks.0.durationS`).
+  const submission = parseSubmission(await request.formData(), payloadSchema);
+  if (submission.status !== "success") return refuse(submission, { form: UNREADABLE });
   let raw: unknown;
   try {
-    raw = JSON.parse(String(form.get("payload") ?? ""));
+    raw = JSON.parse(submission.value.payload);
   } catch {
-    return data({ fieldErrors: { form: "The session could not be read; reload the page and try again." } as Record<string, string> }, { status: 400 });
+    return refuse(submission, { form: UNREADABLE });
   }
   const parsed = sessionSchema.safeParse(raw);
   if (!parsed.success) {
-    const fieldErrors: Record<string, string> = {};
-    for (const issue of parsed.error.issues) fieldErrors[issue.path.join(".") || "form"] ??= issue.message;
-    return data({ fieldErrors }, { status: 400 });
+    const fields: Record<string, string> = {};
+    for (const issue of parsed.error.issues) fields[issue.path.join(".")] ??= issue.message;
+    const { "": form, ...rest } = fields;
+    return refuse(submission, { form, fields: rest });
   }
   if (!params.sessionId) {
     const session = await createSession(coach.id, parsed.data);
-    return redirect(`/coach/sessions/${session.id}?saved=1`);
+    return redirectWithToast(request, `/coach/sessions/${session.id}`, "Saved to your shelf.");
   }
   const session = await updateSession(coach.id, Number(params.sessionId), parsed.data);
   if (!session) notFound("No session with this id is on your shelf.");
-  return redirect(`/coach/sessions/${session.id}?saved=1`);
+  return redirectWithToast(request, `/coach/sessions/${session.id}`, "Saved to your shelf.");
 }
 
 export default function SessionEdit({ loaderData, actionData }: Route.ComponentProps) {
-  const [params] = useSearchParams();
   const { id, values, usedIn } = loaderData;
   return (
     <>
@@ -62,12 +70,7 @@ export default function SessionEdit({ loaderData, actionData }: Route.ComponentP
         title={id ? values.name : "New session"}
         lead={usedIn ? `Used ${usedIn}× in plans. Plans keep the copy they were given; changes here apply to new placements.` : "Build the session from blocks; every target is a percentage of threshold."}
       />
-      {params.get("saved") && !actionData && (
-        <div className="mb-4">
-          <FormMessage tone="ok">Saved to your shelf.</FormMessage>
-        </div>
-      )}
-      <SessionBuilder key={id ?? "new"} initial={values} errors={actionData?.fieldErrors} submitLabel={id ? "Save changes" : "Save to shelf"} />
+      <SessionBuilder key={id ?? "new"} initial={values} errors={errorsOf(actionData)} submitLabel={id ? "Save changes" : "Save to shelf"} />
     </>
   );
 }

@@ -1,5 +1,9 @@
 import { z } from "zod";
 
+/**
+ * Fields and schemas shared by actions and their forms. `parseForm` is the older reader kept for the pages that
+ * have not moved to conform yet (`reply.ts`); both give the same messages because they run the same schemas.
+ */
 export type FieldErrors = Partial<Record<string, string>>;
 
 export type FormResult<T> =
@@ -70,8 +74,19 @@ export const signUpSchema = z.object({
 
 export const forgotSchema = z.object({ email: emailField });
 
+/** Only presence is checked here: whether the pair matches an account is the sign-in's question, asked once. */
+export const signInSchema = z.object({
+  email: z.string({ error: "Enter your e-mail address." }).trim().min(1, "Enter your e-mail address."),
+  password: z.string({ error: "Enter your password." }).min(1, "Enter your password."),
+  redirectTo: z.string().optional(),
+});
+
+export const twoStepSchema = z.object({
+  code: z.string({ error: "Enter the code from your app, or a recovery code." }).trim().min(1, "Enter the code from your app, or a recovery code."),
+});
+
 export const resetSchema = z
-  .object({ password: newPasswordField, confirm: z.string() })
+  .object({ password: newPasswordField, confirm: z.string({ error: "Type the new password again." }) })
   .refine((v) => v.password === v.confirm, { message: "The two passwords differ.", path: ["confirm"] });
 
 export const inviteSchema = z.object({
