@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { Form, NavLink, Link, useLocation, useMatches } from "react-router";
 import type { Role } from "~/lib/roles";
 import { Logo } from "./logo";
@@ -39,9 +39,11 @@ export function AppShell({
   // Pages that need the whole width (the plan board) say so in their route handle.
   const wide = useMatches().some((m) => (m.handle as { wide?: boolean } | undefined)?.wide);
   // Below the large breakpoint the links do not fit on one line; they fold into a menu that closes on navigation.
-  const [menuOpen, setMenuOpen] = useState(false);
+  // The menu is open for the page it was opened on, so any navigation closes it.
   const { pathname } = useLocation();
-  useEffect(() => setMenuOpen(false), [pathname]);
+  const [openOn, setOpenOn] = useState<string | null>(null);
+  const menuOpen = openOn === pathname;
+  const setMenuOpen = (open: boolean | ((was: boolean) => boolean)) => setOpenOn((typeof open === "function" ? open(menuOpen) : open) ? pathname : null);
   return (
     <div className="min-h-screen">
       <header className="border-b border-line bg-white/80 backdrop-blur print:hidden">

@@ -17,6 +17,7 @@ export function DataTable<T>({
   initialSort = [],
 }: {
   data: T[];
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- columns of one table hold cells of different value types
   columns: ColumnDef<T, any>[];
   caption: string;
   empty: React.ReactNode;

@@ -29,6 +29,8 @@ export function TimezoneSelect({ defaultValue, error, name = "timezone" }: { def
   const [zone, setZone] = useState(defaultValue ?? "UTC");
   const [zones, setZones] = useState<string[]>(() => Array.from(new Set([defaultValue ?? "UTC", ...COMMON])));
   useEffect(() => {
+    // The browser's zone and zone list exist only after hydration; the server drew the stable default first.
+    // eslint-disable-next-line react-hooks/set-state-in-effect -- reading the browser once after hydration is what effects are for
     setZones(allZones());
     if (!defaultValue) {
       const local = Intl.DateTimeFormat().resolvedOptions().timeZone;

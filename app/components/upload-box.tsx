@@ -1,7 +1,8 @@
+import type { UploadSummary } from "~/.server/services/uploads";
 import { useRef, useState } from "react";
 
 export interface UploadResult {
-  upload: { id: number; name: string; format: string; size: number; createdAt: string; summary: any };
+  upload: { id: number; name: string; format: string; size: number; createdAt: string; summary: UploadSummary };
   trace: { t: number; power: number | null; hr: number | null }[];
 }
 
@@ -39,7 +40,7 @@ export function UploadBox({
     xhr.upload.onprogress = (e) => e.lengthComputable && setProgress(Math.round((e.loaded / e.total) * 100));
     xhr.onload = () => {
       setProgress(null);
-      let reply: any = null;
+      let reply: (Partial<UploadResult> & { error?: string }) | null = null;
       try {
         reply = JSON.parse(xhr.responseText);
       } catch {
@@ -47,7 +48,7 @@ export function UploadBox({
       }
       if (xhr.status === 201 && reply?.upload) {
         setDone(`${reply.upload.name} read: ${Math.round(reply.upload.summary.durationS / 60)} min, ${reply.upload.summary.channels.join(", ")}.`);
-        onUploaded(reply);
+        onUploaded(reply as UploadResult);
       } else {
         const message = reply?.error ?? (xhr.status === 413 ? "That file is larger than 25 MB." : `The upload failed (${xhr.status}).`);
         setError(message);

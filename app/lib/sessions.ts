@@ -1,6 +1,5 @@
 import { z } from "zod";
 import { validateBlocks, type Block } from "~/lib/training";
-import { formatMinutes } from "./duration";
 
 export const SPORTS = ["bike", "run", "swim", "strength", "other"] as const;
 export type Sport = (typeof SPORTS)[number];

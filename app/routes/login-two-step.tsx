@@ -53,6 +53,7 @@ export default function TwoStep({ actionData }: Route.ComponentProps) {
     >
       <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
         {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
+        {/* eslint-disable-next-line jsx-a11y/no-autofocus -- this page has one field, the code the person came to type */}
         <Field label="Code" inputMode="text" autoComplete="one-time-code" autoFocus required hint="Lost your phone? Enter one of your recovery codes instead (each works once)." {...fieldProps(fields.code)} />
         <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
           {busy ? "Checking…" : "Continue"}

@@ -1,5 +1,5 @@
 import { useState } from "react";
-import { data, Link, useFetcher } from "react-router";
+import { Link, useFetcher } from "react-router";
 import { RideChart } from "~/components/ride-chart";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";

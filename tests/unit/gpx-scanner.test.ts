@@ -11,7 +11,11 @@ import { readGpx } from "~/lib/training/activity";
 function reference(text: string) {
   const doc = new XMLParser({ ignoreAttributes: false, attributeNamePrefix: "@", removeNSPrefix: true, isArray: (n) => n === "trk" || n === "trkseg" || n === "trkpt" }).parse(text, true);
   const leaves = (node: unknown, out: Record<string, unknown> = {}) => {
-    if (node && typeof node === "object") for (const [k, v] of Object.entries(node)) v && typeof v === "object" ? leaves(v, out) : (out[k.toLowerCase()] = v);
+    if (node && typeof node === "object")
+      for (const [k, v] of Object.entries(node)) {
+        if (v && typeof v === "object") leaves(v, out);
+        else out[k.toLowerCase()] = v;
+      }
     return out;
   };
   return (doc.gpx.trk ?? []).flatMap((trk: any) => (trk?.trkseg ?? []).flatMap((seg: any) => seg?.trkpt ?? [])).map((pt: any) => {

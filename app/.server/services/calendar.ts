@@ -1,6 +1,6 @@
 import { Op, QueryTypes } from "sequelize";
 import { db, lockRow, writeTransaction } from "../db";
-import { ScheduledBlock, ScheduledSession, User } from "../models";
+import { ScheduledBlock, ScheduledSession } from "../models";
 import { thresholdHistory } from "./thresholds";
 import { resolveSteps } from "./materialize";
 import { blockLines, keyTarget, type StepView } from "~/lib/schedule-text";

@@ -3,7 +3,6 @@ import { Op } from "sequelize";
 import { z } from "zod";
 import { writeTransaction } from "../db";
 import { env } from "../env";
-import { queueEmail } from "../mail";
 import { Listing, Order, PlanWeek, SeasonPlan, User } from "../models";
 import { payments, verifyWebhook } from "../payments";
 import { applyProviderEvent, refundByPerson } from "./orders";

@@ -1,4 +1,4 @@
-import { useEffect, useRef, useState } from "react";
+import { useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
@@ -21,9 +21,12 @@ export function SessionComments({ comments, otherSide, timezone }: { comments: C
   // A server error belongs to the text that was sent; once the text changes it no longer applies.
   const [sent, setSent] = useState("");
   const error = serverError && text === sent ? serverError : undefined;
-  useEffect(() => {
-    if (fetcher.state === "idle" && fetcher.data?.ok) setText("");
-  }, [fetcher.state, fetcher.data]);
+  // A message the server took empties the box, once per answer.
+  const [clearedFor, setClearedFor] = useState<typeof fetcher.data>(undefined);
+  if (fetcher.state === "idle" && fetcher.data?.ok && clearedFor !== fetcher.data) {
+    setClearedFor(fetcher.data);
+    setText("");
+  }
   const when = (iso: string) => new Intl.DateTimeFormat("en-GB", { timeZone: timezone, day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" }).format(new Date(iso));
   return (
     <Card aria-labelledby="comments-heading" className="mt-6">

@@ -11,7 +11,7 @@ import {
 } from "@dnd-kit/core";
 import { arrayMove, SortableContext, useSortable, verticalListSortingStrategy } from "@dnd-kit/sortable";
 import { CSS } from "@dnd-kit/utilities";
-import { useMemo, useRef } from "react";
+import { useEffect, useMemo, useRef } from "react";
 import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
 import { buttonClass } from "~/components/ui/button";
 import { BLOCK_LABEL, describeBlock } from "~/lib/sessions";
@@ -29,8 +29,11 @@ export function StepList({ items, setItems, errors }: { items: Keyed[]; setItems
   // The keyboard walks the list by position, not by measured rectangles: the geometric stepper scrolled the page on
   // its own and skipped or repeated positions once the blocks sat below the fold.
   const keyTarget = useRef<{ from: number; to: number; tops: DOMRect[] } | null>(null);
+  // dnd-kit's keyboard callbacks run between renders; they read the list as last drawn.
   const liveItems = useRef(items);
-  liveItems.current = items;
+  useEffect(() => {
+    liveItems.current = items;
+  }, [items]);
   const keyboardOptions = useMemo(
     () => ({
       step: (key: StepKey) => {
@@ -63,7 +66,7 @@ export function StepList({ items, setItems, errors }: { items: Keyed[]; setItems
   const announcements: Announcements = {
     onDragStart: ({ active }) => `Picked up block ${position(active.id)} of ${items.length}. Use the arrow keys to move it, Space to drop, Escape to cancel.`,
     onDragOver: ({ active, over }) => (over ? `Block ${position(active.id)} is over position ${position(over.id)}.` : `Block ${position(active.id)} is outside the list.`),
-    onDragEnd: ({ active, over }) => (over ? `Block dropped at position ${position(over.id)}.` : "Block dropped where it was."),
+    onDragEnd: ({ over }) => (over ? `Block dropped at position ${position(over.id)}.` : "Block dropped where it was."),
     onDragCancel: () => "Moving cancelled; the block is back where it was.",
   };
   const onDragEnd = ({ active, over }: DragEndEvent) => {

@@ -22,7 +22,12 @@ export function Field({
     form.addEventListener("submit", reset);
     return () => form.removeEventListener("submit", reset);
   }, []);
-  useEffect(() => setEdited(false), [error]);
+  // A new message from the server shows again even if the field was edited since the last one.
+  const [seenError, setSeenError] = useState(error);
+  if (seenError !== error) {
+    setSeenError(error);
+    setEdited(false);
+  }
   if (edited) error = undefined;
   const errorId = `${id}-error`;
   const hintId = `${id}-hint`;

@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import type { Toast as ToastData } from "~/lib/forms";
 
 /**
@@ -8,8 +8,9 @@ import type { Toast as ToastData } from "~/lib/forms";
  * gone before some people have read it.
  */
 export function Toast({ toast }: { toast: ToastData | null }) {
-  const [shown, setShown] = useState(toast);
-  useEffect(() => setShown(toast), [toast]);
+  // Each new note shows until dismissed; dismissing hides that note only.
+  const [dismissed, setDismissed] = useState<ToastData | null>(null);
+  const shown = toast && toast !== dismissed ? toast : null;
   return (
     <div className="pointer-events-none fixed inset-x-0 bottom-3 z-50 flex justify-center px-4" role="status" aria-live="polite" data-testid="toast">
       {shown && (
@@ -19,7 +20,7 @@ export function Toast({ toast }: { toast: ToastData | null }) {
           }`}
         >
           <p className="flex-1">{shown.message}</p>
-          <button type="button" className="text-ink-soft hover:text-ink" onClick={() => setShown(null)} aria-label="Dismiss">
+          <button type="button" className="text-ink-soft hover:text-ink" onClick={() => setDismissed(toast)} aria-label="Dismiss">
             ×
           </button>
         </div>

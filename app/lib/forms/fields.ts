@@ -56,6 +56,7 @@ export const nameField = z
   .trim()
   .min(1, "Enter a name.")
   .max(120, "Use at most 120 characters.")
+  // eslint-disable-next-line no-control-regex -- finding control characters is the point of this check
   .refine((v) => !/[\u0000-\u001f]/.test(v), "A name cannot contain line breaks or control characters.");
 
 export const timezoneField = z

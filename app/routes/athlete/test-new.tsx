@@ -50,9 +50,8 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
   const p = PROTOCOLS[protocol];
   const athleteQuery = forCoach ? `?athleteId=${athlete.id}` : "";
 
-  useEffect(() => {
-    if (!FILE_PROTOCOLS.includes(protocol)) setSource("typed");
-  }, [protocol]);
+  // Only some protocols can be read from a file; choosing another one goes back to typed values.
+  if (source === "file" && !FILE_PROTOCOLS.includes(protocol)) setSource("typed");
 
   const submission = {
     protocol,
@@ -64,11 +63,17 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
     setPreviewedFor(submissionKey);
     previewer.submit(submission, { method: "post", action: `/api/tests/preview${athleteQuery}`, encType: "application/json" });
   };
+  // A file's proposal follows the file and the window chosen in it, without a button (typed values use the button).
   useEffect(() => {
+    // eslint-disable-next-line react-hooks/set-state-in-effect -- asks the server for a proposal; the state only records for which form it was asked
     if (source === "file" && upload) askPreview();
-  }, [upload, windowStart, protocol, testedOn, source]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [upload, windowStart, protocol, testedOn, source]); // eslint-disable-line react-hooks/exhaustive-deps -- askPreview is rebuilt each render; these are its inputs
   // A confirmation is for the change the person saw; any edit asks for it again.
-  useEffect(() => setConfirmed(false), [submissionKey]);
+  const [confirmedFor, setConfirmedFor] = useState(submissionKey);
+  if (confirmedFor !== submissionKey) {
+    setConfirmedFor(submissionKey);
+    setConfirmed(false);
+  }
 
   // A proposal counts only for exactly what is on the form now (a typed value edited after preview is not previewed).
   const preview = previewer.data && !previewer.data.error && previewedFor === submissionKey ? previewer.data : null;

@@ -1,5 +1,5 @@
 import { useState } from "react";
-import { data, Link, useFetcher } from "react-router";
+import { Link, useFetcher } from "react-router";
 import { ThresholdChart } from "~/components/threshold-chart";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
@@ -51,7 +51,7 @@ export async function action({ request, params }: Route.ActionArgs) {
 const LABEL = THRESHOLD_LABEL;
 
 export default function Tests({ loaderData }: Route.ComponentProps) {
-  const { athlete, base, forCoach, tests, thresholds, current, zones, reports } = loaderData;
+  const { athlete, base, forCoach, tests, thresholds, current, zones } = loaderData;
   const undo = useFetcher<typeof action>();
   const series = [...new Set(thresholds.map((t) => `${t.sport}:${t.metric}`))];
   const [shown, setShown] = useState(series[0] ?? "");

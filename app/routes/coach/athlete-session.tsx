@@ -1,4 +1,4 @@
-import { data, Link } from "react-router";
+import { Link } from "react-router";
 import { SessionDetail } from "~/components/calendar/session-detail";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";

@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { data, Form, Link, useNavigation } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
@@ -54,9 +54,11 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
   const [rows, setRows] = useState<BandInputRow[]>(() => failed?.rows.length ? failed.rows : set.bands.map(toInput));
   const busy = useNavigation().state !== "idle";
   // A new set chosen, or a save/restore answered: show what the server now holds (or what was typed, on refusal).
-  useEffect(() => {
+  const [shownFor, setShownFor] = useState({ key, set, failed });
+  if (shownFor.key !== key || shownFor.set !== set || shownFor.failed !== failed) {
+    setShownFor({ key, set, failed });
     setRows(failed?.rows.length ? failed.rows : set.bands.map(toInput));
-  }, [key, set, failed]);
+  }
   const errors = failed?.errors.rows ?? {};
   const update = (i: number, field: keyof BandInputRow, value: string) =>
     setRows((rs) => {

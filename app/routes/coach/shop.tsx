@@ -203,9 +203,12 @@ function ListingItem({ listing }: { listing: ListingRow }) {
   const edit = useFetcher<Result>();
   const [editing, setEditing] = useState(false);
   const errors = edit.data?.fieldErrors ?? {};
-  useEffect(() => {
-    if (edit.state === "idle" && edit.data?.ok) setEditing(false);
-  }, [edit.state, edit.data]);
+  // A saved edit closes the form, once per answer.
+  const [closedFor, setClosedFor] = useState<typeof edit.data>(undefined);
+  if (edit.state === "idle" && edit.data?.ok && closedFor !== edit.data) {
+    setClosedFor(edit.data);
+    setEditing(false);
+  }
   return (
     <li className="py-2" data-testid="listing-row">
       <div className="flex flex-wrap items-center gap-3">
