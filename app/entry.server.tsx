@@ -12,8 +12,15 @@ export const streamTimeout = 5_000;
  * the Content-Security-Policy header and in the load context, and every inline script React and React Router write
  * (hydration data, module loader, scroll restoration, streamed boundaries) carries it.
  */
-export default function handleRequest(request: Request, responseStatusCode: number, responseHeaders: Headers, routerContext: EntryContext, loadContext: AppLoadContext) {
-  if (request.method.toUpperCase() === "HEAD") return new Response(null, { status: responseStatusCode, headers: responseHeaders });
+export default function handleRequest(
+  request: Request,
+  responseStatusCode: number,
+  responseHeaders: Headers,
+  routerContext: EntryContext,
+  loadContext: AppLoadContext,
+) {
+  if (request.method.toUpperCase() === "HEAD")
+    return new Response(null, { status: responseStatusCode, headers: responseHeaders });
   const nonce = typeof loadContext?.cspNonce === "string" ? loadContext.cspNonce : undefined;
 
   return new Promise<Response>((resolve, reject) => {

@@ -22,7 +22,9 @@ export default [
   route("webhooks/payments", "routes/webhooks/payments.ts"),
   route("athlete/sessions/:id/pacing", "routes/pacing-print.tsx"),
   route("api/rides/:id/:file?", "routes/api/ride.ts"),
-  route("coach/athletes/:athleteId/sessions/:sessionId/pacing", "routes/pacing-print.tsx", { id: "coach-pacing-print" }),
+  route("coach/athletes/:athleteId/sessions/:sessionId/pacing", "routes/pacing-print.tsx", {
+    id: "coach-pacing-print",
+  }),
   layout("routes/shop/layout.tsx", [
     route("shop", "routes/shop/index.tsx"),
     route("shop/orders/:orderId", "routes/shop/order.tsx"),

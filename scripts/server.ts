@@ -45,5 +45,8 @@ export const crossSiteGuard: RequestHandler = (req, res, next) => {
 
 /** What every loader and action gets besides the request: the client's address (for per-client limits). */
 export function getLoadContext(req: express.Request, res: express.Response) {
-  return { clientAddress: req.ip ?? req.socket.remoteAddress ?? undefined, cspNonce: res.locals.cspNonce as string | undefined };
+  return {
+    clientAddress: req.ip ?? req.socket.remoteAddress ?? undefined,
+    cspNonce: res.locals.cspNonce as string | undefined,
+  };
 }

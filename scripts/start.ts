@@ -50,7 +50,10 @@ async function main() {
   });
 
   console.log(`Pacewright is running at ${e.appUrl}`);
-  if (fakes.smtpPort) console.log(`  Mail goes to the local catcher: ${e.appUrl}/dev/mail${e.demoInProduction ? " (sign in as an admin to read it)" : ""}`);
+  if (fakes.smtpPort)
+    console.log(
+      `  Mail goes to the local catcher: ${e.appUrl}/dev/mail${e.demoInProduction ? " (sign in as an admin to read it)" : ""}`,
+    );
   if (!e.fakes) console.log("  Demo fakes are off (set PACEWRIGHT_FAKES=on for the local demo).");
   if (seed) {
     console.log("  Demo sign-ins (password for all: " + DEMO_ACCOUNTS.password + "):");
@@ -81,7 +84,11 @@ function portInUse(err: unknown): string | null {
   if (e?.code !== "EADDRINUSE") return null;
   const settings = env();
   const variable =
-    e.port === settings.smtpCatcherPort ? "SMTP_CATCHER_PORT" : e.port === settings.fakePaymentsPort ? "FAKE_PAYMENTS_PORT" : "PORT";
+    e.port === settings.smtpCatcherPort
+      ? "SMTP_CATCHER_PORT"
+      : e.port === settings.fakePaymentsPort
+        ? "FAKE_PAYMENTS_PORT"
+        : "PORT";
   return `Port ${e.port} is already in use: stop what holds it, or set ${variable} to another port (e.g. ${variable}=${(e.port ?? 3000) + 10} npm start).`;
 }
 

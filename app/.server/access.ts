@@ -72,7 +72,10 @@ export function orderRole(viewer: User, order: Order, listing: Listing | null): 
   return null;
 }
 
-export async function orderFor(viewer: User, orderId: number): Promise<{ order: Order; listing: Listing | null; as: "buyer" | "seller" } | null> {
+export async function orderFor(
+  viewer: User,
+  orderId: number,
+): Promise<{ order: Order; listing: Listing | null; as: "buyer" | "seller" } | null> {
   if (!validId(orderId)) return null;
   const order = await Order.findByPk(orderId);
   if (!order) return null;
@@ -98,7 +101,10 @@ export async function requireAthleteFor(viewer: User, athleteIdParam: string | n
  * Pages shared by athletes and coaches: under /coach/athletes/:athleteId a coach acts for one of their athletes
  * (404 for anyone else's); elsewhere an athlete acts for themselves.
  */
-export async function requireAthleteSubject(request: Request, athleteIdParam?: string): Promise<{ viewer: User; athlete: User; base: string }> {
+export async function requireAthleteSubject(
+  request: Request,
+  athleteIdParam?: string,
+): Promise<{ viewer: User; athlete: User; base: string }> {
   if (athleteIdParam !== undefined) {
     const coach = await requireRole(request, "coach");
     const athlete = await requireAthleteFor(coach, athleteIdParam);
@@ -114,7 +120,11 @@ export async function requirePlan(viewer: User, planIdParam: string | number | u
   return plan;
 }
 
-export async function requireUpload(viewer: User, uploadIdParam: string | number | undefined, message = "No ride file with this id."): Promise<{ upload: Upload; athlete: User }> {
+export async function requireUpload(
+  viewer: User,
+  uploadIdParam: string | number | undefined,
+  message = "No ride file with this id.",
+): Promise<{ upload: Upload; athlete: User }> {
   const found = await uploadFor(viewer, Number(uploadIdParam));
   if (!found) notFound(message);
   return found;
@@ -127,8 +137,13 @@ export async function requireOrder(viewer: User, orderIdParam: string | number |
 }
 
 /** A scheduled session the viewer may see; under a coach's athlete URL it must also be that athlete's. */
-export async function requireScheduledSession(viewer: User, sessionIdParam: string | number | undefined, athlete?: User): Promise<ScheduledSession> {
+export async function requireScheduledSession(
+  viewer: User,
+  sessionIdParam: string | number | undefined,
+  athlete?: User,
+): Promise<ScheduledSession> {
   const session = await scheduledSessionFor(viewer, Number(sessionIdParam));
-  if (!session || (athlete && session.athleteId !== athlete.id)) notFound("No session with this id is on this calendar.");
+  if (!session || (athlete && session.athleteId !== athlete.id))
+    notFound("No session with this id is on this calendar.");
   return session;
 }

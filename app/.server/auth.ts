@@ -108,7 +108,9 @@ export async function getUser(request: Request): Promise<User | null> {
   if (!row || row.expiresAt.getTime() <= Date.now()) return null;
   // For the devices list; written at most every few minutes so reads stay reads.
   if (!row.lastSeenAt || Date.now() - row.lastSeenAt.getTime() > SEEN_EVERY_MS) {
-    await writeTransaction((transaction) => AuthSession.update({ lastSeenAt: new Date() }, { where: { id: row.id }, transaction }));
+    await writeTransaction((transaction) =>
+      AuthSession.update({ lastSeenAt: new Date() }, { where: { id: row.id }, transaction }),
+    );
   }
   return User.findByPk(row.userId);
 }
@@ -165,12 +167,20 @@ export const pendingSignIn = createCookie("pw_two_step", {
 });
 
 export async function pendingCookieFor(user: User, redirectTo: string) {
-  return pendingSignIn.serialize({ userId: user.id, until: Date.now() + 5 * 60 * 1000, redirectTo }, { secure: env().appUrl.startsWith("https://") });
+  return pendingSignIn.serialize(
+    { userId: user.id, until: Date.now() + 5 * 60 * 1000, redirectTo },
+    { secure: env().appUrl.startsWith("https://") },
+  );
 }
 
 export async function readPending(request: Request): Promise<{ user: User; redirectTo: string } | null> {
-  const value = (await pendingSignIn.parse(request.headers.get("cookie"))) as { userId?: unknown; until?: unknown; redirectTo?: unknown } | null;
-  if (!value || typeof value.userId !== "number" || typeof value.until !== "number" || value.until < Date.now()) return null;
+  const value = (await pendingSignIn.parse(request.headers.get("cookie"))) as {
+    userId?: unknown;
+    until?: unknown;
+    redirectTo?: unknown;
+  } | null;
+  if (!value || typeof value.userId !== "number" || typeof value.until !== "number" || value.until < Date.now())
+    return null;
   const user = await User.findByPk(value.userId);
   if (!user || !twoStepOn(user)) return null;
   return { user, redirectTo: typeof value.redirectTo === "string" ? value.redirectTo : "/" };

@@ -102,7 +102,9 @@ let writeQueue: Promise<unknown> = Promise.resolve();
  */
 export function writeTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise<T> {
   if (inWrite.getStore()) {
-    return Promise.reject(new Error("writeTransaction was called inside another one; pass the outer transaction down instead."));
+    return Promise.reject(
+      new Error("writeTransaction was called inside another one; pass the outer transaction down instead."),
+    );
   }
   if (dialect() === "postgres") {
     // PostgreSQL serialises conflicting writers itself, across every instance: row locks (see lockRow) and the

@@ -32,7 +32,13 @@ export async function toastCookie(request: Request, toast: Toast) {
 }
 
 /** A redirect that shows `message` once on the page it lands on. */
-export async function redirectWithToast(request: Request, to: string, message: string, tone: Toast["tone"] = "ok", init: ResponseInit = {}) {
+export async function redirectWithToast(
+  request: Request,
+  to: string,
+  message: string,
+  tone: Toast["tone"] = "ok",
+  init: ResponseInit = {},
+) {
   const headers = new Headers(init.headers);
   headers.append("Set-Cookie", await toastCookie(request, { tone, message }));
   return redirect(to, { ...init, headers });

@@ -47,7 +47,13 @@ function sameOrigin(source: string, allowed: string[]) {
  */
 export function isCrossSiteWrite(
   method: string,
-  headers: { origin?: string | null; referer?: string | null; host?: string | null; secFetchSite?: string | null; hasSessionCookie?: boolean },
+  headers: {
+    origin?: string | null;
+    referer?: string | null;
+    host?: string | null;
+    secFetchSite?: string | null;
+    hasSessionCookie?: boolean;
+  },
   path: string,
   allowedOrigins: string[] = [],
 ) {
@@ -73,7 +79,12 @@ export function requireSameOrigin(request: Request, appUrl: string) {
   const h = request.headers;
   const refused = isCrossSiteWrite(
     request.method,
-    { origin: h.get("origin"), referer: h.get("referer"), secFetchSite: h.get("sec-fetch-site"), hasSessionCookie: true },
+    {
+      origin: h.get("origin"),
+      referer: h.get("referer"),
+      secFetchSite: h.get("sec-fetch-site"),
+      hasSessionCookie: true,
+    },
     url.pathname,
     [url.origin, new URL(appUrl).origin],
   );
@@ -84,7 +95,10 @@ export function requireSameOrigin(request: Request, appUrl: string) {
 export function requireJson(request: Request) {
   const type = (request.headers.get("content-type") ?? "").split(";")[0].trim().toLowerCase();
   if (type !== "application/json") {
-    throw Response.json({ error: "Send this as JSON (Content-Type: application/json)." }, { status: 415, headers: { "Cache-Control": "private, no-store" } });
+    throw Response.json(
+      { error: "Send this as JSON (Content-Type: application/json)." },
+      { status: 415, headers: { "Cache-Control": "private, no-store" } },
+    );
   }
 }
 

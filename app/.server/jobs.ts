@@ -39,7 +39,10 @@ export type JobHandlers = Record<string, JobHandler>;
  * row is done or failed is armed again, because the cause arose again (a coach delivering an order whose placement
  * had given up). Handlers check their own marks, so a re-armed job with nothing left to do does nothing.
  */
-export async function enqueueJob(job: { kind: string; key: string; orderId?: number | null }, transaction: Transaction) {
+export async function enqueueJob(
+  job: { kind: string; key: string; orderId?: number | null },
+  transaction: Transaction,
+) {
   const now = sqlDate(new Date());
   await db().query(
     `INSERT INTO jobs (kind, job_key, order_id, status, attempts, next_attempt_at, created_at, updated_at)
@@ -62,7 +65,16 @@ async function claimDue(limit: number, orderId?: number): Promise<Job[]> {
        WHERE id IN (SELECT id FROM jobs WHERE status = 'pending' AND next_attempt_at <= :now
                     ${orderId ? "AND order_id = :orderId" : ""} ORDER BY id LIMIT :limit ${skipLocked})
        RETURNING id`,
-      { replacements: { now: sqlDate(now), lease: sqlDate(new Date(now.getTime() + LEASE_MS)), limit, orderId: orderId ?? null }, type: QueryTypes.SELECT, transaction },
+      {
+        replacements: {
+          now: sqlDate(now),
+          lease: sqlDate(new Date(now.getTime() + LEASE_MS)),
+          limit,
+          orderId: orderId ?? null,
+        },
+        type: QueryTypes.SELECT,
+        transaction,
+      },
     ),
   );
   if (!rows.length) return [];
@@ -82,7 +94,10 @@ export async function runDueJobs(handlers: JobHandlers, opts: { limit?: number; 
       if (!handler) throw new Error(`No handler for jobs of kind "${job.kind}".`);
       await writeTransaction(async (transaction) => {
         await handler.run(job, transaction);
-        const [n] = await Job.update({ status: "done", doneAt: new Date(), lastError: null }, { where: { id: job.id, status: "pending", attempts: job.attempts }, transaction });
+        const [n] = await Job.update(
+          { status: "done", doneAt: new Date(), lastError: null },
+          { where: { id: job.id, status: "pending", attempts: job.attempts }, transaction },
+        );
         if (n !== 1) throw new LostClaim();
       });
       done++;
@@ -91,13 +106,19 @@ export async function runDueJobs(handlers: JobHandlers, opts: { limit?: number; 
       const message = String((err as Error).message ?? err).slice(0, 2000);
       const last = job.attempts >= JOB_MAX_ATTEMPTS;
       await Job.update(
-        { status: last ? "failed" : "pending", lastError: message, nextAttemptAt: new Date(Date.now() + jobBackoffMs(job.attempts)) },
+        {
+          status: last ? "failed" : "pending",
+          lastError: message,
+          nextAttemptAt: new Date(Date.now() + jobBackoffMs(job.attempts)),
+        },
         { where: { id: job.id, attempts: job.attempts } },
       );
       if (last) {
         failed++;
         console.error(`[jobs] ${job.jobKey} failed ${job.attempts} times, giving up: ${message}`);
-        await handler?.giveUp?.(job, message).catch((e) => console.error(`[jobs] ${job.jobKey}: giving up failed too:`, e));
+        await handler
+          ?.giveUp?.(job, message)
+          .catch((e) => console.error(`[jobs] ${job.jobKey}: giving up failed too:`, e));
       } else {
         retried++;
         console.warn(`[jobs] ${job.jobKey} failed (attempt ${job.attempts}), retrying later: ${message}`);
@@ -108,7 +129,8 @@ export async function runDueJobs(handlers: JobHandlers, opts: { limit?: number; 
 }
 
 declare global {
-  var __pacewrightJobs: { handlers: JobHandlers; timer: NodeJS.Timeout | null; busy: boolean; again: boolean } | undefined;
+  var __pacewrightJobs:
+    { handlers: JobHandlers; timer: NodeJS.Timeout | null; busy: boolean; again: boolean } | undefined;
 }
 
 async function runLoop() {

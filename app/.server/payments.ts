@@ -17,10 +17,17 @@ export function payments(): Stripe {
   // Without a real key the fake is the only provider, and it exists only while the demo fakes run.
   if (!e.stripeSecretKey && !e.fakes) throw new PaymentsNotConfigured();
   const key = e.stripeSecretKey ?? FAKE_KEY;
-  if (globalThis.__pacewrightStripe?.key === `${key}@${e.fakePaymentsPort}`) return globalThis.__pacewrightStripe.client;
+  if (globalThis.__pacewrightStripe?.key === `${key}@${e.fakePaymentsPort}`)
+    return globalThis.__pacewrightStripe.client;
   const client = e.stripeSecretKey
     ? new Stripe(key, { maxNetworkRetries: 2, telemetry: false })
-    : new Stripe(key, { host: "127.0.0.1", port: e.fakePaymentsPort, protocol: "http", maxNetworkRetries: 0, telemetry: false });
+    : new Stripe(key, {
+        host: "127.0.0.1",
+        port: e.fakePaymentsPort,
+        protocol: "http",
+        maxNetworkRetries: 0,
+        telemetry: false,
+      });
   globalThis.__pacewrightStripe = { key: `${key}@${e.fakePaymentsPort}`, client };
   return client;
 }

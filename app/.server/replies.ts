@@ -65,10 +65,17 @@ export function loaderFailure(err: unknown): never {
  * Form actions: the failure as the one form reply (conform's), under its field (or `field` when the failure names
  * none), else the form's, with the kind's status and any Retry-After.
  */
-export function formFailure(err: unknown, submission: Submission<unknown, string[], unknown>, opts: { field?: string } = {}) {
+export function formFailure(
+  err: unknown,
+  submission: Submission<unknown, string[], unknown>,
+  opts: { field?: string } = {},
+) {
   const e = domainFailure(err);
   const field = e.field ?? opts.field;
-  return refuse(submission, field ? { fields: { [field]: e.message } } : { form: e.message }, { status: statusFor(e.kind), headers: headersFor(e) });
+  return refuse(submission, field ? { fields: { [field]: e.message } } : { form: e.message }, {
+    status: statusFor(e.kind),
+    headers: headersFor(e),
+  });
 }
 
 /** Actions that post JSON but answer in the one form reply: the message under its field (or the form's). */

@@ -9,6 +9,7 @@ declare global {
 /** Uploaded files live in UPLOAD_DIR behind the file-storage interface, so another backend can replace it. */
 export function fileStorage(): FileStorage {
   const dir = env().uploadDir;
-  if (globalThis.__pacewrightStorage?.dir !== dir) globalThis.__pacewrightStorage = { dir, storage: createFsFileStorage(dir) };
+  if (globalThis.__pacewrightStorage?.dir !== dir)
+    globalThis.__pacewrightStorage = { dir, storage: createFsFileStorage(dir) };
   return globalThis.__pacewrightStorage.storage;
 }

@@ -43,7 +43,8 @@ export function AppShell({
   const { pathname } = useLocation();
   const [openOn, setOpenOn] = useState<string | null>(null);
   const menuOpen = openOn === pathname;
-  const setMenuOpen = (open: boolean | ((was: boolean) => boolean)) => setOpenOn((typeof open === "function" ? open(menuOpen) : open) ? pathname : null);
+  const setMenuOpen = (open: boolean | ((was: boolean) => boolean)) =>
+    setOpenOn((typeof open === "function" ? open(menuOpen) : open) ? pathname : null);
   return (
     <div className="min-h-screen">
       <header className="border-b border-line bg-white/80 backdrop-blur print:hidden">
@@ -60,7 +61,11 @@ export function AppShell({
           >
             Menu
           </button>
-          <nav id="main-nav" aria-label="Main" className={`${menuOpen ? "flex" : "hidden"} order-last w-full flex-col gap-1 lg:order-none lg:flex lg:w-auto lg:flex-1 lg:flex-row`}>
+          <nav
+            id="main-nav"
+            aria-label="Main"
+            className={`${menuOpen ? "flex" : "hidden"} order-last w-full flex-col gap-1 lg:order-none lg:flex lg:w-auto lg:flex-1 lg:flex-row`}
+          >
             {NAV[user.role].map((item) => (
               <NavLink
                 key={item.to}
@@ -75,17 +80,30 @@ export function AppShell({
               </NavLink>
             ))}
             {/* Where the name (the link to sign-in and devices) does not fit in the bar, the menu carries it. */}
-            <NavLink to="/account/security" onClick={() => setMenuOpen(false)} aria-label="Sign-in and devices" className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep xl:hidden">
+            <NavLink
+              to="/account/security"
+              onClick={() => setMenuOpen(false)}
+              aria-label="Sign-in and devices"
+              className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep xl:hidden"
+            >
               Account
             </NavLink>
             {devMail && (
-              <NavLink to="/dev/mail" onClick={() => setMenuOpen(false)} className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep">
+              <NavLink
+                to="/dev/mail"
+                onClick={() => setMenuOpen(false)}
+                className="rounded-md px-3 py-1.5 text-sm whitespace-nowrap text-ink-soft hover:bg-paper-deep"
+              >
                 Outbox (dev)
               </NavLink>
             )}
           </nav>
           <div className="flex items-center gap-3 text-sm">
-            <NavLink to="/account/security" className="hidden text-ink-soft hover:text-teal hover:underline xl:inline" title="Sign-in and devices">
+            <NavLink
+              to="/account/security"
+              className="hidden text-ink-soft hover:text-teal hover:underline xl:inline"
+              title="Sign-in and devices"
+            >
               {user.name} · <span className="capitalize">{user.role}</span>
             </NavLink>
             <Form method="post" action="/logout">

@@ -1,7 +1,17 @@
 import { Link } from "react-router";
 import { Logo } from "./logo";
 
-export function AuthFrame({ title, lead, children, footer }: { title: string; lead?: string; children: React.ReactNode; footer?: React.ReactNode }) {
+export function AuthFrame({
+  title,
+  lead,
+  children,
+  footer,
+}: {
+  title: string;
+  lead?: string;
+  children: React.ReactNode;
+  footer?: React.ReactNode;
+}) {
   return (
     <main className="flex min-h-screen flex-col items-center justify-center px-4 py-10">
       <Link to="/" className="mb-6 flex items-center gap-2 text-xl font-semibold text-teal">

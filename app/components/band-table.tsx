@@ -8,7 +8,8 @@ export function BandTable({ table, title }: { table: BandTableData; title?: stri
     <Card>
       <h2 className="font-semibold">{title ?? table.title}</h2>
       <p className="num text-xs text-ink-soft">
-        Threshold {formatThreshold(table.threshold, table.unit)} · {table.isDefault ? "Pacewright's default bands" : "your coach's bands"} ·{" "}
+        Threshold {formatThreshold(table.threshold, table.unit)} ·{" "}
+        {table.isDefault ? "Pacewright's default bands" : "your coach's bands"} ·{" "}
         <Link to="/bands/about" className="text-teal underline">
           about these bands
         </Link>
@@ -20,7 +21,10 @@ export function BandTable({ table, title }: { table: BandTableData; title?: stri
               <td className="py-1 pr-2">
                 <span
                   className="mr-2 inline-block h-3 w-3 rounded-sm align-middle"
-                  style={{ background: r.shade, boxShadow: r.aboveThreshold ? "inset 0 0 0 1.5px var(--color-brick)" : undefined }}
+                  style={{
+                    background: r.shade,
+                    boxShadow: r.aboveThreshold ? "inset 0 0 0 1.5px var(--color-brick)" : undefined,
+                  }}
                   aria-hidden
                 />
                 <span className="font-medium">{r.name}</span>

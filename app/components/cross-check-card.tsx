@@ -28,12 +28,22 @@ export function CrossCheckCard({ pair }: { pair: CrossCheckView }) {
         ))}
       </div>
       <p className="mt-3 text-sm">
-        <strong className={pair.check.agreement === "disagree" ? "text-brick" : "text-teal"}>They {WORD[pair.check.agreement]}.</strong> {pair.check.message}
+        <strong className={pair.check.agreement === "disagree" ? "text-brick" : "text-teal"}>
+          They {WORD[pair.check.agreement]}.
+        </strong>{" "}
+        {pair.check.message}
       </p>
-      <p className="mt-1 text-xs text-ink-soft">The difference is taken of the two estimates' mean. Within 3 %: agree; 3–6 %: roughly agree; above 6 %: disagree (common practice for repeated maximal tests).</p>
+      <p className="mt-1 text-xs text-ink-soft">
+        The difference is taken of the two estimates' mean. Within 3 %: agree; 3–6 %: roughly agree; above 6 %: disagree
+        (common practice for repeated maximal tests).
+      </p>
       {pair.settled && (
         <p className="mt-2 text-sm" data-testid="cross-check-settled">
-          The threshold now comes from this cross-check: {pair.settled.choice === "mean" ? "the mean of both tests" : `the ${pair.settled.choice === "a" ? "first" : "second"} test`} ({pair.settled.display}).
+          The threshold now comes from this cross-check:{" "}
+          {pair.settled.choice === "mean"
+            ? "the mean of both tests"
+            : `the ${pair.settled.choice === "a" ? "first" : "second"} test`}{" "}
+          ({pair.settled.display}).
         </p>
       )}
       <fetcher.Form method="post" className="mt-3 flex flex-col gap-2 text-sm">

@@ -35,13 +35,25 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
         {feed ? (
           <div className="flex flex-col gap-4 text-sm">
             <p>
-              Subscribe to this private link in your phone's or computer's calendar app. It shows {data.forCoach ? "your athletes' field tests and key sessions" : "your sessions with your own targets"}, and follows every change — moves, plan edits and new thresholds — when the app refreshes.
+              Subscribe to this private link in your phone's or computer's calendar app. It shows{" "}
+              {data.forCoach ? "your athletes' field tests and key sessions" : "your sessions with your own targets"},
+              and follows every change — moves, plan edits and new thresholds — when the app refreshes.
             </p>
             {(["webcal", "https"] as const).map((k) => (
               <div key={k} className="flex flex-col gap-1">
-                <span className="font-medium">{k === "webcal" ? "Subscribe link (opens your calendar app)" : "Web link (paste into “add calendar from URL”)"}</span>
+                <span className="font-medium">
+                  {k === "webcal"
+                    ? "Subscribe link (opens your calendar app)"
+                    : "Web link (paste into “add calendar from URL”)"}
+                </span>
                 <div className="flex gap-2">
-                  <input readOnly value={feed[k]} aria-label={k === "webcal" ? "Subscribe link" : "Web link"} className="num flex-1 rounded-lg border border-line bg-paper/60 px-3 py-2 text-xs" onFocus={(e) => e.target.select()} />
+                  <input
+                    readOnly
+                    value={feed[k]}
+                    aria-label={k === "webcal" ? "Subscribe link" : "Web link"}
+                    className="num flex-1 rounded-lg border border-line bg-paper/60 px-3 py-2 text-xs"
+                    onFocus={(e) => e.target.select()}
+                  />
                   <button type="button" className={buttonClass("secondary", "px-3")} onClick={() => copy(feed[k], k)}>
                     {copied === k ? "Copied" : "Copy"}
                   </button>
@@ -58,7 +70,10 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
             </p>
             <p className="text-xs text-ink-soft">
               Keep the link to yourself: anyone with it can read this calendar. Made {feed.createdAt.slice(0, 10)}
-              {feed.lastUsedAt ? `; last fetched ${feed.lastUsedAt.slice(0, 16).replace("T", " ")} UTC` : "; not fetched yet"}.
+              {feed.lastUsedAt
+                ? `; last fetched ${feed.lastUsedAt.slice(0, 16).replace("T", " ")} UTC`
+                : "; not fetched yet"}
+              .
             </p>
             <fetcher.Form method="post" className="flex flex-wrap gap-2">
               <button name="intent" value="rotate" className={buttonClass("secondary")}>
@@ -81,7 +96,11 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
           <fetcher.Form method="post" className="mt-6 flex flex-wrap items-end gap-2 border-t border-line pt-4 text-sm">
             <label className="flex flex-col gap-1">
               <span className="font-medium">Reminder before timed sessions</span>
-              <select name="alarmMinutes" defaultValue={data.alarmMinutes ?? ""} className="rounded-lg border border-line bg-white px-3 py-2">
+              <select
+                name="alarmMinutes"
+                defaultValue={data.alarmMinutes ?? ""}
+                className="rounded-lg border border-line bg-white px-3 py-2"
+              >
                 <option value="">None</option>
                 <option value="15">15 minutes</option>
                 <option value="30">30 minutes</option>
@@ -100,7 +119,12 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
         <Card>
           <h2 className="font-semibold">On your phone</h2>
           <p className="mt-1 text-xs text-ink-soft">Scan with the camera to subscribe.</p>
-          <div className="mt-3 rounded-lg bg-white p-2" role="img" aria-label="QR code of the subscribe link" dangerouslySetInnerHTML={{ __html: feed.qrSvg }} />
+          <div
+            className="mt-3 rounded-lg bg-white p-2"
+            role="img"
+            aria-label="QR code of the subscribe link"
+            dangerouslySetInnerHTML={{ __html: feed.qrSvg }}
+          />
         </Card>
       )}
     </div>
@@ -116,15 +140,23 @@ function TrainingTimes({ times }: { times: (string | null)[] }) {
   const [sent, setSent] = useState<string[] | null>(null);
   const errors = fetcher.data?.fieldErrors ?? {};
   return (
-    <fetcher.Form method="post" className="mt-6 border-t border-line pt-4 text-sm" onSubmit={() => setSent(values)} noValidate>
+    <fetcher.Form
+      method="post"
+      className="mt-6 border-t border-line pt-4 text-sm"
+      onSubmit={() => setSent(values)}
+      noValidate
+    >
       <fieldset>
         <legend className="font-medium">Usual training time</legend>
         <p className="mt-1 text-xs text-ink-soft">
-          With a time, a session becomes an event that starts then and lasts as long as the session, in your time zone. Leave a day empty to keep its
-          sessions all-day.
+          With a time, a session becomes an event that starts then and lasts as long as the session, in your time zone.
+          Leave a day empty to keep its sessions all-day.
         </p>
         {fetcher.data && (!fetcher.data.fieldErrors || sent === values) && (
-          <p role={fetcher.data.ok ? "status" : "alert"} className={`mt-2 ${fetcher.data.ok ? "text-teal-dark" : "text-brick"}`}>
+          <p
+            role={fetcher.data.ok ? "status" : "alert"}
+            className={`mt-2 ${fetcher.data.ok ? "text-teal-dark" : "text-brick"}`}
+          >
             {fetcher.data.message}
           </p>
         )}

@@ -26,7 +26,12 @@ export function PhaseRibbon({ weeks, className = "" }: { weeks: RibbonWeek[]; cl
               {w.recovery ? ", recovery week" : ""}
               {w.test ? ", test week" : ""}
             </span>
-            {w.test && <span aria-hidden="true" className="absolute top-1 left-1/2 h-1.5 w-1.5 -translate-x-1/2 rounded-full bg-paper ring-1 ring-ink" />}
+            {w.test && (
+              <span
+                aria-hidden="true"
+                className="absolute top-1 left-1/2 h-1.5 w-1.5 -translate-x-1/2 rounded-full bg-paper ring-1 ring-ink"
+              />
+            )}
           </li>
         ))}
       </ol>

@@ -12,7 +12,8 @@ export function RunningPacesCard({ paces }: { paces: RunningPacesView }) {
     <Card data-testid="running-paces">
       <h2 className="font-semibold">Running paces</h2>
       <p className="text-xs text-ink-soft">
-        From a running index of {paces.index} (race of {paces.testedOn}; Daniels' training intensities). As a session target, use the % of threshold speed.
+        From a running index of {paces.index} (race of {paces.testedOn}; Daniels' training intensities). As a session
+        target, use the % of threshold speed.
       </p>
       <table className="num mt-2 w-full text-sm">
         <thead className="text-left text-xs text-ink-soft">
@@ -26,8 +27,12 @@ export function RunningPacesCard({ paces }: { paces: RunningPacesView }) {
           {paces.rows.map((r) => (
             <tr key={r.key} className="border-t border-line">
               <td className="py-1 pr-2">{r.name}</td>
-              <td className="py-1 pr-2 whitespace-nowrap">{r.slowS === r.fastS ? pace(r.slowS) : `${pace(r.slowS)}–${pace(r.fastS)}`}</td>
-              <td className="py-1 whitespace-nowrap">{r.lowPct === r.highPct ? `${r.lowPct} %` : `${r.lowPct}–${r.highPct} %`}</td>
+              <td className="py-1 pr-2 whitespace-nowrap">
+                {r.slowS === r.fastS ? pace(r.slowS) : `${pace(r.slowS)}–${pace(r.fastS)}`}
+              </td>
+              <td className="py-1 whitespace-nowrap">
+                {r.lowPct === r.highPct ? `${r.lowPct} %` : `${r.lowPct}–${r.highPct} %`}
+              </td>
             </tr>
           ))}
         </tbody>

@@ -7,7 +7,6 @@ import { BLOCK_KINDS, validateBlocks, type Block, type Metric } from "~/lib/trai
 import { SessionEstimate } from "./session-builder/estimate";
 import { keyed, StepList, type Keyed } from "./session-builder/step-list";
 
-
 export interface BuilderValues {
   name: string;
   sport: string;
@@ -16,7 +15,15 @@ export interface BuilderValues {
   blocks: Block[];
 }
 
-export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial: BuilderValues; errors?: Record<string, string | undefined>; submitLabel: string }) {
+export function SessionBuilder({
+  initial,
+  errors = {},
+  submitLabel,
+}: {
+  initial: BuilderValues;
+  errors?: Record<string, string | undefined>;
+  submitLabel: string;
+}) {
   const [name, setName] = useState(initial.name);
   const [sport, setSport] = useState(initial.sport);
   const [description, setDescription] = useState(initial.description);
@@ -36,7 +43,10 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
     name,
     sport,
     description,
-    tags: tags.split(",").map((t) => t.trim()).filter(Boolean),
+    tags: tags
+      .split(",")
+      .map((t) => t.trim())
+      .filter(Boolean),
     blocks,
   });
   const errorList = Object.entries(allErrors).filter(([, v]) => v) as [string, string][];
@@ -50,7 +60,11 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
           <TextField label="Name" value={name} onChange={setName} error={allErrors.name} required />
           <label className="flex flex-col gap-1 text-sm">
             <span className="font-medium">Sport</span>
-            <select value={sport} onChange={(e) => setSport(e.target.value)} className="rounded-lg border border-line bg-white px-3 py-2">
+            <select
+              value={sport}
+              onChange={(e) => setSport(e.target.value)}
+              className="rounded-lg border border-line bg-white px-3 py-2"
+            >
               {SPORTS.map((s) => (
                 <option key={s} value={s}>
                   {SPORT_LABEL[s]}
@@ -60,9 +74,20 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
           </label>
           <label className="flex flex-col gap-1 text-sm sm:col-span-2">
             <span className="font-medium">Description</span>
-            <textarea value={description} onChange={(e) => setDescription(e.target.value)} rows={2} className="rounded-lg border border-line px-3 py-2" />
+            <textarea
+              value={description}
+              onChange={(e) => setDescription(e.target.value)}
+              rows={2}
+              className="rounded-lg border border-line px-3 py-2"
+            />
           </label>
-          <TextField label="Tags (comma-separated)" value={tags} onChange={setTags} error={allErrors.tags} className="sm:col-span-2" />
+          <TextField
+            label="Tags (comma-separated)"
+            value={tags}
+            onChange={setTags}
+            error={allErrors.tags}
+            className="sm:col-span-2"
+          />
         </div>
 
         <section aria-labelledby="blocks-heading" className="flex flex-col gap-3">
@@ -72,7 +97,12 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
             </h2>
             <div className="flex flex-wrap gap-1" role="group" aria-label="Add a block">
               {BLOCK_KINDS.map((k) => (
-                <button key={k} type="button" className={buttonClass("secondary", "px-2.5 py-1")} onClick={() => setItems((l) => [...l, keyed(newBlock(k, defaultMetric))])}>
+                <button
+                  key={k}
+                  type="button"
+                  className={buttonClass("secondary", "px-2.5 py-1")}
+                  onClick={() => setItems((l) => [...l, keyed(newBlock(k, defaultMetric))])}
+                >
                   + {BLOCK_LABEL[k]}
                 </button>
               ))}
@@ -84,7 +114,13 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
       </div>
 
       <aside className="flex flex-col gap-4 lg:sticky lg:top-4 lg:self-start" aria-label="Preview and estimates">
-        <SessionEstimate blocks={blocks} sport={sport} valid={blocksValid} reference={reference} onReference={setReference} />
+        <SessionEstimate
+          blocks={blocks}
+          sport={sport}
+          valid={blocksValid}
+          reference={reference}
+          onReference={setReference}
+        />
         {errorList.length > 0 && (
           <div role="alert" className="rounded-xl border border-brick/40 bg-brick/10 p-3 text-sm text-brick">
             {errorList.length} field{errorList.length === 1 ? " needs" : "s need"} attention before saving.
@@ -98,13 +134,32 @@ export function SessionBuilder({ initial, errors = {}, submitLabel }: { initial:
   );
 }
 
-function TextField({ label, value, onChange, error, className = "", required }: { label: string; value: string; onChange: (v: string) => void; error?: string; className?: string; required?: boolean }) {
+function TextField({
+  label,
+  value,
+  onChange,
+  error,
+  className = "",
+  required,
+}: {
+  label: string;
+  value: string;
+  onChange: (v: string) => void;
+  error?: string;
+  className?: string;
+  required?: boolean;
+}) {
   return (
     <label className={`flex flex-col gap-1 text-sm ${className}`}>
       <span className="font-medium">{label}</span>
-      <input value={value} onChange={(e) => onChange(e.target.value)} required={required} aria-invalid={error ? true : undefined} className={`rounded-lg border px-3 py-2 ${error ? "border-brick" : "border-line"}`} />
+      <input
+        value={value}
+        onChange={(e) => onChange(e.target.value)}
+        required={required}
+        aria-invalid={error ? true : undefined}
+        className={`rounded-lg border px-3 py-2 ${error ? "border-brick" : "border-line"}`}
+      />
       {error && <span className="text-brick">{error}</span>}
     </label>
   );
 }
-

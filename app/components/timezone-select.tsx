@@ -25,7 +25,15 @@ function allZones(): string[] {
 }
 
 /** Pre-selects the browser's zone after hydration; the server renders a stable default. */
-export function TimezoneSelect({ defaultValue, error, name = "timezone" }: { defaultValue?: string; error?: string; name?: string }) {
+export function TimezoneSelect({
+  defaultValue,
+  error,
+  name = "timezone",
+}: {
+  defaultValue?: string;
+  error?: string;
+  name?: string;
+}) {
   const [zone, setZone] = useState(defaultValue ?? "UTC");
   const [zones, setZones] = useState<string[]>(() => Array.from(new Set([defaultValue ?? "UTC", ...COMMON])));
   useEffect(() => {

@@ -47,10 +47,14 @@ export function UploadBox({
         /* not JSON */
       }
       if (xhr.status === 201 && reply?.upload) {
-        setDone(`${reply.upload.name} read: ${Math.round(reply.upload.summary.durationS / 60)} min, ${reply.upload.summary.channels.join(", ")}.`);
+        setDone(
+          `${reply.upload.name} read: ${Math.round(reply.upload.summary.durationS / 60)} min, ${reply.upload.summary.channels.join(", ")}.`,
+        );
         onUploaded(reply as UploadResult);
       } else {
-        const message = reply?.error ?? (xhr.status === 413 ? "That file is larger than 25 MB." : `The upload failed (${xhr.status}).`);
+        const message =
+          reply?.error ??
+          (xhr.status === 413 ? "That file is larger than 25 MB." : `The upload failed (${xhr.status}).`);
         setError(message);
         onFailed?.(message);
       }
@@ -68,7 +72,14 @@ export function UploadBox({
       <label className="font-medium" htmlFor="ride-file">
         {label}
       </label>
-      <input id="ride-file" ref={input} type="file" accept=".csv,.gpx,.fit" onChange={(e) => e.target.files?.[0] && send(e.target.files[0])} className="text-sm" />
+      <input
+        id="ride-file"
+        ref={input}
+        type="file"
+        accept=".csv,.gpx,.fit"
+        onChange={(e) => e.target.files?.[0] && send(e.target.files[0])}
+        className="text-sm"
+      />
       {progress !== null && (
         <div className="flex items-center gap-2">
           <progress value={progress} max={100} className="h-2 w-full accent-teal" aria-label="Upload progress" />

@@ -27,7 +27,10 @@ export function bandSetTitle(sport: string, metric: Metric) {
 }
 
 /** The bands of one threshold for display (null where no band set applies). */
-export function bandTable(t: { sport: string; metric: string; value: number; unit: string }, set: BandSet): BandTableData | null {
+export function bandTable(
+  t: { sport: string; metric: string; value: number; unit: string },
+  set: BandSet,
+): BandTableData | null {
   const metric = t.metric as Metric;
   return {
     key: `${t.sport}:${t.metric}`,
@@ -42,4 +45,10 @@ export function bandTable(t: { sport: string; metric: string; value: number; uni
 }
 
 /** The page's name for each kind of threshold, keyed `sport:metric`. */
-export const THRESHOLD_LABEL: Record<string, string> = { "bike:power": "Bike power", "bike:heart_rate": "Bike heart rate", "run:heart_rate": "Run heart rate", "run:pace": "Run pace", "swim:pace": "Swim pace" };
+export const THRESHOLD_LABEL: Record<string, string> = {
+  "bike:power": "Bike power",
+  "bike:heart_rate": "Bike heart rate",
+  "run:heart_rate": "Run heart rate",
+  "run:pace": "Run pace",
+  "swim:pace": "Swim pace",
+};

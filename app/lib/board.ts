@@ -65,7 +65,13 @@ function shapeOf(blocks: readonly Block[], test: boolean, bands: readonly Band[]
   let steps: ProfileStep[] = [];
   let durationS = 0;
   try {
-    steps = expandBlocks(blocks).map((s) => ({ s: s.startS, d: s.durationS, lo: s.lowPct, hi: s.highPct, ramp: s.ramp }));
+    steps = expandBlocks(blocks).map((s) => ({
+      s: s.startS,
+      d: s.durationS,
+      lo: s.lowPct,
+      hi: s.highPct,
+      ramp: s.ramp,
+    }));
     durationS = blocks.reduce((sum, b) => sum + blockDuration(b), 0);
   } catch {
     // A block list the engine refuses still gets its card, without a profile.
@@ -79,7 +85,10 @@ function shapeOf(blocks: readonly Block[], test: boolean, bands: readonly Band[]
 }
 
 /** Full plan items (as the service and the board's JSON route give them) → the board's cards and distinct shapes. */
-export function boardView(items: readonly FullItem[], bands: readonly Band[]): { cards: BoardCard[]; shapes: BoardShape[] } {
+export function boardView(
+  items: readonly FullItem[],
+  bands: readonly Band[],
+): { cards: BoardCard[]; shapes: BoardShape[] } {
   const index = new Map<string, number>();
   const shapes: BoardShape[] = [];
   const cards = items.map((i): BoardCard => {

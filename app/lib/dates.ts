@@ -1,5 +1,13 @@
 import { UTCDate } from "@date-fns/utc";
-import { addDays as addDaysTo, addWeeks as addWeeksTo, differenceInCalendarDays, formatISO, getISODay, startOfISOWeek, subDays as subDaysFrom } from "date-fns";
+import {
+  addDays as addDaysTo,
+  addWeeks as addWeeksTo,
+  differenceInCalendarDays,
+  formatISO,
+  getISODay,
+  startOfISOWeek,
+  subDays as subDaysFrom,
+} from "date-fns";
 
 /**
  * Calendar-date helpers on YYYY-MM-DD strings. Arithmetic is date-fns on UTCDate, so no daylight-saving shift can
@@ -16,7 +24,8 @@ export const daysBetween = (a: string, b: string) => differenceInCalendarDays(da
 /** 0 = Monday … 6 = Sunday. */
 export const weekday = (isoDay: string) => getISODay(day(isoDay)) - 1;
 export const mondayOf = (isoDay: string) => iso(startOfISOWeek(day(isoDay)));
-export const isIsoDate = (s: unknown): s is string => typeof s === "string" && /^\d{4}-\d{2}-\d{2}$/.test(s) && Number.isFinite(toMs(s)) && fromMs(toMs(s)) === s;
+export const isIsoDate = (s: unknown): s is string =>
+  typeof s === "string" && /^\d{4}-\d{2}-\d{2}$/.test(s) && Number.isFinite(toMs(s)) && fromMs(toMs(s)) === s;
 /** `n` consecutive days from `first`; built in one pass because long series (years of days) ask for it. */
 export function dayRange(first: string, n: number): string[] {
   const start = toMs(first);
@@ -37,11 +46,20 @@ function cachedFormat(key: string, make: () => Intl.DateTimeFormat) {
 }
 
 export function todayIn(timeZone: string, now = new Date()): string {
-  const parts = cachedFormat(`today:${timeZone}`, () => new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" })).formatToParts(now);
+  const parts = cachedFormat(
+    `today:${timeZone}`,
+    () => new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }),
+  ).formatToParts(now);
   const get = (t: string) => parts.find((p) => p.type === t)!.value;
   return `${get("year")}-${get("month")}-${get("day")}`;
 }
 
-export function formatDay(iso: string, opts: Intl.DateTimeFormatOptions = { weekday: "short", day: "numeric", month: "short" }) {
-  return cachedFormat(`day:${JSON.stringify(opts)}`, () => new Intl.DateTimeFormat("en-GB", { ...opts, timeZone: "UTC" })).format(new Date(toMs(iso)));
+export function formatDay(
+  iso: string,
+  opts: Intl.DateTimeFormatOptions = { weekday: "short", day: "numeric", month: "short" },
+) {
+  return cachedFormat(
+    `day:${JSON.stringify(opts)}`,
+    () => new Intl.DateTimeFormat("en-GB", { ...opts, timeZone: "UTC" }),
+  ).format(new Date(toMs(iso)));
 }

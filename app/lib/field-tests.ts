@@ -24,7 +24,12 @@ export interface ThresholdResult {
   /** Reasons from the protocol itself to check this result; each one makes the plausibility guard ask for confirmation. */
   cautions: string[];
   /** The critical-power fit, for showing. */
-  fit?: { cpW: number; wPrimeJ: number; r2: number; points: { durationS: number; meanPowerW: number; workJ: number; fittedWorkJ: number }[] };
+  fit?: {
+    cpW: number;
+    wPrimeJ: number;
+    r2: number;
+    points: { durationS: number; meanPowerW: number; workJ: number; fittedWorkJ: number }[];
+  };
   /** The ramp's rate and whether the 0.75 rule holds for it. */
   ramp?: { rateWPerMin: number; withinUsual: boolean };
 }
@@ -57,23 +62,43 @@ export const testInputSchemas = {
     bestOneMinuteW: watts("best one-minute power", 80, 1200),
     rampRateWPerMin: z.coerce
       .number({ error: "Give how many watts the ramp added each minute." })
-      .refine((v) => Number.isFinite(v) && v >= 1 && v <= 100, "The ramp rate must be 1–100 W per minute; check the number."),
+      .refine(
+        (v) => Number.isFinite(v) && v >= 1 && v <= 100,
+        "The ramp rate must be 1–100 W per minute; check the number.",
+      ),
   }),
   twenty_minute: z.object({ meanW: watts("20-minute mean power", 50, 700) }),
-  eight_minute: z.object({ meanW: watts("8-minute mean power", 50, 800), secondMeanW: watts("second 8-minute mean power", 50, 800).optional().or(z.literal("").transform(() => undefined)) }),
+  eight_minute: z.object({
+    meanW: watts("8-minute mean power", 50, 800),
+    secondMeanW: watts("second 8-minute mean power", 50, 800)
+      .optional()
+      .or(z.literal("").transform(() => undefined)),
+  }),
   critical_power: z.object({
     efforts: z
       .array(z.object({ duration: time, meanW: watts("effort's mean power", 50, 1500) }))
       .min(2, "Give at least two efforts.")
       .max(4, "Give at most four efforts."),
   }),
-  hr_thirty: z.object({ sport: z.enum(["bike", "run"]), meanHr: z.coerce.number().int().min(80, "Heart rate must be 80–230 bpm.").max(230, "Heart rate must be 80–230 bpm.") }),
-  run_race: z.object({ distanceM: z.coerce.number().min(800, "Use a race of 800 m to 50 km.").max(50_000, "Use a race of 800 m to 50 km."), time }),
+  hr_thirty: z.object({
+    sport: z.enum(["bike", "run"]),
+    meanHr: z.coerce
+      .number()
+      .int()
+      .min(80, "Heart rate must be 80–230 bpm.")
+      .max(230, "Heart rate must be 80–230 bpm."),
+  }),
+  run_race: z.object({
+    distanceM: z.coerce.number().min(800, "Use a race of 800 m to 50 km.").max(50_000, "Use a race of 800 m to 50 km."),
+    time,
+  }),
   swim_pair: z.object({ t400: time, t200: time }),
   manual: z.object({
     sport: z.enum(["bike", "run", "swim"]),
     metric: z.enum(["power", "heart_rate", "pace"]),
-    value: z.coerce.number({ error: "Enter the threshold as a number." }).refine(Number.isFinite, "Enter the threshold as a number."),
+    value: z.coerce
+      .number({ error: "Enter the threshold as a number." })
+      .refine(Number.isFinite, "Enter the threshold as a number."),
   }),
 } satisfies Record<ProtocolKey, z.ZodType>;
 
@@ -100,19 +125,40 @@ function compute(protocol: ProtocolKey, raw: unknown): ThresholdResult {
         metric: "power",
         value: thresholdFromRamp(v.bestOneMinuteW),
         unit: "W",
-        details: { bestOneMinuteW: v.bestOneMinuteW, factor: 0.75, rampRateWPerMin: rate.rateWPerMin, rateWithinUsual: rate.withinUsual ? "yes" : "no" },
+        details: {
+          bestOneMinuteW: v.bestOneMinuteW,
+          factor: 0.75,
+          rampRateWPerMin: rate.rateWPerMin,
+          rateWithinUsual: rate.withinUsual ? "yes" : "no",
+        },
         cautions: rate.caution ? [rate.caution] : [],
         ramp: { rateWPerMin: rate.rateWPerMin, withinUsual: rate.withinUsual },
       };
     }
     case "twenty_minute":
-      return { sport: "bike", metric: "power", value: thresholdFromTwentyMinute(v.meanW), unit: "W", details: { meanW: v.meanW, factor: 0.95 }, cautions: [] };
+      return {
+        sport: "bike",
+        metric: "power",
+        value: thresholdFromTwentyMinute(v.meanW),
+        unit: "W",
+        details: { meanW: v.meanW, factor: 0.95 },
+        cautions: [],
+      };
     case "eight_minute": {
       const mean = v.secondMeanW ? (v.meanW + v.secondMeanW) / 2 : v.meanW;
-      return { sport: "bike", metric: "power", value: thresholdFromEightMinute(mean), unit: "W", details: { meanW: mean, factor: 0.9 }, cautions: [] };
+      return {
+        sport: "bike",
+        metric: "power",
+        value: thresholdFromEightMinute(mean),
+        unit: "W",
+        details: { meanW: mean, factor: 0.9 },
+        cautions: [],
+      };
     }
     case "critical_power": {
-      const r = criticalPower(v.efforts.map((e: { duration: number; meanW: number }) => ({ durationS: e.duration, meanPowerW: e.meanW })));
+      const r = criticalPower(
+        v.efforts.map((e: { duration: number; meanW: number }) => ({ durationS: e.duration, meanPowerW: e.meanW })),
+      );
       return {
         sport: "bike",
         metric: "power",
@@ -124,19 +170,43 @@ function compute(protocol: ProtocolKey, raw: unknown): ThresholdResult {
       };
     }
     case "hr_thirty":
-      return { sport: v.sport, metric: "heart_rate", value: v.meanHr, unit: "bpm", details: { meanHrLast20Min: v.meanHr }, cautions: [] };
+      return {
+        sport: v.sport,
+        metric: "heart_rate",
+        value: v.meanHr,
+        unit: "bpm",
+        details: { meanHrLast20Min: v.meanHr },
+        cautions: [],
+      };
     case "run_race": {
       const index = runningIndex(v.distanceM, v.time);
-      return { sport: "run", metric: "pace", value: thresholdPaceForIndex(index), unit: "s/km", details: { runningIndex: index, distanceM: v.distanceM, timeS: v.time }, cautions: [] };
+      return {
+        sport: "run",
+        metric: "pace",
+        value: thresholdPaceForIndex(index),
+        unit: "s/km",
+        details: { runningIndex: index, distanceM: v.distanceM, timeS: v.time },
+        cautions: [],
+      };
     }
     case "swim_pair": {
       const r = criticalSwimSpeed(v.t400, v.t200);
-      return { sport: "swim", metric: "pace", value: r.pacePer100mS, unit: "s/100m", details: { speedMps: r.speedMps, dPrimeM: r.dPrimeM }, cautions: [] };
+      return {
+        sport: "swim",
+        metric: "pace",
+        value: r.pacePer100mS,
+        unit: "s/100m",
+        details: { speedMps: r.speedMps, dPrimeM: r.dPrimeM },
+        cautions: [],
+      };
     }
     case "manual": {
-      const unit = v.metric === "power" ? "W" : v.metric === "heart_rate" ? "bpm" : v.sport === "swim" ? "s/100m" : "s/km";
-      if (v.metric === "power" && v.sport !== "bike") throw new TrainingInputError("inconsistent", "Power thresholds are for cycling.");
-      if (v.metric === "pace" && v.sport === "bike") throw new TrainingInputError("inconsistent", "Pace thresholds are for running and swimming.");
+      const unit =
+        v.metric === "power" ? "W" : v.metric === "heart_rate" ? "bpm" : v.sport === "swim" ? "s/100m" : "s/km";
+      if (v.metric === "power" && v.sport !== "bike")
+        throw new TrainingInputError("inconsistent", "Power thresholds are for cycling.");
+      if (v.metric === "pace" && v.sport === "bike")
+        throw new TrainingInputError("inconsistent", "Pace thresholds are for running and swimming.");
       return { sport: v.sport, metric: v.metric, value: v.value, unit, details: {}, cautions: [] };
     }
   }

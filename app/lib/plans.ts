@@ -8,26 +8,45 @@ import { DAY_NAMES, PLAN_SPORTS } from "./plan-labels";
 // The `error` speaks for an empty field too: conform sends an empty input as missing, not as "".
 const isoDate = z.string({ error: "Choose a date." }).regex(/^\d{4}-\d{2}-\d{2}$/, "Choose a date.");
 
-export const newPlanSchema = z
-  .object({
-    name: z.string({ error: "Give the plan a name." }).trim().min(1, "Give the plan a name.").max(120, "Use at most 120 characters."),
-    sport: z.enum(PLAN_SPORTS, { error: "Choose a sport." }),
-    description: z.string().trim().max(2000).default(""),
-    alignment: z.enum(["start", "event"], { error: "Choose how the plan is aligned." }),
-    date: isoDate,
-    weeks: z.coerce.number({ error: "Enter the number of weeks." }).int("Use whole weeks.").min(4, "A plan runs at least 4 weeks.").max(104, "A plan runs at most 104 weeks."),
-    weeklyHours: z.coerce.number({ error: "Enter weekly hours." }).gt(0, "Weekly hours must be more than 0.").max(40, "Use at most 40 hours a week."),
-    pattern: z.enum(["3:1", "2:1"], { error: "Choose 3:1 or 2:1." }),
-    testEveryWeeks: z.coerce.number().int().min(4, "Test every 4 to 8 weeks.").max(8, "Test every 4 to 8 weeks."),
-  });
+export const newPlanSchema = z.object({
+  name: z
+    .string({ error: "Give the plan a name." })
+    .trim()
+    .min(1, "Give the plan a name.")
+    .max(120, "Use at most 120 characters."),
+  sport: z.enum(PLAN_SPORTS, { error: "Choose a sport." }),
+  description: z.string().trim().max(2000).default(""),
+  alignment: z.enum(["start", "event"], { error: "Choose how the plan is aligned." }),
+  date: isoDate,
+  weeks: z.coerce
+    .number({ error: "Enter the number of weeks." })
+    .int("Use whole weeks.")
+    .min(4, "A plan runs at least 4 weeks.")
+    .max(104, "A plan runs at most 104 weeks."),
+  weeklyHours: z.coerce
+    .number({ error: "Enter weekly hours." })
+    .gt(0, "Weekly hours must be more than 0.")
+    .max(40, "Use at most 40 hours a week."),
+  pattern: z.enum(["3:1", "2:1"], { error: "Choose 3:1 or 2:1." }),
+  testEveryWeeks: z.coerce.number().int().min(4, "Test every 4 to 8 weeks.").max(8, "Test every 4 to 8 weeks."),
+});
 export type NewPlanInput = z.infer<typeof newPlanSchema>;
 
 export const weekEditSchema = z.object({
   weekId: z.coerce.number().int().positive(),
   phase: z.enum(PHASES, { error: "Choose a phase." }),
-  recovery: z.union([z.literal("on"), z.literal("")]).optional().transform((v) => v === "on"),
-  test: z.union([z.literal("on"), z.literal("")]).optional().transform((v) => v === "on"),
-  plannedHours: z.coerce.number({ error: "Enter hours." }).min(0, "Hours cannot be negative.").max(60, "Use at most 60 hours."),
+  recovery: z
+    .union([z.literal("on"), z.literal("")])
+    .optional()
+    .transform((v) => v === "on"),
+  test: z
+    .union([z.literal("on"), z.literal("")])
+    .optional()
+    .transform((v) => v === "on"),
+  plannedHours: z.coerce
+    .number({ error: "Enter hours." })
+    .min(0, "Hours cannot be negative.")
+    .max(60, "Use at most 60 hours."),
   notes: z.string().max(1000, "Use at most 1000 characters.").default(""),
 });
 
@@ -43,7 +62,10 @@ export const recurrenceSchema = z
   .object({
     sessionId: z.coerce.number({ error: "Choose a session." }).int().positive("Choose a session."),
     // One ticked box arrives as a single value, none as nothing.
-    days: z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]), z.array(z.coerce.number().int().min(0).max(6)).min(1, "Choose at least one day.").max(7)),
+    days: z.preprocess(
+      (v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]),
+      z.array(z.coerce.number().int().min(0).max(6)).min(1, "Choose at least one day.").max(7),
+    ),
     fromWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
     toWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
     timeOfDay: z

@@ -1,5 +1,14 @@
 import { formatMinutes } from "./duration";
-import { bandIndexOf, bandSetKeyFor, bandShade, formatTarget, type BandSet, type BandSetKey, type Metric, type TargetUnit } from "~/lib/training";
+import {
+  bandIndexOf,
+  bandSetKeyFor,
+  bandShade,
+  formatTarget,
+  type BandSet,
+  type BandSetKey,
+  type Metric,
+  type TargetUnit,
+} from "~/lib/training";
 
 /** A scheduled step as loaders send it to the browser. */
 export interface StepView {
@@ -23,7 +32,9 @@ export interface StepView {
 const METRIC_WORD: Record<string, string> = { power: "power", heart_rate: "heart rate", pace: "pace" };
 
 /** "237–247 W", or "95–99 % power" while the athlete has no threshold for it yet. */
-export function stepTarget(s: Pick<StepView, "metric" | "lowPct" | "highPct" | "lowAbs" | "highAbs" | "unit" | "ramp">): string {
+export function stepTarget(
+  s: Pick<StepView, "metric" | "lowPct" | "highPct" | "lowAbs" | "highAbs" | "unit" | "ramp">,
+): string {
   if (s.metric === null || s.lowPct === null) return "easy";
   if (s.lowAbs !== null && s.highAbs !== null && s.unit) {
     if (s.ramp) {
@@ -56,7 +67,7 @@ export function blockLines(steps: StepView[]): BlockLine[] {
   return [...byBlock.entries()].map(([blockIndex, list]) => {
     const first = list[0];
     const needsTest = list.some((s) => s.metric !== null && s.lowAbs === null);
-    const weight = list.reduce((w, s) => w + s.durationS * ((s.lowPct ?? 30) + (s.highPct ?? s.lowPct ?? 30)) / 2, 0);
+    const weight = list.reduce((w, s) => w + (s.durationS * ((s.lowPct ?? 30) + (s.highPct ?? s.lowPct ?? 30))) / 2, 0);
     if (first.kind === "repeats") {
       const work = list.find((s) => s.part === "work")!;
       const recovery = list.find((s) => s.part === "recovery");
@@ -64,9 +75,24 @@ export function blockLines(steps: StepView[]): BlockLine[] {
       const text = `${count} × ${formatMinutes(work.durationS)} at ${stepTarget(work)}${recovery ? `, ${formatMinutes(recovery.durationS)} ${recovery.metric ? `at ${stepTarget(recovery)}` : "easy"} between` : ""}`;
       return { blockIndex, kind: first.kind, text, needsTest, weight };
     }
-    const label = first.kind === "warmup" ? "Warm-up" : first.kind === "cooldown" ? "Cool-down" : first.kind === "ramp" ? "Ramp" : first.kind === "open" ? "Open" : "Steady";
+    const label =
+      first.kind === "warmup"
+        ? "Warm-up"
+        : first.kind === "cooldown"
+          ? "Cool-down"
+          : first.kind === "ramp"
+            ? "Ramp"
+            : first.kind === "open"
+              ? "Open"
+              : "Steady";
     const target = first.kind === "open" ? first.cue || "as you feel" : stepTarget(first);
-    return { blockIndex, kind: first.kind, text: `${label} ${formatMinutes(first.durationS)} ${first.kind === "open" ? "· " : "at "}${target}`, needsTest, weight };
+    return {
+      blockIndex,
+      kind: first.kind,
+      text: `${label} ${formatMinutes(first.durationS)} ${first.kind === "open" ? "· " : "at "}${target}`,
+      needsTest,
+      weight,
+    };
   });
 }
 
@@ -74,7 +100,10 @@ export function blockLines(steps: StepView[]): BlockLine[] {
 export function keyTarget(steps: StepView[]): string {
   const lines = blockLines(steps);
   const main = lines.filter((l) => l.kind !== "warmup" && l.kind !== "cooldown");
-  const pick = (main.length ? main : lines).reduce<BlockLine | null>((best, l) => (!best || l.weight > best.weight ? l : best), null);
+  const pick = (main.length ? main : lines).reduce<BlockLine | null>(
+    (best, l) => (!best || l.weight > best.weight ? l : best),
+    null,
+  );
   return pick?.text ?? "";
 }
 
@@ -99,7 +128,12 @@ export function blockBands(steps: StepView[], sport: string, sets: Record<BandSe
     const set = sets[bandSetKeyFor(sport, s.metric as Metric)];
     const mid = (s.lowPct + (s.highPct ?? s.lowPct)) / 2;
     const i = bandIndexOf(mid, set.bands);
-    out.push({ blockIndex: s.blockIndex, name: set.bands[i].name, shade: bandShade(i, set.bands.length), aboveThreshold: set.bands[i].fromPct >= 100 });
+    out.push({
+      blockIndex: s.blockIndex,
+      name: set.bands[i].name,
+      shade: bandShade(i, set.bands.length),
+      aboveThreshold: set.bands[i].fromPct >= 100,
+    });
   }
   return out;
 }

@@ -3,7 +3,9 @@ import { formatMinutes } from "./duration";
 
 const METRIC_UNIT: Record<string, string> = { power: "% power", heart_rate: "% HR", pace: "% pace" };
 
-export function describeTarget(t: { metric: string; lowPct: number; highPct?: number | null } | null | undefined): string {
+export function describeTarget(
+  t: { metric: string; lowPct: number; highPct?: number | null } | null | undefined,
+): string {
   if (!t) return "easy";
   const range = t.highPct != null && t.highPct !== t.lowPct ? `${t.lowPct}–${t.highPct}` : `${t.lowPct}`;
   return `${range} ${METRIC_UNIT[t.metric] ?? "%"}`;
@@ -14,7 +16,9 @@ export function describeBlock(b: Block): string {
   switch (b.kind) {
     case "repeats":
       return `${b.count} × ${formatMinutes(b.work.durationS)} at ${describeTarget(b.work.target)}${
-        b.recovery?.durationS ? `, ${formatMinutes(b.recovery.durationS)} ${b.recovery.target ? `at ${describeTarget(b.recovery.target)}` : "easy"} between` : ""
+        b.recovery?.durationS
+          ? `, ${formatMinutes(b.recovery.durationS)} ${b.recovery.target ? `at ${describeTarget(b.recovery.target)}` : "easy"} between`
+          : ""
       }`;
     case "ramp":
       return `${formatMinutes(b.durationS)} ramp ${b.fromPct}→${b.toPct} ${METRIC_UNIT[b.metric]}`;

@@ -3,14 +3,25 @@ import { validateBlocks, type Block } from "~/lib/training";
 
 export const SPORTS = ["bike", "run", "swim", "strength", "other"] as const;
 export type Sport = (typeof SPORTS)[number];
-export const SPORT_LABEL: Record<Sport, string> = { bike: "Bike", run: "Run", swim: "Swim", strength: "Strength", other: "Other" };
+export const SPORT_LABEL: Record<Sport, string> = {
+  bike: "Bike",
+  run: "Run",
+  swim: "Swim",
+  strength: "Strength",
+  other: "Other",
+};
 
 const metric = z.enum(["power", "heart_rate", "pace"], { error: "Choose power, heart rate or pace." });
 const pct = z.number({ error: "Enter a percentage." });
 const seconds = z.number({ error: "Enter a duration like 8:00." }).int("Use whole seconds.");
 const target = z.object({ metric, lowPct: pct, highPct: pct.nullish() });
 const text = (max: number) => z.string().max(max, `Use at most ${max} characters.`).nullish();
-const cadence = z.number().int().min(20, "Cadence must be 20–200 rpm.").max(200, "Cadence must be 20–200 rpm.").nullish();
+const cadence = z
+  .number()
+  .int()
+  .min(20, "Cadence must be 20–200 rpm.")
+  .max(200, "Cadence must be 20–200 rpm.")
+  .nullish();
 
 /** One block as the training engine reads it; the shape used in storage, templates and exports. */
 export const blockSchema = z.discriminatedUnion("kind", [
@@ -29,7 +40,11 @@ export const blockSchema = z.discriminatedUnion("kind", [
 
 export const sessionSchema = z
   .object({
-    name: z.string({ error: "Give the session a name." }).trim().min(1, "Give the session a name.").max(120, "Use at most 120 characters."),
+    name: z
+      .string({ error: "Give the session a name." })
+      .trim()
+      .min(1, "Give the session a name.")
+      .max(120, "Use at most 120 characters."),
     sport: z.enum(SPORTS, { error: "Choose a sport." }),
     description: z.string().trim().max(2000, "Use at most 2000 characters.").default(""),
     tags: z
@@ -51,7 +66,9 @@ export type SessionInput = z.infer<typeof sessionSchema>;
 /** Our own exchange format for session shelves: { format, version, sessions: [...] }. */
 export const EXPORT_FORMAT = "pacewright-sessions";
 export const exportSchema = z.object({
-  format: z.literal(EXPORT_FORMAT, { error: `This is not a Pacewright session file (format must be "${EXPORT_FORMAT}").` }),
+  format: z.literal(EXPORT_FORMAT, {
+    error: `This is not a Pacewright session file (format must be "${EXPORT_FORMAT}").`,
+  }),
   version: z.literal(1, { error: "Only version 1 session files can be imported." }),
   sessions: z.array(z.unknown()).min(1, "The file has no sessions.").max(500, "Import at most 500 sessions at a time."),
 });
@@ -84,7 +101,12 @@ export function newBlock(kind: Block["kind"], metric: "power" | "heart_rate" | "
     case "ramp":
       return { kind, durationS: 600, metric, fromPct: 60, toPct: 90 };
     case "repeats":
-      return { kind, count: 4, work: { durationS: 480, target: { metric, lowPct: 95, highPct: 100 } }, recovery: { durationS: 240, target: { metric, lowPct: 50 } } };
+      return {
+        kind,
+        count: 4,
+        work: { durationS: 480, target: { metric, lowPct: 95, highPct: 100 } },
+        recovery: { durationS: 240, target: { metric, lowPct: 50 } },
+      };
     case "open":
       return { kind, durationS: 300, cue: "" };
   }

@@ -1,7 +1,8 @@
 export const CURRENCIES = ["EUR", "USD", "GBP"] as const;
 export const LEVELS = ["beginner", "intermediate", "advanced"] as const;
 
-export const formatPrice = (cents: number, currency: string) => new Intl.NumberFormat("en-GB", { style: "currency", currency }).format(cents / 100);
+export const formatPrice = (cents: number, currency: string) =>
+  new Intl.NumberFormat("en-GB", { style: "currency", currency }).format(cents / 100);
 
 /** Price bounds, checked on the whole-cents value the provider is charged. */
 export const MIN_PRICE_CENTS = 50;
@@ -12,7 +13,10 @@ export const MAX_PRICE_CENTS = 1_000_000;
  * refused rather than rounded: 0.004 must not silently become a free plan.
  */
 export function parsePriceCents(input: string): { ok: true; cents: number } | { ok: false; message: string } {
-  const text = input.trim().replace(/[\s\u00a0]/g, "").replace(",", ".");
+  const text = input
+    .trim()
+    .replace(/[\s\u00a0]/g, "")
+    .replace(",", ".");
   if (!text) return { ok: false, message: "Enter a price." };
   const m = /^(\d{1,7})(?:\.(\d{1,2}))?$/.exec(text);
   if (!m) return { ok: false, message: "Enter the price as a number with at most two decimals, like 29.50." };

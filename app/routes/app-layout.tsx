@@ -10,7 +10,8 @@ import type { Route } from "./+types/app-layout";
 export async function loader({ request }: Route.LoaderArgs) {
   const user = await requireUser(request);
   // A studio that requires two-step sign-in keeps its coaches and admins on the set-up page until it is on.
-  if (new URL(request.url).pathname !== "/account/security" && (await mustEnrol(user))) throw redirect("/account/security");
+  if (new URL(request.url).pathname !== "/account/security" && (await mustEnrol(user)))
+    throw redirect("/account/security");
   return {
     user: { name: user.name, role: user.role, email: user.email },
     devMail: env().fakes && (!env().demoInProduction || user.role === "admin"),
@@ -32,11 +33,31 @@ export default function AppLayout({ loaderData }: Route.ComponentProps) {
 /** Our own words for each failure; the router's and the server's texts are for the log, not for the page. */
 function explain(error: unknown): { status: number; title: string; detail: string } {
   const status = isRouteErrorResponse(error) ? error.status : 500;
-  if (status === 404) return { status, title: "Nothing here", detail: "This page does not exist, or it belongs to someone else. Check the address, or start again from your own pages." };
-  if (status === 403) return { status, title: "Not for this account", detail: "You are signed in, but this page is for another kind of account (coach, athlete or admin)." };
+  if (status === 404)
+    return {
+      status,
+      title: "Nothing here",
+      detail:
+        "This page does not exist, or it belongs to someone else. Check the address, or start again from your own pages.",
+    };
+  if (status === 403)
+    return {
+      status,
+      title: "Not for this account",
+      detail: "You are signed in, but this page is for another kind of account (coach, athlete or admin).",
+    };
   if (status === 429) return { status, title: "Too many tries", detail: "Wait a minute, then try again." };
-  if (status >= 400 && status < 500) return { status, title: "That did not work", detail: "The request could not be handled as sent. Go back and try again." };
-  return { status, title: "Something broke on our side", detail: "Nothing you did caused this. Try again in a moment; if it keeps happening, tell us what you were doing." };
+  if (status >= 400 && status < 500)
+    return {
+      status,
+      title: "That did not work",
+      detail: "The request could not be handled as sent. Go back and try again.",
+    };
+  return {
+    status,
+    title: "Something broke on our side",
+    detail: "Nothing you did caused this. Try again in a moment; if it keeps happening, tell us what you were doing.",
+  };
 }
 
 /** Errors on signed-in pages stay inside the app's frame, with the navigation, so the way back is one click. */

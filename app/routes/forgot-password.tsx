@@ -15,7 +15,10 @@ export async function action({ request, context }: Route.ActionArgs) {
   // Counted per typed address whether or not it has an account, so the limit reveals nothing either.
   await consumeOr429(["resetClient", clientKey(context)], ["resetAddress", submission.value.email]);
   await requestPasswordReset(submission.value.email);
-  return accepted(submission, `If an account uses ${submission.value.email}, a reset link is on its way. Check your inbox.`);
+  return accepted(
+    submission,
+    `If an account uses ${submission.value.email}, a reset link is on its way. Check your inbox.`,
+  );
 }
 
 export default function ForgotPassword({ actionData }: Route.ComponentProps) {
@@ -26,7 +29,11 @@ export default function ForgotPassword({ actionData }: Route.ComponentProps) {
     <AuthFrame
       title="Reset your password"
       lead="We e-mail you a link that works once, for one hour."
-      footer={<Link to="/login" className="text-teal underline">Back to sign in</Link>}
+      footer={
+        <Link to="/login" className="text-teal underline">
+          Back to sign in
+        </Link>
+      }
     >
       {sent ? (
         <FormMessage tone="ok">{sent}</FormMessage>

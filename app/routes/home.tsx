@@ -8,7 +8,8 @@ export const meta: Route.MetaFunction = () => [
   { title: "Pacewright · field tests and season plans that follow every threshold" },
   {
     name: "description",
-    content: "For endurance coaches and their athletes: field tests become thresholds and intensity bands, season plans are written in percent of threshold, and every future target moves when a retest does.",
+    content:
+      "For endurance coaches and their athletes: field tests become thresholds and intensity bands, season plans are written in percent of threshold, and every future target moves when a retest does.",
   },
 ];
 
@@ -19,9 +20,18 @@ export async function loader({ request }: Route.LoaderArgs) {
 }
 
 const STEPS = [
-  ["Test", "Ramp, 20-minute, 8-minute, critical-power efforts, a 30-minute heart-rate test, a race or a 400/200 m swim pair: typed in or found in a ride file."],
-  ["Plan", "Drag sessions from your shelf onto the weeks of a season. Every target is a percentage of threshold, so one plan fits any athlete."],
-  ["Follow", "Athletes see their own watts, bpm and paces on their phone calendar, and a retest rescales every future target at once."],
+  [
+    "Test",
+    "Ramp, 20-minute, 8-minute, critical-power efforts, a 30-minute heart-rate test, a race or a 400/200 m swim pair: typed in or found in a ride file.",
+  ],
+  [
+    "Plan",
+    "Drag sessions from your shelf onto the weeks of a season. Every target is a percentage of threshold, so one plan fits any athlete.",
+  ],
+  [
+    "Follow",
+    "Athletes see their own watts, bpm and paces on their phone calendar, and a retest rescales every future target at once.",
+  ],
 ] as const;
 
 export default function Home({ loaderData }: Route.ComponentProps) {
@@ -51,13 +61,15 @@ export default function Home({ loaderData }: Route.ComponentProps) {
       <main className="mx-auto max-w-6xl px-4 pb-16">
         <section className="grid items-center gap-10 py-10 md:grid-cols-[1.2fr_1fr] md:py-16">
           <div>
-            <p className="text-sm font-medium tracking-wide text-brick uppercase">For endurance coaches and their athletes</p>
+            <p className="text-sm font-medium tracking-wide text-brick uppercase">
+              For endurance coaches and their athletes
+            </p>
             <h1 className="mt-3 text-4xl leading-tight font-semibold sm:text-5xl">
               Plans written in percent of threshold. Targets that move when the athlete does.
             </h1>
             <p className="mt-5 max-w-xl text-lg text-ink-soft">
-              Screen and test, turn results into thresholds and intensity bands, lay out a periodized season, and let every retest
-              rescale what is still ahead.
+              Screen and test, turn results into thresholds and intensity bands, lay out a periodized season, and let
+              every retest rescale what is still ahead.
             </p>
             {!loaderData.home && (
               <div className="mt-8 flex flex-wrap gap-3">
@@ -83,8 +95,8 @@ export default function Home({ loaderData }: Route.ComponentProps) {
         </section>
         <p className="mt-10 max-w-3xl text-xs text-ink-soft">
           Pacewright gives training guidance, not medical advice. Maximal tests are hard on the body: screen before you
-          test, stop at chest pain, dizziness or unusual breathlessness, and follow local regulations, your physician and
-          licensed practice first.
+          test, stop at chest pain, dizziness or unusual breathlessness, and follow local regulations, your physician
+          and licensed practice first.
         </p>
       </main>
     </div>
@@ -106,12 +118,29 @@ function StepProfile() {
   const total = blocks.reduce((s, b) => s + b[0], 0);
   let x = 0;
   return (
-    <svg viewBox="0 0 100 70" role="img" aria-label="Example session profile" className="w-full rounded-2xl border border-line bg-white p-4">
+    <svg
+      viewBox="0 0 100 70"
+      role="img"
+      aria-label="Example session profile"
+      className="w-full rounded-2xl border border-line bg-white p-4"
+    >
       <line x1="0" x2="100" y1={66 - 50} y2={66 - 50} stroke="#B5523B" strokeDasharray="2 2" strokeWidth="0.4" />
       {blocks.map(([w, pct, fill], i) => {
         const width = (w / total) * 100;
         const h = (pct / 125) * 60;
-        const rect = <rect key={i} x={x} y={66 - h} width={width - 0.6} height={h} fill={fill} stroke={pct > 100 ? "#B5523B" : "none"} strokeWidth="0.6" rx="0.6" />;
+        const rect = (
+          <rect
+            key={i}
+            x={x}
+            y={66 - h}
+            width={width - 0.6}
+            height={h}
+            fill={fill}
+            stroke={pct > 100 ? "#B5523B" : "none"}
+            strokeWidth="0.6"
+            rx="0.6"
+          />
+        );
         x += width;
         return rect;
       })}

@@ -44,7 +44,9 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     }
     if (submission.status !== "success") return refuse(submission);
     const athlete = await acceptInvitation(params.token, { signedIn, newAccount: submission.value });
-    return redirectWithToast(request, "/athlete", JOINED, "ok", { headers: { "Set-Cookie": await startSession(athlete, request) } });
+    return redirectWithToast(request, "/athlete", JOINED, "ok", {
+      headers: { "Set-Cookie": await startSession(athlete, request) },
+    });
   } catch (err) {
     return formFailure(err, submission);
   }
@@ -80,7 +82,10 @@ export default function Invite({ loaderData, actionData, params }: Route.Compone
         ) : (
           <div className="flex flex-col gap-3">
             <p className="text-sm">You already have an account. Sign in as {email} to accept.</p>
-            <Link to={`/login?redirectTo=${encodeURIComponent(`/invite/${params.token}`)}`} className={buttonClass("primary", "w-full")}>
+            <Link
+              to={`/login?redirectTo=${encodeURIComponent(`/invite/${params.token}`)}`}
+              className={buttonClass("primary", "w-full")}
+            >
               Sign in to accept
             </Link>
           </div>
@@ -88,8 +93,22 @@ export default function Invite({ loaderData, actionData, params }: Route.Compone
       ) : (
         <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
           <Field label="E-mail" name="email-display" value={email} readOnly disabled />
-          <Field label="Your name" autoComplete="name" required {...fieldProps(fields.name)} defaultValue={fieldProps(fields.name).defaultValue ?? suggestedName} />
-          <Field label="Choose a password" type="password" autoComplete="new-password" hint="At least 10 characters." required minLength={10} {...fieldProps(fields.password)} />
+          <Field
+            label="Your name"
+            autoComplete="name"
+            required
+            {...fieldProps(fields.name)}
+            defaultValue={fieldProps(fields.name).defaultValue ?? suggestedName}
+          />
+          <Field
+            label="Choose a password"
+            type="password"
+            autoComplete="new-password"
+            hint="At least 10 characters."
+            required
+            minLength={10}
+            {...fieldProps(fields.password)}
+          />
           <TimezoneSelect defaultValue={fieldProps(fields.timezone).defaultValue} error={fields.timezone.errors?.[0]} />
           <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
             {busy ? "Joining…" : "Accept and create my account"}

@@ -30,7 +30,9 @@ export async function action({ request }: Route.ActionArgs) {
   }
   if (submission.status !== "success") return refuse(submission);
   if (!(await verifySecondStep(pending.user, submission.value.code))) {
-    return refuse(submission, { fields: { code: "That code does not match. Enter the newest code from your app, or an unused recovery code." } });
+    return refuse(submission, {
+      fields: { code: "That code does not match. Enter the newest code from your app, or an unused recovery code." },
+    });
   }
   const headers = new Headers();
   headers.append("Set-Cookie", await startSession(pending.user, request));
@@ -54,7 +56,15 @@ export default function TwoStep({ actionData }: Route.ComponentProps) {
       <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
         {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
         {/* eslint-disable-next-line jsx-a11y/no-autofocus -- this page has one field, the code the person came to type */}
-        <Field label="Code" inputMode="text" autoComplete="one-time-code" autoFocus required hint="Lost your phone? Enter one of your recovery codes instead (each works once)." {...fieldProps(fields.code)} />
+        <Field
+          label="Code"
+          inputMode="text"
+          autoComplete="one-time-code"
+          autoFocus
+          required
+          hint="Lost your phone? Enter one of your recovery codes instead (each works once)."
+          {...fieldProps(fields.code)}
+        />
         <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
           {busy ? "Checking…" : "Continue"}
         </button>

@@ -2,7 +2,15 @@ import { Form, Link, redirect, useNavigation, useSearchParams } from "react-rout
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { authenticator, getUser, guardSignIn, homeFor, pendingCookieFor, startSession, twoStepOn } from "~/.server/auth";
+import {
+  authenticator,
+  getUser,
+  guardSignIn,
+  homeFor,
+  pendingCookieFor,
+  startSession,
+  twoStepOn,
+} from "~/.server/auth";
 import { formFailure } from "~/.server/replies";
 import { clientKey } from "~/.server/security/rate-limits";
 import { safeRedirect } from "~/.server/http";
@@ -26,7 +34,8 @@ export async function action({ request, context }: Route.ActionArgs) {
     await guard.succeeded();
     const to = safeRedirect(submission.value.redirectTo, homeFor(user.role));
     // With two-step sign-in on, the password alone opens no session: the code page does.
-    if (twoStepOn(user)) return redirect("/login/two-step", { headers: { "Set-Cookie": await pendingCookieFor(user, to) } });
+    if (twoStepOn(user))
+      return redirect("/login/two-step", { headers: { "Set-Cookie": await pendingCookieFor(user, to) } });
     const cookie = await startSession(user, request);
     return redirect(to, { headers: { "Set-Cookie": cookie } });
   } catch (err) {
@@ -43,7 +52,10 @@ export default function Login({ actionData }: Route.ComponentProps) {
       title="Sign in"
       footer={
         <>
-          New here? <Link to="/signup" className="text-teal underline">Create an account</Link>
+          New here?{" "}
+          <Link to="/signup" className="text-teal underline">
+            Create an account
+          </Link>
         </>
       }
     >
@@ -51,7 +63,13 @@ export default function Login({ actionData }: Route.ComponentProps) {
         {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
         <input type="hidden" name="redirectTo" value={params.get("redirectTo") ?? ""} />
         <Field label="E-mail" type="email" autoComplete="email" required {...fieldProps(fields.email)} />
-        <Field label="Password" type="password" autoComplete="current-password" required {...fieldProps(fields.password)} />
+        <Field
+          label="Password"
+          type="password"
+          autoComplete="current-password"
+          required
+          {...fieldProps(fields.password)}
+        />
         <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
           {busy ? "Signing in…" : "Sign in"}
         </button>

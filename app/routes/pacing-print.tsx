@@ -17,7 +17,9 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     if (user.role !== "coach") notFound("No such page.");
     athlete = await requireAthleteFor(user, params.athleteId);
   } else if (user.role !== "athlete") notFound("No such page.");
-  const page = await sessionPageData(athlete, Number(params.id ?? params.sessionId), { lap: lapFromSearch(new URL(request.url)) }).catch(loaderFailure);
+  const page = await sessionPageData(athlete, Number(params.id ?? params.sessionId), {
+    lap: lapFromSearch(new URL(request.url)),
+  }).catch(loaderFailure);
   if (!page.pacing?.plan) notFound("This session has no pacing plan.");
   return { name: page.session.name, date: page.session.date, athleteName: athlete.name, pacing: page.pacing };
 }
@@ -27,10 +29,18 @@ export default function PacingPrint({ loaderData }: Route.ComponentProps) {
     // Print rules live in app.css: the content security policy admits no inline <style> element.
     <main className="pacing-print mx-auto max-w-3xl bg-white p-6 text-ink print:max-w-none print:p-0">
       <div className="mb-4 flex gap-2 print:hidden">
-        <button type="button" onClick={() => window.print()} className="rounded-lg bg-teal px-4 py-2 text-sm font-medium text-white">
+        <button
+          type="button"
+          onClick={() => window.print()}
+          className="rounded-lg bg-teal px-4 py-2 text-sm font-medium text-white"
+        >
           Print
         </button>
-        <button type="button" onClick={() => history.back()} className="rounded-lg border border-line px-4 py-2 text-sm">
+        <button
+          type="button"
+          onClick={() => history.back()}
+          className="rounded-lg border border-line px-4 py-2 text-sm"
+        >
           Back
         </button>
       </div>

@@ -46,7 +46,15 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
     <AuthFrame title="Choose a new password" lead="Every device signed in to this account will be signed out.">
       <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
         {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
-        <Field label="New password" type="password" autoComplete="new-password" hint="At least 10 characters." required minLength={10} {...fieldProps(fields.password)} />
+        <Field
+          label="New password"
+          type="password"
+          autoComplete="new-password"
+          hint="At least 10 characters."
+          required
+          minLength={10}
+          {...fieldProps(fields.password)}
+        />
         <Field label="Repeat it" type="password" autoComplete="new-password" required {...fieldProps(fields.confirm)} />
         <button type="submit" className={buttonClass("primary", "w-full py-2.5")} disabled={busy}>
           {busy ? "Saving…" : "Save the new password"}

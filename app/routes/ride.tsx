@@ -50,7 +50,13 @@ export default function Ride({ loaderData: d }: Route.ComponentProps) {
   const fileSplits = d.laps.slice(1).map((l) => l.startS);
   const [text, setText] = useState(fileSplits.map(clock).join(", "));
   const splits = parseSplits(text).filter((v) => v > 0 && v < d.ride.durationS);
-  const addSplit = (s: number) => setText([...new Set([...splits, s])].sort((a, b) => a - b).map(clock).join(", "));
+  const addSplit = (s: number) =>
+    setText(
+      [...new Set([...splits, s])]
+        .sort((a, b) => a - b)
+        .map(clock)
+        .join(", "),
+    );
   const changed = splits.join() !== fileSplits.join();
   return (
     <>
@@ -69,7 +75,11 @@ export default function Ride({ loaderData: d }: Route.ComponentProps) {
               1 Hz data (CSV)
             </a>
             {d.curve.length > 0 && (
-              <a className={buttonClass("secondary", "py-1.5")} href={`/api/rides/${d.ride.id}/power-curve.csv`} download>
+              <a
+                className={buttonClass("secondary", "py-1.5")}
+                href={`/api/rides/${d.ride.id}/power-curve.csv`}
+                download
+              >
                 Power curve (CSV)
               </a>
             )}
@@ -81,10 +91,17 @@ export default function Ride({ loaderData: d }: Route.ComponentProps) {
       />
       <div className="flex flex-col gap-6">
         <Card>
-          <RideChart trace={d.trace} splitsS={splits} onSplit={addSplit} wPrimeKj={d.wPrime ? d.wPrime.wPrimeJ / 1000 : null} />
+          <RideChart
+            trace={d.trace}
+            splitsS={splits}
+            onSplit={addSplit}
+            wPrimeKj={d.wPrime ? d.wPrime.wPrimeJ / 1000 : null}
+          />
           {d.wPrime ? (
             <p className="mt-1 text-xs text-ink-soft" data-testid="wbal-note">
-              W′ balance from your critical power {d.wPrime.cpW} W and W′ {(d.wPrime.wPrimeJ / 1000).toFixed(1)} kJ (test of {d.wPrime.testedOn}); lowest {d.wPrime.minKj} kJ. Integral model of Skiba et al. (2012), recovery time constant {d.wPrime.tauS} s for this ride.
+              W′ balance from your critical power {d.wPrime.cpW} W and W′ {(d.wPrime.wPrimeJ / 1000).toFixed(1)} kJ
+              (test of {d.wPrime.testedOn}); lowest {d.wPrime.minKj} kJ. Integral model of Skiba et al. (2012), recovery
+              time constant {d.wPrime.tauS} s for this ride.
             </p>
           ) : (
             <p className="mt-1 text-xs text-ink-soft">Save a critical-power test to see W′ balance under the trace.</p>
@@ -96,7 +113,13 @@ export default function Ride({ loaderData: d }: Route.ComponentProps) {
           <fetcher.Form method="post" className="mt-2 flex flex-col gap-3 text-sm">
             <label className="flex flex-col gap-1">
               <span className="font-medium">Lap splits (m:ss, separated by commas)</span>
-              <input name="splits" value={text} onChange={(e) => setText(e.target.value)} className="num rounded-lg border border-line px-2 py-1.5" placeholder="10:00, 30:00" />
+              <input
+                name="splits"
+                value={text}
+                onChange={(e) => setText(e.target.value)}
+                className="num rounded-lg border border-line px-2 py-1.5"
+                placeholder="10:00, 30:00"
+              />
             </label>
             {changed && <p className="text-xs text-ink-soft">Save to see the lap table for these splits.</p>}
             {d.laps.length > 0 ? (
@@ -120,16 +143,29 @@ export default function Ride({ loaderData: d }: Route.ComponentProps) {
                       <td className="py-1 pr-2">{w(l.meanPowerW)}</td>
                       <td className="py-1 pr-2">{w(l.peakPowerW)}</td>
                       <td className="py-1 pr-2">{bpm(l.meanHr)}</td>
-                      <td className="py-1 pr-2">{l.hrRiseBpm === null ? "—" : `${l.hrRiseBpm > 0 ? "+" : ""}${Math.round(l.hrRiseBpm)}`}</td>
+                      <td className="py-1 pr-2">
+                        {l.hrRiseBpm === null ? "—" : `${l.hrRiseBpm > 0 ? "+" : ""}${Math.round(l.hrRiseBpm)}`}
+                      </td>
                       <td className="py-1">
-                        <input name="effort" type="number" min={0} max={10} step={1} defaultValue={l.effortScore ?? ""} aria-label={`Effort score of lap ${l.lap}`} className="w-16 rounded border border-line px-1.5 py-0.5" />
+                        <input
+                          name="effort"
+                          type="number"
+                          min={0}
+                          max={10}
+                          step={1}
+                          defaultValue={l.effortScore ?? ""}
+                          aria-label={`Effort score of lap ${l.lap}`}
+                          className="w-16 rounded border border-line px-1.5 py-0.5"
+                        />
                       </td>
                     </tr>
                   ))}
                 </tbody>
               </table>
             ) : (
-              <p className="text-ink-soft">This file marks no laps. Click the trace or type the split times to mark them.</p>
+              <p className="text-ink-soft">
+                This file marks no laps. Click the trace or type the split times to mark them.
+              </p>
             )}
             <div>
               <button className={buttonClass("primary", "py-1.5")} disabled={fetcher.state !== "idle"}>
@@ -144,7 +180,11 @@ export default function Ride({ loaderData: d }: Route.ComponentProps) {
             <h2 className="font-semibold">
               Band load <span className="num">{d.load.value}</span>
             </h2>
-            <p className="text-xs text-ink-soft">Minutes in each power band (against {Math.round(d.load.thresholdW)} W) × the band's weight: its place from the bottom, 1 for the easiest. When the ride has no effort score, this is the load the load page counts for it. Pacewright's own measure, after Edwards' zone weighting.</p>
+            <p className="text-xs text-ink-soft">
+              Minutes in each power band (against {Math.round(d.load.thresholdW)} W) × the band's weight: its place from
+              the bottom, 1 for the easiest. When the ride has no effort score, this is the load the load page counts
+              for it. Pacewright's own measure, after Edwards' zone weighting.
+            </p>
             <ul className="num mt-2 grid grid-cols-[1fr_auto_auto] gap-x-4 text-sm" data-testid="band-load">
               {d.load.rows.map((r) => (
                 <li key={r.name} className="contents">

@@ -48,7 +48,10 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
       lead="Coaches build season plans and run field tests; athletes follow them with their own targets."
       footer={
         <>
-          Already have an account? <Link to="/login" className="text-teal underline">Sign in</Link>
+          Already have an account?{" "}
+          <Link to="/login" className="text-teal underline">
+            Sign in
+          </Link>
         </>
       }
     >
@@ -69,7 +72,12 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
                 className="flex cursor-pointer flex-col rounded-lg border border-line p-3 has-[:checked]:border-teal has-[:checked]:bg-teal/5"
               >
                 <span className="flex items-center gap-2 font-medium">
-                  <input type="radio" name={fields.role.name} value={value} defaultChecked={(fields.role.initialValue ?? (buying ? "athlete" : "coach")) === value} />
+                  <input
+                    type="radio"
+                    name={fields.role.name}
+                    value={value}
+                    defaultChecked={(fields.role.initialValue ?? (buying ? "athlete" : "coach")) === value}
+                  />
                   {label}
                 </span>
                 <span className="mt-1 text-xs text-ink-soft">{hint}</span>
@@ -97,4 +105,3 @@ export default function SignUp({ actionData }: Route.ComponentProps) {
     </AuthFrame>
   );
 }
-

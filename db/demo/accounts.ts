@@ -7,7 +7,13 @@ export const DEMO_ACCOUNTS = {
   studio: "Harbour Line Endurance",
   people: [
     { key: "admin", role: "admin", name: "Iris Vance", email: "admin@harbourline.example", timezone: "Europe/Berlin" },
-    { key: "coach", role: "coach", name: "Mara Lindqvist", email: "coach@harbourline.example", timezone: "Europe/Berlin" },
+    {
+      key: "coach",
+      role: "coach",
+      name: "Mara Lindqvist",
+      email: "coach@harbourline.example",
+      timezone: "Europe/Berlin",
+    },
     {
       key: "cyclist",
       role: "athlete",

@@ -21,14 +21,24 @@ function rng(seed: number) {
 }
 
 /** Heart rate follows power with a lag, as it does on a bike (first-order response, ~30 s). */
-function withHeart(powers: number[], opts: { restHr: number; maxHr: number; thresholdW: number; seed: number }): RideSample[] {
+function withHeart(
+  powers: number[],
+  opts: { restHr: number; maxHr: number; thresholdW: number; seed: number },
+): RideSample[] {
   const rand = rng(opts.seed);
   let hr = opts.restHr + 30;
   return powers.map((p, t) => {
-    const target = opts.restHr + 20 + ((opts.maxHr - opts.restHr - 20) * Math.min(1.15, p / opts.thresholdW)) / 1.15 + t / 900;
+    const target =
+      opts.restHr + 20 + ((opts.maxHr - opts.restHr - 20) * Math.min(1.15, p / opts.thresholdW)) / 1.15 + t / 900;
     hr += (target - hr) / 30;
     const cadence = p > 20 ? 85 + Math.round((rand() - 0.5) * 6) : 0;
-    return { t, power: Math.max(0, Math.round(p)), hr: Math.round(Math.min(opts.maxHr, hr)), cadence, speed: p > 0 ? Math.round((6 + p / 40 + rand()) * 100) / 100 : 0 };
+    return {
+      t,
+      power: Math.max(0, Math.round(p)),
+      hr: Math.round(Math.min(opts.maxHr, hr)),
+      cadence,
+      speed: p > 0 ? Math.round((6 + p / 40 + rand()) * 100) / 100 : 0,
+    };
   });
 }
 
@@ -75,7 +85,12 @@ export function enduranceRide(baseW = 180, seed = 120): RideSample[] {
 }
 
 export function toCsv(samples: readonly RideSample[]): string {
-  return ["time,power,heart_rate,cadence,speed", ...samples.map((s) => `${s.t},${s.power},${s.hr},${s.cadence},${s.speed}`)].join("\n") + "\n";
+  return (
+    [
+      "time,power,heart_rate,cadence,speed",
+      ...samples.map((s) => `${s.t},${s.power},${s.hr},${s.cadence},${s.speed}`),
+    ].join("\n") + "\n"
+  );
 }
 
 /** GPX 1.1 with the common track-point extension for heart rate and cadence, and a power element. */
@@ -103,10 +118,19 @@ ${points.join("\n")}
  * A FIT activity file written with a general-purpose FIT writer (file id, records, laps, session, activity).
  * `lapStartsS` (seconds from the start, first 0) writes one lap message per lap; by default the ride is one lap.
  */
-export function toFit(samples: readonly RideSample[], start = new Date("2026-11-14T08:00:00Z"), lapStartsS: readonly number[] = [0]): Uint8Array {
+export function toFit(
+  samples: readonly RideSample[],
+  start = new Date("2026-11-14T08:00:00Z"),
+  lapStartsS: readonly number[] = [0],
+): Uint8Array {
   const w = new FitWriter();
   const t0 = w.time(start);
-  w.writeMessage("file_id", { type: "activity", manufacturer: "development", product: 0, serial_number: 1234, time_created: t0 }, null, true);
+  w.writeMessage(
+    "file_id",
+    { type: "activity", manufacturer: "development", product: 0, serial_number: 1234, time_created: t0 },
+    null,
+    true,
+  );
   let distance = 0;
   samples.forEach((s, i) => {
     distance += s.speed;
@@ -121,10 +145,33 @@ export function toFit(samples: readonly RideSample[], start = new Date("2026-11-
   const elapsed = samples.length;
   lapStartsS.forEach((from, i) => {
     const to = lapStartsS[i + 1] ?? elapsed;
-    w.writeMessage("lap", { timestamp: t0 + to, start_time: t0 + from, total_elapsed_time: to - from, total_timer_time: to - from }, null, i === lapStartsS.length - 1);
+    w.writeMessage(
+      "lap",
+      { timestamp: t0 + to, start_time: t0 + from, total_elapsed_time: to - from, total_timer_time: to - from },
+      null,
+      i === lapStartsS.length - 1,
+    );
   });
-  w.writeMessage("session", { timestamp: end, start_time: t0, total_elapsed_time: elapsed, total_timer_time: elapsed, sport: "cycling", num_laps: lapStartsS.length, first_lap_index: 0 }, null, true);
-  w.writeMessage("activity", { timestamp: end, total_timer_time: elapsed, num_sessions: 1, type: "manual" }, null, true);
+  w.writeMessage(
+    "session",
+    {
+      timestamp: end,
+      start_time: t0,
+      total_elapsed_time: elapsed,
+      total_timer_time: elapsed,
+      sport: "cycling",
+      num_laps: lapStartsS.length,
+      first_lap_index: 0,
+    },
+    null,
+    true,
+  );
+  w.writeMessage(
+    "activity",
+    { timestamp: end, total_timer_time: elapsed, num_sessions: 1, type: "manual" },
+    null,
+    true,
+  );
   const view = w.finish();
   return new Uint8Array(view.buffer.slice(view.byteOffset, view.byteOffset + view.byteLength));
 }

@@ -4,7 +4,12 @@ import { dropColumn } from "../portable";
 export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.createTable("feed_tokens", {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    user_id: { type: DataTypes.INTEGER, allowNull: false, references: { model: "users", key: "id" }, onDelete: "CASCADE" },
+    user_id: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: "users", key: "id" },
+      onDelete: "CASCADE",
+    },
     // 32 random bytes; the link's token is an HMAC of them under the server secret, and only its SHA-256 is looked up.
     salt: { type: DataTypes.STRING(64), allowNull: false },
     token_hash: { type: DataTypes.STRING(64), allowNull: false, unique: true },

@@ -23,10 +23,16 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   // 'created' on every insert. Old names onto the machine's states; facts that the old columns imply are carried over.
   await qi.sequelize.query("UPDATE orders SET status = 'created' WHERE status = 'pending'");
   await qi.sequelize.query("UPDATE orders SET status = 'expired', expired_at = updated_at WHERE status = 'cancelled'");
-  await qi.sequelize.query("UPDATE orders SET status = 'needs_review', review_reason = COALESCE(note, 'Flagged before the review queue existed.') WHERE status = 'flagged'");
+  await qi.sequelize.query(
+    "UPDATE orders SET status = 'needs_review', review_reason = COALESCE(note, 'Flagged before the review queue existed.') WHERE status = 'flagged'",
+  );
   await qi.sequelize.query("UPDATE orders SET declined_count = 1 WHERE status = 'declined'");
-  await qi.sequelize.query("UPDATE orders SET paid_cents = amount_cents, paid_currency = currency, paid_at = updated_at, receipt_sent_at = updated_at WHERE status IN ('fulfilled', 'refunded')");
-  await qi.sequelize.query("UPDATE orders SET refunded_cents = amount_cents, refund_notice_sent_at = updated_at WHERE status = 'refunded'");
+  await qi.sequelize.query(
+    "UPDATE orders SET paid_cents = amount_cents, paid_currency = currency, paid_at = updated_at, receipt_sent_at = updated_at WHERE status IN ('fulfilled', 'refunded')",
+  );
+  await qi.sequelize.query(
+    "UPDATE orders SET refunded_cents = amount_cents, refund_notice_sent_at = updated_at WHERE status = 'refunded'",
+  );
   await qi.addIndex("orders", ["status"]);
   await qi.addIndex("orders", ["payment_intent_id"]);
 }
@@ -36,7 +42,23 @@ export async function down({ context: qi }: { context: QueryInterface }) {
   await qi.removeIndex("orders", ["status"]);
   await qi.sequelize.query("UPDATE orders SET status = 'pending' WHERE status = 'created'");
   await qi.sequelize.query("UPDATE orders SET status = 'cancelled' WHERE status = 'expired'");
-  await qi.sequelize.query("UPDATE orders SET status = 'flagged', note = COALESCE(review_reason, note) WHERE status = 'needs_review'");
-  for (const c of ["paid_cents", "paid_currency", "paid_at", "expired_at", "declined_count", "refunded_cents", "refunds", "refund_requested_at", "review_reason", "receipt_sent_at", "refund_notice_sent_at", "return_origin"]) await dropColumn(qi, "orders", c);
+  await qi.sequelize.query(
+    "UPDATE orders SET status = 'flagged', note = COALESCE(review_reason, note) WHERE status = 'needs_review'",
+  );
+  for (const c of [
+    "paid_cents",
+    "paid_currency",
+    "paid_at",
+    "expired_at",
+    "declined_count",
+    "refunded_cents",
+    "refunds",
+    "refund_requested_at",
+    "review_reason",
+    "receipt_sent_at",
+    "refund_notice_sent_at",
+    "return_origin",
+  ])
+    await dropColumn(qi, "orders", c);
   await dropColumn(qi, "listings", "cover_text");
 }

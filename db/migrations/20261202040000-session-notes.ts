@@ -9,12 +9,26 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.addColumn("users", "training_times", { type: DataTypes.TEXT, allowNull: true });
   await qi.addColumn("plan_items", "description", { type: DataTypes.TEXT, allowNull: false, defaultValue: "" });
   await qi.addColumn("scheduled_sessions", "description", { type: DataTypes.TEXT, allowNull: false, defaultValue: "" });
-  await qi.sequelize.query("UPDATE plan_items SET description = COALESCE((SELECT s.description FROM sessions s WHERE s.id = plan_items.source_session_id), '')");
-  await qi.sequelize.query("UPDATE scheduled_sessions SET description = COALESCE((SELECT p.description FROM plan_items p WHERE p.id = scheduled_sessions.plan_item_id), '')");
+  await qi.sequelize.query(
+    "UPDATE plan_items SET description = COALESCE((SELECT s.description FROM sessions s WHERE s.id = plan_items.source_session_id), '')",
+  );
+  await qi.sequelize.query(
+    "UPDATE scheduled_sessions SET description = COALESCE((SELECT p.description FROM plan_items p WHERE p.id = scheduled_sessions.plan_item_id), '')",
+  );
   await qi.createTable("session_comments", {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    scheduled_session_id: { type: DataTypes.INTEGER, allowNull: false, references: { model: "scheduled_sessions", key: "id" }, onDelete: "CASCADE" },
-    author_id: { type: DataTypes.INTEGER, allowNull: false, references: { model: "users", key: "id" }, onDelete: "CASCADE" },
+    scheduled_session_id: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: "scheduled_sessions", key: "id" },
+      onDelete: "CASCADE",
+    },
+    author_id: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: "users", key: "id" },
+      onDelete: "CASCADE",
+    },
     body: { type: DataTypes.TEXT, allowNull: false },
     created_at: { type: DataTypes.DATE, allowNull: false },
     updated_at: { type: DataTypes.DATE, allowNull: false },

@@ -11,7 +11,12 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   await qi.addColumn("users", "totp_last_step", { type: DataTypes.INTEGER, allowNull: true });
   await qi.createTable("recovery_codes", {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    user_id: { type: DataTypes.INTEGER, allowNull: false, references: { model: "users", key: "id" }, onDelete: "CASCADE" },
+    user_id: {
+      type: DataTypes.INTEGER,
+      allowNull: false,
+      references: { model: "users", key: "id" },
+      onDelete: "CASCADE",
+    },
     // SHA-256 of the code; the code itself is shown once.
     code_hash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
     used_at: { type: DataTypes.DATE, allowNull: true },

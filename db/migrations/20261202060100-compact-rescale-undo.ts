@@ -19,7 +19,13 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     ) WITHOUT ROWID`);
   } else {
     await qi.createTable("rescale_undo_steps", {
-      report_id: { type: DataTypes.INTEGER, primaryKey: true, allowNull: false, references: { model: "rescale_reports", key: "id" }, onDelete: "CASCADE" },
+      report_id: {
+        type: DataTypes.INTEGER,
+        primaryKey: true,
+        allowNull: false,
+        references: { model: "rescale_reports", key: "id" },
+        onDelete: "CASCADE",
+      },
       block_id: { type: DataTypes.INTEGER, primaryKey: true, allowNull: false },
       scheduled_session_id: { type: DataTypes.INTEGER, allowNull: false },
       old_low_abs: { type: DataTypes.INTEGER, allowNull: true },
@@ -38,7 +44,12 @@ export async function up({ context: qi }: { context: QueryInterface }) {
 }
 
 export async function down({ context: qi }: { context: QueryInterface }) {
-  const fk = (model: string) => ({ type: DataTypes.INTEGER, allowNull: false, references: { model, key: "id" }, onDelete: "CASCADE" });
+  const fk = (model: string) => ({
+    type: DataTypes.INTEGER,
+    allowNull: false,
+    references: { model, key: "id" },
+    onDelete: "CASCADE",
+  });
   await qi.createTable("rescale_changes", {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
     report_id: fk("rescale_reports"),

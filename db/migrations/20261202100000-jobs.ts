@@ -7,7 +7,12 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     kind: { type: DataTypes.STRING(32), allowNull: false },
     // One row per piece of work ("order:12:place"): a repeated cause finds the row already there.
     job_key: { type: DataTypes.STRING(128), allowNull: false, unique: true },
-    order_id: { type: DataTypes.INTEGER, allowNull: true, references: { model: "orders", key: "id" }, onDelete: "CASCADE" },
+    order_id: {
+      type: DataTypes.INTEGER,
+      allowNull: true,
+      references: { model: "orders", key: "id" },
+      onDelete: "CASCADE",
+    },
     status: { type: DataTypes.STRING(16), allowNull: false, defaultValue: "pending" },
     attempts: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
     next_attempt_at: { type: DataTypes.DATE, allowNull: false },

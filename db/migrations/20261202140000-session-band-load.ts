@@ -20,7 +20,9 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     }
     if (!Array.isArray(minutes) || !minutes.every((m) => typeof m === "number")) continue;
     const load = minutes.reduce((a: number, m: number, i: number) => a + m * (i + 1), 0);
-    await qi.sequelize.query("UPDATE scheduled_sessions SET band_load = ? WHERE id = ?", { replacements: [load, r.id] });
+    await qi.sequelize.query("UPDATE scheduled_sessions SET band_load = ? WHERE id = ?", {
+      replacements: [load, r.id],
+    });
   }
 }
 

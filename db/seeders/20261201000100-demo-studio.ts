@@ -15,7 +15,19 @@ export async function up({ context: qi }: { context: QueryInterface }) {
         `INSERT INTO users (role, email, password_hash, name, timezone, units, sex, weight_kg, resting_hr, max_hr, created_at, updated_at)
          VALUES (?, ?, ?, ?, ?, 'metric', ?, ?, ?, ?, ?, ?) ON CONFLICT DO NOTHING`,
         {
-          replacements: [p.role, p.email, hash, p.name, p.timezone, extra.sex ?? null, extra.weightKg ?? null, extra.restingHr ?? null, extra.maxHr ?? null, now, now],
+          replacements: [
+            p.role,
+            p.email,
+            hash,
+            p.name,
+            p.timezone,
+            extra.sex ?? null,
+            extra.weightKg ?? null,
+            extra.restingHr ?? null,
+            extra.maxHr ?? null,
+            now,
+            now,
+          ],
           transaction,
         },
       );
@@ -25,11 +37,14 @@ export async function up({ context: qi }: { context: QueryInterface }) {
       type: QueryTypes.SELECT,
       transaction,
     });
-    const athletes = await sequelize.query<{ id: number }>("SELECT id FROM users WHERE role = 'athlete' AND email IN (?)", {
-      replacements: [DEMO_ACCOUNTS.people.filter((p) => p.role === "athlete").map((p) => p.email)],
-      type: QueryTypes.SELECT,
-      transaction,
-    });
+    const athletes = await sequelize.query<{ id: number }>(
+      "SELECT id FROM users WHERE role = 'athlete' AND email IN (?)",
+      {
+        replacements: [DEMO_ACCOUNTS.people.filter((p) => p.role === "athlete").map((p) => p.email)],
+        type: QueryTypes.SELECT,
+        transaction,
+      },
+    );
     for (const a of athletes) {
       await sequelize.query(
         "INSERT INTO coach_athletes (coach_id, athlete_id, created_at, updated_at) VALUES (?, ?, ?, ?) ON CONFLICT DO NOTHING",

@@ -18,7 +18,10 @@ export async function up({ context: qi }: { context: QueryInterface }) {
   const ada = await User.findOne({ where: { email: email("triathlete") } });
   const jonah = await User.findOne({ where: { email: email("runner") } });
   if (!coach || !tomas || !ada || !jonah) return;
-  const [{ n }] = await qi.sequelize.query<{ n: number }>("SELECT COUNT(*) AS n FROM season_plans WHERE owner_id = ?", { replacements: [coach.id], type: QueryTypes.SELECT });
+  const [{ n }] = await qi.sequelize.query<{ n: number }>("SELECT COUNT(*) AS n FROM season_plans WHERE owner_id = ?", {
+    replacements: [coach.id],
+    type: QueryTypes.SELECT,
+  });
   if (n > 0) return;
 
   const today = todayIn(tomas.timezone);
@@ -37,17 +40,36 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     for (const r of rows) await Threshold.create({ ...r, source: "seed", createdBy: coach.id }, { transaction: t });
   });
 
-  const plan = await createPlan(coach.id, { name: "Harbour Line spring build", sport: "bike", description: "Twelve weeks of road preparation: aerobic base, then threshold and capacity work.", alignment: "start", date: start, weeks: 12, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+  const plan = await createPlan(coach.id, {
+    name: "Harbour Line spring build",
+    sport: "bike",
+    description: "Twelve weeks of road preparation: aerobic base, then threshold and capacity work.",
+    alignment: "start",
+    date: start,
+    weeks: 12,
+    weeklyHours: 8,
+    pattern: "3:1",
+    testEveryWeeks: 6,
+  });
   const shelf = new Map((await Session.findAll({ where: { ownerId: coach.id } })).map((s) => [s.name, s.id]));
   const { weeks } = await loadPlan(coach.id, plan.id);
   for (const w of weeks) {
     const hard = w.phase === "base" ? "Heavy 2 × 20" : "Threshold repeats";
     const days: [number, string][] = w.recovery
-      ? [[2, "Recovery spin"], [5, "Endurance 90"]]
-      : [[w.test ? 3 : 1, hard], [3, w.phase === "base" ? "Heart-rate endurance" : "Severe 5 × 4"], [5, "Endurance 90"], [6, "Recovery spin"]];
+      ? [
+          [2, "Recovery spin"],
+          [5, "Endurance 90"],
+        ]
+      : [
+          [w.test ? 3 : 1, hard],
+          [3, w.phase === "base" ? "Heart-rate endurance" : "Severe 5 × 4"],
+          [5, "Endurance 90"],
+          [6, "Recovery spin"],
+        ];
     for (const [day, name] of days) {
       const sessionId = shelf.get(name);
-      if (sessionId) await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId, toWeek: w.id, toDay: day, toIndex: 99 });
+      if (sessionId)
+        await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId, toWeek: w.id, toDay: day, toIndex: 99 });
     }
   }
   await writeTransaction((transaction) => materialize(plan.id, tomas, start, { assignedBy: coach.id, transaction }));

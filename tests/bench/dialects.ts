@@ -27,28 +27,72 @@ async function measure() {
   const { saveTest } = await import("~/.server/services/field-tests");
   const { addDays, mondayOf, todayIn } = await import("~/lib/dates");
   const hash = await hashPassword("bench-password-1");
-  const coach = await User.create({ role: "coach", email: "dialect.coach@example.test", name: "Coach", passwordHash: hash });
-  const athlete = await User.create({ role: "athlete", email: "dialect.athlete@example.test", name: "Athlete", passwordHash: hash });
+  const coach = await User.create({
+    role: "coach",
+    email: "dialect.coach@example.test",
+    name: "Coach",
+    passwordHash: hash,
+  });
+  const athlete = await User.create({
+    role: "athlete",
+    email: "dialect.athlete@example.test",
+    name: "Athlete",
+    passwordHash: hash,
+  });
   await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
-  await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
+  await Threshold.create({
+    athleteId: athlete.id,
+    sport: "bike",
+    metric: "power",
+    value: 250,
+    unit: "W",
+    effectiveFrom: "2026-01-01",
+    source: "manual",
+  });
   const s = await Session.create({ ownerId: coach.id, name: "Bench", sport: "bike" });
   await SessionBlock.bulkCreate(
-    [55, 75, 95, 105, 60, 50].map((pct, position) => ({ sessionId: s.id, position, kind: "steady", spec: { kind: "steady", durationS: 600, target: { metric: "power", lowPct: pct, highPct: pct + 5 } } })),
+    [55, 75, 95, 105, 60, 50].map((pct, position) => ({
+      sessionId: s.id,
+      position,
+      kind: "steady",
+      spec: { kind: "steady", durationS: 600, target: { metric: "power", lowPct: pct, highPct: pct + 5 } },
+    })),
   );
   const today = todayIn("UTC");
-  const plan = await createPlan(coach.id, { name: "Bench", sport: "bike", description: "", alignment: "start", date: mondayOf(today), weeks: 26, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+  const plan = await createPlan(coach.id, {
+    name: "Bench",
+    sport: "bike",
+    description: "",
+    alignment: "start",
+    date: mondayOf(today),
+    weeks: 26,
+    weeklyHours: 8,
+    pattern: "3:1",
+    testEveryWeeks: 6,
+  });
   await PlanItem.destroy({ where: { planId: plan.id } });
   const weeks = await PlanWeek.findAll({ where: { planId: plan.id }, order: [["idx", "ASC"]] });
-  for (const w of weeks) for (let d = 0; d < 5; d++) await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: d, toIndex: 0 });
-  await writeTransaction((transaction) => materialize(plan.id, athlete, mondayOf(today), { assignedBy: coach.id, transaction }));
+  for (const w of weeks)
+    for (let d = 0; d < 5; d++)
+      await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: d, toIndex: 0 });
+  await writeTransaction((transaction) =>
+    materialize(plan.id, athlete, mondayOf(today), { assignedBy: coach.id, transaction }),
+  );
   const items = (await PlanItem.findAll({ where: { planId: plan.id } })).map((i) => i.id);
   // BENCH_ANALYZE=1: planner statistics for the freshly filled tables first (autovacuum would gather them later).
-  if (process.env.BENCH_ANALYZE === "1" && process.env.DATABASE_URL) await (await import("~/.server/db")).db().query("ANALYZE");
+  if (process.env.BENCH_ANALYZE === "1" && process.env.DATABASE_URL)
+    await (await import("~/.server/db")).db().query("ANALYZE");
 
   const moves: number[] = [];
   for (let k = 0; k < 40; k++) {
     const t0 = performance.now();
-    await applyBoardOp(coach.id, plan.id, { op: "move", itemId: items[k % items.length], toWeek: weeks[k % weeks.length].id, toDay: k % 7, toIndex: 0 });
+    await applyBoardOp(coach.id, plan.id, {
+      op: "move",
+      itemId: items[k % items.length],
+      toWeek: weeks[k % weeks.length].id,
+      toDay: k % 7,
+      toIndex: 0,
+    });
     moves.push(performance.now() - t0);
   }
   const rescales: number[] = [];
@@ -56,9 +100,18 @@ async function measure() {
   const { db } = await import("~/.server/db");
   const trace: { sql: string; ms: number }[] = [];
   for (let k = 0; k < 10; k++) {
-    if (k === 9) Object.assign((db() as unknown as { options: object }).options, { benchmark: true, logging: (sql: string, ms: number) => trace.push({ sql: sql.replace(/^Executed \([^)]*\): /, "").slice(0, 160), ms }) });
+    if (k === 9)
+      Object.assign((db() as unknown as { options: object }).options, {
+        benchmark: true,
+        logging: (sql: string, ms: number) =>
+          trace.push({ sql: sql.replace(/^Executed \([^)]*\): /, "").slice(0, 160), ms }),
+      });
     const t0 = performance.now();
-    await saveTest(athlete, athlete, { protocol: "manual", inputs: { sport: "bike", metric: "power", value: String(255 + k) }, testedOn: addDays(today, k - 10) } as never);
+    await saveTest(athlete, athlete, {
+      protocol: "manual",
+      inputs: { sport: "bike", metric: "power", value: String(255 + k) },
+      testedOn: addDays(today, k - 10),
+    } as never);
     if (k < 9) rescales.push(performance.now() - t0);
   }
   Object.assign((db() as unknown as { options: object }).options, { benchmark: false, logging: false });
@@ -68,15 +121,40 @@ async function measure() {
   if (!last || last.blocksChanged === 0) throw new Error("the rescale touched no step");
   const blocksChanged = last.blocksChanged;
   await closeDb();
-  const slowest = [...trace].sort((a, b) => b.ms - a.ms).slice(0, 6).map((t) => `${t.ms} ms ${t.sql}`);
-  console.log(JSON.stringify({ blocksChanged, boardMoveMs: median(moves), rescaleMs: median(rescales), sessions: weeks.length * 5, rescaleStatements: trace.length, rescaleStatementMs: trace.reduce((n, t) => n + t.ms, 0), slowest }));
+  const slowest = [...trace]
+    .sort((a, b) => b.ms - a.ms)
+    .slice(0, 6)
+    .map((t) => `${t.ms} ms ${t.sql}`);
+  console.log(
+    JSON.stringify({
+      blocksChanged,
+      boardMoveMs: median(moves),
+      rescaleMs: median(rescales),
+      sessions: weeks.length * 5,
+      rescaleStatements: trace.length,
+      rescaleStatementMs: trace.reduce((n, t) => n + t.ms, 0),
+      slowest,
+    }),
+  );
 }
 
 function side(env: Record<string, string>) {
-  const res = spawnSync(process.execPath, [path.resolve("node_modules/tsx/dist/cli.mjs"), "tests/bench/dialects.ts", "measure"], { env: { ...process.env, ...env }, encoding: "utf8" });
+  const res = spawnSync(
+    process.execPath,
+    [path.resolve("node_modules/tsx/dist/cli.mjs"), "tests/bench/dialects.ts", "measure"],
+    { env: { ...process.env, ...env }, encoding: "utf8" },
+  );
   const line = res.stdout.trim().split("\n").pop() ?? "";
   if (res.status !== 0 || !line.startsWith("{")) throw new Error(`bench side failed:\n${res.stdout}\n${res.stderr}`);
-  return JSON.parse(line) as { blocksChanged: number; boardMoveMs: number; rescaleMs: number; sessions: number; rescaleStatements: number; rescaleStatementMs: number; slowest: string[] };
+  return JSON.parse(line) as {
+    blocksChanged: number;
+    boardMoveMs: number;
+    rescaleMs: number;
+    sessions: number;
+    rescaleStatements: number;
+    rescaleStatementMs: number;
+    slowest: string[];
+  };
 }
 
 async function main() {
@@ -91,7 +169,11 @@ async function main() {
   try {
     const url = new URL(adminUrl);
     url.pathname = `/${name}`;
-    const sqlite = side({ DATABASE_URL: "", DATABASE_PATH: path.join(dir, "bench.sqlite"), UPLOAD_DIR: path.join(dir, "up") });
+    const sqlite = side({
+      DATABASE_URL: "",
+      DATABASE_PATH: path.join(dir, "bench.sqlite"),
+      UPLOAD_DIR: path.join(dir, "up"),
+    });
     const postgres = side({ DATABASE_URL: url.toString(), UPLOAD_DIR: path.join(dir, "up") });
     const report = {
       machine: `${os.cpus().length} cores`,

@@ -82,7 +82,12 @@ export async function compareEach<T>(
   return figure(name, median(s), median(b), opts);
 }
 
-function figure(name: string, subjectMs: number, baselineMs: number, opts: { baselineName: string; aim?: number; note?: string }): BenchFigure {
+function figure(
+  name: string,
+  subjectMs: number,
+  baselineMs: number,
+  opts: { baselineName: string; aim?: number; note?: string },
+): BenchFigure {
   return {
     name,
     subjectMs: round(subjectMs),

@@ -13,7 +13,12 @@ export async function run(): Promise<BenchFigure[]> {
   const now = sqlDate(new Date());
   const today = todayIn("UTC");
   for (let a = 0; a < 50; a++) {
-    const u = await User.create({ role: "athlete", email: `load.bench.${a}@example.test`, name: `Load ${a}`, passwordHash: hash });
+    const u = await User.create({
+      role: "athlete",
+      email: `load.bench.${a}@example.test`,
+      name: `Load ${a}`,
+      passwordHash: hash,
+    });
     athletes.push(u);
     const days = a === 0 ? 3 * 365 : 120;
     await db().query(
@@ -25,17 +30,32 @@ export async function run(): Promise<BenchFigure[]> {
   }
   const three = addDays(today, -3 * 365 + 1);
   const raw = (ids: number[], from: string) => () =>
-    db().query("SELECT date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, zone_minutes FROM scheduled_sessions WHERE athlete_id IN (:ids) AND date BETWEEN :from AND :to", {
-      replacements: { ids, from, to: today },
-      type: QueryTypes.SELECT,
-    });
+    db().query(
+      "SELECT date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, zone_minutes FROM scheduled_sessions WHERE athlete_id IN (:ids) AND date BETWEEN :from AND :to",
+      {
+        replacements: { ids, from, to: today },
+        type: QueryTypes.SELECT,
+      },
+    );
   return [
-    await compare("load series, 3 years of daily data, one athlete", () => loadSeries(athletes[0], three, today), raw([athletes[0].id], three), { baselineName: "the same rows read raw from SQLite", runs: 7, aim: 2 }),
+    await compare(
+      "load series, 3 years of daily data, one athlete",
+      () => loadSeries(athletes[0], three, today),
+      raw([athletes[0].id], three),
+      { baselineName: "the same rows read raw from SQLite", runs: 7, aim: 2 },
+    ),
     await compare(
       "load series (last 4 weeks) for a roster of 50",
       () => Promise.all(athletes.map((a) => loadSeries(a, addDays(today, -27), today))),
-      raw(athletes.map((a) => a.id), addDays(today, -27 - 84)),
-      { baselineName: "the same rows read raw from SQLite", runs: 5, note: "50 separate series; the raw read is one query over all 50" },
+      raw(
+        athletes.map((a) => a.id),
+        addDays(today, -27 - 84),
+      ),
+      {
+        baselineName: "the same rows read raw from SQLite",
+        runs: 5,
+        note: "50 separate series; the raw read is one query over all 50",
+      },
     ),
   ];
 }

@@ -15,14 +15,30 @@ import { compare, type BenchFigure } from "./lib";
  * sequences) against one raw SQL UPDATE of the same rows on the same database, alternating in one run.
  */
 export async function run(): Promise<BenchFigure[]> {
-  const athlete = await User.create({ role: "athlete", email: "rescale.bench@example.test", name: "Rescale Bench", passwordHash: await hashPassword("bench-password-1") });
-  await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
+  const athlete = await User.create({
+    role: "athlete",
+    email: "rescale.bench@example.test",
+    name: "Rescale Bench",
+    passwordHash: await hashPassword("bench-password-1"),
+  });
+  await Threshold.create({
+    athleteId: athlete.id,
+    sport: "bike",
+    metric: "power",
+    value: 250,
+    unit: "W",
+    effectiveFrom: "2026-01-01",
+    source: "manual",
+  });
   const now = new Date().toISOString();
   const sessions = 2000;
   await db().query("BEGIN IMMEDIATE");
   for (let i = 0; i < sessions; i++) {
     const date = new Date(Date.UTC(2027, 0, 1) + Math.floor(i / 4) * 86_400_000).toISOString().slice(0, 10);
-    await db().query("INSERT INTO scheduled_sessions (athlete_id, date, name, sport, status, created_at, updated_at) VALUES (?, ?, 'S', 'bike', 'planned', ?, ?)", { replacements: [athlete.id, date, now, now] });
+    await db().query(
+      "INSERT INTO scheduled_sessions (athlete_id, date, name, sport, status, created_at, updated_at) VALUES (?, ?, 'S', 'bike', 'planned', ?, ?)",
+      { replacements: [athlete.id, date, now, now] },
+    );
   }
   await db().query(
     `INSERT INTO scheduled_blocks (scheduled_session_id, athlete_id, date, sport, position, block_index, kind, part, duration_s, metric, low_pct, high_pct, ramp, low_abs, high_abs, unit, threshold_value)
@@ -32,7 +48,10 @@ export async function run(): Promise<BenchFigure[]> {
     { replacements: [athlete.id] },
   );
   await db().query("COMMIT");
-  const [{ n }] = await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM scheduled_blocks WHERE athlete_id = ?", { replacements: [athlete.id], type: QueryTypes.SELECT });
+  const [{ n }] = await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM scheduled_blocks WHERE athlete_id = ?", {
+    replacements: [athlete.id],
+    type: QueryTypes.SELECT,
+  });
 
   const testedOn = todayIn(athlete.timezone);
   const app: number[] = [];
@@ -40,7 +59,11 @@ export async function run(): Promise<BenchFigure[]> {
   for (let i = 0; i < 5; i++) {
     const value = 260 + i;
     let t0 = performance.now();
-    await saveTest(athlete, athlete, { protocol: "manual", inputs: { sport: "bike", metric: "power", value: String(value) }, testedOn });
+    await saveTest(athlete, athlete, {
+      protocol: "manual",
+      inputs: { sport: "bike", metric: "power", value: String(value) },
+      testedOn,
+    });
     app.push(performance.now() - t0);
     t0 = performance.now();
     await db().query(
@@ -51,7 +74,15 @@ export async function run(): Promise<BenchFigure[]> {
   }
   const med = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
   const figures: BenchFigure[] = [
-    { name: `rescale ${n} future steps through the app`, subjectMs: Math.round(med(app)), baselineMs: Math.round(med(raw)), baseline: "raw SQL UPDATE of the same rows", ratio: Math.round((med(app) / med(raw)) * 100) / 100, aim: 3, note: "the app also keeps every old value for the exact undo, writes the report and bumps feed sequences; runs alternate" },
+    {
+      name: `rescale ${n} future steps through the app`,
+      subjectMs: Math.round(med(app)),
+      baselineMs: Math.round(med(raw)),
+      baseline: "raw SQL UPDATE of the same rows",
+      ratio: Math.round((med(app) / med(raw)) * 100) / 100,
+      aim: 3,
+      note: "the app also keeps every old value for the exact undo, writes the report and bumps feed sequences; runs alternate",
+    },
   ];
   // Upload to proposal for a two-hour file: parse, then the 20-minute best and its pacing, against papaparse alone.
   const csv = toCsv(enduranceRide());

@@ -13,13 +13,31 @@ import { countStatements } from "./statements";
  */
 export async function run() {
   const hash = await hashPassword("bench-password-1");
-  const coach = await User.create({ role: "coach", email: "bench.coach@example.test", name: "Bench Coach", passwordHash: hash });
+  const coach = await User.create({
+    role: "coach",
+    email: "bench.coach@example.test",
+    name: "Bench Coach",
+    passwordHash: hash,
+  });
   const today = todayIn("UTC");
   const now = sqlDate(new Date());
   for (let i = 0; i < 50; i++) {
-    const a = await User.create({ role: "athlete", email: `bench.${i}@example.test`, name: `Athlete ${i}`, passwordHash: hash });
+    const a = await User.create({
+      role: "athlete",
+      email: `bench.${i}@example.test`,
+      name: `Athlete ${i}`,
+      passwordHash: hash,
+    });
     await CoachAthlete.create({ coachId: coach.id, athleteId: a.id });
-    await Threshold.create({ athleteId: a.id, sport: "bike", metric: "power", value: 240 + i, unit: "W", effectiveFrom: addDays(today, -60), source: "manual" });
+    await Threshold.create({
+      athleteId: a.id,
+      sport: "bike",
+      metric: "power",
+      value: 240 + i,
+      unit: "W",
+      effectiveFrom: addDays(today, -60),
+      source: "manual",
+    });
     await db().query(
       `INSERT INTO scheduled_sessions (athlete_id, date, name, sport, status, effort_score, actual_minutes, planned_duration_s, planned_load, created_at, updated_at)
        WITH RECURSIVE k(n) AS (SELECT 0 UNION ALL SELECT n + 1 FROM k WHERE n < 27)
@@ -38,11 +56,16 @@ export async function run() {
       { replacements: [from, today, coach.id], type: QueryTypes.SELECT },
     );
   const { statements } = await countStatements(() => rosterFor(coach.id));
-  const figure = await compare("roster of 50 athletes, with thresholds, retest due and 4-week load", () => rosterFor(coach.id), raw, {
-    baselineName: "one raw join over the same athlete, threshold and session rows",
-    runs: 10,
-    aim: 3,
-  });
+  const figure = await compare(
+    "roster of 50 athletes, with thresholds, retest due and 4-week load",
+    () => rosterFor(coach.id),
+    raw,
+    {
+      baselineName: "one raw join over the same athlete, threshold and session rows",
+      runs: 10,
+      aim: 3,
+    },
+  );
   figure.note = `${statements} SQL statements (aim ≤ 10)`;
   return [figure];
 }

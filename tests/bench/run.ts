@@ -34,15 +34,30 @@ for (const file of files) {
   }
 }
 
-const report = { machine: { cpus: os.cpus().length, node: process.version }, at: new Date().toISOString(), figures: figures.map((f) => ({ ...f, verdict: verdict(f) })) };
+const report = {
+  machine: { cpus: os.cpus().length, node: process.version },
+  at: new Date().toISOString(),
+  figures: figures.map((f) => ({ ...f, verdict: verdict(f) })),
+};
 const out = path.resolve(process.env.BENCH_REPORT ?? "tests/bench/report.json");
 fs.writeFileSync(out, JSON.stringify(report, null, 2));
 console.table(
-  figures.map((f) => ({ bench: f.name, "subject ms": f.subjectMs, "baseline ms": f.baselineMs, ratio: f.ratio, aim: f.aim === undefined ? "" : `${f.higherIsBetter ? "≥" : "≤"} ${f.aim}`, verdict: verdict(f) })),
+  figures.map((f) => ({
+    bench: f.name,
+    "subject ms": f.subjectMs,
+    "baseline ms": f.baselineMs,
+    ratio: f.ratio,
+    aim: f.aim === undefined ? "" : `${f.higherIsBetter ? "≥" : "≤"} ${f.aim}`,
+    verdict: verdict(f),
+  })),
 );
 for (const f of figures) console.log(`- ${f.name}: against ${f.baseline}${f.note ? `; ${f.note}` : ""}`);
 const missed = figures.filter((f) => verdict(f) === "misses aim");
-console.log(missed.length ? `${missed.length} of ${figures.filter((f) => f.aim !== undefined).length} figures with an aim miss it: ${missed.map((f) => f.name).join("; ")}` : `every figure with an aim (${figures.filter((f) => f.aim !== undefined).length}) meets it`);
+console.log(
+  missed.length
+    ? `${missed.length} of ${figures.filter((f) => f.aim !== undefined).length} figures with an aim miss it: ${missed.map((f) => f.name).join("; ")}`
+    : `every figure with an aim (${figures.filter((f) => f.aim !== undefined).length}) meets it`,
+);
 console.log(`report written to ${path.relative(process.cwd(), out)}`);
 
 const { closeDb } = await import("../../app/.server/db");

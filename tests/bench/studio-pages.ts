@@ -25,9 +25,15 @@ const { QueryTypes } = await import("sequelize");
 
 const BASE = "http://localhost:3000";
 const coach = (await User.findOne({ where: { role: "coach" }, order: [["id", "ASC"]] }))!;
-const [{ athlete_id: athleteId }] = await db().query<{ athlete_id: number }>("SELECT MIN(athlete_id) AS athlete_id FROM coach_athletes WHERE coach_id = ?", { replacements: [coach.id], type: QueryTypes.SELECT });
+const [{ athlete_id: athleteId }] = await db().query<{ athlete_id: number }>(
+  "SELECT MIN(athlete_id) AS athlete_id FROM coach_athletes WHERE coach_id = ?",
+  { replacements: [coach.id], type: QueryTypes.SELECT },
+);
 const athlete = (await User.findByPk(athleteId))!;
-const [{ id: planId }] = await db().query<{ id: number }>("SELECT MIN(id) AS id FROM season_plans WHERE owner_id = ?", { replacements: [coach.id], type: QueryTypes.SELECT });
+const [{ id: planId }] = await db().query<{ id: number }>("SELECT MIN(id) AS id FROM season_plans WHERE owner_id = ?", {
+  replacements: [coach.id],
+  type: QueryTypes.SELECT,
+});
 const cookie = (await startSession(coach, new Request(BASE))).split(";")[0];
 const get = (path: string) => new Request(`${BASE}${path}`, { headers: { cookie } });
 const today = todayIn("UTC");
@@ -37,10 +43,31 @@ const ctx = { context: {} as never };
 const body = async (r: unknown) => (r instanceof Response ? r.text() : r);
 const pages: Record<string, () => Promise<unknown>> = {
   roster: async () => body(await roster.loader({ request: get("/coach"), params: {}, ...ctx } as never)),
-  board: async () => body(await board.loader({ request: get(`/coach/plans/${planId}/board`), params: { planId: String(planId) }, ...ctx } as never)),
-  calendar: async () => body(await calendar.loader({ request: get(`/api/calendar?athleteId=${athleteId}&from=${addDays(today, -42)}&to=${addDays(today, 41)}`), params: {}, ...ctx } as never)),
+  board: async () =>
+    body(
+      await board.loader({
+        request: get(`/coach/plans/${planId}/board`),
+        params: { planId: String(planId) },
+        ...ctx,
+      } as never),
+    ),
+  calendar: async () =>
+    body(
+      await calendar.loader({
+        request: get(`/api/calendar?athleteId=${athleteId}&from=${addDays(today, -42)}&to=${addDays(today, 41)}`),
+        params: {},
+        ...ctx,
+      } as never),
+    ),
   feed: async () => buildFeed(athlete),
-  "load series": async () => body(await load.loader({ request: get(`/api/athletes/${athleteId}/load?from=${addDays(today, -3 * 365)}&to=${today}`), params: { id: String(athleteId) }, ...ctx } as never)),
+  "load series": async () =>
+    body(
+      await load.loader({
+        request: get(`/api/athletes/${athleteId}/load?from=${addDays(today, -3 * 365)}&to=${today}`),
+        params: { id: String(athleteId) },
+        ...ctx,
+      } as never),
+    ),
 };
 
 const sequelize = db();

@@ -20,12 +20,32 @@ const BIG = { athletes: 500, years: 5 };
 const ROUNDS = 3;
 
 function studioFile(size: { athletes: number; years: number }) {
-  const file = path.join(os.tmpdir(), `pacewright-studio-v${STUDIO_VERSION}-seed42-a${size.athletes}-y${size.years}-${mondayOf(todayIn("UTC"))}.sqlite`);
+  const file = path.join(
+    os.tmpdir(),
+    `pacewright-studio-v${STUDIO_VERSION}-seed42-a${size.athletes}-y${size.years}-${mondayOf(todayIn("UTC"))}.sqlite`,
+  );
   if (!fs.existsSync(file)) {
     console.log(`[bench] generating the studio ${path.basename(file)} (cached for later runs)…`);
     const tmp = `${file}.partial`;
     fs.rmSync(tmp, { force: true });
-    execFileSync(process.execPath, ["--import", "tsx", "scripts/studio.ts", "--seed", "42", "--athletes", String(size.athletes), "--years", String(size.years), "--db", tmp, "--force"], { stdio: ["ignore", "ignore", "inherit"], env: { ...process.env, DATABASE_URL: "" } });
+    execFileSync(
+      process.execPath,
+      [
+        "--import",
+        "tsx",
+        "scripts/studio.ts",
+        "--seed",
+        "42",
+        "--athletes",
+        String(size.athletes),
+        "--years",
+        String(size.years),
+        "--db",
+        tmp,
+        "--force",
+      ],
+      { stdio: ["ignore", "ignore", "inherit"], env: { ...process.env, DATABASE_URL: "" } },
+    );
     fs.renameSync(tmp, file);
   }
   return file;
@@ -33,7 +53,11 @@ function studioFile(size: { athletes: number; years: number }) {
 
 type Measured = Record<string, { ms: number; statements: number; rows: number }>;
 function measure(file: string): Measured {
-  const out = execFileSync(process.execPath, ["--import", "tsx", "tests/bench/studio-pages.ts", file], { env: { ...process.env, DATABASE_URL: "", STUDIO_RUNS: "5" }, encoding: "utf8", stdio: ["ignore", "pipe", "inherit"] });
+  const out = execFileSync(process.execPath, ["--import", "tsx", "tests/bench/studio-pages.ts", file], {
+    env: { ...process.env, DATABASE_URL: "", STUDIO_RUNS: "5" },
+    encoding: "utf8",
+    stdio: ["ignore", "pipe", "inherit"],
+  });
   const line = out.split("\n").find((l) => l.startsWith("STUDIO "));
   if (!line) throw new Error(`no figures from studio-pages on ${file}`);
   return JSON.parse(line.slice(7)) as Measured;

@@ -28,7 +28,11 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     // Our palette and Lexend, as the design asks.
     const look = await coach.evaluate(async () => {
       await document.fonts.ready;
-      return { bg: getComputedStyle(document.documentElement).backgroundColor, font: getComputedStyle(document.body).fontFamily, lexend: document.fonts.check("16px Lexend") };
+      return {
+        bg: getComputedStyle(document.documentElement).backgroundColor,
+        font: getComputedStyle(document.body).fontFamily,
+        lexend: document.fonts.check("16px Lexend"),
+      };
     });
     expect(look.bg).toBe("rgb(247, 244, 238)");
     expect(look.font).toMatch(/Lexend/);
@@ -141,4 +145,3 @@ describe.skipIf(!enabled)("accounts in the browser", () => {
     await ctx.close();
   });
 });
-

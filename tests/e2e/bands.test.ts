@@ -51,7 +51,12 @@ async function crawl(page: Page, baseUrl: string, start: string[]) {
     visited.push({ url, html: await renderedText(page) });
     const links = await page.locator("a[href^='/']").evaluateAll((els) => els.map((e) => e.getAttribute("href")!));
     for (const l of links) {
-      if (/^\/(coach|athlete|bands|admin)(\/|$|\?)/.test(l) && !/\.(csv|ics)|format=csv|\/feed\/|\/api\//.test(l) && !seen.has(l)) queue.push(l);
+      if (
+        /^\/(coach|athlete|bands|admin)(\/|$|\?)/.test(l) &&
+        !/\.(csv|ics)|format=csv|\/feed\/|\/api\//.test(l) &&
+        !seen.has(l)
+      )
+        queue.push(l);
     }
   }
   return visited;
@@ -61,18 +66,68 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
   const env = useApp({ beforeAll, afterAll });
 
   it("the label check catches the old scheme's wording (so the page check below can fail)", () => {
-    for (const old of ["L4 Threshold", "Z5a Threshold", "Heart-rate zones for cycling (Friel)", "Minutes per level", "level 4 threshold", "Aerobic capacity", "Your power levels", "P3 Tempo"]) {
-      expect(FORBIDDEN.some(([, re]) => re.test(old)), old).toBe(true);
+    for (const old of [
+      "L4 Threshold",
+      "Z5a Threshold",
+      "Heart-rate zones for cycling (Friel)",
+      "Minutes per level",
+      "level 4 threshold",
+      "Aerobic capacity",
+      "Your power levels",
+      "P3 Tempo",
+    ]) {
+      expect(
+        FORBIDDEN.some(([, re]) => re.test(old)),
+        old,
+      ).toBe(true);
     }
-    for (const ours of ["Easy", "Steady", "Heavy", "Ridge", "Severe", "Extreme", "Recovery week", "Power bands (cycling)", "Fitness (42-day)"]) {
-      expect(FORBIDDEN.some(([, re]) => re.test(ours)), ours).toBe(false);
+    for (const ours of [
+      "Easy",
+      "Steady",
+      "Heavy",
+      "Ridge",
+      "Severe",
+      "Extreme",
+      "Recovery week",
+      "Power bands (cycling)",
+      "Fitness (42-day)",
+    ]) {
+      expect(
+        FORBIDDEN.some(([, re]) => re.test(ours)),
+        ours,
+      ).toBe(false);
     }
   });
 
   it("no signed-in page, as coach or athlete, shows an old level or zone label", async () => {
     const people: [string, string[]][] = [
-      ["coach@harbourline.example", ["/coach", "/coach/sessions", "/coach/plans", "/coach/shop", "/coach/feed", "/coach/bands", "/coach/sessions/new", "/coach/plans/new", "/bands/about"]],
-      ["tomas@harbourline.example", ["/athlete", "/athlete/calendar", "/athlete/tests", "/athlete/tests/new", "/athlete/load", "/athlete/uploads", "/athlete/feed", "/bands/about"]],
+      [
+        "coach@harbourline.example",
+        [
+          "/coach",
+          "/coach/sessions",
+          "/coach/plans",
+          "/coach/shop",
+          "/coach/feed",
+          "/coach/bands",
+          "/coach/sessions/new",
+          "/coach/plans/new",
+          "/bands/about",
+        ],
+      ],
+      [
+        "tomas@harbourline.example",
+        [
+          "/athlete",
+          "/athlete/calendar",
+          "/athlete/tests",
+          "/athlete/tests/new",
+          "/athlete/load",
+          "/athlete/uploads",
+          "/athlete/feed",
+          "/bands/about",
+        ],
+      ],
       ["jonah@harbourline.example", ["/athlete", "/athlete/tests", "/athlete/calendar", "/athlete/load"]],
     ];
     const problems: string[] = [];
@@ -86,7 +141,10 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
         pages++;
         for (const [what, re] of FORBIDDEN) {
           const m = html.match(re);
-          if (m) problems.push(`${email} ${url}: ${what} "${m[0]}" in …${html.slice(Math.max(0, m.index! - 60), m.index! + 60)}…`);
+          if (m)
+            problems.push(
+              `${email} ${url}: ${what} "${m[0]}" in …${html.slice(Math.max(0, m.index! - 60), m.index! + 60)}…`,
+            );
         }
       }
       await ctx.close();
@@ -126,7 +184,8 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
       await page.locator("[data-testid=band-minutes-chart]").waitFor();
       expect(await page.locator("[data-testid=fitness-chart]").count()).toBe(0);
       // Nothing wider than the screen on a phone.
-      if (tag === "phone") expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(w + 1);
+      if (tag === "phone")
+        expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(w + 1);
       await shot(page, `bands-load-${tag}`);
       await ctx.close();
     }
@@ -149,7 +208,8 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
     await page.goto(`${env.app.baseUrl}/athlete/sessions/${id}`);
     await ready(page);
     await page.getByTestId("block-band").first().waitFor();
-    for (const t of await page.getByTestId("block-band").allTextContents()) expect(["Easy", "Steady", "Heavy", "Ridge", "Severe", "Extreme"]).toContain(t.trim());
+    for (const t of await page.getByTestId("block-band").allTextContents())
+      expect(["Easy", "Steady", "Heavy", "Ridge", "Severe", "Extreme"]).toContain(t.trim());
     await shot(page, "bands-session");
     await ctx.close();
 
@@ -159,9 +219,14 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
     await coach.waitForURL(`${env.app.baseUrl}/coach`);
     await coach.goto(`${env.app.baseUrl}/coach/sessions`);
     await ready(coach);
-    await coach.getByRole("link", { name: /Threshold repeats/ }).first().click();
+    await coach
+      .getByRole("link", { name: /Threshold repeats/ })
+      .first()
+      .click();
     await coach.getByTestId("minutes-per-band").waitFor();
-    expect(await coach.getByTestId("minutes-per-band").textContent()).toMatch(/Easy.*Steady.*Heavy.*Ridge.*Severe.*Extreme/s);
+    expect(await coach.getByTestId("minutes-per-band").textContent()).toMatch(
+      /Easy.*Steady.*Heavy.*Ridge.*Severe.*Extreme/s,
+    );
     await shot(coach, "bands-builder");
     await cctx.close();
   });
@@ -195,7 +260,10 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
     // Make a gap: band 3 starts at 85 while band 2 ends at 80.
     await rows.nth(2).getByLabel("From %").fill("85");
     await page.getByRole("button", { name: "Save bands" }).click();
-    await rows.nth(2).getByText(/Gap: the band above ends at 80 %/).waitFor();
+    await rows
+      .nth(2)
+      .getByText(/Gap: the band above ends at 80 %/)
+      .waitFor();
     await page.getByText("Nothing was saved").waitFor();
     await shot(page, "bands-settings-error");
     await rows.nth(2).getByLabel("From %").fill("80");
@@ -226,7 +294,9 @@ describe.skipIf(!enabled)("intensity bands in the browser", () => {
     await ready(coach);
     await coach.getByRole("button", { name: "Restore defaults" }).click();
     await coach.getByText("Back to Pacewright's default bands.").waitFor();
-    await expect.poll(() => coach.getByTestId("band-rows").locator("li").nth(2).getByLabel("Name").inputValue()).toBe("Heavy");
+    await expect
+      .poll(() => coach.getByTestId("band-rows").locator("li").nth(2).getByLabel("Name").inputValue())
+      .toBe("Heavy");
     await rctx.close();
   });
 });

@@ -20,13 +20,19 @@ async function coachOnBoard(browser: Browser, baseUrl: string, name: string) {
   await signInAs(page, baseUrl, "coach@harbourline.example", "harbour-line-demo");
   await page.waitForURL(`${baseUrl}/coach`);
   const plan = await newPlanOnBoard(page, baseUrl, name);
-  const saved = () => page.waitForResponse((r) => r.url().includes(`/api/plans/${plan.planId}/items`) && r.request().method() === "POST");
+  const saved = () =>
+    page.waitForResponse((r) => r.url().includes(`/api/plans/${plan.planId}/items`) && r.request().method() === "POST");
   const shelfCard = (n: string) => page.getByRole("button", { name: new RegExp(`^Shelf session ${n}`) });
   await shelfCard("Threshold repeats").waitFor();
   const live = page.locator('[id^="DndLiveRegion"]');
   /** A card the server has confirmed (a card still waiting for its answer cannot be picked up yet). */
-  const card = (week: number, day: number, n: string) => page.getByTestId(`slot-${week}-${day}`).locator('[data-card-id]:not([data-card-id^="-"])').filter({ hasText: n });
-  const names = (week: number, day: number) => page.getByTestId(`slot-${week}-${day}`).getByTestId("board-item").evaluateAll((els) => els.map((e) => e.getAttribute("aria-label")!.split(",")[0]));
+  const card = (week: number, day: number, n: string) =>
+    page.getByTestId(`slot-${week}-${day}`).locator('[data-card-id]:not([data-card-id^="-"])').filter({ hasText: n });
+  const names = (week: number, day: number) =>
+    page
+      .getByTestId(`slot-${week}-${day}`)
+      .getByTestId("board-item")
+      .evaluateAll((els) => els.map((e) => e.getAttribute("aria-label")!.split(",")[0]));
   return { ctx, page, errors, ...plan, saved, shelfCard, live, names, card };
 }
 
@@ -34,7 +40,11 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
   const env = useApp({ beforeAll, afterAll });
 
   it("builds a week by keyboard alone from the shelf, across two weeks, on the announced days; Escape cancels", async () => {
-    const { ctx, page, errors, monday, saved, shelfCard, live, names, card } = await coachOnBoard(env.browser, env.app.baseUrl, "Keyboard season");
+    const { ctx, page, errors, monday, saved, shelfCard, live, names, card } = await coachOnBoard(
+      env.browser,
+      env.app.baseUrl,
+      "Keyboard season",
+    );
 
     // Space picks up, two steps right cross two weeks, one step down reaches Tuesday.
     await shelfCard("Threshold repeats").focus();
@@ -98,7 +108,9 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
     expect((await s).status()).toBe(200);
     await expect.poll(() => names(2, 2)).toEqual(["Recovery spin"]);
     expect(await names(3, 2)).toEqual([]);
-    await expect.poll(() => page.evaluate(() => document.activeElement?.getAttribute("aria-label") ?? "")).toMatch(/^Recovery spin/);
+    await expect
+      .poll(() => page.evaluate(() => document.activeElement?.getAttribute("aria-label") ?? ""))
+      .toMatch(/^Recovery spin/);
 
     // Reorder by keyboard: Threshold repeats goes before a second Tuesday session.
     await shelfCard("Recovery spin").focus();
@@ -148,7 +160,9 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
 
   it("pointer drops land on the slot under the pointer, on 10 targets, also with the weeks scrolled sideways", async () => {
     const { ctx, page, saved, shelfCard, names } = await coachOnBoard(env.browser, env.app.baseUrl, "Pointer season");
-    const weeks = page.getByRole("region", { name: "Weeks of the plan" }).or(page.locator('[aria-label="Weeks of the plan"]'));
+    const weeks = page
+      .getByRole("region", { name: "Weeks of the plan" })
+      .or(page.locator('[aria-label="Weeks of the plan"]'));
 
     /** Presses on the source, glides to a point in the target's label strip and lets go there. */
     async function drop(from: ReturnType<Page["locator"]>, week: number, day: number) {
@@ -160,11 +174,21 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
       await page.mouse.down();
       await page.mouse.move(a.x + a.width / 2 + 8, a.y + a.height / 2 + 8, { steps: 3 });
       await page.mouse.move(b.x + b.width * 0.7, b.y + 6, { steps: 12 });
-      await expect.poll(() => slot.getByTestId("drop-marker").count()).toBe(1).catch(async (e) => {
-        await shot(page, "DEBUG-pointer");
-        console.log(await page.evaluate(([x, y]) => document.elementFromPoint(x, y)?.outerHTML.slice(0, 300), [b.x + b.width * 0.7, b.y + 6]), a, b);
-        throw e;
-      });
+      await expect
+        .poll(() => slot.getByTestId("drop-marker").count())
+        .toBe(1)
+        .catch(async (e) => {
+          await shot(page, "DEBUG-pointer");
+          console.log(
+            await page.evaluate(
+              ([x, y]) => document.elementFromPoint(x, y)?.outerHTML.slice(0, 300),
+              [b.x + b.width * 0.7, b.y + 6],
+            ),
+            a,
+            b,
+          );
+          throw e;
+        });
       const s = saved();
       await page.mouse.up();
       expect((await s).status()).toBe(200);
@@ -190,7 +214,9 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
       if (week >= 5) await weeks.first().evaluate((el) => (el.scrollLeft = el.scrollWidth));
       await drop(shelfCard("Recovery spin"), week, day);
       // Wait for the server's answer to replace the optimistic card (its figures can grow the week's header).
-      await expect.poll(() => page.getByTestId(`slot-${week}-${day}`).locator('[data-card-id]:not([data-card-id^="-"])').count()).toBe(before + 1);
+      await expect
+        .poll(() => page.getByTestId(`slot-${week}-${day}`).locator('[data-card-id]:not([data-card-id^="-"])').count())
+        .toBe(before + 1);
     }
     // Nothing landed anywhere else.
     const total = await page.getByTestId("board-item").count();
@@ -200,7 +226,9 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
     // Onto the day's heading, a session joins the end of the day; onto the top half of a card, it goes before it.
     await drop(shelfCard("Threshold repeats"), 2, 3);
     await expect.poll(() => names(2, 3)).toEqual(["Recovery spin", "Threshold repeats"]);
-    await expect.poll(() => page.getByTestId("slot-2-3").locator('[data-card-id]:not([data-card-id^="-"])').count()).toBe(2);
+    await expect
+      .poll(() => page.getByTestId("slot-2-3").locator('[data-card-id]:not([data-card-id^="-"])').count())
+      .toBe(2);
     const first = page.getByTestId("slot-2-3").getByRole("button", { name: /^Recovery spin/ });
     await page.getByTestId("slot-2-3").scrollIntoViewIfNeeded();
     const moving = page.getByTestId("slot-2-3").getByRole("button", { name: /^Threshold repeats/ });
@@ -216,7 +244,10 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
     await expect.poll(() => names(2, 3)).toEqual(["Threshold repeats", "Recovery spin"]);
 
     // A note for the athlete on one placed session, from the drawer; the card says it has one, and it stays.
-    await page.getByTestId("slot-2-3").getByRole("button", { name: /^Recovery spin/ }).click();
+    await page
+      .getByTestId("slot-2-3")
+      .getByRole("button", { name: /^Recovery spin/ })
+      .click();
     const drawer = page.getByRole("complementary", { name: "Selected session" });
     await drawer.getByLabel("Note for the athlete").fill("Keep it truly easy.");
     const noted = saved();
@@ -225,8 +256,16 @@ describe.skipIf(!enabled)("plan board drag and drop lands exactly", () => {
     await page.getByTestId("slot-2-3").getByText("note", { exact: true }).waitFor();
     await page.reload();
     await ready(page);
-    await page.getByTestId("slot-2-3").getByRole("button", { name: /^Recovery spin/ }).click();
-    expect(await page.getByRole("complementary", { name: "Selected session" }).getByLabel("Note for the athlete").inputValue()).toBe("Keep it truly easy.");
+    await page
+      .getByTestId("slot-2-3")
+      .getByRole("button", { name: /^Recovery spin/ })
+      .click();
+    expect(
+      await page
+        .getByRole("complementary", { name: "Selected session" })
+        .getByLabel("Note for the athlete")
+        .inputValue(),
+    ).toBe("Keep it truly easy.");
     await ctx.close();
   });
 });

@@ -5,7 +5,12 @@ import { browserAvailable, framesSettled, newPlanOnBoard, ready, shot, signInAs,
 const enabled = browserAvailable();
 
 /** Drags with the mouse; `top` aims at the slot's label strip, so the drop lands on the day itself, not a card in it. */
-async function dragTo(page: Page, from: ReturnType<Page["locator"]>, to: ReturnType<Page["locator"]>, aim: "center" | "top" = "center") {
+async function dragTo(
+  page: Page,
+  from: ReturnType<Page["locator"]>,
+  to: ReturnType<Page["locator"]>,
+  aim: "center" | "top" = "center",
+) {
   const a = (await from.boundingBox())!;
   const box = (await to.boundingBox())!;
   const b = aim === "top" ? { x: box.x, y: box.y, width: box.width, height: 12 } : box;
@@ -33,7 +38,8 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     await shelfCard("Threshold repeats").waitFor();
 
     const tuesday = page.getByTestId("slot-2-1");
-    const saved = () => page.waitForResponse((r) => r.url().includes(`/api/plans/${planId}/items`) && r.request().method() === "POST");
+    const saved = () =>
+      page.waitForResponse((r) => r.url().includes(`/api/plans/${planId}/items`) && r.request().method() === "POST");
     // Mouse: two sessions onto Tuesday of week 2.
     let s = saved();
     await dragTo(page, shelfCard("Threshold repeats"), tuesday, "top");
@@ -73,10 +79,17 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     await expect.poll(() => page.getByTestId("slot-2-5").getByTestId("board-item").count()).toBe(1);
 
     // Dropped on the day, a session goes last; dropped onto a card, it goes in before that card.
-    const names = () => tuesday.getByTestId("board-item").evaluateAll((els) => els.map((e) => e.getAttribute("aria-label")!.split(",")[0]));
+    const names = () =>
+      tuesday
+        .getByTestId("board-item")
+        .evaluateAll((els) => els.map((e) => e.getAttribute("aria-label")!.split(",")[0]));
     expect(await names()).toEqual(["Threshold repeats", "Recovery spin"]);
     s = saved();
-    await dragTo(page, tuesday.getByRole("button", { name: /^Recovery spin/ }), tuesday.getByRole("button", { name: /^Threshold repeats/ }));
+    await dragTo(
+      page,
+      tuesday.getByRole("button", { name: /^Recovery spin/ }),
+      tuesday.getByRole("button", { name: /^Threshold repeats/ }),
+    );
     expect((await s).status()).toBe(200);
     await expect.poll(names).toEqual(["Recovery spin", "Threshold repeats"]);
     await shot(page, "board");

@@ -31,7 +31,13 @@ const holdsDndKit = (file: string) => /DndLiveRegion|DndDescribedBy/.test(source
 const holdsZod = (file: string) => source(file).includes("invalid_type");
 
 // Pages that render a drag-and-drop component (the board, both calendars, the session builder).
-const DRAG_AND_DROP = new Set(["routes/coach/board", "routes/athlete/calendar", "routes/coach/athlete-calendar", "routes/coach/session-edit", "session-new"]);
+const DRAG_AND_DROP = new Set([
+  "routes/coach/board",
+  "routes/athlete/calendar",
+  "routes/coach/athlete-calendar",
+  "routes/coach/session-edit",
+  "session-new",
+]);
 
 describe("code splitting of the built app", () => {
   beforeAll(async () => {
@@ -50,7 +56,9 @@ describe("code splitting of the built app", () => {
   });
 
   it("loads dnd-kit only on the pages with drag and drop, and the board without zod", () => {
-    const offenders = Object.keys(assets.routes).filter((id) => !DRAG_AND_DROP.has(id) && chunksOf(id).some(holdsDndKit));
+    const offenders = Object.keys(assets.routes).filter(
+      (id) => !DRAG_AND_DROP.has(id) && chunksOf(id).some(holdsDndKit),
+    );
     expect(offenders).toEqual([]);
     expect(chunksOf("routes/coach/board").filter(holdsZod)).toEqual([]);
   });

@@ -14,7 +14,11 @@ describe.skipIf(!enabled)("cross-check and running paces on the tests page", () 
     await signInAs(page, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
     await page.waitForURL(`${env.app.baseUrl}/athlete`);
     const save = async (body: object) => {
-      const res = await page.request.post(`${env.app.baseUrl}/athlete/tests/new`, { data: { ...body, readiness: READY, confirmed: true }, headers: { Origin: env.app.baseUrl }, maxRedirects: 0 });
+      const res = await page.request.post(`${env.app.baseUrl}/athlete/tests/new`, {
+        data: { ...body, readiness: READY, confirmed: true },
+        headers: { Origin: env.app.baseUrl },
+        maxRedirects: 0,
+      });
       expect(res.status()).toBeLessThan(400);
     };
     await save({ protocol: "twenty_minute", inputs: { meanW: 280 }, testedOn: daysAgo(6) });
@@ -33,9 +37,16 @@ describe.skipIf(!enabled)("cross-check and running paces on the tests page", () 
     await card.getByLabel(/Their mean/).check();
     await card.getByRole("button", { name: "Set the threshold and rescale" }).click();
     await card.getByText(/Threshold set to 268/).waitFor();
-    await card.getByTestId("cross-check-settled").getByText(/the mean of both tests/).waitFor();
+    await card
+      .getByTestId("cross-check-settled")
+      .getByText(/the mean of both tests/)
+      .waitFor();
 
-    const phone = await env.browser.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 1, storageState: await ctx.storageState() });
+    const phone = await env.browser.newContext({
+      viewport: { width: 390, height: 844 },
+      deviceScaleFactor: 1,
+      storageState: await ctx.storageState(),
+    });
     const small = await phone.newPage();
     await small.goto(`${env.app.baseUrl}/athlete/tests`);
     await ready(small);

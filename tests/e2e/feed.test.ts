@@ -19,7 +19,9 @@ describe.skipIf(!enabled)("calendar feed in the browser", () => {
     await web.waitFor();
     const link = await web.inputValue();
     expect(link).toMatch(new RegExp(`^${env.app.baseUrl}/feed/[A-Za-z0-9_-]{43}\\.ics$`));
-    expect(await page.getByLabel("Subscribe link", { exact: true }).inputValue()).toBe(link.replace(/^http:/, "webcal:"));
+    expect(await page.getByLabel("Subscribe link", { exact: true }).inputValue()).toBe(
+      link.replace(/^http:/, "webcal:"),
+    );
     await page.getByRole("button", { name: "Copy" }).nth(1).click();
     await page.getByRole("button", { name: "Copied" }).waitFor();
     expect(await page.evaluate(() => navigator.clipboard.readText())).toBe(link);

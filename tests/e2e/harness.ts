@@ -12,7 +12,8 @@ export const SCREENSHOTS = path.resolve("tests/e2e/.screenshots");
 /** Under CI a missing browser is a failure; on a laptop without Chromium the browser tests are skipped. */
 export function browserAvailable(): boolean {
   if (fs.existsSync(CHROMIUM)) return true;
-  if (process.env.CI === "true") throw new Error(`Chromium not found at ${CHROMIUM}; CI must install it (apt-get install -y chromium).`);
+  if (process.env.CI === "true")
+    throw new Error(`Chromium not found at ${CHROMIUM}; CI must install it (apt-get install -y chromium).`);
   console.warn(`[e2e] Chromium not found at ${CHROMIUM}: skipping browser tests.`);
   return false;
 }
@@ -53,10 +54,14 @@ export async function startApp(extraEnv: Record<string, string> = {}): Promise<R
     NODE_ENV: "production",
     ...extraEnv,
   };
-  const child: ChildProcess = spawn(process.execPath, [path.resolve("node_modules/tsx/dist/cli.mjs"), "scripts/start.ts"], {
-    env: { ...process.env, ...env },
-    stdio: ["ignore", "pipe", "pipe"],
-  });
+  const child: ChildProcess = spawn(
+    process.execPath,
+    [path.resolve("node_modules/tsx/dist/cli.mjs"), "scripts/start.ts"],
+    {
+      env: { ...process.env, ...env },
+      stdio: ["ignore", "pipe", "pipe"],
+    },
+  );
   let log = "";
   child.stdout!.on("data", (d) => (log += d));
   child.stderr!.on("data", (d) => (log += d));
@@ -119,7 +124,9 @@ export async function launchBrowser(): Promise<Browser> {
 /** Waits until React has hydrated, so clicks are handled by the app and not by a plain form post. */
 export async function ready(page: Page) {
   await page.waitForLoadState("networkidle");
-  await page.waitForFunction(() => (window as unknown as { __reactRouterRouteModules?: object }).__reactRouterRouteModules !== undefined);
+  await page.waitForFunction(
+    () => (window as unknown as { __reactRouterRouteModules?: object }).__reactRouterRouteModules !== undefined,
+  );
 }
 
 export async function shot(page: Page, name: string) {
@@ -171,7 +178,10 @@ export async function signInAs(page: Page, baseUrl: string, email: string, passw
  * Starts the app and a browser once for a describe block and stops both after it. Call inside `describe`;
  * the returned object's fields are filled in by beforeAll.
  */
-export function useApp(hooks: { beforeAll: (fn: () => Promise<void>) => void; afterAll: (fn: () => Promise<void>) => void }) {
+export function useApp(hooks: {
+  beforeAll: (fn: () => Promise<void>) => void;
+  afterAll: (fn: () => Promise<void>) => void;
+}) {
   const ctx = {} as { app: RunningApp; browser: Browser };
   hooks.beforeAll(async () => {
     ctx.app = await startApp();
@@ -185,7 +195,11 @@ export function useApp(hooks: { beforeAll: (fn: () => Promise<void>) => void; af
 }
 
 /** Creates an 8-week plan starting the Monday after today (in the browser's reckoning) and opens its board. */
-export async function newPlanOnBoard(page: Page, baseUrl: string, name: string): Promise<{ planId: string; monday: string }> {
+export async function newPlanOnBoard(
+  page: Page,
+  baseUrl: string,
+  name: string,
+): Promise<{ planId: string; monday: string }> {
   await page.goto(`${baseUrl}/coach/plans/new`);
   await ready(page);
   await page.getByLabel("Plan name").fill(name);
@@ -207,5 +221,7 @@ export async function newPlanOnBoard(page: Page, baseUrl: string, name: string):
 
 /** Waits until the browser has painted twice: dnd-kit reads positions on animation frames, so a drag step is then seen. */
 export async function framesSettled(page: Page) {
-  await page.evaluate(() => new Promise<void>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => resolve()))));
+  await page.evaluate(
+    () => new Promise<void>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => resolve()))),
+  );
 }

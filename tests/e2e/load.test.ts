@@ -15,20 +15,28 @@ describe.skipIf(!enabled)("training load in the browser", () => {
     // The next planned session of this week or the next, read the way the calendar reads it.
     const next = await page.evaluate(async () => {
       const d = new Date();
-      const monday = new Date(Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate() - ((d.getUTCDay() + 6) % 7) - 7));
+      const monday = new Date(
+        Date.UTC(d.getUTCFullYear(), d.getUTCMonth(), d.getUTCDate() - ((d.getUTCDay() + 6) % 7) - 7),
+      );
       const iso = (x: Date) => x.toISOString().slice(0, 10);
       const to = new Date(monday.getTime() + 27 * 86_400_000);
       const r = await fetch(`/api/calendar?from=${iso(monday)}&to=${iso(to)}`);
       const body = await r.json();
       const today = new Date().toISOString().slice(0, 10);
-      return body.sessions.find((s: { status: string; date: string }) => s.status === "planned" && s.date >= today) as { id: number; date: string };
+      return body.sessions.find((s: { status: string; date: string }) => s.status === "planned" && s.date >= today) as {
+        id: number;
+        date: string;
+      };
     });
     expect(next).toBeTruthy();
 
     await page.goto(`${env.app.baseUrl}/athlete/load`);
     await ready(page);
     // The weekly bars (done filled, planned outlined): marking a session done adds to its week's done bar.
-    const fitnessPath = () => page.locator("[data-testid=weekly-load-chart] .recharts-bar-rectangle path").evaluateAll((els) => els.map((e) => e.getAttribute("d")).join("|"));
+    const fitnessPath = () =>
+      page
+        .locator("[data-testid=weekly-load-chart] .recharts-bar-rectangle path")
+        .evaluateAll((els) => els.map((e) => e.getAttribute("d")).join("|"));
     // No three-line trend chart with a dashed projection any more.
     expect(await page.locator("[data-testid=fitness-chart]").count()).toBe(0);
     await page.getByTestId("readiness-note").waitFor();

@@ -7,7 +7,11 @@ describe.skipIf(!enabled)("coach and athlete talk about a session where it happe
   const env = useApp({ beforeAll, afterAll });
 
   it("the athlete writes on a session from a phone, the coach gets the mail, answers on the athlete's session page; headings name the athlete", async () => {
-    const actx = await env.browser.newContext({ viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const actx = await env.browser.newContext({
+      viewport: { width: 390, height: 844 },
+      isMobile: true,
+      hasTouch: true,
+    });
     const athlete = await actx.newPage();
     await signInAs(athlete, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
     await athlete.waitForURL(`${env.app.baseUrl}/athlete`);
@@ -34,7 +38,12 @@ describe.skipIf(!enabled)("coach and athlete talk about a session where it happe
     await signInAs(coach, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
     await coach.waitForURL(`${env.app.baseUrl}/coach`);
     // The notice reached the coach through the outbox, with a link to the athlete's session.
-    const mailLink = await linkFromOutbox(coach, env.app.baseUrl, "coach@harbourline.example", `/sessions/${sessionId}`);
+    const mailLink = await linkFromOutbox(
+      coach,
+      env.app.baseUrl,
+      "coach@harbourline.example",
+      `/sessions/${sessionId}`,
+    );
     expect(mailLink).toMatch(new RegExp(`/coach/athletes/\\d+/sessions/${sessionId}$`));
     await coach.goto(mailLink!);
     await ready(coach);

@@ -31,8 +31,22 @@ function nextTwentyMinuteTest(dbPath: string): Promise<{ id: number; date: strin
 /** Warm-up, then the effort ridden 8 % under, on, and 8 % over the plan's segments, then a cool-down. */
 function rideAgainst(targets: number[]): string {
   const samples: RideSample[] = [];
-  const parts: [number, number][] = [[900, 150], [400, targets[0] * 0.92], [400, targets[1]], [400, targets[2] * 1.08], [300, 100]];
-  for (const [n, w] of parts) for (let i = 0; i < n; i++) samples.push({ t: samples.length, power: Math.round(w + ((samples.length * 7) % 5) - 2), hr: 150, cadence: 90, speed: 9 });
+  const parts: [number, number][] = [
+    [900, 150],
+    [400, targets[0] * 0.92],
+    [400, targets[1]],
+    [400, targets[2] * 1.08],
+    [300, 100],
+  ];
+  for (const [n, w] of parts)
+    for (let i = 0; i < n; i++)
+      samples.push({
+        t: samples.length,
+        power: Math.round(w + ((samples.length * 7) % 5) - 2),
+        hr: 150,
+        cadence: 90,
+        speed: 9,
+      });
   const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "pacewright-pacing-")), "test-day.csv");
   fs.writeFileSync(file, toCsv(samples));
   return file;
@@ -53,7 +67,9 @@ describe.skipIf(!enabled)("test day: plan the effort, print it, ride it, see it 
     await plan.getByTestId("expected-power").waitFor();
     const rows = plan.getByTestId("segment");
     expect(await rows.count()).toBe(3);
-    const targets = (await rows.getByTestId("segment-target").allTextContents()).map((t) => Number(t.replace(/\D/g, "")));
+    const targets = (await rows.getByTestId("segment-target").allTextContents()).map((t) =>
+      Number(t.replace(/\D/g, "")),
+    );
     expect(targets[0]).toBeLessThan(targets[1]);
     expect(targets[1]).toBeLessThan(targets[2]);
     await plan.getByText(/Firm but held back/).waitFor();
@@ -112,7 +128,18 @@ describe.skipIf(!enabled)("test day: plan the effort, print it, ride it, see it 
     // A critical power and W′ (3 min at 380 W, 12 min at 290 W → CP 260 W, W′ 21.6 kJ) put W′ balance under the trace.
     const yesterday = new Date(Date.now() - 86_400_000).toISOString().slice(0, 10);
     const cp = await page.request.post(`${env.app.baseUrl}/athlete/tests/new`, {
-      data: { protocol: "critical_power", inputs: { efforts: [{ duration: "3:00", meanW: 380 }, { duration: "12:00", meanW: 290 }] }, testedOn: yesterday, readiness: { answers: ["no", "no", "no", "no", "no"], stopSignsRead: true }, confirmed: true },
+      data: {
+        protocol: "critical_power",
+        inputs: {
+          efforts: [
+            { duration: "3:00", meanW: 380 },
+            { duration: "12:00", meanW: 290 },
+          ],
+        },
+        testedOn: yesterday,
+        readiness: { answers: ["no", "no", "no", "no", "no"], stopSignsRead: true },
+        confirmed: true,
+      },
       headers: { Origin: env.app.baseUrl },
       maxRedirects: 0,
     });
@@ -123,7 +150,10 @@ describe.skipIf(!enabled)("test day: plan the effort, print it, ride it, see it 
     await page.waitForURL(/\/athlete\/uploads\/\d+$/);
     await ready(page);
     await page.getByTestId("wbal-chart").waitFor();
-    await page.getByTestId("wbal-note").getByText(/critical power 260 W and W′ 21\.6 kJ/).waitFor();
+    await page
+      .getByTestId("wbal-note")
+      .getByText(/critical power 260 W and W′ 21\.6 kJ/)
+      .waitFor();
     await page.getByLabel(/Lap splits/).fill("15:00, 35:00");
     await page.getByRole("button", { name: "Save laps" }).click();
     const table = page.getByTestId("lap-table");
@@ -136,7 +166,10 @@ describe.skipIf(!enabled)("test day: plan the effort, print it, ride it, see it 
     await page.locator(".recharts-tooltip-wrapper").first().getByText(/min/).waitFor();
     await page.mouse.down();
     await page.mouse.up();
-    await page.waitForFunction(() => ((document.querySelector("input[name=splits]") as HTMLInputElement | null)?.value.split(",").length ?? 0) === 3);
+    await page.waitForFunction(
+      () =>
+        ((document.querySelector("input[name=splits]") as HTMLInputElement | null)?.value.split(",").length ?? 0) === 3,
+    );
     expect((await page.getByLabel(/Lap splits/).inputValue()).split(",").length).toBe(3);
     await page.getByLabel("Effort score of lap 2").fill("9");
     await page.getByRole("button", { name: "Save laps" }).click();
@@ -145,9 +178,15 @@ describe.skipIf(!enabled)("test day: plan the effort, print it, ride it, see it 
     const csvHref = await page.getByRole("link", { name: "1 Hz data (CSV)" }).getAttribute("href");
     const res = await page.request.get(`${env.app.baseUrl}${csvHref}`);
     expect(res.status()).toBe(200);
-    expect((await res.text()).split("\n")[0].trim()).toBe("time_s,power_w,heart_rate_bpm,cadence_rpm,speed_mps,distance_m");
+    expect((await res.text()).split("\n")[0].trim()).toBe(
+      "time_s,power_w,heart_rate_bpm,cadence_rpm,speed_mps,distance_m",
+    );
     await shot(page, "ride-desktop");
-    const phone = await env.browser.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 1, storageState: await ctx.storageState() });
+    const phone = await env.browser.newContext({
+      viewport: { width: 390, height: 844 },
+      deviceScaleFactor: 1,
+      storageState: await ctx.storageState(),
+    });
     const small = await phone.newPage();
     await small.goto(page.url());
     await ready(small);

@@ -15,7 +15,10 @@ async function clipped(page: Page): Promise<string[]> {
       const style = getComputedStyle(el);
       if (style.visibility === "hidden" || style.position === "fixed") continue;
       if (el.closest("[aria-hidden=true], .sr-only")) continue;
-      if (r.right > width + 1 || r.left < -1) out.push(`${el.tagName.toLowerCase()}${el.getAttribute("data-testid") ? `[${el.getAttribute("data-testid")}]` : ""} "${(el.textContent ?? "").trim().slice(0, 30)}" ${Math.round(r.left)}–${Math.round(r.right)}`);
+      if (r.right > width + 1 || r.left < -1)
+        out.push(
+          `${el.tagName.toLowerCase()}${el.getAttribute("data-testid") ? `[${el.getAttribute("data-testid")}]` : ""} "${(el.textContent ?? "").trim().slice(0, 30)}" ${Math.round(r.left)}–${Math.round(r.right)}`,
+        );
     }
     return out;
   }, WIDTH);
@@ -26,7 +29,11 @@ describe.skipIf(!enabled)("on a phone", () => {
   const env = useApp({ beforeAll, afterAll });
 
   it("the coach's navigation folds into a menu; roster cards, the board's day lists and the athlete calendar fit 390 px; errors stay in the app", async () => {
-    const ctx = await env.browser.newContext({ viewport: { width: WIDTH, height: 844 }, isMobile: true, hasTouch: true });
+    const ctx = await env.browser.newContext({
+      viewport: { width: WIDTH, height: 844 },
+      isMobile: true,
+      hasTouch: true,
+    });
     const page = await ctx.newPage();
     await signInAs(page, env.app.baseUrl, "coach@harbourline.example", "harbour-line-demo");
     await page.waitForURL(`${env.app.baseUrl}/coach`);
@@ -87,13 +94,20 @@ describe.skipIf(!enabled)("on a phone", () => {
     await ctx.close();
 
     // The athlete's calendar: a list of days under week headings, every day inside the screen.
-    const actx = await env.browser.newContext({ viewport: { width: WIDTH, height: 844 }, isMobile: true, hasTouch: true });
+    const actx = await env.browser.newContext({
+      viewport: { width: WIDTH, height: 844 },
+      isMobile: true,
+      hasTouch: true,
+    });
     const athlete = await actx.newPage();
     await signInAs(athlete, env.app.baseUrl, "tomas@harbourline.example", "harbour-line-demo");
     await athlete.waitForURL(`${env.app.baseUrl}/athlete`);
     await athlete.goto(`${env.app.baseUrl}/athlete/calendar`);
     await ready(athlete);
-    await athlete.getByText(/^Week of /).first().waitFor();
+    await athlete
+      .getByText(/^Week of /)
+      .first()
+      .waitFor();
     expect(await athlete.getByText(/^Week of /).count()).toBe(2);
     expect(await pageWidth(athlete)).toBeLessThanOrEqual(WIDTH);
     expect(await clipped(athlete)).toEqual([]);

@@ -29,10 +29,21 @@ describe.skipIf(!enabled)("calendar by keyboard, month and print views", () => {
         if ((await page.getByTestId(`day-${later}`).count()) === 0) continue;
         moved = { name: (await h.getAttribute("aria-label"))!.slice(5), from: day };
         await h.focus();
-        const posted = page.waitForResponse((r) => r.url().includes("/api/calendar") && r.request().method() === "POST");
+        const posted = page.waitForResponse(
+          (r) => r.url().includes("/api/calendar") && r.request().method() === "POST",
+        );
         const live = page.locator('[id^="DndLiveRegion"]').first();
         // The announcement names the day under the session; wait for the target day itself, not the starting one.
-        const target = await page.evaluate((d) => new Intl.DateTimeFormat("en-GB", { weekday: "long", day: "numeric", month: "long", timeZone: "UTC" }).format(new Date(`${d}T00:00:00Z`)), later);
+        const target = await page.evaluate(
+          (d) =>
+            new Intl.DateTimeFormat("en-GB", {
+              weekday: "long",
+              day: "numeric",
+              month: "long",
+              timeZone: "UTC",
+            }).format(new Date(`${d}T00:00:00Z`)),
+          later,
+        );
         await page.keyboard.press("Space");
         await expect.poll(() => live.textContent()).toMatch(/Picked up|is over/);
         await page.keyboard.press("ArrowRight");
@@ -64,7 +75,7 @@ describe.skipIf(!enabled)("calendar by keyboard, month and print views", () => {
     const month = await page.evaluate(() => new Date().toISOString().slice(0, 7));
     const first = page.getByTestId(`month-day-${month}-01`);
     await first.waitFor();
-    expect(await page.locator('[data-testid^="month-day-"]').count() % 7).toBe(0);
+    expect((await page.locator('[data-testid^="month-day-"]').count()) % 7).toBe(0);
     expect(await page.getByTestId("calendar-session").count()).toBe(0);
     // The demo season has sessions this month; each links to its page.
     expect(await page.locator('[data-testid^="month-day-"] a[href^="/athlete/sessions/"]').count()).toBeGreaterThan(3);

@@ -83,7 +83,10 @@ run("two-step sign-in and devices in the browser", () => {
   it("a coach sets up two-step sign-in from the QR page, signs in with a code, and sees this device", async () => {
     const { totp } = await import("../../app/.server/security/totp");
     const coach = DEMO_ACCOUNTS.people.find((p) => p.role === "coach")!;
-    for (const [name, viewport] of [["desktop", { width: 1280, height: 900 }], ["phone", { width: 390, height: 844 }]] as const) {
+    for (const [name, viewport] of [
+      ["desktop", { width: 1280, height: 900 }],
+      ["phone", { width: 390, height: 844 }],
+    ] as const) {
       const context = await ctx.browser.newContext({ viewport });
       const page = await context.newPage();
       await signInAs(page, ctx.app.baseUrl, coach.email, DEMO_ACCOUNTS.password);

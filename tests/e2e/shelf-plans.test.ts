@@ -30,7 +30,12 @@ describe.skipIf(!enabled)("session shelf and season plans in the browser", () =>
     await handle.focus();
     // dnd-kit measures between key presses, as it would for a person: each press is followed by its announcement.
     const live = page.locator('[id^="DndLiveRegion"]').first();
-    const spoken = [/Picked up|is over position 1\./, /is over position 2/, /is over position 3/, /dropped at position 3/];
+    const spoken = [
+      /Picked up|is over position 1\./,
+      /is over position 2/,
+      /is over position 3/,
+      /dropped at position 3/,
+    ];
     for (const [i, key] of ["Space", "ArrowDown", "ArrowDown", "Space"].entries()) {
       await page.keyboard.press(key);
       await expect.poll(() => live.textContent()).toMatch(spoken[i]);

@@ -77,7 +77,10 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await athlete.getByRole("link", { name: "Open my calendar" }).click();
     await athlete.waitForURL(/\/athlete\/calendar/);
     // Ada's demo threshold is 214 W: the shop plan's sessions show her watts.
-    await athlete.getByText(/at \d+–\d+ W/).first().waitFor();
+    await athlete
+      .getByText(/at \d+–\d+ W/)
+      .first()
+      .waitFor();
     const link = await linkFromOutbox(athlete, env.app.baseUrl, "ada@harbourline.example", "/athlete/calendar");
     expect(link).toContain("/athlete/calendar");
     await athlete.getByText("Your Pacewright receipt: Spring build for sale").waitFor();
@@ -194,7 +197,10 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await page.waitForURL(/\/shop\/twelve-week-road-build-/);
     await ready(page);
     // Jonah runs and has no bike threshold: he is told before paying what his sessions will show.
-    await page.getByTestId("needs-test-warning").getByText(/no bike threshold yet/).waitFor();
+    await page
+      .getByTestId("needs-test-warning")
+      .getByText(/no bike threshold yet/)
+      .waitFor();
     await shot(page, "listing-needs-test");
     await page.getByRole("button", { name: /Buy for/ }).click();
     await page.waitForURL(/\/pay\/cs_test_/);

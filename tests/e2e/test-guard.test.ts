@@ -11,8 +11,21 @@ const enabled = browserAvailable();
 /** A 20-minute test ridden as three rising laps (170, 200, 236 W) between a warm-up and a cool-down. */
 function risingLapsFile(): string {
   const samples: RideSample[] = [];
-  for (const [n, w] of [[900, 150], [400, 170], [400, 200], [400, 236], [600, 100]] as const) {
-    for (let i = 0; i < n; i++) samples.push({ t: samples.length, power: w + ((samples.length * 7) % 9) - 4, hr: Math.round(100 + w / 4), cadence: 88, speed: 9 });
+  for (const [n, w] of [
+    [900, 150],
+    [400, 170],
+    [400, 200],
+    [400, 236],
+    [600, 100],
+  ] as const) {
+    for (let i = 0; i < n; i++)
+      samples.push({
+        t: samples.length,
+        power: w + ((samples.length * 7) % 9) - 4,
+        hr: Math.round(100 + w / 4),
+        cadence: 88,
+        speed: 9,
+      });
   }
   const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "pacewright-laps-")), "rising-laps.csv");
   fs.writeFileSync(file, toCsv(samples));
@@ -37,8 +50,14 @@ async function uploadRising(page: Page, baseUrl: string) {
   const guard = page.getByTestId("guard");
   await guard.getByText(/lower the threshold by −26\.7 %/).waitFor();
   await guard.getByText(/^Pacing: the last third was 3\d % stronger/).waitFor();
-  await page.getByTestId("pacing").getByText(/held back/).waitFor();
-  await page.getByTestId("pacing").getByText(/rising/).waitFor();
+  await page
+    .getByTestId("pacing")
+    .getByText(/held back/)
+    .waitFor();
+  await page
+    .getByTestId("pacing")
+    .getByText(/rising/)
+    .waitFor();
 }
 
 describe.skipIf(!enabled)("a large change needs a person to see why and agree", () => {
@@ -71,7 +90,10 @@ describe.skipIf(!enabled)("a large change needs a person to see why and agree", 
 
     // A second file that fails leaves no proposal, no warning and no enabled save from the first one.
     await page.getByLabel(/Ride file/).setInputFiles(notARideFile());
-    await page.getByRole("alert").getByText(/No power, heart-rate, cadence or speed column/).waitFor();
+    await page
+      .getByRole("alert")
+      .getByText(/No power, heart-rate, cadence or speed column/)
+      .waitFor();
     expect(await page.getByTestId("proposal").count()).toBe(0);
     expect(await page.getByTestId("guard").count()).toBe(0);
     expect(await page.getByText(/Pacing in thirds/).count()).toBe(0);
@@ -80,7 +102,10 @@ describe.skipIf(!enabled)("a large change needs a person to see why and agree", 
 
     // The rising file again: flagged; save stays off until readiness and the confirmation are given.
     await page.getByLabel(/Ride file/).setInputFiles(risingLapsFile());
-    await page.getByTestId("guard").getByText(/lower the threshold by −26\.7 %/).waitFor();
+    await page
+      .getByTestId("guard")
+      .getByText(/lower the threshold by −26\.7 %/)
+      .waitFor();
     for (const group of await page.getByRole("radiogroup").all()) await group.getByLabel("no").check();
     await page.getByLabel("I have read the stop signs").check();
     expect(await saveButton.isDisabled()).toBe(true);
@@ -98,7 +123,11 @@ describe.skipIf(!enabled)("a large change needs a person to see why and agree", 
     page.once("dialog", (d) => d.accept());
     await page.getByTestId("tests-table").getByRole("button", { name: "Undo" }).first().click();
     await page.getByText(/correction has been e-mailed/).waitFor();
-    await page.getByTestId("tests-table").getByText(/Undone \d{4}-\d{2}-\d{2} by /).first().waitFor();
+    await page
+      .getByTestId("tests-table")
+      .getByText(/Undone \d{4}-\d{2}-\d{2} by /)
+      .first()
+      .waitFor();
     // Nothing on the page still claims the undone value.
     expect(await page.getByText(/Bike power is now 192 W/).count()).toBe(0);
     expect(await page.getByText("In force").count()).toBe(0);
@@ -117,21 +146,36 @@ describe.skipIf(!enabled)("a large change needs a person to see why and agree", 
     await page.getByLabel("Best one-minute power (W)").fill("350");
     await page.getByLabel("Ramp rate (W added per minute)").fill("5");
     await page.getByRole("button", { name: "Preview the change" }).click();
-    await page.getByTestId("ramp-facts").getByText(/outside the usual 20–25 W per minute/).waitFor();
-    await page.getByTestId("guard").getByText(/rose 5 W a minute/).waitFor();
+    await page
+      .getByTestId("ramp-facts")
+      .getByText(/outside the usual 20–25 W per minute/)
+      .waitFor();
+    await page
+      .getByTestId("guard")
+      .getByText(/rose 5 W a minute/)
+      .waitFor();
     await shot(page, "test-guard-typed-ramp");
     // Editing the number after the preview withdraws the proposal until it is previewed again.
     await page.getByLabel("Ramp rate (W added per minute)").fill("20");
     expect(await page.getByTestId("proposal").count()).toBe(0);
     await page.getByRole("button", { name: "Preview the change" }).click();
-    await page.getByTestId("ramp-facts").getByText(/within the usual 20–25 W per minute/).waitFor();
+    await page
+      .getByTestId("ramp-facts")
+      .getByText(/within the usual 20–25 W per minute/)
+      .waitFor();
     expect(await page.getByTestId("guard").count()).toBe(0);
 
     // From the demo ramp file: the steps are found past the warm-up and their rate is shown.
     await page.getByLabel("a ride file").check();
     await page.getByLabel(/Ride file/).setInputFiles(path.resolve("db/demo/files/ramp-test.csv"));
-    await page.getByTestId("ramp-facts").getByText(/Found 15 steps of 20 W every 60 s, from 100 W; last completed step 380 W/).waitFor();
-    await page.getByTestId("ramp-facts").getByText(/Ramp rate 20 W per minute: within the usual/).waitFor();
+    await page
+      .getByTestId("ramp-facts")
+      .getByText(/Found 15 steps of 20 W every 60 s, from 100 W; last completed step 380 W/)
+      .waitFor();
+    await page
+      .getByTestId("ramp-facts")
+      .getByText(/Ramp rate 20 W per minute: within the usual/)
+      .waitFor();
     await shot(page, "test-guard-ramp-file");
     await page.getByLabel("numbers I type").check();
 
@@ -146,7 +190,10 @@ describe.skipIf(!enabled)("a large change needs a person to see why and agree", 
     await page.getByLabel("Effort 3 mean power (W)").fill("330");
     await page.getByRole("button", { name: "Preview the change" }).click();
     // 3:00 at 400 W, 6:00 at 330 W, 12:00 at 300 W lie close to one line: CP ≈ 267 W.
-    await page.getByTestId("cp-fit").getByText(/critical power 267 W .*r² [01]\.\d{3}/).waitFor();
+    await page
+      .getByTestId("cp-fit")
+      .getByText(/critical power 267 W .*r² [01]\.\d{3}/)
+      .waitFor();
     await shot(page, "test-guard-typed-cp");
     await ctx.close();
   });

@@ -10,8 +10,22 @@ describe("the calendar page's weeks live in the URL", () => {
     const athlete = await makeUser({ role: "athlete" });
     const cookie = await signIn(athlete.email);
     const today = todayIn(athlete.timezone);
-    await ScheduledSession.create({ athleteId: athlete.id, date: "2027-03-10", name: "Wednesday ride", sport: "bike", plannedDurationS: 3600, plannedLoad: 200 });
-    await ScheduledSession.create({ athleteId: athlete.id, date: "2027-03-31", name: "Too late", sport: "bike", plannedDurationS: 3600, plannedLoad: 200 });
+    await ScheduledSession.create({
+      athleteId: athlete.id,
+      date: "2027-03-10",
+      name: "Wednesday ride",
+      sport: "bike",
+      plannedDurationS: 3600,
+      plannedLoad: 200,
+    });
+    await ScheduledSession.create({
+      athleteId: athlete.id,
+      date: "2027-03-31",
+      name: "Too late",
+      sport: "bike",
+      plannedDurationS: 3600,
+      plannedLoad: 200,
+    });
 
     const later = payloadOf(await run(athleteCalendar.loader, getRequest("/athlete/calendar?from=2027-03-11", cookie)));
     expect(later.from).toBe("2027-03-08");
@@ -29,9 +43,23 @@ describe("the calendar page's weeks live in the URL", () => {
     await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
     const today = todayIn(athlete.timezone);
     const ask = addDays(mondayOf(today), 14);
-    const page = payloadOf(await run(coachCalendar.loader, getRequest(`/coach/athletes/${athlete.id}/calendar?from=${ask}`, await signIn(coach.email)), { athleteId: String(athlete.id) }));
+    const page = payloadOf(
+      await run(
+        coachCalendar.loader,
+        getRequest(`/coach/athletes/${athlete.id}/calendar?from=${ask}`, await signIn(coach.email)),
+        { athleteId: String(athlete.id) },
+      ),
+    );
     expect(page.from).toBe(ask);
     const other = await makeUser({ role: "coach" });
-    expect(statusOf(await run(coachCalendar.loader, getRequest(`/coach/athletes/${athlete.id}/calendar?from=${ask}`, await signIn(other.email)), { athleteId: String(athlete.id) }).catch((e) => e))).toBe(404);
+    expect(
+      statusOf(
+        await run(
+          coachCalendar.loader,
+          getRequest(`/coach/athletes/${athlete.id}/calendar?from=${ask}`, await signIn(other.email)),
+          { athleteId: String(athlete.id) },
+        ).catch((e) => e),
+      ),
+    ).toBe(404);
   });
 });

@@ -19,7 +19,13 @@ afterEach(() => {
   resetEnvCache();
 });
 
-const production = { NODE_ENV: "production", SMTP_URL: undefined, STRIPE_SECRET_KEY: undefined, SESSION_SECRET: "s".repeat(40), PACEWRIGHT_FAKES: undefined };
+const production = {
+  NODE_ENV: "production",
+  SMTP_URL: undefined,
+  STRIPE_SECRET_KEY: undefined,
+  SESSION_SECRET: "s".repeat(40),
+  PACEWRIGHT_FAKES: undefined,
+};
 
 describe("demo doors", () => {
   it("a production config without SMTP has no outbox route and no fake payment provider", async () => {
@@ -80,7 +86,10 @@ describe("session cookie", () => {
     const user = await makeUser();
     const { action } = await import("~/routes/login");
     const { formRequest } = await import("./helpers");
-    const setCookie = async () => ((await run(action, formRequest("/login", { email: user.email, password: "correct-horse-battery" }))) as Response).headers.get("set-cookie") ?? "";
+    const setCookie = async () =>
+      (
+        (await run(action, formRequest("/login", { email: user.email, password: "correct-horse-battery" }))) as Response
+      ).headers.get("set-cookie") ?? "";
     configure({ ...production, APP_URL: "https://pacewright.example", PACEWRIGHT_FAKES: "on" });
     expect(await setCookie()).toMatch(/;\s*Secure/i);
     configure({ ...production, APP_URL: "https://pacewright.example" });

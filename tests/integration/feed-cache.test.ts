@@ -8,11 +8,21 @@ import * as feed from "~/routes/feed";
 import { makeUser } from "./helpers";
 
 const fetchFeed = async (token: string) =>
-  (await feed.loader({ request: new Request(`http://localhost:3999/feed/${token}.ics`), params: { file: `${token}.ics` }, context: {} } as never)) as Response;
+  (await feed.loader({
+    request: new Request(`http://localhost:3999/feed/${token}.ics`),
+    params: { file: `${token}.ics` },
+    context: {},
+  } as never)) as Response;
 
 async function athleteWithFeed() {
   const athlete = await makeUser({ role: "athlete", timezone: "Europe/Berlin" });
-  await ScheduledSession.create({ athleteId: athlete.id, date: todayIn(athlete.timezone), name: "Easy spin", sport: "bike", plannedDurationS: 3600 } as never);
+  await ScheduledSession.create({
+    athleteId: athlete.id,
+    date: todayIn(athlete.timezone),
+    name: "Easy spin",
+    sport: "bike",
+    plannedDurationS: 3600,
+  } as never);
   return { athlete, token: await rotateFeed(athlete.id) };
 }
 
@@ -53,7 +63,8 @@ describe("feed cache and use notes", () => {
     const { athlete } = await athleteWithFeed();
     const coach = await makeUser({ role: "coach" });
     const loner = (await athleteWithFeed()).athlete;
-    const prints = async () => Promise.all([athlete, coach, loner].map(async (u) => feedFingerprint((await User.findByPk(u.id))!)));
+    const prints = async () =>
+      Promise.all([athlete, coach, loner].map(async (u) => feedFingerprint((await User.findByPk(u.id))!)));
     const before = await prints();
     await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
     const linked = await prints();
@@ -77,10 +88,30 @@ describe("feed cache and use notes", () => {
     const { athlete } = await athleteWithFeed();
     const other = (await athleteWithFeed()).athlete;
     const day = todayIn(athlete.timezone);
-    const base = { athleteId: athlete.id, date: day, sport: "bike", plannedDurationS: 3600, status: "cancelled" } as const;
-    await ScheduledSession.create({ ...base, name: "Dropped lately", cancelledAt: new Date(Date.now() - 2 * 86_400_000) } as never);
-    await ScheduledSession.create({ ...base, name: "Dropped long ago", cancelledAt: new Date(Date.now() - (feedService.CANCELLED_GRACE_DAYS + 2) * 86_400_000) } as never);
-    await ScheduledSession.create({ athleteId: other.id, date: day, name: "Someone else's ride", sport: "bike", plannedDurationS: 3600 } as never);
+    const base = {
+      athleteId: athlete.id,
+      date: day,
+      sport: "bike",
+      plannedDurationS: 3600,
+      status: "cancelled",
+    } as const;
+    await ScheduledSession.create({
+      ...base,
+      name: "Dropped lately",
+      cancelledAt: new Date(Date.now() - 2 * 86_400_000),
+    } as never);
+    await ScheduledSession.create({
+      ...base,
+      name: "Dropped long ago",
+      cancelledAt: new Date(Date.now() - (feedService.CANCELLED_GRACE_DAYS + 2) * 86_400_000),
+    } as never);
+    await ScheduledSession.create({
+      athleteId: other.id,
+      date: day,
+      name: "Someone else's ride",
+      sport: "bike",
+      plannedDurationS: 3600,
+    } as never);
     const { body, count } = await feedService.buildFeed((await User.findByPk(athlete.id))!);
     expect(count).toBe(2);
     expect(body).toContain("Easy spin");
@@ -94,7 +125,8 @@ describe("feed cache and use notes", () => {
     const cache = globalThis.__pacewrightFeedCache!;
     expect(cache.maxSize).toBe(64 * 1024 * 1024);
     const body = "x".repeat(4 * 1024 * 1024);
-    for (let id = 1_000_000; id < 1_000_020; id++) cache.set(id, { fingerprint: String(id), body, lastModified: new Date() });
+    for (let id = 1_000_000; id < 1_000_020; id++)
+      cache.set(id, { fingerprint: String(id), body, lastModified: new Date() });
     expect(cache.calculatedSize).toBeLessThanOrEqual(cache.maxSize);
     expect(cache.has(1_000_000)).toBe(false);
     expect(cache.has(1_000_019)).toBe(true);

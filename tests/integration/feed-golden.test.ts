@@ -19,8 +19,22 @@ const NOW = new Date("2026-03-20T09:00:00Z");
 describe("feed text", () => {
   it("is byte-identical to the earlier generation path's", async () => {
     const athlete = await makeUser({ role: "athlete", timezone: "Europe/Berlin" });
-    await User.update({ feedAlarmMinutes: 30, trainingTimes: [null, "06:15", null, null, null, "17:45", null] }, { where: { id: athlete.id } });
-    const days = ["2026-03-27", "2026-03-28", "2026-03-29", "2026-03-30", "2026-03-31", "2026-10-24", "2026-10-25", "2026-10-26", "2026-10-27", "2026-03-21"];
+    await User.update(
+      { feedAlarmMinutes: 30, trainingTimes: [null, "06:15", null, null, null, "17:45", null] },
+      { where: { id: athlete.id } },
+    );
+    const days = [
+      "2026-03-27",
+      "2026-03-28",
+      "2026-03-29",
+      "2026-03-30",
+      "2026-03-31",
+      "2026-10-24",
+      "2026-10-25",
+      "2026-10-26",
+      "2026-10-27",
+      "2026-03-21",
+    ];
     const made: number[] = [];
     for (const [i, date] of days.entries()) {
       const s = await ScheduledSession.create({
@@ -37,7 +51,9 @@ describe("feed text", () => {
       } as never);
       made.push(s.id);
     }
-    await db().query("UPDATE scheduled_sessions SET updated_at = :at WHERE athlete_id = :id", { replacements: { at: new Date("2026-03-19T08:00:00Z"), id: athlete.id } });
+    await db().query("UPDATE scheduled_sessions SET updated_at = :at WHERE athlete_id = :id", {
+      replacements: { at: new Date("2026-03-19T08:00:00Z"), id: athlete.id },
+    });
     const owner = (await User.findByPk(athlete.id))!;
     const { body } = await buildFeed(owner, NOW);
     const byOrder = new Map(made.map((id, k) => [String(id), String(k + 1)]));

@@ -11,10 +11,28 @@ async function scenario() {
   const coach = await makeUser({ role: "coach" });
   const athlete = await makeUser({ role: "athlete", timezone: "Europe/Berlin", name: "Lena Ott" });
   await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
-  await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
+  await Threshold.create({
+    athleteId: athlete.id,
+    sport: "bike",
+    metric: "power",
+    value: 250,
+    unit: "W",
+    effectiveFrom: "2026-01-01",
+    source: "manual",
+  });
   const make = (date: string, name: string, extra: Partial<ScheduledSession> = {}) =>
-    ScheduledSession.create({ athleteId: athlete.id, date, name, sport: "bike", plannedDurationS: 75 * 60, ...extra } as never);
-  const tue = await make("2027-06-08", "Tempo 2 × 20", { description: "Rolling course.", notes: "Eat before." } as never);
+    ScheduledSession.create({
+      athleteId: athlete.id,
+      date,
+      name,
+      sport: "bike",
+      plannedDurationS: 75 * 60,
+      ...extra,
+    } as never);
+  const tue = await make("2027-06-08", "Tempo 2 × 20", {
+    description: "Rolling course.",
+    notes: "Eat before.",
+  } as never);
   const sat = await make("2027-06-12", "Long ride");
   const thu = await make("2027-01-14", "Cadence drills with a very long name that no phone calendar can show whole");
   const done = await make("2027-06-10", "Sweet spot", { status: "done", effortScore: 6, actualMinutes: 70 } as never);
@@ -27,11 +45,17 @@ describe("feed with usual training times", () => {
   it("the athlete sets a time per weekday; invalid times are refused and change nothing", async () => {
     const { athlete } = await scenario();
     const cookie = await signIn(athlete.email);
-    const bad = await run(feedPage.action, formRequest("/athlete/feed", { intent: "times", "time-1": "25:00" }, { cookie }));
+    const bad = await run(
+      feedPage.action,
+      formRequest("/athlete/feed", { intent: "times", "time-1": "25:00" }, { cookie }),
+    );
     expect(statusOf(bad)).toBe(400);
     expect(payloadOf(bad).fieldErrors["time-1"]).toMatch(/06:30/);
     expect((await User.findByPk(athlete.id))!.trainingTimes).toBeNull();
-    const ok = await run(feedPage.action, formRequest("/athlete/feed", { intent: "times", "time-1": "06:30", "time-3": "18:15" }, { cookie }));
+    const ok = await run(
+      feedPage.action,
+      formRequest("/athlete/feed", { intent: "times", "time-1": "06:30", "time-3": "18:15" }, { cookie }),
+    );
     expect(payloadOf(ok).ok).toBe(true);
     expect((await User.findByPk(athlete.id))!.trainingTimes).toEqual([null, "06:30", null, "18:15", null, null, null]);
   });
@@ -47,7 +71,10 @@ describe("feed with usual training times", () => {
     const comp = new ICAL.Component(ICAL.parse(body));
     // ical.js resolves TZID only through zones it knows: the feed's own VTIMEZONE is registered first.
     for (const vtz of comp.getAllSubcomponents("vtimezone")) ICAL.TimezoneService.register(vtz);
-    const byUid = (id: number) => new ICAL.Event(comp.getAllSubcomponents("vevent").find((e) => e.getFirstPropertyValue("uid") === `session-${id}@pacewright`)!);
+    const byUid = (id: number) =>
+      new ICAL.Event(
+        comp.getAllSubcomponents("vevent").find((e) => e.getFirstPropertyValue("uid") === `session-${id}@pacewright`)!,
+      );
     const t = byUid(tue.id);
     expect(t.startDate.isDate).toBe(false);
     expect([t.startDate.hour, t.startDate.minute]).toEqual([6, 30]);
@@ -69,7 +96,8 @@ describe("feed with usual training times", () => {
     const { athlete, tue, thu, done, skipped } = await scenario();
     const { body } = await buildFeed(athlete, NOW);
     const comp = new ICAL.Component(ICAL.parse(body));
-    const ev = (id: number) => comp.getAllSubcomponents("vevent").find((e) => e.getFirstPropertyValue("uid") === `session-${id}@pacewright`)!;
+    const ev = (id: number) =>
+      comp.getAllSubcomponents("vevent").find((e) => e.getFirstPropertyValue("uid") === `session-${id}@pacewright`)!;
     const summary = (id: number) => String(ev(id).getFirstPropertyValue("summary"));
     expect(summary(thu.id).length).toBeLessThanOrEqual(48);
     expect(summary(thu.id).endsWith("…")).toBe(true);

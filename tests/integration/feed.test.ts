@@ -20,31 +20,85 @@ async function scenario(timezone = "Europe/Berlin") {
   const coach = await makeUser({ role: "coach" });
   const athlete = await makeUser({ role: "athlete", timezone, name: "Rider; with, odd\nname" });
   await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
-  await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
+  await Threshold.create({
+    athleteId: athlete.id,
+    sport: "bike",
+    metric: "power",
+    value: 250,
+    unit: "W",
+    effectiveFrom: "2026-01-01",
+    source: "manual",
+  });
   const s = await Session.create({ ownerId: coach.id, name: "Threshold; repeats, hard", sport: "bike" });
   await SessionBlock.bulkCreate([
-    { sessionId: s.id, position: 0, kind: "warmup", spec: { kind: "warmup", durationS: 600, target: { metric: "power", lowPct: 50, highPct: 65 } } },
-    { sessionId: s.id, position: 1, kind: "repeats", spec: { kind: "repeats", count: 4, work: { durationS: 480, target: { metric: "power", lowPct: 95, highPct: 99 } }, recovery: { durationS: 240, target: { metric: "power", lowPct: 50 } } } },
+    {
+      sessionId: s.id,
+      position: 0,
+      kind: "warmup",
+      spec: { kind: "warmup", durationS: 600, target: { metric: "power", lowPct: 50, highPct: 65 } },
+    },
+    {
+      sessionId: s.id,
+      position: 1,
+      kind: "repeats",
+      spec: {
+        kind: "repeats",
+        count: 4,
+        work: { durationS: 480, target: { metric: "power", lowPct: 95, highPct: 99 } },
+        recovery: { durationS: 240, target: { metric: "power", lowPct: 50 } },
+      },
+    },
   ]);
   // Starts the Monday before 2027-03-22, so weeks 1 and 2 straddle the 28 March 2027 change to summer time in Europe.
   const start = "2027-03-15";
-  const plan = await createPlan(coach.id, { name: "Feed", sport: "bike", description: "", alignment: "start", date: start, weeks: 4, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+  const plan = await createPlan(coach.id, {
+    name: "Feed",
+    sport: "bike",
+    description: "",
+    alignment: "start",
+    date: start,
+    weeks: 4,
+    weeklyHours: 8,
+    pattern: "3:1",
+    testEveryWeeks: 6,
+  });
   await PlanItem.destroy({ where: { planId: plan.id } });
   const weeks = await PlanWeek.findAll({ where: { planId: plan.id }, order: [["idx", "ASC"]] });
   for (const w of weeks.slice(0, 3)) {
-    const r = await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: 5, toIndex: 0 });
-    if (w.idx <= 2) await applyBoardOp(coach.id, plan.id, { op: "time", itemId: r.items.find((i) => i.weekId === w.id)!.id, timeOfDay: "07:30" });
+    const r = await applyBoardOp(coach.id, plan.id, {
+      op: "copy",
+      sessionId: s.id,
+      toWeek: w.id,
+      toDay: 5,
+      toIndex: 0,
+    });
+    if (w.idx <= 2)
+      await applyBoardOp(coach.id, plan.id, {
+        op: "time",
+        itemId: r.items.find((i) => i.weekId === w.id)!.id,
+        timeOfDay: "07:30",
+      });
   }
   // A session near today too, so the feed's window of −8 weeks … +1 year always has something.
   const near = mondayOf(todayIn(timezone));
-  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: start, choice: { overlap: "alongside", confirmSports: true, confirmTests: true } });
-  await assignPlan(coach, plan.id, [athlete.id], { mode: "start", date: near, choice: { overlap: "alongside", confirmSports: true, confirmTests: true } });
+  await assignPlan(coach, plan.id, [athlete.id], {
+    mode: "start",
+    date: start,
+    choice: { overlap: "alongside", confirmSports: true, confirmTests: true },
+  });
+  await assignPlan(coach, plan.id, [athlete.id], {
+    mode: "start",
+    date: near,
+    choice: { overlap: "alongside", confirmSports: true, confirmTests: true },
+  });
   const token = await rotateFeed(athlete.id);
   return { coach, athlete, token };
 }
 
 async function fetchFeed(token: string, headers: Record<string, string> = {}, method = "GET") {
-  return (await run(feed.loader, new Request(`${BASE}/feed/${token}.ics`, { method, headers }), { file: `${token}.ics` })) as Response;
+  return (await run(feed.loader, new Request(`${BASE}/feed/${token}.ics`, { method, headers }), {
+    file: `${token}.ics`,
+  })) as Response;
 }
 
 describe("calendar feed", () => {
@@ -76,7 +130,8 @@ describe("calendar feed", () => {
     expect(nodeEvents).toHaveLength(events.length);
 
     // Timed sessions keep 07:30 local on both sides of the daylight-saving change (27 Mar: UTC+1; 3 Apr: UTC+2).
-    const ev = (date: string) => nodeEvents.find((e: any) => (e.start as Date).toISOString().slice(0, 10) === date) as any;
+    const ev = (date: string) =>
+      nodeEvents.find((e: any) => (e.start as Date).toISOString().slice(0, 10) === date) as any;
     expect(ev("2027-03-20").start.toISOString()).toBe("2027-03-20T06:30:00.000Z");
     expect(ev("2027-03-27").start.toISOString()).toBe("2027-03-27T06:30:00.000Z");
     const timed = events.find((e) => e.getFirstPropertyValue("dtstart")!.toString().startsWith("2027-03-27"))!;
@@ -98,10 +153,16 @@ describe("calendar feed", () => {
     const first = new ICAL.Component(ICAL.parse(await (await fetchFeed(token)).text()));
     const future = (await ScheduledSession.findAll({ where: { athleteId: athlete.id }, order: [["date", "DESC"]] }))[0];
     const uid = `session-${future.id}@pacewright`;
-    const find = (c: ICAL.Component) => c.getAllSubcomponents("vevent").find((e) => e.getFirstPropertyValue("uid") === uid)!;
+    const find = (c: ICAL.Component) =>
+      c.getAllSubcomponents("vevent").find((e) => e.getFirstPropertyValue("uid") === uid)!;
     const before = find(first);
     expect(Number(before.getFirstPropertyValue("sequence"))).toBe(0);
-    await saveTest(athlete, athlete, { protocol: "manual", inputs: { sport: "bike", metric: "power", value: "300" }, testedOn: todayIn(athlete.timezone), confirmed: true });
+    await saveTest(athlete, athlete, {
+      protocol: "manual",
+      inputs: { sport: "bike", metric: "power", value: "300" },
+      testedOn: todayIn(athlete.timezone),
+      confirmed: true,
+    });
     const second = find(new ICAL.Component(ICAL.parse(await (await fetchFeed(token)).text())));
     expect(Number(second.getFirstPropertyValue("sequence"))).toBe(1);
     expect(String(second.getFirstPropertyValue("description"))).toContain("285–297 W");
@@ -130,7 +191,9 @@ describe("calendar feed", () => {
     const { token, athlete } = await scenario();
     const other = await scenario();
     const body = await (await fetchFeed(other.token)).text();
-    expect(body).not.toContain(`session-${(await ScheduledSession.findOne({ where: { athleteId: athlete.id } }))!.id}@`);
+    expect(body).not.toContain(
+      `session-${(await ScheduledSession.findOne({ where: { athleteId: athlete.id } }))!.id}@`,
+    );
     const rotated = await rotateFeed(athlete.id);
     expect((await fetchFeed(token)).status).toBe(404);
     expect((await fetchFeed(rotated)).status).toBe(200);
@@ -154,24 +217,44 @@ describe("calendar feed", () => {
     const page = payloadOf(await run(feedPage.loader, getRequest("/athlete/feed", cookie)));
     expect(page.feed.webcal).toMatch(/^webcal:\/\/localhost:3999\/feed\/[A-Za-z0-9_-]{43}\.ics$/);
     expect(page.feed.qrSvg).toMatch(/^<svg/);
-    expect(payloadOf(await run(feedPage.action, formRequest("/athlete/feed", { intent: "alarm", alarmMinutes: "30" }, { cookie }))).ok).toBe(true);
+    expect(
+      payloadOf(
+        await run(feedPage.action, formRequest("/athlete/feed", { intent: "alarm", alarmMinutes: "30" }, { cookie })),
+      ).ok,
+    ).toBe(true);
     const token = page.feed.https.match(/feed\/(.+)\.ics/)![1];
     const text = await (await fetchFeed(token)).text();
     expect(text).toContain("BEGIN:VALARM");
     expect(text).toContain("TRIGGER:-PT30M");
-    expect(payloadOf(await run(feedPage.action, formRequest("/athlete/feed", { intent: "alarm", alarmMinutes: "7" }, { cookie }))).ok).toBe(false);
+    expect(
+      payloadOf(
+        await run(feedPage.action, formRequest("/athlete/feed", { intent: "alarm", alarmMinutes: "7" }, { cookie })),
+      ).ok,
+    ).toBe(false);
     await run(feedPage.action, formRequest("/athlete/feed", { intent: "revoke" }, { cookie }));
     expect(payloadOf(await run(feedPage.loader, getRequest("/athlete/feed", cookie))).feed).toBeNull();
   });
 
   it("a coach's feed lists their athletes' field tests and key sessions", async () => {
     const { coach, athlete } = await scenario();
-    await ScheduledSession.create({ athleteId: athlete.id, date: todayIn("UTC"), name: "20-minute field test", sport: "bike", testProtocol: "twenty_minute" });
+    await ScheduledSession.create({
+      athleteId: athlete.id,
+      date: todayIn("UTC"),
+      name: "20-minute field test",
+      sport: "bike",
+      testProtocol: "twenty_minute",
+    });
     const token = await rotateFeed(coach.id);
     const events = new ICAL.Component(ICAL.parse(await (await fetchFeed(token)).text())).getAllSubcomponents("vevent");
     const summaries = events.map((e) => String(e.getFirstPropertyValue("summary")));
     expect(summaries).toContain(`${athlete.name.replace("\n", " ")}: 20-minute field test`);
-    expect(String(events.find((e) => String(e.getFirstPropertyValue("summary")).includes("field test"))!.getFirstPropertyValue("description"))).toContain("FIELD TEST:");
+    expect(
+      String(
+        events
+          .find((e) => String(e.getFirstPropertyValue("summary")).includes("field test"))!
+          .getFirstPropertyValue("description"),
+      ),
+    ).toContain("FIELD TEST:");
     // Ordinary sessions below the key-session load stay out of the coach's feed.
     expect(summaries.some((x) => x.includes("Threshold; repeats"))).toBe(false);
   });

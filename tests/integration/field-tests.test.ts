@@ -3,7 +3,20 @@ import path from "node:path";
 import { QueryTypes } from "sequelize";
 import { describe, expect, it } from "vitest";
 import { db } from "~/.server/db";
-import { CoachAthlete, FieldTest, OutboundEmail, PlanItem, PlanWeek, RescaleReport, ScheduledBlock, ScheduledSession, Session, SessionBlock, Threshold, Upload } from "~/.server/models";
+import {
+  CoachAthlete,
+  FieldTest,
+  OutboundEmail,
+  PlanItem,
+  PlanWeek,
+  RescaleReport,
+  ScheduledBlock,
+  ScheduledSession,
+  Session,
+  SessionBlock,
+  Threshold,
+  Upload,
+} from "~/.server/models";
 import { createPlan } from "~/.server/services/plans";
 import { applyBoardOp } from "~/.server/services/board";
 import { assignPlan } from "~/.server/services/materialize";
@@ -27,27 +40,75 @@ async function scenario() {
   const coach = await makeUser({ role: "coach" });
   const athlete = await makeUser({ role: "athlete" });
   const bystander = await makeUser({ role: "athlete" });
-  await CoachAthlete.bulkCreate([{ coachId: coach.id, athleteId: athlete.id }, { coachId: coach.id, athleteId: bystander.id }]);
+  await CoachAthlete.bulkCreate([
+    { coachId: coach.id, athleteId: athlete.id },
+    { coachId: coach.id, athleteId: bystander.id },
+  ]);
   for (const a of [athlete, bystander]) {
     await Threshold.bulkCreate([
-      { athleteId: a.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" },
-      { athleteId: a.id, sport: "bike", metric: "heart_rate", value: 170, unit: "bpm", effectiveFrom: "2026-01-01", source: "manual" },
-      { athleteId: a.id, sport: "run", metric: "pace", value: 240, unit: "s/km", effectiveFrom: "2026-01-01", source: "manual" },
+      {
+        athleteId: a.id,
+        sport: "bike",
+        metric: "power",
+        value: 250,
+        unit: "W",
+        effectiveFrom: "2026-01-01",
+        source: "manual",
+      },
+      {
+        athleteId: a.id,
+        sport: "bike",
+        metric: "heart_rate",
+        value: 170,
+        unit: "bpm",
+        effectiveFrom: "2026-01-01",
+        source: "manual",
+      },
+      {
+        athleteId: a.id,
+        sport: "run",
+        metric: "pace",
+        value: 240,
+        unit: "s/km",
+        effectiveFrom: "2026-01-01",
+        source: "manual",
+      },
     ]);
   }
   const mk = async (name: string, sport: string, blocks: unknown[]) => {
     const s = await Session.create({ ownerId: coach.id, name, sport });
-    await SessionBlock.bulkCreate(blocks.map((spec, position) => ({ sessionId: s.id, position, kind: (spec as { kind: string }).kind, spec })));
+    await SessionBlock.bulkCreate(
+      blocks.map((spec, position) => ({ sessionId: s.id, position, kind: (spec as { kind: string }).kind, spec })),
+    );
     return s;
   };
   const power = await mk("Threshold", "bike", [
     { kind: "warmup", durationS: 600, target: { metric: "power", lowPct: 55, highPct: 65 } },
-    { kind: "repeats", count: 3, work: { durationS: 600, target: { metric: "power", lowPct: 97, highPct: 103 } }, recovery: { durationS: 180, target: { metric: "power", lowPct: 51 } } },
+    {
+      kind: "repeats",
+      count: 3,
+      work: { durationS: 600, target: { metric: "power", lowPct: 97, highPct: 103 } },
+      recovery: { durationS: 180, target: { metric: "power", lowPct: 51 } },
+    },
     { kind: "ramp", durationS: 300, metric: "power", fromPct: 73, toPct: 41 },
   ]);
-  const hr = await mk("HR ride", "bike", [{ kind: "steady", durationS: 3000, target: { metric: "heart_rate", lowPct: 81, highPct: 88 } }]);
-  const runS = await mk("Run tempo", "run", [{ kind: "steady", durationS: 1800, target: { metric: "pace", lowPct: 88, highPct: 93 } }]);
-  const plan = await createPlan(coach.id, { name: "Rescale", sport: "bike", description: "", alignment: "start", date: "2026-11-02", weeks: 8, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+  const hr = await mk("HR ride", "bike", [
+    { kind: "steady", durationS: 3000, target: { metric: "heart_rate", lowPct: 81, highPct: 88 } },
+  ]);
+  const runS = await mk("Run tempo", "run", [
+    { kind: "steady", durationS: 1800, target: { metric: "pace", lowPct: 88, highPct: 93 } },
+  ]);
+  const plan = await createPlan(coach.id, {
+    name: "Rescale",
+    sport: "bike",
+    description: "",
+    alignment: "start",
+    date: "2026-11-02",
+    weeks: 8,
+    weeklyHours: 8,
+    pattern: "3:1",
+    testEveryWeeks: 6,
+  });
   await PlanItem.destroy({ where: { planId: plan.id } });
   const weeks = await PlanWeek.findAll({ where: { planId: plan.id }, order: [["idx", "ASC"]] });
   for (const w of weeks) {
@@ -55,9 +116,16 @@ async function scenario() {
     await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: hr.id, toWeek: w.id, toDay: 3, toIndex: 0 });
     await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: runS.id, toWeek: w.id, toDay: 5, toIndex: 0 });
   }
-  await assignPlan(coach, plan.id, [athlete.id, bystander.id], { mode: "start", date: "2026-11-02", choice: { overlap: "alongside", confirmSports: true, confirmTests: true } });
+  await assignPlan(coach, plan.id, [athlete.id, bystander.id], {
+    mode: "start",
+    date: "2026-11-02",
+    choice: { overlap: "alongside", confirmSports: true, confirmTests: true },
+  });
   // After the test date: one session done, one skipped. They must never change.
-  const after = await ScheduledSession.findAll({ where: { athleteId: athlete.id, name: "Threshold" }, order: [["date", "ASC"]] });
+  const after = await ScheduledSession.findAll({
+    where: { athleteId: athlete.id, name: "Threshold" },
+    order: [["date", "ASC"]],
+  });
   await after.find((s) => s.date === "2026-11-24")!.update({ status: "done", effortScore: 7 });
   await after.find((s) => s.date === "2026-12-01")!.update({ status: "skipped" });
   return { coach, athlete, bystander, cookie: await signIn(athlete.email), coachCookie: await signIn(coach.email) };
@@ -70,7 +138,11 @@ const snapshot = async () =>
   );
 
 function save(body: unknown, cookie: string, athleteId?: number) {
-  const req = new Request(`${BASE}${athleteId ? `/coach/athletes/${athleteId}` : "/athlete"}/tests/new`, { method: "POST", body: JSON.stringify(body), headers: { "Content-Type": "application/json", Cookie: cookie } });
+  const req = new Request(`${BASE}${athleteId ? `/coach/athletes/${athleteId}` : "/athlete"}/tests/new`, {
+    method: "POST",
+    body: JSON.stringify(body),
+    headers: { "Content-Type": "application/json", Cookie: cookie },
+  });
   return run(testNew.action, req, athleteId ? { athleteId: String(athleteId) } : {});
 }
 
@@ -78,18 +150,37 @@ describe("field test → rescale", () => {
   it("a 20-minute test rescales every future planned power step, and nothing else", async () => {
     const { athlete, bystander, cookie } = await scenario();
     const before = new Map((await snapshot()).map((r) => [r.id, r]));
-    const res = await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20", readiness: READY, requestKey: "k-20min-1", confirmed: true }, cookie);
+    const res = await save(
+      {
+        protocol: "twenty_minute",
+        inputs: { meanW: "300" },
+        testedOn: "2026-11-20",
+        readiness: READY,
+        requestKey: "k-20min-1",
+        confirmed: true,
+      },
+      cookie,
+    );
     expect(statusOf(res)).toBe(302);
     expect((res as Response).headers.get("location")).toBe("/athlete/tests");
-    expect(await toastOf(res as Response)).toEqual({ tone: "ok", message: expect.stringMatching(/^Saved\. Bike power is now 285 W \(was 250 W\): \d+ planned sessions, \d+ steps rescaled\./) });
+    expect(await toastOf(res as Response)).toEqual({
+      tone: "ok",
+      message: expect.stringMatching(
+        /^Saved\. Bike power is now 285 W \(was 250 W\): \d+ planned sessions, \d+ steps rescaled\./,
+      ),
+    });
 
-    const t = await Threshold.findOne({ where: { athleteId: athlete.id, sport: "bike", metric: "power", effectiveFrom: "2026-11-20" } });
+    const t = await Threshold.findOne({
+      where: { athleteId: athlete.id, sport: "bike", metric: "power", effectiveFrom: "2026-11-20" },
+    });
     expect(t!.value).toBe(285); // 300 × 0.95
     const report = await RescaleReport.findOne({ where: { athleteId: athlete.id, kind: "apply" } });
     expect(report).toMatchObject({ oldValue: 250, newValue: 285, fromDate: "2026-11-20" });
 
     const rows = await ScheduledBlock.findAll({ where: { athleteId: athlete.id } });
-    const sessions = new Map((await ScheduledSession.findAll({ where: { athleteId: athlete.id } })).map((s) => [s.id, s]));
+    const sessions = new Map(
+      (await ScheduledSession.findAll({ where: { athleteId: athlete.id } })).map((s) => [s.id, s]),
+    );
     let changed = 0;
     for (const b of rows) {
       const s = sessions.get(b.scheduledSessionId)!;
@@ -98,7 +189,10 @@ describe("field test → rescale", () => {
       if (inScope) {
         changed++;
         // The set-based SQL gives exactly what the engine gives.
-        expect([b.lowAbs, b.highAbs]).toEqual([resolveTarget({ metric: "power", lowPct: b.lowPct! }, 285).low, resolveTarget({ metric: "power", lowPct: b.highPct! }, 285).low]);
+        expect([b.lowAbs, b.highAbs]).toEqual([
+          resolveTarget({ metric: "power", lowPct: b.lowPct! }, 285).low,
+          resolveTarget({ metric: "power", lowPct: b.highPct! }, 285).low,
+        ]);
         expect(b.thresholdId).toBe(t!.id);
         expect(s.feedSequence).toBe(1);
       } else {
@@ -119,27 +213,59 @@ describe("field test → rescale", () => {
 
   it("rescales pace as the inverse and heart rate as a percentage", async () => {
     const { athlete, cookie } = await scenario();
-    await save({ protocol: "run_race", inputs: { distanceM: "10000", time: "40:00" }, testedOn: "2026-11-20", readiness: READY }, cookie);
-    const pace = await Threshold.findOne({ where: { athleteId: athlete.id, sport: "run", metric: "pace", source: "field_test" } });
+    await save(
+      { protocol: "run_race", inputs: { distanceM: "10000", time: "40:00" }, testedOn: "2026-11-20", readiness: READY },
+      cookie,
+    );
+    const pace = await Threshold.findOne({
+      where: { athleteId: athlete.id, sport: "run", metric: "pace", source: "field_test" },
+    });
     // Running index 51.94 → threshold pace ≈ 4:07 per km (Daniels & Gilbert; cost = 0.88 × index).
     expect(pace!.value).toBeGreaterThan(245);
     expect(pace!.value).toBeLessThan(250);
     const b = await ScheduledBlock.findOne({ where: { athleteId: athlete.id, metric: "pace", date: "2026-12-05" } });
-    expect(b).toMatchObject({ lowAbs: Math.round(pace!.value / 0.88), highAbs: Math.round(pace!.value / 0.93), unit: "s/km" });
+    expect(b).toMatchObject({
+      lowAbs: Math.round(pace!.value / 0.88),
+      highAbs: Math.round(pace!.value / 0.93),
+      unit: "s/km",
+    });
 
-    await save({ protocol: "hr_thirty", inputs: { sport: "bike", meanHr: "176" }, testedOn: "2026-11-21", readiness: READY }, cookie);
-    const h = await ScheduledBlock.findOne({ where: { athleteId: athlete.id, metric: "heart_rate", date: "2026-12-03" } });
+    await save(
+      { protocol: "hr_thirty", inputs: { sport: "bike", meanHr: "176" }, testedOn: "2026-11-21", readiness: READY },
+      cookie,
+    );
+    const h = await ScheduledBlock.findOne({
+      where: { athleteId: athlete.id, metric: "heart_rate", date: "2026-12-03" },
+    });
     expect(h).toMatchObject({ lowAbs: Math.round((81 * 176) / 100), highAbs: Math.round((88 * 176) / 100) });
-    const earlier = await ScheduledBlock.findOne({ where: { athleteId: athlete.id, metric: "heart_rate", date: "2026-11-19" } });
+    const earlier = await ScheduledBlock.findOne({
+      where: { athleteId: athlete.id, metric: "heart_rate", date: "2026-11-19" },
+    });
     expect(earlier!.thresholdValue).toBe(170);
   });
 
   it("undo restores exactly the previous values, with its own report", async () => {
     const { athlete, cookie } = await scenario();
     const before = await snapshot();
-    await save({ protocol: "twenty_minute", inputs: { meanW: "320" }, testedOn: "2026-11-20", readiness: READY, confirmed: true }, cookie);
+    await save(
+      {
+        protocol: "twenty_minute",
+        inputs: { meanW: "320" },
+        testedOn: "2026-11-20",
+        readiness: READY,
+        confirmed: true,
+      },
+      cookie,
+    );
     const test = (await FieldTest.findOne({ where: { athleteId: athlete.id } }))!;
-    const res = await run(tests.action, new Request(`${BASE}/athlete/tests`, { method: "POST", body: new URLSearchParams({ testId: String(test.id) }), headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" } }));
+    const res = await run(
+      tests.action,
+      new Request(`${BASE}/athlete/tests`, {
+        method: "POST",
+        body: new URLSearchParams({ testId: String(test.id) }),
+        headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" },
+      }),
+    );
     expect(payloadOf(res).ok).toBe(true);
     const after = await snapshot();
     // Every value is back; only the feed sequence moved on again (calendars must pick up the undo too).
@@ -148,19 +274,48 @@ describe("field test → rescale", () => {
     expect(await RescaleReport.count({ where: { athleteId: athlete.id, kind: "undo" } })).toBe(1);
     await test.reload();
     expect(test.status).toBe("undone");
-    const again = await run(tests.action, new Request(`${BASE}/athlete/tests`, { method: "POST", body: new URLSearchParams({ testId: String(test.id) }), headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" } }));
+    const again = await run(
+      tests.action,
+      new Request(`${BASE}/athlete/tests`, {
+        method: "POST",
+        body: new URLSearchParams({ testId: String(test.id) }),
+        headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" },
+      }),
+    );
     expect(statusOf(again)).toBe(400);
   });
 
   it("a fault mid-transaction leaves everything as it was", async () => {
     const { athlete, cookie } = await scenario();
     const before = await snapshot();
-    const counts = async () => [await FieldTest.count(), await Threshold.count(), await RescaleReport.count(), await OutboundEmail.count()];
+    const counts = async () => [
+      await FieldTest.count(),
+      await Threshold.count(),
+      await RescaleReport.count(),
+      await OutboundEmail.count(),
+    ];
     const c0 = await counts();
     // Fault injection in the database itself: the sessions update (after blocks were rewritten) aborts.
-    const removeFault = await injectUpdateFault("fault_injection", "scheduled_sessions", "feed_sequence", `NEW.athlete_id = ${athlete.id}`, "injected fault");
+    const removeFault = await injectUpdateFault(
+      "fault_injection",
+      "scheduled_sessions",
+      "feed_sequence",
+      `NEW.athlete_id = ${athlete.id}`,
+      "injected fault",
+    );
     try {
-      await expect(save({ protocol: "twenty_minute", inputs: { meanW: "310" }, testedOn: "2026-11-20", readiness: READY, confirmed: true }, cookie)).rejects.toThrow();
+      await expect(
+        save(
+          {
+            protocol: "twenty_minute",
+            inputs: { meanW: "310" },
+            testedOn: "2026-11-20",
+            readiness: READY,
+            confirmed: true,
+          },
+          cookie,
+        ),
+      ).rejects.toThrow();
     } finally {
       await removeFault();
     }
@@ -170,7 +325,13 @@ describe("field test → rescale", () => {
 
   it("a double submit (same request key) rescales once", async () => {
     const { athlete, cookie } = await scenario();
-    const body = { protocol: "twenty_minute", inputs: { meanW: "280" }, testedOn: "2026-11-20", readiness: READY, requestKey: "double-submit-key" };
+    const body = {
+      protocol: "twenty_minute",
+      inputs: { meanW: "280" },
+      testedOn: "2026-11-20",
+      readiness: READY,
+      requestKey: "double-submit-key",
+    };
     const [a, b] = await Promise.all([save(body, cookie), save(body, cookie)]);
     expect([statusOf(a), statusOf(b)]).toEqual([302, 302]);
     expect(await FieldTest.count({ where: { athleteId: athlete.id } })).toBe(1);
@@ -185,11 +346,39 @@ describe("field test → rescale", () => {
     const noReady = await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20" }, cookie);
     expect(statusOf(noReady)).toBe(400);
     expect(saveMessage(noReady)).toMatch(/readiness|Answer every/);
-    expect(statusOf(await save({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2027-06-01", readiness: READY }, cookie))).toBe(400);
-    expect(saveMessage(await save({ protocol: "swim_pair", inputs: { t400: "2:00", t200: "2:50" }, testedOn: "2026-11-20", readiness: READY }, cookie))).toMatch(/longer than the 200/);
-    expect(saveMessage(await save({ protocol: "twenty_minute", inputs: { meanW: "-4" }, testedOn: "2026-11-20", readiness: READY }, cookie))).toMatch(/must be 50–700 W/);
+    expect(
+      statusOf(
+        await save(
+          { protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2027-06-01", readiness: READY },
+          cookie,
+        ),
+      ),
+    ).toBe(400);
+    expect(
+      saveMessage(
+        await save(
+          { protocol: "swim_pair", inputs: { t400: "2:00", t200: "2:50" }, testedOn: "2026-11-20", readiness: READY },
+          cookie,
+        ),
+      ),
+    ).toMatch(/longer than the 200/);
+    expect(
+      saveMessage(
+        await save(
+          { protocol: "twenty_minute", inputs: { meanW: "-4" }, testedOn: "2026-11-20", readiness: READY },
+          cookie,
+        ),
+      ),
+    ).toMatch(/must be 50–700 W/);
 
-    const p = (await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20" }), headers: { "Content-Type": "application/json", Cookie: cookie } }))) as Response;
+    const p = (await run(
+      preview.action,
+      new Request(`${BASE}/api/tests/preview`, {
+        method: "POST",
+        body: JSON.stringify({ protocol: "twenty_minute", inputs: { meanW: "300" }, testedOn: "2026-11-20" }),
+        headers: { "Content-Type": "application/json", Cookie: cookie },
+      }),
+    )) as Response;
     const body = await p.json();
     expect(body.proposed).toMatchObject({ value: 285, label: "285 W" });
     expect(body.current).toMatchObject({ label: "250 W" });
@@ -201,13 +390,31 @@ describe("field test → rescale", () => {
 
   it("a coach logs a test for their own athlete; another coach gets 404", async () => {
     const { athlete, coachCookie } = await scenario();
-    const res = await save({ protocol: "manual", inputs: { sport: "bike", metric: "power", value: "270" }, testedOn: "2026-11-25" }, coachCookie, athlete.id);
+    const res = await save(
+      { protocol: "manual", inputs: { sport: "bike", metric: "power", value: "270" }, testedOn: "2026-11-25" },
+      coachCookie,
+      athlete.id,
+    );
     expect((res as Response).headers.get("location")).toBe(`/coach/athletes/${athlete.id}/tests`);
     expect(await FieldTest.count({ where: { athleteId: athlete.id } })).toBe(1);
     expect((await toastOf(res as Response))?.message).toMatch(/^Saved\. Bike power is now 270 W/);
     const stranger = await makeUser({ role: "coach" });
-    expect(statusOf(await save({ protocol: "manual", inputs: { sport: "bike", metric: "power", value: "999" }, testedOn: "2026-11-25" }, await signIn(stranger.email), athlete.id))).toBe(404);
-    expect(statusOf(await run(tests.loader, getRequest(`/coach/athletes/${athlete.id}/tests`, await signIn(stranger.email)), { athleteId: String(athlete.id) }))).toBe(404);
+    expect(
+      statusOf(
+        await save(
+          { protocol: "manual", inputs: { sport: "bike", metric: "power", value: "999" }, testedOn: "2026-11-25" },
+          await signIn(stranger.email),
+          athlete.id,
+        ),
+      ),
+    ).toBe(404);
+    expect(
+      statusOf(
+        await run(tests.loader, getRequest(`/coach/athletes/${athlete.id}/tests`, await signIn(stranger.email)), {
+          athleteId: String(athlete.id),
+        }),
+      ),
+    ).toBe(404);
   });
 });
 
@@ -215,11 +422,16 @@ describe("ride-file uploads", () => {
   const send = (cookie: string, name: string, content: BlobPart, headers: Record<string, string> = {}) => {
     const body = new FormData();
     body.append("file", new File([content], name));
-    return run(uploads.action, new Request(`${BASE}/api/uploads`, { method: "POST", body, headers: { Cookie: cookie, ...headers } })) as Promise<Response>;
+    return run(
+      uploads.action,
+      new Request(`${BASE}/api/uploads`, { method: "POST", body, headers: { Cookie: cookie, ...headers } }),
+    ) as Promise<Response>;
   };
   const stored = () => {
     const dir = process.env.UPLOAD_DIR!;
-    return fs.existsSync(dir) ? fs.readdirSync(dir, { recursive: true }).filter((f) => fs.statSync(path.join(dir, String(f))).isFile()).length : 0;
+    return fs.existsSync(dir)
+      ? fs.readdirSync(dir, { recursive: true }).filter((f) => fs.statSync(path.join(dir, String(f))).isFile()).length
+      : 0;
   };
 
   it("reads a 20-minute test file, finds the effort, and saving it rescales", async () => {
@@ -229,14 +441,40 @@ describe("ride-file uploads", () => {
     const { upload, trace } = await res.json();
     expect(upload.summary.efforts["20min"].mean).toBeCloseTo(300, 0);
     expect(trace.length).toBeGreaterThan(100);
-    const p = await ((await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20" }), headers: { "Content-Type": "application/json", Cookie: cookie } }))) as Response).json();
+    const p = await (
+      (await run(
+        preview.action,
+        new Request(`${BASE}/api/tests/preview`, {
+          method: "POST",
+          body: JSON.stringify({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20" }),
+          headers: { "Content-Type": "application/json", Cookie: cookie },
+        }),
+      )) as Response
+    ).json();
     expect(p.proposed.value).toBe(285);
     expect(p.window).toEqual({ startS: 1440, lengthS: 1200 });
     expect(p.pacing.verdict).toBe("even");
     // Shifting the window by hand changes the proposal.
-    const shifted = await ((await run(preview.action, new Request(`${BASE}/api/tests/preview`, { method: "POST", body: JSON.stringify({ protocol: "twenty_minute", uploadId: upload.id, windowStartS: 1500, testedOn: "2026-11-20" }), headers: { "Content-Type": "application/json", Cookie: cookie } }))) as Response).json();
+    const shifted = await (
+      (await run(
+        preview.action,
+        new Request(`${BASE}/api/tests/preview`, {
+          method: "POST",
+          body: JSON.stringify({
+            protocol: "twenty_minute",
+            uploadId: upload.id,
+            windowStartS: 1500,
+            testedOn: "2026-11-20",
+          }),
+          headers: { "Content-Type": "application/json", Cookie: cookie },
+        }),
+      )) as Response
+    ).json();
     expect(shifted.proposed.value).toBeLessThan(285);
-    const saved = await save({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20", readiness: READY, confirmed: true }, cookie);
+    const saved = await save(
+      { protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20", readiness: READY, confirmed: true },
+      cookie,
+    );
     expect(statusOf(saved)).toBe(302);
     expect((await FieldTest.findOne({ where: { athleteId: athlete.id } }))!.uploadId).toBe(upload.id);
   });
@@ -260,16 +498,30 @@ describe("ride-file uploads", () => {
     }
     const big = await send(cookie, "big.csv", new Uint8Array(26 * 1024 * 1024));
     expect(big.status).toBe(413);
-    const notMultipart = (await run(uploads.action, new Request(`${BASE}/api/uploads`, { method: "POST", body: "x", headers: { Cookie: cookie, "Content-Type": "text/plain" } }))) as Response;
+    const notMultipart = (await run(
+      uploads.action,
+      new Request(`${BASE}/api/uploads`, {
+        method: "POST",
+        body: "x",
+        headers: { Cookie: cookie, "Content-Type": "text/plain" },
+      }),
+    )) as Response;
     expect(notMultipart.status).toBe(415);
     expect({ rows: await Upload.count(), files: stored() }).toEqual(before);
 
     // A heart-rate-only file uploads, but a power test cannot use it, and nothing changes.
-    const hrOnly = await send(cookie, "hr.csv", "time,heart_rate\n" + Array.from({ length: 1500 }, (_, i) => `${i},150`).join("\n"));
+    const hrOnly = await send(
+      cookie,
+      "hr.csv",
+      "time,heart_rate\n" + Array.from({ length: 1500 }, (_, i) => `${i},150`).join("\n"),
+    );
     expect(hrOnly.status).toBe(201);
     const { upload } = await hrOnly.json();
     const snap = await snapshot();
-    const res = await save({ protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20", readiness: READY }, cookie);
+    const res = await save(
+      { protocol: "twenty_minute", uploadId: upload.id, testedOn: "2026-11-20", readiness: READY },
+      cookie,
+    );
     expect(statusOf(res)).toBe(400);
     expect(saveMessage(res)).toMatch(/no power/);
     expect(await snapshot()).toEqual(snap);

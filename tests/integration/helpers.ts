@@ -6,7 +6,9 @@ export const BASE = "http://localhost:3999";
 let counter = 0;
 export const uniqueEmail = (prefix = "user") => `${prefix}.${Date.now().toString(36)}.${++counter}@example.test`;
 
-export async function makeUser(opts: Partial<{ role: Role; email: string; name: string; password: string; timezone: string }> = {}) {
+export async function makeUser(
+  opts: Partial<{ role: Role; email: string; name: string; password: string; timezone: string }> = {},
+) {
   return User.create({
     role: opts.role ?? "athlete",
     email: opts.email ?? uniqueEmail(opts.role ?? "athlete"),
@@ -23,13 +25,21 @@ export async function makeCoachWithAthlete() {
   return { coach, athlete };
 }
 
-export function formRequest(path: string, fields: Record<string, string | string[]>, opts: { cookie?: string; method?: string } = {}) {
+export function formRequest(
+  path: string,
+  fields: Record<string, string | string[]>,
+  opts: { cookie?: string; method?: string } = {},
+) {
   const body = new URLSearchParams();
   for (const [k, v] of Object.entries(fields)) for (const one of Array.isArray(v) ? v : [v]) body.append(k, one);
   return new Request(BASE + path, {
     method: opts.method ?? "POST",
     body,
-    headers: { "Content-Type": "application/x-www-form-urlencoded", Origin: BASE, ...(opts.cookie ? { Cookie: opts.cookie } : {}) },
+    headers: {
+      "Content-Type": "application/x-www-form-urlencoded",
+      Origin: BASE,
+      ...(opts.cookie ? { Cookie: opts.cookie } : {}),
+    },
   });
 }
 
@@ -53,8 +63,18 @@ export function withoutOrigin(request: Request) {
  * Requests to this site get a same-origin Origin header, as a browser on one of our pages sends, unless they
  * carry one already or were marked withoutOrigin().
  */
-export async function run<T>(fn: (args: any) => Promise<T>, request: Request, params: Record<string, string> = {}, context: Record<string, unknown> = clientContext()) {
-  if (!bare.has(request) && !request.headers.has("origin") && !request.headers.has("sec-fetch-site") && new URL(request.url).origin === BASE) {
+export async function run<T>(
+  fn: (args: any) => Promise<T>,
+  request: Request,
+  params: Record<string, string> = {},
+  context: Record<string, unknown> = clientContext(),
+) {
+  if (
+    !bare.has(request) &&
+    !request.headers.has("origin") &&
+    !request.headers.has("sec-fetch-site") &&
+    new URL(request.url).origin === BASE
+  ) {
     request.headers.set("Origin", BASE);
   }
   try {

@@ -3,10 +3,26 @@ import { CoachAthlete, Invitation, OutboundEmail, User } from "~/.server/models"
 import * as invite from "~/routes/invite";
 import * as roster from "~/routes/coach/roster";
 import * as athletePage from "~/routes/coach/athlete";
-import { cookieFrom, fieldErrorsOf, formRequest, getRequest, makeCoachWithAthlete, makeUser, payloadOf, run, signIn, statusOf, toastOf, uniqueEmail } from "./helpers";
+import {
+  cookieFrom,
+  fieldErrorsOf,
+  formRequest,
+  getRequest,
+  makeCoachWithAthlete,
+  makeUser,
+  payloadOf,
+  run,
+  signIn,
+  statusOf,
+  toastOf,
+  uniqueEmail,
+} from "./helpers";
 
 async function inviteLink(email: string) {
-  const mail = await OutboundEmail.findOne({ where: { toAddress: email, template: "invitation" }, order: [["id", "DESC"]] });
+  const mail = await OutboundEmail.findOne({
+    where: { toAddress: email, template: "invitation" },
+    order: [["id", "DESC"]],
+  });
   const m = mail!.textBody.match(/\/invite\/([A-Za-z0-9_-]{43})/);
   return m![1];
 }
@@ -23,12 +39,24 @@ describe("coach invites an athlete", () => {
     const page = payloadOf(await run(invite.loader, getRequest(`/invite/${token}`), { token }));
     expect(page).toMatchObject({ valid: true, coachName: "Rae Coach", email, hasAccount: false });
 
-    const short = await run(invite.action, formRequest(`/invite/${token}`, { name: "Newbie Rider", password: "short", timezone: "UTC" }), { token });
+    const short = await run(
+      invite.action,
+      formRequest(`/invite/${token}`, { name: "Newbie Rider", password: "short", timezone: "UTC" }),
+      { token },
+    );
     expect(statusOf(short)).toBe(400);
     expect(fieldErrorsOf(short).password).toMatch(/at least 10/);
     expect(await User.count({ where: { email } })).toBe(0);
 
-    const accepted = await run(invite.action, formRequest(`/invite/${token}`, { name: "Newbie Rider", password: "newbie-password-1", timezone: "Europe/Paris" }), { token });
+    const accepted = await run(
+      invite.action,
+      formRequest(`/invite/${token}`, {
+        name: "Newbie Rider",
+        password: "newbie-password-1",
+        timezone: "Europe/Paris",
+      }),
+      { token },
+    );
     expect((accepted as Response).headers.get("location")).toBe("/athlete");
     expect((await toastOf(accepted as Response))?.message).toMatch(/You joined your coach's roster/);
     cookieFrom(accepted as Response);
@@ -41,7 +69,11 @@ describe("coach invites an athlete", () => {
     expect(list.invitations).toHaveLength(0);
 
     // The link is single-use.
-    const again = await run(invite.action, formRequest(`/invite/${token}`, { name: "X", password: "another-password", timezone: "UTC" }), { token });
+    const again = await run(
+      invite.action,
+      formRequest(`/invite/${token}`, { name: "X", password: "another-password", timezone: "UTC" }),
+      { token },
+    );
     expect(statusOf(again)).toBe(400);
   });
 
@@ -54,7 +86,9 @@ describe("coach invites an athlete", () => {
     const token = await inviteLink(invited.email);
 
     const otherCookie = await signIn(someoneElse.email);
-    const res = await run(invite.action, formRequest(`/invite/${token}`, { intent: "join" }, { cookie: otherCookie }), { token });
+    const res = await run(invite.action, formRequest(`/invite/${token}`, { intent: "join" }, { cookie: otherCookie }), {
+      token,
+    });
     expect(statusOf(res)).toBe(400);
     expect(fieldErrorsOf(res).form).toMatch(/Sign in with that address/);
     expect(await CoachAthlete.count({ where: { coachId: coach.id } })).toBe(0);
@@ -62,7 +96,9 @@ describe("coach invites an athlete", () => {
 
     // The right athlete, signed in, joins.
     const rightCookie = await signIn(invited.email);
-    const ok = await run(invite.action, formRequest(`/invite/${token}`, { intent: "join" }, { cookie: rightCookie }), { token });
+    const ok = await run(invite.action, formRequest(`/invite/${token}`, { intent: "join" }, { cookie: rightCookie }), {
+      token,
+    });
     expect((ok as Response).status).toBe(302);
     expect(await CoachAthlete.count({ where: { coachId: coach.id, athleteId: invited.id } })).toBe(1);
   });
@@ -72,9 +108,15 @@ describe("coach invites an athlete", () => {
     const otherCoach = await makeUser({ role: "coach" });
     const cookie = await signIn(coach.email);
     const before = await OutboundEmail.count();
-    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: "nope" }, { cookie }))).email).toBeTruthy();
-    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: athlete.email }, { cookie }))).email).toMatch(/already on your roster/);
-    expect(fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: otherCoach.email }, { cookie }))).email).toMatch(/not an athlete/);
+    expect(
+      fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: "nope" }, { cookie }))).email,
+    ).toBeTruthy();
+    expect(
+      fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: athlete.email }, { cookie }))).email,
+    ).toMatch(/already on your roster/);
+    expect(
+      fieldErrorsOf(await run(roster.action, formRequest("/coach", { email: otherCoach.email }, { cookie }))).email,
+    ).toMatch(/not an athlete/);
     expect(await OutboundEmail.count()).toBe(before);
   });
 
@@ -86,7 +128,11 @@ describe("coach invites an athlete", () => {
     const token = await inviteLink(email);
     await Invitation.update({ expiresAt: new Date(Date.now() - 1) }, { where: { email } });
     expect(payloadOf(await run(invite.loader, getRequest(`/invite/${token}`), { token })).valid).toBe(false);
-    const res = await run(invite.action, formRequest(`/invite/${token}`, { name: "Late", password: "late-password-1", timezone: "UTC" }), { token });
+    const res = await run(
+      invite.action,
+      formRequest(`/invite/${token}`, { name: "Late", password: "late-password-1", timezone: "UTC" }),
+      { token },
+    );
     expect(statusOf(res)).toBe(400);
     expect(await User.count({ where: { email } })).toBe(0);
   });
@@ -97,9 +143,21 @@ describe("a coach's athletes are theirs alone", () => {
     const { coach, athlete } = await makeCoachWithAthlete();
     const other = await makeCoachWithAthlete();
     const cookie = await signIn(coach.email);
-    const mine = payloadOf(await run(athletePage.loader, getRequest(`/coach/athletes/${athlete.id}`, cookie), { athleteId: String(athlete.id) }));
+    const mine = payloadOf(
+      await run(athletePage.loader, getRequest(`/coach/athletes/${athlete.id}`, cookie), {
+        athleteId: String(athlete.id),
+      }),
+    );
     expect(mine.athlete.name).toBe(athlete.name);
-    expect(statusOf(await run(athletePage.loader, getRequest(`/coach/athletes/${other.athlete.id}`, cookie), { athleteId: String(other.athlete.id) }))).toBe(404);
-    expect(statusOf(await run(athletePage.loader, getRequest(`/coach/athletes/abc`, cookie), { athleteId: "abc" }))).toBe(404);
+    expect(
+      statusOf(
+        await run(athletePage.loader, getRequest(`/coach/athletes/${other.athlete.id}`, cookie), {
+          athleteId: String(other.athlete.id),
+        }),
+      ),
+    ).toBe(404);
+    expect(
+      statusOf(await run(athletePage.loader, getRequest(`/coach/athletes/abc`, cookie), { athleteId: "abc" })),
+    ).toBe(404);
   });
 });

@@ -28,11 +28,40 @@ async function fixture() {
     const score = [3, 5, 7, 4, 6, 2][i % 6];
     const minutes = 40 + (i % 4) * 15;
     done.push(score * minutes);
-    await ScheduledSession.create({ athleteId: athlete.id, date, name: "Done", sport: "bike", status: "done", effortScore: score, actualMinutes: minutes, plannedDurationS: minutes * 60, plannedLoad: 300 });
+    await ScheduledSession.create({
+      athleteId: athlete.id,
+      date,
+      name: "Done",
+      sport: "bike",
+      status: "done",
+      effortScore: score,
+      actualMinutes: minutes,
+      plannedDurationS: minutes * 60,
+      plannedLoad: 300,
+    });
   }
-  for (let i = 1; i <= 10; i++) await ScheduledSession.create({ athleteId: athlete.id, date: addDays(today, i), name: "Planned", sport: "bike", status: "planned", plannedDurationS: 3600, plannedLoad: 250 + i });
+  for (let i = 1; i <= 10; i++)
+    await ScheduledSession.create({
+      athleteId: athlete.id,
+      date: addDays(today, i),
+      name: "Planned",
+      sport: "bike",
+      status: "planned",
+      plannedDurationS: 3600,
+      plannedLoad: 250 + i,
+    });
   // A cancelled session never counts.
-  await ScheduledSession.create({ athleteId: athlete.id, date: today, name: "Gone", sport: "bike", status: "cancelled", effortScore: 10, actualMinutes: 600, plannedDurationS: 3600, plannedLoad: 999 });
+  await ScheduledSession.create({
+    athleteId: athlete.id,
+    date: today,
+    name: "Gone",
+    sport: "bike",
+    status: "cancelled",
+    effortScore: 10,
+    actualMinutes: 600,
+    plannedDurationS: 3600,
+    plannedLoad: 999,
+  });
   return { coach, athlete, today, done };
 }
 
@@ -70,26 +99,59 @@ describe("training load", () => {
     const { coach, athlete, today } = await fixture();
     const from = addDays(today, -13);
     const q = `from=${from}&to=${addDays(today, 7)}`;
-    const mine = (await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?${q}`, await signIn(athlete.email)), { id: String(athlete.id) })) as Response;
+    const mine = (await run(
+      loadApi.loader,
+      getRequest(`/api/athletes/${athlete.id}/load?${q}`, await signIn(athlete.email)),
+      { id: String(athlete.id) },
+    )) as Response;
     expect(mine.status).toBe(200);
     expect((await mine.json()).daily).toHaveLength(21);
-    const csv = (await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?${q}&format=csv`, await signIn(coach.email)), { id: String(athlete.id) })) as Response;
+    const csv = (await run(
+      loadApi.loader,
+      getRequest(`/api/athletes/${athlete.id}/load?${q}&format=csv`, await signIn(coach.email)),
+      { id: String(athlete.id) },
+    )) as Response;
     expect(csv.headers.get("content-type")).toMatch(/text\/csv/);
     const lines = (await csv.text()).trim().split("\n");
     expect(lines[0]).toMatch(/^date,done_load,of_which_power_load,planned_load,trimp,work_kj,fitness,fatigue,balance/);
     expect(lines).toHaveLength(22);
     const other = await makeUser({ role: "athlete" });
-    expect(statusOf(await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?${q}`, await signIn(other.email)), { id: String(athlete.id) }))).toBe(404);
+    expect(
+      statusOf(
+        await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?${q}`, await signIn(other.email)), {
+          id: String(athlete.id),
+        }),
+      ),
+    ).toBe(404);
     const otherCoach = await makeUser({ role: "coach" });
-    expect(statusOf(await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?${q}`, await signIn(otherCoach.email)), { id: String(athlete.id) }))).toBe(404);
-    const bad = (await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?from=2027-99-01&to=x`, await signIn(athlete.email)), { id: String(athlete.id) })) as Response;
+    expect(
+      statusOf(
+        await run(loadApi.loader, getRequest(`/api/athletes/${athlete.id}/load?${q}`, await signIn(otherCoach.email)), {
+          id: String(athlete.id),
+        }),
+      ),
+    ).toBe(404);
+    const bad = (await run(
+      loadApi.loader,
+      getRequest(`/api/athletes/${athlete.id}/load?from=2027-99-01&to=x`, await signIn(athlete.email)),
+      { id: String(athlete.id) },
+    )) as Response;
     expect(bad.status).toBe(400);
   });
 
   it("the roster shows compliance for the last four weeks and flags a load spike", async () => {
     const { coach, athlete, today } = await fixture();
     // Pile load on the last week: a spike against the four-week average.
-    for (let i = 0; i < 6; i++) await ScheduledSession.create({ athleteId: athlete.id, date: addDays(today, -i), name: "Huge", sport: "bike", status: "done", effortScore: 9, actualMinutes: 180 });
+    for (let i = 0; i < 6; i++)
+      await ScheduledSession.create({
+        athleteId: athlete.id,
+        date: addDays(today, -i),
+        name: "Huge",
+        sport: "bike",
+        status: "done",
+        effortScore: 9,
+        actualMinutes: 180,
+      });
     const list = payloadOf(await run(roster.loader, getRequest("/coach", await signIn(coach.email))));
     const row = list.athletes.find((a: { id: number }) => a.id === athlete.id);
     expect(row.load.compliance).toBeGreaterThan(0.8);
@@ -99,22 +161,74 @@ describe("training load", () => {
   it("a ride file attached to a day is matched to the planned session, with work and TRIMP stored", async () => {
     const athlete = await makeUser({ role: "athlete" });
     await athlete.update({ restingHr: 48, maxHr: 188, sex: "male" });
-    await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 280, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
-    const planned = await ScheduledSession.create({ athleteId: athlete.id, date: "2026-11-20", name: "Planned ride", sport: "bike", plannedDurationS: 3600, plannedLoad: 300 });
+    await Threshold.create({
+      athleteId: athlete.id,
+      sport: "bike",
+      metric: "power",
+      value: 280,
+      unit: "W",
+      effectiveFrom: "2026-01-01",
+      source: "manual",
+    });
+    const planned = await ScheduledSession.create({
+      athleteId: athlete.id,
+      date: "2026-11-20",
+      name: "Planned ride",
+      sport: "bike",
+      plannedDurationS: 3600,
+      plannedLoad: 300,
+    });
     // One step: an hour at 140–160 W (the demo ride's warm-up sits near 150 W, its test near 290 W).
-    await ScheduledBlock.create({ scheduledSessionId: planned.id, athleteId: athlete.id, date: "2026-11-20", sport: "bike", position: 0, blockIndex: 0, kind: "steady", part: "main", rep: null, repCount: null, durationS: 3600, metric: "power", lowPct: 50, highPct: 57, ramp: false, lowAbs: 140, highAbs: 160, unit: "W", thresholdId: null, thresholdValue: 280, cue: null, cadence: null });
+    await ScheduledBlock.create({
+      scheduledSessionId: planned.id,
+      athleteId: athlete.id,
+      date: "2026-11-20",
+      sport: "bike",
+      position: 0,
+      blockIndex: 0,
+      kind: "steady",
+      part: "main",
+      rep: null,
+      repCount: null,
+      durationS: 3600,
+      metric: "power",
+      lowPct: 50,
+      highPct: 57,
+      ramp: false,
+      lowAbs: 140,
+      highAbs: 160,
+      unit: "W",
+      thresholdId: null,
+      thresholdValue: 280,
+      cue: null,
+      cadence: null,
+    });
     const body = new FormData();
     const ride = twentyMinuteTestRide(290);
     body.append("file", new File([toCsv(ride)], "ride.csv"));
     const cookie = await signIn(athlete.email);
-    const up = await ((await run(uploads.action, new Request(`${BASE}/api/uploads`, { method: "POST", body, headers: { Cookie: cookie } }))) as Response).json();
+    const up = await (
+      (await run(
+        uploads.action,
+        new Request(`${BASE}/api/uploads`, { method: "POST", body, headers: { Cookie: cookie } }),
+      )) as Response
+    ).json();
     const r = await attachRide(athlete, up.upload.id, "2026-11-20", 8);
     expect(r.matched).toBe(true);
     await planned.reload();
     expect(planned.status).toBe("done");
     expect(planned.workKj).toBeCloseTo(ride.reduce((s, x) => s + x.power, 0) / 1000, 6);
     const hr = ride.map((x) => x.hr);
-    expect(planned.trimp).toBeCloseTo(trimpBanister({ minutes: hr.length / 60, avgHr: hr.reduce((a, b) => a + b, 0) / hr.length, restHr: 48, maxHr: 188, sex: "male" }), 6);
+    expect(planned.trimp).toBeCloseTo(
+      trimpBanister({
+        minutes: hr.length / 60,
+        avgHr: hr.reduce((a, b) => a + b, 0) / hr.length,
+        restHr: 48,
+        maxHr: 188,
+        sex: "male",
+      }),
+      6,
+    );
     const expected = ride.filter((x) => x.power >= 140 - 7.5 && x.power <= 160 + 7.5).length;
     expect(planned).toMatchObject({ targetedS: 3600, inTargetS: expected });
     const zones = JSON.parse(planned.zoneMinutes!) as number[];
@@ -125,7 +239,15 @@ describe("training load", () => {
   });
   it("a power-only ride without an effort score counts its band load in the load series", async () => {
     const athlete = await makeUser({ role: "athlete" });
-    await Threshold.create({ athleteId: athlete.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
+    await Threshold.create({
+      athleteId: athlete.id,
+      sport: "bike",
+      metric: "power",
+      value: 250,
+      unit: "W",
+      effectiveFrom: "2026-01-01",
+      source: "manual",
+    });
     const today = todayIn(athlete.timezone);
     const day = addDays(today, -3);
     // Power only: no heart-rate column, so no TRIMP; no effort score typed.
@@ -134,7 +256,12 @@ describe("training load", () => {
     const body = new FormData();
     body.append("file", new File([csv], "power-only.csv"));
     const cookie = await signIn(athlete.email);
-    const up = await ((await run(uploads.action, new Request(`${BASE}/api/uploads`, { method: "POST", body, headers: { Cookie: cookie } }))) as Response).json();
+    const up = await (
+      (await run(
+        uploads.action,
+        new Request(`${BASE}/api/uploads`, { method: "POST", body, headers: { Cookie: cookie } }),
+      )) as Response
+    ).json();
     const { session } = await attachRide(athlete, up.upload.id, day, null);
     await session.reload();
     expect(session.trimp).toBeNull();

@@ -31,7 +31,10 @@ describe("e-mail outbox", () => {
     const before = await OutboundEmail.count();
     await expect(
       writeTransaction(async (t) => {
-        await queueEmail({ to: "rollback@example.test", template: "password-reset", vars: { name: "R", link: "l" } }, t);
+        await queueEmail(
+          { to: "rollback@example.test", template: "password-reset", vars: { name: "R", link: "l" } },
+          t,
+        );
         throw new Error("boom");
       }),
     ).rejects.toThrow("boom");
@@ -43,7 +46,11 @@ describe("e-mail outbox", () => {
     process.env.SMTP_CATCHER_PORT = String(port);
     resetEnvCache();
     resetTransport();
-    const row = await queueEmail({ to: "retry@example.test", template: "password-reset", vars: { name: "Retry", link: "http://x/r" } });
+    const row = await queueEmail({
+      to: "retry@example.test",
+      template: "password-reset",
+      vars: { name: "Retry", link: "http://x/r" },
+    });
 
     const first = await deliverPending();
     expect(first.failed).toBeGreaterThanOrEqual(1);

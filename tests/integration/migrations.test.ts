@@ -17,7 +17,16 @@ describe("migrations and demo data", () => {
     expect((await tables()).filter((t) => t !== "schema_migrations")).toEqual([]);
     await migrator().up();
     expect((await migrator().executed()).length).toBe(executed);
-    expect(await tables()).toEqual(expect.arrayContaining(["users", "auth_sessions", "coach_athletes", "invitations", "password_resets", "outbound_emails"]));
+    expect(await tables()).toEqual(
+      expect.arrayContaining([
+        "users",
+        "auth_sessions",
+        "coach_athletes",
+        "invitations",
+        "password_resets",
+        "outbound_emails",
+      ]),
+    );
   });
 
   it("uses WAL (SQLite), enforces foreign keys, and keeps e-mail unique whatever its case", async () => {
@@ -26,20 +35,33 @@ describe("migrations and demo data", () => {
       expect(mode.journal_mode).toBe("wal");
     }
     await expect(
-      db().query(`INSERT INTO coach_athletes (coach_id, athlete_id, created_at, updated_at) VALUES (999999, 999998, ${T}, ${T})`),
+      db().query(
+        `INSERT INTO coach_athletes (coach_id, athlete_id, created_at, updated_at) VALUES (999999, 999998, ${T}, ${T})`,
+      ),
     ).rejects.toThrow(/FOREIGN KEY/i);
-    await db().query(`INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'Case@Example.test', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`);
+    await db().query(
+      `INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'Case@Example.test', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`,
+    );
     await expect(
-      db().query(`INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'case@example.TEST', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`),
+      db().query(
+        `INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('athlete', 'case@example.TEST', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`,
+      ),
     ).rejects.toMatchObject({ name: "SequelizeUniqueConstraintError" });
     await expect(
-      db().query(`INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('owner', 'role@example.test', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`),
+      db().query(
+        `INSERT INTO users (role, email, password_hash, name, timezone, units, created_at, updated_at) VALUES ('owner', 'role@example.test', 'h', 'n', 'UTC', 'metric', ${T}, ${T})`,
+      ),
     ).rejects.toMatchObject({ original: expect.objectContaining({ message: expect.stringMatching(/invalid role/) }) });
   });
 
   it("seeds the demo studio once; running the seeders again adds nothing", async () => {
     await seeder().up();
-    const count = async () => (await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM users WHERE email LIKE '%@harbourline.example'", { type: QueryTypes.SELECT }))[0].n;
+    const count = async () =>
+      (
+        await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM users WHERE email LIKE '%@harbourline.example'", {
+          type: QueryTypes.SELECT,
+        })
+      )[0].n;
     expect(await count()).toBe(DEMO_ACCOUNTS.people.length);
     await seeder().up();
     expect(await count()).toBe(DEMO_ACCOUNTS.people.length);
@@ -52,7 +74,11 @@ describe("migrations and demo data", () => {
 
   it("rolls a seeded database all the way down and up again, and seeds the demo data again", async () => {
     const demoUsers = async () =>
-      (await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM users WHERE email LIKE '%@harbourline.example'", { type: QueryTypes.SELECT }))[0].n;
+      (
+        await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM users WHERE email LIKE '%@harbourline.example'", {
+          type: QueryTypes.SELECT,
+        })
+      )[0].n;
     await seeder().up();
     expect(await demoUsers()).toBe(DEMO_ACCOUNTS.people.length);
     const seeded = (await seeder().executed()).map((m) => m.name);
@@ -71,12 +97,16 @@ describe("migrations and demo data", () => {
     await seeder().up();
     expect((await seeder().executed()).map((m) => m.name)).toEqual(seeded);
     expect(await demoUsers()).toBe(DEMO_ACCOUNTS.people.length);
-    const [plans] = await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM season_plans", { type: QueryTypes.SELECT });
+    const [plans] = await db().query<{ n: number }>("SELECT COUNT(*) AS n FROM season_plans", {
+      type: QueryTypes.SELECT,
+    });
     expect(plans.n).toBeGreaterThan(0);
   });
 
   it("rolls back one step on a seeded database and keeps the rows of the columns that stay", async () => {
-    const before = await db().query<{ id: number; email: string }>("SELECT id, email FROM users ORDER BY id", { type: QueryTypes.SELECT });
+    const before = await db().query<{ id: number; email: string }>("SELECT id, email FROM users ORDER BY id", {
+      type: QueryTypes.SELECT,
+    });
     const executed = (await migrator().executed()).map((m) => m.name);
     await rollback();
     expect((await migrator().executed()).map((m) => m.name)).toEqual(executed.slice(0, -1));

@@ -2,7 +2,18 @@ import type { Transaction } from "sequelize";
 import { describe, expect, it } from "vitest";
 import { dialect } from "~/.server/db";
 import { JOB_MAX_ATTEMPTS, jobBackoffMs, runDueJobs } from "~/.server/jobs";
-import { Assignment, Job, Listing, Order, OutboundEmail, PlanWeek, ScheduledSession, Session, SessionBlock, Threshold } from "~/.server/models";
+import {
+  Assignment,
+  Job,
+  Listing,
+  Order,
+  OutboundEmail,
+  PlanWeek,
+  ScheduledSession,
+  Session,
+  SessionBlock,
+  Threshold,
+} from "~/.server/models";
 import { applyBoardOp } from "~/.server/services/board";
 import { applyProviderEvent, ORDER_FOLLOW_UPS, resolveReview, runOrderFollowUps } from "~/.server/services/orders";
 import { createPlan } from "~/.server/services/plans";
@@ -12,32 +23,106 @@ import { makeUser } from "./helpers";
 /** A published listing of a four-week plan and a pending order for it, made directly (no provider involved). */
 async function pendingOrder() {
   const coach = await makeUser({ role: "coach", name: "Seller" });
-  const plan = await createPlan(coach.id, { name: "Sold", sport: "bike", description: "", alignment: "start", date: "2027-01-04", weeks: 4, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+  const plan = await createPlan(coach.id, {
+    name: "Sold",
+    sport: "bike",
+    description: "",
+    alignment: "start",
+    date: "2027-01-04",
+    weeks: 4,
+    weeklyHours: 8,
+    pattern: "3:1",
+    testEveryWeeks: 6,
+  });
   const s = await Session.create({ ownerId: coach.id, name: "Steady", sport: "bike" });
-  await SessionBlock.create({ sessionId: s.id, position: 0, kind: "steady", spec: { kind: "steady", durationS: 2400, target: { metric: "power", lowPct: 88, highPct: 92 } } });
-  for (const w of await PlanWeek.findAll({ where: { planId: plan.id } })) await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: 3, toIndex: 0 });
-  const listing = await Listing.create({ planId: plan.id, coachId: coach.id, slug: `sold-${plan.id}`, title: "Sold", description: "Four weeks.", sport: "bike", level: "intermediate", weeks: 4, weeklyHours: 8, priceCents: 4900, currency: "EUR", published: true });
+  await SessionBlock.create({
+    sessionId: s.id,
+    position: 0,
+    kind: "steady",
+    spec: { kind: "steady", durationS: 2400, target: { metric: "power", lowPct: 88, highPct: 92 } },
+  });
+  for (const w of await PlanWeek.findAll({ where: { planId: plan.id } }))
+    await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: 3, toIndex: 0 });
+  const listing = await Listing.create({
+    planId: plan.id,
+    coachId: coach.id,
+    slug: `sold-${plan.id}`,
+    title: "Sold",
+    description: "Four weeks.",
+    sport: "bike",
+    level: "intermediate",
+    weeks: 4,
+    weeklyHours: 8,
+    priceCents: 4900,
+    currency: "EUR",
+    published: true,
+  });
   const buyer = await makeUser({ role: "athlete", name: "Buyer" });
-  await Threshold.create({ athleteId: buyer.id, sport: "bike", metric: "power", value: 240, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
-  const order = await Order.create({ listingId: listing.id, buyerId: buyer.id, amountCents: 4900, currency: "EUR", alignMode: "start", alignDate: addDays(todayIn("UTC"), 7), checkoutSessionId: `cs_jobs_${plan.id}` });
+  await Threshold.create({
+    athleteId: buyer.id,
+    sport: "bike",
+    metric: "power",
+    value: 240,
+    unit: "W",
+    effectiveFrom: "2026-01-01",
+    source: "manual",
+  });
+  const order = await Order.create({
+    listingId: listing.id,
+    buyerId: buyer.id,
+    amountCents: 4900,
+    currency: "EUR",
+    alignMode: "start",
+    alignDate: addDays(todayIn("UTC"), 7),
+    checkoutSessionId: `cs_jobs_${plan.id}`,
+  });
   return { coach, buyer, order };
 }
 
 /** The provider's event for a payment (two event types report the same one) or a full refund of it. */
-function event(order: Order, type: "checkout.session.completed" | "payment_intent.succeeded" | "charge.refunded", id = `evt_${order.id}_${type}`) {
+function event(
+  order: Order,
+  type: "checkout.session.completed" | "payment_intent.succeeded" | "charge.refunded",
+  id = `evt_${order.id}_${type}`,
+) {
   const meta = { orderId: String(order.id) };
   const pi = `pi_jobs_${order.id}`;
   const object = {
-    "checkout.session.completed": { id: order.checkoutSessionId, object: "checkout.session", amount_total: 4900, currency: "eur", metadata: meta, payment_intent: pi, payment_status: "paid" },
-    "payment_intent.succeeded": { id: pi, object: "payment_intent", amount: 4900, amount_received: 4900, currency: "eur", metadata: meta },
-    "charge.refunded": { id: `ch_${order.id}`, object: "charge", payment_intent: pi, amount: 4900, amount_refunded: 4900, currency: "eur", metadata: meta, refunds: { data: [{ id: `re_${order.id}`, amount: 4900, status: "succeeded" }] } },
+    "checkout.session.completed": {
+      id: order.checkoutSessionId,
+      object: "checkout.session",
+      amount_total: 4900,
+      currency: "eur",
+      metadata: meta,
+      payment_intent: pi,
+      payment_status: "paid",
+    },
+    "payment_intent.succeeded": {
+      id: pi,
+      object: "payment_intent",
+      amount: 4900,
+      amount_received: 4900,
+      currency: "eur",
+      metadata: meta,
+    },
+    "charge.refunded": {
+      id: `ch_${order.id}`,
+      object: "charge",
+      payment_intent: pi,
+      amount: 4900,
+      amount_refunded: 4900,
+      currency: "eur",
+      metadata: meta,
+      refunds: { data: [{ id: `re_${order.id}`, amount: 4900, status: "succeeded" }] },
+    },
   }[type];
   const e = { id, type, created: Math.floor(Date.now() / 1000), data: { object } };
   return applyProviderEvent(e, JSON.stringify(e));
 }
 
 const placements = (buyerId: number) => Assignment.count({ where: { athleteId: buyerId } });
-const templates = async (to: string) => (await OutboundEmail.findAll({ where: { toAddress: to }, order: [["id", "ASC"]] })).map((m) => m.template);
+const templates = async (to: string) =>
+  (await OutboundEmail.findAll({ where: { toAddress: to }, order: [["id", "ASC"]] })).map((m) => m.template);
 const jobsOf = (orderId: number) => Job.findAll({ where: { orderId }, order: [["id", "ASC"]] });
 
 describe("webhook follow-ups as claimed jobs", () => {
@@ -45,10 +130,14 @@ describe("webhook follow-ups as claimed jobs", () => {
     const { buyer, order } = await pendingOrder();
     expect(await event(order, "checkout.session.completed")).toMatchObject({ status: "fulfilled" });
     expect(await placements(buyer.id)).toBe(0);
-    expect((await jobsOf(order.id)).map((j) => [j.kind, j.jobKey, j.status])).toEqual([["place", `order:${order.id}:place`, "pending"]]);
+    expect((await jobsOf(order.id)).map((j) => [j.kind, j.jobKey, j.status])).toEqual([
+      ["place", `order:${order.id}:place`, "pending"],
+    ]);
     expect(await runOrderFollowUps({ orderId: order.id })).toMatchObject({ done: 1, failed: 0, retried: 0 });
     expect(await placements(buyer.id)).toBe(1);
-    expect(await ScheduledSession.count({ where: { athleteId: buyer.id, status: "planned" } })).toBeGreaterThanOrEqual(4);
+    expect(await ScheduledSession.count({ where: { athleteId: buyer.id, status: "planned" } })).toBeGreaterThanOrEqual(
+      4,
+    );
     expect(await templates(buyer.email)).toEqual(["receipt"]);
     expect((await jobsOf(order.id))[0].status).toBe("done");
   });
@@ -70,7 +159,11 @@ describe("webhook follow-ups as claimed jobs", () => {
 
   it("one event delivered twice at the same moment is applied once; the other answer is a duplicate", async () => {
     const { buyer, order } = await pendingOrder();
-    const outcomes = (await Promise.all([event(order, "checkout.session.completed"), event(order, "checkout.session.completed")])).map((r) => r.outcome).sort();
+    const outcomes = (
+      await Promise.all([event(order, "checkout.session.completed"), event(order, "checkout.session.completed")])
+    )
+      .map((r) => r.outcome)
+      .sort();
     expect(outcomes).toEqual(["duplicate", "paid"].sort());
     expect(await jobsOf(order.id)).toHaveLength(1);
     await runOrderFollowUps({ orderId: order.id });
@@ -102,9 +195,13 @@ describe("webhook follow-ups as claimed jobs", () => {
       ...ORDER_FOLLOW_UPS,
       place: {
         async run(job: Job, t: Transaction) {
-          await Job.update({ nextAttemptAt: new Date(Date.now() - 1000) }, { where: { id: job.id }, transaction: pg ? undefined : t });
+          await Job.update(
+            { nextAttemptAt: new Date(Date.now() - 1000) },
+            { where: { id: job.id }, transaction: pg ? undefined : t },
+          );
           expired();
-          for (let i = 0; pg && i < 100 && (await Job.findByPk(job.id))!.attempts < 2; i++) await new Promise((r) => setTimeout(r, 50));
+          for (let i = 0; pg && i < 100 && (await Job.findByPk(job.id))!.attempts < 2; i++)
+            await new Promise((r) => setTimeout(r, 50));
           await ORDER_FOLLOW_UPS.place.run(job, t);
         },
       },
@@ -123,7 +220,14 @@ describe("webhook follow-ups as claimed jobs", () => {
     const { buyer, order } = await pendingOrder();
     await event(order, "checkout.session.completed");
     let failures = 2;
-    const flaky = { ...ORDER_FOLLOW_UPS, place: { ...ORDER_FOLLOW_UPS.place, run: async (...a: Parameters<(typeof ORDER_FOLLOW_UPS)["place"]["run"]>) => (failures-- > 0 ? Promise.reject(new Error("calendar store unavailable")) : ORDER_FOLLOW_UPS.place.run(...a)) } };
+    const flaky = {
+      ...ORDER_FOLLOW_UPS,
+      place: {
+        ...ORDER_FOLLOW_UPS.place,
+        run: async (...a: Parameters<(typeof ORDER_FOLLOW_UPS)["place"]["run"]>) =>
+          failures-- > 0 ? Promise.reject(new Error("calendar store unavailable")) : ORDER_FOLLOW_UPS.place.run(...a),
+      },
+    };
     for (let attempt = 1; attempt <= 2; attempt++) {
       const before = Date.now();
       expect(await runDueJobs(flaky, { orderId: order.id })).toMatchObject({ done: 0, retried: 1 });
@@ -146,16 +250,24 @@ describe("webhook follow-ups as claimed jobs", () => {
   it("after repeated failure the job is failed and the order waits for review; delivering then places it", async () => {
     const { buyer, coach, order } = await pendingOrder();
     await event(order, "checkout.session.completed");
-    const broken = { ...ORDER_FOLLOW_UPS, place: { ...ORDER_FOLLOW_UPS.place, run: () => Promise.reject(new Error("calendar store unavailable")) } };
+    const broken = {
+      ...ORDER_FOLLOW_UPS,
+      place: { ...ORDER_FOLLOW_UPS.place, run: () => Promise.reject(new Error("calendar store unavailable")) },
+    };
     for (let i = 0; i < JOB_MAX_ATTEMPTS; i++) {
       await runDueJobs(broken, { orderId: order.id });
-      await Job.update({ nextAttemptAt: new Date(Date.now() - 1000) }, { where: { orderId: order.id, status: "pending" } });
+      await Job.update(
+        { nextAttemptAt: new Date(Date.now() - 1000) },
+        { where: { orderId: order.id, status: "pending" } },
+      );
     }
     const [job] = await jobsOf(order.id);
     expect(job).toMatchObject({ kind: "place", status: "failed", attempts: JOB_MAX_ATTEMPTS });
     await order.reload();
     expect(order.status).toBe("needs_review");
-    expect(order.reviewReason).toMatch(/Placing the plan on the buyer's calendar failed 5 times \(calendar store unavailable\)/);
+    expect(order.reviewReason).toMatch(
+      /Placing the plan on the buyer's calendar failed 5 times \(calendar store unavailable\)/,
+    );
     await runOrderFollowUps({ orderId: order.id });
     expect(await templates(coach.email)).toEqual(["order-review"]);
     expect(await placements(buyer.id)).toBe(0);

@@ -12,12 +12,44 @@ async function scenario() {
   const rider = await makeUser({ role: "athlete", name: "Rider R" });
   const runner = await makeUser({ role: "athlete", name: "Runner N" });
   for (const a of [rider, runner]) await CoachAthlete.create({ coachId: coach.id, athleteId: a.id });
-  await Threshold.create({ athleteId: rider.id, sport: "bike", metric: "power", value: 250, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
-  await Threshold.create({ athleteId: runner.id, sport: "run", metric: "pace", value: 285, unit: "s/km", effectiveFrom: "2026-01-01", source: "manual" });
+  await Threshold.create({
+    athleteId: rider.id,
+    sport: "bike",
+    metric: "power",
+    value: 250,
+    unit: "W",
+    effectiveFrom: "2026-01-01",
+    source: "manual",
+  });
+  await Threshold.create({
+    athleteId: runner.id,
+    sport: "run",
+    metric: "pace",
+    value: 285,
+    unit: "s/km",
+    effectiveFrom: "2026-01-01",
+    source: "manual",
+  });
   // Each new plan puts a 20-minute test in its first week, so two plans from one Monday put two tests on one day.
-  const plan = (name: string) => createPlan(coach.id, { name, sport: "bike", description: "", alignment: "start", date: START, weeks: 4, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+  const plan = (name: string) =>
+    createPlan(coach.id, {
+      name,
+      sport: "bike",
+      description: "",
+      alignment: "start",
+      date: START,
+      weeks: 4,
+      weeklyHours: 8,
+      pattern: "3:1",
+      testEveryWeeks: 6,
+    });
   const cookie = await signIn(coach.email);
-  const post = (planId: number, fields: Record<string, string | string[]>) => run(assign.action, formRequest(`/coach/plans/${planId}/assign`, { mode: "start", date: START, ...fields }, { cookie }), { planId: String(planId) });
+  const post = (planId: number, fields: Record<string, string | string[]>) =>
+    run(
+      assign.action,
+      formRequest(`/coach/plans/${planId}/assign`, { mode: "start", date: START, ...fields }, { cookie }),
+      { planId: String(planId) },
+    );
   return { coach, rider, runner, plan, post };
 }
 const planned = (athleteId: number) => ScheduledSession.findAll({ where: { athleteId, status: "planned" } });
@@ -65,18 +97,28 @@ describe("assign checks sport and overlap before writing", () => {
     expect(payloadOf(refused).message).toMatch(/Two maximal tests/);
     expect(await planned(rider.id)).toHaveLength(fromA.length);
     // Replace without a date is a form error.
-    expect(statusOf(await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "replace", replaceFrom: "" }))).toBe(400);
+    expect(
+      statusOf(await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "replace", replaceFrom: "" })),
+    ).toBe(400);
 
     // Replace from the second week: week 1 of plan A stays, the rest gives way; the test clash in week 1 still needs a yes.
     const week2 = "2027-05-10";
-    expect(statusOf(await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "replace", replaceFrom: week2 }))).toBe(409);
+    expect(
+      statusOf(
+        await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "replace", replaceFrom: week2 }),
+      ),
+    ).toBe(409);
     // From the start: no clash is left, so no confirmation is needed.
-    const done = payloadOf(await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "replace", replaceFrom: START }));
+    const done = payloadOf(
+      await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "replace", replaceFrom: START }),
+    );
     expect(done.ok).toBe(true);
     expect(done.message).toMatch(/replaced/);
     const cancelled = await ScheduledSession.count({ where: { athleteId: rider.id, status: "cancelled" } });
     expect(cancelled).toBe(fromA.length);
-    const tests = await ScheduledSession.findAll({ where: { athleteId: rider.id, status: "planned", testProtocol: { [Op.ne]: null } } });
+    const tests = await ScheduledSession.findAll({
+      where: { athleteId: rider.id, status: "planned", testProtocol: { [Op.ne]: null } },
+    });
     expect(new Set(tests.map((t) => t.date)).size).toBe(tests.length);
   });
 
@@ -86,7 +128,9 @@ describe("assign checks sport and overlap before writing", () => {
     const b = await plan("Summer B");
     await post(a.id, { athleteIds: String(rider.id) });
     const before = (await planned(rider.id)).length;
-    const ok = payloadOf(await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "alongside", confirmTests: "on" }));
+    const ok = payloadOf(
+      await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "alongside", confirmTests: "on" }),
+    );
     expect(ok.ok).toBe(true);
     expect((await planned(rider.id)).length).toBe(before * 2);
   });

@@ -6,10 +6,21 @@ import { formRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpe
 
 async function scenario() {
   const coach = await makeUser({ role: "coach" });
-  const plan = await createPlan(coach.id, { name: "Weeks", sport: "bike", description: "", alignment: "start", date: "2027-02-01", weeks: 6, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+  const plan = await createPlan(coach.id, {
+    name: "Weeks",
+    sport: "bike",
+    description: "",
+    alignment: "start",
+    date: "2027-02-01",
+    weeks: 6,
+    weeklyHours: 8,
+    pattern: "3:1",
+    testEveryWeeks: 6,
+  });
   const weeks = await PlanWeek.findAll({ where: { planId: plan.id }, order: [["idx", "ASC"]] });
   const cookie = await signIn(coach.email);
-  const post = (fields: Record<string, string | string[]>, c = cookie) => run(planPage.action, formRequest(`/coach/plans/${plan.id}`, fields, { cookie: c }), { planId: String(plan.id) });
+  const post = (fields: Record<string, string | string[]>, c = cookie) =>
+    run(planPage.action, formRequest(`/coach/plans/${plan.id}`, fields, { cookie: c }), { planId: String(plan.id) });
   /** The whole table as the page sends it, with overrides per week id. */
   const table = (over: Record<string, string> = {}) => {
     const f: Record<string, string | string[]> = { intent: "weeks", weekId: weeks.map((w) => String(w.id)) };
@@ -25,7 +36,13 @@ async function scenario() {
   };
   return { plan, weeks, post, table };
 }
-const snapshot = async (planId: number) => (await PlanWeek.findAll({ where: { planId }, order: [["idx", "ASC"]] })).map((w) => [w.phase, w.plannedHours, w.loadFactor, w.notes]);
+const snapshot = async (planId: number) =>
+  (await PlanWeek.findAll({ where: { planId }, order: [["idx", "ASC"]] })).map((w) => [
+    w.phase,
+    w.plannedHours,
+    w.loadFactor,
+    w.notes,
+  ]);
 
 describe("editing weeks in one form", () => {
   it("saves every changed week with one request, and nothing at all while any field is wrong", async () => {
@@ -33,12 +50,19 @@ describe("editing weeks in one form", () => {
     const before = await snapshot(plan.id);
     const version = (await SeasonPlan.findByPk(plan.id))!.version;
     const [w1, w2, w3] = weeks;
-    const bad = await post(table({ [`plannedHours-${w1.id}`]: "9", [`plannedHours-${w3.id}`]: "-2", [`loadFactor-${w2.id}`]: "7" }));
+    const bad = await post(
+      table({ [`plannedHours-${w1.id}`]: "9", [`plannedHours-${w3.id}`]: "-2", [`loadFactor-${w2.id}`]: "7" }),
+    );
     expect(statusOf(bad)).toBe(400);
-    expect(payloadOf(bad).fieldErrors).toEqual({ [`plannedHours-${w3.id}`]: "Hours cannot be negative.", [`loadFactor-${w2.id}`]: "Use a load factor from 0.3 to 2." });
+    expect(payloadOf(bad).fieldErrors).toEqual({
+      [`plannedHours-${w3.id}`]: "Hours cannot be negative.",
+      [`loadFactor-${w2.id}`]: "Use a load factor from 0.3 to 2.",
+    });
     expect(await snapshot(plan.id)).toEqual(before);
 
-    const ok = payloadOf(await post(table({ [`plannedHours-${w1.id}`]: "9", [`phase-${w2.id}`]: "build", [`notes-${w3.id}`]: "Camp" })));
+    const ok = payloadOf(
+      await post(table({ [`plannedHours-${w1.id}`]: "9", [`phase-${w2.id}`]: "build", [`notes-${w3.id}`]: "Camp" })),
+    );
     expect(ok).toMatchObject({ ok: true, message: "Saved 3 changed weeks." });
     const after = await snapshot(plan.id);
     expect(after[0][1]).toBe(9);
@@ -51,7 +75,9 @@ describe("editing weeks in one form", () => {
   it("changes phase, hours and load factor for a run of weeks; empty fields keep their values", async () => {
     const { plan, post } = await scenario();
     const before = await snapshot(plan.id);
-    const res = payloadOf(await post({ intent: "range", fromWeek: "2", toWeek: "3", phase: "", plannedHours: "6.5", loadFactor: "0.9" }));
+    const res = payloadOf(
+      await post({ intent: "range", fromWeek: "2", toWeek: "3", phase: "", plannedHours: "6.5", loadFactor: "0.9" }),
+    );
     expect(res.ok).toBe(true);
     const after = await snapshot(plan.id);
     expect(after[1]).toEqual([before[1][0], 6.5, 0.9, before[1][3]]);
@@ -65,7 +91,13 @@ describe("editing weeks in one form", () => {
     const { plan, table } = await scenario();
     const other = await makeUser({ role: "coach" });
     const before = await snapshot(plan.id);
-    const res = await run(planPage.action, formRequest(`/coach/plans/${plan.id}`, table({}) as Record<string, string | string[]>, { cookie: await signIn(other.email) }), { planId: String(plan.id) });
+    const res = await run(
+      planPage.action,
+      formRequest(`/coach/plans/${plan.id}`, table({}) as Record<string, string | string[]>, {
+        cookie: await signIn(other.email),
+      }),
+      { planId: String(plan.id) },
+    );
     expect(statusOf(res)).toBe(404);
     expect(await snapshot(plan.id)).toEqual(before);
   });

@@ -25,13 +25,36 @@ async function rescaleGrid(metric: "power" | "pace", value: number) {
   for (const low of PCTS) {
     for (const high of [low, low + 2.5]) {
       await ScheduledBlock.create({
-        scheduledSessionId: session.id, athleteId: athlete.id, date: "2027-03-01", sport, position: position++, blockIndex: 0, kind: "steady", part: "work",
-        rep: null, repCount: null, durationS: 60, metric, lowPct: low, highPct: high, ramp: false, lowAbs: null, highAbs: null, unit: null, thresholdId: null, thresholdValue: null, cue: null, cadence: null,
+        scheduledSessionId: session.id,
+        athleteId: athlete.id,
+        date: "2027-03-01",
+        sport,
+        position: position++,
+        blockIndex: 0,
+        kind: "steady",
+        part: "work",
+        rep: null,
+        repCount: null,
+        durationS: 60,
+        metric,
+        lowPct: low,
+        highPct: high,
+        ramp: false,
+        lowAbs: null,
+        highAbs: null,
+        unit: null,
+        thresholdId: null,
+        thresholdValue: null,
+        cue: null,
+        cadence: null,
       });
     }
   }
   await writeTransaction((transaction) =>
-    applyThreshold({ athleteId: athlete.id, sport, metric, value, unit, from: "2027-01-01", fieldTestId: null, createdBy: null }, transaction),
+    applyThreshold(
+      { athleteId: athlete.id, sport, metric, value, unit, from: "2027-01-01", fieldTestId: null, createdBy: null },
+      transaction,
+    ),
   );
   return ScheduledBlock.findAll({ where: { scheduledSessionId: session.id }, order: [["position", "ASC"]] });
 }
@@ -43,11 +66,14 @@ describe(`rescale rounding on ${dialect()}`, () => {
         const rows = await rescaleGrid(metric, value);
         expect(rows).toHaveLength(PCTS.length * 2);
         const mismatches = rows.flatMap((b) => {
-          const direct = (pct: number) => (metric === "pace" ? Math.round(value / (pct / 100)) : Math.round((pct * value) / 100));
+          const direct = (pct: number) =>
+            metric === "pace" ? Math.round(value / (pct / 100)) : Math.round((pct * value) / 100);
           const engine = resolveTarget({ metric, lowPct: b.lowPct!, highPct: b.highPct! }, value);
           const expected = [direct(b.lowPct!), direct(b.highPct!)];
           expect([engine.low, engine.high]).toEqual(expected);
-          return b.lowAbs === expected[0] && b.highAbs === expected[1] ? [] : [`${b.lowPct}–${b.highPct} %: got ${b.lowAbs}–${b.highAbs}, want ${expected.join("–")}`];
+          return b.lowAbs === expected[0] && b.highAbs === expected[1]
+            ? []
+            : [`${b.lowPct}–${b.highPct} %: got ${b.lowAbs}–${b.highAbs}, want ${expected.join("–")}`];
         });
         expect(mismatches).toEqual([]);
         if (value === 361) {
@@ -59,8 +85,13 @@ describe(`rescale rounding on ${dialect()}`, () => {
     }
   }
 
-  it.runIf(dialect() === "postgres")("shows why: PostgreSQL's ROUND on double precision takes a half to even", async () => {
-    const [row] = await db().query<{ r: number }>("SELECT ROUND(CAST(180.5 AS DOUBLE PRECISION)) AS r", { type: QueryTypes.SELECT });
-    expect(Number(row.r)).toBe(180);
-  });
+  it.runIf(dialect() === "postgres")(
+    "shows why: PostgreSQL's ROUND on double precision takes a half to even",
+    async () => {
+      const [row] = await db().query<{ r: number }>("SELECT ROUND(CAST(180.5 AS DOUBLE PRECISION)) AS r", {
+        type: QueryTypes.SELECT,
+      });
+      expect(Number(row.r)).toBe(180);
+    },
+  );
 });

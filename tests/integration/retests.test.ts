@@ -13,15 +13,36 @@ describe("retest due dates and reminders", () => {
     await CoachAthlete.create({ coachId: coach.id, athleteId: athlete.id });
     const today = todayIn("UTC");
     expect(await retestStatus(athlete.id, today)).toMatchObject({ due: null });
-    await FieldTest.create({ athleteId: athlete.id, protocol: "twenty_minute", sport: "bike", metric: "power", inputs: {}, derived: {}, value: 250, unit: "W", testedOn: addDays(today, -40) });
+    await FieldTest.create({
+      athleteId: athlete.id,
+      protocol: "twenty_minute",
+      sport: "bike",
+      metric: "power",
+      inputs: {},
+      derived: {},
+      value: 250,
+      unit: "W",
+      testedOn: addDays(today, -40),
+    });
     expect((await retestStatus(athlete.id, today)).due).toBe(addDays(today, 2));
     const before = await OutboundEmail.count({ where: { toAddress: athlete.email, template: "retest-reminder" } });
     await sendRetestReminders();
     await sendRetestReminders();
-    expect(await OutboundEmail.count({ where: { toAddress: athlete.email, template: "retest-reminder" } })).toBe(before + 1);
+    expect(await OutboundEmail.count({ where: { toAddress: athlete.email, template: "retest-reminder" } })).toBe(
+      before + 1,
+    );
 
-    await ScheduledSession.create({ athleteId: athlete.id, date: addDays(today, 10), name: "20-minute field test", sport: "bike", testProtocol: "twenty_minute" });
-    expect(await retestStatus(athlete.id, today)).toMatchObject({ due: addDays(today, 10), why: expect.stringMatching(/test week/) });
+    await ScheduledSession.create({
+      athleteId: athlete.id,
+      date: addDays(today, 10),
+      name: "20-minute field test",
+      sport: "bike",
+      testProtocol: "twenty_minute",
+    });
+    expect(await retestStatus(athlete.id, today)).toMatchObject({
+      due: addDays(today, 10),
+      why: expect.stringMatching(/test week/),
+    });
 
     const list = payloadOf(await run(roster.loader, getRequest("/coach", await signIn(coach.email))));
     expect(list.athletes[0].retest).toMatchObject({ due: addDays(today, 10), lastTest: addDays(today, -40) });

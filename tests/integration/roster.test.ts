@@ -19,13 +19,46 @@ describe("roster read set-based", () => {
     const zones = ["UTC", "Pacific/Auckland", "America/Los_Angeles", "Europe/Madrid"];
     const athletes = [];
     for (let i = 0; i < 8; i++) {
-      const a = await makeUser({ role: "athlete", timezone: zones[i % zones.length], name: `Roster ${String.fromCharCode(72 - i)}` });
+      const a = await makeUser({
+        role: "athlete",
+        timezone: zones[i % zones.length],
+        name: `Roster ${String.fromCharCode(72 - i)}`,
+      });
       await CoachAthlete.create({ coachId: coach.id, athleteId: a.id });
       athletes.push(a);
       const today = todayIn(a.timezone);
-      if (i % 2 === 0) await Threshold.create({ athleteId: a.id, sport: "bike", metric: "power", value: 230 + i, unit: "W", effectiveFrom: addDays(today, -40), source: "manual" });
-      if (i % 3 === 0) await Threshold.create({ athleteId: a.id, sport: "bike", metric: "power", value: 260 + i, unit: "W", effectiveFrom: addDays(today, 5), source: "manual" });
-      if (i % 4 === 1) await FieldTest.create({ athleteId: a.id, protocol: "ftp20", sport: "bike", metric: "power", inputs: {}, value: 250, unit: "W", testedOn: addDays(today, -10 - i), status: "active" } as never);
+      if (i % 2 === 0)
+        await Threshold.create({
+          athleteId: a.id,
+          sport: "bike",
+          metric: "power",
+          value: 230 + i,
+          unit: "W",
+          effectiveFrom: addDays(today, -40),
+          source: "manual",
+        });
+      if (i % 3 === 0)
+        await Threshold.create({
+          athleteId: a.id,
+          sport: "bike",
+          metric: "power",
+          value: 260 + i,
+          unit: "W",
+          effectiveFrom: addDays(today, 5),
+          source: "manual",
+        });
+      if (i % 4 === 1)
+        await FieldTest.create({
+          athleteId: a.id,
+          protocol: "ftp20",
+          sport: "bike",
+          metric: "power",
+          inputs: {},
+          value: 250,
+          unit: "W",
+          testedOn: addDays(today, -10 - i),
+          status: "active",
+        } as never);
       const days = i === 7 ? 0 : 20 + i * 10;
       for (let d = 0; d < days; d++) {
         await ScheduledSession.create({
@@ -49,7 +82,15 @@ describe("roster read set-based", () => {
       const row = roster.athletes.find((r) => r.id === a.id)!;
       const today = todayIn(a.timezone);
       expect(row.today).toBe(today);
-      expect(row.thresholds).toEqual((await currentThresholds(a.id, today)).map((t) => ({ sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, since: t.effectiveFrom })));
+      expect(row.thresholds).toEqual(
+        (await currentThresholds(a.id, today)).map((t) => ({
+          sport: t.sport,
+          metric: t.metric,
+          value: t.value,
+          unit: t.unit,
+          since: t.effectiveFrom,
+        })),
+      );
       expect(row.retest).toEqual(await retestStatus(a.id, today));
       expect(row.load).toEqual(await rosterLoad(a));
     }

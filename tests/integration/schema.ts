@@ -6,9 +6,15 @@ const q = <T extends object>(sql: string) => db().query<T>(sql, { type: QueryTyp
 
 export async function tableNames(): Promise<string[]> {
   if (dialect() === "postgres") {
-    return (await q<{ name: string }>("SELECT tablename AS name FROM pg_tables WHERE schemaname = current_schema() ORDER BY tablename")).map((r) => r.name);
+    return (
+      await q<{ name: string }>(
+        "SELECT tablename AS name FROM pg_tables WHERE schemaname = current_schema() ORDER BY tablename",
+      )
+    ).map((r) => r.name);
   }
-  return (await q<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%'")).map((r) => r.name);
+  return (
+    await q<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%'")
+  ).map((r) => r.name);
 }
 
 /** `table.column` for every foreign-key column that no index leads. */
@@ -33,7 +39,8 @@ export async function unindexedForeignKeys(): Promise<string[]> {
       if (first) leading.add(first.name);
     }
     // An INTEGER PRIMARY KEY is the table's own index.
-    for (const col of await q<{ name: string; pk: number }>(`PRAGMA table_info("${table}")`)) if (col.pk === 1) leading.add(col.name);
+    for (const col of await q<{ name: string; pk: number }>(`PRAGMA table_info("${table}")`))
+      if (col.pk === 1) leading.add(col.name);
     for (const fk of fks.filter((f) => f.seq === 0)) if (!leading.has(fk.from)) missing.push(`${table}.${fk.from}`);
   }
   return missing.sort();
@@ -42,14 +49,20 @@ export async function unindexedForeignKeys(): Promise<string[]> {
 /** A trigger that aborts every update of `column` on `table` where `when` (an SQL condition on NEW) holds. */
 export async function injectUpdateFault(name: string, table: string, column: string, when: string, message: string) {
   if (dialect() === "postgres") {
-    await db().query(`CREATE FUNCTION ${name}() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN IF ${when} THEN RAISE EXCEPTION '${message}'; END IF; RETURN NEW; END $$`);
-    await db().query(`CREATE TRIGGER ${name} BEFORE UPDATE OF ${column} ON ${table} FOR EACH ROW EXECUTE FUNCTION ${name}()`);
+    await db().query(
+      `CREATE FUNCTION ${name}() RETURNS trigger LANGUAGE plpgsql AS $$ BEGIN IF ${when} THEN RAISE EXCEPTION '${message}'; END IF; RETURN NEW; END $$`,
+    );
+    await db().query(
+      `CREATE TRIGGER ${name} BEFORE UPDATE OF ${column} ON ${table} FOR EACH ROW EXECUTE FUNCTION ${name}()`,
+    );
     return async () => {
       await db().query(`DROP TRIGGER ${name} ON ${table}`);
       await db().query(`DROP FUNCTION ${name}()`);
     };
   }
-  await db().query(`CREATE TRIGGER ${name} BEFORE UPDATE OF ${column} ON ${table} WHEN ${when} BEGIN SELECT RAISE(ABORT, '${message}'); END;`);
+  await db().query(
+    `CREATE TRIGGER ${name} BEFORE UPDATE OF ${column} ON ${table} WHEN ${when} BEGIN SELECT RAISE(ABORT, '${message}'); END;`,
+  );
   return async () => {
     await db().query(`DROP TRIGGER ${name}`);
   };

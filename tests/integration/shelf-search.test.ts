@@ -8,7 +8,13 @@ const blocks = [{ kind: "steady", durationS: 1200, target: { metric: "power", lo
 describe("shelf search", () => {
   it("matches %, _ and \\ literally", async () => {
     const coach = await makeUser({ role: "coach" });
-    for (const name of ["Over-unders at 105% and 95%", "Over-unders at 105 and 95", "tempo_long", "tempoXlong", "Hills \\ flats"]) {
+    for (const name of [
+      "Over-unders at 105% and 95%",
+      "Over-unders at 105 and 95",
+      "tempo_long",
+      "tempoXlong",
+      "Hills \\ flats",
+    ]) {
       await createSession(coach.id, sessionSchema.parse({ name, sport: "bike", blocks }));
     }
     const names = async (q: string) => (await listSessions(coach.id, { q })).map((s) => s.name);

@@ -5,7 +5,19 @@ import { Op } from "sequelize";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { resetEnvCache } from "~/.server/env";
 import { startFakePayments, TEST_CARDS } from "~/.server/fakes/payments";
-import { Listing, OutboundEmail, Order, PaymentEvent, PlanWeek, ScheduledBlock, ScheduledSession, Session, SessionBlock, Threshold, type User } from "~/.server/models";
+import {
+  Listing,
+  OutboundEmail,
+  Order,
+  PaymentEvent,
+  PlanWeek,
+  ScheduledBlock,
+  ScheduledSession,
+  Session,
+  SessionBlock,
+  Threshold,
+  type User,
+} from "~/.server/models";
 import { applyBoardOp } from "~/.server/services/board";
 import { assignPlan } from "~/.server/services/materialize";
 import { deriveStatus, runOrderFollowUps } from "~/.server/services/orders";
@@ -34,7 +46,15 @@ const freePort = () =>
 
 /** The webhook route's answer; then the follow-ups it enqueued run, as an app instance's prompt runner does. */
 const post = async (body: string, signature: string | null) => {
-  const res = (await webhook.action({ request: new Request("http://localhost:3999/webhooks/payments", { method: "POST", body, headers: signature === null ? {} : { "stripe-signature": signature } }), params: {}, context: {} } as never)) as Response;
+  const res = (await webhook.action({
+    request: new Request("http://localhost:3999/webhooks/payments", {
+      method: "POST",
+      body,
+      headers: signature === null ? {} : { "stripe-signature": signature },
+    }),
+    params: {},
+    context: {},
+  } as never)) as Response;
   await runOrderFollowUps();
   return res;
 };
@@ -53,7 +73,11 @@ beforeAll(async () => {
   process.env.STRIPE_WEBHOOK_SECRET = SECRET;
   process.env.PORT = "3999";
   resetEnvCache();
-  fake = await startFakePayments({ port, webhookUrl: `http://127.0.0.1:${(forwarder.address() as net.AddressInfo).port}/`, webhookSecret: SECRET });
+  fake = await startFakePayments({
+    port,
+    webhookUrl: `http://127.0.0.1:${(forwarder.address() as net.AddressInfo).port}/`,
+    webhookSecret: SECRET,
+  });
 });
 afterAll(async () => {
   await fake?.settle();
@@ -64,36 +88,100 @@ afterAll(async () => {
 async function shopScenario(price = "49.00") {
   const coach = await makeUser({ role: "coach", name: "Seller Coach" });
   const coachCookie = await signIn(coach.email);
-  const plan = await createPlan(coach.id, { name: "Sold plan", sport: "bike", description: "", alignment: "start", date: "2027-01-04", weeks: 4, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
+  const plan = await createPlan(coach.id, {
+    name: "Sold plan",
+    sport: "bike",
+    description: "",
+    alignment: "start",
+    date: "2027-01-04",
+    weeks: 4,
+    weeklyHours: 8,
+    pattern: "3:1",
+    testEveryWeeks: 6,
+  });
   const s = await Session.create({ ownerId: coach.id, name: "Sweet spot", sport: "bike" });
-  await SessionBlock.create({ sessionId: s.id, position: 0, kind: "steady", spec: { kind: "steady", durationS: 2400, target: { metric: "power", lowPct: 88, highPct: 92 } } });
-  for (const w of await PlanWeek.findAll({ where: { planId: plan.id } })) await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: 3, toIndex: 0 });
-  const created = await run(coachShop.action, formRequest("/coach/shop", { intent: "create", planId: String(plan.id), title: "Winter base block", description: "Four weeks of steady work.", level: "intermediate", price, currency: "EUR" }, { cookie: coachCookie }));
+  await SessionBlock.create({
+    sessionId: s.id,
+    position: 0,
+    kind: "steady",
+    spec: { kind: "steady", durationS: 2400, target: { metric: "power", lowPct: 88, highPct: 92 } },
+  });
+  for (const w of await PlanWeek.findAll({ where: { planId: plan.id } }))
+    await applyBoardOp(coach.id, plan.id, { op: "copy", sessionId: s.id, toWeek: w.id, toDay: 3, toIndex: 0 });
+  const created = await run(
+    coachShop.action,
+    formRequest(
+      "/coach/shop",
+      {
+        intent: "create",
+        planId: String(plan.id),
+        title: "Winter base block",
+        description: "Four weeks of steady work.",
+        level: "intermediate",
+        price,
+        currency: "EUR",
+      },
+      { cookie: coachCookie },
+    ),
+  );
   expect(payloadOf(created).ok).toBe(true);
   const listing = (await Listing.findOne({ where: { planId: plan.id } }))!;
-  await run(coachShop.action, formRequest("/coach/shop", { intent: "publish", listingId: String(listing.id) }, { cookie: coachCookie }));
+  await run(
+    coachShop.action,
+    formRequest("/coach/shop", { intent: "publish", listingId: String(listing.id) }, { cookie: coachCookie }),
+  );
   const buyer = await makeUser({ role: "athlete", name: "Buyer B" });
-  await Threshold.create({ athleteId: buyer.id, sport: "bike", metric: "power", value: 240, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
+  await Threshold.create({
+    athleteId: buyer.id,
+    sport: "bike",
+    metric: "power",
+    value: 240,
+    unit: "W",
+    effectiveFrom: "2026-01-01",
+    source: "manual",
+  });
   const buyerCookie = await signIn(buyer.email);
   return { coach, coachCookie, listing, plan, buyer, buyerCookie };
 }
 
-async function checkout(slug: string, cookie: string, date = addDays(todayIn("UTC"), 7), extra: Record<string, string> = {}, base = "http://localhost:3999") {
+async function checkout(
+  slug: string,
+  cookie: string,
+  date = addDays(todayIn("UTC"), 7),
+  extra: Record<string, string> = {},
+  base = "http://localhost:3999",
+) {
   const req = formRequest(`/shop/${slug}`, { mode: "start", date, ...extra }, { cookie });
-  const res = await run(listingPage.action, new Request(base + `/shop/${slug}`, { method: "POST", body: await req.text(), headers: req.headers }), { slug });
+  const res = await run(
+    listingPage.action,
+    new Request(base + `/shop/${slug}`, { method: "POST", body: await req.text(), headers: req.headers }),
+    { slug },
+  );
   expect(statusOf(res)).toBe(302);
   const url = (res as Response).headers.get("location")!;
   expect(url).toMatch(/\/pay\/cs_test_/);
   return url;
 }
 
-const pay = (url: string, fields: Record<string, string>) => fetch(url, { method: "POST", body: new URLSearchParams(fields), redirect: "manual" });
+const pay = (url: string, fields: Record<string, string>) =>
+  fetch(url, { method: "POST", body: new URLSearchParams(fields), redirect: "manual" });
 const planned = (athleteId: number) => ScheduledSession.count({ where: { athleteId, status: "planned" } });
-const mails = async (...people: User[]) => (await OutboundEmail.findAll({ where: { toAddress: people.map((p) => p.email) }, order: [["id", "ASC"]] })).map((m) => m.template);
+const mails = async (...people: User[]) =>
+  (await OutboundEmail.findAll({ where: { toAddress: people.map((p) => p.email) }, order: [["id", "ASC"]] })).map(
+    (m) => m.template,
+  );
 
 /* ---------- table-driven provider event sequences ---------- */
 
-type Step = { type: string; at: number; key?: string; amount?: number; pi?: string; refund?: { id: string; amount: number }; meta?: boolean };
+type Step = {
+  type: string;
+  at: number;
+  key?: string;
+  amount?: number;
+  pi?: string;
+  refund?: { id: string; amount: number };
+  meta?: boolean;
+};
 type Ctx = { order: Order; sessionId: string };
 
 /** A provider event as the real service shapes it, for one order; `at` is the provider's clock (seconds). */
@@ -101,16 +189,56 @@ function eventFor(ctx: Ctx, step: Step, t0: number) {
   const meta = { orderId: String(ctx.order.id) };
   const pi = step.pi ?? `pi_${ctx.order.id}_one`;
   const amount = step.amount ?? ctx.order.amountCents;
-  const session = { id: ctx.sessionId, object: "checkout.session", amount_total: amount, currency: "eur", metadata: meta, payment_intent: pi, payment_status: "paid" };
+  const session = {
+    id: ctx.sessionId,
+    object: "checkout.session",
+    amount_total: amount,
+    currency: "eur",
+    metadata: meta,
+    payment_intent: pi,
+    payment_status: "paid",
+  };
   const objects: Record<string, unknown> = {
     "checkout.session.completed": session,
     "checkout.session.async_payment_failed": { ...session, payment_intent: null, payment_status: "unpaid" },
     "checkout.session.expired": { ...session, payment_intent: null, payment_status: "unpaid" },
-    "payment_intent.succeeded": { id: pi, object: "payment_intent", amount, amount_received: amount, currency: "eur", metadata: meta },
-    "charge.refunded": { id: `ch_${ctx.order.id}`, object: "charge", payment_intent: pi, amount, amount_refunded: step.refund?.amount ?? amount, currency: "eur", metadata: step.meta ? meta : {}, refunds: { data: [{ id: step.refund?.id ?? `re_${ctx.order.id}`, amount: step.refund?.amount ?? amount, status: "succeeded" }] } },
-    "charge.dispute.created": { id: `dp_${ctx.order.id}`, object: "dispute", payment_intent: pi, amount, currency: "eur" },
+    "payment_intent.succeeded": {
+      id: pi,
+      object: "payment_intent",
+      amount,
+      amount_received: amount,
+      currency: "eur",
+      metadata: meta,
+    },
+    "charge.refunded": {
+      id: `ch_${ctx.order.id}`,
+      object: "charge",
+      payment_intent: pi,
+      amount,
+      amount_refunded: step.refund?.amount ?? amount,
+      currency: "eur",
+      metadata: step.meta ? meta : {},
+      refunds: {
+        data: [
+          { id: step.refund?.id ?? `re_${ctx.order.id}`, amount: step.refund?.amount ?? amount, status: "succeeded" },
+        ],
+      },
+    },
+    "charge.dispute.created": {
+      id: `dp_${ctx.order.id}`,
+      object: "dispute",
+      payment_intent: pi,
+      amount,
+      currency: "eur",
+    },
   };
-  return { id: `evt_${ctx.order.id}_${step.key ?? `${step.type}_${step.at}`}`, object: "event", type: step.type, created: t0 + step.at, data: { object: objects[step.type] } };
+  return {
+    id: `evt_${ctx.order.id}_${step.key ?? `${step.type}_${step.at}`}`,
+    object: "event",
+    type: step.type,
+    created: t0 + step.at,
+    data: { object: objects[step.type] },
+  };
 }
 
 async function deliverSigned(event: object, opts: { unsigned?: boolean } = {}) {
@@ -123,25 +251,143 @@ const DECLINED: Step = { type: "checkout.session.async_payment_failed", at: 1 };
 const EXPIRED: Step = { type: "checkout.session.expired", at: 1 };
 const REFUNDED: Step = { type: "charge.refunded", at: 5 };
 
-const SEQUENCES: { name: string; steps: Step[]; status: string; sessions: "placed" | "none"; buyerMails: string[]; coachMails?: string[]; unsigned?: boolean; reason?: RegExp }[] = [
+const SEQUENCES: {
+  name: string;
+  steps: Step[];
+  status: string;
+  sessions: "placed" | "none";
+  buyerMails: string[];
+  coachMails?: string[];
+  unsigned?: boolean;
+  reason?: RegExp;
+}[] = [
   { name: "paid", steps: [PAID], status: "fulfilled", sessions: "placed", buyerMails: ["receipt"] },
-  { name: "declined, then paid on the same page (retry)", steps: [DECLINED, PAID], status: "fulfilled", sessions: "placed", buyerMails: ["receipt"] },
-  { name: "retry delivered reversed (payment before the decline)", steps: [PAID, DECLINED], status: "fulfilled", sessions: "placed", buyerMails: ["receipt"] },
-  { name: "payment delivered twice (same event id)", steps: [PAID, PAID], status: "fulfilled", sessions: "placed", buyerMails: ["receipt"] },
-  { name: "one payment reported by two event types", steps: [PAID, { type: "payment_intent.succeeded", at: 2 }], status: "fulfilled", sessions: "placed", buyerMails: ["receipt"] },
-  { name: "paid, then refunded at the provider", steps: [PAID, REFUNDED], status: "refunded", sessions: "none", buyerMails: ["receipt", "refund-notice"] },
-  { name: "refund delivered before the payment (reversed)", steps: [REFUNDED, PAID], status: "refunded", sessions: "none", buyerMails: ["refund-notice"] },
-  { name: "refund naming the order delivered before the payment", steps: [{ ...REFUNDED, meta: true }, PAID], status: "refunded", sessions: "none", buyerMails: ["refund-notice"], coachMails: ["order-review"] },
-  { name: "refund duplicated (same event, and a new event for the same refund)", steps: [PAID, REFUNDED, REFUNDED, { ...REFUNDED, key: "again" }], status: "refunded", sessions: "none", buyerMails: ["receipt", "refund-notice"] },
-  { name: "partial refund", steps: [PAID, { ...REFUNDED, refund: { id: "re_half", amount: 2450 } }], status: "needs_review", sessions: "placed", buyerMails: ["receipt"], coachMails: ["order-review"], reason: /Partly refunded/ },
+  {
+    name: "declined, then paid on the same page (retry)",
+    steps: [DECLINED, PAID],
+    status: "fulfilled",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+  },
+  {
+    name: "retry delivered reversed (payment before the decline)",
+    steps: [PAID, DECLINED],
+    status: "fulfilled",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+  },
+  {
+    name: "payment delivered twice (same event id)",
+    steps: [PAID, PAID],
+    status: "fulfilled",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+  },
+  {
+    name: "one payment reported by two event types",
+    steps: [PAID, { type: "payment_intent.succeeded", at: 2 }],
+    status: "fulfilled",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+  },
+  {
+    name: "paid, then refunded at the provider",
+    steps: [PAID, REFUNDED],
+    status: "refunded",
+    sessions: "none",
+    buyerMails: ["receipt", "refund-notice"],
+  },
+  {
+    name: "refund delivered before the payment (reversed)",
+    steps: [REFUNDED, PAID],
+    status: "refunded",
+    sessions: "none",
+    buyerMails: ["refund-notice"],
+  },
+  {
+    name: "refund naming the order delivered before the payment",
+    steps: [{ ...REFUNDED, meta: true }, PAID],
+    status: "refunded",
+    sessions: "none",
+    buyerMails: ["refund-notice"],
+    coachMails: ["order-review"],
+  },
+  {
+    name: "refund duplicated (same event, and a new event for the same refund)",
+    steps: [PAID, REFUNDED, REFUNDED, { ...REFUNDED, key: "again" }],
+    status: "refunded",
+    sessions: "none",
+    buyerMails: ["receipt", "refund-notice"],
+  },
+  {
+    name: "partial refund",
+    steps: [PAID, { ...REFUNDED, refund: { id: "re_half", amount: 2450 } }],
+    status: "needs_review",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+    coachMails: ["order-review"],
+    reason: /Partly refunded/,
+  },
   { name: "checkout expired", steps: [EXPIRED], status: "expired", sessions: "none", buyerMails: [] },
-  { name: "paid after the checkout expired", steps: [EXPIRED, PAID], status: "needs_review", sessions: "none", buyerMails: [], coachMails: ["order-review"], reason: /after the checkout had expired/ },
-  { name: "paid after expiry, delivered reversed", steps: [PAID, EXPIRED], status: "needs_review", sessions: "placed", buyerMails: ["receipt"], coachMails: ["order-review"], reason: /after the checkout had expired/ },
-  { name: "an expiry stamped after the payment is stale", steps: [PAID, { ...EXPIRED, at: 9 }], status: "fulfilled", sessions: "placed", buyerMails: ["receipt"] },
-  { name: "declined twice, then the checkout expired", steps: [DECLINED, { ...DECLINED, at: 2 }, { ...EXPIRED, at: 3 }], status: "expired", sessions: "none", buyerMails: [] },
-  { name: "tampered amount", steps: [{ ...PAID, amount: 100 }], status: "needs_review", sessions: "none", buyerMails: [], coachMails: ["order-review"], reason: /Paid €1.00, expected €49.00/ },
-  { name: "a second, different payment for the same order", steps: [PAID, { ...PAID, at: 3, pi: "pi_other" }], status: "needs_review", sessions: "placed", buyerMails: ["receipt"], coachMails: ["order-review"], reason: /paid twice/ },
-  { name: "dispute after payment", steps: [PAID, { type: "charge.dispute.created", at: 8 }], status: "needs_review", sessions: "placed", buyerMails: ["receipt"], coachMails: ["order-review"], reason: /disputed/ },
+  {
+    name: "paid after the checkout expired",
+    steps: [EXPIRED, PAID],
+    status: "needs_review",
+    sessions: "none",
+    buyerMails: [],
+    coachMails: ["order-review"],
+    reason: /after the checkout had expired/,
+  },
+  {
+    name: "paid after expiry, delivered reversed",
+    steps: [PAID, EXPIRED],
+    status: "needs_review",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+    coachMails: ["order-review"],
+    reason: /after the checkout had expired/,
+  },
+  {
+    name: "an expiry stamped after the payment is stale",
+    steps: [PAID, { ...EXPIRED, at: 9 }],
+    status: "fulfilled",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+  },
+  {
+    name: "declined twice, then the checkout expired",
+    steps: [DECLINED, { ...DECLINED, at: 2 }, { ...EXPIRED, at: 3 }],
+    status: "expired",
+    sessions: "none",
+    buyerMails: [],
+  },
+  {
+    name: "tampered amount",
+    steps: [{ ...PAID, amount: 100 }],
+    status: "needs_review",
+    sessions: "none",
+    buyerMails: [],
+    coachMails: ["order-review"],
+    reason: /Paid €1.00, expected €49.00/,
+  },
+  {
+    name: "a second, different payment for the same order",
+    steps: [PAID, { ...PAID, at: 3, pi: "pi_other" }],
+    status: "needs_review",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+    coachMails: ["order-review"],
+    reason: /paid twice/,
+  },
+  {
+    name: "dispute after payment",
+    steps: [PAID, { type: "charge.dispute.created", at: 8 }],
+    status: "needs_review",
+    sessions: "placed",
+    buyerMails: ["receipt"],
+    coachMails: ["order-review"],
+    reason: /disputed/,
+  },
   { name: "unsigned payment", steps: [PAID], unsigned: true, status: "created", sessions: "none", buyerMails: [] },
 ];
 
@@ -153,7 +399,9 @@ describe("provider event sequences end in one state, whatever their order", () =
       const order = (await Order.findOne({ where: { buyerId: buyer.id } }))!;
       const t0 = Math.floor(Date.now() / 1000);
       for (const step of row.steps) {
-        const res = await deliverSigned(eventFor({ order, sessionId: order.checkoutSessionId! }, step, t0), { unsigned: row.unsigned });
+        const res = await deliverSigned(eventFor({ order, sessionId: order.checkoutSessionId! }, step, t0), {
+          unsigned: row.unsigned,
+        });
         expect(res.status).toBe(row.unsigned ? 400 : 200);
       }
       await order.reload();
@@ -164,7 +412,11 @@ describe("provider event sequences end in one state, whatever their order", () =
       expect(await mails(buyer)).toEqual(row.buyerMails);
       expect(await mails(coach)).toEqual(row.coachMails ?? []);
       // Replaying the whole sequence changes nothing more: every event id is known.
-      for (const step of row.steps) if (!row.unsigned) expect(await (await deliverSigned(eventFor({ order, sessionId: order.checkoutSessionId! }, step, t0))).json()).toMatchObject({ outcome: "duplicate" });
+      for (const step of row.steps)
+        if (!row.unsigned)
+          expect(
+            await (await deliverSigned(eventFor({ order, sessionId: order.checkoutSessionId! }, step, t0))).json(),
+          ).toMatchObject({ outcome: "duplicate" });
       await order.reload();
       expect(order.status).toBe(row.status);
       expect(await mails(buyer)).toEqual(row.buyerMails);
@@ -176,13 +428,29 @@ describe("provider event sequences end in one state, whatever their order", () =
     await checkout(a.listing.slug, a.buyerCookie);
     const orderA = (await Order.findOne({ where: { buyerId: a.buyer.id } }))!;
     const bBuyer = await makeUser({ role: "athlete", name: "Second Buyer" });
-    await Threshold.create({ athleteId: bBuyer.id, sport: "bike", metric: "power", value: 200, unit: "W", effectiveFrom: "2026-01-01", source: "manual" });
+    await Threshold.create({
+      athleteId: bBuyer.id,
+      sport: "bike",
+      metric: "power",
+      value: 200,
+      unit: "W",
+      effectiveFrom: "2026-01-01",
+      source: "manual",
+    });
     await checkout(a.listing.slug, await signIn(bBuyer.email));
     const orderB = (await Order.findOne({ where: { buyerId: bBuyer.id } }))!;
     const t0 = Math.floor(Date.now() / 1000);
     const A = { order: orderA, sessionId: orderA.checkoutSessionId! };
     const B = { order: orderB, sessionId: orderB.checkoutSessionId! };
-    for (const [ctx, step] of [[A, PAID], [B, DECLINED], [A, REFUNDED], [B, PAID], [A, PAID], [B, DECLINED]] as const) expect((await deliverSigned(eventFor(ctx, step, t0))).status).toBe(200);
+    for (const [ctx, step] of [
+      [A, PAID],
+      [B, DECLINED],
+      [A, REFUNDED],
+      [B, PAID],
+      [A, PAID],
+      [B, DECLINED],
+    ] as const)
+      expect((await deliverSigned(eventFor(ctx, step, t0))).status).toBe(200);
     await orderA.reload();
     await orderB.reload();
     expect([orderA.status, orderB.status]).toEqual(["refunded", "fulfilled"]);
@@ -198,13 +466,24 @@ describe("provider event sequences end in one state, whatever their order", () =
     expect(await res.json()).toMatchObject({ outcome: "no-order" });
     const admin = await makeUser({ role: "admin" });
     const page = payloadOf(await run(coachShop.loader, getRequest("/coach/shop", await signIn(admin.email))));
-    expect(page.unmatched.map((e: { providerEventId: string }) => e.providerEventId)).toContain("evt_987654_checkout.session.completed_2");
+    expect(page.unmatched.map((e: { providerEventId: string }) => e.providerEventId)).toContain(
+      "evt_987654_checkout.session.completed_2",
+    );
     const coach = await makeUser({ role: "coach" });
-    expect(payloadOf(await run(coachShop.loader, getRequest("/coach/shop", await signIn(coach.email)))).unmatched).toEqual([]);
+    expect(
+      payloadOf(await run(coachShop.loader, getRequest("/coach/shop", await signIn(coach.email)))).unmatched,
+    ).toEqual([]);
   });
 
   it("the state follows from the facts alone (the machine's table)", () => {
-    const base = { amountCents: 4900, paidCents: null, refundedCents: 0, reviewReason: null, expiredAt: null, declinedCount: 0 };
+    const base = {
+      amountCents: 4900,
+      paidCents: null,
+      refundedCents: 0,
+      reviewReason: null,
+      expiredAt: null,
+      declinedCount: 0,
+    };
     expect(deriveStatus(base)).toBe("created");
     expect(deriveStatus({ ...base, declinedCount: 2 })).toBe("declined");
     expect(deriveStatus({ ...base, declinedCount: 2, paidCents: 4900 })).toBe("fulfilled");
@@ -233,7 +512,9 @@ describe("plan shop against the local payment provider", () => {
     expect(block).toMatchObject({ lowAbs: Math.round((88 * 240) / 100), highAbs: Math.round((92 * 240) / 100) });
     const receipt = await OutboundEmail.findOne({ where: { toAddress: buyer.email, template: "receipt" } });
     expect(receipt!.textBody).toContain("€49.00");
-    const page = payloadOf(await run(orderPage.loader, getRequest(`/shop/orders/${order.id}`, buyerCookie), { orderId: String(order.id) }));
+    const page = payloadOf(
+      await run(orderPage.loader, getRequest(`/shop/orders/${order.id}`, buyerCookie), { orderId: String(order.id) }),
+    );
     expect(page.order.status).toBe("fulfilled");
   });
 
@@ -257,11 +538,24 @@ describe("plan shop against the local payment provider", () => {
     expect(adminPage.review.map((r: { id: number }) => r.id)).toContain(order.id);
     const other = await signIn((await makeUser({ role: "coach" })).email);
     expect(payloadOf(await run(coachShop.loader, getRequest("/coach/shop", other))).review).toEqual([]);
-    expect(statusOf(await run(coachShop.action, formRequest("/coach/shop", { intent: "deliver", orderId: String(order.id) }, { cookie: other })))).toBe(404);
-    const close = await run(coachShop.action, formRequest("/coach/shop", { intent: "close", orderId: String(order.id) }, { cookie: coachCookie }));
+    expect(
+      statusOf(
+        await run(
+          coachShop.action,
+          formRequest("/coach/shop", { intent: "deliver", orderId: String(order.id) }, { cookie: other }),
+        ),
+      ),
+    ).toBe(404);
+    const close = await run(
+      coachShop.action,
+      formRequest("/coach/shop", { intent: "close", orderId: String(order.id) }, { cookie: coachCookie }),
+    );
     expect(payloadOf(close).message).toMatch(/Money was paid/);
     // The coach delivers: the plan lands and the receipt goes out once.
-    const res = await run(coachShop.action, formRequest("/coach/shop", { intent: "deliver", orderId: String(order.id) }, { cookie: coachCookie }));
+    const res = await run(
+      coachShop.action,
+      formRequest("/coach/shop", { intent: "deliver", orderId: String(order.id) }, { cookie: coachCookie }),
+    );
     expect(payloadOf(res).ok).toBe(true);
     await order.reload();
     expect(order.status).toBe("fulfilled");
@@ -276,16 +570,35 @@ describe("plan shop against the local payment provider", () => {
     await pay(url, { action: "pay", card: TEST_CARDS.success });
     const order = (await Order.findOne({ where: { buyerId: buyer.id } }))!;
     // One session of this order already lies in the past and one was done: both stay.
-    const sessions = await ScheduledSession.findAll({ where: { assignmentId: order.assignmentId! }, order: [["date", "ASC"]] });
+    const sessions = await ScheduledSession.findAll({
+      where: { assignmentId: order.assignmentId! },
+      order: [["date", "ASC"]],
+    });
     await sessions[0].update({ date: addDays(todayIn("UTC"), -3) });
     await sessions[1].update({ status: "done" });
     const stranger = await makeUser({ role: "coach" });
-    const denied = await run(coachShop.action, formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: await signIn(stranger.email) }));
+    const denied = await run(
+      coachShop.action,
+      formRequest(
+        "/coach/shop",
+        { intent: "refund", orderId: String(order.id) },
+        { cookie: await signIn(stranger.email) },
+      ),
+    );
     expect(statusOf(denied)).toBe(404);
-    const res = await run(coachShop.action, formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: coachCookie }));
-    expect(payloadOf(res)).toMatchObject({ ok: true, message: expect.stringMatching(/Refunded; \d+ future sessions? removed/) });
+    const res = await run(
+      coachShop.action,
+      formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: coachCookie }),
+    );
+    expect(payloadOf(res)).toMatchObject({
+      ok: true,
+      message: expect.stringMatching(/Refunded; \d+ future sessions? removed/),
+    });
     await fake.settle();
-    const again = await run(coachShop.action, formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: coachCookie }));
+    const again = await run(
+      coachShop.action,
+      formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: coachCookie }),
+    );
     expect(payloadOf(again).message).toMatch(/Already refunded/);
     await order.reload();
     expect(order).toMatchObject({ status: "refunded", refundedCents: 4900 });
@@ -296,14 +609,21 @@ describe("plan shop against the local payment provider", () => {
     // The provider's own charge.refunded for that refund arrived too, and changed nothing more.
     expect(await PaymentEvent.count({ where: { orderId: order.id, type: "charge.refunded" } })).toBe(1);
     const sales = payloadOf(await run(coachShop.loader, getRequest("/coach/shop", coachCookie))).sales;
-    expect(sales.find((s: { id: number }) => s.id === order.id)).toMatchObject({ status: "refunded", label: "refunded" });
+    expect(sales.find((s: { id: number }) => s.id === order.id)).toMatchObject({
+      status: "refunded",
+      label: "refunded",
+    });
   });
 
   it("two refund clicks at once make one refund at the provider and one notice", async () => {
     const { listing, buyer, buyerCookie, coachCookie } = await shopScenario();
     await pay(await checkout(listing.slug, buyerCookie), { action: "pay", card: TEST_CARDS.success });
     const order = (await Order.findOne({ where: { buyerId: buyer.id } }))!;
-    const click = () => run(coachShop.action, formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: coachCookie }));
+    const click = () =>
+      run(
+        coachShop.action,
+        formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: coachCookie }),
+      );
     const messages = (await Promise.all([click(), click()])).map((r) => payloadOf(r).message as string).sort();
     expect(messages[0]).toMatch(/^(A refund for this order is already on its way|Already refunded)/);
     expect(messages[1]).toMatch(/^Refunded; /);
@@ -332,7 +652,20 @@ describe("plan shop against the local payment provider", () => {
     const { listing, buyer, buyerCookie } = await shopScenario();
     await checkout(listing.slug, buyerCookie);
     const order = (await Order.findOne({ where: { buyerId: buyer.id } }))!;
-    const payload = JSON.stringify({ id: "evt_forged", object: "event", type: "checkout.session.completed", data: { object: { id: order.checkoutSessionId, amount_total: 4900, currency: "eur", metadata: { orderId: String(order.id) }, payment_status: "paid" } } });
+    const payload = JSON.stringify({
+      id: "evt_forged",
+      object: "event",
+      type: "checkout.session.completed",
+      data: {
+        object: {
+          id: order.checkoutSessionId,
+          amount_total: 4900,
+          currency: "eur",
+          metadata: { orderId: String(order.id) },
+          payment_status: "paid",
+        },
+      },
+    });
     expect((await post(payload, "t=1,v1=deadbeef")).status).toBe(400);
     await order.reload();
     expect(order.status).toBe("created");
@@ -342,10 +675,16 @@ describe("plan shop against the local payment provider", () => {
   it("the provider returns the buyer to the host they are on when it is allowed, else to APP_URL", async () => {
     const { listing, buyerCookie } = await shopScenario();
     const onLoopback = await checkout(listing.slug, buyerCookie, undefined, {}, "http://127.0.0.1:3999");
-    expect(fake.sessions.get(onLoopback.split("/pay/")[1])!.success_url).toMatch(/^http:\/\/127\.0\.0\.1:3999\/shop\/orders\/\d+\?session=/);
-    expect(fake.sessions.get(onLoopback.split("/pay/")[1])!.cancel_url).toMatch(/^http:\/\/127\.0\.0\.1:3999\/shop\/orders\/\d+\?cancelled=1/);
+    expect(fake.sessions.get(onLoopback.split("/pay/")[1])!.success_url).toMatch(
+      /^http:\/\/127\.0\.0\.1:3999\/shop\/orders\/\d+\?session=/,
+    );
+    expect(fake.sessions.get(onLoopback.split("/pay/")[1])!.cancel_url).toMatch(
+      /^http:\/\/127\.0\.0\.1:3999\/shop\/orders\/\d+\?cancelled=1/,
+    );
     const elsewhere = await checkout(listing.slug, buyerCookie, undefined, {}, "http://evil.example:3999");
-    expect(fake.sessions.get(elsewhere.split("/pay/")[1])!.success_url).toMatch(/^http:\/\/localhost:3999\/shop\/orders\//);
+    expect(fake.sessions.get(elsewhere.split("/pay/")[1])!.success_url).toMatch(
+      /^http:\/\/localhost:3999\/shop\/orders\//,
+    );
   });
 });
 
@@ -368,8 +707,33 @@ describe("listings", () => {
   it.each(PRICES)("price %s → %s", async (price, expected) => {
     const coach = await makeUser({ role: "coach" });
     const cookie = await signIn(coach.email);
-    const plan = await createPlan(coach.id, { name: "Priced", sport: "bike", description: "", alignment: "start", date: "2027-01-04", weeks: 4, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
-    const res = await run(coachShop.action, formRequest("/coach/shop", { intent: "create", planId: String(plan.id), title: "Priced plan", description: "A plan with a price.", level: "beginner", price, currency: "EUR" }, { cookie }));
+    const plan = await createPlan(coach.id, {
+      name: "Priced",
+      sport: "bike",
+      description: "",
+      alignment: "start",
+      date: "2027-01-04",
+      weeks: 4,
+      weeklyHours: 8,
+      pattern: "3:1",
+      testEveryWeeks: 6,
+    });
+    const res = await run(
+      coachShop.action,
+      formRequest(
+        "/coach/shop",
+        {
+          intent: "create",
+          planId: String(plan.id),
+          title: "Priced plan",
+          description: "A plan with a price.",
+          level: "beginner",
+          price,
+          currency: "EUR",
+        },
+        { cookie },
+      ),
+    );
     const listing = await Listing.findOne({ where: { planId: plan.id } });
     if (typeof expected === "number") expect(listing!.priceCents).toBe(expected);
     else {
@@ -382,8 +746,33 @@ describe("listings", () => {
   it("only the owner lists their plans", async () => {
     const coach = await makeUser({ role: "coach" });
     const other = await makeUser({ role: "coach" });
-    const plan = await createPlan(other.id, { name: "Not mine", sport: "bike", description: "", alignment: "start", date: "2027-01-04", weeks: 4, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 6 });
-    const notMine = await run(coachShop.action, formRequest("/coach/shop", { intent: "create", planId: String(plan.id), title: "Stolen", description: "Not my plan at all.", level: "beginner", price: "10", currency: "EUR" }, { cookie: await signIn(coach.email) }));
+    const plan = await createPlan(other.id, {
+      name: "Not mine",
+      sport: "bike",
+      description: "",
+      alignment: "start",
+      date: "2027-01-04",
+      weeks: 4,
+      weeklyHours: 8,
+      pattern: "3:1",
+      testEveryWeeks: 6,
+    });
+    const notMine = await run(
+      coachShop.action,
+      formRequest(
+        "/coach/shop",
+        {
+          intent: "create",
+          planId: String(plan.id),
+          title: "Stolen",
+          description: "Not my plan at all.",
+          level: "beginner",
+          price: "10",
+          currency: "EUR",
+        },
+        { cookie: await signIn(coach.email) },
+      ),
+    );
     expect(statusOf(notMine)).toBe(404);
     expect(await Listing.count({ where: { planId: plan.id } })).toBe(0);
   });
@@ -393,14 +782,35 @@ describe("listings", () => {
     await checkout(listing.slug, buyerCookie);
     const first = (await Order.findOne({ where: { buyerId: buyer.id } }))!;
     const edit = (fields: Record<string, string>, cookie = coachCookie) =>
-      run(coachShop.action, formRequest("/coach/shop", { intent: "edit", listingId: String(listing.id), title: "Winter base, revised", description: "Four weeks of steady work, revised.", level: "advanced", coverText: "Steady first", price: "59.00", ...fields }, { cookie }));
+      run(
+        coachShop.action,
+        formRequest(
+          "/coach/shop",
+          {
+            intent: "edit",
+            listingId: String(listing.id),
+            title: "Winter base, revised",
+            description: "Four weeks of steady work, revised.",
+            level: "advanced",
+            coverText: "Steady first",
+            price: "59.00",
+            ...fields,
+          },
+          { cookie },
+        ),
+      );
     const bad = await edit({ price: "0.001" });
     expect(payloadOf(bad).fieldErrors.price).toMatch(/two decimals/);
     const stranger = await makeUser({ role: "coach" });
     expect(statusOf(await edit({}, await signIn(stranger.email)))).toBe(404);
     expect(payloadOf(await edit({})).ok).toBe(true);
     await listing.reload();
-    expect(listing).toMatchObject({ title: "Winter base, revised", priceCents: 5900, coverText: "Steady first", level: "advanced" });
+    expect(listing).toMatchObject({
+      title: "Winter base, revised",
+      priceCents: 5900,
+      coverText: "Steady first",
+      level: "advanced",
+    });
     // The first order's open checkout still charges what it was made at, and fulfils at that price.
     await pay(fake.sessions.get(first.checkoutSessionId!)!.url, { action: "pay", card: TEST_CARDS.success });
     await first.reload();
@@ -409,11 +819,27 @@ describe("listings", () => {
     await checkout(listing.slug, await signIn(next.email));
     expect((await Order.findOne({ where: { buyerId: next.id } }))!.amountCents).toBe(5900);
 
-    await run(coachShop.action, formRequest("/coach/shop", { intent: "unpublish", listingId: String(listing.id) }, { cookie: coachCookie }));
-    const closed = await run(listingPage.action, formRequest(`/shop/${listing.slug}`, { mode: "start", date: addDays(todayIn("UTC"), 7) }, { cookie: buyerCookie }), { slug: listing.slug });
+    await run(
+      coachShop.action,
+      formRequest("/coach/shop", { intent: "unpublish", listingId: String(listing.id) }, { cookie: coachCookie }),
+    );
+    const closed = await run(
+      listingPage.action,
+      formRequest(
+        `/shop/${listing.slug}`,
+        { mode: "start", date: addDays(todayIn("UTC"), 7) },
+        { cookie: buyerCookie },
+      ),
+      { slug: listing.slug },
+    );
     expect(statusOf(closed)).toBe(404);
-    expect(statusOf(await run(listingPage.loader, getRequest(`/shop/${listing.slug}`, buyerCookie), { slug: listing.slug }))).toBe(404);
-    await run(coachShop.action, formRequest("/coach/shop", { intent: "publish", listingId: String(listing.id) }, { cookie: coachCookie }));
+    expect(
+      statusOf(await run(listingPage.loader, getRequest(`/shop/${listing.slug}`, buyerCookie), { slug: listing.slug })),
+    ).toBe(404);
+    await run(
+      coachShop.action,
+      formRequest("/coach/shop", { intent: "publish", listingId: String(listing.id) }, { cookie: coachCookie }),
+    );
     // The buyer already has this plan on those weeks, so they say how to place the second copy.
     await checkout(listing.slug, buyerCookie, undefined, { placement: "alongside" });
   });
@@ -426,7 +852,9 @@ describe("what buying will do, shown before paying", () => {
     const { listing, coach, plan } = await shopScenario();
     const buyer = await makeUser({ role: "athlete", name: "No Threshold" });
     const cookie = await signIn(buyer.email);
-    const page = payloadOf(await run(listingPage.loader, getRequest(`/shop/${listing.slug}`, cookie), { slug: listing.slug }));
+    const page = payloadOf(
+      await run(listingPage.loader, getRequest(`/shop/${listing.slug}`, cookie), { slug: listing.slug }),
+    );
     expect(page.placement.missingThresholds).toEqual([{ sport: "bike", sessions: expect.any(Number) }]);
     expect(page.placement.missingThresholds[0].sessions).toBeGreaterThanOrEqual(4);
     expect(page.placement.current).toEqual([]);
@@ -434,10 +862,20 @@ describe("what buying will do, shown before paying", () => {
     await CoachAthlete.create({ coachId: coach.id, athleteId: buyer.id });
     const start = addDays(todayIn("UTC"), 7);
     // The coach places it knowingly: the buyer has no bike threshold yet.
-    const placed = await assignPlan(coach, plan.id, [buyer.id], { mode: "start", date: start, choice: { confirmSports: true } });
-    const again = payloadOf(await run(listingPage.loader, getRequest(`/shop/${listing.slug}`, cookie), { slug: listing.slug }));
+    const placed = await assignPlan(coach, plan.id, [buyer.id], {
+      mode: "start",
+      date: start,
+      choice: { confirmSports: true },
+    });
+    const again = payloadOf(
+      await run(listingPage.loader, getRequest(`/shop/${listing.slug}`, cookie), { slug: listing.slug }),
+    );
     expect(again.placement.current).toHaveLength(1);
-    const refused = await run(listingPage.action, formRequest(`/shop/${listing.slug}`, { mode: "start", date: start }, { cookie }), { slug: listing.slug });
+    const refused = await run(
+      listingPage.action,
+      formRequest(`/shop/${listing.slug}`, { mode: "start", date: start }, { cookie }),
+      { slug: listing.slug },
+    );
     expect(statusOf(refused)).toBe(400);
     expect(payloadOf(refused).error).toMatch(/overlap “Sold plan”/);
     expect(await Order.count({ where: { buyerId: buyer.id } })).toBe(0);

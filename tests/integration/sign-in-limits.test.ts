@@ -31,7 +31,9 @@ describe("sign-in limits", () => {
   it("limits one client trying many addresses, in parallel too", async () => {
     const client = clientContext("203.0.113.7");
     const compare = vi.spyOn(bcrypt, "compare");
-    const results = await Promise.all(Array.from({ length: 40 }, () => attempt(uniqueEmail("spray"), "Winter2026!", client)));
+    const results = await Promise.all(
+      Array.from({ length: 40 }, () => attempt(uniqueEmail("spray"), "Winter2026!", client)),
+    );
     expect(compare.mock.calls.length).toBeLessThanOrEqual(LIMITS.signInClient.points);
     expect(results.map(statusOf).filter((s) => s === 429)).toHaveLength(40 - LIMITS.signInClient.points);
     // Another client is not affected.
@@ -79,7 +81,18 @@ describe("sign-up and reset limits", () => {
     const client = clientContext("203.0.113.20");
     const statuses: number[] = [];
     for (let i = 0; i < LIMITS.signUpClient.points + 1; i++) {
-      const res = await run(signup.action, formRequest("/signup", { name: "Many", email: uniqueEmail("many"), password: "a-long-enough-pass", role: "athlete", timezone: "UTC" }), {}, client);
+      const res = await run(
+        signup.action,
+        formRequest("/signup", {
+          name: "Many",
+          email: uniqueEmail("many"),
+          password: "a-long-enough-pass",
+          role: "athlete",
+          timezone: "UTC",
+        }),
+        {},
+        client,
+      );
       statuses.push(statusOf(res));
     }
     expect(statuses.slice(0, -1).every((s) => s === 302)).toBe(true);
@@ -90,7 +103,8 @@ describe("sign-up and reset limits", () => {
     const user = await makeUser();
     for (const email of [user.email, uniqueEmail("ghost")]) {
       const statuses: number[] = [];
-      for (let i = 0; i < LIMITS.resetAddress.points + 1; i++) statuses.push(statusOf(await run(forgot.action, formRequest("/forgot-password", { email }))));
+      for (let i = 0; i < LIMITS.resetAddress.points + 1; i++)
+        statuses.push(statusOf(await run(forgot.action, formRequest("/forgot-password", { email }))));
       expect(statuses.at(-1)).toBe(429);
       expect(statuses.slice(0, -1).every((s) => s === 200)).toBe(true);
     }
@@ -100,7 +114,15 @@ describe("sign-up and reset limits", () => {
     const token = "y".repeat(43);
     const statuses: number[] = [];
     for (let i = 0; i < LIMITS.inviteToken.points + 1; i++) {
-      statuses.push(statusOf(await run(invite.action, formRequest(`/invite/${token}`, { name: "N", password: "a-long-enough-pass", timezone: "UTC" }), { token })));
+      statuses.push(
+        statusOf(
+          await run(
+            invite.action,
+            formRequest(`/invite/${token}`, { name: "N", password: "a-long-enough-pass", timezone: "UTC" }),
+            { token },
+          ),
+        ),
+      );
     }
     expect(statuses.slice(0, -1).every((s) => s === 400)).toBe(true);
     expect(statuses.at(-1)).toBe(429);
@@ -108,7 +130,16 @@ describe("sign-up and reset limits", () => {
     const resets: number[] = [];
     for (let i = 0; i < LIMITS.tokenClient.points + 1; i++) {
       const t = `${i}`.padStart(43, "z");
-      resets.push(statusOf(await run(reset.action, formRequest(`/reset-password/${t}`, { password: "brand-new-password", confirm: "brand-new-password" }), { token: t }, client)));
+      resets.push(
+        statusOf(
+          await run(
+            reset.action,
+            formRequest(`/reset-password/${t}`, { password: "brand-new-password", confirm: "brand-new-password" }),
+            { token: t },
+            client,
+          ),
+        ),
+      );
     }
     expect(resets.at(-1)).toBe(429);
     expect(resets.slice(0, -1).every((s) => s === 400)).toBe(true);
@@ -120,7 +151,8 @@ describe("sign-up and reset limits", () => {
     await attempt(live, "wrong-password-1");
     await attempt(old, "wrong-password-1");
     expect(await used("signInAddress", old)).toBe(1);
-    const rows = async () => Number(((await db().query("SELECT COUNT(*) AS n FROM rate_limits", { plain: true })) as { n: number }).n);
+    const rows = async () =>
+      Number(((await db().query("SELECT COUNT(*) AS n FROM rate_limits", { plain: true })) as { n: number }).n);
     const before = await rows();
     await clearExpiredLimits(Date.now() + LIMITS.signInAddress.duration * 1000 + 1000);
     expect(await rows()).toBeLessThan(before);

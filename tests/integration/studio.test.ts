@@ -11,12 +11,35 @@ const dir = fs.mkdtempSync(path.join(os.tmpdir(), "pacewright-studio-test-"));
 afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
 
 function generate(file: string, seed: number, extra: string[] = []) {
-  return execFileSync(process.execPath, ["--import", "tsx", "scripts/studio.ts", "--seed", String(seed), "--athletes", "3", "--years", "1", "--db", file, ...extra], { encoding: "utf8", env: { ...process.env, DATABASE_URL: "", MIGRATE_QUIET: "1" }, stdio: ["ignore", "pipe", "pipe"] });
+  return execFileSync(
+    process.execPath,
+    [
+      "--import",
+      "tsx",
+      "scripts/studio.ts",
+      "--seed",
+      String(seed),
+      "--athletes",
+      "3",
+      "--years",
+      "1",
+      "--db",
+      file,
+      ...extra,
+    ],
+    {
+      encoding: "utf8",
+      env: { ...process.env, DATABASE_URL: "", MIGRATE_QUIET: "1" },
+      stdio: ["ignore", "pipe", "pipe"],
+    },
+  );
 }
 
 function all(file: string, sql: string): Promise<Record<string, unknown>[]> {
   const d = new sqlite3.Database(file, sqlite3.OPEN_READONLY);
-  return new Promise((resolve, reject) => d.all(sql, (err, rows) => d.close(() => (err ? reject(err) : resolve(rows as Record<string, unknown>[])))));
+  return new Promise((resolve, reject) =>
+    d.all(sql, (err, rows) => d.close(() => (err ? reject(err) : resolve(rows as Record<string, unknown>[])))),
+  );
 }
 
 /** A digest of what the studio holds, leaving out the clock (timestamps) and password salts. */
@@ -24,8 +47,14 @@ async function digest(file: string) {
   const parts = await Promise.all([
     all(file, "SELECT role, email, name FROM users ORDER BY id"),
     all(file, "SELECT athlete_id, value, effective_from FROM thresholds ORDER BY id"),
-    all(file, "SELECT athlete_id, date, name, status, effort_score, actual_minutes, planned_load, trimp, work_kj FROM scheduled_sessions ORDER BY id"),
-    all(file, "SELECT scheduled_session_id, position, low_abs, high_abs, threshold_id FROM scheduled_blocks ORDER BY id"),
+    all(
+      file,
+      "SELECT athlete_id, date, name, status, effort_score, actual_minutes, planned_load, trimp, work_kj FROM scheduled_sessions ORDER BY id",
+    ),
+    all(
+      file,
+      "SELECT scheduled_session_id, position, low_abs, high_abs, threshold_id FROM scheduled_blocks ORDER BY id",
+    ),
     all(file, "SELECT week_id, day, position, name, blocks FROM plan_items ORDER BY id"),
   ]);
   return crypto.createHash("sha256").update(JSON.stringify(parts)).digest("hex");
@@ -40,7 +69,10 @@ describe("studio generator", () => {
     expect(await digest(a)).toBe(await digest(b));
     expect(await digest(a)).not.toBe(await digest(c));
 
-    const [counts] = await all(a, "SELECT (SELECT COUNT(*) FROM users WHERE role = 'athlete') AS athletes, (SELECT COUNT(*) FROM users WHERE role = 'coach') AS coaches, (SELECT COUNT(*) FROM scheduled_sessions) AS sessions, (SELECT COUNT(*) FROM scheduled_sessions WHERE status = 'done') AS done");
+    const [counts] = await all(
+      a,
+      "SELECT (SELECT COUNT(*) FROM users WHERE role = 'athlete') AS athletes, (SELECT COUNT(*) FROM users WHERE role = 'coach') AS coaches, (SELECT COUNT(*) FROM scheduled_sessions) AS sessions, (SELECT COUNT(*) FROM scheduled_sessions WHERE status = 'done') AS done",
+    );
     expect(counts.athletes).toBe(3);
     expect(counts.coaches).toBe(1);
     // 5 training days a week, about 1 in 10 left out, over 52 + 12 weeks.

@@ -23,15 +23,34 @@ async function passwordStep(email: string) {
 
 async function enrol(email: string) {
   const cookie = await signIn(email);
-  expect(payloadOf(await run(security.action, formRequest("/account/security", { intent: "two-step-start" }, { cookie }))).ok).toBe(true);
+  expect(
+    payloadOf(await run(security.action, formRequest("/account/security", { intent: "two-step-start" }, { cookie })))
+      .ok,
+  ).toBe(true);
   const page = payloadOf(await run(security.loader, getRequest("/account/security", cookie)));
   const secret: string = page.twoStep.enrolment.secret;
   expect(page.twoStep.enrolment.qrSvg).toMatch(/^<svg/);
   expect(page.twoStep.enrolment.uri).toMatch(/^otpauth:\/\/totp\/Pacewright:.*secret=/);
-  const wrong = await run(security.action, formRequest("/account/security", { intent: "two-step-confirm", code: "000000" === totp(secret).generate() ? "111111" : "000000" }, { cookie }));
+  const wrong = await run(
+    security.action,
+    formRequest(
+      "/account/security",
+      { intent: "two-step-confirm", code: "000000" === totp(secret).generate() ? "111111" : "000000" },
+      { cookie },
+    ),
+  );
   expect(statusOf(wrong)).toBe(400);
   // One step back, as a phone a little slow would show it; the current step stays free for the first sign-in.
-  const done = payloadOf(await run(security.action, formRequest("/account/security", { intent: "two-step-confirm", code: totp(secret).generate({ timestamp: Date.now() - 30_000 }) }, { cookie })));
+  const done = payloadOf(
+    await run(
+      security.action,
+      formRequest(
+        "/account/security",
+        { intent: "two-step-confirm", code: totp(secret).generate({ timestamp: Date.now() - 30_000 }) },
+        { cookie },
+      ),
+    ),
+  );
   expect(done.ok).toBe(true);
   expect(done.recoveryCodes).toHaveLength(10);
   return { secret, recoveryCodes: done.recoveryCodes as string[], cookie };
@@ -82,7 +101,8 @@ describe("two-step sign-in", () => {
     expect((bare as Response).headers.get("location")).toBe("/login");
     const pending = cookieFrom(await passwordStep(admin.email));
     const statuses: number[] = [];
-    for (let i = 0; i < LIMITS.twoStepUser.points + 1; i++) statuses.push(statusOf(await secondStep(pending, "abcde-fghij")));
+    for (let i = 0; i < LIMITS.twoStepUser.points + 1; i++)
+      statuses.push(statusOf(await secondStep(pending, "abcde-fghij")));
     expect(statuses.at(-1)).toBe(429);
   });
 
@@ -90,14 +110,32 @@ describe("two-step sign-in", () => {
     const athlete = await makeUser({ role: "athlete" });
     const ac = await signIn(athlete.email);
     expect(payloadOf(await run(security.loader, getRequest("/account/security", ac))).twoStep).toBeNull();
-    expect(statusOf(await run(security.action, formRequest("/account/security", { intent: "two-step-start" }, { cookie: ac })))).toBe(400);
+    expect(
+      statusOf(
+        await run(security.action, formRequest("/account/security", { intent: "two-step-start" }, { cookie: ac })),
+      ),
+    ).toBe(400);
 
     const admin = await makeUser({ role: "admin" });
     const coach = await makeUser({ role: "coach" });
     const adminCookie = await signIn(admin.email);
     const coachCookie = await signIn(coach.email);
-    expect(statusOf(await run(security.action, formRequest("/account/security", { intent: "studio-require", required: "on" }, { cookie: coachCookie })))).toBe(403);
-    expect(payloadOf(await run(security.action, formRequest("/account/security", { intent: "studio-require", required: "on" }, { cookie: adminCookie }))).ok).toBe(true);
+    expect(
+      statusOf(
+        await run(
+          security.action,
+          formRequest("/account/security", { intent: "studio-require", required: "on" }, { cookie: coachCookie }),
+        ),
+      ),
+    ).toBe(403);
+    expect(
+      payloadOf(
+        await run(
+          security.action,
+          formRequest("/account/security", { intent: "studio-require", required: "on" }, { cookie: adminCookie }),
+        ),
+      ).ok,
+    ).toBe(true);
     try {
       const sent = await run(layout.loader, getRequest("/coach", coachCookie));
       expect((sent as Response).headers.get("location")).toBe("/account/security");
@@ -106,11 +144,21 @@ describe("two-step sign-in", () => {
       const { secret } = await enrol(coach.email);
       expect(statusOf(await run(layout.loader, getRequest("/coach", coachCookie)))).toBe(200);
       // While required it cannot be turned off.
-      const off = await run(security.action, formRequest("/account/security", { intent: "two-step-disable", code: totp(secret).generate() }, { cookie: coachCookie }));
+      const off = await run(
+        security.action,
+        formRequest(
+          "/account/security",
+          { intent: "two-step-disable", code: totp(secret).generate() },
+          { cookie: coachCookie },
+        ),
+      );
       expect(statusOf(off)).toBe(400);
       expect((await User.findByPk(coach.id))!.totpEnabledAt).not.toBeNull();
     } finally {
-      await run(security.action, formRequest("/account/security", { intent: "studio-require" }, { cookie: adminCookie }));
+      await run(
+        security.action,
+        formRequest("/account/security", { intent: "studio-require" }, { cookie: adminCookie }),
+      );
     }
   });
 });
@@ -119,11 +167,19 @@ describe("signed-in devices", () => {
   it("lists the user's devices, signs one out, and signs out everywhere else but here", async () => {
     const user = await makeUser({ role: "athlete" });
     const ua = {
-      phone: "Mozilla/5.0 (Linux; Android 14; Pixel 8) AppleWebKit/537.36 (KHTML, like Gecko) Chrome/126.0 Mobile Safari/537.36",
+      phone:
+        "Mozilla/5.0 (Linux; Android 14; Pixel 8) AppleWebKit/537.36 (KHTML, like Gecko) Chrome/126.0 Mobile Safari/537.36",
       laptop: "Mozilla/5.0 (Macintosh; Intel Mac OS X 14_5; rv:128.0) Gecko/20100101 Firefox/128.0",
-      tablet: "Mozilla/5.0 (iPad; CPU OS 17_5 like Mac OS X) AppleWebKit/605.1.15 (KHTML, like Gecko) Version/17.5 Mobile/15E148 Safari/604.1",
+      tablet:
+        "Mozilla/5.0 (iPad; CPU OS 17_5 like Mac OS X) AppleWebKit/605.1.15 (KHTML, like Gecko) Version/17.5 Mobile/15E148 Safari/604.1",
     };
-    const signInWith = async (agent: string) => cookieFrom((await run(login.action, await withUserAgent(formRequest("/login", { email: user.email, password }), agent))) as Response);
+    const signInWith = async (agent: string) =>
+      cookieFrom(
+        (await run(
+          login.action,
+          await withUserAgent(formRequest("/login", { email: user.email, password }), agent),
+        )) as Response,
+      );
     const here = await signInWith(ua.laptop);
     const phone = await signInWith(ua.phone);
     await signInWith(ua.tablet);
@@ -138,12 +194,28 @@ describe("signed-in devices", () => {
     ]);
     const phoneHandle = page.devices.find((d: { label: string }) => d.label === "Chrome on Android").handle;
     // Another user cannot end this user's session.
-    expect(statusOf(await run(security.action, formRequest("/account/security", { intent: "sign-out-device", handle: phoneHandle }, { cookie: otherCookie })))).toBe(404);
+    expect(
+      statusOf(
+        await run(
+          security.action,
+          formRequest("/account/security", { intent: "sign-out-device", handle: phoneHandle }, { cookie: otherCookie }),
+        ),
+      ),
+    ).toBe(404);
     expect(statusOf(await run(layout.loader, getRequest("/athlete", phone)))).toBe(200);
-    expect(payloadOf(await run(security.action, formRequest("/account/security", { intent: "sign-out-device", handle: phoneHandle }, { cookie: here }))).ok).toBe(true);
+    expect(
+      payloadOf(
+        await run(
+          security.action,
+          formRequest("/account/security", { intent: "sign-out-device", handle: phoneHandle }, { cookie: here }),
+        ),
+      ).ok,
+    ).toBe(true);
     expect(statusOf(await run(layout.loader, getRequest("/athlete", phone)))).toBe(302);
 
-    const res = payloadOf(await run(security.action, formRequest("/account/security", { intent: "sign-out-others" }, { cookie: here })));
+    const res = payloadOf(
+      await run(security.action, formRequest("/account/security", { intent: "sign-out-others" }, { cookie: here })),
+    );
     expect(res.message).toBe("Signed out 1 other device.");
     expect(await AuthSession.count({ where: { userId: user.id } })).toBe(1);
     expect(statusOf(await run(layout.loader, getRequest("/athlete", here)))).toBe(200);

@@ -25,8 +25,14 @@ beforeAll(async () => {
     const headers = new Headers();
     for (const [k, v] of Object.entries(req.headers)) if (typeof v === "string") headers.set(k, v);
     const hasBody = req.method !== "GET" && req.method !== "HEAD";
-    const request = new Request(url, { method: req.method, headers, body: hasBody ? (Readable.toWeb(req) as ReadableStream) : undefined, duplex: "half" } as RequestInit);
-    const route = url.pathname === "/healthz" ? healthz.loader : req.method === "POST" ? uploads.action : uploads.loader;
+    const request = new Request(url, {
+      method: req.method,
+      headers,
+      body: hasBody ? (Readable.toWeb(req) as ReadableStream) : undefined,
+      duplex: "half",
+    } as RequestInit);
+    const route =
+      url.pathname === "/healthz" ? healthz.loader : req.method === "POST" ? uploads.action : uploads.loader;
     const out = (await run(route as (args: unknown) => Promise<Response>, request)) as Response;
     res.writeHead(out.status, Object.fromEntries(out.headers.entries()));
     res.end(Buffer.from(await out.arrayBuffer()));
@@ -55,7 +61,11 @@ function hugeCsv(rows = 1_000_000) {
 async function upload(cookie: string, name: string, body: string | Uint8Array) {
   const form = new FormData();
   form.append("file", new File([body as BlobPart], name, { type: "text/csv" }));
-  return fetch(`${base}/api/uploads`, { method: "POST", body: form, headers: { Cookie: cookie, Origin: "http://localhost:3999" } });
+  return fetch(`${base}/api/uploads`, {
+    method: "POST",
+    body: form,
+    headers: { Cookie: cookie, Origin: "http://localhost:3999" },
+  });
 }
 
 /**
@@ -140,17 +150,27 @@ describe("uploads cannot stall the server", () => {
 
   it("limits parses per person and time per parse, with a clear message", async () => {
     const bytes = new TextEncoder().encode(hugeCsv(20_000));
-    const three = await Promise.allSettled([1, 2, 3].map(() => readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)));
+    const three = await Promise.allSettled(
+      [1, 2, 3].map(() => readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)),
+    );
     expect(three.map((r) => r.status)).toEqual(["fulfilled", "fulfilled", "rejected"]);
-    expect((three[2] as PromiseRejectedResult).reason).toMatchObject({ kind: "rate_limited", message: expect.stringMatching(/already have 2 files being read/) });
+    expect((three[2] as PromiseRejectedResult).reason).toMatchObject({
+      kind: "rate_limited",
+      message: expect.stringMatching(/already have 2 files being read/),
+    });
     const saved = ACTIVITY_LIMITS.parseMs;
     ACTIVITY_LIMITS.parseMs = 1;
     try {
-      await expect(readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)).rejects.toMatchObject({ kind: "unreadable", message: expect.stringMatching(/took longer than/) });
+      await expect(readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)).rejects.toMatchObject({
+        kind: "unreadable",
+        message: expect.stringMatching(/took longer than/),
+      });
     } finally {
       ACTIVITY_LIMITS.parseMs = saved;
     }
     // A person's count is released after each parse, refused or not.
-    await expect(readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)).resolves.toMatchObject({ ok: true });
+    await expect(readActivityOffThread({ bytes, name: "a.csv", want: "summary" }, 987654)).resolves.toMatchObject({
+      ok: true,
+    });
   });
 });

@@ -14,7 +14,8 @@ import {
 } from "~/lib/training";
 import { enduranceRide, rampTestRide, toCsv, toFit, toGpx, twentyMinuteTestRide } from "../../db/demo/rides";
 
-const series = (power: number[], hr?: number[]): Sample[] => power.map((p, t) => ({ t, power: p, ...(hr ? { hr: hr[t] } : {}) }));
+const series = (power: number[], hr?: number[]): Sample[] =>
+  power.map((p, t) => ({ t, power: p, ...(hr ? { hr: hr[t] } : {}) }));
 
 /** Brute force O(n·w) reference for mean-maximal power. */
 function bruteMeanMax(power: number[], w: number) {
@@ -70,9 +71,17 @@ describe("parseActivity reads the same ride from CSV, GPX and FIT", () => {
     ["wrong-columns.csv", "date,notes\n2026-01-01,easy\n", /No power, heart-rate, cadence or speed column/],
     ["garbage.fit", new Uint8Array([1, 2, 3, 4, 5, 6, 7, 8, 9, 10, 11, 12, 13, 14, 15, 16]), /not a FIT file/],
     ["binary.csv", new Uint8Array([0, 159, 146, 150, 0, 1]), /not a text file/],
-    ["broken.gpx", "<gpx><trk><trkseg><trkpt lat=\"1\" lon=\"2\"><time>2026-01-01T00:00:00Z</time></trkpt", /well-formed|no power/i],
+    [
+      "broken.gpx",
+      '<gpx><trk><trkseg><trkpt lat="1" lon="2"><time>2026-01-01T00:00:00Z</time></trkpt',
+      /well-formed|no power/i,
+    ],
     ["nogpx.gpx", "<html><body>hello</body></html>", /not a GPX file/],
-    ["empty-track.gpx", '<?xml version="1.0"?><gpx version="1.1"><trk><trkseg></trkseg></trk></gpx>', /no track points/],
+    [
+      "empty-track.gpx",
+      '<?xml version="1.0"?><gpx version="1.1"><trk><trkseg></trkseg></trk></gpx>',
+      /no track points/,
+    ],
     ["ride.docx", "whatever", /CSV, GPX or FIT/],
   ] as const)("refuses %s with a reason", (name, data, message) => {
     expect(() => parseActivity(data as string | Uint8Array, name)).toThrow(message);
@@ -81,13 +90,17 @@ describe("parseActivity reads the same ride from CSV, GPX and FIT", () => {
 
   it("refuses a truncated FIT file", () => {
     const fit = toFit(twentyMinuteTestRide(250));
-    expect(() => parseActivity(fit.slice(0, Math.floor(fit.length / 2)), "cut.fit")).toThrow(/cut short|could not be read/);
+    expect(() => parseActivity(fit.slice(0, Math.floor(fit.length / 2)), "cut.fit")).toThrow(
+      /cut short|could not be read/,
+    );
   });
 });
 
 describe("mean-maximal power and the power curve", () => {
   it("matches a brute-force reference on a real ride", () => {
-    const p = enduranceRide().slice(0, 1800).map((s) => s.power);
+    const p = enduranceRide()
+      .slice(0, 1800)
+      .map((s) => s.power);
     for (const w of [1, 5, 30, 60, 300, 1200]) expect(meanMaximal(series(p), w)).toBeCloseTo(bruteMeanMax(p, w), 9);
   });
 
@@ -100,7 +113,10 @@ describe("mean-maximal power and the power curve", () => {
     fc.assert(
       fc.property(fc.array(fc.integer({ min: 0, max: 1500 }), { minLength: 2, maxLength: 400 }), (power) => {
         const s = series(power);
-        const curve = powerCurve(s, Array.from({ length: power.length }, (_, i) => i + 1));
+        const curve = powerCurve(
+          s,
+          Array.from({ length: power.length }, (_, i) => i + 1),
+        );
         const at = (w: number) => curve[w - 1].watts;
         for (let w = 1; w <= power.length; w++) {
           for (let k = 2; k * w <= power.length; k++) expect(at(k * w)).toBeLessThanOrEqual(at(w) + 1e-9);
@@ -119,7 +135,15 @@ describe("mean-maximal power and the power curve", () => {
   });
 
   it("refuses a file without power and a window longer than the ride", () => {
-    expect(() => meanMaximal([{ t: 0, hr: 120 }, { t: 1, hr: 121 }], 1)).toThrow(/no power/);
+    expect(() =>
+      meanMaximal(
+        [
+          { t: 0, hr: 120 },
+          { t: 1, hr: 121 },
+        ],
+        1,
+      ),
+    ).toThrow(/no power/);
     expect(() => meanMaximal(series([100, 200]), 3)).toThrow(/shorter than/);
   });
 });
@@ -163,9 +187,15 @@ describe("time in target (common practice: ±5 % of the range's middle)", () => 
     const { timeInTarget } = await import("~/lib/training");
     // 10 s warm-up without target, then 10 s at 200–210 W: 6 s inside, 2 s just inside the 5 % slack, 2 s outside.
     const power = [...new Array(10).fill(100), 200, 205, 210, 208, 201, 209, 195, 215, 150, 300];
-    const r = timeInTarget(series(power), [{ durationS: 10, low: null, high: null }, { durationS: 10, low: 200, high: 210 }]);
+    const r = timeInTarget(series(power), [
+      { durationS: 10, low: null, high: null },
+      { durationS: 10, low: 200, high: 210 },
+    ]);
     expect(r).toEqual({ targetedS: 10, inTargetS: 8 });
     // A ramp is judged against the line between its ends.
-    expect(timeInTarget(series([100, 150, 200]), [{ durationS: 3, low: 100, high: 200, ramp: true }])).toEqual({ targetedS: 3, inTargetS: 3 });
+    expect(timeInTarget(series([100, 150, 200]), [{ durationS: 3, low: 100, high: 200, ramp: true }])).toEqual({
+      targetedS: 3,
+      inTargetS: 3,
+    });
   });
 });

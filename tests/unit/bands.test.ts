@@ -42,7 +42,14 @@ describe("default band sets", () => {
       expect(b.meaning.length).toBeGreaterThan(10);
     });
     // The defaults pass the same checks a coach's edit must pass.
-    const v = validateBandSet(set.bands.map((b) => ({ name: b.name, fromPct: String(b.fromPct), toPct: b.toPct === null ? "" : String(b.toPct), meaning: b.meaning })));
+    const v = validateBandSet(
+      set.bands.map((b) => ({
+        name: b.name,
+        fromPct: String(b.fromPct),
+        toPct: b.toPct === null ? "" : String(b.toPct),
+        meaning: b.meaning,
+      })),
+    );
     expect(v.ok).toBe(true);
   });
 
@@ -135,7 +142,14 @@ describe("classification at every boundary: [from, to)", () => {
 describe("absolute rows agree with classification", () => {
   it("power 250 W: rows share no number, and each shown whole number classifies into its own row", () => {
     const rows = bandRows(power, 250, (v) => `${v} W`);
-    expect(rows.map((r) => r.range)).toEqual(["up to 149 W", "150 W – 199 W", "200 W – 237 W", "238 W – 262 W", "263 W – 324 W", "325 W and above"]);
+    expect(rows.map((r) => r.range)).toEqual([
+      "up to 149 W",
+      "150 W – 199 W",
+      "200 W – 237 W",
+      "238 W – 262 W",
+      "263 W – 324 W",
+      "325 W and above",
+    ]);
     rows.forEach((r, i) => {
       if (r.lo !== null) expect(bandIndexOf((r.lo / 250) * 100, power.bands)).toBe(i);
       if (r.hi !== null) expect(bandIndexOf((r.hi / 250) * 100, power.bands)).toBe(i);
@@ -187,7 +201,8 @@ describe("shades: one teal ramp, pale to deep", () => {
   it("starts pale and ends deep; brick edge only for bands at or above threshold", () => {
     expect(bandShade(0, 6)).toBe("#e3eeec");
     expect(bandShade(5, 6)).toBe("#123d3a");
-    const lum = (hex: string) => parseInt(hex.slice(1, 3), 16) + parseInt(hex.slice(3, 5), 16) + parseInt(hex.slice(5, 7), 16);
+    const lum = (hex: string) =>
+      parseInt(hex.slice(1, 3), 16) + parseInt(hex.slice(3, 5), 16) + parseInt(hex.slice(5, 7), 16);
     for (let i = 1; i < 6; i++) expect(lum(bandShade(i, 6))).toBeLessThan(lum(bandShade(i - 1, 6)));
     expect(bandRows(power, 250, String).map((r) => r.aboveThreshold)).toEqual([false, false, false, false, true, true]);
   });
@@ -202,13 +217,19 @@ describe("time in band from a value histogram", () => {
 });
 
 describe("validating a coach's band set", () => {
-  const rows = (...r: [string, string, string][]): BandInputRow[] => r.map(([name, fromPct, toPct]) => ({ name, fromPct, toPct, meaning: "" }));
+  const rows = (...r: [string, string, string][]): BandInputRow[] =>
+    r.map(([name, fromPct, toPct]) => ({ name, fromPct, toPct, meaning: "" }));
   const good = rows(["Gentle", "0", "70"], ["Working", "70", "100"], ["Hard", "100", ""]);
 
   it("accepts a contiguous, ordered set of 3–8 named bands", () => {
     const v = validateBandSet(good);
     expect(v.ok).toBe(true);
-    if (v.ok) expect(v.bands.map((b) => [b.fromPct, b.toPct])).toEqual([[0, 70], [70, 100], [100, null]]);
+    if (v.ok)
+      expect(v.bands.map((b) => [b.fromPct, b.toPct])).toEqual([
+        [0, 70],
+        [70, 100],
+        [100, null],
+      ]);
   });
   it("refuses a gap, with the message on the row that starts too high", () => {
     const v = validateBandSet(rows(["Gentle", "0", "70"], ["Working", "75", "100"], ["Hard", "100", ""]));
@@ -241,7 +262,12 @@ describe("validating a coach's band set", () => {
   });
   it("refuses fewer than 3 or more than 8 bands, a first band not at 0 and a closed top band", () => {
     expect(validateBandSet(rows(["A band", "0", "100"], ["B band", "100", ""])).ok).toBe(false);
-    const nine = Array.from({ length: 9 }, (_, i) => ({ name: `Band ${String.fromCharCode(97 + i)}`, fromPct: String(i * 20), toPct: i === 8 ? "" : String((i + 1) * 20), meaning: "" }));
+    const nine = Array.from({ length: 9 }, (_, i) => ({
+      name: `Band ${String.fromCharCode(97 + i)}`,
+      fromPct: String(i * 20),
+      toPct: i === 8 ? "" : String((i + 1) * 20),
+      meaning: "",
+    }));
     const v9 = validateBandSet(nine);
     if (v9.ok) throw new Error("accepted nine");
     expect(v9.errors.form).toMatch(/at most 8/);
@@ -254,7 +280,13 @@ describe("validating a coach's band set", () => {
   });
   it("a stored set that no longer passes falls back to the default", () => {
     expect(bandSetFromStored("bike:power", [{ name: "x", fromPct: 5 }]).isDefault).toBe(true);
-    expect(bandSetFromStored("bike:power", [{ name: "Gentle", fromPct: 0, toPct: 70 }, { name: "Working", fromPct: 70, toPct: 100 }, { name: "Hard", fromPct: 100, toPct: null }]).bands[2].name).toBe("Hard");
+    expect(
+      bandSetFromStored("bike:power", [
+        { name: "Gentle", fromPct: 0, toPct: 70 },
+        { name: "Working", fromPct: 70, toPct: 100 },
+        { name: "Hard", fromPct: 100, toPct: null },
+      ]).bands[2].name,
+    ).toBe("Hard");
   });
 });
 

@@ -5,15 +5,38 @@ import { defaultBandSet, estimateSession, type Block } from "~/lib/training";
 const steady: Block[] = [{ kind: "steady", durationS: 1800, target: { metric: "power", lowPct: 70, highPct: 75 } }];
 const reps: Block[] = [
   { kind: "warmup", durationS: 600, target: { metric: "power", lowPct: 50, highPct: 65 } },
-  { kind: "repeats", count: 3, work: { durationS: 300, target: { metric: "power", lowPct: 105, highPct: 110 } }, recovery: { durationS: 180, target: { metric: "power", lowPct: 50 } } },
+  {
+    kind: "repeats",
+    count: 3,
+    work: { durationS: 300, target: { metric: "power", lowPct: 105, highPct: 110 } },
+    recovery: { durationS: 180, target: { metric: "power", lowPct: 50 } },
+  },
 ];
-const item = (id: number, blocks: Block[] | string, extra: Partial<{ testProtocol: string; timeOfDay: string; notes: string }> = {}) => ({ id, weekId: 1, day: id % 7, position: 0, name: `S${id}`, testProtocol: null, timeOfDay: null, notes: "", blocks, ...extra });
+const item = (
+  id: number,
+  blocks: Block[] | string,
+  extra: Partial<{ testProtocol: string; timeOfDay: string; notes: string }> = {},
+) => ({
+  id,
+  weekId: 1,
+  day: id % 7,
+  position: 0,
+  name: `S${id}`,
+  testProtocol: null,
+  timeOfDay: null,
+  notes: "",
+  blocks,
+  ...extra,
+});
 
 describe("board view", () => {
   const bands = defaultBandSet("bike:power").bands;
 
   it("gives each distinct block list one shape, whether the blocks come parsed or as stored JSON text", () => {
-    const { cards, shapes } = boardView([item(1, steady), item(2, JSON.stringify(steady)), item(3, reps), item(4, reps, { testProtocol: "ramp" })], bands);
+    const { cards, shapes } = boardView(
+      [item(1, steady), item(2, JSON.stringify(steady)), item(3, reps), item(4, reps, { testProtocol: "ramp" })],
+      bands,
+    );
     expect(shapes).toHaveLength(3);
     expect(cards.map((c) => c[4])).toEqual([0, 0, 1, 2]);
     expect(shapes[2].test).toBe(true);
@@ -25,7 +48,10 @@ describe("board view", () => {
   });
 
   it("leaves empty time and note out of the card and restores them when decoding", () => {
-    const { cards, shapes } = boardView([item(1, steady), item(2, steady, { notes: "Easy" }), item(3, steady, { timeOfDay: "06:30" })], bands);
+    const { cards, shapes } = boardView(
+      [item(1, steady), item(2, steady, { notes: "Easy" }), item(3, steady, { timeOfDay: "06:30" })],
+      bands,
+    );
     expect(cards.map((c) => c.length)).toEqual([6, 8, 7]);
     const items = boardItems(cards, shapes);
     expect(items.map((i) => [i.timeOfDay, i.notes, i.durationS])).toEqual([
@@ -36,7 +62,10 @@ describe("board view", () => {
   });
 
   it("still draws a card for blocks the engine refuses, without profile or load", () => {
-    const { shapes } = boardView([item(1, [{ kind: "steady", durationS: -5, target: { metric: "power", lowPct: 70 } }] as Block[])], bands);
+    const { shapes } = boardView(
+      [item(1, [{ kind: "steady", durationS: -5, target: { metric: "power", lowPct: 70 } }] as Block[])],
+      bands,
+    );
     expect(shapes[0].load).toBe(0);
     expect(shapes[0].levels.every((m) => m === 0)).toBe(true);
   });

@@ -29,7 +29,8 @@ describe("calendar-date helpers", () => {
 
   it("accept only real dates written YYYY-MM-DD", () => {
     expect(isIsoDate("2024-02-29")).toBe(true);
-    for (const bad of ["2025-02-29", "2026-13-01", "2026-1-01", "01/02/2026", "", null, 20260101]) expect(isIsoDate(bad)).toBe(false);
+    for (const bad of ["2025-02-29", "2026-13-01", "2026-1-01", "01/02/2026", "", null, 20260101])
+      expect(isIsoDate(bad)).toBe(false);
   });
 
   it("today depends on where the athlete lives", () => {

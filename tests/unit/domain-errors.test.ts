@@ -45,13 +45,18 @@ describe("route-edge replies", () => {
     const res = jsonFailure(new DomainError("rate_limited", "Slow down.", { retryAfterS: 30 }));
     expect(res.status).toBe(429);
     expect(res.headers.get("retry-after")).toBe("30");
-    const page = pageFailure(new DomainError("rate_limited", "Slow down.", { retryAfterS: 12 }), (e) => ({ error: e.message }));
+    const page = pageFailure(new DomainError("rate_limited", "Slow down.", { retryAfterS: 12 }), (e) => ({
+      error: e.message,
+    }));
     expect(page.init?.status).toBe(429);
     expect(new Headers(page.init?.headers).get("retry-after")).toBe("12");
   });
 
   it("builds the page's own reply shape", () => {
-    const page = pageFailure(new DomainError("invalid", "Give the test date.", { field: "testedOn" }), (e) => ({ error: e.message, field: e.field }));
+    const page = pageFailure(new DomainError("invalid", "Give the test date.", { field: "testedOn" }), (e) => ({
+      error: e.message,
+      field: e.field,
+    }));
     expect(page.init?.status).toBe(400);
     expect(page.data).toEqual({ error: "Give the test date.", field: "testedOn" });
   });

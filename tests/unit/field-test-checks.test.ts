@@ -25,7 +25,8 @@ import { computeThreshold } from "~/lib/field-tests";
 function file(segments: [number, number][]) {
   const rows = ["time,power,heart_rate"];
   let t = 0;
-  for (const [n, w] of segments) for (let i = 0; i < n; i++, t++) rows.push(`${t},${w + ((t * 7) % 9) - 4},${Math.round(100 + w / 4)}`);
+  for (const [n, w] of segments)
+    for (let i = 0; i < n; i++, t++) rows.push(`${t},${w + ((t * 7) % 9) - 4},${Math.round(100 + w / 4)}`);
   return parseActivity(rows.join("\n"), "synthetic.csv").samples;
 }
 const ramp = (from: number, to: number, step: number, stepS = 60): [number, number][] => {
@@ -46,7 +47,14 @@ describe("ramp detection on synthetic files", () => {
 
   it("mid-step failure: stopping 30 s into the 380 W step gives 60 s steps of 20 W, last completed step 360 W", () => {
     const r = detectRampTest(file([[600, 110], ...ramp(100, 360, 20), [30, 380], [300, 80]]));
-    expect(r).toMatchObject({ stepS: 60, steps: 14, failedIntoStepS: 30, startS: 600, lastCompletedEndS: 600 + 14 * 60, endS: 600 + 14 * 60 + 30 });
+    expect(r).toMatchObject({
+      stepS: 60,
+      steps: 14,
+      failedIntoStepS: 30,
+      startS: 600,
+      lastCompletedEndS: 600 + 14 * 60,
+      endS: 600 + 14 * 60 + 30,
+    });
     expect(r.stepW).toBeCloseTo(20, 1);
     expect(r.lastCompletedStepW).toBeCloseTo(360, 0);
     // The best minute straddles the last full step and the failed one: (30 × 360 + 30 × 380) / 60 = 370 W.
@@ -81,7 +89,9 @@ describe("ramp rate and the 75 % rule (common practice: the rule is used with 20
     expect(checkRampRate(20)).toMatchObject({ withinUsual: true, caution: null });
     expect(checkRampRate(25)).toMatchObject({ withinUsual: true, caution: null });
     expect(checkRampRate(5).withinUsual).toBe(false);
-    expect(checkRampRate(5).caution).toMatch(/rose 5 W a minute.*20–25 W.*lower.*confirm it with a 20-minute or 8-minute test/);
+    expect(checkRampRate(5).caution).toMatch(
+      /rose 5 W a minute.*20–25 W.*lower.*confirm it with a 20-minute or 8-minute test/,
+    );
     expect(checkRampRate(30).caution).toMatch(/faster ramp the best minute comes out higher/);
     const slow = computeThreshold("ramp", { bestOneMinuteW: 250, rampRateWPerMin: 5 });
     expect(slow.value).toBeCloseTo(187.5, 9); // 0.75 × 250 W (common practice), kept but cautioned
@@ -92,7 +102,13 @@ describe("ramp rate and the 75 % rule (common practice: the rule is used with 20
 
 describe("progressive laps and pacing advice", () => {
   // A 20-minute test ridden as three rising laps of 6:40 (170, 200, 236 W) between a warm-up and a cool-down.
-  const laps = file([[900, 150], [400, 170], [400, 200], [400, 236], [600, 100]]);
+  const laps = file([
+    [900, 150],
+    [400, 170],
+    [400, 200],
+    [400, 236],
+    [600, 100],
+  ]);
   it("the best 20 minutes are the three laps, paced rising; the proposal (0.95 × 202 W ≈ 192 W) carries advice", () => {
     const best = bestEffort(laps, 1200);
     expect(best.startS).toBe(900);
@@ -138,8 +154,18 @@ describe("critical power checks (Monod & Scherrer 1965; Jones et al. 2010, MSSE 
     for (const p of r.points) expect(p.fittedWorkJ).toBeCloseTo(line(p.durationS), 6);
   });
   it("warns about efforts outside 2–20 minutes (Jones et al. 2010) on the exact boundaries", () => {
-    expect(criticalPower([{ durationS: 120, meanPowerW: 420 }, { durationS: 1200, meanPowerW: 270 }]).warnings).toEqual([]);
-    expect(criticalPower([{ durationS: 119, meanPowerW: 420 }, { durationS: 1201, meanPowerW: 270 }]).warnings).toHaveLength(2);
+    expect(
+      criticalPower([
+        { durationS: 120, meanPowerW: 420 },
+        { durationS: 1200, meanPowerW: 270 },
+      ]).warnings,
+    ).toEqual([]);
+    expect(
+      criticalPower([
+        { durationS: 119, meanPowerW: 420 },
+        { durationS: 1201, meanPowerW: 270 },
+      ]).warnings,
+    ).toHaveLength(2);
   });
 });
 
@@ -163,7 +189,15 @@ describe("bounds per metric and sport (common practice, from memory)", () => {
 });
 
 describe("plausibility guard (our rule: ±8 % from the current threshold needs a confirmation)", () => {
-  const base: GuardInput = { sport: "bike", metric: "power", proposed: 276, current: 276, protocolLabel: "20-minute test", typed: true, daysSinceLastTest: 42 };
+  const base: GuardInput = {
+    sport: "bike",
+    metric: "power",
+    proposed: 276,
+    current: 276,
+    protocolLabel: "20-minute test",
+    typed: true,
+    daysSinceLastTest: 42,
+  };
   it("flags beyond ±8 % and not at it", () => {
     expect(plausibilityGuard({ ...base, proposed: 298 }).flagged).toBe(false); // +8.0 %
     expect(plausibilityGuard({ ...base, proposed: 299 }).flagged).toBe(true); // +8.3 %
@@ -188,19 +222,34 @@ describe("plausibility guard (our rule: ±8 % from the current threshold needs a
     });
     const text = g.reasons.join("\n");
     expect(g.headline).toMatch(/−30\.4 %/);
-    for (const word of [/^Pacing:/m, /^Protocol: the current threshold came from a ramp test/m, /^Timing: only 9 days/m, /^File: 60 s/m, /^Heart rate: it averaged 140 bpm/m, /^Equipment:/m]) {
+    for (const word of [
+      /^Pacing:/m,
+      /^Protocol: the current threshold came from a ramp test/m,
+      /^Timing: only 9 days/m,
+      /^File: 60 s/m,
+      /^Heart rate: it averaged 140 bpm/m,
+      /^Equipment:/m,
+    ]) {
       expect(text).toMatch(word);
     }
   });
   it("a first test is checked against the profile: 1.5–5.5 W/kg, 80–97 % of maximum heart rate (common practice, from memory)", () => {
     const first = { ...base, current: null };
-    expect(plausibilityGuard({ ...first, proposed: 450, profile: { weightKg: 60 } })).toMatchObject({ flagged: true, expectation: { low: 90, high: 330 } });
+    expect(plausibilityGuard({ ...first, proposed: 450, profile: { weightKg: 60 } })).toMatchObject({
+      flagged: true,
+      expectation: { low: 90, high: 330 },
+    });
     expect(plausibilityGuard({ ...first, proposed: 240, profile: { weightKg: 60 } }).flagged).toBe(false);
-    expect(plausibilityGuard({ ...first, metric: "heart_rate", proposed: 199, profile: { maxHr: 190 } }).flagged).toBe(true);
+    expect(plausibilityGuard({ ...first, metric: "heart_rate", proposed: 199, profile: { maxHr: 190 } }).flagged).toBe(
+      true,
+    );
     expect(plausibilityGuard({ ...first, proposed: 450 }).flagged).toBe(false); // no profile, no expectation
   });
   it("a protocol caution alone needs a confirmation", () => {
-    expect(plausibilityGuard({ ...base, cautions: ["slow ramp"] })).toMatchObject({ flagged: true, reasons: ["slow ramp"] });
+    expect(plausibilityGuard({ ...base, cautions: ["slow ramp"] })).toMatchObject({
+      flagged: true,
+      reasons: ["slow ramp"],
+    });
   });
 });
 

@@ -9,7 +9,12 @@ import { readGpx } from "~/lib/training/activity";
  * are not track points. The reference reads the same fields from the parsed document.
  */
 function reference(text: string) {
-  const doc = new XMLParser({ ignoreAttributes: false, attributeNamePrefix: "@", removeNSPrefix: true, isArray: (n) => n === "trk" || n === "trkseg" || n === "trkpt" }).parse(text, true);
+  const doc = new XMLParser({
+    ignoreAttributes: false,
+    attributeNamePrefix: "@",
+    removeNSPrefix: true,
+    isArray: (n) => n === "trk" || n === "trkseg" || n === "trkpt",
+  }).parse(text, true);
   const leaves = (node: unknown, out: Record<string, unknown> = {}) => {
     if (node && typeof node === "object")
       for (const [k, v] of Object.entries(node)) {
@@ -18,10 +23,18 @@ function reference(text: string) {
       }
     return out;
   };
-  return (doc.gpx.trk ?? []).flatMap((trk: any) => (trk?.trkseg ?? []).flatMap((seg: any) => seg?.trkpt ?? [])).map((pt: any) => {
-    const ext = leaves(pt?.extensions);
-    return { time: String(pt?.time ?? ""), lat: Number(pt["@lat"]), lon: Number(pt["@lon"]), power: ext.power === undefined ? undefined : Number(ext.power), hr: ext.hr === undefined ? undefined : Number(ext.hr) };
-  });
+  return (doc.gpx.trk ?? [])
+    .flatMap((trk: any) => (trk?.trkseg ?? []).flatMap((seg: any) => seg?.trkpt ?? []))
+    .map((pt: any) => {
+      const ext = leaves(pt?.extensions);
+      return {
+        time: String(pt?.time ?? ""),
+        lat: Number(pt["@lat"]),
+        lon: Number(pt["@lon"]),
+        power: ext.power === undefined ? undefined : Number(ext.power),
+        hr: ext.hr === undefined ? undefined : Number(ext.hr),
+      };
+    });
 }
 
 const point = fc.record({
@@ -45,7 +58,9 @@ function file(points: Point[]) {
   const body = points.map((p) => {
     t += (p.s + 1) * 1000;
     const q = p.quote;
-    const attrs = p.latFirst ? `lat=${q}${p.lat}${q} lon=${q}${p.lon}${q}` : `lon=${q}${p.lon}${q}  lat=${q}${p.lat}${q}`;
+    const attrs = p.latFirst
+      ? `lat=${q}${p.lat}${q} lon=${q}${p.lon}${q}`
+      : `lon=${q}${p.lon}${q}  lat=${q}${p.lat}${q}`;
     const e = p.extPrefix;
     const hr = p.hr === undefined ? "" : `<${e}hr>${p.hr}</${e}hr>`;
     const power = p.power === undefined ? "" : `<power>${p.power}</power>`;
@@ -77,7 +92,11 @@ describe("GPX scanner", () => {
 
   it("reads self-closing points and refuses an unclosed point or a truncated file", () => {
     expect(() => readGpx('<gpx><trk><trkseg><trkpt lat="1" lon="2"/></trkseg></trk></gpx>')).toThrow(/readable time/);
-    expect(() => readGpx('<gpx><trk><trkseg><trkpt lat="1" lon="2"><time>2026-01-01T00:00:00Z</time></trkseg></trk></gpx>')).toThrow(/not closed/);
-    expect(() => readGpx('<gpx><trk><trkseg><trkpt lat="1" lon="2"><time>2026-01-01T00:00:00Z</time></trkpt>')).toThrow(/well-formed/);
+    expect(() =>
+      readGpx('<gpx><trk><trkseg><trkpt lat="1" lon="2"><time>2026-01-01T00:00:00Z</time></trkseg></trk></gpx>'),
+    ).toThrow(/not closed/);
+    expect(() => readGpx('<gpx><trk><trkseg><trkpt lat="1" lon="2"><time>2026-01-01T00:00:00Z</time></trkpt>')).toThrow(
+      /well-formed/,
+    );
   });
 });

@@ -27,7 +27,11 @@ describe("isCrossSiteWrite", () => {
     expect(isCrossSiteWrite("POST", { ...cookie, secFetchSite: "same-origin" }, "/coach")).toBe(false);
     expect(isCrossSiteWrite("POST", { ...cookie, secFetchSite: "same-site" }, "/coach")).toBe(true);
     expect(isCrossSiteWrite("POST", { ...cookie, secFetchSite: "cross-site" }, "/coach")).toBe(true);
-    expect(isCrossSiteWrite("POST", { ...cookie, origin: "https://pacewright.example" }, "/coach", ["https://pacewright.example"])).toBe(false);
+    expect(
+      isCrossSiteWrite("POST", { ...cookie, origin: "https://pacewright.example" }, "/coach", [
+        "https://pacewright.example",
+      ]),
+    ).toBe(false);
     expect(isCrossSiteWrite("POST", cookie, "/webhooks/payments")).toBe(false);
     expect(isCrossSiteWrite("GET", cookie, "/coach")).toBe(false);
   });

@@ -38,7 +38,14 @@ const unfold = (s: string) => s.replace(/\r\n /g, "");
 
 function calendarWith(text: string) {
   const cal = ical({ name: "Folding check", prodId: { company: "pacewright", product: "tests" } });
-  cal.createEvent({ id: "fold-1", start: new Date(Date.UTC(2027, 0, 4, 7)), end: new Date(Date.UTC(2027, 0, 4, 8)), stamp: new Date(Date.UTC(2026, 11, 1)), summary: text.slice(0, 40) || "x", description: text });
+  cal.createEvent({
+    id: "fold-1",
+    start: new Date(Date.UTC(2027, 0, 4, 7)),
+    end: new Date(Date.UTC(2027, 0, 4, 8)),
+    stamp: new Date(Date.UTC(2026, 11, 1)),
+    summary: text.slice(0, 40) || "x",
+    description: text,
+  });
   return cal.toString();
 }
 
@@ -46,17 +53,38 @@ describe("calendar line folding (RFC 5545 §3.1)", () => {
   it("the installed library carries the patch", () => {
     const require = createRequire(import.meta.url);
     const dir = require.resolve("ical-generator").replace(/index\.c?js$/, "");
-    for (const file of ["index.mjs", "index.cjs"]) expect(fs.readFileSync(`${dir}${file}`, "utf8")).not.toContain("new TextEncoder().encode(i).length");
+    for (const file of ["index.mjs", "index.cjs"])
+      expect(fs.readFileSync(`${dir}${file}`, "utf8")).not.toContain("new TextEncoder().encode(i).length");
   });
 
   it("folds exactly as the library's original code, for ASCII, accents, CJK, emoji and lone surrogates", () => {
-    const pieces = fc.constantFrom("a", "Z", " ", "é", "ß", "→", "水", "🚴", "👍🏽", "\ud800", "\udc00", "Ω", ",", ";", "\n", "x".repeat(70));
+    const pieces = fc.constantFrom(
+      "a",
+      "Z",
+      " ",
+      "é",
+      "ß",
+      "→",
+      "水",
+      "🚴",
+      "👍🏽",
+      "\ud800",
+      "\udc00",
+      "Ω",
+      ",",
+      ";",
+      "\n",
+      "x".repeat(70),
+    );
     fc.assert(
-      fc.property(fc.array(pieces, { maxLength: 200 }).map((a) => a.join("")), (text) => {
-        const out = calendarWith(text);
-        expect(out).toBe(referenceFold(unfold(out)));
-        for (const line of out.split("\r\n")) expect(Buffer.byteLength(line, "utf8")).toBeLessThanOrEqual(75);
-      }),
+      fc.property(
+        fc.array(pieces, { maxLength: 200 }).map((a) => a.join("")),
+        (text) => {
+          const out = calendarWith(text);
+          expect(out).toBe(referenceFold(unfold(out)));
+          for (const line of out.split("\r\n")) expect(Buffer.byteLength(line, "utf8")).toBeLessThanOrEqual(75);
+        },
+      ),
       { numRuns: 300 },
     );
   });

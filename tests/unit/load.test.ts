@@ -1,6 +1,16 @@
 import { sampleStandardDeviation, standardDeviation, mean } from "simple-statistics";
 import { describe, expect, it } from "vitest";
-import { acuteChronicRatio, usualWeekRange, effortLoad, fitnessFatigue, monotonyStrain, ratioBand, trimpBanister, trimpEdwards, TrainingInputError } from "~/lib/training";
+import {
+  acuteChronicRatio,
+  usualWeekRange,
+  effortLoad,
+  fitnessFatigue,
+  monotonyStrain,
+  ratioBand,
+  trimpBanister,
+  trimpEdwards,
+  TrainingInputError,
+} from "~/lib/training";
 
 describe("effort load (session-RPE method, Foster et al. 2001)", () => {
   it("effort 7 for 60 min → 420", () => expect(effortLoad(7, 60)).toBe(420));
@@ -17,13 +27,20 @@ describe("TRIMP (Banister; constants 0.64·e^1.92x male, 0.86·e^1.67x female)",
   });
   it("the female constants give 45 × x × 0.86 × e^(1.67x)", () => {
     const x = 90 / 130;
-    expect(trimpBanister({ minutes: 45, avgHr: 150, restHr: 60, maxHr: 190, sex: "female" })).toBeCloseTo(45 * x * 0.86 * Math.exp(1.67 * x), 9);
+    expect(trimpBanister({ minutes: 45, avgHr: 150, restHr: 60, maxHr: 190, sex: "female" })).toBeCloseTo(
+      45 * x * 0.86 * Math.exp(1.67 * x),
+      9,
+    );
   });
-  it("refuses max ≤ rest", () => expect(() => trimpBanister({ minutes: 30, avgHr: 120, restHr: 60, maxHr: 60 + 0, sex: "male" })).toThrow(TrainingInputError));
+  it("refuses max ≤ rest", () =>
+    expect(() => trimpBanister({ minutes: 30, avgHr: 120, restHr: 60, maxHr: 60 + 0, sex: "male" })).toThrow(
+      TrainingInputError,
+    ));
 });
 
 describe("Edwards zone TRIMP (Edwards 1993): minutes × zone weight 1–5", () => {
-  it("10, 20, 15, 5, 2 minutes → 10 + 40 + 45 + 20 + 10 = 125", () => expect(trimpEdwards([10, 20, 15, 5, 2])).toBe(125));
+  it("10, 20, 15, 5, 2 minutes → 10 + 40 + 45 + 20 + 10 = 125", () =>
+    expect(trimpEdwards([10, 20, 15, 5, 2])).toBe(125));
   it("needs five zones", () => expect(() => trimpEdwards([1, 2, 3])).toThrow(TrainingInputError));
 });
 

@@ -1,5 +1,14 @@
 import { describe, expect, it } from "vitest";
-import { comparePacing, flatSpeed, pacingPlan, ROAD_MODEL, thresholdFromEightMinute, thresholdFromTwentyMinute, TrainingInputError, validateSplit } from "~/lib/training";
+import {
+  comparePacing,
+  flatSpeed,
+  pacingPlan,
+  ROAD_MODEL,
+  thresholdFromEightMinute,
+  thresholdFromTwentyMinute,
+  TrainingInputError,
+  validateSplit,
+} from "~/lib/training";
 
 describe("pacing plan arithmetic", () => {
   it("20-minute test: threshold ÷ 0.95, three 400 s segments at 97/100/103 % (common practice), watts rounded to 1", () => {
@@ -37,7 +46,9 @@ describe("pacing plan arithmetic", () => {
     expect(validateSplit([110, 110, 110])).toMatch(/average 110 %/);
     expect(validateSplit([80, 100, 120])).toMatch(/between 85 and 115/);
     expect(validateSplit([100])).toMatch(/2 to 4/);
-    expect(() => pacingPlan({ protocol: "twenty_minute", thresholdW: 250, split: [120, 120, 120] })).toThrow(TrainingInputError);
+    expect(() => pacingPlan({ protocol: "twenty_minute", thresholdW: 250, split: [120, 120, 120] })).toThrow(
+      TrainingInputError,
+    );
   });
 
   it("ramp: the expected best minute is threshold ÷ 0.75, reached on the +20 W/min ramp from 100 W", () => {
@@ -50,7 +61,11 @@ describe("pacing plan arithmetic", () => {
 
   it("flat-road speed solves the power equation (checked with Cardano's formula for the depressed cubic)", () => {
     const { cdA, crr, rho, eta, g } = ROAD_MODEL;
-    for (const [p, m] of [[150, 70], [276, 84], [400, 95]]) {
+    for (const [p, m] of [
+      [150, 70],
+      [276, 84],
+      [400, 95],
+    ]) {
       // a·v³ + b·v − P·η = 0 → v³ + pv + q = 0 with p = b/a, q = −Pη/a; one real root.
       const a = 0.5 * rho * cdA;
       const b = m * g * crr;
@@ -78,7 +93,9 @@ describe("pacing plan arithmetic", () => {
     // A lap at 97 % of the expected power is slower than 300 s, one at 103 % faster.
     expect(timed.laps!.laps[0].expectedS).toBeGreaterThan(300);
     expect(timed.laps!.laps.find((l) => l.targetW === 284 && l.fraction === 1)?.expectedS ?? 0).toBeLessThan(300);
-    expect(() => pacingPlan({ protocol: "twenty_minute", thresholdW: 262, lap: { lapTimeS: 10 } })).toThrow(/too short/);
+    expect(() => pacingPlan({ protocol: "twenty_minute", thresholdW: 262, lap: { lapTimeS: 10 } })).toThrow(
+      /too short/,
+    );
   });
 });
 

@@ -8,12 +8,20 @@ import { parseActivity, SHORT_GAP_S } from "~/lib/training";
  * The library's column-wise version must give the same samples and counts on arbitrary files.
  */
 function reference(rows: { t: number; power?: number; hr?: number }[]) {
-  const pts = rows.filter((r) => r.t >= 0).map((r) => ({ t: r.t, power: r.power !== undefined && r.power <= 3000 ? r.power : undefined, hr: r.hr !== undefined && r.hr >= 25 && r.hr <= 250 ? r.hr : undefined }));
+  const pts = rows
+    .filter((r) => r.t >= 0)
+    .map((r) => ({
+      t: r.t,
+      power: r.power !== undefined && r.power <= 3000 ? r.power : undefined,
+      hr: r.hr !== undefined && r.hr >= 25 && r.hr <= 250 ? r.hr : undefined,
+    }));
   pts.sort((a, b) => a.t - b.t);
   const channels = (["power", "hr"] as const).filter((c) => pts.some((p) => p[c] !== undefined));
   const t0 = pts[0].t;
   const n = Math.floor(pts[pts.length - 1].t - t0) + 1;
-  const out: Record<string, number | null>[] = Array.from({ length: n }, (_, t) => Object.fromEntries([["t", t], ...channels.map((c) => [c, null])]));
+  const out: Record<string, number | null>[] = Array.from({ length: n }, (_, t) =>
+    Object.fromEntries([["t", t], ...channels.map((c) => [c, null])]),
+  );
   let interpolatedS = 0;
   let stoppedS = 0;
   for (const c of channels) {
@@ -33,7 +41,9 @@ function reference(rows: { t: number; power?: number; hr?: number }[]) {
       const gap = i - prev - 1;
       if (gap < 1) return;
       for (let k = prev + 1; k < i; k++) {
-        if (gap <= SHORT_GAP_S) out[k][c] = (out[prev][c] as number) + (((out[i][c] as number) - (out[prev][c] as number)) * (k - prev)) / (i - prev);
+        if (gap <= SHORT_GAP_S)
+          out[k][c] =
+            (out[prev][c] as number) + (((out[i][c] as number) - (out[prev][c] as number)) * (k - prev)) / (i - prev);
         else if (c === "power") out[k][c] = 0;
       }
       if (c === channels[0]) {
@@ -54,7 +64,11 @@ describe("resampling to 1 Hz", () => {
     });
     fc.assert(
       fc.property(fc.array(row, { minLength: 1, maxLength: 120 }), (rows) => {
-        const usable = rows.filter((r) => r.t >= 0 && ((r.power !== undefined && r.power <= 3000) || (r.hr !== undefined && r.hr >= 25 && r.hr <= 250)));
+        const usable = rows.filter(
+          (r) =>
+            r.t >= 0 &&
+            ((r.power !== undefined && r.power <= 3000) || (r.hr !== undefined && r.hr >= 25 && r.hr <= 250)),
+        );
         fc.pre(usable.length > 0);
         const csv = ["time,power,hr", ...rows.map((r) => `${r.t},${r.power ?? ""},${r.hr ?? ""}`)].join("\n");
         const got = parseActivity(csv, "x.csv");

@@ -1,5 +1,16 @@
 import { describe, expect, it } from "vitest";
-import { bandLoad, bandSetKeyFor, defaultBandSet, lapTable, lapsFromSplits, minutesPerBand, parseActivity, valueHistogram, wPrimeBalance, type Sample } from "~/lib/training";
+import {
+  bandLoad,
+  bandSetKeyFor,
+  defaultBandSet,
+  lapTable,
+  lapsFromSplits,
+  minutesPerBand,
+  parseActivity,
+  valueHistogram,
+  wPrimeBalance,
+  type Sample,
+} from "~/lib/training";
 import { toCsv, toFit, toGpx, type RideSample } from "../../db/demo/rides";
 
 const series = (parts: [number, number, number?][]): Sample[] => {
@@ -27,7 +38,11 @@ describe("lap table", () => {
 
 describe("W′ balance, integral form (Skiba et al. 2012, MSSE 44:1526)", () => {
   it("matches a worked example: CP 250 W, W′ 20 kJ, 10 min at 150 W, 60 s at 350 W, 5 min at 150 W", () => {
-    const s = series([[600, 150], [60, 350], [300, 150]]);
+    const s = series([
+      [600, 150],
+      [60, 350],
+      [300, 150],
+    ]);
     const r = wPrimeBalance(s, 250, 20_000);
     // DCP = 250 − 150 (mean of the seconds below CP) = 100 W; τ = 546·e^(−1) + 316 = 516.86 s.
     const tau = 546 * Math.exp(-1) + 316;
@@ -44,7 +59,10 @@ describe("W′ balance, integral form (Skiba et al. 2012, MSSE 44:1526)", () => 
   });
 
   it("agrees with the direct double sum of the published formula on an irregular ride", () => {
-    const s: Sample[] = Array.from({ length: 900 }, (_, t) => ({ t, power: 180 + 160 * Math.sin(t / 37) + ((t * 13) % 40) }));
+    const s: Sample[] = Array.from({ length: 900 }, (_, t) => ({
+      t,
+      power: 180 + 160 * Math.sin(t / 37) + ((t * 13) % 40),
+    }));
     const cp = 260;
     const wp = 18_000;
     const r = wPrimeBalance(s, cp, wp);
@@ -61,32 +79,61 @@ describe("W′ balance, integral form (Skiba et al. 2012, MSSE 44:1526)", () => 
 describe("band load (minutes per power band × the band's place, 1, 2, 3 …; Edwards' weighting idea on our bands)", () => {
   it("weights each band's minutes by its place from the bottom", () => {
     const set = defaultBandSet(bandSetKeyFor("bike", "power"));
-    const s = series([[1200, 150], [600, 250], [300, 300]]);
+    const s = series([
+      [1200, 150],
+      [600, 250],
+      [300, 300],
+    ]);
     const hist = valueHistogram(s.map((x) => x.power));
     const r = bandLoad(hist, 262, set);
     const minutes = minutesPerBand(hist, 262, set);
     expect(r.weights).toEqual(set.bands.map((_, i) => i + 1));
-    expect(r.load).toBeCloseTo(minutes.reduce((a, m, i) => a + m * (i + 1), 0), 9);
+    expect(r.load).toBeCloseTo(
+      minutes.reduce((a, m, i) => a + m * (i + 1), 0),
+      9,
+    );
     expect(r.minutes.reduce((a, m) => a + m, 0)).toBeCloseTo(35, 9);
   });
 });
 
 describe("laps in files", () => {
-  const ride: RideSample[] = Array.from({ length: 900 }, (_, t) => ({ t, power: t < 300 ? 150 : t < 600 ? 250 : 120, hr: 130, cadence: 90, speed: 8 }));
+  const ride: RideSample[] = Array.from({ length: 900 }, (_, t) => ({
+    t,
+    power: t < 300 ? 150 : t < 600 ? 250 : 120,
+    hr: 130,
+    cadence: 90,
+    speed: 8,
+  }));
   it("FIT lap messages", () => {
-    expect(parseActivity(toFit(ride, undefined, [0, 300, 600]), "r.fit").meta.laps).toEqual([{ startS: 0, endS: 300 }, { startS: 300, endS: 600 }, { startS: 600, endS: 900 }]);
+    expect(parseActivity(toFit(ride, undefined, [0, 300, 600]), "r.fit").meta.laps).toEqual([
+      { startS: 0, endS: 300 },
+      { startS: 300, endS: 600 },
+      { startS: 600, endS: 900 },
+    ]);
     expect(parseActivity(toFit(ride), "r.fit").meta.laps).toBeUndefined();
   });
   it("a CSV lap column", () => {
     const csv = toCsv(ride).split("\n");
-    const withLap = [csv[0] + ",lap", ...csv.slice(1).filter(Boolean).map((line, i) => `${line},${i < 450 ? 1 : 2}`)].join("\n");
-    expect(parseActivity(withLap, "r.csv").meta.laps).toEqual([{ startS: 0, endS: 450 }, { startS: 450, endS: 900 }]);
+    const withLap = [
+      csv[0] + ",lap",
+      ...csv
+        .slice(1)
+        .filter(Boolean)
+        .map((line, i) => `${line},${i < 450 ? 1 : 2}`),
+    ].join("\n");
+    expect(parseActivity(withLap, "r.csv").meta.laps).toEqual([
+      { startS: 0, endS: 450 },
+      { startS: 450, endS: 900 },
+    ]);
   });
   it("GPX track segments", () => {
     const gpx = toGpx(ride);
     // Split the one segment in two before the point at second 600.
     const at = gpx.lastIndexOf("<trkpt", gpx.indexOf("T08:10:00.000Z"));
     const two = gpx.slice(0, at) + "</trkseg><trkseg>" + gpx.slice(at);
-    expect(parseActivity(two, "r.gpx").meta.laps).toEqual([{ startS: 0, endS: 600 }, { startS: 600, endS: 900 }]);
+    expect(parseActivity(two, "r.gpx").meta.laps).toEqual([
+      { startS: 0, endS: 600 },
+      { startS: 600, endS: 900 },
+    ]);
   });
 });

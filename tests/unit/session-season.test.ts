@@ -1,9 +1,21 @@
 import { describe, expect, it } from "vitest";
-import { estimateSession, expandBlocks, seasonSkeleton, validateBlocks, TrainingInputError, type Block } from "~/lib/training";
+import {
+  estimateSession,
+  expandBlocks,
+  seasonSkeleton,
+  validateBlocks,
+  TrainingInputError,
+  type Block,
+} from "~/lib/training";
 
 const threshold4x8: Block[] = [
   { kind: "warmup", durationS: 900, target: { metric: "power", lowPct: 50, highPct: 70 } },
-  { kind: "repeats", count: 4, work: { durationS: 480, target: { metric: "power", lowPct: 95, highPct: 99 } }, recovery: { durationS: 240, target: { metric: "power", lowPct: 50 } } },
+  {
+    kind: "repeats",
+    count: 4,
+    work: { durationS: 480, target: { metric: "power", lowPct: 95, highPct: 99 } },
+    recovery: { durationS: 240, target: { metric: "power", lowPct: 50 } },
+  },
   { kind: "ramp", durationS: 300, metric: "power", fromPct: 60, toPct: 40 },
   { kind: "open", durationS: 300 },
 ];
@@ -19,10 +31,23 @@ describe("blocks", () => {
   it("validation keys each problem to its field", () => {
     const errors = validateBlocks([
       { kind: "steady", durationS: 0, target: { metric: "power", lowPct: 350 } },
-      { kind: "repeats", count: 51, work: { durationS: 60, target: { metric: "power", lowPct: 110, highPct: 100 } }, recovery: { durationS: 60 } },
+      {
+        kind: "repeats",
+        count: 51,
+        work: { durationS: 60, target: { metric: "power", lowPct: 110, highPct: 100 } },
+        recovery: { durationS: 60 },
+      },
       { kind: "open", durationS: 13 * 3600 },
     ]);
-    expect(Object.keys(errors).sort()).toEqual(["blocks.0.durationS", "blocks.0.target.lowPct", "blocks.1.count", "blocks.1.work.target.highPct", "blocks.2.durationS"].sort());
+    expect(Object.keys(errors).sort()).toEqual(
+      [
+        "blocks.0.durationS",
+        "blocks.0.target.lowPct",
+        "blocks.1.count",
+        "blocks.1.work.target.highPct",
+        "blocks.2.durationS",
+      ].sort(),
+    );
     expect(validateBlocks([])).toHaveProperty("blocks");
     expect(validateBlocks(threshold4x8)).toEqual({});
   });
@@ -46,12 +71,20 @@ describe("estimateSession", () => {
     expect(estimateSession(threshold4x8).workKj).toBeNull();
   });
   it("refuses invalid blocks", () => {
-    expect(() => estimateSession([{ kind: "steady", durationS: -5, target: { metric: "power", lowPct: 80 } }])).toThrow(TrainingInputError);
+    expect(() => estimateSession([{ kind: "steady", durationS: -5, target: { metric: "power", lowPct: 80 } }])).toThrow(
+      TrainingInputError,
+    );
   });
 });
 
 describe("season skeleton (constants are common practice)", () => {
-  const plan = seasonSkeleton({ eventDate: "2027-04-18", weeks: 16, weeklyHours: 10, pattern: "3:1", testEveryWeeks: 6 });
+  const plan = seasonSkeleton({
+    eventDate: "2027-04-18",
+    weeks: 16,
+    weeklyHours: 10,
+    pattern: "3:1",
+    testEveryWeeks: 6,
+  });
   const w = plan.weeks;
   it("16 weeks ending in the event week, starting on a Monday", () => {
     expect(w).toHaveLength(16);
@@ -97,11 +130,18 @@ describe("season skeleton (constants are common practice)", () => {
       for (let weeks = 4; weeks <= 40; weeks++) {
         for (const testEveryWeeks of [4, 5, 6, 7, 8]) {
           for (const withEvent of [true, false]) {
-            const p = seasonSkeleton({ ...(withEvent ? { eventDate: "2027-09-12" } : { startDate: "2027-01-04" }), weeks, weeklyHours: 8, pattern, testEveryWeeks });
+            const p = seasonSkeleton({
+              ...(withEvent ? { eventDate: "2027-09-12" } : { startDate: "2027-01-04" }),
+              weeks,
+              weeklyHours: 8,
+              pattern,
+              testEveryWeeks,
+            });
             const label = `${pattern} ${weeks} weeks, test every ${testEveryWeeks}, ${withEvent ? "event" : "no event"}`;
             const ws = p.weeks;
             for (let i = 1; i < ws.length; i++) {
-              if (ws[i].phase !== ws[i - 1].phase && ["base", "build", "peak"].includes(ws[i].phase)) expect(ws[i].recovery, `${label}: week ${i + 1} starts ${ws[i].phase}`).toBe(false);
+              if (ws[i].phase !== ws[i - 1].phase && ["base", "build", "peak"].includes(ws[i].phase))
+                expect(ws[i].recovery, `${label}: week ${i + 1} starts ${ws[i].phase}`).toBe(false);
             }
             const tests = ws.filter((x) => x.test).map((x) => x.index);
             expect(tests[0], label).toBe(1);
@@ -113,8 +153,16 @@ describe("season skeleton (constants are common practice)", () => {
               expect(["taper", "race"], label).not.toContain(ws[t - 1].phase);
               // The block runs from the test week to the next recovery week (or the end of the loading weeks).
               const block = [];
-              for (let i = t; i <= ws.length && !ws[i - 1].recovery && ["base", "build", "peak"].includes(ws[i - 1].phase); i++) block.push(ws[i - 1]);
-              expect(Math.max(...block.map((b) => b.loadFactor)), `${label}: week ${t} is not the block's heaviest`).toBeGreaterThan(ws[t - 1].loadFactor);
+              for (
+                let i = t;
+                i <= ws.length && !ws[i - 1].recovery && ["base", "build", "peak"].includes(ws[i - 1].phase);
+                i++
+              )
+                block.push(ws[i - 1]);
+              expect(
+                Math.max(...block.map((b) => b.loadFactor)),
+                `${label}: week ${t} is not the block's heaviest`,
+              ).toBeGreaterThan(ws[t - 1].loadFactor);
             }
           }
         }
@@ -122,10 +170,20 @@ describe("season skeleton (constants are common practice)", () => {
     }
   });
   it("refuses impossible inputs", () => {
-    expect(() => seasonSkeleton({ eventDate: "2027-02-30", weeks: 10, weeklyHours: 8, pattern: "3:1" })).toThrow(/real date/);
-    expect(() => seasonSkeleton({ startDate: "2027-05-01", eventDate: "2027-03-01", weeklyHours: 8, pattern: "3:1" })).toThrow(/after the start/);
-    expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 2, weeklyHours: 8, pattern: "3:1" })).toThrow(/4 to 104/);
-    expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 10, weeklyHours: 0, pattern: "3:1" })).toThrow(TrainingInputError);
-    expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 10, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 3 })).toThrow(/4 to 8 weeks/);
+    expect(() => seasonSkeleton({ eventDate: "2027-02-30", weeks: 10, weeklyHours: 8, pattern: "3:1" })).toThrow(
+      /real date/,
+    );
+    expect(() =>
+      seasonSkeleton({ startDate: "2027-05-01", eventDate: "2027-03-01", weeklyHours: 8, pattern: "3:1" }),
+    ).toThrow(/after the start/);
+    expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 2, weeklyHours: 8, pattern: "3:1" })).toThrow(
+      /4 to 104/,
+    );
+    expect(() => seasonSkeleton({ startDate: "2027-01-04", weeks: 10, weeklyHours: 0, pattern: "3:1" })).toThrow(
+      TrainingInputError,
+    );
+    expect(() =>
+      seasonSkeleton({ startDate: "2027-01-04", weeks: 10, weeklyHours: 8, pattern: "3:1", testEveryWeeks: 3 }),
+    ).toThrow(/4 to 8 weeks/);
   });
 });

@@ -35,9 +35,12 @@ describe("prices in whole cents", () => {
     ["10000", 1_000_000],
     ["1 200", 120_000],
   ])("%s is %i cents", (text, cents) => expect(parsePriceCents(text)).toEqual({ ok: true, cents }));
-  it.each(["0.001", "0.004", "1e-300", "0.49", "0", "10000.01", "", "-1", "12.345", "Infinity", "NaN"])("%s is refused", (text) => {
-    expect(parsePriceCents(text).ok).toBe(false);
-  });
+  it.each(["0.001", "0.004", "1e-300", "0.49", "0", "10000.01", "", "-1", "12.345", "Infinity", "NaN"])(
+    "%s is refused",
+    (text) => {
+      expect(parsePriceCents(text).ok).toBe(false);
+    },
+  );
   it("formats with the currency's symbol (Intl, en-GB)", () => {
     expect(formatPrice(2950, "EUR")).toBe("€29.50");
     expect(formatPrice(1_000_000, "GBP")).toBe("£10,000.00");

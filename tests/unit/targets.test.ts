@@ -4,7 +4,11 @@ import { formatTarget, percentOfThreshold, resolveTarget, TrainingInputError } f
 
 describe("targets: absolute = pct × threshold / 100; for pace the percentage is of speed", () => {
   it("power and heart rate round to 1", () => {
-    expect(resolveTarget({ metric: "power", lowPct: 95, highPct: 99 }, 250)).toEqual({ low: 238, high: 248, unit: "W" });
+    expect(resolveTarget({ metric: "power", lowPct: 95, highPct: 99 }, 250)).toEqual({
+      low: 238,
+      high: 248,
+      unit: "W",
+    });
     expect(resolveTarget({ metric: "heart_rate", lowPct: 90 }, 171)).toEqual({ low: 154, high: 154, unit: "bpm" });
   });
   it("110 % of threshold pace 4:00/km is 240 / 1.1 = 218 s (3:38/km)", () => {
@@ -12,7 +16,9 @@ describe("targets: absolute = pct × threshold / 100; for pace the percentage is
     const range = resolveTarget({ metric: "pace", lowPct: 90, highPct: 95 }, 240);
     expect(range).toEqual({ low: 267, high: 253, unit: "s/km" });
     expect(formatTarget(range)).toBe("4:13–4:27 /km");
-    expect(formatTarget(resolveTarget({ metric: "pace", lowPct: 100 }, 95, { paceUnit: "s/100m" }))).toBe("1:35 /100 m");
+    expect(formatTarget(resolveTarget({ metric: "pace", lowPct: 100 }, 95, { paceUnit: "s/100m" }))).toBe(
+      "1:35 /100 m",
+    );
   });
   it("resolving then inverting returns the percentage (property, within rounding)", () => {
     fc.assert(

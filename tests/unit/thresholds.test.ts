@@ -55,11 +55,26 @@ describe("critical power (Monod & Scherrer 1965; Jones et al. 2010, MSSE 42:1876
   });
 
   it("warns about efforts outside 2–20 minutes and refuses inconsistent ones", () => {
-    expect(criticalPower([{ durationS: 60, meanPowerW: 500 }, { durationS: 720, meanPowerW: 278 }]).warnings).toHaveLength(1);
+    expect(
+      criticalPower([
+        { durationS: 60, meanPowerW: 500 },
+        { durationS: 720, meanPowerW: 278 },
+      ]).warnings,
+    ).toHaveLength(1);
     expect(() => criticalPower([{ durationS: 180, meanPowerW: 360 }])).toThrow(/at least two/);
-    expect(() => criticalPower([{ durationS: 300, meanPowerW: 300 }, { durationS: 300, meanPowerW: 310 }])).toThrow(/different durations/);
+    expect(() =>
+      criticalPower([
+        { durationS: 300, meanPowerW: 300 },
+        { durationS: 300, meanPowerW: 310 },
+      ]),
+    ).toThrow(/different durations/);
     // Longer effort with higher mean power: W′ would be negative.
-    expect(() => criticalPower([{ durationS: 180, meanPowerW: 250 }, { durationS: 720, meanPowerW: 300 }])).toThrow(TrainingInputError);
+    expect(() =>
+      criticalPower([
+        { durationS: 180, meanPowerW: 250 },
+        { durationS: 720, meanPowerW: 300 },
+      ]),
+    ).toThrow(TrainingInputError);
   });
 
   it("time to exhaustion t = W′/(P − CP); none below CP", () => {

@@ -20,7 +20,11 @@ export async function startFakes(): Promise<RunningFakes> {
     closers.push(catcher.close);
   }
   if (e.fakes && !e.stripeSecretKey) {
-    const pay = await startFakePayments({ port: e.fakePaymentsPort, webhookUrl: `http://127.0.0.1:${e.port}/webhooks/payments`, webhookSecret: e.stripeWebhookSecret });
+    const pay = await startFakePayments({
+      port: e.fakePaymentsPort,
+      webhookUrl: `http://127.0.0.1:${e.port}/webhooks/payments`,
+      webhookSecret: e.stripeWebhookSecret,
+    });
     paymentsPort = pay.port;
     closers.push(pay.close);
   }

@@ -36,7 +36,8 @@ function parseForm(body: string): any {
   return out;
 }
 
-const escape = (s: string) => s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
+const escape = (s: string) =>
+  s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
 /**
  * A small stand-in for the payment provider on loopback: the SDK's checkout-session create / retrieve and refund
@@ -54,17 +55,39 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
   const chargeOf = (s: FakeSession) => {
     const refunds = refunded.get(s.id) ?? [];
     const amountRefunded = refunds.reduce((sum, r) => sum + r.amount, 0);
-    return { id: `ch_${s.id.slice(8)}`, object: "charge", amount: s.amount_total, currency: s.currency, payment_intent: s.payment_intent, amount_refunded: amountRefunded, refunded: amountRefunded >= s.amount_total, metadata: s.metadata, refunds: { object: "list", data: refunds } };
+    return {
+      id: `ch_${s.id.slice(8)}`,
+      object: "charge",
+      amount: s.amount_total,
+      currency: s.currency,
+      payment_intent: s.payment_intent,
+      amount_refunded: amountRefunded,
+      refunded: amountRefunded >= s.amount_total,
+      metadata: s.metadata,
+      refunds: { object: "list", data: refunds },
+    };
   };
 
   const deliver = (type: string, object: unknown) => {
-    const event = { id: `evt_${crypto.randomBytes(12).toString("hex")}`, object: "event", type, created: Math.floor(Date.now() / 1000), data: { object }, livemode: false, api_version: "2025-01-01" };
+    const event = {
+      id: `evt_${crypto.randomBytes(12).toString("hex")}`,
+      object: "event",
+      type,
+      created: Math.floor(Date.now() / 1000),
+      data: { object },
+      livemode: false,
+      api_version: "2025-01-01",
+    };
     const payload = JSON.stringify(event);
     const job = (async () => {
       for (let attempt = 0; attempt < 5; attempt++) {
         try {
           const header = signer.webhooks.generateTestHeaderString({ payload, secret: opts.webhookSecret });
-          const res = await fetch(opts.webhookUrl, { method: "POST", body: payload, headers: { "Content-Type": "application/json", "Stripe-Signature": header } });
+          const res = await fetch(opts.webhookUrl, {
+            method: "POST",
+            body: payload,
+            headers: { "Content-Type": "application/json", "Stripe-Signature": header },
+          });
           if (res.ok) return;
         } catch {
           /* the app may be restarting; try again */
@@ -76,7 +99,8 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
     return { event, job };
   };
 
-  const json = (res: http.ServerResponse, status: number, body: unknown) => res.writeHead(status, { "Content-Type": "application/json" }).end(JSON.stringify(body));
+  const json = (res: http.ServerResponse, status: number, body: unknown) =>
+    res.writeHead(status, { "Content-Type": "application/json" }).end(JSON.stringify(body));
 
   const server = http.createServer(async (req, res) => {
     const url = new URL(req.url ?? "/", base);
@@ -101,7 +125,10 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
         payment_intent: null,
         url: `${base}/pay/${id}`,
         mode: "payment",
-        line_items: items.map((i) => ({ name: String(i.price_data?.product_data?.name ?? "Item"), amount: Number(i.price_data?.unit_amount ?? 0) })),
+        line_items: items.map((i) => ({
+          name: String(i.price_data?.product_data?.name ?? "Item"),
+          amount: Number(i.price_data?.unit_amount ?? 0),
+        })),
       };
       sessions.set(id, session);
       return json(res, 200, session);
@@ -109,7 +136,9 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
     const retrieve = url.pathname.match(/^\/v1\/checkout\/sessions\/([\w-]+)$/);
     if (req.method === "GET" && retrieve) {
       const s = sessions.get(retrieve[1]);
-      return s ? json(res, 200, s) : json(res, 404, { error: { type: "invalid_request_error", message: "No such checkout session" } });
+      return s
+        ? json(res, 200, s)
+        : json(res, 404, { error: { type: "invalid_request_error", message: "No such checkout session" } });
     }
     if (req.method === "POST" && url.pathname === "/v1/refunds") {
       // Like the real service: a repeated Idempotency-Key answers the first refund again, and a charge that is
@@ -120,8 +149,23 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
       const session = [...sessions.values()].find((s) => s.payment_intent && s.payment_intent === p.payment_intent);
       if (!session) return json(res, 400, { error: { type: "invalid_request_error", message: "No such payment" } });
       const done = refunded.get(session.id) ?? [];
-      if (done.reduce((s, r) => s + r.amount, 0) >= session.amount_total) return json(res, 400, { error: { type: "invalid_request_error", code: "charge_already_refunded", message: "This charge has already been refunded." } });
-      const refund = { id: `re_${crypto.randomBytes(10).toString("hex")}`, object: "refund", amount: session.amount_total, currency: session.currency, payment_intent: session.payment_intent, status: "succeeded", metadata: p.metadata ?? {} };
+      if (done.reduce((s, r) => s + r.amount, 0) >= session.amount_total)
+        return json(res, 400, {
+          error: {
+            type: "invalid_request_error",
+            code: "charge_already_refunded",
+            message: "This charge has already been refunded.",
+          },
+        });
+      const refund = {
+        id: `re_${crypto.randomBytes(10).toString("hex")}`,
+        object: "refund",
+        amount: session.amount_total,
+        currency: session.currency,
+        payment_intent: session.payment_intent,
+        status: "succeeded",
+        metadata: p.metadata ?? {},
+      };
       done.push(refund);
       refunded.set(session.id, done);
       if (key) refundsByKey.set(key, refund);
@@ -148,7 +192,16 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
           return res.writeHead(303, { Location: s.success_url.replace("{CHECKOUT_SESSION_ID}", s.id) }).end();
         }
         await deliver("checkout.session.async_payment_failed", s).job;
-        return res.writeHead(200, { "Content-Type": "text/html; charset=utf-8" }).end(page(s, card === TEST_CARDS.declined.replace(/\s+/g, "") ? "The card was declined. Try another card." : "Use one of the test cards below."));
+        return res
+          .writeHead(200, { "Content-Type": "text/html; charset=utf-8" })
+          .end(
+            page(
+              s,
+              card === TEST_CARDS.declined.replace(/\s+/g, "")
+                ? "The card was declined. Try another card."
+                : "Use one of the test cards below.",
+            ),
+          );
       }
       return res.writeHead(200, { "Content-Type": "text/html; charset=utf-8" }).end(page(s));
     }
@@ -181,7 +234,11 @@ export async function startFakePayments(opts: { port: number; webhookUrl: string
     refundAtProvider: (sessionId: string) => {
       const s = sessions.get(sessionId);
       if (!s?.payment_intent) throw new Error("no payment to refund");
-      const refund = { id: `re_${crypto.randomBytes(10).toString("hex")}`, amount: s.amount_total, status: "succeeded" };
+      const refund = {
+        id: `re_${crypto.randomBytes(10).toString("hex")}`,
+        amount: s.amount_total,
+        status: "succeeded",
+      };
       refunded.set(s.id, [...(refunded.get(s.id) ?? []), refund]);
       return deliver("charge.refunded", chargeOf(s));
     },

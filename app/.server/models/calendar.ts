@@ -1,13 +1,6 @@
-import {
-  DataTypes,
-  Model,
-  type CreationOptional,
-  type InferAttributes,
-  type InferCreationAttributes,
-} from "sequelize";
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from "sequelize";
 import { db } from "../db";
 import { timestamps as ts } from "./columns";
-
 
 export class Threshold extends Model<InferAttributes<Threshold>, InferCreationAttributes<Threshold>> {
   declare id: CreationOptional<number>;
@@ -67,7 +60,10 @@ Assignment.init(
 
 export type SessionStatus = "planned" | "done" | "skipped" | "cancelled";
 
-export class ScheduledSession extends Model<InferAttributes<ScheduledSession>, InferCreationAttributes<ScheduledSession>> {
+export class ScheduledSession extends Model<
+  InferAttributes<ScheduledSession>,
+  InferCreationAttributes<ScheduledSession>
+> {
   declare id: CreationOptional<number>;
   declare athleteId: number;
   declare assignmentId: CreationOptional<number | null>;

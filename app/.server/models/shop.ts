@@ -1,13 +1,6 @@
-import {
-  DataTypes,
-  Model,
-  type CreationOptional,
-  type InferAttributes,
-  type InferCreationAttributes,
-} from "sequelize";
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from "sequelize";
 import { db } from "../db";
 import { jsonColumn, timestamps as ts } from "./columns";
-
 
 export class Listing extends Model<InferAttributes<Listing>, InferCreationAttributes<Listing>> {
   declare id: CreationOptional<number>;

@@ -1,10 +1,4 @@
-import {
-  DataTypes,
-  Model,
-  type CreationOptional,
-  type InferAttributes,
-  type InferCreationAttributes,
-} from "sequelize";
+import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from "sequelize";
 import { db } from "../db";
 import { jsonColumn as json, timestamps as ts } from "./columns";
 
@@ -100,7 +94,12 @@ export class RescaleReport extends Model<InferAttributes<RescaleReport>, InferCr
   declare sessionsChanged: number;
   declare blocksChanged: number;
   declare examples: CreationOptional<{ date: string; name: string; before: string; after: string }[]>;
-  declare guard: CreationOptional<{ flagged: boolean; changePct: number | null; headline: string | null; reasons: string[] } | null>;
+  declare guard: CreationOptional<{
+    flagged: boolean;
+    changePct: number | null;
+    headline: string | null;
+    reasons: string[];
+  } | null>;
   declare confirmedBy: CreationOptional<number | null>;
   declare confirmedAt: CreationOptional<Date | null>;
   declare createdBy: number | null;

@@ -25,7 +25,10 @@ export function securityHeaders(opts: { appUrl: string; csp?: boolean }): Reques
             useDefaults: false,
             directives: {
               defaultSrc: ["'self'"],
-              scriptSrc: ["'self'", (_req, res) => `'nonce-${(res as unknown as { locals: { cspNonce: string } }).locals.cspNonce}'`],
+              scriptSrc: [
+                "'self'",
+                (_req, res) => `'nonce-${(res as unknown as { locals: { cspNonce: string } }).locals.cspNonce}'`,
+              ],
               scriptSrcAttr: ["'none'"],
               styleSrc: ["'self'"],
               styleSrcElem: ["'self'"],

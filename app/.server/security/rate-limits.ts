@@ -44,21 +44,30 @@ class SqlRateLimiter extends RateLimiterStoreAbstract {
            expire = CASE WHEN rate_limits.expire IS NULL OR rate_limits.expire > :now THEN rate_limits.expire ELSE excluded.expire END
          RETURNING points, expire`;
     const rows = await this.write((transaction) =>
-      db().query<Row>(sql, { replacements: { key: rlKey, points, expire: newExpire, now }, type: QueryTypes.SELECT, transaction }),
+      db().query<Row>(sql, {
+        replacements: { key: rlKey, points, expire: newExpire, now },
+        type: QueryTypes.SELECT,
+        transaction,
+      }),
     );
     return normalize(rows[0]);
   }
 
   async _get(rlKey: string): Promise<Row | null> {
-    const rows = await db().query<Row>("SELECT points, expire FROM rate_limits WHERE key = :key AND (expire IS NULL OR expire > :now)", {
-      replacements: { key: rlKey, now: Date.now() },
-      type: QueryTypes.SELECT,
-    });
+    const rows = await db().query<Row>(
+      "SELECT points, expire FROM rate_limits WHERE key = :key AND (expire IS NULL OR expire > :now)",
+      {
+        replacements: { key: rlKey, now: Date.now() },
+        type: QueryTypes.SELECT,
+      },
+    );
     return rows[0] ? normalize(rows[0]) : null;
   }
 
   async _delete(rlKey: string): Promise<boolean> {
-    const [, changes] = (await this.write((transaction) => db().query("DELETE FROM rate_limits WHERE key = :key", { replacements: { key: rlKey }, transaction }))) as [unknown, unknown];
+    const [, changes] = (await this.write((transaction) =>
+      db().query("DELETE FROM rate_limits WHERE key = :key", { replacements: { key: rlKey }, transaction }),
+    )) as [unknown, unknown];
     return typeof changes === "number" ? changes > 0 : true;
   }
 
@@ -81,18 +90,54 @@ const HOUR = 3600;
 /** Every limit in one table, so the numbers can be read and tuned together. Durations are in seconds. */
 export const LIMITS = {
   // Failed sign-ins for one address: a success clears the count.
-  signInAddress: { points: 10, duration: 15 * MINUTE, message: "Too many failed sign-ins for this address. Wait 15 minutes, or reset your password." },
+  signInAddress: {
+    points: 10,
+    duration: 15 * MINUTE,
+    message: "Too many failed sign-ins for this address. Wait 15 minutes, or reset your password.",
+  },
   // Failed sign-ins from one client, whatever the address: stops trying one password on many accounts.
-  signInClient: { points: 30, duration: 15 * MINUTE, message: "Too many failed sign-ins from this network. Wait 15 minutes and try again." },
-  signUpAddress: { points: 5, duration: HOUR, message: "Too many sign-up attempts for this address. Try again in an hour." },
+  signInClient: {
+    points: 30,
+    duration: 15 * MINUTE,
+    message: "Too many failed sign-ins from this network. Wait 15 minutes and try again.",
+  },
+  signUpAddress: {
+    points: 5,
+    duration: HOUR,
+    message: "Too many sign-up attempts for this address. Try again in an hour.",
+  },
   signUpClient: { points: 20, duration: HOUR, message: "Too many sign-ups from this network. Try again in an hour." },
-  resetAddress: { points: 5, duration: HOUR, message: "Too many reset requests for this address. Check your inbox, or try again in an hour." },
-  resetClient: { points: 20, duration: HOUR, message: "Too many reset requests from this network. Try again in an hour." },
+  resetAddress: {
+    points: 5,
+    duration: HOUR,
+    message: "Too many reset requests for this address. Check your inbox, or try again in an hour.",
+  },
+  resetClient: {
+    points: 20,
+    duration: HOUR,
+    message: "Too many reset requests from this network. Try again in an hour.",
+  },
   // Submitting a new password or accepting an invitation with a token from a link.
-  tokenClient: { points: 30, duration: 15 * MINUTE, message: "Too many attempts from this network. Wait 15 minutes and try again." },
-  inviteToken: { points: 10, duration: 15 * MINUTE, message: "Too many attempts with this invitation. Wait 15 minutes and try again." },
-  twoStepUser: { points: 6, duration: 15 * MINUTE, message: "Too many wrong codes. Wait 15 minutes, or use a recovery code." },
-  feedToken: { points: 60, duration: 10 * MINUTE, message: "Too many requests for this calendar link; try again in a few minutes." },
+  tokenClient: {
+    points: 30,
+    duration: 15 * MINUTE,
+    message: "Too many attempts from this network. Wait 15 minutes and try again.",
+  },
+  inviteToken: {
+    points: 10,
+    duration: 15 * MINUTE,
+    message: "Too many attempts with this invitation. Wait 15 minutes and try again.",
+  },
+  twoStepUser: {
+    points: 6,
+    duration: 15 * MINUTE,
+    message: "Too many wrong codes. Wait 15 minutes, or use a recovery code.",
+  },
+  feedToken: {
+    points: 60,
+    duration: 10 * MINUTE,
+    message: "Too many requests for this calendar link; try again in a few minutes.",
+  },
 } as const;
 export type LimitName = keyof typeof LIMITS;
 
@@ -112,7 +157,8 @@ function limiter(name: LimitName) {
 }
 
 // Addresses and tokens are stored as digests: the table is about counting, not about who tried.
-const digest = (key: string) => crypto.createHash("sha256").update(key.trim().toLowerCase()).digest("base64url").slice(0, 32);
+const digest = (key: string) =>
+  crypto.createHash("sha256").update(key.trim().toLowerCase()).digest("base64url").slice(0, 32);
 
 /**
  * Takes one point from every listed limit before the guarded work runs, so parallel requests cannot all slip in
@@ -123,7 +169,10 @@ export async function consume(...limits: (readonly [LimitName, string])[]) {
     try {
       await limiter(name).consume(digest(key));
     } catch (err) {
-      if (err instanceof RateLimiterRes) throw new DomainError("rate_limited", LIMITS[name].message, { retryAfterS: Math.max(1, Math.ceil(err.msBeforeNext / 1000)) });
+      if (err instanceof RateLimiterRes)
+        throw new DomainError("rate_limited", LIMITS[name].message, {
+          retryAfterS: Math.max(1, Math.ceil(err.msBeforeNext / 1000)),
+        });
       throw err;
     }
   }
@@ -140,7 +189,10 @@ export async function consumeOr429(...limits: (readonly [LimitName, string])[]) 
 }
 
 export function tooMany(err: DomainError): never {
-  throw new Response(err.message, { status: 429, headers: { "Content-Type": "text/plain; charset=utf-8", "Retry-After": String(err.retryAfterS) } });
+  throw new Response(err.message, {
+    status: 429,
+    headers: { "Content-Type": "text/plain; charset=utf-8", "Retry-After": String(err.retryAfterS) },
+  });
 }
 
 /** Forgets a key's count (a successful sign-in clears that address's failures). */
@@ -153,7 +205,10 @@ export async function giveBack(name: LimitName, key: string) {
   // Not the library's reward(): on a key that has just expired it would insert a negative count.
   const rlKey = limiter(name).getKey(digest(key));
   await writeTransaction((transaction) =>
-    db().query("UPDATE rate_limits SET points = points - 1 WHERE key = :key AND points > 0", { replacements: { key: rlKey }, transaction }),
+    db().query("UPDATE rate_limits SET points = points - 1 WHERE key = :key AND points > 0", {
+      replacements: { key: rlKey },
+      transaction,
+    }),
   );
 }
 
@@ -174,11 +229,19 @@ export function clientKey(context: AppLoadContext | undefined | null): string {
 
 /** Deletes counters whose window ended; the server runs it hourly so the table holds only live windows. */
 export async function clearExpiredLimits(now = Date.now()) {
-  await writeTransaction((transaction) => db().query("DELETE FROM rate_limits WHERE expire IS NOT NULL AND expire < :now", { replacements: { now }, transaction }));
+  await writeTransaction((transaction) =>
+    db().query("DELETE FROM rate_limits WHERE expire IS NOT NULL AND expire < :now", {
+      replacements: { now },
+      transaction,
+    }),
+  );
 }
 
 export function startLimitCleanup() {
-  const timer = setInterval(() => void clearExpiredLimits().catch((err) => console.error("[limits] cleanup failed", err)), 3600_000);
+  const timer = setInterval(
+    () => void clearExpiredLimits().catch((err) => console.error("[limits] cleanup failed", err)),
+    3600_000,
+  );
   timer.unref();
   return () => clearInterval(timer);
 }

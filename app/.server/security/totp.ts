@@ -6,7 +6,10 @@ import { Secret, TOTP } from "otpauth";
  */
 export const TOTP_PERIOD_S = 30;
 
-export function totp(secret: Secret | string, opts: { label?: string; algorithm?: "SHA1" | "SHA256" | "SHA512"; digits?: number } = {}) {
+export function totp(
+  secret: Secret | string,
+  opts: { label?: string; algorithm?: "SHA1" | "SHA256" | "SHA512"; digits?: number } = {},
+) {
   return new TOTP({
     issuer: "Pacewright",
     label: opts.label ?? "Pacewright",

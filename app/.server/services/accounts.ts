@@ -22,7 +22,10 @@ export async function signUp(input: {
   const passwordHash = await hashPassword(input.password);
   return writeTransaction(async (transaction) => {
     const taken = await User.findOne({ where: { email: input.email }, transaction });
-    if (taken) throw new DomainError("invalid", "An account with this e-mail already exists. Sign in or reset your password.", { field: "email" });
+    if (taken)
+      throw new DomainError("invalid", "An account with this e-mail already exists. Sign in or reset your password.", {
+        field: "email",
+      });
     const user = await User.create(
       { name: input.name, email: input.email, passwordHash, role: input.role, timezone: input.timezone },
       { transaction },
@@ -63,7 +66,6 @@ async function usableReset(token: string | undefined) {
   return reset;
 }
 
-
 export async function checkResetToken(token: string | undefined): Promise<boolean> {
   return (await usableReset(token)) !== null;
 }
@@ -74,7 +76,8 @@ export async function resetPassword(token: string | undefined, password: string)
   const passwordHash = await hashPassword(password);
   return writeTransaction(async (transaction) => {
     const reset = await PasswordReset.findOne({ where: { tokenHash: hashToken(token) }, transaction });
-    if (!reset || reset.usedAt || reset.expiresAt.getTime() <= Date.now()) throw new DomainError("invalid", RESET_LINK_DEAD);
+    if (!reset || reset.usedAt || reset.expiresAt.getTime() <= Date.now())
+      throw new DomainError("invalid", RESET_LINK_DEAD);
     const [spent] = await PasswordReset.update(
       { usedAt: new Date() },
       { where: { id: reset.id, usedAt: null }, transaction },
@@ -96,7 +99,9 @@ export async function inviteAthlete(coach: User, input: { email: string; name: s
       const linked = await CoachAthlete.findOne({ where: { coachId: coach.id, athleteId: existing.id }, transaction });
       if (linked) throw new DomainError("invalid", "This athlete is already on your roster.", { field: "email" });
       if (existing.role !== "athlete")
-        throw new DomainError("invalid", "This address belongs to a coach or admin account, not an athlete.", { field: "email" });
+        throw new DomainError("invalid", "This address belongs to a coach or admin account, not an athlete.", {
+          field: "email",
+        });
     }
     const pending = await Invitation.findOne({
       where: { coachId: coach.id, email: input.email, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
@@ -136,7 +141,6 @@ export async function inviteAthlete(coach: User, input: { email: string; name: s
   });
 }
 
-
 export async function findInvitation(token: string | undefined) {
   if (!looksLikeToken(token)) return null;
   const invitation = await Invitation.findOne({ where: { tokenHash: hashToken(token) } });
@@ -164,12 +168,20 @@ export async function acceptInvitation(
     let athlete = await User.findOne({ where: { email: invitation.email }, transaction });
     if (athlete) {
       if (!opts.signedIn || opts.signedIn.id !== athlete.id)
-        throw new DomainError("invalid", `This invitation is for ${invitation.email}. Sign in with that address to accept it.`);
-      if (athlete.role !== "athlete") throw new DomainError("invalid", "Only athlete accounts can join a coach's roster.");
+        throw new DomainError(
+          "invalid",
+          `This invitation is for ${invitation.email}. Sign in with that address to accept it.`,
+        );
+      if (athlete.role !== "athlete")
+        throw new DomainError("invalid", "Only athlete accounts can join a coach's roster.");
     } else {
       if (opts.signedIn)
-        throw new DomainError("invalid", `This invitation is for ${invitation.email}, but you are signed in as ${opts.signedIn.email}. Sign out first.`);
-      if (!opts.newAccount || !passwordHash) throw new DomainError("invalid", "Choose a name and a password to accept.");
+        throw new DomainError(
+          "invalid",
+          `This invitation is for ${invitation.email}, but you are signed in as ${opts.signedIn.email}. Sign out first.`,
+        );
+      if (!opts.newAccount || !passwordHash)
+        throw new DomainError("invalid", "Choose a name and a password to accept.");
       athlete = await User.create(
         {
           name: opts.newAccount.name,

@@ -62,7 +62,10 @@ export function activityThreads() {
  * Reads a ride file on a worker thread. The per-person count lives in this process, as the threads do: it guards
  * this process's CPU, not an account.
  */
-export async function readActivityOffThread(task: Omit<ActivityTask, "limits">, userId: number): Promise<Extract<ActivityTaskResult, { ok: true }>> {
+export async function readActivityOffThread(
+  task: Omit<ActivityTask, "limits">,
+  userId: number,
+): Promise<Extract<ActivityTaskResult, { ok: true }>> {
   globalThis.__pacewrightParsesByUser ??= new Map();
   const running = globalThis.__pacewrightParsesByUser;
   const mine = running.get(userId) ?? 0;
@@ -75,19 +78,30 @@ export async function readActivityOffThread(task: Omit<ActivityTask, "limits">, 
   }
   running.set(userId, mine + 1);
   try {
-    const result = (await p.run({ ...task, limits: { maxRows: ACTIVITY_LIMITS.maxRows, maxDurationS: ACTIVITY_LIMITS.maxDurationS } } satisfies ActivityTask, {
-      signal: AbortSignal.timeout(ACTIVITY_LIMITS.parseMs),
-    })) as ActivityTaskResult;
+    const result = (await p.run(
+      {
+        ...task,
+        limits: { maxRows: ACTIVITY_LIMITS.maxRows, maxDurationS: ACTIVITY_LIMITS.maxDurationS },
+      } satisfies ActivityTask,
+      {
+        signal: AbortSignal.timeout(ACTIVITY_LIMITS.parseMs),
+      },
+    )) as ActivityTaskResult;
     if (!result.ok) throw new DomainError(result.kind, result.message);
     return result;
   } catch (err) {
     if (err instanceof DomainError) throw err;
     const e = err as { name?: string; code?: string; message?: string };
     if (e?.name === "AbortError" || e?.name === "TimeoutError") {
-      throw new DomainError("unreadable", `Reading this file took longer than ${ACTIVITY_LIMITS.parseMs / 1000} s, so it was stopped. Export one ride at a time.`);
+      throw new DomainError(
+        "unreadable",
+        `Reading this file took longer than ${ACTIVITY_LIMITS.parseMs / 1000} s, so it was stopped. Export one ride at a time.`,
+      );
     }
-    if (e?.code === "ERR_WORKER_OUT_OF_MEMORY") throw new DomainError("too_large", "This file needs too much memory to read. Export one ride at a time.");
-    if (/queue is at limit/i.test(e?.message ?? "")) throw new DomainError("busy", "The server is reading many files right now; try again in a minute.");
+    if (e?.code === "ERR_WORKER_OUT_OF_MEMORY")
+      throw new DomainError("too_large", "This file needs too much memory to read. Export one ride at a time.");
+    if (/queue is at limit/i.test(e?.message ?? ""))
+      throw new DomainError("busy", "The server is reading many files right now; try again in a minute.");
     throw err;
   } finally {
     const left = (running.get(userId) ?? 1) - 1;

@@ -28,7 +28,10 @@ export async function bandOwnerId(user: Pick<User, "id" | "role">, transaction?:
   return link?.coachId ?? null;
 }
 
-export async function bandSetsOfCoach(coachId: number | null, transaction?: Transaction): Promise<Record<BandSetKey, BandSet>> {
+export async function bandSetsOfCoach(
+  coachId: number | null,
+  transaction?: Transaction,
+): Promise<Record<BandSetKey, BandSet>> {
   const sets = defaultBandSets();
   if (coachId === null) return sets;
   const rows = await BandSetRow.findAll({ where: { coachId, setKey: { [Op.in]: [...BAND_SET_KEYS] } }, transaction });
@@ -42,7 +45,12 @@ export async function bandSetsFor(user: Pick<User, "id" | "role">, transaction?:
 }
 
 /** The one band set for a sport and metric that the user sees. */
-export async function bandSetFor(user: Pick<User, "id" | "role">, sport: string, metric: Metric, transaction?: Transaction) {
+export async function bandSetFor(
+  user: Pick<User, "id" | "role">,
+  sport: string,
+  metric: Metric,
+  transaction?: Transaction,
+) {
   return (await bandSetsFor(user, transaction))[bandSetKeyFor(sport, metric)];
 }
 
@@ -79,12 +87,21 @@ export async function saveBandSet(coach: User, key: string, rows: BandInputRow[]
 export async function restoreDefaultBandSet(coach: User, key: string) {
   if (coach.role !== "coach") throw new DomainError("forbidden", "Only coaches edit band sets.");
   if (!parseBandSetKey(key)) return false;
-  await writeTransaction((transaction) => BandSetRow.destroy({ where: { coachId: coach.id, setKey: key }, transaction }));
+  await writeTransaction((transaction) =>
+    BandSetRow.destroy({ where: { coachId: coach.id, setKey: key }, transaction }),
+  );
   return true;
 }
 
 /** The bands of a new threshold as plain lines for e-mails ("Easy: up to 157 W"); empty where we keep no set. */
-export async function thresholdBandsText(athlete: Pick<User, "id" | "role">, sport: string, metric: Metric, value: number, unit: string, transaction?: Transaction) {
+export async function thresholdBandsText(
+  athlete: Pick<User, "id" | "role">,
+  sport: string,
+  metric: Metric,
+  value: number,
+  unit: string,
+  transaction?: Transaction,
+) {
   const sets = await bandSetsFor(athlete, transaction);
   const table = bandTable({ sport, metric, value, unit }, sets[bandSetKeyFor(sport, metric)]);
   if (!table) return "";

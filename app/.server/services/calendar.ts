@@ -46,7 +46,11 @@ export interface CalendarEntry {
 export async function calendarRange(athleteId: number, from: string, to: string): Promise<CalendarEntry[]> {
   const sessions = await ScheduledSession.findAll({
     where: { athleteId, date: { [Op.between]: [from, to] }, status: { [Op.ne]: "cancelled" } },
-    order: [["date", "ASC"], ["position", "ASC"], ["id", "ASC"]],
+    order: [
+      ["date", "ASC"],
+      ["position", "ASC"],
+      ["id", "ASC"],
+    ],
   });
   // Plain SQL: building a model instance per step costs several times the query itself.
   const blocks = sessions.length
@@ -90,7 +94,11 @@ export async function sessionDetail(athleteId: number, id: number) {
   const session = Number.isInteger(id) && id > 0 ? await ScheduledSession.findOne({ where: { id, athleteId } }) : null;
   if (!session) return null;
   const blocks = await ScheduledBlock.findAll({ where: { scheduledSessionId: id }, order: [["position", "ASC"]] });
-  return { session, steps: blocks.map(stepView), thresholdValues: [...new Set(blocks.map((b) => b.thresholdValue).filter((v) => v !== null))] };
+  return {
+    session,
+    steps: blocks.map(stepView),
+    thresholdValues: [...new Set(blocks.map((b) => b.thresholdValue).filter((v) => v !== null))],
+  };
 }
 
 /**
@@ -103,28 +111,65 @@ export async function moveSession(athleteId: number, id: number, date: string) {
     await lockRow("users", athleteId, transaction);
     const session = await ScheduledSession.findOne({ where: { id, athleteId }, transaction });
     if (!session) throw new DomainError("not_found", "That session is not on this calendar.");
-    if (session.status !== "planned") throw new DomainError("invalid", "Only planned sessions can be moved; this one is already done or skipped.");
-    const old = await ScheduledBlock.findAll({ where: { scheduledSessionId: id }, order: [["position", "ASC"]], transaction });
+    if (session.status !== "planned")
+      throw new DomainError("invalid", "Only planned sessions can be moved; this one is already done or skipped.");
+    const old = await ScheduledBlock.findAll({
+      where: { scheduledSessionId: id },
+      order: [["position", "ASC"]],
+      transaction,
+    });
     const history = await thresholdHistory(athleteId, transaction);
     const last = (await ScheduledSession.max("position", { where: { athleteId, date }, transaction })) as number | null;
-    await session.update({ date, position: last === null ? 0 : last + 1, feedSequence: session.feedSequence + 1 }, { transaction });
+    await session.update(
+      { date, position: last === null ? 0 : last + 1, feedSequence: session.feedSequence + 1 },
+      { transaction },
+    );
     // Each step keeps its percentages; only the absolute numbers are looked up again for the new date.
     for (const b of old) {
       const fresh = resolveOne(b, history, date, session.sport, athleteId);
-      await ScheduledBlock.update({ date, lowAbs: fresh.lowAbs, highAbs: fresh.highAbs, unit: fresh.unit, thresholdId: fresh.thresholdId, thresholdValue: fresh.thresholdValue }, { where: { id: b.id }, transaction });
+      await ScheduledBlock.update(
+        {
+          date,
+          lowAbs: fresh.lowAbs,
+          highAbs: fresh.highAbs,
+          unit: fresh.unit,
+          thresholdId: fresh.thresholdId,
+          thresholdValue: fresh.thresholdValue,
+        },
+        { where: { id: b.id }, transaction },
+      );
     }
     return session;
   });
 }
 
 /** One stored step resolved again: treated as a run from its low to its high percentage, as every step is. */
-function resolveOne(b: ScheduledBlock, history: Awaited<ReturnType<typeof thresholdHistory>>, date: string, sport: string, athleteId: number) {
-  if (b.metric === null || b.lowPct === null || b.highPct === null) return { lowAbs: null, highAbs: null, unit: null, thresholdId: null, thresholdValue: null };
-  const [row] = resolveSteps([{ kind: "ramp", durationS: b.durationS, metric: b.metric as "power", fromPct: b.lowPct, toPct: b.highPct }], { athleteId, date, sport, history });
+function resolveOne(
+  b: ScheduledBlock,
+  history: Awaited<ReturnType<typeof thresholdHistory>>,
+  date: string,
+  sport: string,
+  athleteId: number,
+) {
+  if (b.metric === null || b.lowPct === null || b.highPct === null)
+    return { lowAbs: null, highAbs: null, unit: null, thresholdId: null, thresholdValue: null };
+  const [row] = resolveSteps(
+    [{ kind: "ramp", durationS: b.durationS, metric: b.metric as "power", fromPct: b.lowPct, toPct: b.highPct }],
+    { athleteId, date, sport, history },
+  );
   return row;
 }
 
-export async function completeSession(athleteId: number, id: number, input: { status: "done" | "skipped" | "planned"; effortScore: number | null; minutes: number | null; comment: string }) {
+export async function completeSession(
+  athleteId: number,
+  id: number,
+  input: {
+    status: "done" | "skipped" | "planned";
+    effortScore: number | null;
+    minutes: number | null;
+    comment: string;
+  },
+) {
   return writeTransaction(async (transaction) => {
     // A rescale changes only planned sessions: a completion must not slip in between its read and its write.
     await lockRow("users", athleteId, transaction);

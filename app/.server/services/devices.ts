@@ -33,7 +33,10 @@ export function deviceLabel(userAgent: string | null): string {
 
 /** The user's live sessions, newest first; `current` marks the one with the stored key `current` (this request's). */
 export async function listDevices(user: User, current: string | null) {
-  const rows = await AuthSession.findAll({ where: { userId: user.id, expiresAt: { [Op.gt]: new Date() } }, order: [["createdAt", "DESC"]] });
+  const rows = await AuthSession.findAll({
+    where: { userId: user.id, expiresAt: { [Op.gt]: new Date() } },
+    order: [["createdAt", "DESC"]],
+  });
   return rows.map((r) => ({
     // The stored id is a hash of the cookie's secret, so showing it gives nobody a way in.
     handle: r.id,
@@ -46,7 +49,9 @@ export async function listDevices(user: User, current: string | null) {
 
 /** Ends one of the user's own sessions; another user's handle finds nothing (false). */
 export async function signOutDevice(user: User, handle: string): Promise<boolean> {
-  const n = await writeTransaction((transaction) => AuthSession.destroy({ where: { id: handle, userId: user.id }, transaction }));
+  const n = await writeTransaction((transaction) =>
+    AuthSession.destroy({ where: { id: handle, userId: user.id }, transaction }),
+  );
   return n > 0;
 }
 

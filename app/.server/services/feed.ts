@@ -33,7 +33,13 @@ function tokenFor(salt: string) {
 
 export async function activeFeed(userId: number) {
   const row = await FeedToken.findOne({ where: { userId, revokedAt: null }, order: [["id", "DESC"]] });
-  return row ? { token: tokenFor(row.salt), createdAt: row.createdAt.toISOString(), lastUsedAt: row.lastUsedAt?.toISOString() ?? null } : null;
+  return row
+    ? {
+        token: tokenFor(row.salt),
+        createdAt: row.createdAt.toISOString(),
+        lastUsedAt: row.lastUsedAt?.toISOString() ?? null,
+      }
+    : null;
 }
 
 /** A new link (32 random bytes); the old one, if any, stops working at once. */
@@ -73,7 +79,10 @@ export const USE_NOTE_MS = 60 * 60 * 1000;
  */
 export function noteFeedUse(tokenHash: string, now = new Date()) {
   const stale = new Date(now.getTime() - USE_NOTE_MS);
-  return FeedToken.update({ lastUsedAt: now }, { where: { tokenHash, revokedAt: null, [Op.or]: [{ lastUsedAt: null }, { lastUsedAt: { [Op.lt]: stale } }] } }).catch(() => undefined);
+  return FeedToken.update(
+    { lastUsedAt: now },
+    { where: { tokenHash, revokedAt: null, [Op.or]: [{ lastUsedAt: null }, { lastUsedAt: { [Op.lt]: stale } }] } },
+  ).catch(() => undefined);
 }
 
 export function feedUrls(token: string) {
@@ -87,9 +96,31 @@ const oneLine = (s: string) => s.replace(/[\r\n]+/g, " ").trim();
 const parseSqlDate = (s: string) => new Date(s.replace(" +00:00", "Z").replace(" ", "T"));
 
 /** The session columns an event is made of (plus what pacingPlansFor reads), in model attribute names. */
-type FeedSession = Pick<ScheduledSession, "id" | "athleteId" | "date" | "timeOfDay" | "name" | "sport" | "status" | "testProtocol" | "pacingSplit" | "notes" | "description" | "effortScore" | "actualMinutes" | "feedSequence" | "plannedDurationS"> & { updatedAt: Date | string };
+type FeedSession = Pick<
+  ScheduledSession,
+  | "id"
+  | "athleteId"
+  | "date"
+  | "timeOfDay"
+  | "name"
+  | "sport"
+  | "status"
+  | "testProtocol"
+  | "pacingSplit"
+  | "notes"
+  | "description"
+  | "effortScore"
+  | "actualMinutes"
+  | "feedSequence"
+  | "plannedDurationS"
+> & { updatedAt: Date | string };
 
-async function sessionsFor(athleteIds: number[], from: string, to: string, opts: { keyOnly?: boolean } = {}): Promise<FeedSession[]> {
+async function sessionsFor(
+  athleteIds: number[],
+  from: string,
+  to: string,
+  opts: { keyOnly?: boolean } = {},
+): Promise<FeedSession[]> {
   if (athleteIds.length === 0) return [];
   const graceFrom = daysAgo(CANCELLED_GRACE_DAYS);
   // Raw and only the columns used: a full rebuild reads hundreds of sessions, and building model rows of every
@@ -128,7 +159,8 @@ const shortTitle = (s: string) => (s.length > TITLE_MAX ? `${s.slice(0, TITLE_MA
 const STATE_PREFIX: Record<string, string> = { done: "✓ ", skipped: "Skipped: " };
 
 function stateLine(s: { status: string; effortScore: number | null; actualMinutes: number | null }) {
-  if (s.status === "done") return `Done${s.actualMinutes ? `: ${s.actualMinutes} min` : ""}${s.effortScore !== null ? `, effort ${s.effortScore} of 10` : ""}.`;
+  if (s.status === "done")
+    return `Done${s.actualMinutes ? `: ${s.actualMinutes} min` : ""}${s.effortScore !== null ? `, effort ${s.effortScore} of 10` : ""}.`;
   if (s.status === "skipped") return "Skipped.";
   return null;
 }
@@ -157,7 +189,14 @@ function endsAsDurations(ics: string, durations: Map<string, string>) {
 
 /** Each block's line with its % of threshold and its intensity band, in the athlete's (their coach's) band set. */
 function description(
-  s: { name: string; sport: string; testProtocol: string | null; notes: string; description?: string; state?: string | null },
+  s: {
+    name: string;
+    sport: string;
+    testProtocol: string | null;
+    notes: string;
+    description?: string;
+    state?: string | null;
+  },
   steps: StepView[],
   link: string,
   sets: Record<BandSetKey, BandSet>,
@@ -167,13 +206,18 @@ function description(
   const lines = blockLines(steps).map((l) => {
     const first = steps.find((x) => x.blockIndex === l.blockIndex && x.part !== "recovery");
     const band = bands.get(l.blockIndex);
-    const pct = first?.lowPct != null ? ` (${first.lowPct}${first.highPct != null && first.highPct !== first.lowPct ? `–${first.highPct}` : ""} % of threshold${band ? `, ${band} band` : ""})` : "";
+    const pct =
+      first?.lowPct != null
+        ? ` (${first.lowPct}${first.highPct != null && first.highPct !== first.lowPct ? `–${first.highPct}` : ""} % of threshold${band ? `, ${band} band` : ""})`
+        : "";
     return `• ${l.text}${pct}${l.needsTest ? " — needs a field test" : ""}`;
   });
   const parts = [s.state, s.name, s.description, lines.join("\n")].filter((x): x is string => Boolean(x));
   if (s.testProtocol) {
     const p = PROTOCOLS[s.testProtocol as ProtocolKey];
-    parts.push(`FIELD TEST: ${p?.instructions ?? ""}\nAnswer the readiness questions in Pacewright first. Stop at once at ${READINESS.stopSigns.join(", ")}. ${READINESS.stopAdvice}`);
+    parts.push(
+      `FIELD TEST: ${p?.instructions ?? ""}\nAnswer the readiness questions in Pacewright first. Stop at once at ${READINESS.stopSigns.join(", ")}. ${READINESS.stopAdvice}`,
+    );
     if (pacing) parts.push(pacing);
   }
   if (s.notes) parts.push(`Note from the coach: ${s.notes}`);
@@ -188,10 +232,19 @@ function description(
  */
 export async function buildFeed(owner: User, now = new Date()) {
   const isCoach = owner.role === "coach";
-  const athletes = isCoach ? await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { coachId: owner.id } })).map((l) => l.athleteId) } }) : [owner];
+  const athletes = isCoach
+    ? await User.findAll({
+        where: { id: (await CoachAthlete.findAll({ where: { coachId: owner.id } })).map((l) => l.athleteId) },
+      })
+    : [owner];
   const byId = new Map(athletes.map((a) => [a.id, a]));
   const today = todayIn(owner.timezone, now);
-  const sessions = await sessionsFor(athletes.map((a) => a.id), addDays(today, -FEED_WEEKS_BACK * 7), addDays(today, FEED_DAYS_AHEAD), { keyOnly: isCoach });
+  const sessions = await sessionsFor(
+    athletes.map((a) => a.id),
+    addDays(today, -FEED_WEEKS_BACK * 7),
+    addDays(today, FEED_DAYS_AHEAD),
+    { keyOnly: isCoach },
+  );
   const steps = await stepsFor(sessions.map((s) => s.id));
   const bandSets = new Map(await Promise.all(athletes.map(async (a) => [a.id, await bandSetsFor(a)] as const)));
   const pacing = await pacingPlansFor(sessions);
@@ -211,12 +264,27 @@ export async function buildFeed(owner: User, now = new Date()) {
     const modified = s.updatedAt instanceof Date ? s.updatedAt : parseSqlDate(String(s.updatedAt));
     if (modified > lastModified) lastModified = modified;
     const link = `${env().appUrl}${isCoach ? `/coach/athletes/${athlete.id}/sessions/${s.id}` : `/athlete/sessions/${s.id}`}`;
-    const summary = oneLine(`${STATE_PREFIX[s.status] ?? ""}${isCoach ? `${athlete.name}: ` : ""}${shortTitle(s.name)}`);
+    const summary = oneLine(
+      `${STATE_PREFIX[s.status] ?? ""}${isCoach ? `${athlete.name}: ` : ""}${shortTitle(s.name)}`,
+    );
     const [y, m, d] = s.date.split("-").map(Number);
     const base = {
       id: `session-${s.id}@pacewright`,
       summary,
-      description: description({ name: s.name, sport: s.sport, testProtocol: s.testProtocol, notes: s.notes, description: s.description, state: stateLine(s) }, mySteps, link, bandSets.get(athlete.id)!, pacingText(pacing.get(s.id))),
+      description: description(
+        {
+          name: s.name,
+          sport: s.sport,
+          testProtocol: s.testProtocol,
+          notes: s.notes,
+          description: s.description,
+          state: stateLine(s),
+        },
+        mySteps,
+        link,
+        bandSets.get(athlete.id)!,
+        pacingText(pacing.get(s.id)),
+      ),
       sequence: s.feedSequence,
       lastModified: modified,
       stamp: modified,
@@ -230,12 +298,17 @@ export async function buildFeed(owner: User, now = new Date()) {
       const start = new TZDate(y, m - 1, d, hh, mm, 0, athlete.timezone);
       durations.set(base.id, durationText(Math.max(60, s.plannedDurationS)));
       const event = cal.createEvent({ ...base, start, timezone: athlete.timezone });
-      if (!isCoach && owner.feedAlarmMinutes) event.createAlarm({ type: ICalAlarmType.display, trigger: owner.feedAlarmMinutes * 60, description: s.name });
+      if (!isCoach && owner.feedAlarmMinutes)
+        event.createAlarm({ type: ICalAlarmType.display, trigger: owner.feedAlarmMinutes * 60, description: s.name });
     } else {
       cal.createEvent({ ...base, start: s.date, allDay: true });
     }
   }
-  return { body: withTimezones(endsAsDurations(cal.toString(), durations), [...new Set(athletes.map((a) => a.timezone))]), lastModified: lastModified.getTime() > 0 ? lastModified : now, count: sessions.length };
+  return {
+    body: withTimezones(endsAsDurations(cal.toString(), durations), [...new Set(athletes.map((a) => a.timezone))]),
+    lastModified: lastModified.getTime() > 0 ? lastModified : now,
+    count: sessions.length,
+  };
 }
 
 /**
@@ -266,23 +339,60 @@ declare global {
  * 304 needs one small query and no feed is rebuilt while nothing changed.
  */
 export async function feedFingerprint(owner: User, now = new Date()) {
-  const ids = owner.role === "coach" ? (await CoachAthlete.findAll({ where: { coachId: owner.id } })).map((l) => l.athleteId) : [owner.id];
+  const ids =
+    owner.role === "coach"
+      ? (await CoachAthlete.findAll({ where: { coachId: owner.id } })).map((l) => l.athleteId)
+      : [owner.id];
   const today = todayIn(owner.timezone, now);
   // Band edits change event descriptions, so the band sets' count and latest change are part of it too; the band
   // owner is bandOwnerId's rule in SQL (a coach's own sets, an athlete's first coach's, no one else's). One
   // statement, because calendar apps poll often and each poll pays for every round trip.
-  const bandOwner = owner.role === "coach" ? ":ownerId" : owner.role === "athlete" ? "(SELECT coach_id FROM coach_athletes WHERE athlete_id = :ownerId ORDER BY id LIMIT 1)" : "NULL";
-  const [row] = await db().query<{ n: number; m: unknown; q: number | null; u: unknown; bo: number | null; bn: number; bm: unknown }>(
+  const bandOwner =
+    owner.role === "coach"
+      ? ":ownerId"
+      : owner.role === "athlete"
+        ? "(SELECT coach_id FROM coach_athletes WHERE athlete_id = :ownerId ORDER BY id LIMIT 1)"
+        : "NULL";
+  const [row] = await db().query<{
+    n: number;
+    m: unknown;
+    q: number | null;
+    u: unknown;
+    bo: number | null;
+    bn: number;
+    bm: unknown;
+  }>(
     `SELECT COUNT(*) AS n, MAX(s.updated_at) AS m, SUM(s.feed_sequence) AS q, (SELECT MAX(updated_at) FROM users WHERE id IN (:ids)) AS u,
             ${bandOwner} AS bo,
             (SELECT COUNT(*) FROM band_sets WHERE coach_id = ${bandOwner}) AS bn,
             (SELECT MAX(updated_at) FROM band_sets WHERE coach_id = ${bandOwner}) AS bm
      FROM scheduled_sessions s WHERE s.athlete_id IN (:ids) AND s.date BETWEEN :from AND :to`,
-    { replacements: { ids: ids.length ? ids : [0], ownerId: owner.id, from: addDays(today, -FEED_WEEKS_BACK * 7), to: addDays(today, FEED_DAYS_AHEAD) }, type: QueryTypes.SELECT },
+    {
+      replacements: {
+        ids: ids.length ? ids : [0],
+        ownerId: owner.id,
+        from: addDays(today, -FEED_WEEKS_BACK * 7),
+        to: addDays(today, FEED_DAYS_AHEAD),
+      },
+      type: QueryTypes.SELECT,
+    },
   );
   const stamp = (v: unknown) => (v instanceof Date ? v.toISOString() : v === null || v === undefined ? "-" : String(v));
   const bands = row.bo === null || row.bo === undefined ? "default" : `${Number(row.bn)}:${stamp(row.bm)}`;
-  return [owner.id, owner.role, owner.timezone, owner.feedAlarmMinutes ?? "", owner.updatedAt.toISOString(), today, ids.join("."), row.n, stamp(row.m), row.q, stamp(row.u), bands].join("|");
+  return [
+    owner.id,
+    owner.role,
+    owner.timezone,
+    owner.feedAlarmMinutes ?? "",
+    owner.updatedAt.toISOString(),
+    today,
+    ids.join("."),
+    row.n,
+    stamp(row.m),
+    row.q,
+    stamp(row.u),
+    bands,
+  ].join("|");
 }
 
 type CachedFeed = { fingerprint: string; body: string; lastModified: Date };
@@ -291,7 +401,10 @@ type CachedFeed = { fingerprint: string; body: string; lastModified: Date };
 const FEED_CACHE_BYTES = 64 * 1024 * 1024;
 
 function feedCache() {
-  globalThis.__pacewrightFeedCache ??= new LRUCache<number, CachedFeed>({ maxSize: FEED_CACHE_BYTES, sizeCalculation: (e) => e.body.length * 2 + 256 });
+  globalThis.__pacewrightFeedCache ??= new LRUCache<number, CachedFeed>({
+    maxSize: FEED_CACHE_BYTES,
+    sizeCalculation: (e) => e.body.length * 2 + 256,
+  });
   return globalThis.__pacewrightFeedCache;
 }
 

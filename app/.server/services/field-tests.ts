@@ -10,7 +10,20 @@ import { loadActivity } from "./uploads";
 import { computeThreshold, type ThresholdResult } from "~/lib/field-tests";
 import { daysAgo, daysBetween, isIsoDate, todayIn } from "~/lib/dates";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
-import { bestEffort, detectRampTest, pacingAdvice, pacingSplits, plausibilityGuard, thresholdHeartRate, TrainingInputError, type GuardResult, type Metric, type RampDetection, type Sample, type ThresholdSport } from "~/lib/training";
+import {
+  bestEffort,
+  detectRampTest,
+  pacingAdvice,
+  pacingSplits,
+  plausibilityGuard,
+  thresholdHeartRate,
+  TrainingInputError,
+  type GuardResult,
+  type Metric,
+  type RampDetection,
+  type Sample,
+  type ThresholdSport,
+} from "~/lib/training";
 import { formatThreshold } from "~/lib/zone-table";
 import { thresholdBandsText } from "./bands";
 import { DomainError } from "../errors";
@@ -35,7 +48,10 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
         ramp = detectRampTest(samples);
       } catch (err) {
         if (err instanceof TrainingInputError && err.code === "not_a_ramp") {
-          throw new DomainError("invalid", "No ramp of equal rising steps was found in this file, so its rate is unknown. Type the best minute and how many watts the ramp added each minute instead.");
+          throw new DomainError(
+            "invalid",
+            "No ramp of equal rising steps was found in this file, so its rate is unknown. Type the best minute and how many watts the ramp added each minute instead.",
+          );
         }
         throw err;
       }
@@ -51,15 +67,33 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
     if (protocol === "critical_power") {
       const three = bestEffort(samples, 180);
       const twelve = bestEffort(samples, 720);
-      return { inputs: { efforts: [{ duration: "3:00", meanW: three.mean }, { duration: "12:00", meanW: twelve.mean }] }, window: { startS: twelve.startS, lengthS: 720 }, pacing: null, ramp: null, file: windowFacts(samples, twelve.startS, 720) };
+      return {
+        inputs: {
+          efforts: [
+            { duration: "3:00", meanW: three.mean },
+            { duration: "12:00", meanW: twelve.mean },
+          ],
+        },
+        window: { startS: twelve.startS, lengthS: 720 },
+        pacing: null,
+        ramp: null,
+        file: windowFacts(samples, twelve.startS, 720),
+      };
     }
     if (window && (protocol === "twenty_minute" || protocol === "eight_minute")) {
       const start = windowStartS ?? bestEffort(samples, window).startS;
-      if (!Number.isInteger(start) || start < 0 || start + window > samples.length) throw new DomainError("invalid", "The chosen window runs past the end of the ride.");
+      if (!Number.isInteger(start) || start < 0 || start + window > samples.length)
+        throw new DomainError("invalid", "The chosen window runs past the end of the ride.");
       const split = pacingSplits(samples, start, window, 3);
       const pacing = { ...split, advice: pacingAdvice(split.verdict, split.changePct) };
       const mean = samples.slice(start, start + window).reduce((s, x) => s + (x.power ?? 0), 0) / window;
-      return { inputs: { meanW: mean }, window: { startS: start, lengthS: window }, pacing, ramp: null, file: windowFacts(samples, start, window) };
+      return {
+        inputs: { meanW: mean },
+        window: { startS: start, lengthS: window },
+        pacing,
+        ramp: null,
+        file: windowFacts(samples, start, window),
+      };
     }
     if (protocol === "hr_thirty") {
       const hr = samples.map((s) => s.hr ?? null);
@@ -79,10 +113,20 @@ export async function inputsFromUpload(protocol: ProtocolKey, upload: Upload, wi
         }
       }
       const meanHr = thresholdHeartRate(hr.slice(start, start + 1800));
-      return { inputs: { sport: "bike", meanHr: Math.round(meanHr) }, window: { startS: start, lengthS: 1800 }, pacing: null, ramp: null, file: null };
+      return {
+        inputs: { sport: "bike", meanHr: Math.round(meanHr) },
+        window: { startS: start, lengthS: 1800 },
+        pacing: null,
+        ramp: null,
+        file: null,
+      };
     }
   } catch (err) {
-    if (err instanceof TrainingInputError) throw new DomainError("invalid", `This file cannot be used for a ${PROTOCOLS[protocol].label.toLowerCase()}: ${err.message}`);
+    if (err instanceof TrainingInputError)
+      throw new DomainError(
+        "invalid",
+        `This file cannot be used for a ${PROTOCOLS[protocol].label.toLowerCase()}: ${err.message}`,
+      );
     throw err;
   }
   throw new DomainError("invalid", "This test is entered by hand, not from a file.");
@@ -106,14 +150,19 @@ function windowFacts(samples: readonly Sample[], startS: number, lengthS: number
 
 export const readinessSchema = z.object(
   {
-  answers: z.array(z.enum(["yes", "no"], { error: "Answer every readiness question." })).length(READINESS.questions.length, "Answer every readiness question."),
-  stopSignsRead: z.literal(true, { error: "Confirm that you have read the stop signs." }),
+    answers: z
+      .array(z.enum(["yes", "no"], { error: "Answer every readiness question." }))
+      .length(READINESS.questions.length, "Answer every readiness question."),
+    stopSignsRead: z.literal(true, { error: "Confirm that you have read the stop signs." }),
   },
   { error: "Answer every readiness question and confirm the stop signs." },
 );
 
 /** Resolves a submission (typed inputs or a file) to the threshold it proposes. */
-export async function resolveSubmission(athlete: User, body: { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null }) {
+export async function resolveSubmission(
+  athlete: User,
+  body: { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null },
+) {
   let inputs = body.inputs;
   let fromFile: Awaited<ReturnType<typeof inputsFromUpload>> | null = null;
   let upload: Upload | null = null;
@@ -133,21 +182,49 @@ export async function resolveSubmission(athlete: User, body: { protocol: Protoco
   return { result, inputs, fromFile, upload };
 }
 
-type Body = { protocol: ProtocolKey; inputs?: unknown; uploadId?: number | null; windowStartS?: number | null; testedOn: string };
+type Body = {
+  protocol: ProtocolKey;
+  inputs?: unknown;
+  uploadId?: number | null;
+  windowStartS?: number | null;
+  testedOn: string;
+};
 
 /** The threshold in force on a date for one sport and metric. */
 const thresholdOn = (athleteId: number, sport: string, metric: string, date: string) =>
-  Threshold.findOne({ where: { athleteId, sport, metric, effectiveFrom: { [Op.lte]: date } }, order: [["effectiveFrom", "DESC"], ["id", "DESC"]] });
+  Threshold.findOne({
+    where: { athleteId, sport, metric, effectiveFrom: { [Op.lte]: date } },
+    order: [
+      ["effectiveFrom", "DESC"],
+      ["id", "DESC"],
+    ],
+  });
 
 /** Runs the plausibility guard for a resolved submission with everything the database knows about the athlete. */
-async function guardFor(athlete: User, body: Body, result: ThresholdResult, value: number, fromFile: Awaited<ReturnType<typeof inputsFromUpload>> | null): Promise<GuardResult> {
+async function guardFor(
+  athlete: User,
+  body: Body,
+  result: ThresholdResult,
+  value: number,
+  fromFile: Awaited<ReturnType<typeof inputsFromUpload>> | null,
+): Promise<GuardResult> {
   const current = await thresholdOn(athlete.id, result.sport, result.metric, body.testedOn);
   const currentTest = current?.fieldTestId ? await FieldTest.findByPk(current.fieldTestId) : null;
   const lastTest = await FieldTest.findOne({
-    where: { athleteId: athlete.id, sport: result.sport, metric: result.metric, status: "active", testedOn: { [Op.lte]: body.testedOn } },
-    order: [["testedOn", "DESC"], ["id", "DESC"]],
+    where: {
+      athleteId: athlete.id,
+      sport: result.sport,
+      metric: result.metric,
+      status: "active",
+      testedOn: { [Op.lte]: body.testedOn },
+    },
+    order: [
+      ["testedOn", "DESC"],
+      ["id", "DESC"],
+    ],
   });
-  const hrThreshold = result.metric === "power" ? await thresholdOn(athlete.id, result.sport, "heart_rate", body.testedOn) : null;
+  const hrThreshold =
+    result.metric === "power" ? await thresholdOn(athlete.id, result.sport, "heart_rate", body.testedOn) : null;
   const meanHr = fromFile?.file?.meanHr ?? null;
   return plausibilityGuard({
     sport: result.sport,
@@ -156,7 +233,12 @@ async function guardFor(athlete: User, body: Body, result: ThresholdResult, valu
     current: current?.value ?? null,
     protocolLabel: body.protocol === "manual" ? "typed threshold" : PROTOCOLS[body.protocol].label,
     // A threshold typed in (on its own or as the "enter a threshold" test) is named as such in the reasons.
-    previousProtocolLabel: currentTest && currentTest.protocol !== "manual" ? (PROTOCOLS[currentTest.protocol as ProtocolKey]?.label ?? null) : current ? "typed threshold" : null,
+    previousProtocolLabel:
+      currentTest && currentTest.protocol !== "manual"
+        ? (PROTOCOLS[currentTest.protocol as ProtocolKey]?.label ?? null)
+        : current
+          ? "typed threshold"
+          : null,
     typed: !fromFile,
     daysSinceLastTest: lastTest ? daysBetween(lastTest.testedOn, body.testedOn) : null,
     cautions: result.cautions,
@@ -169,7 +251,8 @@ async function guardFor(athlete: User, body: Body, result: ThresholdResult, valu
 
 export async function preview(athlete: User, body: Body) {
   if (!isIsoDate(body.testedOn)) throw new DomainError("invalid", "Give the test date.", { field: "testedOn" });
-  if (body.testedOn > todayIn(athlete.timezone)) throw new DomainError("invalid", "A test cannot be dated in the future.", { field: "testedOn" });
+  if (body.testedOn > todayIn(athlete.timezone))
+    throw new DomainError("invalid", "A test cannot be dated in the future.", { field: "testedOn" });
   const { result, fromFile } = await resolveSubmission(athlete, body);
   const current = await thresholdOn(athlete.id, result.sport, result.metric, body.testedOn);
   const scope = { athleteId: athlete.id, sport: result.sport, metric: result.metric, from: body.testedOn };
@@ -178,7 +261,9 @@ export async function preview(athlete: User, body: Body) {
   const { cautions: _c, fit, ramp: rampRule, ...rest } = result;
   return {
     proposed: { ...rest, value, label: formatThreshold(value, result.unit) },
-    current: current ? { value: current.value, label: formatThreshold(current.value, result.unit), since: current.effectiveFrom } : null,
+    current: current
+      ? { value: current.value, label: formatThreshold(current.value, result.unit), since: current.effectiveFrom }
+      : null,
     changes: { sessions: counts.sessions, blocks: counts.blocks, until: counts.until },
     examples: await examplesFor({ ...scope, value, unit: result.unit }),
     window: fromFile?.window ?? null,
@@ -194,8 +279,6 @@ function roundThreshold(r: ThresholdResult) {
   return r.metric === "pace" ? Math.round(r.value * 10) / 10 : Math.round(r.value);
 }
 
-
-
 const METRIC_LABEL: Record<string, string> = { power: "power", heart_rate: "heart-rate", pace: "pace" };
 
 /**
@@ -209,20 +292,30 @@ export async function saveTest(
 ) {
   const protocol = PROTOCOLS[body.protocol];
   if (!isIsoDate(body.testedOn)) throw new DomainError("invalid", "Give the test date.", { field: "testedOn" });
-  if (body.testedOn > todayIn(athlete.timezone)) throw new DomainError("invalid", "A test cannot be dated in the future.", { field: "testedOn" });
+  if (body.testedOn > todayIn(athlete.timezone))
+    throw new DomainError("invalid", "A test cannot be dated in the future.", { field: "testedOn" });
   let readiness: z.infer<typeof readinessSchema> | null = null;
   if (protocol.maximal) {
     const parsed = readinessSchema.safeParse(body.readiness);
-    if (!parsed.success) throw new DomainError("invalid", `Before a maximal test: ${parsed.error.issues[0].message}`, { field: "readiness" });
+    if (!parsed.success)
+      throw new DomainError("invalid", `Before a maximal test: ${parsed.error.issues[0].message}`, {
+        field: "readiness",
+      });
     readiness = parsed.data;
   }
   const { result, inputs, upload, fromFile } = await resolveSubmission(athlete, body);
   const value = roundThreshold(result);
   const guard = await guardFor(athlete, body, result, value, fromFile);
   if (guard.flagged && body.confirmed !== true) {
-    throw new DomainError("confirm_needed", `${guard.headline} Read the likely reasons and confirm the change to save it.`, { field: "confirm" });
+    throw new DomainError(
+      "confirm_needed",
+      `${guard.headline} Read the likely reasons and confirm the change to save it.`,
+      { field: "confirm" },
+    );
   }
-  const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
+  const coaches = await User.findAll({
+    where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) },
+  });
   return writeTransaction(async (transaction) => {
     // Checked inside the write lock (and, on PostgreSQL, the athlete's row lock), so two copies of one submission
     // cannot both pass it and two tests of one athlete rescale in turn, whichever instance they reach.
@@ -231,7 +324,11 @@ export async function saveTest(
       const earlier = await FieldTest.findOne({ where: { requestKey: body.requestKey }, transaction });
       if (earlier) {
         if (earlier.athleteId !== athlete.id) throw new DomainError("conflict", "That request was already used.");
-        return { test: earlier, report: await RescaleReport.findOne({ where: { fieldTestId: earlier.id, kind: "apply" }, transaction }), repeated: true };
+        return {
+          test: earlier,
+          report: await RescaleReport.findOne({ where: { fieldTestId: earlier.id, kind: "apply" }, transaction }),
+          repeated: true,
+        };
       }
     }
     const test = await FieldTest.create(
@@ -253,15 +350,44 @@ export async function saveTest(
       { transaction },
     );
     const { report, threshold, previous } = await applyThreshold(
-      { athleteId: athlete.id, sport: result.sport, metric: result.metric, value, unit: result.unit, from: body.testedOn, fieldTestId: test.id, createdBy: by.id },
+      {
+        athleteId: athlete.id,
+        sport: result.sport,
+        metric: result.metric,
+        value,
+        unit: result.unit,
+        from: body.testedOn,
+        fieldTestId: test.id,
+        createdBy: by.id,
+      },
       transaction,
     );
     await test.update({ thresholdId: threshold.id }, { transaction });
     await report.update(
-      { guard: { flagged: guard.flagged, changePct: guard.changePct, headline: guard.headline, reasons: guard.reasons }, confirmedBy: guard.flagged ? by.id : null, confirmedAt: guard.flagged ? new Date() : null },
+      {
+        guard: { flagged: guard.flagged, changePct: guard.changePct, headline: guard.headline, reasons: guard.reasons },
+        confirmedBy: guard.flagged ? by.id : null,
+        confirmedAt: guard.flagged ? new Date() : null,
+      },
       { transaction },
     );
-    await queueRescaleSummary({ athlete, coaches, by, label: protocol.label.toLowerCase(), testedOn: body.testedOn, sport: result.sport, metric: result.metric, unit: result.unit, value, previous, report, guard }, transaction);
+    await queueRescaleSummary(
+      {
+        athlete,
+        coaches,
+        by,
+        label: protocol.label.toLowerCase(),
+        testedOn: body.testedOn,
+        sport: result.sport,
+        metric: result.metric,
+        unit: result.unit,
+        value,
+        previous,
+        report,
+        guard,
+      },
+      transaction,
+    );
     return { test, report, repeated: false };
   });
 }
@@ -288,8 +414,12 @@ export async function queueRescaleSummary(
   transaction: Transaction,
 ) {
   const { athlete, by, guard, report } = a;
-  const guardNote = guard.flagged ? `${guard.headline} ${by.name} saw the likely reasons and confirmed the change${by.id === athlete.id ? "" : ` for ${athlete.name}`}.` : "";
-  const examples = report.examples.map((e) => `${e.date} ${e.name}: ${e.before} → ${e.after}`).join("\n") || "No planned sessions needed a change.";
+  const guardNote = guard.flagged
+    ? `${guard.headline} ${by.name} saw the likely reasons and confirmed the change${by.id === athlete.id ? "" : ` for ${athlete.name}`}.`
+    : "";
+  const examples =
+    report.examples.map((e) => `${e.date} ${e.name}: ${e.before} → ${e.after}`).join("\n") ||
+    "No planned sessions needed a change.";
   const bands = await thresholdBandsText(athlete, a.sport, a.metric, a.value, a.unit, transaction);
   for (const person of [athlete, ...a.coaches]) {
     await queueEmail(
@@ -322,21 +452,32 @@ export async function queueRescaleSummary(
  * listed as undone (who and when), and athlete and coaches get a correction of the summary they were sent.
  */
 export async function undoTest(athlete: User, by: User, testId: number) {
-  const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) } });
+  const coaches = await User.findAll({
+    where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) },
+  });
   return writeTransaction(async (transaction) => {
     await lockRow("users", athlete.id, transaction);
     const test = await FieldTest.findOne({ where: { id: testId, athleteId: athlete.id }, transaction });
     if (!test) throw new DomainError("not_found", "No such test for this athlete.");
     if (test.status === "undone") throw new DomainError("invalid", "This test was already removed.");
-    if (test.createdAt < daysAgo(UNDO_DAYS)) throw new DomainError("invalid", `Tests can be removed for ${UNDO_DAYS} days after they were saved.`);
+    if (test.createdAt < daysAgo(UNDO_DAYS))
+      throw new DomainError("invalid", `Tests can be removed for ${UNDO_DAYS} days after they were saved.`);
     const report = await RescaleReport.findOne({ where: { fieldTestId: test.id, kind: "apply" }, transaction });
     const threshold = test.thresholdId ? await Threshold.findByPk(test.thresholdId, { transaction }) : null;
     const undo = report ? await undoRescale(report, threshold, by.id, transaction) : null;
     const undoneAt = new Date();
     await test.update({ status: "undone", undoneAt, undoneBy: by.id, thresholdId: null }, { transaction });
     const restored = await Threshold.findOne({
-      where: { athleteId: athlete.id, sport: test.sport, metric: test.metric, effectiveFrom: { [Op.lte]: test.testedOn } },
-      order: [["effectiveFrom", "DESC"], ["id", "DESC"]],
+      where: {
+        athleteId: athlete.id,
+        sport: test.sport,
+        metric: test.metric,
+        effectiveFrom: { [Op.lte]: test.testedOn },
+      },
+      order: [
+        ["effectiveFrom", "DESC"],
+        ["id", "DESC"],
+      ],
       transaction,
     });
     for (const person of [athlete, ...coaches]) {
@@ -366,7 +507,10 @@ export async function undoTest(athlete: User, by: User, testId: number) {
   });
 }
 
-const testWords = (t: FieldTest | undefined) => (t ? `the ${(PROTOCOLS[t.protocol as ProtocolKey]?.label ?? t.protocol).toLowerCase()} of ${t.testedOn}` : "a test no longer listed");
+const testWords = (t: FieldTest | undefined) =>
+  t
+    ? `the ${(PROTOCOLS[t.protocol as ProtocolKey]?.label ?? t.protocol).toLowerCase()} of ${t.testedOn}`
+    : "a test no longer listed";
 
 /** Where a threshold came from, in words: its test, the cross-checked pair and the choice made, or a typed value. */
 export function thresholdBasis(t: Threshold, tests: Map<number, FieldTest>): string {
@@ -387,15 +531,36 @@ export function thresholdBasis(t: Threshold, tests: Map<number, FieldTest>): str
 
 export async function testHistory(athleteId: number) {
   const [tests, thresholds, reports] = await Promise.all([
-    FieldTest.findAll({ where: { athleteId }, order: [["testedOn", "DESC"], ["id", "DESC"]] }),
-    Threshold.findAll({ where: { athleteId }, order: [["effectiveFrom", "ASC"], ["id", "ASC"]] }),
+    FieldTest.findAll({
+      where: { athleteId },
+      order: [
+        ["testedOn", "DESC"],
+        ["id", "DESC"],
+      ],
+    }),
+    Threshold.findAll({
+      where: { athleteId },
+      order: [
+        ["effectiveFrom", "ASC"],
+        ["id", "ASC"],
+      ],
+    }),
     RescaleReport.findAll({ where: { athleteId }, order: [["id", "DESC"]], limit: 20 }),
   ]);
   // The threshold in force today per sport and metric: a test is "in force" only while its threshold is the latest.
   const latest = new Map<string, number>();
   for (const t of thresholds) latest.set(`${t.sport}:${t.metric}`, t.id);
   const inForce = new Set(latest.values());
-  const people = await User.findAll({ where: { id: [...new Set([...tests.map((t) => t.undoneBy), ...reports.map((r) => r.confirmedBy)].filter((x): x is number => !!x))] }, attributes: ["id", "name"] });
+  const people = await User.findAll({
+    where: {
+      id: [
+        ...new Set(
+          [...tests.map((t) => t.undoneBy), ...reports.map((r) => r.confirmedBy)].filter((x): x is number => !!x),
+        ),
+      ],
+    },
+    attributes: ["id", "name"],
+  });
   const names = new Map(people.map((p) => [p.id, p.name]));
   const testsById = new Map(tests.map((t) => [t.id, t]));
   return {
@@ -415,8 +580,33 @@ export async function testHistory(athleteId: number) {
       canUndo: t.status === "active" && t.createdAt >= daysAgo(UNDO_DAYS),
       savedAt: t.createdAt.toISOString(),
     })),
-    thresholds: thresholds.map((t) => ({ id: t.id, sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, display: formatThreshold(t.value, t.unit), effectiveFrom: t.effectiveFrom, source: t.source, basis: thresholdBasis(t, testsById) })),
-    reports: reports.map((r) => ({ id: r.id, fieldTestId: r.fieldTestId, kind: r.kind, sport: r.sport, metric: r.metric, oldValue: r.oldValue, newValue: r.newValue, unit: r.unit, fromDate: r.fromDate, sessions: r.sessionsChanged, blocks: r.blocksChanged, examples: r.examples, at: r.createdAt.toISOString(), guard: r.guard, confirmedBy: r.confirmedBy ? (names.get(r.confirmedBy) ?? null) : null })),
+    thresholds: thresholds.map((t) => ({
+      id: t.id,
+      sport: t.sport,
+      metric: t.metric,
+      value: t.value,
+      unit: t.unit,
+      display: formatThreshold(t.value, t.unit),
+      effectiveFrom: t.effectiveFrom,
+      source: t.source,
+      basis: thresholdBasis(t, testsById),
+    })),
+    reports: reports.map((r) => ({
+      id: r.id,
+      fieldTestId: r.fieldTestId,
+      kind: r.kind,
+      sport: r.sport,
+      metric: r.metric,
+      oldValue: r.oldValue,
+      newValue: r.newValue,
+      unit: r.unit,
+      fromDate: r.fromDate,
+      sessions: r.sessionsChanged,
+      blocks: r.blocksChanged,
+      examples: r.examples,
+      at: r.createdAt.toISOString(),
+      guard: r.guard,
+      confirmedBy: r.confirmedBy ? (names.get(r.confirmedBy) ?? null) : null,
+    })),
   };
 }
-

@@ -34,7 +34,10 @@ export async function attachRide(athlete: User, uploadId: number, date: string, 
   const samples = activity.samples;
   const minutes = samples.length / 60;
   const hasPower = activity.meta.channels.includes("power");
-  const power = await Threshold.findOne({ where: { athleteId: athlete.id, sport: "bike", metric: "power", effectiveFrom: { [Op.lte]: date } }, order: [["effectiveFrom", "DESC"]] });
+  const power = await Threshold.findOne({
+    where: { athleteId: athlete.id, sport: "bike", metric: "power", effectiveFrom: { [Op.lte]: date } },
+    order: [["effectiveFrom", "DESC"]],
+  });
   // Kept on the session as a record of the bands at the time; pages recompute time in band from the file's histogram.
   const powerSet = (await bandSetsFor(athlete))["bike:power"];
   const hist = (upload.summary as Partial<UploadSummary>).histograms ?? activityHistograms(activity);
@@ -43,21 +46,72 @@ export async function attachRide(athlete: User, uploadId: number, date: string, 
   const hr = samples.map((s) => s.hr).filter((v): v is number => typeof v === "number");
   const trimp =
     hr.length > 60 && athlete.restingHr && athlete.maxHr
-      ? trimpBanister({ minutes: hr.length / 60, avgHr: hr.reduce((a, b) => a + b, 0) / hr.length, restHr: athlete.restingHr, maxHr: athlete.maxHr, sex: athlete.sex === "female" ? "female" : "male" })
+      ? trimpBanister({
+          minutes: hr.length / 60,
+          avgHr: hr.reduce((a, b) => a + b, 0) / hr.length,
+          restHr: athlete.restingHr,
+          maxHr: athlete.maxHr,
+          sex: athlete.sex === "female" ? "female" : "male",
+        })
       : null;
-  const result = { workKj: hasPower ? workKj(samples) : null, trimp, zoneMinutes: zones ? JSON.stringify(zones) : null, bandLoad: banded ? Math.round(banded.load * 10) / 10 : null, uploadId: upload.id, actualMinutes: Math.round(minutes * 10) / 10 };
+  const result = {
+    workKj: hasPower ? workKj(samples) : null,
+    trimp,
+    zoneMinutes: zones ? JSON.stringify(zones) : null,
+    bandLoad: banded ? Math.round(banded.load * 10) / 10 : null,
+    uploadId: upload.id,
+    actualMinutes: Math.round(minutes * 10) / 10,
+  };
   return writeTransaction(async (transaction) => {
-    const planned = await ScheduledSession.findOne({ where: { athleteId: athlete.id, date, status: "planned", sport: "bike" }, order: [["position", "ASC"]], transaction });
+    const planned = await ScheduledSession.findOne({
+      where: { athleteId: athlete.id, date, status: "planned", sport: "bike" },
+      order: [["position", "ASC"]],
+      transaction,
+    });
     if (planned) {
-      const steps = await ScheduledBlock.findAll({ where: { scheduledSessionId: planned.id }, order: [["position", "ASC"]], transaction });
+      const steps = await ScheduledBlock.findAll({
+        where: { scheduledSessionId: planned.id },
+        order: [["position", "ASC"]],
+        transaction,
+      });
       const fit = hasPower
-        ? timeInTarget(samples, steps.map((b) => ({ durationS: b.durationS, low: b.metric === "power" ? b.lowAbs : null, high: b.metric === "power" ? b.highAbs : null, ramp: b.ramp })))
+        ? timeInTarget(
+            samples,
+            steps.map((b) => ({
+              durationS: b.durationS,
+              low: b.metric === "power" ? b.lowAbs : null,
+              high: b.metric === "power" ? b.highAbs : null,
+              ramp: b.ramp,
+            })),
+          )
         : { targetedS: 0, inTargetS: 0 };
-      await planned.update({ ...result, targetedS: fit.targetedS || null, inTargetS: fit.targetedS ? fit.inTargetS : null, status: "done", effortScore, completedAt: new Date(), feedSequence: planned.feedSequence + 1 }, { transaction });
+      await planned.update(
+        {
+          ...result,
+          targetedS: fit.targetedS || null,
+          inTargetS: fit.targetedS ? fit.inTargetS : null,
+          status: "done",
+          effortScore,
+          completedAt: new Date(),
+          feedSequence: planned.feedSequence + 1,
+        },
+        { transaction },
+      );
       return { session: planned, matched: true };
     }
     const session = await ScheduledSession.create(
-      { athleteId: athlete.id, date, name: "Unplanned ride", sport: "bike", status: "done", effortScore, completedAt: new Date(), plannedDurationS: 0, plannedLoad: 0, ...result },
+      {
+        athleteId: athlete.id,
+        date,
+        name: "Unplanned ride",
+        sport: "bike",
+        status: "done",
+        effortScore,
+        completedAt: new Date(),
+        plannedDurationS: 0,
+        plannedLoad: 0,
+        ...result,
+      },
       { transaction },
     );
     return { session, matched: false };
@@ -96,10 +150,24 @@ function rideDate(upload: Upload, attached: Map<number, string>, timeZone: strin
 export async function rideBandMinutes(athlete: User, from: string, to: string, bands: BandSet) {
   const lo = new Date(Date.parse(`${addDays(from, -2)}T00:00:00Z`));
   const hi = new Date(Date.parse(`${addDays(to, 2)}T23:59:59Z`));
-  const sessions = await ScheduledSession.findAll({ where: { athleteId: athlete.id, uploadId: { [Op.ne]: null } }, attributes: ["uploadId", "date"] });
+  const sessions = await ScheduledSession.findAll({
+    where: { athleteId: athlete.id, uploadId: { [Op.ne]: null } },
+    attributes: ["uploadId", "date"],
+  });
   const attached = new Map(sessions.map((x) => [x.uploadId!, x.date]));
-  const uploads = await Upload.findAll({ where: { athleteId: athlete.id, [Op.or]: [{ createdAt: { [Op.between]: [lo, hi] } }, { id: { [Op.in]: [...attached.keys()] } }] } });
-  const thresholds = await Threshold.findAll({ where: { athleteId: athlete.id, sport: "bike", metric: "power" }, order: [["effectiveFrom", "ASC"], ["id", "ASC"]] });
+  const uploads = await Upload.findAll({
+    where: {
+      athleteId: athlete.id,
+      [Op.or]: [{ createdAt: { [Op.between]: [lo, hi] } }, { id: { [Op.in]: [...attached.keys()] } }],
+    },
+  });
+  const thresholds = await Threshold.findAll({
+    where: { athleteId: athlete.id, sport: "bike", metric: "power" },
+    order: [
+      ["effectiveFrom", "ASC"],
+      ["id", "ASC"],
+    ],
+  });
   const byDay = new Map<string, number[]>();
   for (const u of uploads) {
     const date = rideDate(u, attached, athlete.timezone);
@@ -133,17 +201,21 @@ export async function rideBandMinutes(athlete: User, from: string, to: string, b
 export const warmStart = (from: string) => addDays(from, -84);
 
 /** The session columns the load model reads, for one athlete or (with athlete_id) for a roster at once. */
-export const DAY_COLUMNS = "date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, test_protocol, targeted_s, in_target_s, band_load";
+export const DAY_COLUMNS =
+  "date, status, effort_score, actual_minutes, planned_load, planned_duration_s, trimp, work_kj, test_protocol, targeted_s, in_target_s, band_load";
 
 export async function loadSeries(athlete: User, from: string, to: string) {
   const today = todayIn(athlete.timezone);
   const warmFrom = warmStart(from);
   // The day rows and the ride minutes are independent reads: issued together, one waits while the other runs.
   const [rows, { powerBands, rides }] = await Promise.all([
-    db().query<DayRow>(`SELECT ${DAY_COLUMNS} FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled'`, {
-      replacements: [athlete.id, warmFrom, to],
-      type: QueryTypes.SELECT,
-    }),
+    db().query<DayRow>(
+      `SELECT ${DAY_COLUMNS} FROM scheduled_sessions WHERE athlete_id = ? AND date BETWEEN ? AND ? AND status != 'cancelled'`,
+      {
+        replacements: [athlete.id, warmFrom, to],
+        type: QueryTypes.SELECT,
+      },
+    ),
     bandSetsFor(athlete).then(async (sets) => {
       const powerBands = sets["bike:power"];
       return { powerBands, rides: await rideBandMinutes(athlete, mondayOf(from), to, powerBands) };
@@ -153,7 +225,21 @@ export async function loadSeries(athlete: User, from: string, to: string) {
 }
 
 /** The load model over rows already read: pure, so a roster can read every athlete's rows in one query. */
-export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { rows: DayRow[]; rides: Map<string, number[]>; powerBands: BandSet; from: string; to: string; today: string }) {
+export function seriesFromRows({
+  rows,
+  rides,
+  powerBands,
+  from,
+  to,
+  today,
+}: {
+  rows: DayRow[];
+  rides: Map<string, number[]>;
+  powerBands: BandSet;
+  from: string;
+  to: string;
+  today: string;
+}) {
   const warmFrom = warmStart(from);
   const n = daysBetween(warmFrom, to) + 1;
   const nb = powerBands.bands.length;
@@ -164,7 +250,22 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
   const days = Array.from({ length: n }, (_, i) => {
     const date = dates[i];
     dayIndex.set(date, i);
-    return { date, effortLoad: 0, powerLoad: 0, trimp: 0, workKj: 0, plannedLoad: 0, doneMinutes: 0, plannedMinutes: 0, done: 0, planned: 0, plannedAll: 0, targeted: 0, inTarget: 0, bandMinutes: rides.get(date) ?? (new Array(nb).fill(0) as number[]) };
+    return {
+      date,
+      effortLoad: 0,
+      powerLoad: 0,
+      trimp: 0,
+      workKj: 0,
+      plannedLoad: 0,
+      doneMinutes: 0,
+      plannedMinutes: 0,
+      done: 0,
+      planned: 0,
+      plannedAll: 0,
+      targeted: 0,
+      inTarget: 0,
+      bandMinutes: rides.get(date) ?? (new Array(nb).fill(0) as number[]),
+    };
   });
   for (const r of rows) {
     const at = dayIndex.get(r.date);
@@ -182,7 +283,8 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
       }
       d.done++;
       d.doneMinutes += r.actual_minutes ?? 0;
-      if (r.effort_score !== null && r.actual_minutes !== null) d.effortLoad += effortLoad(r.effort_score, r.actual_minutes);
+      if (r.effort_score !== null && r.actual_minutes !== null)
+        d.effortLoad += effortLoad(r.effort_score, r.actual_minutes);
       else if (r.band_load !== null) {
         // A ride with power but no effort score still carries load: its band load stands in (see bandLoad).
         d.effortLoad += r.band_load;
@@ -200,10 +302,18 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
   const modelLoads = days.map((d) => (d.date <= today ? d.effortLoad : d.plannedLoad));
   const ff = fitnessFatigue(modelLoads);
   // History begins with the first recorded session: earlier days are unknown, not rest (see acuteChronicRatio).
-  const firstRecord = rows.length ? daysBetween(warmFrom, rows.reduce((m, r) => (r.date < m ? r.date : m), rows[0].date)) : -1;
+  const firstRecord = rows.length
+    ? daysBetween(
+        warmFrom,
+        rows.reduce((m, r) => (r.date < m ? r.date : m), rows[0].date),
+      )
+    : -1;
   const historyStart = Math.max(0, firstRecord);
   const rolling = acuteChronicRatio(modelLoads, { historyStart: firstRecord === -1 ? undefined : historyStart });
-  const ewma = acuteChronicRatio(modelLoads, { method: "ewma", historyStart: firstRecord === -1 ? undefined : historyStart });
+  const ewma = acuteChronicRatio(modelLoads, {
+    method: "ewma",
+    historyStart: firstRecord === -1 ? undefined : historyStart,
+  });
   const daily = days
     .map((d, i) => ({
       date: d.date,
@@ -223,7 +333,24 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
     }))
     .filter((d) => d.date >= from);
 
-  const weeks = new Map<string, { week: string; plannedLoad: number; doneLoad: number; powerLoad: number; plannedSessions: number; doneSessions: number; plannedMinutes: number; doneMinutes: number; targeted: number; inTarget: number; bandMinutes: number[]; loads: number[]; usual: { low: number; high: number } | null }>();
+  const weeks = new Map<
+    string,
+    {
+      week: string;
+      plannedLoad: number;
+      doneLoad: number;
+      powerLoad: number;
+      plannedSessions: number;
+      doneSessions: number;
+      plannedMinutes: number;
+      doneMinutes: number;
+      targeted: number;
+      inTarget: number;
+      bandMinutes: number[];
+      loads: number[];
+      usual: { low: number; high: number } | null;
+    }
+  >();
   const firstMonday = mondayOf(from);
   const todayIdx = daysBetween(warmFrom, today);
   const firstWeekday = weekday(warmFrom);
@@ -235,8 +362,25 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
     // Weeks ahead are measured against the usual range as of today: only days already lived count as history.
     let e = weeks.get(w);
     if (!e) {
-      const usual = firstRecord === -1 ? null : usualWeekRange(modelLoads, Math.min(daysBetween(warmFrom, w), todayIdx + 1), { historyStart });
-      e = { week: w, plannedLoad: 0, doneLoad: 0, powerLoad: 0, plannedSessions: 0, doneSessions: 0, plannedMinutes: 0, doneMinutes: 0, targeted: 0, inTarget: 0, bandMinutes: new Array(nb).fill(0) as number[], loads: [] as number[], usual: usual && { low: round(usual.low), high: round(usual.high) } };
+      const usual =
+        firstRecord === -1
+          ? null
+          : usualWeekRange(modelLoads, Math.min(daysBetween(warmFrom, w), todayIdx + 1), { historyStart });
+      e = {
+        week: w,
+        plannedLoad: 0,
+        doneLoad: 0,
+        powerLoad: 0,
+        plannedSessions: 0,
+        doneSessions: 0,
+        plannedMinutes: 0,
+        doneMinutes: 0,
+        targeted: 0,
+        inTarget: 0,
+        bandMinutes: new Array(nb).fill(0) as number[],
+        loads: [] as number[],
+        usual: usual && { low: round(usual.low), high: round(usual.high) },
+      };
     }
     e.doneLoad += d.effortLoad;
     e.powerLoad += d.powerLoad;
@@ -275,12 +419,26 @@ export function seriesFromRows({ rows, rides, powerBands, from, to, today }: { r
     to,
     daily,
     weekly,
-    bands: powerBands.bands.map((b, i) => ({ name: b.name, shade: bandShade(i, nb), aboveThreshold: bandAboveThreshold(b) })),
+    bands: powerBands.bands.map((b, i) => ({
+      name: b.name,
+      shade: bandShade(i, nb),
+      aboveThreshold: bandAboveThreshold(b),
+    })),
     historyDays,
     latestRatio: latest?.acwrRolling ?? null,
     latestEwma: latest?.acwrEwma ?? null,
     band: latest?.acwrRolling ? ratioBand(latest.acwrRolling) : null,
-    readiness: readinessNote({ today, daily, weekly, historyDays, ratio: latest?.acwrRolling ?? null, keyDays: rows.filter((r) => r.test_protocol && r.status === "planned" && r.date > today).map((r) => r.date).sort() }),
+    readiness: readinessNote({
+      today,
+      daily,
+      weekly,
+      historyDays,
+      ratio: latest?.acwrRolling ?? null,
+      keyDays: rows
+        .filter((r) => r.test_protocol && r.status === "planned" && r.date > today)
+        .map((r) => r.date)
+        .sort(),
+    }),
   };
 }
 
@@ -300,7 +458,9 @@ function readinessNote(input: {
 }): string[] {
   const notes: string[] = [];
   if (input.historyDays < 28) {
-    notes.push(`Not enough history yet: the usual range needs 28 days of recorded sessions (${input.historyDays} so far).`);
+    notes.push(
+      `Not enough history yet: the usual range needs 28 days of recorded sessions (${input.historyDays} so far).`,
+    );
   } else if (input.ratio !== null) {
     const band = ratioBand(input.ratio);
     notes.push(
@@ -314,11 +474,18 @@ function readinessNote(input: {
     );
   }
   const now = input.daily.find((d) => d.date === input.today);
-  const freshness = (d: { fitness: number; balance: number }) => (d.balance > 0.1 * d.fitness ? "fresh" : d.balance < -0.1 * d.fitness ? "carrying fatigue" : "neither fresh nor tired");
-  if (now && now.fitness > 0) notes.push(`Today the athlete is ${freshness(now)} (the 7-day trend against the 42-day trend).`);
+  const freshness = (d: { fitness: number; balance: number }) =>
+    d.balance > 0.1 * d.fitness
+      ? "fresh"
+      : d.balance < -0.1 * d.fitness
+        ? "carrying fatigue"
+        : "neither fresh nor tired";
+  if (now && now.fitness > 0)
+    notes.push(`Today the athlete is ${freshness(now)} (the 7-day trend against the 42-day trend).`);
   const key = input.keyDays.find((d) => d <= addDays(input.today, 21));
   const onKey = key ? input.daily.find((d) => d.date === key) : undefined;
-  if (key && onKey && onKey.fitness > 0) notes.push(`Next field test ${key}: as planned, the athlete would arrive ${freshness(onKey)}.`);
+  if (key && onKey && onKey.fitness > 0)
+    notes.push(`Next field test ${key}: as planned, the athlete would arrive ${freshness(onKey)}.`);
   return notes;
 }
 
@@ -327,17 +494,28 @@ const round = (x: number, digits = 1) => Math.round(x * 10 ** digits) / 10 ** di
 /** Best power for each window across the uploads of two 90-day periods: the last 90 days and the 90 before. */
 export async function powerCurveComparison(athlete: User) {
   const today = todayIn(athlete.timezone);
-  const uploads = await Upload.findAll({ where: { athleteId: athlete.id, createdAt: { [Op.gte]: new Date(Date.parse(`${addDays(today, -180)}T00:00:00Z`)) } } });
+  const uploads = await Upload.findAll({
+    where: {
+      athleteId: athlete.id,
+      createdAt: { [Op.gte]: new Date(Date.parse(`${addDays(today, -180)}T00:00:00Z`)) },
+    },
+  });
   const cut = Date.parse(`${addDays(today, -90)}T00:00:00Z`);
   const best = (list: Upload[]) => {
     const m = new Map<number, number>();
-    for (const u of list) for (const p of (u.summary as { curve?: { windowS: number; watts: number }[] }).curve ?? []) m.set(p.windowS, Math.max(m.get(p.windowS) ?? 0, p.watts));
+    for (const u of list)
+      for (const p of (u.summary as { curve?: { windowS: number; watts: number }[] }).curve ?? [])
+        m.set(p.windowS, Math.max(m.get(p.windowS) ?? 0, p.watts));
     return m;
   };
   const recent = best(uploads.filter((u) => u.createdAt.getTime() >= cut));
   const before = best(uploads.filter((u) => u.createdAt.getTime() < cut));
   const windows = [...new Set([...recent.keys(), ...before.keys()])].sort((a, b) => a - b);
-  return windows.map((w) => ({ windowS: w, recent: recent.has(w) ? Math.round(recent.get(w)!) : null, previous: before.has(w) ? Math.round(before.get(w)!) : null }));
+  return windows.map((w) => ({
+    windowS: w,
+    recent: recent.has(w) ? Math.round(recent.get(w)!) : null,
+    previous: before.has(w) ? Math.round(before.get(w)!) : null,
+  }));
 }
 
 /** Roster figures: sessions done / planned over the last four weeks, and whether the load ratio is a spike. */
@@ -349,5 +527,11 @@ export async function rosterLoad(athlete: User) {
 export function rosterFigures(s: Pick<ReturnType<typeof seriesFromRows>, "weekly" | "latestRatio">) {
   const planned = s.weekly.reduce((a, w) => a + w.plannedSessions, 0);
   const done = s.weekly.reduce((a, w) => a + w.doneSessions, 0);
-  return { compliance: planned ? round(done / planned, 2) : null, done, planned, ratio: s.latestRatio, spike: s.latestRatio !== null && s.latestRatio > 1.5 };
+  return {
+    compliance: planned ? round(done / planned, 2) : null,
+    done,
+    planned,
+    ratio: s.latestRatio,
+    spike: s.latestRatio !== null && s.latestRatio > 1.5,
+  };
 }

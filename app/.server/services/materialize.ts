@@ -1,7 +1,23 @@
 import { Op, type InferCreationAttributes, type Transaction } from "sequelize";
 import { lockRow, writeTransaction } from "../db";
-import { Assignment, CoachAthlete, PlanItem, PlanWeek, ScheduledBlock, ScheduledSession, SeasonPlan, User } from "../models";
-import { applyPlacementChoice, checkPlacement, needsChoice, type PlacementChoice, type PlacementEntry, type PlacementReport } from "./placement";
+import {
+  Assignment,
+  CoachAthlete,
+  PlanItem,
+  PlanWeek,
+  ScheduledBlock,
+  ScheduledSession,
+  SeasonPlan,
+  User,
+} from "../models";
+import {
+  applyPlacementChoice,
+  checkPlacement,
+  needsChoice,
+  type PlacementChoice,
+  type PlacementEntry,
+  type PlacementReport,
+} from "./placement";
 import { thresholdHistory, thresholdOn, thresholdSport, unitFor, type ThresholdRow } from "./thresholds";
 import { addDays, mondayOf, todayIn, weekday } from "~/lib/dates";
 import { blockDuration, estimateSession, expandBlocks, resolveTarget, type Block } from "~/lib/training";
@@ -13,7 +29,10 @@ type BlockRow = Omit<InferCreationAttributes<ScheduledBlock>, "scheduledSessionI
  * Resolves every step of a session to the athlete's numbers for the threshold in force on its date. A step whose
  * metric has no threshold yet keeps only its percentages (the "needs a field test" state).
  */
-export function resolveSteps(blocks: Block[], ctx: { athleteId: number; date: string; sport: string; history: ThresholdRow[] }): BlockRow[] {
+export function resolveSteps(
+  blocks: Block[],
+  ctx: { athleteId: number; date: string; sport: string; history: ThresholdRow[] },
+): BlockRow[] {
   const tsport = thresholdSport(ctx.sport);
   return expandBlocks(blocks).map((step, position) => {
     const spec = blocks[step.blockIndex];
@@ -24,8 +43,12 @@ export function resolveSteps(blocks: Block[], ctx: { athleteId: number; date: st
     if (threshold && step.metric && step.lowPct !== null && step.highPct !== null) {
       const u = unitFor(tsport!, step.metric);
       // A ramp may run downwards; resolve each end on its own.
-      const lo = resolveTarget({ metric: step.metric, lowPct: step.lowPct }, threshold.value, { paceUnit: u === "s/100m" ? "s/100m" : "s/km" });
-      const hi = resolveTarget({ metric: step.metric, lowPct: step.highPct }, threshold.value, { paceUnit: u === "s/100m" ? "s/100m" : "s/km" });
+      const lo = resolveTarget({ metric: step.metric, lowPct: step.lowPct }, threshold.value, {
+        paceUnit: u === "s/100m" ? "s/100m" : "s/km",
+      });
+      const hi = resolveTarget({ metric: step.metric, lowPct: step.highPct }, threshold.value, {
+        paceUnit: u === "s/100m" ? "s/100m" : "s/km",
+      });
       lowAbs = lo.low;
       highAbs = hi.low;
       unit = u;
@@ -72,7 +95,14 @@ interface ItemWithWeek {
 async function planItems(planId: number, transaction?: Transaction): Promise<ItemWithWeek[]> {
   const weeks = await PlanWeek.findAll({ where: { planId }, transaction });
   const idx = new Map(weeks.map((w) => [w.id, w.idx]));
-  const items = await PlanItem.findAll({ where: { planId }, order: [["day", "ASC"], ["position", "ASC"]], transaction });
+  const items = await PlanItem.findAll({
+    where: { planId },
+    order: [
+      ["day", "ASC"],
+      ["position", "ASC"],
+    ],
+    transaction,
+  });
   return items.map((item) => ({ item, weekIdx: idx.get(item.weekId)! }));
 }
 
@@ -82,10 +112,21 @@ const dateOf = (start: string, weekIdx: number, day: number) => addDays(start, (
  * Inserts sessions and their resolved steps with multi-row INSERTs (sessions RETURNING their ids): a 416-session
  * plan is a dozen statements, not one create and one bulk insert per session.
  */
-async function insertScheduled(athleteId: number, assignmentId: number, entries: ItemWithWeek[], startDate: string, history: ThresholdRow[], transaction: Transaction) {
+async function insertScheduled(
+  athleteId: number,
+  assignmentId: number,
+  entries: ItemWithWeek[],
+  startDate: string,
+  history: ThresholdRow[],
+  transaction: Transaction,
+) {
   const SESSION_CHUNK = 250;
   const STEP_CHUNK = 1000;
-  const placed = entries.map(({ item, weekIdx }) => ({ item, blocks: item.blocks as Block[], date: dateOf(startDate, weekIdx, item.day) }));
+  const placed = entries.map(({ item, weekIdx }) => ({
+    item,
+    blocks: item.blocks as Block[],
+    date: dateOf(startDate, weekIdx, item.day),
+  }));
   const ids: number[] = [];
   for (let i = 0; i < placed.length; i += SESSION_CHUNK) {
     const created = await ScheduledSession.bulkCreate(
@@ -108,7 +149,12 @@ async function insertScheduled(athleteId: number, assignmentId: number, entries:
     );
     ids.push(...created.map((c) => c.id));
   }
-  const steps = placed.flatMap(({ item, blocks, date }, i) => resolveSteps(blocks, { athleteId, date, sport: item.sport, history }).map((r) => ({ ...r, scheduledSessionId: ids[i] })));
+  const steps = placed.flatMap(({ item, blocks, date }, i) =>
+    resolveSteps(blocks, { athleteId, date, sport: item.sport, history }).map((r) => ({
+      ...r,
+      scheduledSessionId: ids[i],
+    })),
+  );
   // Straight to the query interface: building thousands of model instances cost more than the INSERTs themselves.
   const qi = ScheduledBlock.sequelize!.getQueryInterface();
   for (let i = 0; i < steps.length; i += STEP_CHUNK) {
@@ -146,20 +192,33 @@ function stepRow(r: BlockRow & { scheduledSessionId: number }) {
 
 /** The plan's sessions on the dates they would take from a week-1 Monday, for the placement checks. */
 export async function planEntries(planId: number, start: string, transaction?: Transaction): Promise<PlacementEntry[]> {
-  return (await planItems(planId, transaction)).map(({ item, weekIdx }) => ({ date: dateOf(start, weekIdx, item.day), name: item.name, sport: item.sport, testProtocol: item.testProtocol }));
+  return (await planItems(planId, transaction)).map(({ item, weekIdx }) => ({
+    date: dateOf(start, weekIdx, item.day),
+    name: item.name,
+    sport: item.sport,
+    testProtocol: item.testProtocol,
+  }));
 }
 
 /**
  * Places a plan on one athlete's calendar in one transaction: an Assignment and a ScheduledSession (with resolved
  * ScheduledBlocks) for every plan item. `start` is the Monday of week 1 in the athlete's own calendar.
  */
-export async function materialize(planId: number, athlete: User, start: string, opts: { assignedBy: number | null; transaction: Transaction }) {
+export async function materialize(
+  planId: number,
+  athlete: User,
+  start: string,
+  opts: { assignedBy: number | null; transaction: Transaction },
+) {
   const { transaction } = opts;
   // Targets are resolved from the athlete's thresholds: a rescale of the same athlete waits for this, or this for it.
   await lockRow("users", athlete.id, transaction);
   const plan = await SeasonPlan.findByPk(planId, { transaction });
   if (!plan) throw new DomainError("not_found", "That plan no longer exists.");
-  const assignment = await Assignment.create({ athleteId: athlete.id, planId, assignedBy: opts.assignedBy, startDate: start, planVersion: plan.version }, { transaction });
+  const assignment = await Assignment.create(
+    { athleteId: athlete.id, planId, assignedBy: opts.assignedBy, startDate: start, planVersion: plan.version },
+    { transaction },
+  );
   const history = await thresholdHistory(athlete.id, transaction);
   await insertScheduled(athlete.id, assignment.id, await planItems(planId, transaction), start, history, transaction);
   return assignment;
@@ -176,11 +235,17 @@ export function alignStart(mode: "start" | "event", date: string, weeks: number)
  * (missing thresholds for the plan's sports, sessions already planned in those weeks, two maximal tests on a day):
  * the reports come back for the coach to choose. With a choice, each athlete's check runs again inside the write.
  */
-export async function assignPlan(coach: User, planId: number, athleteIds: number[], opts: { mode: "start" | "event"; date: string; choice?: PlacementChoice }) {
+export async function assignPlan(
+  coach: User,
+  planId: number,
+  athleteIds: number[],
+  opts: { mode: "start" | "event"; date: string; choice?: PlacementChoice },
+) {
   const plan = await SeasonPlan.findOne({ where: { id: planId, ownerId: coach.id } });
   if (!plan) throw new DomainError("not_found", "No plan with this id is yours.");
   const links = await CoachAthlete.findAll({ where: { coachId: coach.id, athleteId: athleteIds } });
-  if (links.length !== new Set(athleteIds).size) throw new DomainError("not_found", "Athletes can only be given plans by their own coach.");
+  if (links.length !== new Set(athleteIds).size)
+    throw new DomainError("not_found", "Athletes can only be given plans by their own coach.");
   const weeks = await PlanWeek.count({ where: { planId } });
   const start = alignStart(opts.mode, opts.date, weeks);
   const athletes = await User.findAll({ where: { id: athleteIds } });
@@ -195,9 +260,17 @@ export async function assignPlan(coach: User, planId: number, athleteIds: number
   for (const athlete of athletes) {
     const { assignment, cancelled } = await writeTransaction(async (transaction) => {
       const { cancelled } = await applyPlacementChoice(athlete.id, entries, opts.choice ?? {}, transaction);
-      return { assignment: await materialize(planId, athlete, start, { assignedBy: coach.id, transaction }), cancelled };
+      return {
+        assignment: await materialize(planId, athlete, start, { assignedBy: coach.id, transaction }),
+        cancelled,
+      };
     });
-    results.push({ athleteId: athlete.id, assignmentId: assignment.id, sessions: await ScheduledSession.count({ where: { assignmentId: assignment.id } }), cancelled });
+    results.push({
+      athleteId: athlete.id,
+      assignmentId: assignment.id,
+      sessions: await ScheduledSession.count({ where: { assignmentId: assignment.id } }),
+      cancelled,
+    });
   }
   return { start, reports: [] as PlacementReport[], results };
 }
@@ -220,9 +293,21 @@ export async function pushPlanChanges(coach: User, planId: number) {
       await lockRow("users", athlete.id, transaction);
       const entries = await planItems(planId, transaction);
       const history = await thresholdHistory(athlete.id, transaction);
-      const future = await ScheduledSession.findAll({ where: { assignmentId: assignment.id, status: "planned", date: { [Op.gte]: today } }, transaction });
+      const future = await ScheduledSession.findAll({
+        where: { assignmentId: assignment.id, status: "planned", date: { [Op.gte]: today } },
+        transaction,
+      });
       const pastItemIds = new Set(
-        (await ScheduledSession.findAll({ where: { assignmentId: assignment.id, [Op.or]: [{ date: { [Op.lt]: today } }, { status: { [Op.ne]: "planned" } }] }, attributes: ["planItemId"], transaction })).map((s) => s.planItemId),
+        (
+          await ScheduledSession.findAll({
+            where: {
+              assignmentId: assignment.id,
+              [Op.or]: [{ date: { [Op.lt]: today } }, { status: { [Op.ne]: "planned" } }],
+            },
+            attributes: ["planItemId"],
+            transaction,
+          })
+        ).map((s) => s.planItemId),
       );
       const byItem = new Map(future.map((s) => [s.planItemId, s]));
       const toAdd: ItemWithWeek[] = [];
@@ -254,11 +339,18 @@ export async function pushPlanChanges(coach: User, planId: number) {
         );
         await ScheduledBlock.destroy({ where: { scheduledSessionId: existing.id }, transaction });
         const rows = resolveSteps(blocks, { athleteId: athlete.id, date, sport: entry.item.sport, history });
-        if (rows.length) await ScheduledBlock.bulkCreate(rows.map((r) => ({ ...r, scheduledSessionId: existing.id })), { transaction });
+        if (rows.length)
+          await ScheduledBlock.bulkCreate(
+            rows.map((r) => ({ ...r, scheduledSessionId: existing.id })),
+            { transaction },
+          );
         updated++;
       }
       for (const gone of byItem.values()) {
-        await gone.update({ status: "cancelled", cancelledAt: new Date(), feedSequence: gone.feedSequence + 1 }, { transaction });
+        await gone.update(
+          { status: "cancelled", cancelledAt: new Date(), feedSequence: gone.feedSequence + 1 },
+          { transaction },
+        );
       }
       await insertScheduled(athlete.id, assignment.id, toAdd, assignment.startDate, history, transaction);
       updated += toAdd.length;
@@ -267,4 +359,3 @@ export async function pushPlanChanges(coach: User, planId: number) {
   }
   return { assignments: assignments.length, updated };
 }
-

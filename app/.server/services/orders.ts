@@ -3,7 +3,20 @@ import { writeTransaction } from "../db";
 import { env } from "../env";
 import { enqueueJob, runDueJobs, type JobHandlers } from "../jobs";
 import { queueEmail } from "../mail";
-import { Assignment, Job, Listing, Order, PaymentEvent, PlanWeek, ScheduledBlock, ScheduledSession, SeasonPlan, Threshold, User, type OrderStatus } from "../models";
+import {
+  Assignment,
+  Job,
+  Listing,
+  Order,
+  PaymentEvent,
+  PlanWeek,
+  ScheduledBlock,
+  ScheduledSession,
+  SeasonPlan,
+  Threshold,
+  User,
+  type OrderStatus,
+} from "../models";
 import { payments } from "../payments";
 import { alignStart, materialize, resolveSteps } from "./materialize";
 import { thresholdHistory, thresholdSport } from "./thresholds";
@@ -38,7 +51,10 @@ import { orderRole } from "../access";
  * that a full refund settles everything: the money is back with the buyer.
  */
 
-export type OrderFacts = Pick<Order, "amountCents" | "paidCents" | "refundedCents" | "reviewReason" | "expiredAt" | "declinedCount">;
+export type OrderFacts = Pick<
+  Order,
+  "amountCents" | "paidCents" | "refundedCents" | "reviewReason" | "expiredAt" | "declinedCount"
+>;
 
 export function deriveStatus(f: OrderFacts): OrderStatus {
   if (f.paidCents !== null && f.paidCents > 0 && f.refundedCents >= f.paidCents) return "refunded";
@@ -82,7 +98,8 @@ type Obj = {
 
 const idOf = (v: string | { id: string } | null | undefined) => (typeof v === "string" ? v : (v?.id ?? null));
 const when = (d: Date) => `${d.toISOString().slice(0, 16).replace("T", " ")} UTC`;
-const money = (cents: number | null | undefined, currency: string | null | undefined) => (cents == null ? "nothing" : formatPrice(cents, (currency ?? "EUR").toUpperCase()));
+const money = (cents: number | null | undefined, currency: string | null | undefined) =>
+  cents == null ? "nothing" : formatPrice(cents, (currency ?? "EUR").toUpperCase());
 
 /**
  * Every write that reads an order locks its row (FOR UPDATE on PostgreSQL; SQLite has a single writer), so events,
@@ -115,18 +132,38 @@ function factsFrom(order: Order, type: string, o: Obj, at: Date): Change {
   const paid = (amount: number | undefined, currency: string | undefined, pi: string | null): Change => {
     if (order.paidCents !== null) {
       if (pi && order.paymentIntentId && pi !== order.paymentIntentId)
-        return { patch: {}, outcome: "review", review: `A second payment (${money(amount, currency)}, ${pi}) arrived for an order already paid with ${order.paymentIntentId}: the buyer may have paid twice.` };
+        return {
+          patch: {},
+          outcome: "review",
+          review: `A second payment (${money(amount, currency)}, ${pi}) arrived for an order already paid with ${order.paymentIntentId}: the buyer may have paid twice.`,
+        };
       return { patch: {}, outcome: "already-paid" };
     }
-    const patch: Partial<Order> = { paidCents: amount ?? 0, paidCurrency: (currency ?? "").toUpperCase(), paidAt: at, paymentIntentId: pi ?? order.paymentIntentId };
+    const patch: Partial<Order> = {
+      paidCents: amount ?? 0,
+      paidCurrency: (currency ?? "").toUpperCase(),
+      paidAt: at,
+      paymentIntentId: pi ?? order.paymentIntentId,
+    };
     if (amount !== order.amountCents || (currency ?? "").toUpperCase() !== order.currency)
-      return { patch, outcome: "review", review: `Paid ${money(amount, currency)}, expected ${money(order.amountCents, order.currency)}.` };
+      return {
+        patch,
+        outcome: "review",
+        review: `Paid ${money(amount, currency)}, expected ${money(order.amountCents, order.currency)}.`,
+      };
     // Ties in the provider's one-second clock go by arrival: an expiry already on record came first.
     if (order.expiredAt && order.expiredAt.getTime() <= at.getTime())
-      return { patch, outcome: "review", review: `Paid after the checkout had expired or been cancelled (${when(order.expiredAt)}); the plan was not placed.` };
+      return {
+        patch,
+        outcome: "review",
+        review: `Paid after the checkout had expired or been cancelled (${when(order.expiredAt)}); the plan was not placed.`,
+      };
     return { patch, outcome: "paid" };
   };
-  const refunded = (entries: { id: string; amount: number; status?: string }[], cumulative: number | undefined): Change => {
+  const refunded = (
+    entries: { id: string; amount: number; status?: string }[],
+    cumulative: number | undefined,
+  ): Change => {
     const refunds = { ...order.refunds };
     let failed: string | null = null;
     for (const r of entries) {
@@ -138,17 +175,34 @@ function factsFrom(order: Order, type: string, o: Obj, at: Date): Change {
     const sum = Object.values(refunds).reduce((s, a) => s + a, 0);
     const total = Math.max(failed ? 0 : order.refundedCents, cumulative ?? 0, sum);
     const patch: Partial<Order> = { refunds, refundedCents: total };
-    if (failed) return { patch, outcome: "review", review: `The provider reports that refund ${failed} failed; the buyer has not got the money back.` };
-    if (total === order.refundedCents && sum === Object.values(order.refunds).reduce((s, a) => s + a, 0)) return { patch: {}, outcome: "already-refunded" };
-    if (order.paidCents === null) return { patch, outcome: "review", review: `The provider reports a refund of ${money(total, order.currency)} before any payment is on record.` };
-    if (total < order.paidCents) return { patch, outcome: "review", review: `Partly refunded: ${money(total, order.currency)} of ${money(order.paidCents, order.paidCurrency)}.` };
+    if (failed)
+      return {
+        patch,
+        outcome: "review",
+        review: `The provider reports that refund ${failed} failed; the buyer has not got the money back.`,
+      };
+    if (total === order.refundedCents && sum === Object.values(order.refunds).reduce((s, a) => s + a, 0))
+      return { patch: {}, outcome: "already-refunded" };
+    if (order.paidCents === null)
+      return {
+        patch,
+        outcome: "review",
+        review: `The provider reports a refund of ${money(total, order.currency)} before any payment is on record.`,
+      };
+    if (total < order.paidCents)
+      return {
+        patch,
+        outcome: "review",
+        review: `Partly refunded: ${money(total, order.currency)} of ${money(order.paidCents, order.paidCurrency)}.`,
+      };
     return { patch, outcome: "refunded" };
   };
 
   switch (type) {
     case "checkout.session.completed":
       // Delayed payment methods complete the session unpaid; the money is confirmed by async_payment_succeeded.
-      if (o.payment_status && o.payment_status !== "paid") return { patch: { checkoutSessionId: o.id ?? order.checkoutSessionId }, outcome: "awaiting-payment" };
+      if (o.payment_status && o.payment_status !== "paid")
+        return { patch: { checkoutSessionId: o.id ?? order.checkoutSessionId }, outcome: "awaiting-payment" };
       return paid(o.amount_total, o.currency, idOf(o.payment_intent));
     case "checkout.session.async_payment_succeeded":
       return paid(o.amount_total, o.currency, idOf(o.payment_intent));
@@ -156,21 +210,44 @@ function factsFrom(order: Order, type: string, o: Obj, at: Date): Change {
       return paid(o.amount_received ?? o.amount, o.currency, o.id ?? null);
     case "checkout.session.async_payment_failed":
     case "payment_intent.payment_failed":
-      return { patch: { declinedCount: order.declinedCount + 1 }, outcome: order.paidCents !== null ? "stale-decline" : "declined" };
+      return {
+        patch: { declinedCount: order.declinedCount + 1 },
+        outcome: order.paidCents !== null ? "stale-decline" : "declined",
+      };
     case "checkout.session.expired":
       if (order.expiredAt) return { patch: {}, outcome: "already-expired" };
       if (order.paidCents !== null && order.paidAt && at.getTime() < order.paidAt.getTime())
-        return { patch: { expiredAt: at }, outcome: "review", review: `Paid after the checkout had expired or been cancelled (${when(at)}); the plan was placed before the expiry arrived.` };
+        return {
+          patch: { expiredAt: at },
+          outcome: "review",
+          review: `Paid after the checkout had expired or been cancelled (${when(at)}); the plan was placed before the expiry arrived.`,
+        };
       return { patch: { expiredAt: at }, outcome: order.paidCents !== null ? "stale-expiry" : "expired" };
     case "charge.refunded":
-      return refunded((o.refunds?.data ?? []).map((r) => ({ id: r.id, amount: r.amount, status: r.status })), o.amount_refunded);
+      return refunded(
+        (o.refunds?.data ?? []).map((r) => ({ id: r.id, amount: r.amount, status: r.status })),
+        o.amount_refunded,
+      );
     case "refund.created":
     case "refund.updated":
     case "refund.failed":
     case "charge.refund.updated":
-      return refunded([{ id: o.id ?? `refund-${at.getTime()}`, amount: o.amount ?? 0, status: type === "refund.failed" ? "failed" : o.status }], undefined);
+      return refunded(
+        [
+          {
+            id: o.id ?? `refund-${at.getTime()}`,
+            amount: o.amount ?? 0,
+            status: type === "refund.failed" ? "failed" : o.status,
+          },
+        ],
+        undefined,
+      );
     case "charge.dispute.created":
-      return { patch: {}, outcome: "review", review: `The buyer disputed the payment (${money(o.amount, o.currency)}) with their bank.` };
+      return {
+        patch: {},
+        outcome: "review",
+        review: `The buyer disputed the payment (${money(o.amount, o.currency)}) with their bank.`,
+      };
     default:
       return { patch: {}, outcome: "not-used" };
   }
@@ -181,7 +258,8 @@ async function settle(order: Order, change: Change, transaction: Transaction, no
   const before = order.status;
   const patch: Partial<Order> = { ...change.patch };
   if (change.review && !order.reviewReason) patch.reviewReason = change.review;
-  else if (change.review && order.reviewReason && !order.reviewReason.includes(change.review)) patch.reviewReason = `${order.reviewReason} ${change.review}`;
+  else if (change.review && order.reviewReason && !order.reviewReason.includes(change.review))
+    patch.reviewReason = `${order.reviewReason} ${change.review}`;
   const facts = { ...order.get({ plain: true }), ...patch } as Order;
   const status = deriveStatus(facts);
   await order.update({ ...patch, status, ...(note ? { note } : {}) }, { transaction });
@@ -209,14 +287,22 @@ export const ORDER_FOLLOW_UPS: JobHandlers = {
       const order = await Order.findByPk(job.orderId!, locked(transaction));
       if (order?.status === "fulfilled" && !order.assignmentId) await place(order, transaction);
     },
-    giveUp: (job, error) => putInReview(job.orderId!, `Placing the plan on the buyer's calendar failed ${job.attempts} times (${error}). Deliver it again or refund.`),
+    giveUp: (job, error) =>
+      putInReview(
+        job.orderId!,
+        `Placing the plan on the buyer's calendar failed ${job.attempts} times (${error}). Deliver it again or refund.`,
+      ),
   },
   unplace: {
     async run(job, transaction) {
       const order = await Order.findByPk(job.orderId!, locked(transaction));
       if (order?.status === "refunded") await unplace(order, transaction);
     },
-    giveUp: (job, error) => putInReview(job.orderId!, `Taking the refunded sessions off the buyer's calendar failed ${job.attempts} times (${error}).`),
+    giveUp: (job, error) =>
+      putInReview(
+        job.orderId!,
+        `Taking the refunded sessions off the buyer's calendar failed ${job.attempts} times (${error}).`,
+      ),
   },
   "review-notice": {
     async run(job, transaction) {
@@ -238,7 +324,10 @@ async function putInReview(orderId: number, reason: string) {
 export const runOrderFollowUps = (opts: { orderId?: number } = {}) => runDueJobs(ORDER_FOLLOW_UPS, opts);
 
 /** Handles one verified provider event. Recording the event id (unique) first makes a redelivery a no-op. */
-export async function applyProviderEvent(event: { id: string; type: string; created?: number; data: { object: unknown } }, rawBody: string) {
+export async function applyProviderEvent(
+  event: { id: string; type: string; created?: number; data: { object: unknown } },
+  rawBody: string,
+) {
   const o = (event.data?.object ?? {}) as Obj;
   const at = new Date((event.created ?? Math.floor(Date.now() / 1000)) * 1000);
   try {
@@ -246,7 +335,11 @@ export async function applyProviderEvent(event: { id: string; type: string; crea
   } catch (err) {
     // The same event delivered to two instances at once: both found it unseen, the order's lock made them take
     // turns, and the second one's insert of the event id failed. The first applied it; this one changed nothing.
-    if (err instanceof UniqueConstraintError && (await PaymentEvent.count({ where: { providerEventId: event.id } })) > 0) return { outcome: "duplicate", status: null as OrderStatus | null };
+    if (
+      err instanceof UniqueConstraintError &&
+      (await PaymentEvent.count({ where: { providerEventId: event.id } })) > 0
+    )
+      return { outcome: "duplicate", status: null as OrderStatus | null };
     throw err;
   }
 }
@@ -260,15 +353,24 @@ async function recordProviderEvent(event: { id: string; type: string }, o: Obj, 
     let status: OrderStatus | null = null;
     if (order) {
       let change = factsFrom(order, event.type, o, at);
-      const newPayment = change.patch.paymentIntentId && change.patch.paymentIntentId !== order.paymentIntentId ? change.patch.paymentIntentId : null;
+      const newPayment =
+        change.patch.paymentIntentId && change.patch.paymentIntentId !== order.paymentIntentId
+          ? change.patch.paymentIntentId
+          : null;
       if (newPayment) change = await withWaiting(order, change, newPayment, transaction);
       outcome = change.outcome;
       status = (await settle(order, change, transaction)).status;
-      await PaymentEvent.create({ providerEventId: event.id, type: event.type, orderId: order.id, outcome, payload: rawBody.slice(0, 20_000) }, { transaction });
+      await PaymentEvent.create(
+        { providerEventId: event.id, type: event.type, orderId: order.id, outcome, payload: rawBody.slice(0, 20_000) },
+        { transaction },
+      );
       return { outcome, status };
     }
     // Kept, not dropped: a refund or charge event may name only a payment the order learns about later.
-    await PaymentEvent.create({ providerEventId: event.id, type: event.type, orderId: null, outcome, payload: rawBody.slice(0, 20_000) }, { transaction });
+    await PaymentEvent.create(
+      { providerEventId: event.id, type: event.type, orderId: null, outcome, payload: rawBody.slice(0, 20_000) },
+      { transaction },
+    );
     return { outcome, status };
   });
 }
@@ -279,10 +381,20 @@ async function recordProviderEvent(event: { id: string; type: string }, o: Obj, 
  * combined facts, as if the events had arrived in turn.
  */
 async function withWaiting(order: Order, change: Change, pi: string, transaction: Transaction): Promise<Change> {
-  const waiting = await PaymentEvent.findAll({ where: { orderId: null, outcome: "no-order", payload: { [Op.like]: `%${pi.replace(/[%\\]/g, "")}%` } }, transaction });
+  const waiting = await PaymentEvent.findAll({
+    where: { orderId: null, outcome: "no-order", payload: { [Op.like]: `%${pi.replace(/[%\\]/g, "")}%` } },
+    transaction,
+  });
   const events = waiting
-    .map((row) => ({ row, event: JSON.parse(row.payload) as { type: string; created?: number; data: { object: Obj } } }))
-    .filter(({ event }) => idOf(event.data.object.payment_intent) === pi || (event.type.startsWith("payment_intent.") && event.data.object.id === pi))
+    .map((row) => ({
+      row,
+      event: JSON.parse(row.payload) as { type: string; created?: number; data: { object: Obj } },
+    }))
+    .filter(
+      ({ event }) =>
+        idOf(event.data.object.payment_intent) === pi ||
+        (event.type.startsWith("payment_intent.") && event.data.object.id === pi),
+    )
     .sort((a, b) => (a.event.created ?? 0) - (b.event.created ?? 0));
   if (!events.length) return change;
   const patch = { ...change.patch };
@@ -308,17 +420,42 @@ async function place(order: Order, transaction: Transaction): Promise<string[]> 
   // Without a threshold for the plan's sport, the buyer's first session is a field test, unless the plan starts with one.
   const plan = (await SeasonPlan.findByPk(listing.planId, { transaction }))!;
   const tsport = thresholdSport(plan.sport);
-  const hasThreshold = tsport ? (await Threshold.count({ where: { athleteId: buyer.id, sport: tsport }, transaction })) > 0 : true;
+  const hasThreshold = tsport
+    ? (await Threshold.count({ where: { athleteId: buyer.id, sport: tsport }, transaction })) > 0
+    : true;
   let testNote = "";
   if (!hasThreshold) {
-    const weekOne = await ScheduledSession.findOne({ where: { assignmentId: assignment.id, testProtocol: { [Op.ne]: null }, date: { [Op.lt]: addDays(start, 7) } }, transaction });
+    const weekOne = await ScheduledSession.findOne({
+      where: { assignmentId: assignment.id, testProtocol: { [Op.ne]: null }, date: { [Op.lt]: addDays(start, 7) } },
+      transaction,
+    });
     if (!weekOne) {
       const test = defaultTestFor(plan.sport);
-      const session = await ScheduledSession.create({ athleteId: buyer.id, assignmentId: assignment.id, date: start, name: test.session!.name, sport: plan.sport === "multi" ? "bike" : plan.sport, testProtocol: test.key, plannedDurationS: test.session!.blocks.reduce((s, b) => s + ("durationS" in b ? b.durationS : 0), 0) }, { transaction });
-      const rows = resolveSteps(test.session!.blocks, { athleteId: buyer.id, date: start, sport: session.sport, history: await thresholdHistory(buyer.id, transaction) });
-      await ScheduledBlock.bulkCreate(rows.map((r) => ({ ...r, scheduledSessionId: session.id })), { transaction });
+      const session = await ScheduledSession.create(
+        {
+          athleteId: buyer.id,
+          assignmentId: assignment.id,
+          date: start,
+          name: test.session!.name,
+          sport: plan.sport === "multi" ? "bike" : plan.sport,
+          testProtocol: test.key,
+          plannedDurationS: test.session!.blocks.reduce((s, b) => s + ("durationS" in b ? b.durationS : 0), 0),
+        },
+        { transaction },
+      );
+      const rows = resolveSteps(test.session!.blocks, {
+        athleteId: buyer.id,
+        date: start,
+        sport: session.sport,
+        history: await thresholdHistory(buyer.id, transaction),
+      });
+      await ScheduledBlock.bulkCreate(
+        rows.map((r) => ({ ...r, scheduledSessionId: session.id })),
+        { transaction },
+      );
     }
-    testNote = "You have no threshold yet, so week 1 starts with a field test; after it, every target turns into your own numbers.";
+    testNote =
+      "You have no threshold yet, so week 1 starts with a field test; after it, every target turns into your own numbers.";
   }
   const sessions = await ScheduledSession.count({ where: { assignmentId: assignment.id }, transaction });
   await order.update({ assignmentId: assignment.id }, { transaction });
@@ -327,7 +464,17 @@ async function place(order: Order, transaction: Transaction): Promise<string[]> 
     {
       to: buyer.email,
       template: "receipt",
-      vars: { name: buyer.name, title: listing.title, coachName: coach?.name ?? "your coach", amount: formatPrice(order.paidCents ?? order.amountCents, order.paidCurrency ?? order.currency), orderId: `#${order.id}`, startDate: start, sessions, testNote, link: `${order.returnOrigin ?? env().appUrl}/athlete/calendar` },
+      vars: {
+        name: buyer.name,
+        title: listing.title,
+        coachName: coach?.name ?? "your coach",
+        amount: formatPrice(order.paidCents ?? order.amountCents, order.paidCurrency ?? order.currency),
+        orderId: `#${order.id}`,
+        startDate: start,
+        sessions,
+        testNote,
+        link: `${order.returnOrigin ?? env().appUrl}/athlete/calendar`,
+      },
     },
     transaction,
   );
@@ -341,8 +488,15 @@ async function unplace(order: Order, transaction: Transaction): Promise<string[]
   let removed = 0;
   if (order.assignmentId) {
     const today = todayIn(buyer.timezone);
-    const future = await ScheduledSession.findAll({ where: { assignmentId: order.assignmentId, status: "planned", date: { [Op.gte]: today } }, transaction });
-    for (const s of future) await s.update({ status: "cancelled", cancelledAt: new Date(), feedSequence: s.feedSequence + 1 }, { transaction });
+    const future = await ScheduledSession.findAll({
+      where: { assignmentId: order.assignmentId, status: "planned", date: { [Op.gte]: today } },
+      transaction,
+    });
+    for (const s of future)
+      await s.update(
+        { status: "cancelled", cancelledAt: new Date(), feedSequence: s.feedSequence + 1 },
+        { transaction },
+      );
     removed = future.length;
     // Detached from the plan, so a later "push changes" cannot bring the sessions back.
     await Assignment.update({ planId: null }, { where: { id: order.assignmentId }, transaction });
@@ -360,7 +514,9 @@ async function unplace(order: Order, transaction: Transaction): Promise<string[]
         coachName: coach?.name ?? "your coach",
         amount: formatPrice(order.refundedCents, order.paidCurrency ?? order.currency),
         orderId: `#${order.id}`,
-        removed: removed ? `${removed} upcoming session${removed === 1 ? " was" : "s were"} taken off your calendar.` : "No sessions of this order were on your calendar.",
+        removed: removed
+          ? `${removed} upcoming session${removed === 1 ? " was" : "s were"} taken off your calendar.`
+          : "No sessions of this order were on your calendar.",
         link: `${order.returnOrigin ?? env().appUrl}/athlete/calendar`,
       },
     },
@@ -376,16 +532,31 @@ async function tellSeller(order: Order, transaction: Transaction): Promise<strin
   const buyer = await User.findByPk(order.buyerId, { transaction });
   if (!coach || !listing) return [];
   await queueEmail(
-    { to: coach.email, template: "order-review", vars: { name: coach.name, title: listing.title, orderId: `#${order.id}`, buyer: buyer ? `${buyer.name} <${buyer.email}>` : "unknown", reason: order.reviewReason ?? "", link: `${env().appUrl}/coach/shop#needs-review` } },
+    {
+      to: coach.email,
+      template: "order-review",
+      vars: {
+        name: coach.name,
+        title: listing.title,
+        orderId: `#${order.id}`,
+        buyer: buyer ? `${buyer.name} <${buyer.email}>` : "unknown",
+        reason: order.reviewReason ?? "",
+        link: `${env().appUrl}/coach/shop#needs-review`,
+      },
+    },
     transaction,
   );
   return ["review-notice"];
 }
 
 async function ownedOrder(by: User, orderId: number, transaction?: Transaction) {
-  const order = Number.isInteger(orderId) && orderId > 0 ? await Order.findByPk(orderId, transaction ? locked(transaction) : {}) : null;
+  const order =
+    Number.isInteger(orderId) && orderId > 0
+      ? await Order.findByPk(orderId, transaction ? locked(transaction) : {})
+      : null;
   const listing = order ? await Listing.findByPk(order.listingId, { transaction }) : null;
-  if (!order || !listing || orderRole(by, order, listing) !== "seller") throw new DomainError("not_found", "No such order among your sales.");
+  if (!order || !listing || orderRole(by, order, listing) !== "seller")
+    throw new DomainError("not_found", "No such order among your sales.");
   return order;
 }
 
@@ -393,12 +564,17 @@ async function ownedOrder(by: User, orderId: number, transaction?: Transaction) 
  * A refund asked for by a person (the coach's button or a review's resolve). Refunding twice does nothing the
  * second time: the order is claimed first, and the provider call carries an idempotency key as well.
  */
-export async function refundByPerson(by: User, orderId: number): Promise<{ already: boolean; removed: number; inFlight?: boolean }> {
+export async function refundByPerson(
+  by: User,
+  orderId: number,
+): Promise<{ already: boolean; removed: number; inFlight?: boolean }> {
   const claim = await writeTransaction(async (transaction) => {
     const order = await ownedOrder(by, orderId, transaction);
     if (order.status === "refunded") return { already: true as const, order };
-    if (order.paidCents === null || !order.paymentIntentId) throw new DomainError("invalid", "There is no payment on record to refund.");
-    if (order.refundRequestedAt && Date.now() - order.refundRequestedAt.getTime() < 60_000) return { already: true as const, order, inFlight: true };
+    if (order.paidCents === null || !order.paymentIntentId)
+      throw new DomainError("invalid", "There is no payment on record to refund.");
+    if (order.refundRequestedAt && Date.now() - order.refundRequestedAt.getTime() < 60_000)
+      return { already: true as const, order, inFlight: true };
     const at = new Date();
     await order.update({ refundRequestedAt: at }, { transaction });
     return { already: false as const, order, at };
@@ -406,14 +582,25 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
   if (claim.already) return { already: true, removed: 0, inFlight: "inFlight" in claim };
   let refund;
   try {
-    refund = await payments().refunds.create({ payment_intent: claim.order.paymentIntentId!, metadata: { orderId: String(claim.order.id) } }, { idempotencyKey: `pacewright-order-${claim.order.id}-refund` });
+    refund = await payments().refunds.create(
+      { payment_intent: claim.order.paymentIntentId!, metadata: { orderId: String(claim.order.id) } },
+      { idempotencyKey: `pacewright-order-${claim.order.id}-refund` },
+    );
   } catch (err) {
     await Order.update({ refundRequestedAt: null }, { where: { id: claim.order.id } });
-    throw new DomainError("upstream", `The payment provider refused the refund: ${(err as Error).message}. Nothing changed.`);
+    throw new DomainError(
+      "upstream",
+      `The payment provider refused the refund: ${(err as Error).message}. Nothing changed.`,
+    );
   }
   const assignmentId = await writeTransaction(async (transaction) => {
     const order = (await Order.findByPk(claim.order.id, locked(transaction)))!;
-    const change = factsFrom(order, "refund.created", { id: refund.id, amount: refund.amount, status: refund.status ?? "succeeded" }, new Date());
+    const change = factsFrom(
+      order,
+      "refund.created",
+      { id: refund.id, amount: refund.amount, status: refund.status ?? "succeeded" },
+      new Date(),
+    );
     if (order.reviewReason) change.patch.reviewReason = null;
     await settle(order, change, transaction, `Refunded by ${by.name}.`);
     return order.assignmentId;
@@ -422,7 +609,11 @@ export async function refundByPerson(by: User, orderId: number): Promise<{ alrea
   // any job: if another instance took it first, it is already running there).
   await runOrderFollowUps({ orderId: claim.order.id });
   // Counted from the claim: the provider's own refund event may have removed them a moment earlier.
-  const removed = assignmentId ? await ScheduledSession.count({ where: { assignmentId, status: "cancelled", cancelledAt: { [Op.gte]: claim.at } } }) : 0;
+  const removed = assignmentId
+    ? await ScheduledSession.count({
+        where: { assignmentId, status: "cancelled", cancelledAt: { [Op.gte]: claim.at } },
+      })
+    : 0;
   return { already: false, removed };
 }
 
@@ -433,11 +624,26 @@ export async function resolveReview(by: User, orderId: number, action: "deliver"
     if (order.status !== "needs_review") throw new DomainError("invalid", "This order is not waiting for review.");
     const reason = order.reviewReason ?? "";
     if (action === "deliver") {
-      if (order.paidCents === null) throw new DomainError("invalid", "Nothing was paid for this order, so there is nothing to deliver. Close it instead.");
-      return settle(order, { patch: { reviewReason: null }, outcome: "delivered" }, transaction, `Delivered by ${by.name} after review: ${reason}`);
+      if (order.paidCents === null)
+        throw new DomainError(
+          "invalid",
+          "Nothing was paid for this order, so there is nothing to deliver. Close it instead.",
+        );
+      return settle(
+        order,
+        { patch: { reviewReason: null }, outcome: "delivered" },
+        transaction,
+        `Delivered by ${by.name} after review: ${reason}`,
+      );
     }
-    if (order.paidCents !== null && order.refundedCents < order.paidCents) throw new DomainError("invalid", "Money was paid for this order: deliver the plan or refund it.");
-    return settle(order, { patch: { reviewReason: null, expiredAt: order.expiredAt ?? new Date() }, outcome: "closed" }, transaction, `Closed by ${by.name} after review: ${reason}`);
+    if (order.paidCents !== null && order.refundedCents < order.paidCents)
+      throw new DomainError("invalid", "Money was paid for this order: deliver the plan or refund it.");
+    return settle(
+      order,
+      { patch: { reviewReason: null, expiredAt: order.expiredAt ?? new Date() }, outcome: "closed" },
+      transaction,
+      `Closed by ${by.name} after review: ${reason}`,
+    );
   });
   // Delivering places the plan at once, as the coach expects to see it; the job is claimed like any other.
   await runOrderFollowUps({ orderId });
@@ -446,16 +652,45 @@ export async function resolveReview(by: User, orderId: number, action: "deliver"
 
 /** Money events the provider sent that match no order at all: only an admin can chase them. */
 export async function unmatchedEvents() {
-  const rows = await PaymentEvent.findAll({ where: { orderId: null, outcome: "no-order", type: ["checkout.session.completed", "checkout.session.async_payment_succeeded", "payment_intent.succeeded", "charge.refunded", "refund.created", "refund.updated", "charge.dispute.created"] }, order: [["createdAt", "DESC"]], limit: 50 });
+  const rows = await PaymentEvent.findAll({
+    where: {
+      orderId: null,
+      outcome: "no-order",
+      type: [
+        "checkout.session.completed",
+        "checkout.session.async_payment_succeeded",
+        "payment_intent.succeeded",
+        "charge.refunded",
+        "refund.created",
+        "refund.updated",
+        "charge.dispute.created",
+      ],
+    },
+    order: [["createdAt", "DESC"]],
+    limit: 50,
+  });
   return rows.map((r) => {
     let summary = "";
     try {
       const o = (JSON.parse(r.payload) as { data: { object: Obj } }).data.object;
-      summary = [o.id, idOf(o.payment_intent), o.amount_total ?? o.amount_refunded ?? o.amount_received ?? o.amount, o.currency].filter((x) => x !== undefined && x !== null).join(" · ");
+      summary = [
+        o.id,
+        idOf(o.payment_intent),
+        o.amount_total ?? o.amount_refunded ?? o.amount_received ?? o.amount,
+        o.currency,
+      ]
+        .filter((x) => x !== undefined && x !== null)
+        .join(" · ");
     } catch {
       summary = "unreadable payload";
     }
-    return { id: r.id, providerEventId: r.providerEventId, type: r.type, summary, at: r.createdAt.toISOString().slice(0, 16).replace("T", " ") };
+    return {
+      id: r.id,
+      providerEventId: r.providerEventId,
+      type: r.type,
+      summary,
+      at: r.createdAt.toISOString().slice(0, 16).replace("T", " "),
+    };
   });
 }
 
@@ -463,8 +698,17 @@ export async function unmatchedEvents() {
 export async function reviewQueue(user: User) {
   const listings = await Listing.findAll({ where: user.role === "admin" ? {} : { coachId: user.id } });
   if (!listings.length) return [];
-  const orders = await Order.findAll({ where: { listingId: listings.map((l) => l.id), status: "needs_review" }, order: [["updatedAt", "ASC"]] });
-  const people = new Map((await User.findAll({ where: { id: [...new Set([...orders.map((o) => o.buyerId), ...listings.map((l) => l.coachId)])] } })).map((u) => [u.id, u]));
+  const orders = await Order.findAll({
+    where: { listingId: listings.map((l) => l.id), status: "needs_review" },
+    order: [["updatedAt", "ASC"]],
+  });
+  const people = new Map(
+    (
+      await User.findAll({
+        where: { id: [...new Set([...orders.map((o) => o.buyerId), ...listings.map((l) => l.coachId)])] },
+      })
+    ).map((u) => [u.id, u]),
+  );
   const byId = new Map(listings.map((l) => [l.id, l]));
   return orders.map((o) => {
     const l = byId.get(o.listingId)!;

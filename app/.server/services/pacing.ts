@@ -53,7 +53,10 @@ export function splitOf(session: Pick<ScheduledSession, "pacingSplit">): { split
  * ramp test was saved in the session's week or the week before, whose result is fresher. Two queries in all, so the
  * calendar feed can call it for every test it holds.
  */
-export async function pacingPlansFor(sessions: readonly TestSession[], opts: { lap?: { lengthM?: number | null; lapTimeS?: number | null } | null; systemKg?: number | null } = {}) {
+export async function pacingPlansFor(
+  sessions: readonly TestSession[],
+  opts: { lap?: { lengthM?: number | null; lapTimeS?: number | null } | null; systemKg?: number | null } = {},
+) {
   const out = new Map<number, PacingView>();
   const tests = sessions.filter((s) => isPacedProtocol(s.testProtocol));
   if (!tests.length) return out;
@@ -65,26 +68,58 @@ export async function pacingPlansFor(sessions: readonly TestSession[], opts: { l
   const fromBlocks = new Map(rows.map((r) => [Number(r.sid), r.w === null ? null : Number(r.w)]));
   const earliest = tests.reduce((m, s) => (s.date < m ? s.date : m), tests[0].date);
   const ramps = await FieldTest.findAll({
-    where: { athleteId: [...new Set(tests.map((s) => s.athleteId))], protocol: "ramp", sport: "bike", status: "active", testedOn: { [Op.gte]: addDays(mondayOf(earliest), -7) } },
-    order: [["testedOn", "ASC"], ["id", "ASC"]],
+    where: {
+      athleteId: [...new Set(tests.map((s) => s.athleteId))],
+      protocol: "ramp",
+      sport: "bike",
+      status: "active",
+      testedOn: { [Op.gte]: addDays(mondayOf(earliest), -7) },
+    },
+    order: [
+      ["testedOn", "ASC"],
+      ["id", "ASC"],
+    ],
   });
   for (const s of tests) {
     const { split, custom } = splitOf(s);
     const from = addDays(mondayOf(s.date), -7);
     // The ramp session's own plan cannot come from the ramp it is.
-    const ramp = s.testProtocol === "ramp" ? undefined : ramps.filter((r) => r.athleteId === s.athleteId && r.testedOn >= from && r.testedOn <= s.date).at(-1);
+    const ramp =
+      s.testProtocol === "ramp"
+        ? undefined
+        : ramps.filter((r) => r.athleteId === s.athleteId && r.testedOn >= from && r.testedOn <= s.date).at(-1);
     const blockW = fromBlocks.get(s.id) ?? null;
-    const basis: PacingBasis | null = ramp ? { thresholdW: ramp.value, source: "ramp", rampTestedOn: ramp.testedOn } : blockW ? { thresholdW: blockW, source: "threshold", rampTestedOn: null } : null;
+    const basis: PacingBasis | null = ramp
+      ? { thresholdW: ramp.value, source: "ramp", rampTestedOn: ramp.testedOn }
+      : blockW
+        ? { thresholdW: blockW, source: "threshold", rampTestedOn: null }
+        : null;
     if (!basis) {
-      out.set(s.id, { plan: null, basis: null, split, customSplit: custom, problem: "A pacing plan needs a power threshold: save a field test first." });
+      out.set(s.id, {
+        plan: null,
+        basis: null,
+        split,
+        customSplit: custom,
+        problem: "A pacing plan needs a power threshold: save a field test first.",
+      });
       continue;
     }
     try {
-      const plan = pacingPlan({ protocol: s.testProtocol as PacingPlan["protocol"], thresholdW: basis.thresholdW, split, lap: opts.lap, systemKg: opts.systemKg });
+      const plan = pacingPlan({
+        protocol: s.testProtocol as PacingPlan["protocol"],
+        thresholdW: basis.thresholdW,
+        split,
+        lap: opts.lap,
+        systemKg: opts.systemKg,
+      });
       out.set(s.id, { plan, basis, split, customSplit: custom, problem: null });
     } catch (err) {
       if (!(err instanceof TrainingInputError)) throw err;
-      const plain = pacingPlan({ protocol: s.testProtocol as PacingPlan["protocol"], thresholdW: basis.thresholdW, split });
+      const plain = pacingPlan({
+        protocol: s.testProtocol as PacingPlan["protocol"],
+        thresholdW: basis.thresholdW,
+        split,
+      });
       out.set(s.id, { plan: plain, basis, split, customSplit: custom, problem: err.message });
     }
   }
@@ -101,7 +136,10 @@ export function pacingText(view: PacingView | undefined): string | null {
     p.protocol === "ramp"
       ? `PACING PLAN: expected best minute ${p.expectedW} W; steps to about ${p.ramp!.expectedLastStepW} W (${Math.round(p.ramp!.expectedDurationS / 60)} min).`
       : `PACING PLAN: expected ${p.expectedW} W for ${p.windowS / 60} minutes (from a threshold of ${Math.round(p.thresholdW)} W).`;
-  const lines = p.segments.map((s) => `${clock(s.startS)}–${clock(s.startS + s.durationS)}: ${s.targetW} W${p.protocol === "ramp" ? "" : ` (${s.pct} %)`}, effort ${s.effortScore} — ${s.cue}`);
+  const lines = p.segments.map(
+    (s) =>
+      `${clock(s.startS)}–${clock(s.startS + s.durationS)}: ${s.targetW} W${p.protocol === "ramp" ? "" : ` (${s.pct} %)`}, effort ${s.effortScore} — ${s.cue}`,
+  );
   return [head, ...lines].join("\n");
 }
 
@@ -111,12 +149,18 @@ const splitSchema = z.object({ split: z.array(z.coerce.number()).min(1) });
  * A coach sets a test's split (or `reset` for the default). The feed sequence moves on so subscribed calendars
  * show the new targets. Only planned paced tests of this athlete; anything else is 404 or a clear 400.
  */
-export async function savePacingSplit(athleteId: number, sessionId: number, input: { split?: unknown; reset?: boolean }) {
+export async function savePacingSplit(
+  athleteId: number,
+  sessionId: number,
+  input: { split?: unknown; reset?: boolean },
+) {
   return writeTransaction(async (transaction) => {
     const session = await ScheduledSession.findOne({ where: { id: sessionId, athleteId }, transaction });
     if (!session) throw new DomainError("not_found", "No session with this id is on this calendar.");
-    if (!isPacedProtocol(session.testProtocol)) throw new DomainError("invalid", "Only 20-minute and 8-minute tests have a split to edit.");
-    if (session.testProtocol === "ramp") throw new DomainError("invalid", "A ramp is paced by its steps; it has no split to edit.");
+    if (!isPacedProtocol(session.testProtocol))
+      throw new DomainError("invalid", "Only 20-minute and 8-minute tests have a split to edit.");
+    if (session.testProtocol === "ramp")
+      throw new DomainError("invalid", "A ramp is paced by its steps; it has no split to edit.");
     let value: string | null = null;
     if (!input.reset) {
       const parsed = splitSchema.safeParse({ split: input.split });
@@ -139,7 +183,11 @@ export interface PacingOutcome extends PlanComparison {
  * After the test: the best effort of the test's length in the attached file (where the test was ridden), cut into
  * the plan's segments and laid against it. Null when there is no file, no power, or the file is too short.
  */
-export async function pacingOutcome(athlete: User, session: Pick<ScheduledSession, "uploadId" | "testProtocol">, plan: PacingPlan | null): Promise<PacingOutcome | null> {
+export async function pacingOutcome(
+  athlete: User,
+  session: Pick<ScheduledSession, "uploadId" | "testProtocol">,
+  plan: PacingPlan | null,
+): Promise<PacingOutcome | null> {
   if (!plan || plan.protocol === "ramp" || !session.uploadId) return null;
   const upload = await Upload.findOne({ where: { id: session.uploadId, athleteId: athlete.id } });
   if (!upload) return null;

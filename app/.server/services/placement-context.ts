@@ -24,8 +24,16 @@ export async function placementContext(athleteId: number, planId: number, today:
     }
   }
   const assignments = spans.size ? await Assignment.findAll({ where: { id: [...spans.keys()] } }) : [];
-  const plans = new Map((await SeasonPlan.findAll({ where: { id: [...new Set(assignments.map((a) => a.planId).filter((id): id is number => id !== null))] } })).map((p) => [p.id, p.name]));
-  const current: PlanSpan[] = assignments.map((a) => ({ name: (a.planId && plans.get(a.planId)) || "a plan on your calendar", ...spans.get(a.id)! })).sort((a, b) => a.from.localeCompare(b.from));
+  const plans = new Map(
+    (
+      await SeasonPlan.findAll({
+        where: { id: [...new Set(assignments.map((a) => a.planId).filter((id): id is number => id !== null))] },
+      })
+    ).map((p) => [p.id, p.name]),
+  );
+  const current: PlanSpan[] = assignments
+    .map((a) => ({ name: (a.planId && plans.get(a.planId)) || "a plan on your calendar", ...spans.get(a.id)! }))
+    .sort((a, b) => a.from.localeCompare(b.from));
 
   const items = await PlanItem.findAll({ where: { planId }, attributes: ["sport", "blocks"] });
   const have = new Set((await Threshold.findAll({ where: { athleteId }, attributes: ["sport"] })).map((t) => t.sport));

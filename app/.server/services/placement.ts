@@ -24,22 +24,43 @@ export interface PlacementReport {
   /** Days with two or more maximal tests if the plan is placed alongside (after a replace, only days before it). */
   testDays: { date: string; names: string[] }[];
 }
-export type PlacementChoice = { overlap?: "replace" | "alongside"; replaceFrom?: string; confirmSports?: boolean; confirmTests?: boolean };
+export type PlacementChoice = {
+  overlap?: "replace" | "alongside";
+  replaceFrom?: string;
+  confirmSports?: boolean;
+  confirmTests?: boolean;
+};
 
-export const needsChoice = (r: PlacementReport) => r.sportsWithoutThreshold.length > 0 || r.overlap !== null || r.testDays.length > 0;
+export const needsChoice = (r: PlacementReport) =>
+  r.sportsWithoutThreshold.length > 0 || r.overlap !== null || r.testDays.length > 0;
 
 async function planned(athleteId: number, from: string, to: string, transaction?: Transaction) {
-  return ScheduledSession.findAll({ where: { athleteId, status: "planned", date: { [Op.between]: [from, to] } }, order: [["date", "ASC"]], transaction });
+  return ScheduledSession.findAll({
+    where: { athleteId, status: "planned", date: { [Op.between]: [from, to] } },
+    order: [["date", "ASC"]],
+    transaction,
+  });
 }
 
 /** Maximal tests per day: every field-test session counts, since each protocol is an all-out effort. */
-function testClashes(entries: PlacementEntry[], existing: { date: string; name: string; testProtocol: string | null }[]) {
+function testClashes(
+  entries: PlacementEntry[],
+  existing: { date: string; name: string; testProtocol: string | null }[],
+) {
   const byDay = new Map<string, string[]>();
-  for (const e of [...existing, ...entries]) if (e.testProtocol) byDay.set(e.date, [...(byDay.get(e.date) ?? []), e.name]);
-  return [...byDay].filter(([, names]) => names.length > 1).map(([date, names]) => ({ date, names })).sort((a, b) => a.date.localeCompare(b.date));
+  for (const e of [...existing, ...entries])
+    if (e.testProtocol) byDay.set(e.date, [...(byDay.get(e.date) ?? []), e.name]);
+  return [...byDay]
+    .filter(([, names]) => names.length > 1)
+    .map(([date, names]) => ({ date, names }))
+    .sort((a, b) => a.date.localeCompare(b.date));
 }
 
-export async function checkPlacement(athleteId: number, entries: PlacementEntry[], opts: { replaceFrom?: string; transaction?: Transaction } = {}): Promise<PlacementReport> {
+export async function checkPlacement(
+  athleteId: number,
+  entries: PlacementEntry[],
+  opts: { replaceFrom?: string; transaction?: Transaction } = {},
+): Promise<PlacementReport> {
   const { transaction } = opts;
   const report: PlacementReport = { athleteId, sportsWithoutThreshold: [], overlap: null, testDays: [] };
   if (entries.length === 0) return report;
@@ -47,16 +68,33 @@ export async function checkPlacement(athleteId: number, entries: PlacementEntry[
   const from = dates[0];
   const to = dates.at(-1)!;
 
-  const have = new Set((await Threshold.findAll({ where: { athleteId }, attributes: ["sport"], transaction })).map((t) => t.sport));
-  const needed = new Set(entries.map((e) => thresholdSport(e.sport)).filter((s): s is NonNullable<typeof s> => s !== null));
+  const have = new Set(
+    (await Threshold.findAll({ where: { athleteId }, attributes: ["sport"], transaction })).map((t) => t.sport),
+  );
+  const needed = new Set(
+    entries.map((e) => thresholdSport(e.sport)).filter((s): s is NonNullable<typeof s> => s !== null),
+  );
   report.sportsWithoutThreshold = [...needed].filter((s) => !have.has(s)).sort();
 
   const existing = await planned(athleteId, from, to, transaction);
   if (existing.length) {
     const assignmentIds = [...new Set(existing.map((s) => s.assignmentId).filter((id): id is number => id != null))];
-    const assignments = assignmentIds.length ? await Assignment.findAll({ where: { id: assignmentIds }, transaction }) : [];
-    const plans = assignments.length ? await SeasonPlan.findAll({ where: { id: [...new Set(assignments.map((a) => a.planId as number))] }, attributes: ["id", "name"], transaction }) : [];
-    report.overlap = { from: existing[0].date, to: existing.at(-1)!.date, sessions: existing.length, plans: plans.map((p) => p.name).sort() };
+    const assignments = assignmentIds.length
+      ? await Assignment.findAll({ where: { id: assignmentIds }, transaction })
+      : [];
+    const plans = assignments.length
+      ? await SeasonPlan.findAll({
+          where: { id: [...new Set(assignments.map((a) => a.planId as number))] },
+          attributes: ["id", "name"],
+          transaction,
+        })
+      : [];
+    report.overlap = {
+      from: existing[0].date,
+      to: existing.at(-1)!.date,
+      sessions: existing.length,
+      plans: plans.map((p) => p.name).sort(),
+    };
   }
   const kept = opts.replaceFrom ? existing.filter((s) => s.date < opts.replaceFrom!) : existing;
   report.testDays = testClashes(entries, kept);
@@ -68,15 +106,37 @@ export async function checkPlacement(athleteId: number, entries: PlacementEntry[
  * (done and skipped sessions stay; the feed sees the cancellation through a higher sequence). Throws when the
  * report needs an answer that was not given, so a stale form never writes past a new conflict.
  */
-export async function applyPlacementChoice(athleteId: number, entries: PlacementEntry[], choice: PlacementChoice, transaction: Transaction): Promise<{ cancelled: number }> {
-  const replaceFrom = choice.overlap === "replace" ? (choice.replaceFrom ?? entries.map((e) => e.date).sort()[0]) : undefined;
+export async function applyPlacementChoice(
+  athleteId: number,
+  entries: PlacementEntry[],
+  choice: PlacementChoice,
+  transaction: Transaction,
+): Promise<{ cancelled: number }> {
+  const replaceFrom =
+    choice.overlap === "replace" ? (choice.replaceFrom ?? entries.map((e) => e.date).sort()[0]) : undefined;
   const report = await checkPlacement(athleteId, entries, { replaceFrom, transaction });
-  if (report.sportsWithoutThreshold.length && !choice.confirmSports) throw new DomainError("confirm_needed", `No threshold yet for ${report.sportsWithoutThreshold.join(", ")}: confirm to place the plan anyway.`);
-  if (report.overlap && !choice.overlap) throw new DomainError("confirm_needed", "Sessions are already planned in these weeks: choose to replace them from a date or to place the plan alongside.");
-  if (report.testDays.length && !choice.confirmTests) throw new DomainError("confirm_needed", `Two maximal tests would fall on ${report.testDays.map((d) => d.date).join(", ")}: confirm, or replace the sessions already there.`);
+  if (report.sportsWithoutThreshold.length && !choice.confirmSports)
+    throw new DomainError(
+      "confirm_needed",
+      `No threshold yet for ${report.sportsWithoutThreshold.join(", ")}: confirm to place the plan anyway.`,
+    );
+  if (report.overlap && !choice.overlap)
+    throw new DomainError(
+      "confirm_needed",
+      "Sessions are already planned in these weeks: choose to replace them from a date or to place the plan alongside.",
+    );
+  if (report.testDays.length && !choice.confirmTests)
+    throw new DomainError(
+      "confirm_needed",
+      `Two maximal tests would fall on ${report.testDays.map((d) => d.date).join(", ")}: confirm, or replace the sessions already there.`,
+    );
   if (!replaceFrom || !report.overlap) return { cancelled: 0 };
-  const last = entries.map((e) => e.date).sort().at(-1)!;
+  const last = entries
+    .map((e) => e.date)
+    .sort()
+    .at(-1)!;
   const doomed = await planned(athleteId, replaceFrom, last, transaction);
-  for (const s of doomed) await s.update({ status: "cancelled", cancelledAt: new Date(), feedSequence: s.feedSequence + 1 }, { transaction });
+  for (const s of doomed)
+    await s.update({ status: "cancelled", cancelledAt: new Date(), feedSequence: s.feedSequence + 1 }, { transaction });
   return { cancelled: doomed.length };
 }

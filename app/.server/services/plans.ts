@@ -40,7 +40,15 @@ export async function createPlan(ownerId: number, input: NewPlanInput): Promise<
       { transaction },
     );
     const weeks = await PlanWeek.bulkCreate(
-      skeleton.weeks.map((w) => ({ planId: plan.id, idx: w.index, phase: w.phase, recovery: w.recovery, test: w.test, loadFactor: w.loadFactor, plannedHours: w.hours })),
+      skeleton.weeks.map((w) => ({
+        planId: plan.id,
+        idx: w.index,
+        phase: w.phase,
+        recovery: w.recovery,
+        test: w.test,
+        loadFactor: w.loadFactor,
+        plannedHours: w.hours,
+      })),
       { transaction },
     );
     const testWeeks = weeks.filter((w) => w.test);
@@ -66,7 +74,14 @@ export async function createPlan(ownerId: number, input: NewPlanInput): Promise<
 export async function requirePlan(ownerId: number, planId: number, transaction?: Transaction): Promise<SeasonPlan> {
   // Inside a write the plan row is locked (PostgreSQL; SQLite has one writer anyway), so concurrent changes to one
   // plan queue on the database, whichever instance they arrive at.
-  const plan = Number.isInteger(planId) && planId > 0 ? await SeasonPlan.findOne({ where: { id: planId, ownerId }, transaction, lock: transaction ? transaction.LOCK.UPDATE : undefined }) : null;
+  const plan =
+    Number.isInteger(planId) && planId > 0
+      ? await SeasonPlan.findOne({
+          where: { id: planId, ownerId },
+          transaction,
+          lock: transaction ? transaction.LOCK.UPDATE : undefined,
+        })
+      : null;
   if (!plan) throw new DomainError("not_found", "No plan with this id is yours.");
   return plan;
 }
@@ -93,7 +108,13 @@ export async function loadPlan(ownerId: number, planId: number) {
   const plan = await requirePlan(ownerId, planId);
   const [weeks, items, recurrences] = await Promise.all([
     PlanWeek.findAll({ where: { planId }, order: [["idx", "ASC"]] }),
-    PlanItem.findAll({ where: { planId }, order: [["day", "ASC"], ["position", "ASC"]] }),
+    PlanItem.findAll({
+      where: { planId },
+      order: [
+        ["day", "ASC"],
+        ["position", "ASC"],
+      ],
+    }),
     PlanRecurrence.findAll({ where: { planId }, order: [["id", "ASC"]] }),
   ]);
   return {
@@ -110,9 +131,23 @@ export async function loadPlan(ownerId: number, planId: number) {
       testEveryWeeks: plan.testEveryWeeks,
       version: plan.version,
     },
-    weeks: weeks.map((w) => ({ id: w.id, idx: w.idx, phase: w.phase, recovery: w.recovery, test: w.test, loadFactor: w.loadFactor, plannedHours: w.plannedHours, notes: w.notes })),
+    weeks: weeks.map((w) => ({
+      id: w.id,
+      idx: w.idx,
+      phase: w.phase,
+      recovery: w.recovery,
+      test: w.test,
+      loadFactor: w.loadFactor,
+      plannedHours: w.plannedHours,
+      notes: w.notes,
+    })),
     items: items.map(itemView),
-    recurrences: recurrences.map((r) => ({ id: r.id, summary: r.summary, rule: r.rule, count: items.filter((i) => i.recurrenceId === r.id).length })),
+    recurrences: recurrences.map((r) => ({
+      id: r.id,
+      summary: r.summary,
+      rule: r.rule,
+      count: items.filter((i) => i.recurrenceId === r.id).length,
+    })),
   };
 }
 
@@ -137,7 +172,19 @@ export function itemView(i: PlanItem): PlanItemView {
 }
 
 export async function listPlans(ownerId: number) {
-  return db().query<{ id: number; name: string; sport: string; start_date: string | null; event_date: string | null; weeks: number; sessions: number; phases: string | null; athletes: number; listed: number; updated_at: string }>(
+  return db().query<{
+    id: number;
+    name: string;
+    sport: string;
+    start_date: string | null;
+    event_date: string | null;
+    weeks: number;
+    sessions: number;
+    phases: string | null;
+    athletes: number;
+    listed: number;
+    updated_at: string;
+  }>(
     `SELECT p.id, p.name, p.sport, p.start_date, p.event_date, p.updated_at,
             (SELECT COUNT(*) FROM plan_weeks w WHERE w.plan_id = p.id) AS weeks,
             (SELECT COUNT(*) FROM plan_items i WHERE i.plan_id = p.id) AS sessions,
@@ -155,15 +202,31 @@ async function tableExists(name: string) {
 
 /** Every change to a plan's weeks or items moves its version on; the board sends the version it was drawn from. */
 export async function bumpVersion(planId: number, transaction: Transaction) {
-  await SeasonPlan.update({ version: literal("version + 1") as unknown as number }, { where: { id: planId }, transaction });
+  await SeasonPlan.update(
+    { version: literal("version + 1") as unknown as number },
+    { where: { id: planId }, transaction },
+  );
 }
 
-export async function updateWeek(ownerId: number, planId: number, input: { weekId: number; phase: string; recovery: boolean; test: boolean; plannedHours: number; notes: string }) {
+export async function updateWeek(
+  ownerId: number,
+  planId: number,
+  input: { weekId: number; phase: string; recovery: boolean; test: boolean; plannedHours: number; notes: string },
+) {
   return writeTransaction(async (transaction) => {
     await requirePlan(ownerId, planId, transaction);
     const week = await PlanWeek.findOne({ where: { id: input.weekId, planId }, transaction });
     if (!week) throw new DomainError("not_found", "That week is not part of this plan.");
-    await week.update({ phase: input.phase, recovery: input.recovery, test: input.test, plannedHours: input.plannedHours, notes: input.notes }, { transaction });
+    await week.update(
+      {
+        phase: input.phase,
+        recovery: input.recovery,
+        test: input.test,
+        plannedHours: input.plannedHours,
+        notes: input.notes,
+      },
+      { transaction },
+    );
     await bumpVersion(planId, transaction);
     return week;
   });
@@ -184,12 +247,20 @@ export async function updateWeeks(ownerId: number, planId: number, edits: WeekEd
   return writeTransaction(async (transaction) => {
     await requirePlan(ownerId, planId, transaction);
     const weeks = await PlanWeek.findAll({ where: { planId, id: edits.map((e) => e.weekId) }, transaction });
-    if (weeks.length !== new Set(edits.map((e) => e.weekId)).size) throw new DomainError("not_found", "That week is not part of this plan.");
+    if (weeks.length !== new Set(edits.map((e) => e.weekId)).size)
+      throw new DomainError("not_found", "That week is not part of this plan.");
     const byId = new Map(weeks.map((w) => [w.id, w]));
     let changed = 0;
     for (const e of edits) {
       const w = byId.get(e.weekId)!;
-      const next = { phase: e.phase, recovery: e.recovery, test: e.test, plannedHours: e.plannedHours, loadFactor: e.loadFactor ?? w.loadFactor, notes: e.notes };
+      const next = {
+        phase: e.phase,
+        recovery: e.recovery,
+        test: e.test,
+        plannedHours: e.plannedHours,
+        loadFactor: e.loadFactor ?? w.loadFactor,
+        notes: e.notes,
+      };
       if (Object.entries(next).every(([k, v]) => w.get(k as keyof typeof next) === v)) continue;
       await w.update(next, { transaction });
       changed++;
@@ -200,26 +271,45 @@ export async function updateWeeks(ownerId: number, planId: number, edits: WeekEd
 }
 
 /** Sets phase, hours and load factor (each optional) on a run of weeks: one change for many weeks. */
-export async function editWeekRange(ownerId: number, planId: number, input: { fromWeek: number; toWeek: number; phase?: string; plannedHours?: number; loadFactor?: number }) {
+export async function editWeekRange(
+  ownerId: number,
+  planId: number,
+  input: { fromWeek: number; toWeek: number; phase?: string; plannedHours?: number; loadFactor?: number },
+) {
   return writeTransaction(async (transaction) => {
     await requirePlan(ownerId, planId, transaction);
     const count = await PlanWeek.count({ where: { planId }, transaction });
     if (input.toWeek > count) throw new DomainError("invalid", `This plan has ${count} weeks.`, { field: "toWeek" });
-    const set = { ...(input.phase ? { phase: input.phase } : {}), ...(input.plannedHours !== undefined ? { plannedHours: input.plannedHours } : {}), ...(input.loadFactor !== undefined ? { loadFactor: input.loadFactor } : {}) };
-    if (Object.keys(set).length === 0) throw new DomainError("invalid", "Choose at least one thing to change.", { field: "phase" });
-    const [n] = await PlanWeek.update(set, { where: { planId, idx: { [Op.between]: [input.fromWeek, input.toWeek] } }, transaction });
+    const set = {
+      ...(input.phase ? { phase: input.phase } : {}),
+      ...(input.plannedHours !== undefined ? { plannedHours: input.plannedHours } : {}),
+      ...(input.loadFactor !== undefined ? { loadFactor: input.loadFactor } : {}),
+    };
+    if (Object.keys(set).length === 0)
+      throw new DomainError("invalid", "Choose at least one thing to change.", { field: "phase" });
+    const [n] = await PlanWeek.update(set, {
+      where: { planId, idx: { [Op.between]: [input.fromWeek, input.toWeek] } },
+      transaction,
+    });
     await bumpVersion(planId, transaction);
     return n;
   });
 }
 
 /** Sets one phase on a run of weeks: how a coach makes a phase longer or shorter. */
-export async function setPhaseRange(ownerId: number, planId: number, input: { phase: string; fromWeek: number; toWeek: number }) {
+export async function setPhaseRange(
+  ownerId: number,
+  planId: number,
+  input: { phase: string; fromWeek: number; toWeek: number },
+) {
   return writeTransaction(async (transaction) => {
     await requirePlan(ownerId, planId, transaction);
     const count = await PlanWeek.count({ where: { planId }, transaction });
     if (input.toWeek > count) throw new DomainError("invalid", `This plan has ${count} weeks.`, { field: "toWeek" });
-    const [n] = await PlanWeek.update({ phase: input.phase }, { where: { planId, idx: { [Op.between]: [input.fromWeek, input.toWeek] } }, transaction });
+    const [n] = await PlanWeek.update(
+      { phase: input.phase },
+      { where: { planId, idx: { [Op.between]: [input.fromWeek, input.toWeek] } }, transaction },
+    );
     await bumpVersion(planId, transaction);
     return n;
   });
@@ -240,31 +330,48 @@ const UNALIGNED_ANCHOR = "2001-01-01";
  * first week's Monday until the last week's Sunday). Every occurrence becomes its own plan item, so each stays
  * editable; the rule is kept to show it in words.
  */
-export async function addRecurrence(ownerId: number, planId: number, input: { sessionId: number; days: number[]; fromWeek: number; toWeek: number; timeOfDay?: string }) {
+export async function addRecurrence(
+  ownerId: number,
+  planId: number,
+  input: { sessionId: number; days: number[]; fromWeek: number; toWeek: number; timeOfDay?: string },
+) {
   const found = await getSession(ownerId, input.sessionId);
   if (!found) throw new DomainError("not_found", "That session is not on your shelf.", { field: "sessionId" });
   return writeTransaction(async (transaction) => {
     const plan = await requirePlan(ownerId, planId, transaction);
     const weeks = await PlanWeek.findAll({ where: { planId }, order: [["idx", "ASC"]], transaction });
-    if (input.toWeek > weeks.length) throw new DomainError("invalid", `This plan has ${weeks.length} weeks.`, { field: "toWeek" });
+    if (input.toWeek > weeks.length)
+      throw new DomainError("invalid", `This plan has ${weeks.length} weeks.`, { field: "toWeek" });
     const anchor = plan.startDate ?? UNALIGNED_ANCHOR;
     // rrule works in UTC instants; the plan's calendar days are midnight UTC of each date.
     const dtstart = new Date(toMs(addWeeks(anchor, input.fromWeek - 1)));
     const until = new Date(toMs(addDays(anchor, input.toWeek * 7 - 1)) + 86_399_000);
     const byday = [RRule.MO, RRule.TU, RRule.WE, RRule.TH, RRule.FR, RRule.SA, RRule.SU];
-    const rule = new RRule({ freq: RRule.WEEKLY, dtstart, until, byweekday: [...new Set(input.days)].sort().map((d) => byday[d]), wkst: RRule.MO });
+    const rule = new RRule({
+      freq: RRule.WEEKLY,
+      dtstart,
+      until,
+      byweekday: [...new Set(input.days)].sort().map((d) => byday[d]),
+      wkst: RRule.MO,
+    });
     const occurrences = rule.all().map((d) => {
       const days = daysBetween(anchor, fromMs(d.getTime()));
       return { weekIdx: Math.floor(days / 7) + 1, day: days % 7 };
     });
     const recurrence = await PlanRecurrence.create(
-      { planId, sourceSessionId: input.sessionId, rule: rule.toString().split("\n").pop()!, summary: recurrenceSummary(input.days, input.fromWeek, input.toWeek) },
+      {
+        planId,
+        sourceSessionId: input.sessionId,
+        rule: rule.toString().split("\n").pop()!,
+        summary: recurrenceSummary(input.days, input.fromWeek, input.toWeek),
+      },
       { transaction },
     );
     const byIdx = new Map(weeks.map((w) => [w.idx, w]));
     for (const occ of occurrences) {
       const week = byIdx.get(occ.weekIdx)!;
-      const last = (await PlanItem.max("position", { where: { weekId: week.id, day: occ.day }, transaction })) as number | null;
+      const last = (await PlanItem.max("position", { where: { weekId: week.id, day: occ.day }, transaction })) as
+        number | null;
       await PlanItem.create(
         {
           planId,
@@ -293,4 +400,3 @@ export async function deletePlan(ownerId: number, planId: number) {
     await plan.destroy({ transaction });
   });
 }
-

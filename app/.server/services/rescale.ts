@@ -30,7 +30,13 @@ const RESOLVE = (col: "low_pct" | "high_pct", table = "") => {
   return `CASE WHEN ${table}metric = 'pace' THEN CAST(ROUND(:value / (${table}${col} / 100.0)) AS INTEGER) ELSE CAST(ROUND(${table}${col} * :value / 100.0) AS INTEGER) END`;
 };
 
-async function nextThresholdAfter(athleteId: number, sport: string, metric: string, from: string, transaction: Transaction) {
+async function nextThresholdAfter(
+  athleteId: number,
+  sport: string,
+  metric: string,
+  from: string,
+  transaction: Transaction,
+) {
   const [row] = await db().query<{ d: string | null }>(
     "SELECT MIN(effective_from) AS d FROM thresholds WHERE athlete_id = ? AND sport = ? AND metric = ? AND effective_from > ?",
     { replacements: [athleteId, sport, metric, from], type: QueryTypes.SELECT, transaction },
@@ -43,25 +49,49 @@ export interface ScopeCounts {
   blocks: number;
 }
 
-export async function countScope(p: { athleteId: number; sport: string; metric: string; from: string }, transaction?: Transaction): Promise<ScopeCounts & { until: string | null }> {
+export async function countScope(
+  p: { athleteId: number; sport: string; metric: string; from: string },
+  transaction?: Transaction,
+): Promise<ScopeCounts & { until: string | null }> {
   const until = await nextThresholdAfter(p.athleteId, p.sport, p.metric, p.from, transaction!);
-  const [row] = await db().query<{ sessions: number; blocks: number }>(`SELECT COUNT(DISTINCT s.id) AS sessions, COUNT(*) AS blocks ${SCOPE}`, {
-    replacements: { ...p, until },
-    type: QueryTypes.SELECT,
-    transaction,
-  });
+  const [row] = await db().query<{ sessions: number; blocks: number }>(
+    `SELECT COUNT(DISTINCT s.id) AS sessions, COUNT(*) AS blocks ${SCOPE}`,
+    {
+      replacements: { ...p, until },
+      type: QueryTypes.SELECT,
+      transaction,
+    },
+  );
   return { sessions: Number(row.sessions), blocks: Number(row.blocks), until };
 }
 
 /** A few before → after examples: the most intense step of the first sessions in scope. */
-export async function examplesFor(p: { athleteId: number; sport: string; metric: string; from: string; value: number; unit: string }, transaction?: Transaction) {
+export async function examplesFor(
+  p: { athleteId: number; sport: string; metric: string; from: string; value: number; unit: string },
+  transaction?: Transaction,
+) {
   const until = await nextThresholdAfter(p.athleteId, p.sport, p.metric, p.from, transaction!);
   // The first three sessions in scope come off the (athlete, date) index; only their steps are ranked, read by
   // session id (led by the athlete's date index instead, the ranking walked the whole scope: 100 ms on 20k steps).
   // PostgreSQL wants the ORDER BY of a DISTINCT in its select list; a block's date is its session's date.
-  const first = await db().query<{ id: number }>(`SELECT DISTINCT s.id, ${dialect() === "postgres" ? "b.date" : "s.date"} ${SCOPE} ORDER BY b.date LIMIT 3`, { replacements: { ...p, until }, type: QueryTypes.SELECT, transaction });
+  const first = await db().query<{ id: number }>(
+    `SELECT DISTINCT s.id, ${dialect() === "postgres" ? "b.date" : "s.date"} ${SCOPE} ORDER BY b.date LIMIT 3`,
+    { replacements: { ...p, until }, type: QueryTypes.SELECT, transaction },
+  );
   if (first.length === 0) return [];
-  const rows = await db().query<{ date: string; name: string; metric: string; low_pct: number; high_pct: number; low_abs: number | null; high_abs: number | null; unit: string | null; ramp: number; new_low: number; new_high: number }>(
+  const rows = await db().query<{
+    date: string;
+    name: string;
+    metric: string;
+    low_pct: number;
+    high_pct: number;
+    low_abs: number | null;
+    high_abs: number | null;
+    unit: string | null;
+    ramp: number;
+    new_low: number;
+    new_high: number;
+  }>(
     `SELECT date, name, metric, low_pct, high_pct, low_abs, high_abs, unit, ramp, new_low, new_high FROM (
        SELECT s.date, s.name, b.metric, b.low_pct, b.high_pct, b.low_abs, b.high_abs, b.unit, b.ramp,
               ${RESOLVE("low_pct", "b.")} AS new_low,
@@ -88,25 +118,72 @@ export async function examplesFor(p: { athleteId: number; sport: string; metric:
  * percentages, and each touched session's feed sequence moves on. Returns the report.
  */
 export async function applyThreshold(
-  p: { athleteId: number; sport: "bike" | "run" | "swim"; metric: "power" | "heart_rate" | "pace"; value: number; unit: string; from: string; fieldTestId: number | null; createdBy: number | null },
+  p: {
+    athleteId: number;
+    sport: "bike" | "run" | "swim";
+    metric: "power" | "heart_rate" | "pace";
+    value: number;
+    unit: string;
+    from: string;
+    fieldTestId: number | null;
+    createdBy: number | null;
+  },
   transaction: Transaction,
 ) {
   const previous = await Threshold.findOne({
     where: { athleteId: p.athleteId, sport: p.sport, metric: p.metric },
-    order: [["effectiveFrom", "DESC"], ["id", "DESC"]],
+    order: [
+      ["effectiveFrom", "DESC"],
+      ["id", "DESC"],
+    ],
     transaction,
   });
   const examples = await examplesFor(p, transaction);
   const threshold = await Threshold.create(
-    { athleteId: p.athleteId, sport: p.sport, metric: p.metric, value: p.value, unit: p.unit, effectiveFrom: p.from, source: p.fieldTestId ? "field_test" : "manual", fieldTestId: p.fieldTestId, createdBy: p.createdBy },
+    {
+      athleteId: p.athleteId,
+      sport: p.sport,
+      metric: p.metric,
+      value: p.value,
+      unit: p.unit,
+      effectiveFrom: p.from,
+      source: p.fieldTestId ? "field_test" : "manual",
+      fieldTestId: p.fieldTestId,
+      createdBy: p.createdBy,
+    },
     { transaction },
   );
   const report = await RescaleReport.create(
-    { athleteId: p.athleteId, fieldTestId: p.fieldTestId, kind: "apply", sport: p.sport, metric: p.metric, oldValue: previous?.value ?? null, newValue: p.value, unit: p.unit, fromDate: p.from, sessionsChanged: 0, blocksChanged: 0, examples, createdBy: p.createdBy },
+    {
+      athleteId: p.athleteId,
+      fieldTestId: p.fieldTestId,
+      kind: "apply",
+      sport: p.sport,
+      metric: p.metric,
+      oldValue: previous?.value ?? null,
+      newValue: p.value,
+      unit: p.unit,
+      fromDate: p.from,
+      sessionsChanged: 0,
+      blocksChanged: 0,
+      examples,
+      createdBy: p.createdBy,
+    },
     { transaction },
   );
   const until = await nextThresholdAfter(p.athleteId, p.sport, p.metric, p.from, transaction);
-  const replacements = { athleteId: p.athleteId, sport: p.sport, metric: p.metric, from: p.from, until, value: p.value, unit: p.unit, reportId: report.id, thresholdId: threshold.id, now: sqlDate(new Date()) };
+  const replacements = {
+    athleteId: p.athleteId,
+    sport: p.sport,
+    metric: p.metric,
+    from: p.from,
+    until,
+    value: p.value,
+    unit: p.unit,
+    reportId: report.id,
+    thresholdId: threshold.id,
+    now: sqlDate(new Date()),
+  };
   // Three set-based statements over the steps in scope: copy their old values (clustered on the report, so the copy
   // costs about what the update does), recompute them from their percentages, move their sessions' feed sequence on.
   await db().query(
@@ -132,7 +209,10 @@ export async function applyThreshold(
     "SELECT COUNT(DISTINCT scheduled_session_id) AS sessions, COUNT(*) AS blocks FROM rescale_undo_steps WHERE report_id = :reportId",
     { replacements, type: QueryTypes.SELECT, transaction },
   );
-  await report.update({ sessionsChanged: Number(counts.sessions), blocksChanged: Number(counts.blocks) }, { transaction });
+  await report.update(
+    { sessionsChanged: Number(counts.sessions), blocksChanged: Number(counts.blocks) },
+    { transaction },
+  );
   return { report, threshold, previous };
 }
 
@@ -140,17 +220,25 @@ export async function applyThreshold(
  * Undoes a rescale: every step it changed that is still planned gets back exactly the values it had, the threshold
  * is removed from the history, and an "undo" report records it.
  */
-export async function undoRescale(applyReport: RescaleReport, threshold: Threshold | null, createdBy: number | null, transaction: Transaction) {
+export async function undoRescale(
+  applyReport: RescaleReport,
+  threshold: Threshold | null,
+  createdBy: number | null,
+  transaction: Transaction,
+) {
   const replacements = { reportId: applyReport.id, now: sqlDate(new Date()) };
   // Only steps that still exist and are still planned get their old values back; done and skipped ones keep what
   // the athlete rode to.
   const STILL = `FROM rescale_undo_steps u JOIN scheduled_blocks b ON b.id = u.block_id JOIN scheduled_sessions s ON s.id = b.scheduled_session_id
      WHERE u.report_id = :reportId AND s.status = 'planned'`;
-  const [counts] = await db().query<{ sessions: number; blocks: number }>(`SELECT COUNT(DISTINCT s.id) AS sessions, COUNT(*) AS blocks ${STILL}`, {
-    replacements,
-    type: QueryTypes.SELECT,
-    transaction,
-  });
+  const [counts] = await db().query<{ sessions: number; blocks: number }>(
+    `SELECT COUNT(DISTINCT s.id) AS sessions, COUNT(*) AS blocks ${STILL}`,
+    {
+      replacements,
+      type: QueryTypes.SELECT,
+      transaction,
+    },
+  );
   await db().query(
     `UPDATE scheduled_sessions SET feed_sequence = feed_sequence + 1, updated_at = :now
      WHERE status = 'planned' AND id IN (SELECT scheduled_session_id FROM rescale_undo_steps WHERE report_id = :reportId)`,

@@ -27,9 +27,13 @@ export async function retestStatus(athleteId: number, today: string): Promise<Re
 }
 
 /** The rule itself, for rows already read (the roster reads them for every athlete at once). */
-export function retestFrom(lastTest: string | null, planned: { date: string; name: string } | null | undefined): RetestStatus {
+export function retestFrom(
+  lastTest: string | null,
+  planned: { date: string; name: string } | null | undefined,
+): RetestStatus {
   if (planned) return { lastTest, due: planned.date, why: `a test week in the plan: ${planned.name}` };
-  if (lastTest) return { lastTest, due: addDays(lastTest, RETEST_WEEKS * 7), why: `${RETEST_WEEKS} weeks after the last test` };
+  if (lastTest)
+    return { lastTest, due: addDays(lastTest, RETEST_WEEKS * 7), why: `${RETEST_WEEKS} weeks after the last test` };
   return { lastTest: null, due: null, why: "no test yet" };
 }
 
@@ -50,7 +54,14 @@ export async function sendRetestReminders(now = new Date()) {
         { replacements: [a.id, status.due, sqlDate(now)], type: QueryTypes.INSERT, transaction },
       );
       if (!inserted) return;
-      await queueEmail({ to: a.email, template: "retest-reminder", vars: { name: a.name, dueDate: status.due!, why: status.why, link: `${env().appUrl}/athlete/tests/new` } }, transaction);
+      await queueEmail(
+        {
+          to: a.email,
+          template: "retest-reminder",
+          vars: { name: a.name, dueDate: status.due!, why: status.why, link: `${env().appUrl}/athlete/tests/new` },
+        },
+        transaction,
+      );
       sent++;
     });
   }
@@ -74,7 +85,11 @@ const runReminders = async () => {
  */
 export function startRetestReminders() {
   if (globalThis.__pacewrightReminders) return;
-  globalThis.__pacewrightReminders = new Cron(REMINDER_CRON, { timezone: "UTC", protect: true, unref: true, name: "retest-reminders" }, runReminders);
+  globalThis.__pacewrightReminders = new Cron(
+    REMINDER_CRON,
+    { timezone: "UTC", protect: true, unref: true, name: "retest-reminders" },
+    runReminders,
+  );
   void runReminders();
 }
 

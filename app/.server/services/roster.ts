@@ -16,7 +16,10 @@ export async function rosterFor(coachId: number) {
   const ids = links.map((l) => l.athleteId);
   const [athletes, invitations] = await Promise.all([
     ids.length ? User.findAll({ where: { id: ids }, order: [["name", "ASC"]] }) : Promise.resolve([] as User[]),
-    Invitation.findAll({ where: { coachId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } }, order: [["createdAt", "DESC"]] }),
+    Invitation.findAll({
+      where: { coachId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() } },
+      order: [["createdAt", "DESC"]],
+    }),
   ]);
   const since = new Map(links.map((l) => [l.athleteId, l.createdAt]));
   const todays = new Map(athletes.map((a) => [a.id, todayIn(a.timezone)]));
@@ -25,7 +28,13 @@ export async function rosterFor(coachId: number) {
   const latest = dates.at(-1);
   const [thresholds, lastTests, plannedTests, dayRows] = ids.length
     ? await Promise.all([
-        Threshold.findAll({ where: { athleteId: ids, effectiveFrom: { [Op.lte]: latest } }, order: [["effectiveFrom", "ASC"], ["id", "ASC"]] }),
+        Threshold.findAll({
+          where: { athleteId: ids, effectiveFrom: { [Op.lte]: latest } },
+          order: [
+            ["effectiveFrom", "ASC"],
+            ["id", "ASC"],
+          ],
+        }),
         db().query<{ athlete_id: number; tested_on: string }>(
           "SELECT athlete_id, MAX(tested_on) AS tested_on FROM field_tests WHERE athlete_id IN (:ids) AND status = 'active' GROUP BY athlete_id",
           { replacements: { ids }, type: QueryTypes.SELECT },
@@ -59,7 +68,8 @@ export async function rosterFor(coachId: number) {
     athletes: athletes.map((a) => {
       const today = todays.get(a.id)!;
       const latestBy = new Map<string, Threshold>();
-      for (const t of thresholds) if (t.athleteId === a.id && t.effectiveFrom <= today) latestBy.set(`${t.sport}:${t.metric}`, t);
+      for (const t of thresholds)
+        if (t.athleteId === a.id && t.effectiveFrom <= today) latestBy.set(`${t.sport}:${t.metric}`, t);
       const lastTest = lastBy.get(a.id) ?? null;
       const planned = (plannedBy.get(a.id) ?? []).find((p) => p.date >= today);
       const retest = retestFrom(lastTest, planned);
@@ -73,12 +83,24 @@ export async function rosterFor(coachId: number) {
         email: a.email,
         timezone: a.timezone,
         since: since.get(a.id)!.toISOString(),
-        thresholds: [...latestBy.values()].map((t) => ({ sport: t.sport, metric: t.metric, value: t.value, unit: t.unit, since: t.effectiveFrom })),
+        thresholds: [...latestBy.values()].map((t) => ({
+          sport: t.sport,
+          metric: t.metric,
+          value: t.value,
+          unit: t.unit,
+          since: t.effectiveFrom,
+        })),
         retest,
         load,
         today,
       };
     }),
-    invitations: invitations.map((i) => ({ id: i.id, email: i.email, name: i.name, sentAt: i.updatedAt.toISOString(), expiresAt: i.expiresAt.toISOString() })),
+    invitations: invitations.map((i) => ({
+      id: i.id,
+      email: i.email,
+      name: i.name,
+      sentAt: i.updatedAt.toISOString(),
+      expiresAt: i.expiresAt.toISOString(),
+    })),
   };
 }

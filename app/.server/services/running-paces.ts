@@ -7,14 +7,33 @@ import { trainingPaces } from "~/lib/training";
  * session targets use for pace — so a coach can put them straight into a block.
  */
 export async function runningPacesFor(athleteId: number) {
-  const test = await FieldTest.findOne({ where: { athleteId, protocol: "run_race", status: "active" }, order: [["testedOn", "DESC"], ["id", "DESC"]] });
+  const test = await FieldTest.findOne({
+    where: { athleteId, protocol: "run_race", status: "active" },
+    order: [
+      ["testedOn", "DESC"],
+      ["id", "DESC"],
+    ],
+  });
   const index = (test?.derived as { runningIndex?: number } | undefined)?.runningIndex;
   if (!test || !index || index < 30) return null;
-  const threshold = await Threshold.findOne({ where: { athleteId, sport: "run", metric: "pace", effectiveFrom: { [Op.lte]: "9999-12-31" } }, order: [["effectiveFrom", "DESC"], ["id", "DESC"]] });
+  const threshold = await Threshold.findOne({
+    where: { athleteId, sport: "run", metric: "pace", effectiveFrom: { [Op.lte]: "9999-12-31" } },
+    order: [
+      ["effectiveFrom", "DESC"],
+      ["id", "DESC"],
+    ],
+  });
   const p = trainingPaces(index);
   const ref = threshold?.value ?? p.threshold;
   const pct = (pace: number) => Math.round((ref / pace) * 100);
-  const row = (key: string, name: string, slowS: number, fastS = slowS) => ({ key, name, slowS: Math.round(slowS), fastS: Math.round(fastS), lowPct: pct(slowS), highPct: pct(fastS) });
+  const row = (key: string, name: string, slowS: number, fastS = slowS) => ({
+    key,
+    name,
+    slowS: Math.round(slowS),
+    fastS: Math.round(fastS),
+    lowPct: pct(slowS),
+    highPct: pct(fastS),
+  });
   return {
     index: Math.round(index * 10) / 10,
     testedOn: test.testedOn,

@@ -30,7 +30,14 @@ export function profileOf(blocks: Block[]): SessionSummary["profile"] {
 async function blocksBySession(ids: number[], transaction?: Transaction): Promise<Map<number, Block[]>> {
   const map = new Map<number, Block[]>();
   if (ids.length === 0) return map;
-  const rows = await SessionBlock.findAll({ where: { sessionId: ids }, order: [["sessionId", "ASC"], ["position", "ASC"]], transaction });
+  const rows = await SessionBlock.findAll({
+    where: { sessionId: ids },
+    order: [
+      ["sessionId", "ASC"],
+      ["position", "ASC"],
+    ],
+    transaction,
+  });
   for (const r of rows) {
     const list = map.get(r.sessionId) ?? [];
     list.push(r.spec as Block);
@@ -39,7 +46,13 @@ async function blocksBySession(ids: number[], transaction?: Transaction): Promis
   return map;
 }
 
-export type ShelfQuery = { q?: string; sport?: string; tag?: string; sort?: "name" | "updated" | "duration"; archived?: boolean };
+export type ShelfQuery = {
+  q?: string;
+  sport?: string;
+  tag?: string;
+  sort?: "name" | "updated" | "duration";
+  archived?: boolean;
+};
 
 export async function listSessions(ownerId: number, query: ShelfQuery = {}): Promise<SessionSummary[]> {
   const where: Record<string | symbol, unknown> = { ownerId, archived: query.archived ?? false };
@@ -50,7 +63,11 @@ export async function listSessions(ownerId: number, query: ShelfQuery = {}): Pro
     // explicit ESCAPE clause (SQLite and PostgreSQL alike). SQLite's LIKE ignores ASCII case; on PostgreSQL ILIKE does.
     replacements = { like: `%${query.q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` };
     const like = dialect() === "postgres" ? "ILIKE" : "LIKE";
-    where[Op.and] = [literal(`(name ${like} :like ESCAPE '\\' OR description ${like} :like ESCAPE '\\' OR tags ${like} :like ESCAPE '\\')`)];
+    where[Op.and] = [
+      literal(
+        `(name ${like} :like ESCAPE '\\' OR description ${like} :like ESCAPE '\\' OR tags ${like} :like ESCAPE '\\')`,
+      ),
+    ];
   }
   const sessions = await Session.findAll({ where, order: [["name", "ASC"]], replacements });
   const filtered = query.tag ? sessions.filter((s) => s.tags.includes(query.tag!.toLowerCase())) : sessions;
@@ -106,7 +123,14 @@ async function writeBlocks(sessionId: number, blocks: Block[], transaction: Tran
 export async function createSession(ownerId: number, input: SessionInput, transaction?: Transaction): Promise<Session> {
   const run = async (t: Transaction) => {
     const session = await Session.create(
-      { ownerId, name: input.name, sport: input.sport, description: input.description, tags: input.tags, testProtocol: input.testProtocol ?? null },
+      {
+        ownerId,
+        name: input.name,
+        sport: input.sport,
+        description: input.description,
+        tags: input.tags,
+        testProtocol: input.testProtocol ?? null,
+      },
       { transaction: t },
     );
     await writeBlocks(session.id, input.blocks as Block[], t);
@@ -119,7 +143,10 @@ export async function updateSession(ownerId: number, id: number, input: SessionI
   return writeTransaction(async (transaction) => {
     const session = await Session.findOne({ where: { id, ownerId }, transaction });
     if (!session) return null;
-    await session.update({ name: input.name, sport: input.sport, description: input.description, tags: input.tags }, { transaction });
+    await session.update(
+      { name: input.name, sport: input.sport, description: input.description, tags: input.tags },
+      { transaction },
+    );
     await writeBlocks(id, input.blocks as Block[], transaction);
     return session;
   });
@@ -186,7 +213,8 @@ export function parseSessionFile(text: string): SessionInput[] {
     throw new DomainError("invalid", "The file is not valid JSON.");
   }
   const head = exportSchema.safeParse(json);
-  if (!head.success) throw new DomainError("invalid", "The file could not be imported.", { details: describeIssues(head.error) });
+  if (!head.success)
+    throw new DomainError("invalid", "The file could not be imported.", { details: describeIssues(head.error) });
   const out: SessionInput[] = [];
   const problems: string[] = [];
   head.data.sessions.forEach((raw, i) => {
@@ -194,7 +222,10 @@ export function parseSessionFile(text: string): SessionInput[] {
     if (parsed.success) out.push(parsed.data);
     else problems.push(...describeIssues(parsed.error, `session ${i + 1}: `));
   });
-  if (problems.length) throw new DomainError("invalid", "Nothing was imported: some sessions are not valid.", { details: problems.slice(0, 10) });
+  if (problems.length)
+    throw new DomainError("invalid", "Nothing was imported: some sessions are not valid.", {
+      details: problems.slice(0, 10),
+    });
   return out;
 }
 

@@ -22,19 +22,47 @@ const priceField = z.string({ error: "Enter a price." }).transform((v, ctx) => {
 });
 
 const listingFields = {
-  title: z.string().trim().min(3, "Give the plan a title of at least 3 characters.").max(120, "Keep the title under 120 characters."),
-  description: z.string().trim().min(10, "Describe the plan in a sentence or two.").max(4000, "Keep the description under 4,000 characters."),
-  coverText: z.string().trim().max(200, "Keep the cover text under 200 characters.").optional().transform((v) => v || null),
+  title: z
+    .string()
+    .trim()
+    .min(3, "Give the plan a title of at least 3 characters.")
+    .max(120, "Keep the title under 120 characters."),
+  description: z
+    .string()
+    .trim()
+    .min(10, "Describe the plan in a sentence or two.")
+    .max(4000, "Keep the description under 4,000 characters."),
+  coverText: z
+    .string()
+    .trim()
+    .max(200, "Keep the cover text under 200 characters.")
+    .optional()
+    .transform((v) => v || null),
   level: z.enum(LEVELS, { error: "Choose a level." }),
   /** Typed as "29.50"; parsed to whole cents and validated on the cents value (see parsePriceCents). */
   price: priceField,
 };
 const inCents = <T extends { price: number }>({ price, ...rest }: T) => ({ ...rest, priceCents: price });
 
-export const listingSchema = z.object({ planId: z.coerce.number().int().positive("Choose one of your plans."), ...listingFields, currency: z.enum(CURRENCIES, { error: "Choose a currency." }) }).transform(inCents);
-export const listingEditSchema = z.object({ listingId: z.coerce.number().int().positive(), ...listingFields }).transform(inCents);
+export const listingSchema = z
+  .object({
+    planId: z.coerce.number().int().positive("Choose one of your plans."),
+    ...listingFields,
+    currency: z.enum(CURRENCIES, { error: "Choose a currency." }),
+  })
+  .transform(inCents);
+export const listingEditSchema = z
+  .object({ listingId: z.coerce.number().int().positive(), ...listingFields })
+  .transform(inCents);
 
-const slugify = (s: string) => s.toLowerCase().normalize("NFKD").replace(/[^\w\s-]/g, "").trim().replace(/[\s_-]+/g, "-").slice(0, 60) || "plan";
+const slugify = (s: string) =>
+  s
+    .toLowerCase()
+    .normalize("NFKD")
+    .replace(/[^\w\s-]/g, "")
+    .trim()
+    .replace(/[\s_-]+/g, "-")
+    .slice(0, 60) || "plan";
 
 export async function createListing(coach: User, input: z.infer<typeof listingSchema>) {
   const plan = await SeasonPlan.findOne({ where: { id: input.planId, ownerId: coach.id } });
@@ -75,7 +103,16 @@ export async function updateListing(coach: User, input: z.infer<typeof listingEd
   return writeTransaction(async (transaction) => {
     const listing = await Listing.findOne({ where: { id: input.listingId, coachId: coach.id }, transaction });
     if (!listing) throw new DomainError("not_found", "That listing is not yours.");
-    await listing.update({ title: input.title, description: input.description, coverText: input.coverText, level: input.level, priceCents: input.priceCents }, { transaction });
+    await listing.update(
+      {
+        title: input.title,
+        description: input.description,
+        coverText: input.coverText,
+        level: input.level,
+        priceCents: input.priceCents,
+      },
+      { transaction },
+    );
     return listing;
   });
 }
@@ -88,25 +125,65 @@ export async function publishedListings(filter: { sport?: string; maxWeeks?: num
   if (filter.maxWeeks) where.weeks = { [Op.lte]: filter.maxWeeks };
   if (filter.maxHours) where.weeklyHours = { [Op.lte]: filter.maxHours };
   const rows = await Listing.findAll({ where, order: [["createdAt", "DESC"]] });
-  const coaches = new Map((await User.findAll({ where: { id: [...new Set(rows.map((r) => r.coachId))] } })).map((u) => [u.id, u.name]));
-  return rows.map((l) => ({ id: l.id, slug: l.slug, title: l.title, coverText: l.coverText, description: l.description, sport: l.sport, level: l.level, weeks: l.weeks, weeklyHours: l.weeklyHours, price: formatPrice(l.priceCents, l.currency), coach: coaches.get(l.coachId) ?? "" }));
+  const coaches = new Map(
+    (await User.findAll({ where: { id: [...new Set(rows.map((r) => r.coachId))] } })).map((u) => [u.id, u.name]),
+  );
+  return rows.map((l) => ({
+    id: l.id,
+    slug: l.slug,
+    title: l.title,
+    coverText: l.coverText,
+    description: l.description,
+    sport: l.sport,
+    level: l.level,
+    weeks: l.weeks,
+    weeklyHours: l.weeklyHours,
+    price: formatPrice(l.priceCents, l.currency),
+    coach: coaches.get(l.coachId) ?? "",
+  }));
 }
 
 /** Creates the pending order and the provider's checkout session; returns where to send the buyer. */
-export async function startCheckout(buyer: User, listing: Listing, align: { mode: "start" | "event"; date: string }, requestOrigin?: string) {
+export async function startCheckout(
+  buyer: User,
+  listing: Listing,
+  align: { mode: "start" | "event"; date: string },
+  requestOrigin?: string,
+) {
   if (buyer.role !== "athlete") throw new DomainError("forbidden", "Plans are bought with an athlete account.");
   if (!listing.published) throw new DomainError("not_found", "This plan is not for sale right now.");
   if (!isIsoDate(align.date)) throw new DomainError("invalid", "Choose a date.");
-  if (align.mode === "start" && align.date < todayIn(buyer.timezone)) throw new DomainError("invalid", "Choose a start date from today on.");
+  if (align.mode === "start" && align.date < todayIn(buyer.timezone))
+    throw new DomainError("invalid", "Choose a start date from today on.");
   const order = await writeTransaction((transaction) =>
-    Order.create({ listingId: listing.id, buyerId: buyer.id, amountCents: listing.priceCents, currency: listing.currency, alignMode: align.mode, alignDate: align.date, returnOrigin: returnOrigin(requestOrigin) }, { transaction }),
+    Order.create(
+      {
+        listingId: listing.id,
+        buyerId: buyer.id,
+        amountCents: listing.priceCents,
+        currency: listing.currency,
+        alignMode: align.mode,
+        alignDate: align.date,
+        returnOrigin: returnOrigin(requestOrigin),
+      },
+      { transaction },
+    ),
   );
   // Back to the host name the buyer is signed in on, so their cookie comes along; unknown hosts get APP_URL.
   const base = returnOrigin(requestOrigin);
   try {
     const session = await payments().checkout.sessions.create({
       mode: "payment",
-      line_items: [{ quantity: 1, price_data: { currency: listing.currency.toLowerCase(), unit_amount: listing.priceCents, product_data: { name: listing.title } } }],
+      line_items: [
+        {
+          quantity: 1,
+          price_data: {
+            currency: listing.currency.toLowerCase(),
+            unit_amount: listing.priceCents,
+            product_data: { name: listing.title },
+          },
+        },
+      ],
       metadata: { orderId: String(order.id) },
       // Payment-intent and charge events then name the order too, whatever order they arrive in.
       payment_intent_data: { metadata: { orderId: String(order.id) } },
@@ -118,8 +195,15 @@ export async function startCheckout(buyer: User, listing: Listing, align: { mode
     await order.update({ checkoutSessionId: session.id });
     return { order, url: session.url! };
   } catch (err) {
-    await order.update({ status: "expired", expiredAt: new Date(), note: `The payment provider could not be reached: ${(err as Error).message}` });
-    throw new DomainError("upstream", "The payment provider could not be reached. Nothing was charged; try again in a moment.");
+    await order.update({
+      status: "expired",
+      expiredAt: new Date(),
+      note: `The payment provider could not be reached: ${(err as Error).message}`,
+    });
+    throw new DomainError(
+      "upstream",
+      "The payment provider could not be reached. Nothing was charged; try again in a moment.",
+    );
   }
 }
 
@@ -147,7 +231,9 @@ export function allowedOrigins(): Set<string> {
   const e = env();
   const out = new Set<string>([new URL(e.appUrl).origin]);
   const host = process.env.HOST ?? "127.0.0.1";
-  const hosts = ["127.0.0.1", "localhost", "0.0.0.0", "::1", "::"].includes(host) ? ["127.0.0.1", "localhost", "[::1]"] : [host];
+  const hosts = ["127.0.0.1", "localhost", "0.0.0.0", "::1", "::"].includes(host)
+    ? ["127.0.0.1", "localhost", "[::1]"]
+    : [host];
   for (const h of hosts) out.add(`http://${h}:${e.port}`);
   return out;
 }
@@ -159,8 +245,32 @@ export function returnOrigin(requestOrigin?: string | null): string {
 
 export async function salesFor(coach: User) {
   const listings = await Listing.findAll({ where: coach.role === "admin" ? {} : { coachId: coach.id } });
-  const orders = listings.length ? await Order.findAll({ where: { listingId: listings.map((l) => l.id) }, order: [["createdAt", "DESC"]] }) : [];
-  const buyers = new Map((await User.findAll({ where: { id: [...new Set(orders.map((o) => o.buyerId))] } })).map((u) => [u.id, u]));
+  const orders = listings.length
+    ? await Order.findAll({ where: { listingId: listings.map((l) => l.id) }, order: [["createdAt", "DESC"]] })
+    : [];
+  const buyers = new Map(
+    (await User.findAll({ where: { id: [...new Set(orders.map((o) => o.buyerId))] } })).map((u) => [u.id, u]),
+  );
   const title = new Map(listings.map((l) => [l.id, l.title]));
-  return orders.map((o) => ({ id: o.id, listing: title.get(o.listingId) ?? "", buyer: buyers.get(o.buyerId)?.name ?? "", buyerEmail: buyers.get(o.buyerId)?.email ?? "", status: o.status, label: ORDER_STATUS_LABELS[o.status] ?? o.status, amountCents: o.amountCents, paidCents: o.paidCents, refundedCents: o.refundedCents, currency: o.currency, amount: formatPrice(o.amountCents, o.currency), date: o.createdAt.toISOString().slice(0, 10), note: o.reviewReason && o.status === "needs_review" ? o.reviewReason : (o.note ?? (o.status === "fulfilled" && o.declinedCount ? `Paid after ${o.declinedCount} declined card${o.declinedCount === 1 ? "" : "s"}.` : null)) }));
+  return orders.map((o) => ({
+    id: o.id,
+    listing: title.get(o.listingId) ?? "",
+    buyer: buyers.get(o.buyerId)?.name ?? "",
+    buyerEmail: buyers.get(o.buyerId)?.email ?? "",
+    status: o.status,
+    label: ORDER_STATUS_LABELS[o.status] ?? o.status,
+    amountCents: o.amountCents,
+    paidCents: o.paidCents,
+    refundedCents: o.refundedCents,
+    currency: o.currency,
+    amount: formatPrice(o.amountCents, o.currency),
+    date: o.createdAt.toISOString().slice(0, 10),
+    note:
+      o.reviewReason && o.status === "needs_review"
+        ? o.reviewReason
+        : (o.note ??
+          (o.status === "fulfilled" && o.declinedCount
+            ? `Paid after ${o.declinedCount} declined card${o.declinedCount === 1 ? "" : "s"}.`
+            : null)),
+  }));
 }

@@ -22,21 +22,35 @@ export type ThresholdRow = Pick<Threshold, "id" | "sport" | "metric" | "value" |
 export async function thresholdHistory(athleteId: number, transaction?: Transaction): Promise<ThresholdRow[]> {
   return Threshold.findAll({
     where: { athleteId },
-    order: [["effectiveFrom", "ASC"], ["id", "ASC"]],
+    order: [
+      ["effectiveFrom", "ASC"],
+      ["id", "ASC"],
+    ],
     attributes: ["id", "sport", "metric", "value", "effectiveFrom"],
     transaction,
   });
 }
 
 /** The threshold in force on `date`: the latest effective on or before it (ties: the later entry). */
-export function thresholdOn(history: ThresholdRow[], sport: ThresholdSport, metric: Metric, date: string): ThresholdRow | null {
+export function thresholdOn(
+  history: ThresholdRow[],
+  sport: ThresholdSport,
+  metric: Metric,
+  date: string,
+): ThresholdRow | null {
   let found: ThresholdRow | null = null;
   for (const t of history) if (t.sport === sport && t.metric === metric && t.effectiveFrom <= date) found = t;
   return found;
 }
 
 export async function currentThresholds(athleteId: number, today: string) {
-  const rows = await Threshold.findAll({ where: { athleteId, effectiveFrom: { [Op.lte]: today } }, order: [["effectiveFrom", "ASC"], ["id", "ASC"]] });
+  const rows = await Threshold.findAll({
+    where: { athleteId, effectiveFrom: { [Op.lte]: today } },
+    order: [
+      ["effectiveFrom", "ASC"],
+      ["id", "ASC"],
+    ],
+  });
   const latest = new Map<string, Threshold>();
   for (const r of rows) latest.set(`${r.sport}:${r.metric}`, r);
   return [...latest.values()];

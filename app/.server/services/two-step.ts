@@ -12,7 +12,8 @@ export const RECOVERY_CODE_COUNT = 10;
 const REQUIRED_KEY = "two_step_required_for_staff";
 const STAFF = new Set(["coach", "admin"]);
 
-const hashCode = (code: string) => crypto.createHash("sha256").update(code.replace(/[\s-]/g, "").toLowerCase()).digest("hex");
+const hashCode = (code: string) =>
+  crypto.createHash("sha256").update(code.replace(/[\s-]/g, "").toLowerCase()).digest("hex");
 
 /** Ten characters from an alphabet without look-alikes, shown as xxxxx-xxxxx. */
 function newRecoveryCode() {
@@ -27,9 +28,10 @@ export async function twoStepRequiredForStaff(): Promise<boolean> {
 }
 
 export async function setTwoStepRequiredForStaff(required: boolean) {
-  await writeTransaction((transaction) => StudioSetting.upsert({ key: REQUIRED_KEY, value: String(required) }, { transaction }));
+  await writeTransaction((transaction) =>
+    StudioSetting.upsert({ key: REQUIRED_KEY, value: String(required) }, { transaction }),
+  );
 }
-
 
 /** A coach or admin in a studio that requires two-step sign-in, who has not set it up yet. */
 export async function mustEnrol(user: User) {
@@ -39,9 +41,15 @@ export async function mustEnrol(user: User) {
 /** Starts (or restarts) enrolment: a new secret, not yet in force, with the QR code an authenticator app scans. */
 export async function startEnrolment(user: User) {
   if (!STAFF.has(user.role)) throw new DomainError("invalid", "Two-step sign-in is for coach and admin accounts.");
-  if (twoStepOn(user)) throw new DomainError("invalid", "Two-step sign-in is already on. Turn it off first to set up a new app.");
+  if (twoStepOn(user))
+    throw new DomainError("invalid", "Two-step sign-in is already on. Turn it off first to set up a new app.");
   const secret = newTotpSecret();
-  await writeTransaction((transaction) => User.update({ totpSecret: secret, totpEnabledAt: null, totpLastStep: null }, { where: { id: user.id }, transaction }));
+  await writeTransaction((transaction) =>
+    User.update(
+      { totpSecret: secret, totpEnabledAt: null, totpLastStep: null },
+      { where: { id: user.id }, transaction },
+    ),
+  );
   user.totpSecret = secret;
   return enrolmentView(user);
 }
@@ -49,29 +57,44 @@ export async function startEnrolment(user: User) {
 export async function enrolmentView(user: User) {
   if (!user.totpSecret || twoStepOn(user)) return null;
   const uri = totp(user.totpSecret, { label: user.email }).toString();
-  return { secret: user.totpSecret, uri, qrSvg: await QRCode.toString(uri, { type: "svg", margin: 1, color: { dark: "#1B2330", light: "#FFFFFF" } }) };
+  return {
+    secret: user.totpSecret,
+    uri,
+    qrSvg: await QRCode.toString(uri, { type: "svg", margin: 1, color: { dark: "#1B2330", light: "#FFFFFF" } }),
+  };
 }
 
 /** Turns two-step sign-in on once the app shows a matching code; answers the recovery codes, shown this once. */
 export async function confirmEnrolment(user: User, code: string): Promise<string[]> {
   if (!user.totpSecret || twoStepOn(user)) throw new DomainError("invalid", "Start the set-up again.");
   const step = matchingStep(user.totpSecret, code.replace(/\s/g, ""));
-  if (step === null) throw new DomainError("invalid", "That code does not match. Check the time on your phone and enter the newest code.");
+  if (step === null)
+    throw new DomainError(
+      "invalid",
+      "That code does not match. Check the time on your phone and enter the newest code.",
+    );
   const codes = Array.from({ length: RECOVERY_CODE_COUNT }, newRecoveryCode);
   await writeTransaction(async (transaction) => {
     await User.update({ totpEnabledAt: new Date(), totpLastStep: step }, { where: { id: user.id }, transaction });
     await RecoveryCode.destroy({ where: { userId: user.id }, transaction });
-    await RecoveryCode.bulkCreate(codes.map((c) => ({ userId: user.id, codeHash: hashCode(c) })), { transaction });
+    await RecoveryCode.bulkCreate(
+      codes.map((c) => ({ userId: user.id, codeHash: hashCode(c) })),
+      { transaction },
+    );
   });
   return codes;
 }
 
 /** Turns two-step sign-in off after a current code or a recovery code; not while the studio requires it. */
 export async function disableTwoStep(user: User, code: string) {
-  if (STAFF.has(user.role) && (await twoStepRequiredForStaff())) throw new DomainError("invalid", "Your studio requires two-step sign-in for coaches and admins.");
+  if (STAFF.has(user.role) && (await twoStepRequiredForStaff()))
+    throw new DomainError("invalid", "Your studio requires two-step sign-in for coaches and admins.");
   if (!(await verifySecondStep(user, code))) throw new DomainError("invalid", "That code does not match.");
   await writeTransaction(async (transaction) => {
-    await User.update({ totpSecret: null, totpEnabledAt: null, totpLastStep: null }, { where: { id: user.id }, transaction });
+    await User.update(
+      { totpSecret: null, totpEnabledAt: null, totpLastStep: null },
+      { where: { id: user.id }, transaction },
+    );
     await RecoveryCode.destroy({ where: { userId: user.id }, transaction });
   });
 }
@@ -95,7 +118,10 @@ export async function verifySecondStep(user: User, input: string): Promise<boole
   }
   if (!/^[a-z0-9]{5}-?[a-z0-9]{5}$/i.test(code)) return false;
   const [n] = await writeTransaction((transaction) =>
-    RecoveryCode.update({ usedAt: new Date() }, { where: { userId: user.id, codeHash: hashCode(code), usedAt: null }, transaction }),
+    RecoveryCode.update(
+      { usedAt: new Date() },
+      { where: { userId: user.id, codeHash: hashCode(code), usedAt: null }, transaction },
+    ),
   );
   return n === 1;
 }

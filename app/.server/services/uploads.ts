@@ -16,7 +16,11 @@ export { activityHistograms } from "../workers/activity-task";
  * Stores one ride file the route has read from its request: the engine must be able to read it (400 with its
  * reason), and only then is it stored and recorded. A file that fails leaves nothing behind.
  */
-export async function storeUpload({ name, bytes }: { name: string; bytes: Uint8Array }, athlete: User, uploadedBy: User) {
+export async function storeUpload(
+  { name, bytes }: { name: string; bytes: Uint8Array },
+  athlete: User,
+  uploadedBy: User,
+) {
   // Parsed on a worker thread: a big file must not hold up everyone else's requests.
   const read = await readActivityOffThread({ bytes, name, want: "summary" }, uploadedBy.id);
   const { summary, trace } = read;
@@ -24,7 +28,18 @@ export async function storeUpload({ name, bytes }: { name: string; bytes: Uint8A
   await fileStorage().set(storageKey, new File([bytes as BlobPart], name, { type: "application/octet-stream" }));
   try {
     const upload = await writeTransaction((transaction) =>
-      Upload.create({ athleteId: athlete.id, uploadedBy: uploadedBy.id, originalName: name.slice(0, 255), format: summary.format, size: bytes.byteLength, storageKey, summary }, { transaction }),
+      Upload.create(
+        {
+          athleteId: athlete.id,
+          uploadedBy: uploadedBy.id,
+          originalName: name.slice(0, 255),
+          format: summary.format,
+          size: bytes.byteLength,
+          storageKey,
+          summary,
+        },
+        { transaction },
+      ),
     );
     return { upload, trace };
   } catch (err) {
@@ -46,7 +61,10 @@ export async function storedTrace(upload: Upload) {
 async function readStored(upload: Upload, want: "summary" | "activity") {
   const file = await fileStorage().get(upload.storageKey);
   if (!file) throw new DomainError("gone", "The stored file is missing.");
-  return readActivityOffThread({ bytes: new Uint8Array(await file.arrayBuffer()), name: `x.${upload.format}`, want }, upload.athleteId);
+  return readActivityOffThread(
+    { bytes: new Uint8Array(await file.arrayBuffer()), name: `x.${upload.format}`, want },
+    upload.athleteId,
+  );
 }
 
 export { traceOf } from "../workers/activity-task";

@@ -3,7 +3,16 @@
  * every other request while it runs. Pure: bytes in, plain data out. Imports are relative because the worker loads
  * this file without the app's bundler.
  */
-import { bestEffort, detectRampTest, parseActivity, powerCurve, TrainingInputError, valueHistogram, workKj, type Activity } from "../../lib/training";
+import {
+  bestEffort,
+  detectRampTest,
+  parseActivity,
+  powerCurve,
+  TrainingInputError,
+  valueHistogram,
+  workKj,
+  type Activity,
+} from "../../lib/training";
 
 export interface ActivityLimits {
   /** Raw rows (CSV lines, GPX track points) read at most; checked before parsing. */
@@ -35,7 +44,13 @@ export function summarize(activity: Activity) {
   const { samples, meta } = activity;
   const hasPower = meta.channels.includes("power");
   const efforts: Record<string, { startS: number; mean: number } | null> = {};
-  for (const [key, w] of [["1min", 60], ["3min", 180], ["8min", 480], ["12min", 720], ["20min", 1200]] as const) {
+  for (const [key, w] of [
+    ["1min", 60],
+    ["3min", 180],
+    ["8min", 480],
+    ["12min", 720],
+    ["20min", 1200],
+  ] as const) {
     efforts[key] = hasPower && samples.length >= w ? bestEffort(samples, w) : null;
   }
   let ramp = null;
@@ -129,7 +144,8 @@ export default function readActivity(task: ActivityTask): ActivityTaskResult {
   try {
     activity = parseActivity(bytes, task.name);
   } catch (err) {
-    if (err instanceof TrainingInputError) return { ok: false, kind: "invalid", message: `This file cannot be used: ${err.message}` };
+    if (err instanceof TrainingInputError)
+      return { ok: false, kind: "invalid", message: `This file cannot be used: ${err.message}` };
     throw err;
   }
   if (activity.meta.durationS > task.limits.maxDurationS) {
@@ -139,5 +155,10 @@ export default function readActivity(task: ActivityTask): ActivityTaskResult {
       message: `This file covers ${hours(activity.meta.durationS)} hours; at most ${hours(task.limits.maxDurationS)} hours are read. Split it or export one ride.`,
     };
   }
-  return { ok: true, summary: summarize(activity), trace: traceOf(activity), activity: task.want === "activity" ? activity : null };
+  return {
+    ok: true,
+    summary: summarize(activity),
+    trace: traceOf(activity),
+    activity: task.want === "activity" ? activity : null,
+  };
 }

@@ -1,5 +1,27 @@
-import { DndContext, type CollisionDetection, DragOverlay, PointerSensor, useDraggable, useDroppable, useSensor, useSensors, type Announcements, type DragEndEvent, type DragStartEvent, type UniqueIdentifier } from "@dnd-kit/core";
-import { describeDay, describeTarget, type DropTarget, sameTarget, slotId, slotItems, stepTarget, targetAtPoint } from "~/components/board/drop-target";
+import {
+  DndContext,
+  type CollisionDetection,
+  DragOverlay,
+  PointerSensor,
+  useDraggable,
+  useDroppable,
+  useSensor,
+  useSensors,
+  type Announcements,
+  type DragEndEvent,
+  type DragStartEvent,
+  type UniqueIdentifier,
+} from "@dnd-kit/core";
+import {
+  describeDay,
+  describeTarget,
+  type DropTarget,
+  sameTarget,
+  slotId,
+  slotItems,
+  stepTarget,
+  targetAtPoint,
+} from "~/components/board/drop-target";
 import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
 import { useEffect, useMemo, useRef, useState, useSyncExternalStore } from "react";
 import { useFetcher, useRevalidator } from "react-router";
@@ -78,10 +100,13 @@ const itemKey = (id: number) => `item:${id}`;
 
 /** Applies a change to the local items at once (optimistic); the server's answer then replaces them. */
 function applyLocal(items: BoardItem[], op: Op, shelf: ShelfEntry[], tempId: number): BoardItem[] {
-  const slot = (w: number, d: number, list: BoardItem[]) => list.filter((i) => i.weekId === w && i.day === d).sort((a, b) => a.position - b.position);
+  const slot = (w: number, d: number, list: BoardItem[]) =>
+    list.filter((i) => i.weekId === w && i.day === d).sort((a, b) => a.position - b.position);
   const renumber = (list: BoardItem[], w: number, d: number, order: BoardItem[]) => {
     const ids = order.map((i) => i.id);
-    return list.map((i) => (i.weekId === w && i.day === d && ids.includes(i.id) ? { ...i, position: ids.indexOf(i.id) } : i));
+    return list.map((i) =>
+      i.weekId === w && i.day === d && ids.includes(i.id) ? { ...i, position: ids.indexOf(i.id) } : i,
+    );
   };
   if (op.op === "move" || op.op === "copy") {
     let moving: BoardItem;
@@ -108,7 +133,12 @@ function applyLocal(items: BoardItem[], op: Op, shelf: ShelfEntry[], tempId: num
     const target = slot(op.toWeek, op.toDay, rest);
     const placed = { ...moving, weekId: op.toWeek, day: op.toDay };
     target.splice(Math.min(op.toIndex, target.length), 0, placed);
-    return renumber([...rest.filter((i) => !(i.weekId === op.toWeek && i.day === op.toDay)), ...target], op.toWeek, op.toDay, target);
+    return renumber(
+      [...rest.filter((i) => !(i.weekId === op.toWeek && i.day === op.toDay)), ...target],
+      op.toWeek,
+      op.toDay,
+      target,
+    );
   }
   if (op.op === "remove") return items.filter((i) => i.id !== op.itemId);
   if (op.op === "time") return items.map((i) => (i.id === op.itemId ? { ...i, timeOfDay: op.timeOfDay } : i));
@@ -206,7 +236,8 @@ export function PlanBoard({ data }: { data: BoardData }) {
     if (s.startsWith("shelf:")) return shelf.find((x) => x.id === Number(s.slice(6)))?.name ?? "session";
     return items.find((i) => i.id === Number(s.slice(5)))?.name ?? "session";
   };
-  const movingItemId = (id: UniqueIdentifier | null | undefined) => (id && String(id).startsWith("item:") ? Number(String(id).slice(5)) : null);
+  const movingItemId = (id: UniqueIdentifier | null | undefined) =>
+    id && String(id).startsWith("item:") ? Number(String(id).slice(5)) : null;
 
   // The drop target lives in refs for dnd-kit's callbacks (which run outside React's render cycle) and in state
   // for the indicator drawn on the board.
@@ -246,7 +277,11 @@ export function PlanBoard({ data }: { data: BoardData }) {
     );
     if (!next) return false;
     setTarget(next);
-    requestAnimationFrame(() => document.querySelector(`[data-drop-slot="${slotId(next.weekId, next.day)}"]`)?.scrollIntoView({ block: "nearest", inline: "nearest" }));
+    requestAnimationFrame(() =>
+      document
+        .querySelector(`[data-drop-slot="${slotId(next.weekId, next.day)}"]`)
+        ?.scrollIntoView({ block: "nearest", inline: "nearest" }),
+    );
     return true;
   };
   const stepRef = useRef(step);
@@ -254,7 +289,10 @@ export function PlanBoard({ data }: { data: BoardData }) {
     stepRef.current = step;
   });
   const keyboardOptions = useMemo(() => ({ step: (k: StepKey) => stepRef.current(k) }), []);
-  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 5 } }), useSensor(StepKeyboardSensor, keyboardOptions));
+  const sensors = useSensors(
+    useSensor(PointerSensor, { activationConstraint: { distance: 5 } }),
+    useSensor(StepKeyboardSensor, keyboardOptions),
+  );
 
   const collision: CollisionDetection = ({ pointerCoordinates }) => {
     if (pointerCoordinates) target.current = targetAtPoint(pointerCoordinates.x, pointerCoordinates.y, moving.current);
@@ -345,7 +383,11 @@ export function PlanBoard({ data }: { data: BoardData }) {
     } else if (activeItemId !== null) {
       const it = items.find((i) => i.id === activeItemId)!;
       const sameSlot = it.weekId === t.weekId && it.day === t.day;
-      if (sameSlot && slotItems(items, t.weekId, t.day, it.id).filter((o) => o.position < it.position).length === t.index) return;
+      if (
+        sameSlot &&
+        slotItems(items, t.weekId, t.day, it.id).filter((o) => o.position < it.position).length === t.index
+      )
+        return;
       if (viaKeyboard) focusAfter.current = activeItemId;
       change(
         {
@@ -400,8 +442,14 @@ export function PlanBoard({ data }: { data: BoardData }) {
   }, [weeks, items, shapes, powerBands.length]);
   const maxLoad = Math.max(1, ...weekStats.map((s) => s.load));
   const selectedItem = items.find((i) => i.id === selected) ?? null;
-  const activeShelf = activeId && String(activeId).startsWith("shelf:") ? shelf.find((s) => s.id === Number(String(activeId).slice(6))) : null;
-  const activeItem = activeId && String(activeId).startsWith("item:") ? items.find((i) => i.id === Number(String(activeId).slice(5))) : null;
+  const activeShelf =
+    activeId && String(activeId).startsWith("shelf:")
+      ? shelf.find((s) => s.id === Number(String(activeId).slice(6)))
+      : null;
+  const activeItem =
+    activeId && String(activeId).startsWith("item:")
+      ? items.find((i) => i.id === Number(String(activeId).slice(5)))
+      : null;
 
   return (
     <DndContext
@@ -415,20 +463,32 @@ export function PlanBoard({ data }: { data: BoardData }) {
       accessibility={{
         announcements,
         screenReaderInstructions: {
-          draggable: "To move this session with the keyboard, press Space, then the arrow keys: up and down through the days, left and right between weeks. Space drops it, Escape cancels.",
+          draggable:
+            "To move this session with the keyboard, press Space, then the arrow keys: up and down through the days, left and right between weeks. Space drops it, Escape cancels.",
         },
       }}
     >
       <ShapeDefs shapes={shapes} />
       <div className="flex min-h-[70vh] flex-col gap-3 lg:flex-row">
-        <aside className="flex w-full shrink-0 flex-col rounded-xl border border-line bg-white lg:w-60" aria-label="Session shelf">
+        <aside
+          className="flex w-full shrink-0 flex-col rounded-xl border border-line bg-white lg:w-60"
+          aria-label="Session shelf"
+        >
           <div className="border-b border-line p-3">
             <h2 className="font-semibold">Session shelf</h2>
             <label className="mt-2 block text-xs">
               <span className="sr-only">Search the shelf</span>
-              <input type="search" value={q} onChange={(e) => setQ(e.target.value)} placeholder="Search the shelf" className="w-full rounded-md border border-line px-2 py-1.5 text-sm" />
+              <input
+                type="search"
+                value={q}
+                onChange={(e) => setQ(e.target.value)}
+                placeholder="Search the shelf"
+                className="w-full rounded-md border border-line px-2 py-1.5 text-sm"
+              />
             </label>
-            <p className="mt-2 text-xs text-ink-soft">Drag a session onto a day, or focus it and press Space, then the arrow keys.</p>
+            <p className="mt-2 text-xs text-ink-soft">
+              Drag a session onto a day, or focus it and press Space, then the arrow keys.
+            </p>
           </div>
           <ul className="flex max-h-48 flex-col gap-2 overflow-y-auto p-3 lg:max-h-[70vh]" aria-label="Shelf sessions">
             {shelf.map((s) => (
@@ -442,35 +502,45 @@ export function PlanBoard({ data }: { data: BoardData }) {
 
         <div className="relative min-w-0 flex-1 overflow-x-auto pb-3" aria-label="Weeks of the plan">
           {message && (
-            <div role={message.tone === "error" ? "alert" : "status"} className={`sticky left-0 mb-2 rounded-lg px-3 py-2 text-sm ${message.tone === "error" ? "bg-brick/10 text-brick" : "bg-teal/10 text-teal-dark"}`}>
+            <div
+              role={message.tone === "error" ? "alert" : "status"}
+              className={`sticky left-0 mb-2 rounded-lg px-3 py-2 text-sm ${message.tone === "error" ? "bg-brick/10 text-brick" : "bg-teal/10 text-teal-dark"}`}
+            >
               {message.text}
             </div>
           )}
           {/* On a phone each week is a list of its days, one week under the other, so nothing needs sideways scrolling. */}
           <ol className="flex flex-col gap-3 md:flex-row">
-            {(hydrated ? weekStats : weekStats.slice(0, SERVER_WEEKS)).map(({ week, load, seconds, levels, warn, rise }) => (
-              <li key={week.id} className="w-full shrink-0 md:w-52" data-testid={`week-${week.idx}`}>
-                <WeekColumn
-                  week={week}
-                  weeks={weeks}
-                  live={hydrated}
-                  startDate={plan.startDate}
-                  load={load}
-                  maxLoad={maxLoad}
-                  seconds={seconds}
-                  levels={levels}
-                  warn={warn}
-                  rise={rise}
-                  items={items.filter((i) => i.weekId === week.id)}
-                  selected={selected}
-                  onSelect={setSelected}
-                  drop={drop && drop.weekId === week.id ? drop : null}
-                  dropName={activeShelf?.name ?? activeItem?.name ?? ""}
-                  movingId={activeItem?.id ?? null}
-                  onWeekOp={(op, toWeek) => change({ op, fromWeek: week.id, toWeek }, op === "duplicate-week" ? `Copied week ${week.idx}.` : `Moved week ${week.idx}'s sessions.`)}
-                />
-              </li>
-            ))}
+            {(hydrated ? weekStats : weekStats.slice(0, SERVER_WEEKS)).map(
+              ({ week, load, seconds, levels, warn, rise }) => (
+                <li key={week.id} className="w-full shrink-0 md:w-52" data-testid={`week-${week.idx}`}>
+                  <WeekColumn
+                    week={week}
+                    weeks={weeks}
+                    live={hydrated}
+                    startDate={plan.startDate}
+                    load={load}
+                    maxLoad={maxLoad}
+                    seconds={seconds}
+                    levels={levels}
+                    warn={warn}
+                    rise={rise}
+                    items={items.filter((i) => i.weekId === week.id)}
+                    selected={selected}
+                    onSelect={setSelected}
+                    drop={drop && drop.weekId === week.id ? drop : null}
+                    dropName={activeShelf?.name ?? activeItem?.name ?? ""}
+                    movingId={activeItem?.id ?? null}
+                    onWeekOp={(op, toWeek) =>
+                      change(
+                        { op, fromWeek: week.id, toWeek },
+                        op === "duplicate-week" ? `Copied week ${week.idx}.` : `Moved week ${week.idx}'s sessions.`,
+                      )
+                    }
+                  />
+                </li>
+              ),
+            )}
             {!hydrated && weeks.length > SERVER_WEEKS && (
               <li className="bw-week w-full shrink-0 p-2.5 text-sm text-ink-soft md:w-52">
                 Weeks {weeks[SERVER_WEEKS].idx}–{weeks[weeks.length - 1].idx} appear in a moment.
@@ -499,21 +569,34 @@ export function PlanBoard({ data }: { data: BoardData }) {
                   itemId: selectedItem.id,
                   toWeek,
                   toDay,
-                  toIndex: items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== selectedItem.id).length,
+                  toIndex: items.filter((i) => i.weekId === toWeek && i.day === toDay && i.id !== selectedItem.id)
+                    .length,
                 },
                 `Moved ${selectedItem.name}.`,
               )
             }
             onTime={(t) => change({ op: "time", itemId: selectedItem.id, timeOfDay: t })}
-            onNote={(notes) => change({ op: "note", itemId: selectedItem.id, notes }, `Saved the note on ${selectedItem.name}.`)}
+            onNote={(notes) =>
+              change({ op: "note", itemId: selectedItem.id, notes }, `Saved the note on ${selectedItem.name}.`)
+            }
           />
         )}
       </div>
       <DragOverlay style={{ pointerEvents: "none" }}>
         {keyboardDrag ? null : activeShelf ? (
-          <CardBody name={activeShelf.name} durationS={activeShelf.durationS} profile={<SessionProfile steps={activeShelf.profile} height={CARD_PROFILE_HEIGHT} className="mt-1" />} lifted />
+          <CardBody
+            name={activeShelf.name}
+            durationS={activeShelf.durationS}
+            profile={<SessionProfile steps={activeShelf.profile} height={CARD_PROFILE_HEIGHT} className="mt-1" />}
+            lifted
+          />
         ) : activeItem ? (
-          <CardBody name={activeItem.name} durationS={activeItem.durationS} profile={<ShapeUse shape={activeItem.shape} />} lifted />
+          <CardBody
+            name={activeItem.name}
+            durationS={activeItem.durationS}
+            profile={<ShapeUse shape={activeItem.shape} />}
+            lifted
+          />
         ) : null}
       </DragOverlay>
     </DndContext>
@@ -550,7 +633,23 @@ function ShapeUse({ shape }: { shape: number }) {
   );
 }
 
-function CardBody({ name, durationS, profile, test, time, note, lifted }: { name: string; durationS: number; profile: React.ReactNode; test?: boolean; time?: string | null; note?: boolean; lifted?: boolean }) {
+function CardBody({
+  name,
+  durationS,
+  profile,
+  test,
+  time,
+  note,
+  lifted,
+}: {
+  name: string;
+  durationS: number;
+  profile: React.ReactNode;
+  test?: boolean;
+  time?: string | null;
+  note?: boolean;
+  lifted?: boolean;
+}) {
   return (
     <div className={lifted ? "bc bc-lifted" : "bc"}>
       <div className="bc-head">
@@ -575,8 +674,26 @@ function ShelfCard({ session }: { session: ShelfEntry }) {
     data: { sessionId: session.id },
   });
   return (
-    <button ref={setNodeRef} type="button" {...attributes} {...listeners} aria-label={`Shelf session ${session.name}, ${formatMinutes(session.durationS)}`} className={`block w-full cursor-grab ${isDragging ? "opacity-40" : ""}`}>
-      <CardBody name={session.name} durationS={session.durationS} profile={<SessionProfile steps={session.profile} height={CARD_PROFILE_HEIGHT} className="mt-1" label={`Profile of ${session.name}`} />} />
+    <button
+      ref={setNodeRef}
+      type="button"
+      {...attributes}
+      {...listeners}
+      aria-label={`Shelf session ${session.name}, ${formatMinutes(session.durationS)}`}
+      className={`block w-full cursor-grab ${isDragging ? "opacity-40" : ""}`}
+    >
+      <CardBody
+        name={session.name}
+        durationS={session.durationS}
+        profile={
+          <SessionProfile
+            steps={session.profile}
+            height={CARD_PROFILE_HEIGHT}
+            className="mt-1"
+            label={`Profile of ${session.name}`}
+          />
+        }
+      />
     </button>
   );
 }
@@ -619,7 +736,11 @@ function WeekColumn(props: {
           <h3 className="text-sm font-semibold">Week {week.idx}</h3>
           <span className="text-ink-soft">{PHASE_LABEL[week.phase as keyof typeof PHASE_LABEL] ?? week.phase}</span>
         </div>
-        <p className="num text-ink-soft">{monday ? `${formatDay(monday, { day: "numeric", month: "short" })} – ${formatDay(addDays(monday, 6), { day: "numeric", month: "short" })}` : `Week ${week.idx} of the plan`}</p>
+        <p className="num text-ink-soft">
+          {monday
+            ? `${formatDay(monday, { day: "numeric", month: "short" })} – ${formatDay(addDays(monday, 6), { day: "numeric", month: "short" })}`
+            : `Week ${week.idx} of the plan`}
+        </p>
         <div className="mt-1 flex flex-wrap gap-1">
           {week.recovery && <span className="rounded bg-phase-recovery/30 px-1">recovery</span>}
           {week.test && <span className="rounded bg-brick/15 px-1 text-brick">test week</span>}
@@ -627,8 +748,14 @@ function WeekColumn(props: {
         <p className="num mt-1">
           {props.seconds ? formatMinutes(props.seconds) : "0 min"} of {week.plannedHours} h planned
         </p>
-        <div className="mt-1 h-1.5 rounded bg-paper-deep" title={`Planned effort load ${Math.round(props.load)} points (effort score × minutes)`}>
-          <div className={`h-1.5 rounded ${props.warn ? "bg-brick" : "bg-teal"}`} style={{ width: `${(props.load / props.maxLoad) * 100}%` }} />
+        <div
+          className="mt-1 h-1.5 rounded bg-paper-deep"
+          title={`Planned effort load ${Math.round(props.load)} points (effort score × minutes)`}
+        >
+          <div
+            className={`h-1.5 rounded ${props.warn ? "bg-brick" : "bg-teal"}`}
+            style={{ width: `${(props.load / props.maxLoad) * 100}%` }}
+          />
         </div>
         <div className="mt-1 flex h-1.5 overflow-hidden rounded" aria-label="Minutes per band">
           {props.levels.map((m, i) =>
@@ -672,7 +799,12 @@ function WeekColumn(props: {
         <label className="sr-only" htmlFor={`week-target-${week.id}`}>
           Target week for week {week.idx}
         </label>
-        <select id={`week-target-${week.id}`} value={target} onChange={(e) => setTarget(Number(e.target.value))} className="rounded border border-line px-1 py-0.5">
+        <select
+          id={`week-target-${week.id}`}
+          value={target}
+          onChange={(e) => setTarget(Number(e.target.value))}
+          className="rounded border border-line px-1 py-0.5"
+        >
           {props.weeks
             .filter((w) => w.id !== week.id && (props.live || w.id === target))
             .map((w) => (
@@ -681,10 +813,20 @@ function WeekColumn(props: {
               </option>
             ))}
         </select>
-        <button type="button" aria-label={`Copy week ${week.idx}'s sessions to the chosen week`} className="bw-op" onClick={() => props.onWeekOp("duplicate-week", target)}>
+        <button
+          type="button"
+          aria-label={`Copy week ${week.idx}'s sessions to the chosen week`}
+          className="bw-op"
+          onClick={() => props.onWeekOp("duplicate-week", target)}
+        >
           Copy
         </button>
-        <button type="button" aria-label={`Move week ${week.idx}'s sessions to the chosen week`} className="bw-op" onClick={() => props.onWeekOp("move-week", target)}>
+        <button
+          type="button"
+          aria-label={`Move week ${week.idx}'s sessions to the chosen week`}
+          className="bw-op"
+          onClick={() => props.onWeekOp("move-week", target)}
+        >
           Move
         </button>
       </footer>
@@ -713,8 +855,15 @@ function DaySlot(props: {
   // so a drop aimed at Sunday stayed on a grown Saturday.
   const at = dropIndex === null ? -1 : Math.min(dropIndex, others.length);
   const marker = (
-    <li key="drop-marker" aria-hidden="true" data-testid="drop-marker" className={`relative h-0 ${others.length === 0 ? "" : at === 0 ? "-mb-1" : "-mt-1"}`}>
-      <span className={`pointer-events-none absolute inset-x-0 h-1 rounded-full bg-teal ${others.length === 0 ? "top-0.5" : at === 0 ? "-top-0.5" : "top-0"}`} />
+    <li
+      key="drop-marker"
+      aria-hidden="true"
+      data-testid="drop-marker"
+      className={`relative h-0 ${others.length === 0 ? "" : at === 0 ? "-mb-1" : "-mt-1"}`}
+    >
+      <span
+        className={`pointer-events-none absolute inset-x-0 h-1 rounded-full bg-teal ${others.length === 0 ? "top-0.5" : at === 0 ? "-top-0.5" : "top-0"}`}
+      />
     </li>
   );
   const cards = others.map((i) => (
@@ -735,10 +884,15 @@ function DaySlot(props: {
     >
       <span className="bw-day-label">
         {label}
-        {props.date && <span className="num ml-1 normal-case">{formatDay(props.date, { day: "numeric", month: "short" })}</span>}
+        {props.date && (
+          <span className="num ml-1 normal-case">{formatDay(props.date, { day: "numeric", month: "short" })}</span>
+        )}
       </span>
       {dropIndex !== null && (
-        <span aria-hidden="true" className="pointer-events-none absolute top-0.5 right-1 max-w-[70%] truncate rounded bg-teal px-1 text-[10px] font-medium text-white">
+        <span
+          aria-hidden="true"
+          className="pointer-events-none absolute top-0.5 right-1 max-w-[70%] truncate rounded bg-teal px-1 text-[10px] font-medium text-white"
+        >
           {props.dropName || "Session"} here
         </span>
       )}
@@ -775,7 +929,14 @@ function BoardCard({ item, selected, onSelect }: { item: BoardItem; selected: bo
       data-card-id={item.id}
       className={selected ? "bc-button ring-2 ring-teal" : "bc-button"}
     >
-      <CardBody name={item.name} durationS={item.durationS} profile={<ShapeUse shape={item.shape} />} test={item.test} time={item.timeOfDay} note={Boolean(item.notes)} />
+      <CardBody
+        name={item.name}
+        durationS={item.durationS}
+        profile={<ShapeUse shape={item.shape} />}
+        test={item.test}
+        time={item.timeOfDay}
+        note={Boolean(item.notes)}
+      />
     </button>
   );
 }
@@ -814,10 +975,18 @@ function ItemDrawer({
   const [toWeek, setToWeek] = useState(item.weekId);
   const [toDay, setToDay] = useState(item.day);
   return (
-    <aside className="w-full shrink-0 rounded-xl border border-line bg-white p-4 text-sm lg:w-72" aria-label="Selected session">
+    <aside
+      className="w-full shrink-0 rounded-xl border border-line bg-white p-4 text-sm lg:w-72"
+      aria-label="Selected session"
+    >
       <div className="flex items-start justify-between gap-2">
         <h2 className="font-semibold">{item.name}</h2>
-        <button type="button" onClick={onClose} className="rounded px-2 text-ink-soft hover:bg-paper-deep" aria-label="Close details">
+        <button
+          type="button"
+          onClick={onClose}
+          className="rounded px-2 text-ink-soft hover:bg-paper-deep"
+          aria-label="Close details"
+        >
           ✕
         </button>
       </div>
@@ -848,33 +1017,64 @@ function ItemDrawer({
       </dl>
       <label className="mt-3 flex items-center justify-between gap-2">
         Time of day
-        <input type="time" defaultValue={item.timeOfDay ?? ""} onBlur={(e) => onTime(e.target.value || null)} className="rounded border border-line px-1 py-0.5" />
+        <input
+          type="time"
+          defaultValue={item.timeOfDay ?? ""}
+          onBlur={(e) => onTime(e.target.value || null)}
+          className="rounded border border-line px-1 py-0.5"
+        />
       </label>
       <label className="mt-3 flex flex-col gap-1">
         <span>Note for the athlete</span>
-        <textarea value={note} onChange={(e) => setNote(e.target.value)} rows={3} maxLength={2000} className="rounded border border-line px-2 py-1" placeholder="Shown on the athlete's session page and in the calendar feed" />
+        <textarea
+          value={note}
+          onChange={(e) => setNote(e.target.value)}
+          rows={3}
+          maxLength={2000}
+          className="rounded border border-line px-2 py-1"
+          placeholder="Shown on the athlete's session page and in the calendar feed"
+        />
       </label>
-      <button type="button" className={buttonClass("secondary", "mt-1 px-2 py-0.5")} disabled={note === item.notes} onClick={() => onNote(note)}>
+      <button
+        type="button"
+        className={buttonClass("secondary", "mt-1 px-2 py-0.5")}
+        disabled={note === item.notes}
+        onClick={() => onNote(note)}
+      >
         Save note
       </button>
       <fieldset className="mt-3 rounded-lg border border-line p-2">
         <legend className="px-1 text-xs text-ink-soft">Move to</legend>
         <div className="flex gap-1">
-          <select value={toWeek} onChange={(e) => setToWeek(Number(e.target.value))} aria-label="Move to week" className="flex-1 rounded border border-line px-1 py-0.5">
+          <select
+            value={toWeek}
+            onChange={(e) => setToWeek(Number(e.target.value))}
+            aria-label="Move to week"
+            className="flex-1 rounded border border-line px-1 py-0.5"
+          >
             {weeks.map((w) => (
               <option key={w.id} value={w.id}>
                 Week {w.idx}
               </option>
             ))}
           </select>
-          <select value={toDay} onChange={(e) => setToDay(Number(e.target.value))} aria-label="Move to day" className="rounded border border-line px-1 py-0.5">
+          <select
+            value={toDay}
+            onChange={(e) => setToDay(Number(e.target.value))}
+            aria-label="Move to day"
+            className="rounded border border-line px-1 py-0.5"
+          >
             {DAY_NAMES.map((d, i) => (
               <option key={d} value={i}>
                 {d}
               </option>
             ))}
           </select>
-          <button type="button" className={buttonClass("secondary", "px-2 py-0.5")} onClick={() => onMove(toWeek, toDay)}>
+          <button
+            type="button"
+            className={buttonClass("secondary", "px-2 py-0.5")}
+            onClick={() => onMove(toWeek, toDay)}
+          >
             Move
           </button>
         </div>

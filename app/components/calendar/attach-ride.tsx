@@ -9,14 +9,19 @@ export function AttachRide() {
   return (
     <Card className="mt-6 max-w-xl">
       <h2 className="font-semibold">Or attach the ride file</h2>
-      <p className="mt-1 text-sm text-ink-soft">Work, minutes per band and heart-rate load come from the file. Without an effort score, the ride counts its band load from power.</p>
+      <p className="mt-1 text-sm text-ink-soft">
+        Work, minutes per band and heart-rate load come from the file. Without an effort score, the ride counts its band
+        load from power.
+      </p>
       {fetcher.data && (
         <div className="mt-2">
           <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>
         </div>
       )}
       <div className="mt-3">
-        <UploadBox onUploaded={(r) => fetcher.submit({ intent: "attach", uploadId: String(r.upload.id) }, { method: "post" })} />
+        <UploadBox
+          onUploaded={(r) => fetcher.submit({ intent: "attach", uploadId: String(r.upload.id) }, { method: "post" })}
+        />
       </div>
     </Card>
   );

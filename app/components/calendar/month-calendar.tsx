@@ -22,7 +22,27 @@ const STATUS_WORD: Record<string, string> = { done: "done", skipped: "skipped" }
  * A month at a glance, read-only, that also prints: on paper every session lists its blocks with the athlete's
  * own targets, and the app's navigation and buttons are left out.
  */
-export function MonthCalendar({ month, from, to, first, last, today, sessions, sessionHref, title }: { month: string; from: string; to: string; first: string; last: string; today: string; sessions: MonthSession[]; sessionHref: (id: number) => string; title: string }) {
+export function MonthCalendar({
+  month,
+  from,
+  to,
+  first,
+  last,
+  today,
+  sessions,
+  sessionHref,
+  title,
+}: {
+  month: string;
+  from: string;
+  to: string;
+  first: string;
+  last: string;
+  today: string;
+  sessions: MonthSession[];
+  sessionHref: (id: number) => string;
+  title: string;
+}) {
   const days = Array.from({ length: daysBetween(from, to) + 1 }, (_, i) => addDays(from, i));
   const monthName = formatDay(first, { month: "long", year: "numeric" });
   const total = sessions.reduce((s, x) => s + x.plannedDurationS, 0);
@@ -34,10 +54,18 @@ export function MonthCalendar({ month, from, to, first, last, today, sessions, s
           {sessions.length} session{sessions.length === 1 ? "" : "s"}, {formatMinutes(total)} planned
         </span>
         <span className="ml-auto flex gap-2 print:hidden">
-          <Link to={`?view=month&month=${shiftMonth(month, -1)}`} className={buttonClass("secondary", "px-3 py-1")} aria-label="Previous month">
+          <Link
+            to={`?view=month&month=${shiftMonth(month, -1)}`}
+            className={buttonClass("secondary", "px-3 py-1")}
+            aria-label="Previous month"
+          >
             ← Earlier
           </Link>
-          <Link to={`?view=month&month=${shiftMonth(month, 1)}`} className={buttonClass("secondary", "px-3 py-1")} aria-label="Next month">
+          <Link
+            to={`?view=month&month=${shiftMonth(month, 1)}`}
+            className={buttonClass("secondary", "px-3 py-1")}
+            aria-label="Next month"
+          >
             Later →
           </Link>
           <button type="button" className={buttonClass("secondary", "px-3 py-1")} onClick={() => window.print()}>
@@ -68,7 +96,10 @@ export function MonthCalendar({ month, from, to, first, last, today, sessions, s
               </p>
               <ul className="mt-1 flex flex-col gap-1">
                 {mine.map((s) => (
-                  <li key={s.id} className={`rounded border px-1 py-0.5 ${s.testProtocol ? "border-brick/50" : "border-line"} ${s.status === "skipped" ? "line-through" : ""}`}>
+                  <li
+                    key={s.id}
+                    className={`rounded border px-1 py-0.5 ${s.testProtocol ? "border-brick/50" : "border-line"} ${s.status === "skipped" ? "line-through" : ""}`}
+                  >
                     <Link to={sessionHref(s.id)} className="font-medium leading-tight hover:underline">
                       {s.timeOfDay && <span className="num mr-1 text-ink-soft">{s.timeOfDay}</span>}
                       {s.name}
@@ -89,10 +120,10 @@ export function MonthCalendar({ month, from, to, first, last, today, sessions, s
   );
 }
 
-
 /** Two weeks to plan and move sessions; a month to look ahead and to print. */
 export function CalendarViews({ view }: { view: "weeks" | "month" }) {
-  const tab = (active: boolean) => `rounded-md px-3 py-1 text-sm font-medium ${active ? "bg-teal text-paper" : "text-ink hover:bg-paper-deep"}`;
+  const tab = (active: boolean) =>
+    `rounded-md px-3 py-1 text-sm font-medium ${active ? "bg-teal text-paper" : "text-ink hover:bg-paper-deep"}`;
   return (
     <nav aria-label="Calendar view" className="mb-3 flex gap-1 print:hidden">
       <Link to="?" className={tab(view === "weeks")} aria-current={view === "weeks" ? "page" : undefined}>

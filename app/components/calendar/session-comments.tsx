@@ -13,11 +13,20 @@ export interface CommentView {
 }
 
 /** The thread between athlete and coach on one session; posting goes through the page's own action. */
-export function SessionComments({ comments, otherSide, timezone }: { comments: CommentView[]; otherSide: string; timezone: string }) {
+export function SessionComments({
+  comments,
+  otherSide,
+  timezone,
+}: {
+  comments: CommentView[];
+  otherSide: string;
+  timezone: string;
+}) {
   const fetcher = useFetcher<{ ok: boolean; message?: string; fieldErrors?: Record<string, string | undefined> }>();
   const form = useRef<HTMLFormElement>(null);
   const [text, setText] = useState("");
-  const serverError = fetcher.data && !fetcher.data.ok ? (fetcher.data.fieldErrors?.body ?? fetcher.data.message) : undefined;
+  const serverError =
+    fetcher.data && !fetcher.data.ok ? (fetcher.data.fieldErrors?.body ?? fetcher.data.message) : undefined;
   // A server error belongs to the text that was sent; once the text changes it no longer applies.
   const [sent, setSent] = useState("");
   const error = serverError && text === sent ? serverError : undefined;
@@ -27,19 +36,32 @@ export function SessionComments({ comments, otherSide, timezone }: { comments: C
     setClearedFor(fetcher.data);
     setText("");
   }
-  const when = (iso: string) => new Intl.DateTimeFormat("en-GB", { timeZone: timezone, day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" }).format(new Date(iso));
+  const when = (iso: string) =>
+    new Intl.DateTimeFormat("en-GB", {
+      timeZone: timezone,
+      day: "numeric",
+      month: "short",
+      hour: "2-digit",
+      minute: "2-digit",
+    }).format(new Date(iso));
   return (
     <Card aria-labelledby="comments-heading" className="mt-6">
       <h2 id="comments-heading" className="font-semibold">
         Talk about this session
       </h2>
-      <p className="text-sm text-ink-soft">Only you and {otherSide} see this; {otherSide} gets an e-mail for each new message.</p>
+      <p className="text-sm text-ink-soft">
+        Only you and {otherSide} see this; {otherSide} gets an e-mail for each new message.
+      </p>
       {comments.length === 0 ? (
         <p className="mt-3 text-sm text-ink-soft">No messages yet.</p>
       ) : (
         <ol className="mt-3 flex flex-col gap-2" aria-label="Messages">
           {comments.map((c) => (
-            <li key={c.id} className={`max-w-[36rem] rounded-lg px-3 py-2 text-sm ${c.mine ? "self-end bg-teal/10" : "bg-paper-deep"}`} data-testid="comment">
+            <li
+              key={c.id}
+              className={`max-w-[36rem] rounded-lg px-3 py-2 text-sm ${c.mine ? "self-end bg-teal/10" : "bg-paper-deep"}`}
+              data-testid="comment"
+            >
               <p className="text-xs text-ink-soft">
                 {c.mine ? "You" : c.author} · <span className="num">{when(c.at)}</span>
               </p>

@@ -15,12 +15,26 @@ import type { sessionPageData } from "~/.server/services/session-page";
 export type SessionDetailData = Omit<Awaited<ReturnType<typeof sessionPageData>>, "pacing">;
 
 /** `subjectName`: on a coach's view, the athlete whose session this is, so headings speak of them, not of "you". */
-export function SessionDetail({ data, canComplete, subjectName }: { data: SessionDetailData; canComplete: boolean; subjectName?: string }) {
+export function SessionDetail({
+  data,
+  canComplete,
+  subjectName,
+}: {
+  data: SessionDetailData;
+  canComplete: boolean;
+  subjectName?: string;
+}) {
   const whose = subjectName ? `${subjectName}'s` : "Your";
   const { session: s, steps, zones } = data;
   const bandOfBlock = new Map((data.bandsByBlock ?? []).map((b) => [b.blockIndex, b]));
   const lines = blockLines(steps);
-  const profile = steps.map((st, i) => ({ s: steps.slice(0, i).reduce((t, x) => t + x.durationS, 0), d: st.durationS, lo: st.lowPct, hi: st.highPct, ramp: st.ramp }));
+  const profile = steps.map((st, i) => ({
+    s: steps.slice(0, i).reduce((t, x) => t + x.durationS, 0),
+    d: st.durationS,
+    lo: st.lowPct,
+    hi: st.highPct,
+    ramp: st.ramp,
+  }));
   const protocol = s.testProtocol ? PROTOCOLS[s.testProtocol as ProtocolKey] : null;
   return (
     <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
@@ -28,15 +42,25 @@ export function SessionDetail({ data, canComplete, subjectName }: { data: Sessio
         <Card>
           <p className="num text-sm text-ink-soft">
             {formatDay(s.date, { weekday: "long", day: "numeric", month: "long", year: "numeric" })}
-            {s.timeOfDay && ` · ${s.timeOfDay}`} · {formatMinutes(s.plannedDurationS)} · <span className="capitalize">{s.status}</span>
+            {s.timeOfDay && ` · ${s.timeOfDay}`} · {formatMinutes(s.plannedDurationS)} ·{" "}
+            <span className="capitalize">{s.status}</span>
           </p>
-          <SessionProfile steps={profile} height={96} className="mt-3 rounded bg-paper/60" label={`Profile of ${s.name}`} />
+          <SessionProfile
+            steps={profile}
+            height={96}
+            className="mt-3 rounded bg-paper/60"
+            label={`Profile of ${s.name}`}
+          />
           <ol className="num mt-4 flex flex-col gap-2">
             {lines.map((l) => (
               <li key={l.blockIndex} className="flex flex-wrap items-baseline gap-2">
                 <span className="font-medium">{l.text}</span>
                 {bandOfBlock.get(l.blockIndex) && <BandChip band={bandOfBlock.get(l.blockIndex)!} />}
-                {l.needsTest && <span className="rounded bg-brick/10 px-1.5 text-xs text-brick">needs a field test: shown in % of threshold</span>}
+                {l.needsTest && (
+                  <span className="rounded bg-brick/10 px-1.5 text-xs text-brick">
+                    needs a field test: shown in % of threshold
+                  </span>
+                )}
               </li>
             ))}
           </ol>
@@ -46,8 +70,13 @@ export function SessionDetail({ data, canComplete, subjectName }: { data: Sessio
             </p>
           )}
           {s.notes && (
-            <div className="mt-4 rounded-lg border-l-4 border-teal bg-teal/5 px-3 py-2 text-sm" data-testid="coach-note">
-              <p className="text-xs font-medium text-teal-dark">{subjectName ? "Your note for this session" : "Note from your coach"}</p>
+            <div
+              className="mt-4 rounded-lg border-l-4 border-teal bg-teal/5 px-3 py-2 text-sm"
+              data-testid="coach-note"
+            >
+              <p className="text-xs font-medium text-teal-dark">
+                {subjectName ? "Your note for this session" : "Note from your coach"}
+              </p>
               <p className="whitespace-pre-wrap">{s.notes}</p>
             </div>
           )}
@@ -81,7 +110,14 @@ export function SessionDetail({ data, canComplete, subjectName }: { data: Sessio
 function BandChip({ band }: { band: BlockBand }) {
   return (
     <span className="inline-flex items-center gap-1 rounded border border-line px-1.5 text-xs" data-testid="block-band">
-      <span className="inline-block h-2.5 w-2.5 rounded-sm" style={{ background: band.shade, boxShadow: band.aboveThreshold ? "inset 0 0 0 1.5px var(--color-brick)" : undefined }} aria-hidden />
+      <span
+        className="inline-block h-2.5 w-2.5 rounded-sm"
+        style={{
+          background: band.shade,
+          boxShadow: band.aboveThreshold ? "inset 0 0 0 1.5px var(--color-brick)" : undefined,
+        }}
+        aria-hidden
+      />
       {band.name}
     </span>
   );
@@ -92,12 +128,18 @@ function TimeInBand({ rows }: { rows: { metric: string; name: string; shade: str
   return (
     <Card>
       <h2 className="font-semibold">Time in band</h2>
-      <p className="text-xs text-ink-soft">From the attached ride file: {rows[0]?.metric === "power" ? "power" : "heart rate"} against your threshold on the day.</p>
+      <p className="text-xs text-ink-soft">
+        From the attached ride file: {rows[0]?.metric === "power" ? "power" : "heart rate"} against your threshold on
+        the day.
+      </p>
       <ul className="num mt-2 flex flex-col gap-1 text-sm" data-testid="time-in-band">
         {rows.map((r) => (
           <li key={r.name} className="grid grid-cols-[7rem_1fr_3.5rem] items-center gap-2">
             <span>{r.name}</span>
-            <span className="h-2 rounded" style={{ width: `${(r.minutes / total) * 100}%`, background: r.shade, minWidth: r.minutes > 0 ? 2 : 0 }} />
+            <span
+              className="h-2 rounded"
+              style={{ width: `${(r.minutes / total) * 100}%`, background: r.shade, minWidth: r.minutes > 0 ? 2 : 0 }}
+            />
             <span className="text-right">{formatMinutes(r.minutes * 60)}</span>
           </li>
         ))}
@@ -119,16 +161,18 @@ function PlannedVsActual({ session: s }: { session: SessionDetailData["session"]
           <>
             <dt className="text-ink-soft">Time in target</dt>
             <dd className="text-right">
-              {formatMinutes(s.inTargetS ?? 0)} of {formatMinutes(s.targetedS)} ({Math.round(((s.inTargetS ?? 0) / s.targetedS) * 100)} %)
+              {formatMinutes(s.inTargetS ?? 0)} of {formatMinutes(s.targetedS)} (
+              {Math.round(((s.inTargetS ?? 0) / s.targetedS) * 100)} %)
             </dd>
           </>
         ) : null}
       </dl>
-      {!s.targetedS && <p className="mt-2 text-xs text-ink-soft">Attach the ride file to see time in target and time in band.</p>}
+      {!s.targetedS && (
+        <p className="mt-2 text-xs text-ink-soft">Attach the ride file to see time in target and time in band.</p>
+      )}
     </Card>
   );
 }
-
 
 function ResultCard({ session: s }: { session: SessionDetailData["session"] }) {
   return (
@@ -169,18 +213,36 @@ function CompleteForm({ session: s }: { session: SessionDetailData["session"] })
         </fieldset>
         <label className="flex flex-col gap-1">
           <span className="font-medium">Minutes</span>
-          <input name="minutes" type="number" min={1} max={1440} defaultValue={s.actualMinutes ?? Math.round(s.plannedDurationS / 60)} className="num rounded-lg border border-line px-2 py-1.5" />
+          <input
+            name="minutes"
+            type="number"
+            min={1}
+            max={1440}
+            defaultValue={s.actualMinutes ?? Math.round(s.plannedDurationS / 60)}
+            className="num rounded-lg border border-line px-2 py-1.5"
+          />
           {errors.minutes && <span className="text-brick">{errors.minutes}</span>}
         </label>
         <label className="flex flex-col gap-1">
           <span className="font-medium">Comment (optional)</span>
-          <textarea name="comment" rows={2} maxLength={1000} defaultValue={s.comment ?? ""} className="rounded-lg border border-line px-2 py-1.5" />
+          <textarea
+            name="comment"
+            rows={2}
+            maxLength={1000}
+            defaultValue={s.comment ?? ""}
+            className="rounded-lg border border-line px-2 py-1.5"
+          />
         </label>
         <div className="flex flex-wrap gap-2">
           <button name="status" value="done" className={buttonClass("primary")} disabled={fetcher.state !== "idle"}>
             Mark done
           </button>
-          <button name="status" value="skipped" className={buttonClass("secondary")} disabled={fetcher.state !== "idle"}>
+          <button
+            name="status"
+            value="skipped"
+            className={buttonClass("secondary")}
+            disabled={fetcher.state !== "idle"}
+          >
             Skipped it
           </button>
           {s.status !== "planned" && (

@@ -1,4 +1,15 @@
-import { type CollisionDetection, DndContext, PointerSensor, useDraggable, useDroppable, useSensor, useSensors, type Announcements, type DragEndEvent, type DragStartEvent } from "@dnd-kit/core";
+import {
+  type CollisionDetection,
+  DndContext,
+  PointerSensor,
+  useDraggable,
+  useDroppable,
+  useSensor,
+  useSensors,
+  type Announcements,
+  type DragEndEvent,
+  type DragStartEvent,
+} from "@dnd-kit/core";
 import { useMemo, useRef, useState } from "react";
 import { StepKeyboardSensor, type StepKey } from "~/components/board/step-keyboard-sensor";
 import { Link, useFetcher, useNavigation } from "react-router";
@@ -28,7 +39,19 @@ const WEEKS_SHOWN = 2;
  * Later are links; a session can be dragged (or picked up with Space and moved with the arrow keys) to another day.
  * The move is shown at once from the pending submission and the loaders' revalidation brings the saved state.
  */
-export function WeekCalendar({ athleteId, from, today, sessions: saved, sessionHref }: { athleteId?: number; from: string; today: string; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
+export function WeekCalendar({
+  athleteId,
+  from,
+  today,
+  sessions: saved,
+  sessionHref,
+}: {
+  athleteId?: number;
+  from: string;
+  today: string;
+  sessions: CalendarSession[];
+  sessionHref: (id: number) => string;
+}) {
   const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
   const move = useFetcher<{ ok?: boolean; error?: string }>();
   const navigation = useNavigation();
@@ -51,28 +74,43 @@ export function WeekCalendar({ athleteId, from, today, sessions: saved, sessionH
         // Only the days on screen are targets: from `from` to the last day shown.
         if (next < from || next > addDays(from, WEEKS_SHOWN * 7 - 1)) return false;
         keyDay.current = next;
-        requestAnimationFrame(() => document.querySelector(`[data-testid="day-${next}"]`)?.scrollIntoView({ block: "nearest" }));
+        requestAnimationFrame(() =>
+          document.querySelector(`[data-testid="day-${next}"]`)?.scrollIntoView({ block: "nearest" }),
+        );
         return true;
       },
     }),
     [from],
   );
-  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 6 } }), useSensor(StepKeyboardSensor, keyboardOptions));
+  const sensors = useSensors(
+    useSensor(PointerSensor, { activationConstraint: { distance: 6 } }),
+    useSensor(StepKeyboardSensor, keyboardOptions),
+  );
   const collision: CollisionDetection = ({ pointerCoordinates }) => {
     if (pointerCoordinates) {
-      const el = document.elementFromPoint(pointerCoordinates.x, pointerCoordinates.y)?.closest<HTMLElement>("[data-day]");
+      const el = document
+        .elementFromPoint(pointerCoordinates.x, pointerCoordinates.y)
+        ?.closest<HTMLElement>("[data-day]");
       return el ? [{ id: `day:${el.dataset.day}` }] : [];
     }
     return keyDay.current ? [{ id: `day:${keyDay.current}` }] : [];
   };
   const onDragStart = ({ active, activatorEvent }: DragStartEvent) => {
-    keyDay.current = activatorEvent instanceof KeyboardEvent ? (sessions.find((x) => `session:${x.id}` === active.id)?.date ?? null) : null;
+    keyDay.current =
+      activatorEvent instanceof KeyboardEvent
+        ? (sessions.find((x) => `session:${x.id}` === active.id)?.date ?? null)
+        : null;
   };
   const nameOf = (id: unknown) => sessions.find((s) => `session:${s.id}` === id)?.name ?? "session";
   const announcements: Announcements = {
-    onDragStart: ({ active }) => `Picked up ${nameOf(active.id)}. Up and down arrows move it a day, left and right a week; Space drops it; Escape cancels.`,
-    onDragOver: ({ active, over }) => `${nameOf(active.id)} is over ${over ? formatDay(String(over.id).slice(4), { weekday: "long", day: "numeric", month: "long" }) : "no day"}.`,
-    onDragEnd: ({ active, over }) => (over ? `${nameOf(active.id)} moved to ${formatDay(String(over.id).slice(4), { weekday: "long", day: "numeric", month: "long" })}.` : `${nameOf(active.id)} was not moved.`),
+    onDragStart: ({ active }) =>
+      `Picked up ${nameOf(active.id)}. Up and down arrows move it a day, left and right a week; Space drops it; Escape cancels.`,
+    onDragOver: ({ active, over }) =>
+      `${nameOf(active.id)} is over ${over ? formatDay(String(over.id).slice(4), { weekday: "long", day: "numeric", month: "long" }) : "no day"}.`,
+    onDragEnd: ({ active, over }) =>
+      over
+        ? `${nameOf(active.id)} moved to ${formatDay(String(over.id).slice(4), { weekday: "long", day: "numeric", month: "long" })}.`
+        : `${nameOf(active.id)} was not moved.`,
     onDragCancel: ({ active }) => `Cancelled; ${nameOf(active.id)} stays on its day.`,
   };
   const onDragEnd = ({ active, over }: DragEndEvent) => {
@@ -82,25 +120,48 @@ export function WeekCalendar({ athleteId, from, today, sessions: saved, sessionH
     const s = sessions.find((x) => x.id === id);
     if (!s || s.date === date) return;
     setMessage({ tone: "ok", text: `Moved ${s.name} to ${formatDay(date)}.` });
-    move.submit({ sessionId: id, date }, { method: "post", action: `/api/calendar${athleteId ? `?athleteId=${athleteId}` : ""}`, encType: "application/json" });
+    move.submit(
+      { sessionId: id, date },
+      {
+        method: "post",
+        action: `/api/calendar${athleteId ? `?athleteId=${athleteId}` : ""}`,
+        encType: "application/json",
+      },
+    );
   };
 
   return (
     <section aria-label="Calendar">
       <div className="mb-3 flex flex-wrap items-center gap-2">
-        <Link to={weeksLink(-WEEKS_SHOWN)} preventScrollReset className={buttonClass("secondary", "px-3 py-1")} aria-label="Earlier weeks">
+        <Link
+          to={weeksLink(-WEEKS_SHOWN)}
+          preventScrollReset
+          className={buttonClass("secondary", "px-3 py-1")}
+          aria-label="Earlier weeks"
+        >
           ← Earlier
         </Link>
-        <Link to={weeksLink(WEEKS_SHOWN)} preventScrollReset className={buttonClass("secondary", "px-3 py-1")} aria-label="Later weeks">
+        <Link
+          to={weeksLink(WEEKS_SHOWN)}
+          preventScrollReset
+          className={buttonClass("secondary", "px-3 py-1")}
+          aria-label="Later weeks"
+        >
           Later →
         </Link>
         <h2 className="num text-lg font-semibold" aria-live="polite">
-          {formatDay(from, { day: "numeric", month: "short" })} – {formatDay(to, { day: "numeric", month: "short", year: "numeric" })}
+          {formatDay(from, { day: "numeric", month: "short" })} –{" "}
+          {formatDay(to, { day: "numeric", month: "short", year: "numeric" })}
         </h2>
-        {navigation.state === "loading" && navigation.location.search.includes("from=") && <span className="text-sm text-ink-soft">Loading…</span>}
+        {navigation.state === "loading" && navigation.location.search.includes("from=") && (
+          <span className="text-sm text-ink-soft">Loading…</span>
+        )}
       </div>
       {notice && (
-        <p role={notice.tone === "error" ? "alert" : "status"} className={`mb-2 rounded-lg px-3 py-2 text-sm ${notice.tone === "error" ? "bg-brick/10 text-brick" : "bg-teal/10 text-teal-dark"}`}>
+        <p
+          role={notice.tone === "error" ? "alert" : "status"}
+          className={`mb-2 rounded-lg px-3 py-2 text-sm ${notice.tone === "error" ? "bg-brick/10 text-brick" : "bg-teal/10 text-teal-dark"}`}
+        >
           {notice.text}
         </p>
       )}
@@ -118,7 +179,14 @@ export function WeekCalendar({ athleteId, from, today, sessions: saved, sessionH
       >
         <ol className="grid grid-cols-1 gap-2 sm:grid-cols-7">
           {days.map((d, i) => (
-            <Day key={d} date={d} today={today} weekStart={i % 7 === 0} sessions={sessions.filter((s) => s.date === d).sort((a, b) => a.position - b.position)} sessionHref={sessionHref} />
+            <Day
+              key={d}
+              date={d}
+              today={today}
+              weekStart={i % 7 === 0}
+              sessions={sessions.filter((s) => s.date === d).sort((a, b) => a.position - b.position)}
+              sessionHref={sessionHref}
+            />
           ))}
         </ol>
       </DndContext>
@@ -126,7 +194,19 @@ export function WeekCalendar({ athleteId, from, today, sessions: saved, sessionH
   );
 }
 
-function Day({ date, today, weekStart, sessions, sessionHref }: { date: string; today: string; weekStart: boolean; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
+function Day({
+  date,
+  today,
+  weekStart,
+  sessions,
+  sessionHref,
+}: {
+  date: string;
+  today: string;
+  weekStart: boolean;
+  sessions: CalendarSession[];
+  sessionHref: (id: number) => string;
+}) {
   const { setNodeRef, isOver } = useDroppable({ id: `day:${date}` });
   const isToday = date === today;
   return (
@@ -137,14 +217,43 @@ function Day({ date, today, weekStart, sessions, sessionHref }: { date: string; 
           Week of {formatDay(date, { day: "numeric", month: "long" })}
         </li>
       )}
-      <DayCell refFn={setNodeRef} isOver={isOver} isToday={isToday} date={date} today={today} sessions={sessions} sessionHref={sessionHref} />
+      <DayCell
+        refFn={setNodeRef}
+        isOver={isOver}
+        isToday={isToday}
+        date={date}
+        today={today}
+        sessions={sessions}
+        sessionHref={sessionHref}
+      />
     </>
   );
 }
 
-function DayCell({ refFn, isOver, isToday, date, today, sessions, sessionHref }: { refFn: (el: HTMLElement | null) => void; isOver: boolean; isToday: boolean; date: string; today: string; sessions: CalendarSession[]; sessionHref: (id: number) => string }) {
+function DayCell({
+  refFn,
+  isOver,
+  isToday,
+  date,
+  today,
+  sessions,
+  sessionHref,
+}: {
+  refFn: (el: HTMLElement | null) => void;
+  isOver: boolean;
+  isToday: boolean;
+  date: string;
+  today: string;
+  sessions: CalendarSession[];
+  sessionHref: (id: number) => string;
+}) {
   return (
-    <li ref={refFn} data-day={date} className={`min-h-10 rounded-xl border p-2 sm:min-h-24 ${isOver ? "border-teal bg-teal/10 outline-2 -outline-offset-2 outline-teal" : isToday ? "border-brick bg-white" : "border-line bg-white"} ${date < today ? "opacity-80" : ""}`} data-testid={`day-${date}`}>
+    <li
+      ref={refFn}
+      data-day={date}
+      className={`min-h-10 rounded-xl border p-2 sm:min-h-24 ${isOver ? "border-teal bg-teal/10 outline-2 -outline-offset-2 outline-teal" : isToday ? "border-brick bg-white" : "border-line bg-white"} ${date < today ? "opacity-80" : ""}`}
+      data-testid={`day-${date}`}
+    >
       <p className={`num text-xs font-medium ${isToday ? "text-brick" : "text-ink-soft"}`}>
         {formatDay(date)} {isToday && "· today"}
       </p>
@@ -160,8 +269,18 @@ function DayCell({ refFn, isOver, isToday, date, today, sessions, sessionHref }:
 }
 
 function SessionChip({ session: s, href }: { session: CalendarSession; href: string }) {
-  const { attributes, listeners, setNodeRef, transform, isDragging } = useDraggable({ id: `session:${s.id}`, disabled: s.status !== "planned" });
-  const tone = s.status === "done" ? "border-teal bg-teal/10" : s.status === "skipped" ? "border-line bg-paper-deep line-through" : s.testProtocol ? "border-brick/50 bg-brick/5" : "border-line bg-paper/60";
+  const { attributes, listeners, setNodeRef, transform, isDragging } = useDraggable({
+    id: `session:${s.id}`,
+    disabled: s.status !== "planned",
+  });
+  const tone =
+    s.status === "done"
+      ? "border-teal bg-teal/10"
+      : s.status === "skipped"
+        ? "border-line bg-paper-deep line-through"
+        : s.testProtocol
+          ? "border-brick/50 bg-brick/5"
+          : "border-line bg-paper/60";
   return (
     <div
       ref={setNodeRef}
@@ -171,7 +290,13 @@ function SessionChip({ session: s, href }: { session: CalendarSession; href: str
     >
       <div className="flex items-start gap-1">
         {s.status === "planned" && (
-          <button type="button" {...attributes} {...listeners} className="cursor-grab touch-none rounded px-0.5 text-ink-soft" aria-label={`Move ${s.name}`}>
+          <button
+            type="button"
+            {...attributes}
+            {...listeners}
+            className="cursor-grab touch-none rounded px-0.5 text-ink-soft"
+            aria-label={`Move ${s.name}`}
+          >
             ⠿
           </button>
         )}
@@ -183,7 +308,11 @@ function SessionChip({ session: s, href }: { session: CalendarSession; href: str
       <p className="num mt-0.5 text-ink-soft">{formatMinutes(s.plannedDurationS)}</p>
       {s.keyTarget && <p className="num mt-0.5 font-medium text-teal-dark">{s.keyTarget}</p>}
       {s.needsTest && <p className="mt-0.5 text-brick">needs a field test</p>}
-      {s.status !== "planned" && <p className="mt-0.5">{s.status === "done" ? `done${s.effortScore !== null ? ` · effort ${s.effortScore}` : ""}` : "skipped"}</p>}
+      {s.status !== "planned" && (
+        <p className="mt-0.5">
+          {s.status === "done" ? `done${s.effortScore !== null ? ` · effort ${s.effortScore}` : ""}` : "skipped"}
+        </p>
+      )}
     </div>
   );
 }

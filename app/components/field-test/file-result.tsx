@@ -23,14 +23,20 @@ export function FileResult(props: {
   const { protocol, upload, preview, windowStart } = props;
   return (
     <div className="flex flex-col gap-4">
-      <UploadBox athleteId={props.athleteId} onStart={props.onReset} onFailed={props.onReset} onUploaded={props.onUploaded} />
+      <UploadBox
+        athleteId={props.athleteId}
+        onStart={props.onReset}
+        onFailed={props.onReset}
+        onUploaded={props.onUploaded}
+      />
       {upload && (
         <>
           <TraceChart trace={upload.trace} window={preview?.window} />
           {preview?.window && WINDOWED.includes(protocol) && (
             <label className="flex flex-col gap-1 text-sm">
               <span className="font-medium">
-                Test window starts at <span className="num">{clock(preview.window.startS)}</span> (shift it if the detection is off)
+                Test window starts at <span className="num">{clock(preview.window.startS)}</span> (shift it if the
+                detection is off)
               </span>
               <input
                 type="range"
@@ -46,7 +52,8 @@ export function FileResult(props: {
           {preview?.pacing && (
             <div className="flex flex-col gap-1 text-sm" data-testid="pacing">
               <p className="num">
-                Pacing in thirds: {preview.pacing.means.map((m) => `${Math.round(m)} W`).join(" · ")} — <strong>{preview.pacing.verdict}</strong>
+                Pacing in thirds: {preview.pacing.means.map((m) => `${Math.round(m)} W`).join(" · ")} —{" "}
+                <strong>{preview.pacing.verdict}</strong>
               </p>
               {preview.pacing.advice && <p className="rounded-lg bg-brick/5 p-2 text-ink">{preview.pacing.advice}</p>}
             </div>

@@ -8,7 +8,15 @@ import type { preview } from "~/.server/services/field-tests";
 export type TestPreview = Awaited<ReturnType<typeof preview>>;
 
 /** The proposed threshold beside the current one, and what saving would change. */
-export function ProposalCard({ preview, error, testedOn }: { preview: TestPreview | null; error?: string; testedOn: string }) {
+export function ProposalCard({
+  preview,
+  error,
+  testedOn,
+}: {
+  preview: TestPreview | null;
+  error?: string;
+  testedOn: string;
+}) {
   return (
     <Card>
       <h2 className="font-semibold">Proposal</h2>
@@ -20,7 +28,11 @@ export function ProposalCard({ preview, error, testedOn }: { preview: TestPrevie
       {preview ? (
         <div className="mt-2 flex flex-col gap-2 text-sm" data-testid="proposal">
           <p className="num text-2xl font-semibold text-teal-dark">{preview.proposed.label}</p>
-          <p className="num text-ink-soft">{preview.current ? `now ${preview.current.label}, since ${preview.current.since}` : "no threshold of this kind yet"}</p>
+          <p className="num text-ink-soft">
+            {preview.current
+              ? `now ${preview.current.label}, since ${preview.current.since}`
+              : "no threshold of this kind yet"}
+          </p>
           <p className="num">
             <strong>{preview.changes.sessions}</strong> planned sessions from {testedOn} get new targets.
           </p>
@@ -44,7 +56,15 @@ export function ProposalCard({ preview, error, testedOn }: { preview: TestPrevie
 }
 
 /** A flagged change: the reasons it may be wrong, and the explicit confirmation the save needs. */
-export function GuardCard({ guard, confirmed, onConfirmed }: { guard: TestPreview["guard"]; confirmed: boolean; onConfirmed: (c: boolean) => void }) {
+export function GuardCard({
+  guard,
+  confirmed,
+  onConfirmed,
+}: {
+  guard: TestPreview["guard"];
+  confirmed: boolean;
+  onConfirmed: (c: boolean) => void;
+}) {
   return (
     <Card className="border-brick/60" aria-labelledby="guard-heading" data-testid="guard">
       <h2 id="guard-heading" className="font-semibold text-brick">
@@ -76,7 +96,8 @@ function RampFacts({ ramp }: { ramp: NonNullable<TestPreview["ramp"]> }) {
     <div className="num rounded-lg bg-paper p-2 text-xs" data-testid="ramp-facts">
       {d && (
         <p>
-          Found {d.steps} steps of {Math.round(d.stepW)} W every {d.stepS} s, from {Math.round(d.firstStepW)} W; last completed step {Math.round(d.lastCompletedStepW)} W
+          Found {d.steps} steps of {Math.round(d.stepW)} W every {d.stepS} s, from {Math.round(d.firstStepW)} W; last
+          completed step {Math.round(d.lastCompletedStepW)} W
           {d.failedIntoStepS > 0 ? `, stopped ${d.failedIntoStepS} s into the next` : ""}.
         </p>
       )}

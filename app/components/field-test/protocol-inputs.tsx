@@ -11,20 +11,42 @@ export const FIRST_EFFORTS: Effort[] = [
 
 type Props = { fields: TypedFields; onChange: (fields: TypedFields) => void };
 
-function NumberInput({ name, label, fields, onChange, ...props }: Props & { name: string; label: string } & Omit<React.InputHTMLAttributes<HTMLInputElement>, "onChange" | "name">) {
+function NumberInput({
+  name,
+  label,
+  fields,
+  onChange,
+  ...props
+}: Props & { name: string; label: string } & Omit<React.InputHTMLAttributes<HTMLInputElement>, "onChange" | "name">) {
   return (
     <label className="flex flex-col gap-1 text-sm">
       <span className="font-medium">{label}</span>
-      <input value={fields[name] ?? ""} onChange={(e) => onChange({ ...fields, [name]: e.target.value })} className="num rounded-lg border border-line px-3 py-2" {...props} />
+      <input
+        value={fields[name] ?? ""}
+        onChange={(e) => onChange({ ...fields, [name]: e.target.value })}
+        className="num rounded-lg border border-line px-3 py-2"
+        {...props}
+      />
     </label>
   );
 }
 
-function Choice({ name, label, fallback, options, fields, onChange }: Props & { name: string; label: string; fallback: string; options: [string, string][] }) {
+function Choice({
+  name,
+  label,
+  fallback,
+  options,
+  fields,
+  onChange,
+}: Props & { name: string; label: string; fallback: string; options: [string, string][] }) {
   return (
     <label className="flex flex-col gap-1 text-sm">
       <span className="font-medium">{label}</span>
-      <select value={fields[name] ?? fallback} onChange={(e) => onChange({ ...fields, [name]: e.target.value })} className="rounded-lg border border-line bg-white px-3 py-2">
+      <select
+        value={fields[name] ?? fallback}
+        onChange={(e) => onChange({ ...fields, [name]: e.target.value })}
+        className="rounded-lg border border-line bg-white px-3 py-2"
+      >
         {options.map(([value, text]) => (
           <option key={value} value={value}>
             {text}
@@ -39,7 +61,13 @@ export function RampInputs(p: Props) {
   return (
     <>
       <NumberInput {...p} name="bestOneMinuteW" label="Best one-minute power (W)" inputMode="decimal" />
-      <NumberInput {...p} name="rampRateWPerMin" label="Ramp rate (W added per minute)" inputMode="decimal" placeholder="20" />
+      <NumberInput
+        {...p}
+        name="rampRateWPerMin"
+        label="Ramp rate (W added per minute)"
+        inputMode="decimal"
+        placeholder="20"
+      />
     </>
   );
 }
@@ -60,7 +88,16 @@ export function EightMinuteInputs(p: Props) {
 export function HrThirtyInputs(p: Props) {
   return (
     <>
-      <Choice {...p} name="sport" label="Sport" fallback="bike" options={[["bike", "Bike"], ["run", "Run"]]} />
+      <Choice
+        {...p}
+        name="sport"
+        label="Sport"
+        fallback="bike"
+        options={[
+          ["bike", "Bike"],
+          ["run", "Run"],
+        ]}
+      />
       <NumberInput {...p} name="meanHr" label="Mean heart rate, last 20 minutes (bpm)" inputMode="numeric" />
     </>
   );
@@ -87,7 +124,17 @@ export function SwimPairInputs(p: Props) {
 export function ManualInputs(p: Props) {
   return (
     <>
-      <Choice {...p} name="sport" label="Sport" fallback="bike" options={[["bike", "Bike"], ["run", "Run"], ["swim", "Swim"]]} />
+      <Choice
+        {...p}
+        name="sport"
+        label="Sport"
+        fallback="bike"
+        options={[
+          ["bike", "Bike"],
+          ["run", "Run"],
+          ["swim", "Swim"],
+        ]}
+      />
       <Choice
         {...p}
         name="metric"
@@ -104,24 +151,44 @@ export function ManualInputs(p: Props) {
   );
 }
 
-export function CriticalPowerInputs({ efforts, onChange }: { efforts: Effort[]; onChange: (efforts: Effort[]) => void }) {
-  const edit = (i: number, change: Partial<Effort>) => onChange(efforts.map((x, k) => (k === i ? { ...x, ...change } : x)));
+export function CriticalPowerInputs({
+  efforts,
+  onChange,
+}: {
+  efforts: Effort[];
+  onChange: (efforts: Effort[]) => void;
+}) {
+  const edit = (i: number, change: Partial<Effort>) =>
+    onChange(efforts.map((x, k) => (k === i ? { ...x, ...change } : x)));
   return (
     <>
       {efforts.map((e, i) => (
         <div key={i} className="grid grid-cols-2 gap-2 sm:col-span-2">
           <label className="flex flex-col gap-1 text-sm">
             <span className="font-medium">Effort {i + 1} duration</span>
-            <input value={e.duration} onChange={(ev) => edit(i, { duration: ev.target.value })} className="num rounded-lg border border-line px-3 py-2" />
+            <input
+              value={e.duration}
+              onChange={(ev) => edit(i, { duration: ev.target.value })}
+              className="num rounded-lg border border-line px-3 py-2"
+            />
           </label>
           <label className="flex flex-col gap-1 text-sm">
             <span className="font-medium">Effort {i + 1} mean power (W)</span>
-            <input value={e.meanW} inputMode="decimal" onChange={(ev) => edit(i, { meanW: ev.target.value })} className="num rounded-lg border border-line px-3 py-2" />
+            <input
+              value={e.meanW}
+              inputMode="decimal"
+              onChange={(ev) => edit(i, { meanW: ev.target.value })}
+              className="num rounded-lg border border-line px-3 py-2"
+            />
           </label>
         </div>
       ))}
       {efforts.length < 4 && (
-        <button type="button" className={buttonClass("ghost", "justify-self-start")} onClick={() => onChange([...efforts, { duration: "6:00", meanW: "" }])}>
+        <button
+          type="button"
+          className={buttonClass("ghost", "justify-self-start")}
+          onClick={() => onChange([...efforts, { duration: "6:00", meanW: "" }])}
+        >
           + Add an effort
         </button>
       )}
@@ -144,6 +211,7 @@ export const TYPED_INPUTS: Record<Exclude<ProtocolKey, "critical_power">, (p: Pr
 export function typedInputs(protocol: ProtocolKey, fields: TypedFields, efforts: Effort[]) {
   if (protocol === "critical_power") return { efforts: efforts.filter((e) => e.meanW !== "") };
   if (protocol === "hr_thirty") return { sport: fields.sport ?? "bike", meanHr: fields.meanHr };
-  if (protocol === "manual") return { sport: fields.sport ?? "bike", metric: fields.metric ?? "power", value: fields.value };
+  if (protocol === "manual")
+    return { sport: fields.sport ?? "bike", metric: fields.metric ?? "power", value: fields.value };
   return fields;
 }

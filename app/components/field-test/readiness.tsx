@@ -5,7 +5,17 @@ import { READINESS } from "~/lib/protocols";
 export type Answer = "yes" | "no" | null;
 
 /** The screening a maximal test asks for before anyone goes all-out; the server refuses a save without it. */
-export function ReadinessCard({ answers, onAnswers, stopRead, onStopRead }: { answers: Answer[]; onAnswers: (a: Answer[]) => void; stopRead: boolean; onStopRead: (read: boolean) => void }) {
+export function ReadinessCard({
+  answers,
+  onAnswers,
+  stopRead,
+  onStopRead,
+}: {
+  answers: Answer[];
+  onAnswers: (a: Answer[]) => void;
+  stopRead: boolean;
+  onStopRead: (read: boolean) => void;
+}) {
   return (
     <Card className="border-brick/40" aria-labelledby="readiness-heading">
       <h2 id="readiness-heading" className="font-semibold text-brick">
@@ -19,7 +29,13 @@ export function ReadinessCard({ answers, onAnswers, stopRead, onStopRead }: { an
             <span className="flex gap-3" role="radiogroup" aria-label={q}>
               {(["no", "yes"] as const).map((a) => (
                 <label key={a} className="flex items-center gap-1">
-                  <input type="radio" name={`q${i}`} checked={answers[i] === a} onChange={() => onAnswers(answers.map((x, k) => (k === i ? a : x)))} /> {a}
+                  <input
+                    type="radio"
+                    name={`q${i}`}
+                    checked={answers[i] === a}
+                    onChange={() => onAnswers(answers.map((x, k) => (k === i ? a : x)))}
+                  />{" "}
+                  {a}
                 </label>
               ))}
             </span>
@@ -40,7 +56,8 @@ export function ReadinessCard({ answers, onAnswers, stopRead, onStopRead }: { an
         </ul>
         <p className="mt-2 text-xs text-ink-soft">{READINESS.stopAdvice}</p>
         <label className="mt-3 flex items-center gap-2 font-medium">
-          <input type="checkbox" checked={stopRead} onChange={(e) => onStopRead(e.target.checked)} /> I have read the stop signs
+          <input type="checkbox" checked={stopRead} onChange={(e) => onStopRead(e.target.checked)} /> I have read the
+          stop signs
         </label>
       </div>
     </Card>

@@ -11,26 +11,81 @@ const METRICS: [Metric, string][] = [
   ["pace", "Pace"],
 ];
 
-export function BlockFields({ block, onChange, err, label }: { block: Block; onChange: (b: Block) => void; err: (p: string) => string | undefined; label: string }) {
+export function BlockFields({
+  block,
+  onChange,
+  err,
+  label,
+}: {
+  block: Block;
+  onChange: (b: Block) => void;
+  err: (p: string) => string | undefined;
+  label: string;
+}) {
   switch (block.kind) {
     case "warmup":
     case "steady":
     case "cooldown":
       return (
         <>
-          <DurationInput label="Duration" aria={`${label} duration`} seconds={block.durationS} onChange={(durationS) => onChange({ ...block, durationS })} error={err("durationS")} />
-          <MetricSelect value={block.target.metric} onChange={(metric) => onChange({ ...block, target: { ...block.target, metric } })} aria={`${label} metric`} />
-          <PctInput label="Low %" aria={`${label} low percent`} value={block.target.lowPct} onChange={(lowPct) => onChange({ ...block, target: { ...block.target, lowPct: lowPct ?? NaN } })} error={err("target.lowPct")} />
-          <PctInput label="High % (optional)" aria={`${label} high percent`} value={block.target.highPct ?? null} optional onChange={(highPct) => onChange({ ...block, target: { ...block.target, highPct } })} error={err("target.highPct")} />
+          <DurationInput
+            label="Duration"
+            aria={`${label} duration`}
+            seconds={block.durationS}
+            onChange={(durationS) => onChange({ ...block, durationS })}
+            error={err("durationS")}
+          />
+          <MetricSelect
+            value={block.target.metric}
+            onChange={(metric) => onChange({ ...block, target: { ...block.target, metric } })}
+            aria={`${label} metric`}
+          />
+          <PctInput
+            label="Low %"
+            aria={`${label} low percent`}
+            value={block.target.lowPct}
+            onChange={(lowPct) => onChange({ ...block, target: { ...block.target, lowPct: lowPct ?? NaN } })}
+            error={err("target.lowPct")}
+          />
+          <PctInput
+            label="High % (optional)"
+            aria={`${label} high percent`}
+            value={block.target.highPct ?? null}
+            optional
+            onChange={(highPct) => onChange({ ...block, target: { ...block.target, highPct } })}
+            error={err("target.highPct")}
+          />
         </>
       );
     case "ramp":
       return (
         <>
-          <DurationInput label="Duration" aria={`${label} duration`} seconds={block.durationS} onChange={(durationS) => onChange({ ...block, durationS })} error={err("durationS")} />
-          <MetricSelect value={block.metric} onChange={(metric) => onChange({ ...block, metric })} aria={`${label} metric`} />
-          <PctInput label="From %" aria={`${label} from percent`} value={block.fromPct} onChange={(fromPct) => onChange({ ...block, fromPct: fromPct ?? NaN })} error={err("fromPct")} />
-          <PctInput label="To %" aria={`${label} to percent`} value={block.toPct} onChange={(toPct) => onChange({ ...block, toPct: toPct ?? NaN })} error={err("toPct")} />
+          <DurationInput
+            label="Duration"
+            aria={`${label} duration`}
+            seconds={block.durationS}
+            onChange={(durationS) => onChange({ ...block, durationS })}
+            error={err("durationS")}
+          />
+          <MetricSelect
+            value={block.metric}
+            onChange={(metric) => onChange({ ...block, metric })}
+            aria={`${label} metric`}
+          />
+          <PctInput
+            label="From %"
+            aria={`${label} from percent`}
+            value={block.fromPct}
+            onChange={(fromPct) => onChange({ ...block, fromPct: fromPct ?? NaN })}
+            error={err("fromPct")}
+          />
+          <PctInput
+            label="To %"
+            aria={`${label} to percent`}
+            value={block.toPct}
+            onChange={(toPct) => onChange({ ...block, toPct: toPct ?? NaN })}
+            error={err("toPct")}
+          />
         </>
       );
     case "repeats":
@@ -50,17 +105,67 @@ export function BlockFields({ block, onChange, err, label }: { block: Block; onC
             />
             {err("count") && <span className="text-xs text-brick">{err("count")}</span>}
           </label>
-          <DurationInput label="Work" aria={`${label} work duration`} seconds={block.work.durationS} onChange={(durationS) => onChange({ ...block, work: { ...block.work, durationS } })} error={err("work.durationS")} />
-          <PctInput label="Work low %" aria={`${label} work low percent`} value={block.work.target.lowPct} onChange={(lowPct) => onChange({ ...block, work: { ...block.work, target: { ...block.work.target, lowPct: lowPct ?? NaN } } })} error={err("work.target.lowPct")} />
-          <PctInput label="Work high %" aria={`${label} work high percent`} optional value={block.work.target.highPct ?? null} onChange={(highPct) => onChange({ ...block, work: { ...block.work, target: { ...block.work.target, highPct } } })} error={err("work.target.highPct")} />
-          <MetricSelect value={block.work.target.metric} onChange={(metric) => onChange({ ...block, work: { ...block.work, target: { ...block.work.target, metric } }, recovery: { ...block.recovery, target: block.recovery.target ? { ...block.recovery.target, metric } : null } })} aria={`${label} metric`} />
-          <DurationInput label="Recovery" aria={`${label} recovery duration`} seconds={block.recovery.durationS} onChange={(durationS) => onChange({ ...block, recovery: { ...block.recovery, durationS } })} error={err("recovery.durationS")} />
+          <DurationInput
+            label="Work"
+            aria={`${label} work duration`}
+            seconds={block.work.durationS}
+            onChange={(durationS) => onChange({ ...block, work: { ...block.work, durationS } })}
+            error={err("work.durationS")}
+          />
+          <PctInput
+            label="Work low %"
+            aria={`${label} work low percent`}
+            value={block.work.target.lowPct}
+            onChange={(lowPct) =>
+              onChange({ ...block, work: { ...block.work, target: { ...block.work.target, lowPct: lowPct ?? NaN } } })
+            }
+            error={err("work.target.lowPct")}
+          />
+          <PctInput
+            label="Work high %"
+            aria={`${label} work high percent`}
+            optional
+            value={block.work.target.highPct ?? null}
+            onChange={(highPct) =>
+              onChange({ ...block, work: { ...block.work, target: { ...block.work.target, highPct } } })
+            }
+            error={err("work.target.highPct")}
+          />
+          <MetricSelect
+            value={block.work.target.metric}
+            onChange={(metric) =>
+              onChange({
+                ...block,
+                work: { ...block.work, target: { ...block.work.target, metric } },
+                recovery: {
+                  ...block.recovery,
+                  target: block.recovery.target ? { ...block.recovery.target, metric } : null,
+                },
+              })
+            }
+            aria={`${label} metric`}
+          />
+          <DurationInput
+            label="Recovery"
+            aria={`${label} recovery duration`}
+            seconds={block.recovery.durationS}
+            onChange={(durationS) => onChange({ ...block, recovery: { ...block.recovery, durationS } })}
+            error={err("recovery.durationS")}
+          />
           <PctInput
             label="Recovery % (optional)"
             aria={`${label} recovery percent`}
             optional
             value={block.recovery.target?.lowPct ?? null}
-            onChange={(lowPct) => onChange({ ...block, recovery: { ...block.recovery, target: lowPct === null ? null : { metric: block.work.target.metric, lowPct } } })}
+            onChange={(lowPct) =>
+              onChange({
+                ...block,
+                recovery: {
+                  ...block.recovery,
+                  target: lowPct === null ? null : { metric: block.work.target.metric, lowPct },
+                },
+              })
+            }
             error={err("recovery.target.lowPct")}
           />
         </>
@@ -68,17 +173,41 @@ export function BlockFields({ block, onChange, err, label }: { block: Block; onC
     case "open":
       return (
         <>
-          <DurationInput label="Duration" aria={`${label} duration`} seconds={block.durationS} onChange={(durationS) => onChange({ ...block, durationS })} error={err("durationS")} />
+          <DurationInput
+            label="Duration"
+            aria={`${label} duration`}
+            seconds={block.durationS}
+            onChange={(durationS) => onChange({ ...block, durationS })}
+            error={err("durationS")}
+          />
           <label className="col-span-1 flex flex-col gap-1 text-sm sm:col-span-3">
             <span className="font-medium">Cue</span>
-            <input value={block.cue ?? ""} onChange={(e) => onChange({ ...block, cue: e.target.value })} maxLength={200} className="rounded-lg border border-line px-2 py-1.5" aria-label={`${label} cue`} />
+            <input
+              value={block.cue ?? ""}
+              onChange={(e) => onChange({ ...block, cue: e.target.value })}
+              maxLength={200}
+              className="rounded-lg border border-line px-2 py-1.5"
+              aria-label={`${label} cue`}
+            />
           </label>
         </>
       );
   }
 }
 
-function DurationInput({ label, aria, seconds, onChange, error }: { label: string; aria: string; seconds: number; onChange: (s: number) => void; error?: string }) {
+function DurationInput({
+  label,
+  aria,
+  seconds,
+  onChange,
+  error,
+}: {
+  label: string;
+  aria: string;
+  seconds: number;
+  onChange: (s: number) => void;
+  error?: string;
+}) {
   const [text, setText] = useState(Number.isFinite(seconds) ? formatClock(seconds) : "");
   const [bad, setBad] = useState(false);
   const message = bad ? "Use m:ss or h:mm:ss." : error;
@@ -99,12 +228,30 @@ function DurationInput({ label, aria, seconds, onChange, error }: { label: strin
         }}
         className={`num rounded-lg border px-2 py-1.5 ${message ? "border-brick" : "border-line"}`}
       />
-      {message ? <span className="text-xs text-brick">{message}</span> : <span className="text-xs text-ink-soft">{Number.isFinite(seconds) ? formatMinutes(seconds) : ""}</span>}
+      {message ? (
+        <span className="text-xs text-brick">{message}</span>
+      ) : (
+        <span className="text-xs text-ink-soft">{Number.isFinite(seconds) ? formatMinutes(seconds) : ""}</span>
+      )}
     </label>
   );
 }
 
-function PctInput({ label, aria, value, onChange, error, optional }: { label: string; aria: string; value: number | null; onChange: (v: number | null) => void; error?: string; optional?: boolean }) {
+function PctInput({
+  label,
+  aria,
+  value,
+  onChange,
+  error,
+  optional,
+}: {
+  label: string;
+  aria: string;
+  value: number | null;
+  onChange: (v: number | null) => void;
+  error?: string;
+  optional?: boolean;
+}) {
   return (
     <label className="flex flex-col gap-1 text-sm">
       <span className="font-medium">{label}</span>
@@ -128,7 +275,12 @@ function MetricSelect({ value, onChange, aria }: { value: Metric; onChange: (m: 
   return (
     <label className="flex flex-col gap-1 text-sm">
       <span className="font-medium">Target by</span>
-      <select value={value} onChange={(e) => onChange(e.target.value as Metric)} aria-label={aria} className="rounded-lg border border-line bg-white px-2 py-1.5">
+      <select
+        value={value}
+        onChange={(e) => onChange(e.target.value as Metric)}
+        aria-label={aria}
+        className="rounded-lg border border-line bg-white px-2 py-1.5"
+      >
         {METRICS.map(([m, l]) => (
           <option key={m} value={m}>
             {l}

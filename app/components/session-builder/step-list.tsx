@@ -25,7 +25,15 @@ export const keyed = (block: Block): Keyed => ({ key: `b${nextKey++}`, block });
 type Errors = Record<string, string | undefined>;
 
 /** The session's steps in order: drag (pointer or keyboard) or the arrow buttons reorder them, each edits in place. */
-export function StepList({ items, setItems, errors }: { items: Keyed[]; setItems: React.Dispatch<React.SetStateAction<Keyed[]>>; errors: Errors }) {
+export function StepList({
+  items,
+  setItems,
+  errors,
+}: {
+  items: Keyed[];
+  setItems: React.Dispatch<React.SetStateAction<Keyed[]>>;
+  errors: Errors;
+}) {
   // The keyboard walks the list by position, not by measured rectangles: the geometric stepper scrolled the page on
   // its own and skipped or repeated positions once the blocks sat below the fold.
   const keyTarget = useRef<{ from: number; to: number; tops: DOMRect[] } | null>(null);
@@ -50,7 +58,10 @@ export function StepList({ items, setItems, errors }: { items: Keyed[]; setItems
     }),
     [],
   );
-  const sensors = useSensors(useSensor(PointerSensor, { activationConstraint: { distance: 4 } }), useSensor(StepKeyboardSensor, keyboardOptions));
+  const sensors = useSensors(
+    useSensor(PointerSensor, { activationConstraint: { distance: 4 } }),
+    useSensor(StepKeyboardSensor, keyboardOptions),
+  );
   const collision: CollisionDetection = (args) => {
     const t = keyTarget.current;
     if (!args.pointerCoordinates && t) return [{ id: liveItems.current[t.to].key }];
@@ -59,23 +70,36 @@ export function StepList({ items, setItems, errors }: { items: Keyed[]; setItems
   const onDragStart = ({ active, activatorEvent }: DragStartEvent) => {
     if (!(activatorEvent instanceof KeyboardEvent)) return;
     const from = items.findIndex((i) => i.key === active.id);
-    const tops = [...document.querySelectorAll<HTMLElement>('[data-testid="block"]')].map((el) => el.getBoundingClientRect());
+    const tops = [...document.querySelectorAll<HTMLElement>('[data-testid="block"]')].map((el) =>
+      el.getBoundingClientRect(),
+    );
     keyTarget.current = { from, to: from, tops };
   };
   const position = (id: string | number) => items.findIndex((i) => i.key === id) + 1;
   const announcements: Announcements = {
-    onDragStart: ({ active }) => `Picked up block ${position(active.id)} of ${items.length}. Use the arrow keys to move it, Space to drop, Escape to cancel.`,
-    onDragOver: ({ active, over }) => (over ? `Block ${position(active.id)} is over position ${position(over.id)}.` : `Block ${position(active.id)} is outside the list.`),
+    onDragStart: ({ active }) =>
+      `Picked up block ${position(active.id)} of ${items.length}. Use the arrow keys to move it, Space to drop, Escape to cancel.`,
+    onDragOver: ({ active, over }) =>
+      over
+        ? `Block ${position(active.id)} is over position ${position(over.id)}.`
+        : `Block ${position(active.id)} is outside the list.`,
     onDragEnd: ({ over }) => (over ? `Block dropped at position ${position(over.id)}.` : "Block dropped where it was."),
     onDragCancel: () => "Moving cancelled; the block is back where it was.",
   };
   const onDragEnd = ({ active, over }: DragEndEvent) => {
     keyTarget.current = null;
     if (!over || active.id === over.id) return;
-    setItems((list) => arrayMove(list, list.findIndex((i) => i.key === active.id), list.findIndex((i) => i.key === over.id)));
+    setItems((list) =>
+      arrayMove(
+        list,
+        list.findIndex((i) => i.key === active.id),
+        list.findIndex((i) => i.key === over.id),
+      ),
+    );
   };
 
-  const update = (key: string, block: Block) => setItems((list) => list.map((i) => (i.key === key ? { key, block } : i)));
+  const update = (key: string, block: Block) =>
+    setItems((list) => list.map((i) => (i.key === key ? { key, block } : i)));
   const remove = (key: string) => setItems((list) => list.filter((i) => i.key !== key));
   const duplicate = (key: string) =>
     setItems((list) => {
@@ -90,34 +114,34 @@ export function StepList({ items, setItems, errors }: { items: Keyed[]; setItems
     });
 
   return (
-          <DndContext
-            id="session-blocks"
-            sensors={sensors}
-            collisionDetection={collision}
-            onDragStart={onDragStart}
-            onDragEnd={onDragEnd}
-            onDragCancel={() => (keyTarget.current = null)}
-            accessibility={{ announcements }}
-          >
-            <SortableContext items={items.map((i) => i.key)} strategy={verticalListSortingStrategy}>
-              <ol className="flex flex-col gap-2" aria-label="Blocks of this session">
-                {items.map((item, index) => (
-                  <SortableBlock
-                    key={item.key}
-                    id={item.key}
-                    index={index}
-                    count={items.length}
-                    block={item.block}
-                    errors={errors}
-                    onChange={(b) => update(item.key, b)}
-                    onRemove={() => remove(item.key)}
-                    onDuplicate={() => duplicate(item.key)}
-                    onMove={(by) => move(item.key, by)}
-                  />
-                ))}
-              </ol>
-            </SortableContext>
-          </DndContext>
+    <DndContext
+      id="session-blocks"
+      sensors={sensors}
+      collisionDetection={collision}
+      onDragStart={onDragStart}
+      onDragEnd={onDragEnd}
+      onDragCancel={() => (keyTarget.current = null)}
+      accessibility={{ announcements }}
+    >
+      <SortableContext items={items.map((i) => i.key)} strategy={verticalListSortingStrategy}>
+        <ol className="flex flex-col gap-2" aria-label="Blocks of this session">
+          {items.map((item, index) => (
+            <SortableBlock
+              key={item.key}
+              id={item.key}
+              index={index}
+              count={items.length}
+              block={item.block}
+              errors={errors}
+              onChange={(b) => update(item.key, b)}
+              onRemove={() => remove(item.key)}
+              onDuplicate={() => duplicate(item.key)}
+              onMove={(by) => move(item.key, by)}
+            />
+          ))}
+        </ol>
+      </SortableContext>
+    </DndContext>
   );
 }
 
@@ -132,7 +156,9 @@ function SortableBlock(props: {
   onDuplicate: () => void;
   onMove: (by: -1 | 1) => void;
 }) {
-  const { attributes, listeners, setNodeRef, setActivatorNodeRef, transform, transition, isDragging } = useSortable({ id: props.id });
+  const { attributes, listeners, setNodeRef, setActivatorNodeRef, transform, transition, isDragging } = useSortable({
+    id: props.id,
+  });
   const { block, index } = props;
   const prefix = `blocks.${index}`;
   const err = (path: string) => props.errors[`${prefix}.${path}`];
@@ -159,18 +185,44 @@ function SortableBlock(props: {
         <span className="font-medium">
           {index + 1}. {BLOCK_LABEL[block.kind]}
         </span>
-        <span className="num hidden flex-1 truncate text-sm text-ink-soft sm:block">{Object.keys(props.errors).some((k) => k.startsWith(`${prefix}.`) && props.errors[k]) ? "" : safeDescribe(block)}</span>
+        <span className="num hidden flex-1 truncate text-sm text-ink-soft sm:block">
+          {Object.keys(props.errors).some((k) => k.startsWith(`${prefix}.`) && props.errors[k])
+            ? ""
+            : safeDescribe(block)}
+        </span>
         <span className="ml-auto flex gap-1">
-          <button type="button" onClick={() => props.onMove(-1)} disabled={index === 0} className={buttonClass("ghost", "px-2 py-1")} aria-label={`Move block ${index + 1} up`}>
+          <button
+            type="button"
+            onClick={() => props.onMove(-1)}
+            disabled={index === 0}
+            className={buttonClass("ghost", "px-2 py-1")}
+            aria-label={`Move block ${index + 1} up`}
+          >
             ↑
           </button>
-          <button type="button" onClick={() => props.onMove(1)} disabled={index === props.count - 1} className={buttonClass("ghost", "px-2 py-1")} aria-label={`Move block ${index + 1} down`}>
+          <button
+            type="button"
+            onClick={() => props.onMove(1)}
+            disabled={index === props.count - 1}
+            className={buttonClass("ghost", "px-2 py-1")}
+            aria-label={`Move block ${index + 1} down`}
+          >
             ↓
           </button>
-          <button type="button" onClick={props.onDuplicate} className={buttonClass("ghost", "px-2 py-1")} aria-label={`Duplicate block ${index + 1}`}>
+          <button
+            type="button"
+            onClick={props.onDuplicate}
+            className={buttonClass("ghost", "px-2 py-1")}
+            aria-label={`Duplicate block ${index + 1}`}
+          >
             Copy
           </button>
-          <button type="button" onClick={props.onRemove} className={buttonClass("ghost", "px-2 py-1 text-brick")} aria-label={`Delete block ${index + 1}`}>
+          <button
+            type="button"
+            onClick={props.onRemove}
+            className={buttonClass("ghost", "px-2 py-1 text-brick")}
+            aria-label={`Delete block ${index + 1}`}
+          >
             Delete
           </button>
         </span>
@@ -189,4 +241,3 @@ function safeDescribe(b: Block) {
     return "";
   }
 }
-

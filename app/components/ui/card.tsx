@@ -2,7 +2,15 @@ export function Card({ className = "", ...props }: React.HTMLAttributes<HTMLElem
   return <section className={`rounded-xl border border-line bg-white p-5 shadow-sm ${className}`} {...props} />;
 }
 
-export function PageHeader({ title, lead, actions }: { title: string; lead?: React.ReactNode; actions?: React.ReactNode }) {
+export function PageHeader({
+  title,
+  lead,
+  actions,
+}: {
+  title: string;
+  lead?: React.ReactNode;
+  actions?: React.ReactNode;
+}) {
   return (
     <div className="mb-6 flex flex-wrap items-end justify-between gap-4">
       <div>

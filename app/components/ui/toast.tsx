@@ -12,7 +12,12 @@ export function Toast({ toast }: { toast: ToastData | null }) {
   const [dismissed, setDismissed] = useState<ToastData | null>(null);
   const shown = toast && toast !== dismissed ? toast : null;
   return (
-    <div className="pointer-events-none fixed inset-x-0 bottom-3 z-50 flex justify-center px-4" role="status" aria-live="polite" data-testid="toast">
+    <div
+      className="pointer-events-none fixed inset-x-0 bottom-3 z-50 flex justify-center px-4"
+      role="status"
+      aria-live="polite"
+      data-testid="toast"
+    >
       {shown && (
         <div
           className={`pointer-events-auto flex max-w-xl items-start gap-3 rounded-lg border px-4 py-3 text-sm shadow-md ${
@@ -20,7 +25,12 @@ export function Toast({ toast }: { toast: ToastData | null }) {
           }`}
         >
           <p className="flex-1">{shown.message}</p>
-          <button type="button" className="text-ink-soft hover:text-ink" onClick={() => setDismissed(toast)} aria-label="Dismiss">
+          <button
+            type="button"
+            className="text-ink-soft hover:text-ink"
+            onClick={() => setDismissed(toast)}
+            aria-label="Dismiss"
+          >
             ×
           </button>
         </div>

@@ -7,8 +7,7 @@ import { z } from "zod";
 export type FieldErrors = Partial<Record<string, string>>;
 
 export type FormResult<T> =
-  | { ok: true; data: T }
-  | { ok: false; fieldErrors: FieldErrors; values: Record<string, string> };
+  { ok: true; data: T } | { ok: false; fieldErrors: FieldErrors; values: Record<string, string> };
 
 /** Validates a submitted form; on failure returns the first message per field and the values to refill. */
 export function parseForm<S extends z.ZodType>(schema: S, form: FormData): FormResult<z.infer<S>> {
@@ -83,7 +82,10 @@ export const signInSchema = z.object({
 });
 
 export const twoStepSchema = z.object({
-  code: z.string({ error: "Enter the code from your app, or a recovery code." }).trim().min(1, "Enter the code from your app, or a recovery code."),
+  code: z
+    .string({ error: "Enter the code from your app, or a recovery code." })
+    .trim()
+    .min(1, "Enter the code from your app, or a recovery code."),
 });
 
 export const resetSchema = z
@@ -112,12 +114,18 @@ const optionalNumber = (min: number, max: number, label: string) =>
     .trim()
     .optional()
     .transform((v) => (v ? Number(v.replace(",", ".")) : null))
-    .refine((v) => v === null || (Number.isFinite(v) && v >= min && v <= max), `${label} must be between ${min} and ${max}.`);
+    .refine(
+      (v) => v === null || (Number.isFinite(v) && v >= min && v <= max),
+      `${label} must be between ${min} and ${max}.`,
+    );
 
 /** What a coach records about an athlete's body: heart-rate load and power-to-weight need it. */
 export const athleteProfileSchema = z
   .object({
-    sex: z.enum(["", "female", "male"]).optional().transform((v) => (v ? v : null)),
+    sex: z
+      .enum(["", "female", "male"])
+      .optional()
+      .transform((v) => (v ? v : null)),
     weightKg: optionalNumber(25, 250, "Weight (kg)"),
     restingHr: optionalNumber(25, 120, "Resting heart rate"),
     maxHr: optionalNumber(100, 230, "Maximum heart rate"),

@@ -7,7 +7,11 @@ import type { FormReply } from "./reply";
  * conform's form state for a schema the action validates too: with scripts the same messages appear on leaving a
  * field and keep up while it is corrected; without them the action's reply (`lastResult`) fills the same places.
  */
-export function useSchemaForm<S extends z.ZodObject>(schema: S, lastResult: FormReply | null | undefined, options: { id?: string; defaultValue?: Partial<z.input<S>> } = {}) {
+export function useSchemaForm<S extends z.ZodObject>(
+  schema: S,
+  lastResult: FormReply | null | undefined,
+  options: { id?: string; defaultValue?: Partial<z.input<S>> } = {},
+) {
   return useForm<z.input<S>, z.output<S>>({
     id: options.id,
     lastResult,

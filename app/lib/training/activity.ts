@@ -106,7 +106,8 @@ function withLaps(activity: Activity, laps: RawLap[], points: RawPoint[]): Activ
 function asText(data: Uint8Array | string): string {
   if (typeof data === "string") return data;
   const text = new TextDecoder("utf-8", { fatal: false }).decode(data);
-  if (text.includes("\u0000")) throw new TrainingInputError("unreadable_file", "This is not a text file; is it a FIT file with the wrong name?");
+  if (text.includes("\u0000"))
+    throw new TrainingInputError("unreadable_file", "This is not a text file; is it a FIT file with the wrong name?");
   return text;
 }
 
@@ -139,7 +140,13 @@ function readCsv(text: string): { points: RawPoint[]; startTime: string | null; 
   // Array mode is markedly faster than papaparse's header mode; columns are found by index instead.
   const parsed = Papa.parse<string[]>(text.trim(), { skipEmptyLines: true });
   const [header = [], ...body] = parsed.data;
-  const fields = header.map((h) => String(h).trim().toLowerCase().replace(/[\s-]+/g, "_").replace(/[()/]/g, ""));
+  const fields = header.map((h) =>
+    String(h)
+      .trim()
+      .toLowerCase()
+      .replace(/[\s-]+/g, "_")
+      .replace(/[()/]/g, ""),
+  );
   const pick = (names: readonly string[]) => {
     const name = names.find((n) => fields.includes(n));
     return name === undefined ? undefined : fields.indexOf(name);
@@ -155,7 +162,13 @@ function readCsv(text: string): { points: RawPoint[]; startTime: string | null; 
     distanceKm: pick(CSV_HEADERS.distanceKm),
     lap: pick(CSV_HEADERS.lap),
   };
-  if (col.power === undefined && col.hr === undefined && col.speed === undefined && col.speedKmh === undefined && col.cadence === undefined) {
+  if (
+    col.power === undefined &&
+    col.hr === undefined &&
+    col.speed === undefined &&
+    col.speedKmh === undefined &&
+    col.cadence === undefined
+  ) {
     throw new TrainingInputError(
       "unreadable_file",
       `No power, heart-rate, cadence or speed column found. Columns seen: ${fields.slice(0, 8).join(", ") || "none"}.`,
@@ -199,7 +212,8 @@ function readCsv(text: string): { points: RawPoint[]; startTime: string | null; 
     }
     points.push(p);
   });
-  if (points.length === 0) throw new TrainingInputError("unreadable_file", "No row of the CSV file has a readable time.");
+  if (points.length === 0)
+    throw new TrainingInputError("unreadable_file", "No row of the CSV file has a readable time.");
   return { points, startTime: startMs === null ? null : new Date(startMs).toISOString(), laps };
 }
 
@@ -213,9 +227,11 @@ const scale = (v: number | undefined, k: number) => (v === undefined ? undefined
  * parser on many shapes of file.
  */
 export function readGpx(text: string): { points: RawPoint[]; startTime: string | null; laps: RawLap[] } {
-  if (!/<(?:[\w.-]+:)?gpx[\s>]/i.test(text)) throw new TrainingInputError("unreadable_file", "This is not a GPX file (no <gpx> element).");
+  if (!/<(?:[\w.-]+:)?gpx[\s>]/i.test(text))
+    throw new TrainingInputError("unreadable_file", "This is not a GPX file (no <gpx> element).");
   // Only the file's end is looked at: an end-anchored pattern over a multi-megabyte text would try every position.
-  if (!/<\/(?:[\w.-]+:)?gpx\s*>\s*$/.test(text.trimEnd().slice(-1024))) throw notWellFormed("the file ends before its closing </gpx> tag");
+  if (!/<\/(?:[\w.-]+:)?gpx\s*>\s*$/.test(text.trimEnd().slice(-1024)))
+    throw notWellFormed("the file ends before its closing </gpx> tag");
   const open = /<(?:[\w.-]+:)?trkpt\b([^>]*)>/g;
   let startMs: number | null = null;
   let prev: { lat: number; lon: number; t: number } | null = null;
@@ -277,7 +293,8 @@ export function readGpx(text: string): { points: RawPoint[]; startTime: string |
   return { points, startTime: new Date(startMs!).toISOString(), laps };
 }
 
-const notWellFormed = (why: string) => new TrainingInputError("unreadable_file", `The GPX file is not well-formed XML: ${why}.`);
+const notWellFormed = (why: string) =>
+  new TrainingInputError("unreadable_file", `The GPX file is not well-formed XML: ${why}.`);
 
 function isClosingTag(text: string, nameEnd: number): boolean {
   let i = nameEnd - 1;
@@ -323,7 +340,10 @@ function readFit(bytes: Uint8Array): { points: RawPoint[]; startTime: string | n
   }
   const dataSize = bytes[4] | (bytes[5] << 8) | (bytes[6] << 16) | (bytes[7] << 24);
   if (bytes[0] + dataSize > bytes.byteLength) {
-    throw new TrainingInputError("unreadable_file", "The FIT file is cut short: it ends before the data its header announces.");
+    throw new TrainingInputError(
+      "unreadable_file",
+      "The FIT file is cut short: it ends before the data its header announces.",
+    );
   }
   let parsed: any = null;
   let error: string | undefined;
@@ -333,7 +353,8 @@ function readFit(bytes: Uint8Array): { points: RawPoint[]; startTime: string | n
     error = err;
     parsed = data;
   });
-  if (error || !parsed) throw new TrainingInputError("unreadable_file", `The FIT file could not be read: ${error ?? "no data"}.`);
+  if (error || !parsed)
+    throw new TrainingInputError("unreadable_file", `The FIT file could not be read: ${error ?? "no data"}.`);
   const records: any[] = (parsed.records ?? []).filter((r: any) => r?.timestamp);
   if (records.length === 0) throw new TrainingInputError("empty_file", "The FIT file has no activity records.");
   // The parser gives Date objects already; copying each through new Date() only to read it back cost a
@@ -400,7 +421,8 @@ function resample(raw: RawPoint[], format: Activity["meta"]["format"], startTime
     return false;
   });
   const channels = CHANNELS.filter((_, c) => present[c]);
-  if (channels.length === 0) throw new TrainingInputError("unreadable_file", "The file has no power, heart-rate, cadence or speed readings.");
+  if (channels.length === 0)
+    throw new TrainingInputError("unreadable_file", "The file has no power, heart-rate, cadence or speed readings.");
   const t0 = ts[at(0)];
   const last = Math.floor(ts[at(kept - 1)] - t0);
   if (last > MAX_DURATION_S) throw new TrainingInputError("out_of_range", "The file lasts longer than 24 hours.");

@@ -7,7 +7,10 @@ type Series = readonly Sample[];
 export function powerOf(series: Series): Float64Array {
   if (!series.length) throw new TrainingInputError("empty_file", "The activity has no samples.");
   if (!series.some((s) => typeof s.power === "number")) {
-    throw new TrainingInputError("no_power", "This file has no power readings; a power test needs a power meter's data.");
+    throw new TrainingInputError(
+      "no_power",
+      "This file has no power readings; a power test needs a power meter's data.",
+    );
   }
   const out = new Float64Array(series.length);
   for (let i = 0; i < series.length; i++) out[i] = series[i].power ?? 0;
@@ -22,7 +25,8 @@ function prefixSums(values: Float64Array): Float64Array {
 
 function checkWindow(windowS: number, length: number) {
   requirePositive(windowS, "Window (s)");
-  if (!Number.isInteger(windowS)) throw new TrainingInputError("out_of_range", "The window must be a whole number of seconds.");
+  if (!Number.isInteger(windowS))
+    throw new TrainingInputError("out_of_range", "The window must be a whole number of seconds.");
   if (windowS > length) {
     throw new TrainingInputError("too_short", `The activity (${length} s) is shorter than the ${windowS} s window.`);
   }
@@ -55,10 +59,15 @@ export function bestEffort(series: Series, windowS: number): { startS: number; m
   return bestFromPrefix(prefixSums(power), windowS);
 }
 
-export const STANDARD_WINDOWS_S = [1, 5, 10, 15, 20, 30, 45, 60, 90, 120, 180, 240, 300, 360, 480, 600, 720, 900, 1200, 1800, 2400, 3600] as const;
+export const STANDARD_WINDOWS_S = [
+  1, 5, 10, 15, 20, 30, 45, 60, 90, 120, 180, 240, 300, 360, 480, 600, 720, 900, 1200, 1800, 2400, 3600,
+] as const;
 
 /** Mean-maximal power for each window that fits in the activity (windows longer than it are left out). */
-export function powerCurve(series: Series, windowsS: readonly number[] = STANDARD_WINDOWS_S): { windowS: number; watts: number }[] {
+export function powerCurve(
+  series: Series,
+  windowsS: readonly number[] = STANDARD_WINDOWS_S,
+): { windowS: number; watts: number }[] {
   const power = powerOf(series);
   const prefix = prefixSums(power);
   return windowsS
@@ -159,7 +168,11 @@ export function detectRampTest(series: Series): RampDetection {
       if (better) winner = { stepS, boundary, means: run, rise, sd };
     }
   }
-  if (!winner) throw new TrainingInputError("not_a_ramp", "No ramp of at least five equal rising steps was found before the best minute.");
+  if (!winner)
+    throw new TrainingInputError(
+      "not_a_ramp",
+      "No ramp of at least five equal rising steps was found before the best minute.",
+    );
   const { stepS, boundary, means } = winner;
   const rises = means.slice(1).map((m, i) => m - means[i]);
   const stepW = rises.reduce((s, r) => s + r, 0) / rises.length;
@@ -193,11 +206,18 @@ export const EVEN_PACING_PCT = 3;
  * Splits a test window into equal parts and judges the pacing from the first and last part: even, rising
  * (negative split) or fading.
  */
-export function pacingSplits(series: Series, startS: number, windowS: number, parts = 3): { means: number[]; changePct: number; verdict: PacingVerdict } {
+export function pacingSplits(
+  series: Series,
+  startS: number,
+  windowS: number,
+  parts = 3,
+): { means: number[]; changePct: number; verdict: PacingVerdict } {
   const power = powerOf(series);
-  if (!Number.isInteger(startS) || startS < 0) throw new TrainingInputError("out_of_range", "The window start must be a whole second from 0.");
+  if (!Number.isInteger(startS) || startS < 0)
+    throw new TrainingInputError("out_of_range", "The window start must be a whole second from 0.");
   checkWindow(windowS, power.length - startS);
-  if (!Number.isInteger(parts) || parts < 2 || parts > windowS) throw new TrainingInputError("out_of_range", "Split the window into 2 or more parts.");
+  if (!Number.isInteger(parts) || parts < 2 || parts > windowS)
+    throw new TrainingInputError("out_of_range", "Split the window into 2 or more parts.");
   const prefix = prefixSums(power);
   const means: number[] = [];
   for (let k = 0; k < parts; k++) {
@@ -230,10 +250,16 @@ export function pacingAdvice(verdict: PacingVerdict, changePct: number): string 
  * Heart-rate drift over a window, first half against second half. With power, the drift of the power-to-heart-rate
  * ratio ((P/HR)₁ ÷ (P/HR)₂ − 1, in %, the usual aerobic decoupling figure); without power, the rise of mean heart rate.
  */
-export function heartRateDrift(series: Series, startS = 0, windowS = series.length - startS): { firstHr: number; secondHr: number; driftPct: number; basis: "power_to_hr" | "hr" } {
-  if (!series.some((s) => typeof s.hr === "number")) throw new TrainingInputError("no_heart_rate", "This file has no heart-rate readings.");
+export function heartRateDrift(
+  series: Series,
+  startS = 0,
+  windowS = series.length - startS,
+): { firstHr: number; secondHr: number; driftPct: number; basis: "power_to_hr" | "hr" } {
+  if (!series.some((s) => typeof s.hr === "number"))
+    throw new TrainingInputError("no_heart_rate", "This file has no heart-rate readings.");
   checkWindow(windowS, series.length - startS);
-  if (windowS < 120) throw new TrainingInputError("too_short", "Heart-rate drift needs a window of at least 2 minutes.");
+  if (windowS < 120)
+    throw new TrainingInputError("too_short", "Heart-rate drift needs a window of at least 2 minutes.");
   const half = Math.floor(windowS / 2);
   const mean = (from: number, to: number, key: "hr" | "power") => {
     let sum = 0;
@@ -249,12 +275,14 @@ export function heartRateDrift(series: Series, startS = 0, windowS = series.leng
   };
   const firstHr = mean(startS, startS + half, "hr");
   const secondHr = mean(startS + half, startS + 2 * half, "hr");
-  if (!(firstHr > 0) || !(secondHr > 0)) throw new TrainingInputError("no_heart_rate", "Heart rate is missing in part of the window.");
+  if (!(firstHr > 0) || !(secondHr > 0))
+    throw new TrainingInputError("no_heart_rate", "Heart rate is missing in part of the window.");
   const hasPower = series.some((s) => typeof s.power === "number" && s.power > 0);
   if (hasPower) {
     const p1 = mean(startS, startS + half, "power");
     const p2 = mean(startS + half, startS + 2 * half, "power");
-    if (p1 > 0 && p2 > 0) return { firstHr, secondHr, driftPct: ((p1 / firstHr) / (p2 / secondHr) - 1) * 100, basis: "power_to_hr" };
+    if (p1 > 0 && p2 > 0)
+      return { firstHr, secondHr, driftPct: (p1 / firstHr / (p2 / secondHr) - 1) * 100, basis: "power_to_hr" };
   }
   return { firstHr, secondHr, driftPct: ((secondHr - firstHr) / firstHr) * 100, basis: "hr" };
 }
@@ -292,7 +320,9 @@ export function timeInTarget(
     const d = Math.max(0, Math.round(step.durationS));
     if (step.low !== null && step.high !== null) {
       for (let k = 0; k < d && t + k < power.length; k++) {
-        const lo = step.ramp ? step.low + ((step.high - step.low) * k) / Math.max(1, d - 1) : Math.min(step.low, step.high);
+        const lo = step.ramp
+          ? step.low + ((step.high - step.low) * k) / Math.max(1, d - 1)
+          : Math.min(step.low, step.high);
         const hi = step.ramp ? lo : Math.max(step.low, step.high);
         const slack = (((lo + hi) / 2) * tolerancePct) / 100;
         targetedS++;

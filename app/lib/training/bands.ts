@@ -4,7 +4,13 @@ export type Metric = "power" | "heart_rate" | "pace";
 /** Sports that carry thresholds (a run-pace set and a swim-pace set differ, so bands belong to sport and metric). */
 export type BandSport = "bike" | "run" | "swim";
 export type BandSetKey = "bike:power" | "bike:heart_rate" | "run:heart_rate" | "run:pace" | "swim:pace";
-export const BAND_SET_KEYS: readonly BandSetKey[] = ["bike:power", "bike:heart_rate", "run:heart_rate", "run:pace", "swim:pace"];
+export const BAND_SET_KEYS: readonly BandSetKey[] = [
+  "bike:power",
+  "bike:heart_rate",
+  "run:heart_rate",
+  "run:pace",
+  "swim:pace",
+];
 
 /**
  * One intensity band. Boundaries are in % of threshold (for pace: % of threshold *speed*, so faster = higher).
@@ -116,13 +122,23 @@ export function parseBandSetKey(key: string): { sport: BandSport; metric: Metric
 
 /** Band rows from lower boundaries: each band runs to the next one's start; the last is open. */
 export function bandsFromStarts(rows: readonly { name: string; fromPct: number; meaning: string }[]): Band[] {
-  return rows.map((r, i) => ({ name: r.name, fromPct: r.fromPct, toPct: i + 1 < rows.length ? rows[i + 1].fromPct : null, meaning: r.meaning }));
+  return rows.map((r, i) => ({
+    name: r.name,
+    fromPct: r.fromPct,
+    toPct: i + 1 < rows.length ? rows[i + 1].fromPct : null,
+    meaning: r.meaning,
+  }));
 }
 
 export function defaultBandSet(key: BandSetKey): BandSet {
   const parsed = parseBandSetKey(key);
   if (!parsed) throw new TrainingInputError("out_of_range", `No band set for ${key}.`);
-  return { key, ...parsed, bands: bandsFromStarts(DEFAULTS[key].map(([name, fromPct, meaning]) => ({ name, fromPct, meaning }))), isDefault: true };
+  return {
+    key,
+    ...parsed,
+    bands: bandsFromStarts(DEFAULTS[key].map(([name, fromPct, meaning]) => ({ name, fromPct, meaning }))),
+    isDefault: true,
+  };
 }
 
 export function defaultBandSets(): Record<BandSetKey, BandSet> {
@@ -171,7 +187,14 @@ export const BRICK = "#B5523B";
 /** The shade of band `index` of `count`: evenly spaced along the pale-to-deep teal ramp. */
 export function bandShade(index: number, count: number): string {
   const t = count <= 1 ? 1 : Math.min(1, Math.max(0, index / (count - 1)));
-  return "#" + PALE.map((p, i) => Math.round(p + (DEEP[i] - p) * t).toString(16).padStart(2, "0")).join("");
+  return (
+    "#" +
+    PALE.map((p, i) =>
+      Math.round(p + (DEEP[i] - p) * t)
+        .toString(16)
+        .padStart(2, "0"),
+    ).join("")
+  );
 }
 
 /** True when the whole band lies at or above threshold: it is drawn with a brick edge. */
@@ -200,7 +223,11 @@ export function valueHistogram(values: readonly (number | null | undefined)[]): 
 }
 
 /** Minutes in each band of `set` from a value histogram (seconds per whole W or bpm) and the threshold that applied. */
-export function minutesPerBand(histogram: Record<string, number>, threshold: number, set: { metric: Metric; bands: readonly Band[] }): number[] {
+export function minutesPerBand(
+  histogram: Record<string, number>,
+  threshold: number,
+  set: { metric: Metric; bands: readonly Band[] },
+): number[] {
   const t = requirePositive(threshold, "Threshold");
   const out = new Array(set.bands.length).fill(0);
   for (const [k, seconds] of Object.entries(histogram)) {
@@ -230,7 +257,11 @@ export interface BandRow {
  * per km. With the [from, to) convention a band's highest whole value is the one just below the next band's lowest,
  * so the rows never share a number and classifying any shown number gives the band it is shown in.
  */
-export function bandRows(set: { metric: Metric; bands: readonly Band[] }, threshold: number, format: (v: number) => string): BandRow[] {
+export function bandRows(
+  set: { metric: Metric; bands: readonly Band[] },
+  threshold: number,
+  format: (v: number) => string,
+): BandRow[] {
   const t = requirePositive(threshold, "Threshold");
   const n = set.bands.length;
   return set.bands.map((b, i) => {
@@ -248,11 +279,31 @@ export function bandRows(set: { metric: Metric; bands: readonly Band[] }, thresh
     let range: string;
     if (set.metric === "pace") {
       // lo is the fastest whole second in the band, hi the slowest.
-      range = hi === null ? `${format(lo!)} or slower` : lo === null ? `${format(hi)} or faster` : `${format(hi)} – ${format(lo)}`;
+      range =
+        hi === null
+          ? `${format(lo!)} or slower`
+          : lo === null
+            ? `${format(hi)} or faster`
+            : `${format(hi)} – ${format(lo)}`;
     } else {
-      range = lo === null ? `up to ${format(hi!)}` : hi === null ? `${format(lo)} and above` : `${format(lo)} – ${format(hi)}`;
+      range =
+        lo === null
+          ? `up to ${format(hi!)}`
+          : hi === null
+            ? `${format(lo)} and above`
+            : `${format(lo)} – ${format(hi)}`;
     }
-    return { name: b.name, meaning: b.meaning, fromPct: b.fromPct, toPct: b.toPct, shade: bandShade(i, n), aboveThreshold: bandAboveThreshold(b), range, lo, hi };
+    return {
+      name: b.name,
+      meaning: b.meaning,
+      fromPct: b.fromPct,
+      toPct: b.toPct,
+      shade: bandShade(i, n),
+      aboveThreshold: bandAboveThreshold(b),
+      range,
+      lo,
+      hi,
+    };
   });
 }
 
@@ -263,13 +314,18 @@ export interface BandInputRow {
   meaning: string;
 }
 
-export type BandSetErrors = { form?: string; rows: Record<number, Partial<Record<"name" | "fromPct" | "toPct" | "meaning", string>>> };
+export type BandSetErrors = {
+  form?: string;
+  rows: Record<number, Partial<Record<"name" | "fromPct" | "toPct" | "meaning", string>>>;
+};
 
 /**
  * Checks a coach's band set as typed: 3–8 bands, a name each, whole-number boundaries in order with no gap and no
  * overlap, starting at 0 % and open at the top. Returns the bands, or messages keyed by row and field.
  */
-export function validateBandSet(rows: readonly BandInputRow[]): { ok: true; bands: Band[] } | { ok: false; errors: BandSetErrors } {
+export function validateBandSet(
+  rows: readonly BandInputRow[],
+): { ok: true; bands: Band[] } | { ok: false; errors: BandSetErrors } {
   const errors: BandSetErrors = { rows: {} };
   const put = (i: number, field: "name" | "fromPct" | "toPct" | "meaning", msg: string) => {
     errors.rows[i] ??= {};
@@ -287,21 +343,26 @@ export function validateBandSet(rows: readonly BandInputRow[]): { ok: true; band
     const from = num(r.fromPct);
     const to = i === rows.length - 1 && r.toPct.trim() === "" ? null : num(r.toPct);
     if (Number.isNaN(from)) put(i, "fromPct", "Type a whole number of percent.");
-    if (to !== null && Number.isNaN(to)) put(i, "toPct", i === rows.length - 1 ? "Leave the top band open (empty)." : "Type a whole number of percent.");
+    if (to !== null && Number.isNaN(to))
+      put(i, "toPct", i === rows.length - 1 ? "Leave the top band open (empty)." : "Type a whole number of percent.");
     return { name, from, to, meaning: r.meaning.trim() };
   });
   parsed.forEach((p, i) => {
     if (i === 0 && !Number.isNaN(p.from) && p.from !== 0) put(i, "fromPct", "The first band starts at 0 %.");
-    if (i === parsed.length - 1 && p.to !== null && !Number.isNaN(p.to)) put(i, "toPct", "Leave the top band open (empty).");
-    if (p.to !== null && !Number.isNaN(p.to) && !Number.isNaN(p.from) && p.to <= p.from) put(i, "toPct", "The upper boundary must be above the lower one.");
-    if (!Number.isNaN(p.from) && p.from > MAX_BOUNDARY_PCT) put(i, "fromPct", `Boundaries go up to ${MAX_BOUNDARY_PCT} %.`);
+    if (i === parsed.length - 1 && p.to !== null && !Number.isNaN(p.to))
+      put(i, "toPct", "Leave the top band open (empty).");
+    if (p.to !== null && !Number.isNaN(p.to) && !Number.isNaN(p.from) && p.to <= p.from)
+      put(i, "toPct", "The upper boundary must be above the lower one.");
+    if (!Number.isNaN(p.from) && p.from > MAX_BOUNDARY_PCT)
+      put(i, "fromPct", `Boundaries go up to ${MAX_BOUNDARY_PCT} %.`);
     if (i > 0) {
       const prev = parsed[i - 1];
       if (prev.to !== null && !Number.isNaN(prev.to) && !Number.isNaN(p.from)) {
         if (p.from > prev.to) put(i, "fromPct", `Gap: the band above ends at ${prev.to} %; start this one there.`);
         if (p.from < prev.to) put(i, "fromPct", `Overlap: the band above ends at ${prev.to} %; start this one there.`);
       }
-      if (!Number.isNaN(prev.from) && !Number.isNaN(p.from) && p.from <= prev.from) put(i, "fromPct", "Bands must go up in order.");
+      if (!Number.isNaN(prev.from) && !Number.isNaN(p.from) && p.from <= prev.from)
+        put(i, "fromPct", "Bands must go up in order.");
     }
   });
   const names = parsed.map((p) => p.name.toLowerCase());
@@ -315,7 +376,12 @@ export function validateBandSet(rows: readonly BandInputRow[]): { ok: true; band
 /** A stored set is trusted only if it still passes the checks; otherwise the default is used. */
 export function bandSetFromStored(key: BandSetKey, stored: unknown): BandSet {
   if (!Array.isArray(stored)) return defaultBandSet(key);
-  const rows = stored.map((b: Partial<Band>) => ({ name: String(b?.name ?? ""), fromPct: String(b?.fromPct ?? ""), toPct: b?.toPct == null ? "" : String(b.toPct), meaning: String(b?.meaning ?? "") }));
+  const rows = stored.map((b: Partial<Band>) => ({
+    name: String(b?.name ?? ""),
+    fromPct: String(b?.fromPct ?? ""),
+    toPct: b?.toPct == null ? "" : String(b.toPct),
+    meaning: String(b?.meaning ?? ""),
+  }));
   const v = validateBandSet(rows);
   if (!v.ok) return defaultBandSet(key);
   return { ...defaultBandSet(key), bands: v.bands, isDefault: false };

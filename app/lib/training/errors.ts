@@ -23,7 +23,11 @@ export class TrainingInputError extends Error {
 }
 
 /** Refuses NaN, ±Infinity and values outside [min, max] with a message naming the field. */
-export function requireFinite(value: number, label: string, opts: { min?: number; max?: number; exclusiveMin?: boolean } = {}): number {
+export function requireFinite(
+  value: number,
+  label: string,
+  opts: { min?: number; max?: number; exclusiveMin?: boolean } = {},
+): number {
   if (typeof value !== "number" || !Number.isFinite(value)) {
     throw new TrainingInputError("not_a_number", `${label} must be a number.`);
   }

@@ -144,6 +144,23 @@ export {
   type PlanComparison,
   type PlanVerdict,
 } from "./pacing";
-export { crossCheck, checkPairWindow, CROSS_CHECK_DAYS, AGREE_PCT, ROUGHLY_PCT, type CrossCheck, type Agreement } from "./crosscheck";
+export {
+  crossCheck,
+  checkPairWindow,
+  CROSS_CHECK_DAYS,
+  AGREE_PCT,
+  ROUGHLY_PCT,
+  type CrossCheck,
+  type Agreement,
+} from "./crosscheck";
 export { trainingPaces, type TrainingPaces } from "./running";
-export { lapTable, lapsFromSplits, normaliseLaps, wPrimeBalance, bandLoad, type LapMark, type LapRow, type WPrimeBalance } from "./ride";
+export {
+  lapTable,
+  lapsFromSplits,
+  normaliseLaps,
+  wPrimeBalance,
+  bandLoad,
+  type LapMark,
+  type LapRow,
+  type WPrimeBalance,
+} from "./ride";

@@ -1,7 +1,8 @@
 import { requireFinite, requirePositive, TrainingInputError } from "./errors";
 
 /** A day's load checked as requireFinite checks it; the message is only built for a bad value (years of days add up). */
-const dayLoad = (l: number, i: number) => (typeof l === "number" && Number.isFinite(l) && l >= 0 ? l : requireFinite(l, `Load on day ${i + 1}`, { min: 0 }));
+const dayLoad = (l: number, i: number) =>
+  typeof l === "number" && Number.isFinite(l) && l >= 0 ? l : requireFinite(l, `Load on day ${i + 1}`, { min: 0 });
 
 /** Session effort load = effort score (0–10) × minutes. Source: Foster C et al. (2001) J Strength Cond Res 15(1):109–115. */
 export function effortLoad(effortScore: number, minutes: number): number {
@@ -15,7 +16,13 @@ export function effortLoad(effortScore: number, minutes: number): number {
  * b = 1.92 for men and k = 0.86, b = 1.67 for women. Source: Banister EW (1991), in MacDougall, Wenger & Green (eds),
  * Physiological Testing of the High-Performance Athlete; constants as given by Morton, Fitz-Clarke & Banister (1990).
  */
-export function trimpBanister(input: { minutes: number; avgHr: number; restHr: number; maxHr: number; sex: "male" | "female" }): number {
+export function trimpBanister(input: {
+  minutes: number;
+  avgHr: number;
+  restHr: number;
+  maxHr: number;
+  sex: "male" | "female";
+}): number {
   const minutes = requireFinite(input.minutes, "Minutes", { min: 0, max: 24 * 60 });
   const rest = requireFinite(input.restHr, "Resting heart rate", { min: 25, max: 120 });
   const max = requireFinite(input.maxHr, "Maximum heart rate", { min: 100, max: 250 });
@@ -34,7 +41,10 @@ export function trimpEdwards(minutesInZones: readonly number[]): number {
   if (!Array.isArray(minutesInZones) || minutesInZones.length !== 5) {
     throw new TrainingInputError("out_of_range", "Give minutes for each of the five heart-rate zones.");
   }
-  return minutesInZones.reduce((sum, m, i) => sum + requireFinite(m, `Minutes in zone ${i + 1}`, { min: 0 }) * (i + 1), 0);
+  return minutesInZones.reduce(
+    (sum, m, i) => sum + requireFinite(m, `Minutes in zone ${i + 1}`, { min: 0 }) * (i + 1),
+    0,
+  );
 }
 
 /**
@@ -78,7 +88,8 @@ export function trimpEdwardsFromHeartRate(hr1Hz: readonly (number | null | undef
  * deviation; `sd: "sample"` divides by n − 1 instead. With no variation at all, monotony has no value (null).
  */
 export function monotonyStrain(dailyLoads: readonly number[], opts: { sd?: "population" | "sample" } = {}) {
-  if (!Array.isArray(dailyLoads) || dailyLoads.length < 2) throw new TrainingInputError("too_short", "Monotony needs at least two days of loads.");
+  if (!Array.isArray(dailyLoads) || dailyLoads.length < 2)
+    throw new TrainingInputError("too_short", "Monotony needs at least two days of loads.");
   const loads = dailyLoads.map((l, i) => dayLoad(l, i));
   const n = loads.length;
   const total = loads.reduce((s, l) => s + l, 0);
@@ -128,7 +139,8 @@ export function acuteChronicRatio(
 ): (number | null)[] {
   const acuteN = opts.acuteDays ?? 7;
   const chronicN = opts.chronicDays ?? 28;
-  if (!(acuteN >= 1 && chronicN > acuteN)) throw new TrainingInputError("out_of_range", "The chronic window must be longer than the acute window.");
+  if (!(acuteN >= 1 && chronicN > acuteN))
+    throw new TrainingInputError("out_of_range", "The chronic window must be longer than the acute window.");
   const loads = dailyLoads.map((l, i) => dayLoad(l, i));
   const first = opts.historyStart ?? loads.findIndex((l) => l > 0);
   const enough = (i: number) => first !== -1 && i >= first && i - first + 1 >= chronicN;
@@ -162,7 +174,11 @@ export function acuteChronicRatio(
  * The usual range of a week's load from the chronic load before it: 28-day mean daily load × 7 × [0.8, 1.3], the
  * ratio range Gabbett (2016) reports as lowest-risk. Null with fewer than 28 days of history before the week.
  */
-export function usualWeekRange(dailyLoads: readonly number[], weekStart: number, opts: { historyStart?: number; low?: number; high?: number } = {}): { low: number; high: number; chronic: number } | null {
+export function usualWeekRange(
+  dailyLoads: readonly number[],
+  weekStart: number,
+  opts: { historyStart?: number; low?: number; high?: number } = {},
+): { low: number; high: number; chronic: number } | null {
   const first = opts.historyStart ?? dailyLoads.findIndex((l) => l > 0);
   if (first === -1 || weekStart - first < 28 || weekStart > dailyLoads.length) return null;
   let sum = 0;

@@ -13,7 +13,8 @@ import { requirePositive, TrainingInputError } from "./errors";
 export const PACED_PROTOCOLS = ["twenty_minute", "eight_minute", "ramp"] as const;
 export type PacedProtocol = (typeof PACED_PROTOCOLS)[number];
 
-export const isPacedProtocol = (p: string | null | undefined): p is PacedProtocol => (PACED_PROTOCOLS as readonly string[]).includes(p ?? "");
+export const isPacedProtocol = (p: string | null | undefined): p is PacedProtocol =>
+  (PACED_PROTOCOLS as readonly string[]).includes(p ?? "");
 
 export const TEST_FACTOR: Record<PacedProtocol, number> = { twenty_minute: 0.95, eight_minute: 0.9, ramp: 0.75 };
 /** Length of the effort the factor applies to. */
@@ -25,13 +26,23 @@ export const RAMP_STEP_S = 60;
 
 export const DEFAULT_SPLIT_PCT: readonly number[] = [97, 100, 103];
 /** A coach's split: 2 to 4 segments, each 85–115 % of expected, averaging 98–102 % (so the test still aims at the expected power). */
-export const SPLIT_LIMITS = { minSegments: 2, maxSegments: 4, minPct: 85, maxPct: 115, minMeanPct: 98, maxMeanPct: 102 } as const;
+export const SPLIT_LIMITS = {
+  minSegments: 2,
+  maxSegments: 4,
+  minPct: 85,
+  maxPct: 115,
+  minMeanPct: 98,
+  maxMeanPct: 102,
+} as const;
 
 export function validateSplit(split: readonly number[]): string | null {
   const { minSegments, maxSegments, minPct, maxPct, minMeanPct, maxMeanPct } = SPLIT_LIMITS;
-  if (!Array.isArray(split) || split.length < minSegments || split.length > maxSegments) return `Give ${minSegments} to ${maxSegments} segments.`;
-  if (split.some((p) => typeof p !== "number" || !Number.isFinite(p))) return "Each segment needs a number (% of expected power).";
-  if (split.some((p) => p < minPct || p > maxPct)) return `Each segment must lie between ${minPct} and ${maxPct} % of the expected power.`;
+  if (!Array.isArray(split) || split.length < minSegments || split.length > maxSegments)
+    return `Give ${minSegments} to ${maxSegments} segments.`;
+  if (split.some((p) => typeof p !== "number" || !Number.isFinite(p)))
+    return "Each segment needs a number (% of expected power).";
+  if (split.some((p) => p < minPct || p > maxPct))
+    return `Each segment must lie between ${minPct} and ${maxPct} % of the expected power.`;
   const mean = split.reduce((a, b) => a + b, 0) / split.length;
   if (mean < minMeanPct || mean > maxMeanPct) {
     return `The segments average ${Math.round(mean * 10) / 10} %; keep the average between ${minMeanPct} and ${maxMeanPct} % so the test still aims at the expected power.`;
@@ -79,12 +90,31 @@ export function expectedTestPower(protocol: PacedProtocol, thresholdW: number): 
 /** Our words for each part: the first holds back, the middle settles, the last spends what is left. */
 function cueFor(k: number, n: number, protocol: PacedProtocol): { effortScore: number; cue: string } {
   if (protocol === "ramp") {
-    if (k === 0) return { effortScore: 4, cue: "Spin, relax the shoulders, breathe through the nose if you can; these steps should feel almost too easy." };
-    if (k < n - 1) return { effortScore: 7, cue: "Breathing deepens; keep the cadence up and do not stand. Each minute is one step, not a sprint." };
-    return { effortScore: 10, cue: "Now it hurts: count down to the next step and hold each one as long as you can turn the pedals." };
+    if (k === 0)
+      return {
+        effortScore: 4,
+        cue: "Spin, relax the shoulders, breathe through the nose if you can; these steps should feel almost too easy.",
+      };
+    if (k < n - 1)
+      return {
+        effortScore: 7,
+        cue: "Breathing deepens; keep the cadence up and do not stand. Each minute is one step, not a sprint.",
+      };
+    return {
+      effortScore: 10,
+      cue: "Now it hurts: count down to the next step and hold each one as long as you can turn the pedals.",
+    };
   }
-  if (k === 0) return { effortScore: 7, cue: "Firm but held back: you could still say a short sentence. If this feels easy, that is the plan." };
-  if (k < n - 1) return { effortScore: 8, cue: "Settle at the expected power; breathing hard and even, words only one or two at a time." };
+  if (k === 0)
+    return {
+      effortScore: 7,
+      cue: "Firm but held back: you could still say a short sentence. If this feels easy, that is the plan.",
+    };
+  if (k < n - 1)
+    return {
+      effortScore: 8,
+      cue: "Settle at the expected power; breathing hard and even, words only one or two at a time.",
+    };
   return { effortScore: 10, cue: "Give what is left, a little more each minute; you should have nothing at the line." };
 }
 
@@ -105,7 +135,8 @@ export interface PacingOptions {
 
 export function pacingPlan(opts: PacingOptions): PacingPlan {
   const { protocol } = opts;
-  if (!isPacedProtocol(protocol)) throw new TrainingInputError("out_of_range", "Pacing plans are made for the 20-minute, 8-minute and ramp tests.");
+  if (!isPacedProtocol(protocol))
+    throw new TrainingInputError("out_of_range", "Pacing plans are made for the 20-minute, 8-minute and ramp tests.");
   const thresholdW = opts.thresholdW;
   const expected = expectedTestPower(protocol, thresholdW);
   const expectedW = Math.round(expected);
@@ -117,7 +148,14 @@ export function pacingPlan(opts: PacingOptions): PacingPlan {
     const segments = [0, 1, 2].map((k) => {
       const lastStep = Math.max(0, cuts[k + 1] / RAMP_STEP_S - 1);
       const targetW = RAMP_START_W + lastStep * RAMP_STEP_W;
-      return { index: k, startS: cuts[k], durationS: cuts[k + 1] - cuts[k], pct: Math.round((targetW / expected) * 100), targetW, ...cueFor(k, 3, protocol) };
+      return {
+        index: k,
+        startS: cuts[k],
+        durationS: cuts[k + 1] - cuts[k],
+        pct: Math.round((targetW / expected) * 100),
+        targetW,
+        ...cueFor(k, 3, protocol),
+      };
     });
     return {
       protocol,
@@ -125,7 +163,13 @@ export function pacingPlan(opts: PacingOptions): PacingPlan {
       expectedW,
       windowS: TEST_WINDOW_S.ramp,
       segments,
-      ramp: { startW: RAMP_START_W, stepW: RAMP_STEP_W, stepS: RAMP_STEP_S, expectedLastStepW: RAMP_START_W + (steps - 1) * RAMP_STEP_W, expectedDurationS },
+      ramp: {
+        startW: RAMP_START_W,
+        stepW: RAMP_STEP_W,
+        stepS: RAMP_STEP_S,
+        expectedLastStepW: RAMP_START_W + (steps - 1) * RAMP_STEP_W,
+        expectedDurationS,
+      },
       laps: null,
     };
   }
@@ -142,7 +186,15 @@ export function pacingPlan(opts: PacingOptions): PacingPlan {
     targetW: Math.round((expected * pct) / 100),
     ...cueFor(k, split.length, protocol),
   }));
-  return { protocol, thresholdW, expectedW, windowS, segments, ramp: null, laps: opts.lap ? lapPlan(segments, windowS, expected, opts.lap, opts.systemKg ?? null) : null };
+  return {
+    protocol,
+    thresholdW,
+    expectedW,
+    windowS,
+    segments,
+    ramp: null,
+    laps: opts.lap ? lapPlan(segments, windowS, expected, opts.lap, opts.systemKg ?? null) : null,
+  };
 }
 
 /**
@@ -167,23 +219,41 @@ export function flatSpeed(powerW: number, systemKg: number = ROAD_MODEL.defaultS
   return (lo + hi) / 2;
 }
 
-function lapPlan(segments: PacingSegment[], windowS: number, expected: number, lap: NonNullable<PacingOptions["lap"]>, systemKg: number | null): NonNullable<PacingPlan["laps"]> {
+function lapPlan(
+  segments: PacingSegment[],
+  windowS: number,
+  expected: number,
+  lap: NonNullable<PacingOptions["lap"]>,
+  systemKg: number | null,
+): NonNullable<PacingPlan["laps"]> {
   const kg = systemKg ?? ROAD_MODEL.defaultSystemKg;
   const lengthM = lap.lengthM ? requirePositive(lap.lengthM, "Lap length (m)", 100_000) : null;
   const givenLapS = lap.lapTimeS ? requirePositive(lap.lapTimeS, "Lap time (s)", 3600) : null;
   if (!lengthM && !givenLapS) throw new TrainingInputError("out_of_range", "Give the lap length or the lap time.");
   const vExpected = flatSpeed(expected, kg);
   // A given lap time is the lap at the expected power; the model only scales it to each segment's power.
-  const lapAt = (watts: number) => (lengthM ? lengthM / flatSpeed(watts, kg) : givenLapS! * (vExpected / flatSpeed(watts, kg)));
-  if (lapAt(expected) < 20) throw new TrainingInputError("out_of_range", "A lap under 20 seconds is too short to pace by; use the segments instead.");
-  const segmentAt = (t: number) => segments.find((s) => t >= s.startS && t < s.startS + s.durationS) ?? segments[segments.length - 1];
+  const lapAt = (watts: number) =>
+    lengthM ? lengthM / flatSpeed(watts, kg) : givenLapS! * (vExpected / flatSpeed(watts, kg));
+  if (lapAt(expected) < 20)
+    throw new TrainingInputError(
+      "out_of_range",
+      "A lap under 20 seconds is too short to pace by; use the segments instead.",
+    );
+  const segmentAt = (t: number) =>
+    segments.find((s) => t >= s.startS && t < s.startS + s.durationS) ?? segments[segments.length - 1];
   const laps: PacingLap[] = [];
   let t = 0;
   while (t < windowS - 0.5 && laps.length < 200) {
     const target = segmentAt(t).targetW;
     const full = lapAt(target);
     const fraction = Math.min(1, (windowS - t) / full);
-    laps.push({ lap: laps.length + 1, fraction: Math.round(fraction * 100) / 100, startS: Math.round(t), targetW: target, expectedS: Math.round(full * fraction) });
+    laps.push({
+      lap: laps.length + 1,
+      fraction: Math.round(fraction * 100) / 100,
+      startS: Math.round(t),
+      targetW: target,
+      expectedS: Math.round(full * fraction),
+    });
     t += full * fraction;
   }
   return { lengthM, lapTimeS: Math.round(lapAt(expected)), laps };
@@ -217,8 +287,14 @@ export const PLAN_TOLERANCE_PCT = 3;
  * less (started too hard). The message says what this means for the threshold the test proposes.
  */
 export function comparePacing(plan: PacingPlan, riddenMeans: readonly number[]): PlanComparison {
-  if (riddenMeans.length !== plan.segments.length) throw new TrainingInputError("out_of_range", "The ridden segments do not match the plan's segments.");
-  const segments = plan.segments.map((s, k) => ({ index: k, plannedW: s.targetW, riddenW: Math.round(riddenMeans[k]), diffPct: Math.round(((riddenMeans[k] - s.targetW) / s.targetW) * 1000) / 10 }));
+  if (riddenMeans.length !== plan.segments.length)
+    throw new TrainingInputError("out_of_range", "The ridden segments do not match the plan's segments.");
+  const segments = plan.segments.map((s, k) => ({
+    index: k,
+    plannedW: s.targetW,
+    riddenW: Math.round(riddenMeans[k]),
+    diffPct: Math.round(((riddenMeans[k] - s.targetW) / s.targetW) * 1000) / 10,
+  }));
   let sum = 0;
   plan.segments.forEach((s, k) => (sum += riddenMeans[k] * s.durationS));
   const meanW = sum / plan.segments.reduce((a, s) => a + s.durationS, 0);
@@ -239,4 +315,8 @@ export function comparePacing(plan: PacingPlan, riddenMeans: readonly number[]):
   return { segments, meanW, verdict, levelPct, message: messages[verdict] };
 }
 
-export const PLAN_VERDICT_WORDS: Record<PlanVerdict, string> = { to_plan: "to plan", held_back: "held back early", started_hard: "started too hard" };
+export const PLAN_VERDICT_WORDS: Record<PlanVerdict, string> = {
+  to_plan: "to plan",
+  held_back: "held back early",
+  started_hard: "started too hard",
+};

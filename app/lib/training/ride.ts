@@ -28,7 +28,8 @@ export function normaliseLaps(laps: readonly LapMark[], length: number): LapMark
     const startS = Math.max(0, Math.round(l.startS));
     const endS = Math.min(length, Math.round(l.endS));
     if (!(endS > startS)) continue;
-    if (out.length && startS < out[out.length - 1].endS) throw new TrainingInputError("out_of_range", "Laps must not overlap.");
+    if (out.length && startS < out[out.length - 1].endS)
+      throw new TrainingInputError("out_of_range", "Laps must not overlap.");
     out.push({ startS, endS });
   }
   return out;
@@ -110,7 +111,8 @@ export interface WPrimeBalance {
 export function wPrimeBalance(series: Series, cpW: number, wPrimeJ: number): WPrimeBalance {
   const cp = requirePositive(cpW, "Critical power (W)", 2500);
   const wp = requirePositive(wPrimeJ, "W′ (J)", 200_000);
-  if (!series.some((s) => typeof s.power === "number")) throw new TrainingInputError("no_power", "W′ balance needs power readings.");
+  if (!series.some((s) => typeof s.power === "number"))
+    throw new TrainingInputError("no_power", "W′ balance needs power readings.");
   let below = 0;
   let belowN = 0;
   for (const s of series) {
@@ -142,7 +144,11 @@ export function wPrimeBalance(series: Series, cpW: number, wPrimeJ: number): WPr
  * Edwards' zone weighting (Edwards S 1993, The Heart Rate Monitor Book: minutes per zone × 1…5) applied to our
  * own power bands, whatever their number; name and weights are ours.
  */
-export function bandLoad(powerHistogram: Record<string, number>, thresholdW: number, set: { metric: Metric; bands: readonly Band[] }) {
+export function bandLoad(
+  powerHistogram: Record<string, number>,
+  thresholdW: number,
+  set: { metric: Metric; bands: readonly Band[] },
+) {
   if (set.metric !== "power") throw new TrainingInputError("out_of_range", "Band load is computed on power bands.");
   const minutes = minutesPerBand(powerHistogram, thresholdW, set);
   const weights = minutes.map((_, i) => i + 1);

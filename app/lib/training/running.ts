@@ -8,7 +8,8 @@ import { requirePositive, TrainingInputError } from "./errors";
  */
 
 const cost = (vMpm: number) => -4.6 + 0.182258 * vMpm + 0.000104 * vMpm * vMpm;
-const fraction = (tMin: number) => 0.8 + 0.1894393 * Math.exp(-0.012778 * tMin) + 0.2989558 * Math.exp(-0.1932605 * tMin);
+const fraction = (tMin: number) =>
+  0.8 + 0.1894393 * Math.exp(-0.012778 * tMin) + 0.2989558 * Math.exp(-0.1932605 * tMin);
 
 /** Race distances the formula was fitted on: roughly 1500 m to the marathon and a bit beyond. */
 const MIN_DISTANCE = 800;
@@ -24,7 +25,10 @@ export function runningIndex(distanceM: number, timeS: number): number {
   const tMin = t / 60;
   const v = d / tMin;
   if (v < 80 || v > 450) {
-    throw new TrainingInputError("out_of_range", "That pace is outside what the running-index formula covers; check distance and time.");
+    throw new TrainingInputError(
+      "out_of_range",
+      "That pace is outside what the running-index formula covers; check distance and time.",
+    );
   }
   return cost(v) / fraction(tMin);
 }
@@ -41,10 +45,13 @@ export function raceTimeForIndex(index: number, distanceM: number): number {
     throw new TrainingInputError("out_of_range", "Use a distance between 800 m and 50 km.");
   }
   const indexAt = (tS: number) => cost(d / (tS / 60)) / fraction(tS / 60);
-  let lo = d / 450 * 60; // fastest pace covered (s)
-  let hi = d / 60 * 60; // slower than any runner the formula describes
+  let lo = (d / 450) * 60; // fastest pace covered (s)
+  let hi = (d / 60) * 60; // slower than any runner the formula describes
   if (indexAt(lo) < vdot || indexAt(hi) > vdot) {
-    throw new TrainingInputError("out_of_range", "That running index is outside what the formula covers for this distance.");
+    throw new TrainingInputError(
+      "out_of_range",
+      "That running index is outside what the formula covers for this distance.",
+    );
   }
   for (let i = 0; i < 200 && hi - lo > 1e-6; i++) {
     const mid = (lo + hi) / 2;
@@ -94,7 +101,8 @@ export interface TrainingPaces {
  */
 export function trainingPaces(index: number): TrainingPaces {
   const vdot = requirePositive(index, "Running index", 90);
-  if (vdot < 30) throw new TrainingInputError("out_of_range", "Training paces are given for a running index of 30 and above.");
+  if (vdot < 30)
+    throw new TrainingInputError("out_of_range", "Training paces are given for a running index of 30 and above.");
   const perKm = (vMpm: number) => (1000 / vMpm) * 60;
   const interval = perKm(speedForCost(0.975 * vdot));
   return {
@@ -102,6 +110,6 @@ export function trainingPaces(index: number): TrainingPaces {
     marathon: raceTimeForIndex(vdot, 42195) / 42.195,
     threshold: thresholdPaceForIndex(vdot),
     interval,
-    repetition: ((interval * 0.4 - 6) / 0.4),
+    repetition: (interval * 0.4 - 6) / 0.4,
   };
 }

@@ -28,7 +28,8 @@ export interface SkeletonInput {
 }
 
 function parseDay(s: string, label: string): string {
-  if (!/^\d{4}-\d{2}-\d{2}$/.test(s)) throw new TrainingInputError("out_of_range", `${label} must be a date like 2027-04-18.`);
+  if (!/^\d{4}-\d{2}-\d{2}$/.test(s))
+    throw new TrainingInputError("out_of_range", `${label} must be a date like 2027-04-18.`);
   if (!isIsoDate(s)) throw new TrainingInputError("out_of_range", `${label} is not a real date.`);
   return s;
 }
@@ -49,14 +50,23 @@ export const TEST_GAP = { min: 4, max: 8 } as const;
  * step up from block to block, never more than `maxWeeklyRise` over the previous non-recovery week, and a taper
  * (two weeks from 12 weeks on, else one) before an event week. Constants are common practice, not one source.
  */
-export function seasonSkeleton(input: SkeletonInput): { startDate: string; eventDate: string | null; weeks: SkeletonWeek[] } {
+export function seasonSkeleton(input: SkeletonInput): {
+  startDate: string;
+  eventDate: string | null;
+  weeks: SkeletonWeek[];
+} {
   const hours = requireFinite(input.weeklyHours, "Weekly hours", { min: 0, exclusiveMin: true, max: 40 });
-  const cap = requireFinite(input.maxWeeklyRise ?? 0.1, "Largest weekly rise", { min: 0, exclusiveMin: true, max: 0.5 });
+  const cap = requireFinite(input.maxWeeklyRise ?? 0.1, "Largest weekly rise", {
+    min: 0,
+    exclusiveMin: true,
+    max: 0.5,
+  });
   const testEvery = input.testEveryWeeks ?? 6;
   if (!Number.isInteger(testEvery) || testEvery < TEST_GAP.min || testEvery > TEST_GAP.max) {
     throw new TrainingInputError("out_of_range", `Test every ${TEST_GAP.min} to ${TEST_GAP.max} weeks.`);
   }
-  if (input.pattern !== "3:1" && input.pattern !== "2:1") throw new TrainingInputError("out_of_range", "Choose the 3:1 or 2:1 loading pattern.");
+  if (input.pattern !== "3:1" && input.pattern !== "2:1")
+    throw new TrainingInputError("out_of_range", "Choose the 3:1 or 2:1 loading pattern.");
   const cycle = input.pattern === "3:1" ? 4 : 3;
 
   let start: string;
@@ -69,9 +79,15 @@ export function seasonSkeleton(input: SkeletonInput): { startDate: string; event
   } else if (input.weeks !== undefined) {
     count = input.weeks;
     if (!Number.isInteger(count)) throw new TrainingInputError("out_of_range", "Weeks must be a whole number.");
-    start = event !== null ? addWeeks(mondayOf(event), -(count - 1)) : mondayOf(parseDay(input.startDate ?? "", "The start date"));
+    start =
+      event !== null
+        ? addWeeks(mondayOf(event), -(count - 1))
+        : mondayOf(parseDay(input.startDate ?? "", "The start date"));
   } else {
-    throw new TrainingInputError("out_of_range", "Give a start date, an event date and a number of weeks, or both dates.");
+    throw new TrainingInputError(
+      "out_of_range",
+      "Give a start date, an event date and a number of weeks, or both dates.",
+    );
   }
   if (count < 4 || count > 104) throw new TrainingInputError("out_of_range", "A season plan runs 4 to 104 weeks.");
 
@@ -91,7 +107,7 @@ export function seasonSkeleton(input: SkeletonInput): { startDate: string; event
   };
   const buildStart = snap(Math.ceil((pre - peakWeeks) * 0.6) + 1, 1);
   const peakStart = peakWeeks > 0 ? snap(pre - peakWeeks + 1, buildStart ?? 1) : null;
-  const baseWeeks = (buildStart ?? (peakStart ?? pre + 1)) - 1;
+  const baseWeeks = (buildStart ?? peakStart ?? pre + 1) - 1;
   const buildEnd = (peakStart ?? pre + 1) - 1;
 
   const weeks: SkeletonWeek[] = [];
@@ -121,7 +137,8 @@ export function seasonSkeleton(input: SkeletonInput): { startDate: string; event
       factor = blockStart + inBlock * WEEK_STEP;
       inBlock++;
     }
-    if (!recovery && phase !== "taper" && phase !== "race" && lastLoading > 0) factor = Math.min(factor, lastLoading * (1 + cap));
+    if (!recovery && phase !== "taper" && phase !== "race" && lastLoading > 0)
+      factor = Math.min(factor, lastLoading * (1 + cap));
     if (!recovery && phase !== "taper" && phase !== "race") lastLoading = factor;
     weeks.push({
       index: i,

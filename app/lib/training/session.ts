@@ -67,7 +67,8 @@ export function validateBlocks(blocks: readonly Block[]): Record<string, string>
     }
   };
   const pct = (v: unknown, path: string) => {
-    if (typeof v !== "number" || !Number.isFinite(v) || v <= 0 || v > LIMITS.maxPct) errors[path] = "Use a percentage above 0 and at most 300.";
+    if (typeof v !== "number" || !Number.isFinite(v) || v <= 0 || v > LIMITS.maxPct)
+      errors[path] = "Use a percentage above 0 and at most 300.";
   };
   const target = (t: TargetSpec | null | undefined, path: string) => {
     if (!t) {
@@ -96,7 +97,8 @@ export function validateBlocks(blocks: readonly Block[]): Record<string, string>
         pct(b.toPct, `${p}.toPct`);
         break;
       case "repeats":
-        if (!Number.isInteger(b.count) || b.count < 1 || b.count > LIMITS.maxRepeats) errors[`${p}.count`] = "Repeat 1 to 50 times.";
+        if (!Number.isInteger(b.count) || b.count < 1 || b.count > LIMITS.maxRepeats)
+          errors[`${p}.count`] = "Repeat 1 to 50 times.";
         duration(b.work?.durationS, `${p}.work.durationS`);
         target(b.work?.target, `${p}.work.target`);
         if (b.recovery) {
@@ -112,7 +114,8 @@ export function validateBlocks(blocks: readonly Block[]): Record<string, string>
     }
   });
   const total = blocks.reduce((s, b) => s + blockDuration(b), 0);
-  if (Object.keys(errors).length === 0 && total > LIMITS.maxDurationS) errors.blocks = "A session can last at most 12 hours.";
+  if (Object.keys(errors).length === 0 && total > LIMITS.maxDurationS)
+    errors.blocks = "A session can last at most 12 hours.";
   return errors;
 }
 
@@ -133,21 +136,71 @@ export function expandBlocks(blocks: readonly Block[]): Step[] {
     switch (b.kind) {
       case "repeats":
         for (let rep = 1; rep <= b.count; rep++) {
-          push({ blockIndex, kind: b.kind, part: "work", rep, durationS: b.work.durationS, metric: b.work.target.metric, lowPct: b.work.target.lowPct, highPct: b.work.target.highPct ?? b.work.target.lowPct, ramp: false });
+          push({
+            blockIndex,
+            kind: b.kind,
+            part: "work",
+            rep,
+            durationS: b.work.durationS,
+            metric: b.work.target.metric,
+            lowPct: b.work.target.lowPct,
+            highPct: b.work.target.highPct ?? b.work.target.lowPct,
+            ramp: false,
+          });
           if (b.recovery && b.recovery.durationS > 0) {
             const rt = b.recovery.target;
-            push({ blockIndex, kind: b.kind, part: "recovery", rep, durationS: b.recovery.durationS, metric: rt?.metric ?? null, lowPct: rt?.lowPct ?? null, highPct: rt ? (rt.highPct ?? rt.lowPct) : null, ramp: false });
+            push({
+              blockIndex,
+              kind: b.kind,
+              part: "recovery",
+              rep,
+              durationS: b.recovery.durationS,
+              metric: rt?.metric ?? null,
+              lowPct: rt?.lowPct ?? null,
+              highPct: rt ? (rt.highPct ?? rt.lowPct) : null,
+              ramp: false,
+            });
           }
         }
         break;
       case "ramp":
-        push({ blockIndex, kind: b.kind, part: "main", rep: null, durationS: b.durationS, metric: b.metric, lowPct: b.fromPct, highPct: b.toPct, ramp: true });
+        push({
+          blockIndex,
+          kind: b.kind,
+          part: "main",
+          rep: null,
+          durationS: b.durationS,
+          metric: b.metric,
+          lowPct: b.fromPct,
+          highPct: b.toPct,
+          ramp: true,
+        });
         break;
       case "open":
-        push({ blockIndex, kind: b.kind, part: "main", rep: null, durationS: b.durationS, metric: null, lowPct: null, highPct: null, ramp: false });
+        push({
+          blockIndex,
+          kind: b.kind,
+          part: "main",
+          rep: null,
+          durationS: b.durationS,
+          metric: null,
+          lowPct: null,
+          highPct: null,
+          ramp: false,
+        });
         break;
       default:
-        push({ blockIndex, kind: b.kind, part: "main", rep: null, durationS: b.durationS, metric: b.target.metric, lowPct: b.target.lowPct, highPct: b.target.highPct ?? b.target.lowPct, ramp: false });
+        push({
+          blockIndex,
+          kind: b.kind,
+          part: "main",
+          rep: null,
+          durationS: b.durationS,
+          metric: b.target.metric,
+          lowPct: b.target.lowPct,
+          highPct: b.target.highPct ?? b.target.lowPct,
+          ramp: false,
+        });
     }
   });
   return steps;
@@ -182,12 +235,17 @@ export interface SessionEstimate {
  * Estimates a session before it is done: duration, minutes per band of `bands` (the default power set unless given),
  * work and planned effort load (minutes × expected effort score; untargeted minutes count as easy).
  */
-export function estimateSession(blocks: readonly Block[], thresholds: Partial<Record<Metric, number>> = {}, bands: readonly Band[] = EFFORT_BANDS): SessionEstimate {
+export function estimateSession(
+  blocks: readonly Block[],
+  thresholds: Partial<Record<Metric, number>> = {},
+  bands: readonly Band[] = EFFORT_BANDS,
+): SessionEstimate {
   const errors = validateBlocks(blocks);
   const first = Object.values(errors)[0];
   if (first) throw new TrainingInputError("out_of_range", first);
   const powerThreshold = thresholds.power;
-  if (powerThreshold !== undefined) requireFinite(powerThreshold, "Threshold power", { min: 0, exclusiveMin: true, max: 2500 });
+  if (powerThreshold !== undefined)
+    requireFinite(powerThreshold, "Threshold power", { min: 0, exclusiveMin: true, max: 2500 });
   const minutesPerBand = new Array(bands.length).fill(0);
   let openMinutes = 0;
   let joules = 0;
@@ -203,7 +261,9 @@ export function estimateSession(blocks: readonly Block[], thresholds: Partial<Re
     const slices = step.ramp ? step.durationS : 1;
     const sliceS = step.durationS / slices;
     for (let k = 0; k < slices; k++) {
-      const pct = step.ramp ? step.lowPct + ((step.highPct - step.lowPct) * (k + 0.5)) / slices : (step.lowPct + step.highPct) / 2;
+      const pct = step.ramp
+        ? step.lowPct + ((step.highPct - step.lowPct) * (k + 0.5)) / slices
+        : (step.lowPct + step.highPct) / 2;
       minutesPerBand[bandIndexOf(pct, bands)] += sliceS / 60;
       effort += (sliceS / 60) * effortPerMinute(pct);
       if (step.metric === "power" && powerThreshold) {

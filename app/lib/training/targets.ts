@@ -29,12 +29,22 @@ export function resolveTarget(
   threshold: number,
   opts: { paceUnit?: "s/km" | "s/100m" } = {},
 ): AbsoluteTarget {
-  const lowPct = requireFinite(target.lowPct, "Target (% of threshold)", { min: 0, exclusiveMin: true, max: MAX_TARGET_PCT });
+  const lowPct = requireFinite(target.lowPct, "Target (% of threshold)", {
+    min: 0,
+    exclusiveMin: true,
+    max: MAX_TARGET_PCT,
+  });
   const highPct =
-    target.highPct == null ? lowPct : requireFinite(target.highPct, "Target high end (% of threshold)", { min: lowPct, max: MAX_TARGET_PCT });
+    target.highPct == null
+      ? lowPct
+      : requireFinite(target.highPct, "Target high end (% of threshold)", { min: lowPct, max: MAX_TARGET_PCT });
   const t = requirePositive(threshold, "Threshold");
   if (target.metric === "pace") {
-    return { low: Math.round(t / (lowPct / 100)), high: Math.round(t / (highPct / 100)), unit: opts.paceUnit ?? "s/km" };
+    return {
+      low: Math.round(t / (lowPct / 100)),
+      high: Math.round(t / (highPct / 100)),
+      unit: opts.paceUnit ?? "s/km",
+    };
   }
   // pct × threshold / 100 in this order, the same arithmetic the set-based rescale does in SQL.
   return {
@@ -57,7 +67,9 @@ export function formatDuration(totalS: number): string {
   const h = Math.floor(s / 3600);
   const m = Math.floor((s % 3600) / 60);
   const sec = s % 60;
-  return h > 0 ? `${h}:${String(m).padStart(2, "0")}:${String(sec).padStart(2, "0")}` : `${m}:${String(sec).padStart(2, "0")}`;
+  return h > 0
+    ? `${h}:${String(m).padStart(2, "0")}:${String(sec).padStart(2, "0")}`
+    : `${m}:${String(sec).padStart(2, "0")}`;
 }
 
 /** Writes an absolute target the way athletes read it: "237–247 W", "152 bpm", "4:05–4:12 /km". */

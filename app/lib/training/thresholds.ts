@@ -92,7 +92,10 @@ const clock = (s: number) => {
  */
 export function criticalPower(efforts: readonly MaximalEffort[]): CriticalPowerResult {
   if (!Array.isArray(efforts) || efforts.length < 2) {
-    throw new TrainingInputError("too_few_efforts", "Critical power needs at least two maximal efforts of different lengths.");
+    throw new TrainingInputError(
+      "too_few_efforts",
+      "Critical power needs at least two maximal efforts of different lengths.",
+    );
   }
   const points = efforts.map((e, i) => {
     const t = requirePositive(e.durationS, `Effort ${i + 1}'s duration (s)`, 4 * 3600);
@@ -136,7 +139,9 @@ export function criticalPower(efforts: readonly MaximalEffort[]): CriticalPowerR
     .filter((p) => p.t < CP_DURATION_RANGE_S.min || p.t > CP_DURATION_RANGE_S.max)
     .map((p) => `The ${clock(p.t)} effort lies outside 2–20 minutes, where the model holds best (Jones et al. 2010).`);
   if (r2 < CP_MIN_R2) {
-    warnings.push(`The efforts fit the work–time line loosely (r² ${r2.toFixed(3)}, below ${CP_MIN_R2}): at least one was probably not all-out. Ride it again before trusting this critical power.`);
+    warnings.push(
+      `The efforts fit the work–time line loosely (r² ${r2.toFixed(3)}, below ${CP_MIN_R2}): at least one was probably not all-out. Ride it again before trusting this critical power.`,
+    );
   }
   return {
     cpW,
@@ -193,7 +198,10 @@ export function criticalSwimSpeed(t400S: number, t200S: number): SwimThreshold {
   if (t400 <= t200) throw new TrainingInputError("inconsistent", "The 400 m must take longer than the 200 m.");
   if (t400 < 2 * t200 * 0.9 || t400 > 2 * t200 * 1.5) {
     // A 400 m faster than about twice the 200 m, or far slower, is almost always a typing slip.
-    throw new TrainingInputError("inconsistent", "These times do not look like one swimmer's all-out 400 m and 200 m; check them.");
+    throw new TrainingInputError(
+      "inconsistent",
+      "These times do not look like one swimmer's all-out 400 m and 200 m; check them.",
+    );
   }
   const speedMps = 200 / (t400 - t200);
   return { speedMps, pacePer100mS: 100 / speedMps, dPrimeM: 400 - speedMps * t400 };

@@ -65,11 +65,18 @@ export async function action({ request }: Route.ActionArgs) {
       }
       case "sign-out-others": {
         const n = await signOutEverywhereElse(user, await currentSessionKey(request));
-        return data<Result>({ ok: true, message: n === 0 ? "No other device was signed in." : `Signed out ${n} other ${n === 1 ? "device" : "devices"}.` });
+        return data<Result>({
+          ok: true,
+          message:
+            n === 0 ? "No other device was signed in." : `Signed out ${n} other ${n === 1 ? "device" : "devices"}.`,
+        });
       }
       case "two-step-start":
         await startEnrolment(user);
-        return data<Result>({ ok: true, message: "Scan the code with your authenticator app, then enter the code it shows." });
+        return data<Result>({
+          ok: true,
+          message: "Scan the code with your authenticator app, then enter the code it shows.",
+        });
       case "two-step-confirm": {
         const recoveryCodes = await confirmEnrolment(user, code);
         return data<Result>({ ok: true, message: "Two-step sign-in is on.", recoveryCodes });
@@ -81,7 +88,10 @@ export async function action({ request }: Route.ActionArgs) {
         if (user.role !== "admin") forbidden("Only admins change studio settings.");
         const required = form.get("required") === "on";
         await setTwoStepRequiredForStaff(required);
-        return data<Result>({ ok: true, message: required ? "Coaches and admins must now use two-step sign-in." : "Two-step sign-in is now optional." });
+        return data<Result>({
+          ok: true,
+          message: required ? "Coaches and admins must now use two-step sign-in." : "Two-step sign-in is now optional.",
+        });
       }
       default:
         return fail("Unknown action.");
@@ -99,21 +109,31 @@ export default function Security({ loaderData }: Route.ComponentProps) {
     <>
       <PageHeader title="Sign-in and devices" lead="Where your account is signed in, and how you sign in." />
       {twoStep?.mustEnrol && (
-        <FormMessage>Your studio requires two-step sign-in for coaches and admins. Set it up below to go on.</FormMessage>
+        <FormMessage>
+          Your studio requires two-step sign-in for coaches and admins. Set it up below to go on.
+        </FormMessage>
       )}
       <div className="mt-4 grid gap-6 lg:grid-cols-2">
         <Card>
           <h2 className="text-lg font-semibold">Signed-in devices</h2>
-          {devicesFetcher.data && <div className="mt-3"><FormMessage tone={devicesFetcher.data.ok ? "ok" : "error"}>{devicesFetcher.data.message}</FormMessage></div>}
+          {devicesFetcher.data && (
+            <div className="mt-3">
+              <FormMessage tone={devicesFetcher.data.ok ? "ok" : "error"}>{devicesFetcher.data.message}</FormMessage>
+            </div>
+          )}
           <ul className="mt-3 divide-y divide-line" data-testid="devices">
             {devices.map((d) => (
               <li key={d.handle} className="flex flex-wrap items-center justify-between gap-2 py-3 text-sm">
                 <div>
                   <p className="font-medium">
-                    {d.label} {d.current && <span className="ml-1 rounded bg-teal px-1.5 py-0.5 text-xs text-paper">this device</span>}
+                    {d.label}{" "}
+                    {d.current && (
+                      <span className="ml-1 rounded bg-teal px-1.5 py-0.5 text-xs text-paper">this device</span>
+                    )}
                   </p>
                   <p className="text-ink-soft">
-                    Signed in {formatDateTime(d.signedInAt, timezone)} · last active {formatDateTime(d.lastSeenAt, timezone)}
+                    Signed in {formatDateTime(d.signedInAt, timezone)} · last active{" "}
+                    {formatDateTime(d.lastSeenAt, timezone)}
                   </p>
                 </div>
                 {!d.current && (
@@ -147,12 +167,20 @@ function TwoStepCard({ twoStep }: { twoStep: NonNullable<Route.ComponentProps["l
     <Card>
       <h2 className="text-lg font-semibold">Two-step sign-in</h2>
       <p className="mt-1 text-sm text-ink-soft">
-        After your password, a six-digit code from an authenticator app on your phone. Someone who learns your password still cannot sign in.
+        After your password, a six-digit code from an authenticator app on your phone. Someone who learns your password
+        still cannot sign in.
       </p>
-      {fetcher.data && !codes && <div className="mt-3"><FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage></div>}
+      {fetcher.data && !codes && (
+        <div className="mt-3">
+          <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>
+        </div>
+      )}
       {codes && (
         <div className="mt-3 rounded-lg border border-teal p-4 text-sm" data-testid="recovery-codes">
-          <p className="font-medium">Two-step sign-in is on. Keep these recovery codes somewhere safe: each signs you in once if you lose your phone. They are shown only now.</p>
+          <p className="font-medium">
+            Two-step sign-in is on. Keep these recovery codes somewhere safe: each signs you in once if you lose your
+            phone. They are shown only now.
+          </p>
           <ul className="num mt-2 grid grid-cols-2 gap-1 font-mono">
             {codes.map((c) => (
               <li key={c}>{c}</li>
@@ -176,9 +204,17 @@ function TwoStepCard({ twoStep }: { twoStep: NonNullable<Route.ComponentProps["l
         </fetcher.Form>
       ) : twoStep.enrolment ? (
         <fetcher.Form method="post" className="mt-4 flex flex-col gap-3">
-          <div className="w-48 rounded-lg bg-white p-2" role="img" aria-label="QR code to add Pacewright to your authenticator app" dangerouslySetInnerHTML={{ __html: twoStep.enrolment.qrSvg }} />
+          <div
+            className="w-48 rounded-lg bg-white p-2"
+            role="img"
+            aria-label="QR code to add Pacewright to your authenticator app"
+            dangerouslySetInnerHTML={{ __html: twoStep.enrolment.qrSvg }}
+          />
           <p className="text-xs text-ink-soft">
-            Cannot scan? Enter this key in the app: <span className="num font-mono break-all" data-testid="totp-secret">{twoStep.enrolment.secret}</span>
+            Cannot scan? Enter this key in the app:{" "}
+            <span className="num font-mono break-all" data-testid="totp-secret">
+              {twoStep.enrolment.secret}
+            </span>
           </p>
           <Field label="Code the app shows" name="code" inputMode="numeric" autoComplete="one-time-code" required />
           <button name="intent" value="two-step-confirm" className={buttonClass("primary", "self-start")}>

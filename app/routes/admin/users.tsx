@@ -20,14 +20,24 @@ export async function loader({ request }: Route.LoaderArgs) {
   return {
     meId: admin.id,
     timezone: admin.timezone,
-    users: users.map((u) => ({ id: u.id, name: u.name, email: u.email, role: u.role, createdAt: u.createdAt.toISOString() })),
+    users: users.map((u) => ({
+      id: u.id,
+      name: u.name,
+      email: u.email,
+      role: u.role,
+      createdAt: u.createdAt.toISOString(),
+    })),
   };
 }
 
 export async function action({ request }: Route.ActionArgs) {
   const admin = await requireRole(request, "admin");
   const parsed = parseForm(roleChangeSchema, await request.formData());
-  if (!parsed.ok) return data({ ok: false as const, error: Object.values(parsed.fieldErrors)[0] ?? "Invalid request." }, { status: 400 });
+  if (!parsed.ok)
+    return data(
+      { ok: false as const, error: Object.values(parsed.fieldErrors)[0] ?? "Invalid request." },
+      { status: 400 },
+    );
   try {
     const user = await changeRole(admin, parsed.data.userId, parsed.data.role);
     return { ok: true as const, message: `${user.name} is now ${user.role}.` };
@@ -81,7 +91,10 @@ export default function AdminUsers({ loaderData }: Route.ComponentProps) {
     column.accessor("name", { header: "Name" }),
     column.accessor("email", { header: "E-mail" }),
     column.accessor("createdAt", { header: "Joined", cell: (c) => formatDate(c.getValue(), timezone) }),
-    column.accessor("role", { header: "Role", cell: (c) => <RoleCell user={c.row.original} isMe={c.row.original.id === meId} /> }),
+    column.accessor("role", {
+      header: "Role",
+      cell: (c) => <RoleCell user={c.row.original} isMe={c.row.original.id === meId} />,
+    }),
   ];
   return (
     <>

@@ -18,17 +18,60 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const today = todayIn(athlete.timezone);
   const from = url.searchParams.get("from") ?? addDays(today, -89);
   const to = url.searchParams.get("to") ?? addDays(today, 28);
-  if (!isIsoDate(from) || !isIsoDate(to) || to < from) return Response.json({ error: "Give from and to as dates like 2027-01-04, with to after from." }, { status: 400 });
-  if (daysBetween(from, to) > 3 * 366) return Response.json({ error: "Ask for at most three years at a time." }, { status: 400 });
+  if (!isIsoDate(from) || !isIsoDate(to) || to < from)
+    return Response.json({ error: "Give from and to as dates like 2027-01-04, with to after from." }, { status: 400 });
+  if (daysBetween(from, to) > 3 * 366)
+    return Response.json({ error: "Ask for at most three years at a time." }, { status: 400 });
   const series = await loadSeries(athlete, from, to);
   if (url.searchParams.get("format") === "csv") {
     // One column of ride minutes per power band of the athlete's band set, named after the band.
-    const bandCols = series.bands.map((b, i) => `minutes_${b.name.toLowerCase().replace(/[^a-z0-9]+/g, "_").replace(/^_|_$/g, "") || `band_${i + 1}`}`);
-    const fields = ["date", "done_load", "of_which_power_load", "planned_load", "trimp", "work_kj", "fitness", "fatigue", "balance", "acute_chronic_rolling", "acute_chronic_ewma", ...bandCols];
-    const rows = series.daily.map((d) => [d.date, d.effortLoad, d.powerLoad, d.plannedLoad, d.trimp, d.workKj, d.fitness, d.fatigue, d.balance, d.acwrRolling ?? "", d.acwrEwma ?? "", ...d.bandMinutes]);
+    const bandCols = series.bands.map(
+      (b, i) =>
+        `minutes_${
+          b.name
+            .toLowerCase()
+            .replace(/[^a-z0-9]+/g, "_")
+            .replace(/^_|_$/g, "") || `band_${i + 1}`
+        }`,
+    );
+    const fields = [
+      "date",
+      "done_load",
+      "of_which_power_load",
+      "planned_load",
+      "trimp",
+      "work_kj",
+      "fitness",
+      "fatigue",
+      "balance",
+      "acute_chronic_rolling",
+      "acute_chronic_ewma",
+      ...bandCols,
+    ];
+    const rows = series.daily.map((d) => [
+      d.date,
+      d.effortLoad,
+      d.powerLoad,
+      d.plannedLoad,
+      d.trimp,
+      d.workKj,
+      d.fitness,
+      d.fatigue,
+      d.balance,
+      d.acwrRolling ?? "",
+      d.acwrEwma ?? "",
+      ...d.bandMinutes,
+    ]);
     return new Response(Papa.unparse({ fields, data: rows }, { newline: "\n" }) + "\n", {
-      headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="pacewright-load-${from}-${to}.csv"`, "Cache-Control": "private, no-store" },
+      headers: {
+        "Content-Type": "text/csv; charset=utf-8",
+        "Content-Disposition": `attachment; filename="pacewright-load-${from}-${to}.csv"`,
+        "Cache-Control": "private, no-store",
+      },
     });
   }
-  return Response.json({ ...series, powerCurve: url.searchParams.get("curve") === "0" ? [] : await powerCurveComparison(athlete) }, { headers: { "Cache-Control": "private, no-store" } });
+  return Response.json(
+    { ...series, powerCurve: url.searchParams.get("curve") === "0" ? [] : await powerCurveComparison(athlete) },
+    { headers: { "Cache-Control": "private, no-store" } },
+  );
 }

@@ -7,7 +7,6 @@ import { daysBetween, isIsoDate } from "~/lib/dates";
 import { jsonResponse as json, requireJson } from "~/.server/http";
 import type { Route } from "./+types/calendar";
 
-
 /** Sessions between `from` and `to` (at most 16 weeks) for the signed-in athlete, or for a coach's `athleteId`. */
 export async function loader({ request }: Route.LoaderArgs) {
   const viewer = await requireUser(request);
@@ -16,11 +15,15 @@ export async function loader({ request }: Route.LoaderArgs) {
   const from = url.searchParams.get("from");
   const to = url.searchParams.get("to");
   if (!isIsoDate(from) || !isIsoDate(to)) return json({ error: "Give from and to as dates like 2027-01-04." }, 400);
-  if (to < from || daysBetween(from, to) > 16 * 7) return json({ error: "Ask for at most 16 weeks, with to after from." }, 400);
+  if (to < from || daysBetween(from, to) > 16 * 7)
+    return json({ error: "Ask for at most 16 weeks, with to after from." }, 400);
   return json({ athleteId: athlete.id, from, to, sessions: await calendarRange(athlete.id, from, to) });
 }
 
-const moveSchema = z.object({ sessionId: z.number().int().positive(), date: z.string().refine(isIsoDate, "Give a date like 2027-01-04.") });
+const moveSchema = z.object({
+  sessionId: z.number().int().positive(),
+  date: z.string().refine(isIsoDate, "Give a date like 2027-01-04."),
+});
 
 /** Moves one planned session to another day: { sessionId, date } (and athleteId for a coach). */
 export async function action({ request }: Route.ActionArgs) {
@@ -43,4 +46,3 @@ export async function action({ request }: Route.ActionArgs) {
     return jsonFailure(err);
   }
 }
-

@@ -35,7 +35,14 @@ export async function action({ request, params }: Route.ActionArgs) {
     return json({ error: "Send the change as JSON." }, 400);
   }
   const parsed = boardOpSchema.safeParse(body);
-  if (!parsed.success) return json({ error: "That change is not one the board understands.", issues: parsed.error.issues.slice(0, 5).map((i) => `${i.path.join(".")}: ${i.message}`) }, 400);
+  if (!parsed.success)
+    return json(
+      {
+        error: "That change is not one the board understands.",
+        issues: parsed.error.issues.slice(0, 5).map((i) => `${i.path.join(".")}: ${i.message}`),
+      },
+      400,
+    );
   try {
     return json(await applyBoardOp(coach.id, Number(params.planId), parsed.data));
   } catch (err) {

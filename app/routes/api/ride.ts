@@ -13,7 +13,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const viewer = await requireUser(request);
   const { upload } = await requireUpload(viewer, params.id);
   const summary = upload.summary as UploadSummary;
-  const base = upload.originalName.replace(/\.[^.]+$/, "").replace(/[^\w.-]+/g, "-").slice(0, 60) || `ride-${upload.id}`;
+  const base =
+    upload.originalName
+      .replace(/\.[^.]+$/, "")
+      .replace(/[^\w.-]+/g, "-")
+      .slice(0, 60) || `ride-${upload.id}`;
   const file = params.file;
   if (file === "power-curve.csv") return csv(curveCsv(summary.curve ?? []), `${base}-power-curve.csv`);
   const activity = await loadActivity(upload);
@@ -27,7 +31,14 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       startTime: summary.startTime,
       durationS: summary.durationS,
       columns: RIDE_CSV_COLUMNS,
-      samples: activity.samples.map((s) => [s.t, cell(s.power), cell(s.hr), cell(s.cadence), cell(s.speed, 3), cell(s.distance, 1)]),
+      samples: activity.samples.map((s) => [
+        s.t,
+        cell(s.power),
+        cell(s.hr),
+        cell(s.cadence),
+        cell(s.speed, 3),
+        cell(s.distance, 1),
+      ]),
       powerCurve: (summary.curve ?? []).map((c) => ({ windowS: c.windowS, watts: Math.round(c.watts * 10) / 10 })),
       laps: lapsOf(upload, activity.samples.length),
     },
@@ -36,5 +47,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 }
 
 function csv(body: string, name: string) {
-  return new Response(body, { headers: { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${name}"`, "Cache-Control": "private, no-store" } });
+  return new Response(body, {
+    headers: {
+      "Content-Type": "text/csv; charset=utf-8",
+      "Content-Disposition": `attachment; filename="${name}"`,
+      "Cache-Control": "private, no-store",
+    },
+  });
 }

@@ -7,7 +7,6 @@ import { protocolSchema } from "~/lib/field-tests";
 import { jsonResponse as json, requireJson } from "~/.server/http";
 import type { Route } from "./+types/tests-preview";
 
-
 export const submissionSchema = z.object({
   protocol: protocolSchema,
   inputs: z.unknown().optional(),

@@ -1,4 +1,10 @@
-import { MaxFileSizeExceededError, MaxFilesExceededError, MaxTotalSizeExceededError, parseFormData, type FileUpload } from "@remix-run/form-data-parser";
+import {
+  MaxFileSizeExceededError,
+  MaxFilesExceededError,
+  MaxTotalSizeExceededError,
+  parseFormData,
+  type FileUpload,
+} from "@remix-run/form-data-parser";
 import { DomainError } from "~/.server/errors";
 import { ALLOWED, MAX_UPLOAD_BYTES } from "~/.server/services/uploads";
 
@@ -8,7 +14,8 @@ import { ALLOWED, MAX_UPLOAD_BYTES } from "~/.server/services/uploads";
  */
 export async function readUploadBody(request: Request): Promise<{ name: string; bytes: Uint8Array }> {
   const type = request.headers.get("content-type") ?? "";
-  if (!type.startsWith("multipart/form-data")) throw new DomainError("unsupported", "Send the file as multipart/form-data.");
+  if (!type.startsWith("multipart/form-data"))
+    throw new DomainError("unsupported", "Send the file as multipart/form-data.");
   const declared = Number(request.headers.get("content-length") ?? 0);
   if (declared > MAX_UPLOAD_BYTES + 64 * 1024) throw new DomainError("too_large", "That file is larger than 25 MB.");
   let received: { name: string; bytes: Uint8Array } | null = null;
@@ -25,7 +32,8 @@ export async function readUploadBody(request: Request): Promise<{ name: string; 
   try {
     await parseFormData(request, { maxFileSize: MAX_UPLOAD_BYTES, maxFiles: 1 }, handler);
   } catch (err) {
-    if (err instanceof MaxFileSizeExceededError || err instanceof MaxTotalSizeExceededError) throw new DomainError("too_large", "That file is larger than 25 MB.");
+    if (err instanceof MaxFileSizeExceededError || err instanceof MaxTotalSizeExceededError)
+      throw new DomainError("too_large", "That file is larger than 25 MB.");
     if (err instanceof MaxFilesExceededError) throw new DomainError("invalid", "Send one file at a time.");
     throw new DomainError("invalid", "The upload could not be read; try again.");
   }

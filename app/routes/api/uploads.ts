@@ -7,7 +7,6 @@ import { jsonResponse as json } from "~/.server/http";
 import { jsonFailure } from "~/.server/replies";
 import type { Route } from "./+types/uploads";
 
-
 /** Upload history as JSON; `?id=` adds that file's light trace for charts. A coach passes `athleteId`. */
 export async function loader({ request }: Route.LoaderArgs) {
   const viewer = await requireUser(request);
@@ -23,12 +22,23 @@ export async function loader({ request }: Route.LoaderArgs) {
       return jsonFailure(err);
     }
   }
-  const uploads = await Upload.findAll({ where: { athleteId: athlete.id }, order: [["createdAt", "DESC"]], limit: 100 });
+  const uploads = await Upload.findAll({
+    where: { athleteId: athlete.id },
+    order: [["createdAt", "DESC"]],
+    limit: 100,
+  });
   return json({ uploads: uploads.map(view) });
 }
 
 function view(u: Upload) {
-  return { id: u.id, name: u.originalName, format: u.format, size: u.size, createdAt: u.createdAt.toISOString(), summary: u.summary };
+  return {
+    id: u.id,
+    name: u.originalName,
+    format: u.format,
+    size: u.size,
+    createdAt: u.createdAt.toISOString(),
+    summary: u.summary,
+  };
 }
 
 /** One ride file (field "file", at most 25 MB, CSV / GPX / FIT); answers the summary and a trace, or why not. */

@@ -16,7 +16,13 @@ export async function loader({ request }: Route.LoaderArgs) {
   if (url.searchParams.get("view") === "month") {
     const month = monthOf(url.searchParams.get("month"), today);
     const grid = monthGrid(month);
-    return { view: "month" as const, today, month, ...grid, sessions: await calendarRange(athlete.id, grid.from, grid.to) };
+    return {
+      view: "month" as const,
+      today,
+      month,
+      ...grid,
+      sessions: await calendarRange(athlete.id, grid.from, grid.to),
+    };
   }
   // The two weeks shown start on the Monday of ?from= (any day of that week), else this week.
   const asked = url.searchParams.get("from");
@@ -27,12 +33,21 @@ export async function loader({ request }: Route.LoaderArgs) {
 export default function AthleteCalendar({ loaderData }: Route.ComponentProps) {
   return (
     <>
-      <PageHeader title="Calendar" lead="Your sessions with targets from your own thresholds. Drag a session to move it to another day." />
+      <PageHeader
+        title="Calendar"
+        lead="Your sessions with targets from your own thresholds. Drag a session to move it to another day."
+      />
       <CalendarViews view={loaderData.view} />
       {loaderData.view === "month" ? (
         <MonthCalendar {...loaderData} title="Your calendar" sessionHref={(id) => `/athlete/sessions/${id}`} />
       ) : (
-        <WeekCalendar key={loaderData.from} from={loaderData.from} today={loaderData.today} sessions={loaderData.sessions} sessionHref={(id) => `/athlete/sessions/${id}`} />
+        <WeekCalendar
+          key={loaderData.from}
+          from={loaderData.from}
+          today={loaderData.today}
+          sessions={loaderData.sessions}
+          sessionHref={(id) => `/athlete/sessions/${id}`}
+        />
       )}
     </>
   );

@@ -7,12 +7,32 @@ import { activeFeed, feedUrls, revokeFeed, rotateFeed } from "~/.server/services
 export async function feedPageData(user: User) {
   const active = await activeFeed(user.id);
   const feed = active
-    ? { ...feedUrls(active.token), createdAt: active.createdAt, lastUsedAt: active.lastUsedAt, qrSvg: await QRCode.toString(feedUrls(active.token).webcal, { type: "svg", margin: 1, color: { dark: "#1B2330", light: "#FFFFFF" } }) }
+    ? {
+        ...feedUrls(active.token),
+        createdAt: active.createdAt,
+        lastUsedAt: active.lastUsedAt,
+        qrSvg: await QRCode.toString(feedUrls(active.token).webcal, {
+          type: "svg",
+          margin: 1,
+          color: { dark: "#1B2330", light: "#FFFFFF" },
+        }),
+      }
     : null;
-  return { feed, alarmMinutes: user.feedAlarmMinutes ?? null, forCoach: user.role === "coach", trainingTimes: user.trainingTimes ?? Array<string | null>(7).fill(null) };
+  return {
+    feed,
+    alarmMinutes: user.feedAlarmMinutes ?? null,
+    forCoach: user.role === "coach",
+    trainingTimes: user.trainingTimes ?? Array<string | null>(7).fill(null),
+  };
 }
 
-const alarmSchema = z.union([z.literal(""), z.coerce.number().int().refine((v) => [15, 30, 60, 120].includes(v), "Choose a reminder from the list.")]);
+const alarmSchema = z.union([
+  z.literal(""),
+  z.coerce
+    .number()
+    .int()
+    .refine((v) => [15, 30, 60, 120].includes(v), "Choose a reminder from the list."),
+]);
 
 export async function feedPageAction(user: User, form: FormData) {
   const intent = form.get("intent");
@@ -33,15 +53,24 @@ export async function feedPageAction(user: User, form: FormData) {
       else if (/^([01]\d|2[0-3]):[0-5]\d$/.test(v)) times.push(v);
       else fieldErrors[`time-${d}`] = "Use a time like 06:30, or leave it empty for all day.";
     }
-    if (Object.keys(fieldErrors).length) return data({ ok: false, message: "Check the times.", fieldErrors }, { status: 400 });
+    if (Object.keys(fieldErrors).length)
+      return data({ ok: false, message: "Check the times.", fieldErrors }, { status: 400 });
     await user.update({ trainingTimes: times.some(Boolean) ? times : null });
-    return { ok: true, message: times.some(Boolean) ? "Saved. Sessions on those days get a start time and a length in your calendar." : "Saved. Every session is an all-day event." };
+    return {
+      ok: true,
+      message: times.some(Boolean)
+        ? "Saved. Sessions on those days get a start time and a length in your calendar."
+        : "Saved. Every session is an all-day event.",
+    };
   }
   if (intent === "alarm") {
     const parsed = alarmSchema.safeParse(form.get("alarmMinutes") ?? "");
     if (!parsed.success) return data({ ok: false, message: parsed.error.issues[0].message }, { status: 400 });
     await user.update({ feedAlarmMinutes: parsed.data === "" ? null : parsed.data });
-    return { ok: true, message: parsed.data === "" ? "No reminders." : `Reminders ${parsed.data} minutes before timed sessions.` };
+    return {
+      ok: true,
+      message: parsed.data === "" ? "No reminders." : `Reminders ${parsed.data} minutes before timed sessions.`,
+    };
   }
   return data({ ok: false, message: "Unknown request." }, { status: 400 });
 }

@@ -21,8 +21,16 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const athlete = await requireRole(request, "athlete");
   const { id } = await requireScheduledSession(athlete, params.id);
   const page = await sessionPageData(athlete, id, { lap: lapFromSearch(new URL(request.url)) }).catch(loaderFailure);
-  const coaches = await User.findAll({ where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) }, attributes: ["name"] });
-  return { ...page, comments: await listComments(athlete, page.session.id), coachNames: coaches.map((c) => c.name), timezone: athlete.timezone };
+  const coaches = await User.findAll({
+    where: { id: (await CoachAthlete.findAll({ where: { athleteId: athlete.id } })).map((l) => l.coachId) },
+    attributes: ["name"],
+  });
+  return {
+    ...page,
+    comments: await listComments(athlete, page.session.id),
+    coachNames: coaches.map((c) => c.name),
+    timezone: athlete.timezone,
+  };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -34,8 +42,19 @@ export async function action({ request, params }: Route.ActionArgs) {
     const page = await sessionPageData(athlete, id).catch(loaderFailure);
     const score = form.get("effortScore");
     try {
-      const r = await attachRide(athlete, Number(form.get("uploadId")), page.session.date, score === null || score === "" ? null : Math.max(0, Math.min(10, Math.round(Number(score)))));
-      return { ok: true, message: r.matched ? "Ride file attached; the session is marked done." : "This day had no planned ride left; the file was kept as an unplanned ride.", fieldErrors: {} };
+      const r = await attachRide(
+        athlete,
+        Number(form.get("uploadId")),
+        page.session.date,
+        score === null || score === "" ? null : Math.max(0, Math.min(10, Math.round(Number(score)))),
+      );
+      return {
+        ok: true,
+        message: r.matched
+          ? "Ride file attached; the session is marked done."
+          : "This day had no planned ride left; the file was kept as an unplanned ride.",
+        fieldErrors: {},
+      };
     } catch (err) {
       return pageFailure(err, (e) => ({ ok: false, message: e.message, fieldErrors: {} }));
     }
@@ -55,13 +74,22 @@ export default function AthleteSession({ loaderData }: Route.ComponentProps) {
       <PageHeader title={loaderData.session.name} />
       {loaderData.pacing && (
         <div className="mb-6">
-          <PacingCard data={loaderData.pacing} printHref={`/athlete/sessions/${loaderData.session.id}/pacing${pacingQuery(loaderData.pacing.lap)}`} canEditSplit={false} />
+          <PacingCard
+            data={loaderData.pacing}
+            printHref={`/athlete/sessions/${loaderData.session.id}/pacing${pacingQuery(loaderData.pacing.lap)}`}
+            canEditSplit={false}
+          />
         </div>
       )}
       <SessionDetail data={loaderData} canComplete />
       {loaderData.session.status === "planned" && loaderData.session.sport === "bike" && <AttachRide />}
-      {loaderData.coachNames.length > 0 && <SessionComments comments={loaderData.comments} otherSide={loaderData.coachNames.join(" and ")} timezone={loaderData.timezone} />}
+      {loaderData.coachNames.length > 0 && (
+        <SessionComments
+          comments={loaderData.comments}
+          otherSide={loaderData.coachNames.join(" and ")}
+          timezone={loaderData.timezone}
+        />
+      )}
     </>
   );
 }
-

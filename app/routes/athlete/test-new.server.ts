@@ -31,7 +31,9 @@ export function savedMessage(report: Report, confirmer: string) {
     report.oldValue ? ` (was ${show(report.oldValue, report.unit)})` : "",
     `: ${report.sessionsChanged} planned sessions, ${report.blocksChanged} steps rescaled.`,
     example ? ` For example ${example.name} on ${example.date}: ${example.before} → ${example.after}.` : "",
-    report.guard?.flagged && report.confirmedBy ? ` ${confirmer} confirmed this change after the plausibility check.` : "",
+    report.guard?.flagged && report.confirmedBy
+      ? ` ${confirmer} confirmed this change after the plausibility check.`
+      : "",
   ].join("");
 }
 

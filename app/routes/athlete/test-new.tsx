@@ -2,7 +2,13 @@ import { useEffect, useState } from "react";
 import { Link, useFetcher } from "react-router";
 import { FILE_PROTOCOLS, FileResult } from "~/components/field-test/file-result";
 import { GuardCard, ProposalCard, type TestPreview } from "~/components/field-test/proposal";
-import { CriticalPowerInputs, FIRST_EFFORTS, TYPED_INPUTS, typedInputs, type TypedFields } from "~/components/field-test/protocol-inputs";
+import {
+  CriticalPowerInputs,
+  FIRST_EFFORTS,
+  TYPED_INPUTS,
+  typedInputs,
+  type TypedFields,
+} from "~/components/field-test/protocol-inputs";
 import { ReadinessCard, type Answer } from "~/components/field-test/readiness";
 import type { UploadResult } from "~/components/upload-box";
 import { buttonClass } from "~/components/ui/button";
@@ -20,7 +26,12 @@ export const meta: Route.MetaFunction = () => [{ title: "New field test · Pacew
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const { athlete, base, viewer } = await requireAthleteSubject(request, params.athleteId);
-  return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, today: todayIn(athlete.timezone) };
+  return {
+    athlete: { id: athlete.id, name: athlete.name },
+    base,
+    forCoach: viewer.id !== athlete.id,
+    today: todayIn(athlete.timezone),
+  };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -40,7 +51,9 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
   const [windowStart, setWindowStart] = useState<number | null>(null);
   const [answers, setAnswers] = useState<Answer[]>(READINESS.questions.map(() => null));
   const [stopRead, setStopRead] = useState(false);
-  const [requestKey] = useState(() => (typeof crypto !== "undefined" && "randomUUID" in crypto ? crypto.randomUUID() : String(Math.random())));
+  const [requestKey] = useState(() =>
+    typeof crypto !== "undefined" && "randomUUID" in crypto ? crypto.randomUUID() : String(Math.random()),
+  );
   // A fresh fetcher per file: a new upload starts with no proposal, whatever the last file gave.
   const [fileRound, setFileRound] = useState(0);
   const previewer = useFetcher<TestPreview & { error?: string }>({ key: `test-preview-${fileRound}` });
@@ -56,12 +69,18 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
   const submission = {
     protocol,
     testedOn,
-    ...(source === "file" && upload ? { uploadId: upload.upload.id, windowStartS: windowStart } : { inputs: typedInputs(protocol, fields, efforts) }),
+    ...(source === "file" && upload
+      ? { uploadId: upload.upload.id, windowStartS: windowStart }
+      : { inputs: typedInputs(protocol, fields, efforts) }),
   };
   const submissionKey = JSON.stringify(submission);
   const askPreview = () => {
     setPreviewedFor(submissionKey);
-    previewer.submit(submission, { method: "post", action: `/api/tests/preview${athleteQuery}`, encType: "application/json" });
+    previewer.submit(submission, {
+      method: "post",
+      action: `/api/tests/preview${athleteQuery}`,
+      encType: "application/json",
+    });
   };
   // A file's proposal follows the file and the window chosen in it, without a button (typed values use the button).
   useEffect(() => {
@@ -86,7 +105,12 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
   };
   const save = () =>
     saver.submit(
-      { ...submission, requestKey, confirmed: needsConfirm ? confirmed : null, readiness: p.maximal ? { answers, stopSignsRead: stopRead } : null },
+      {
+        ...submission,
+        requestKey,
+        confirmed: needsConfirm ? confirmed : null,
+        readiness: p.maximal ? { answers, stopSignsRead: stopRead } : null,
+      },
       { method: "post", encType: "application/json" },
     );
   const saveError = firstMessage(saver.data);
@@ -100,14 +124,22 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
         </Link>{" "}
         / New
       </p>
-      <PageHeader title={forCoach ? `New field test for ${athlete.name}` : "New field test"} lead="Log a result; Pacewright proposes the new threshold, shows what will change, and rescales every future target when you save." />
+      <PageHeader
+        title={forCoach ? `New field test for ${athlete.name}` : "New field test"}
+        lead="Log a result; Pacewright proposes the new threshold, shows what will change, and rescales every future target when you save."
+      />
       <div className="grid gap-6 lg:grid-cols-[1fr_24rem]">
         <div className="flex flex-col gap-6">
           <Card>
             <div className="grid gap-4 sm:grid-cols-2">
               <label className="flex flex-col gap-1 text-sm">
                 <span className="font-medium">Test</span>
-                <select aria-label="Test" value={protocol} onChange={(e) => setProtocol(e.target.value as ProtocolKey)} className="rounded-lg border border-line bg-white px-3 py-2">
+                <select
+                  aria-label="Test"
+                  value={protocol}
+                  onChange={(e) => setProtocol(e.target.value as ProtocolKey)}
+                  className="rounded-lg border border-line bg-white px-3 py-2"
+                >
                   {PROTOCOL_KEYS.map((k) => (
                     <option key={k} value={k}>
                       {PROTOCOLS[k].label}
@@ -117,13 +149,21 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
               </label>
               <label className="flex flex-col gap-1 text-sm">
                 <span className="font-medium">Date of the test</span>
-                <input type="date" value={testedOn} max={today} onChange={(e) => setTestedOn(e.target.value)} className="rounded-lg border border-line px-3 py-2" />
+                <input
+                  type="date"
+                  value={testedOn}
+                  max={today}
+                  onChange={(e) => setTestedOn(e.target.value)}
+                  className="rounded-lg border border-line px-3 py-2"
+                />
               </label>
             </div>
             <p className="mt-3 text-sm text-ink-soft">{p.instructions}</p>
           </Card>
 
-          {p.maximal && <ReadinessCard answers={answers} onAnswers={setAnswers} stopRead={stopRead} onStopRead={setStopRead} />}
+          {p.maximal && (
+            <ReadinessCard answers={answers} onAnswers={setAnswers} stopRead={stopRead} onStopRead={setStopRead} />
+          )}
 
           <Card>
             {FILE_PROTOCOLS.includes(protocol) && (
@@ -153,8 +193,17 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
               />
             ) : (
               <div className="grid gap-4 sm:grid-cols-2">
-                {Typed ? <Typed fields={fields} onChange={setFields} /> : <CriticalPowerInputs efforts={efforts} onChange={setEfforts} />}
-                <button type="button" className={buttonClass("secondary", "justify-self-start sm:col-span-2")} onClick={askPreview} disabled={previewer.state !== "idle"}>
+                {Typed ? (
+                  <Typed fields={fields} onChange={setFields} />
+                ) : (
+                  <CriticalPowerInputs efforts={efforts} onChange={setEfforts} />
+                )}
+                <button
+                  type="button"
+                  className={buttonClass("secondary", "justify-self-start sm:col-span-2")}
+                  onClick={askPreview}
+                  disabled={previewer.state !== "idle"}
+                >
                   {previewer.state !== "idle" ? "Working…" : "Preview the change"}
                 </button>
               </div>
@@ -164,9 +213,16 @@ export default function NewTest({ loaderData }: Route.ComponentProps) {
 
         <aside className="flex flex-col gap-4 lg:sticky lg:top-4 lg:self-start" aria-label="Proposal">
           <ProposalCard preview={preview} error={previewer.data?.error} testedOn={testedOn} />
-          {preview?.guard.flagged && <GuardCard guard={preview.guard} confirmed={confirmed} onConfirmed={setConfirmed} />}
+          {preview?.guard.flagged && (
+            <GuardCard guard={preview.guard} confirmed={confirmed} onConfirmed={setConfirmed} />
+          )}
           {saveError && <FormMessage>{saveError}</FormMessage>}
-          <button type="button" className={buttonClass("primary", "py-2.5")} onClick={save} disabled={!preview || (needsConfirm && !confirmed) || saver.state !== "idle"}>
+          <button
+            type="button"
+            className={buttonClass("primary", "py-2.5")}
+            onClick={save}
+            disabled={!preview || (needsConfirm && !confirmed) || saver.state !== "idle"}
+          >
             {saver.state !== "idle" ? "Saving…" : "Save and rescale"}
           </button>
         </aside>

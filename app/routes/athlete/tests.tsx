@@ -25,8 +25,19 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const latest = new Map<string, (typeof history.thresholds)[number]>();
   for (const t of history.thresholds) latest.set(`${t.sport}:${t.metric}`, t);
   const sets = await bandSetsFor(athlete);
-  const zones = [...latest.values()].flatMap((t) => bandTable(t, sets[bandSetKeyFor(t.sport, t.metric as Metric)]) ?? []);
-  return { athlete: { id: athlete.id, name: athlete.name }, base, forCoach: viewer.id !== athlete.id, ...history, current: [...latest.values()], zones, crossChecks: await crossChecksFor(athlete.id), runningPaces: await runningPacesFor(athlete.id) };
+  const zones = [...latest.values()].flatMap(
+    (t) => bandTable(t, sets[bandSetKeyFor(t.sport, t.metric as Metric)]) ?? [],
+  );
+  return {
+    athlete: { id: athlete.id, name: athlete.name },
+    base,
+    forCoach: viewer.id !== athlete.id,
+    ...history,
+    current: [...latest.values()],
+    zones,
+    crossChecks: await crossChecksFor(athlete.id),
+    runningPaces: await runningPacesFor(athlete.id),
+  };
 }
 
 export async function action({ request, params }: Route.ActionArgs) {
@@ -34,15 +45,26 @@ export async function action({ request, params }: Route.ActionArgs) {
   const form = await request.formData();
   if (form.get("intent") === "cross-check") {
     try {
-      const r = await applyCrossCheck(athlete, viewer, { aId: Number(form.get("aId")), bId: Number(form.get("bId")), choice: String(form.get("choice") ?? ""), confirmed: form.get("confirmed") === "1" });
-      return { ok: true, message: `Threshold set to ${r.value} from the cross-check; ${r.report.sessionsChanged} sessions rescaled.` };
+      const r = await applyCrossCheck(athlete, viewer, {
+        aId: Number(form.get("aId")),
+        bId: Number(form.get("bId")),
+        choice: String(form.get("choice") ?? ""),
+        confirmed: form.get("confirmed") === "1",
+      });
+      return {
+        ok: true,
+        message: `Threshold set to ${r.value} from the cross-check; ${r.report.sessionsChanged} sessions rescaled.`,
+      };
     } catch (err) {
       return pageFailure(err, (e) => ({ ok: false, message: e.message, needsConfirm: e.kind === "confirm_needed" }));
     }
   }
   try {
     const { undo } = await undoTest(athlete, viewer, Number(form.get("testId")));
-    return { ok: true, message: `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets. A correction has been e-mailed to the athlete and coach.` };
+    return {
+      ok: true,
+      message: `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets. A correction has been e-mailed to the athlete and coach.`,
+    };
   } catch (err) {
     return pageFailure(err, (e) => ({ ok: false, message: e.message }));
   }
@@ -55,7 +77,9 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
   const undo = useFetcher<typeof action>();
   const series = [...new Set(thresholds.map((t) => `${t.sport}:${t.metric}`))];
   const [shown, setShown] = useState(series[0] ?? "");
-  const points = thresholds.filter((t) => `${t.sport}:${t.metric}` === shown).map((t) => ({ date: t.effectiveFrom, value: t.value, source: t.source }));
+  const points = thresholds
+    .filter((t) => `${t.sport}:${t.metric}` === shown)
+    .map((t) => ({ date: t.effectiveFrom, value: t.value, source: t.source }));
   return (
     <>
       <PageHeader
@@ -83,7 +107,12 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
             <div className="flex flex-wrap items-center justify-between gap-2">
               <h2 className="font-semibold">Threshold history</h2>
               {series.length > 1 && (
-                <select value={shown} onChange={(e) => setShown(e.target.value)} aria-label="Which threshold" className="rounded border border-line bg-white px-2 py-1 text-sm">
+                <select
+                  value={shown}
+                  onChange={(e) => setShown(e.target.value)}
+                  aria-label="Which threshold"
+                  className="rounded border border-line bg-white px-2 py-1 text-sm"
+                >
                   {series.map((s) => (
                     <option key={s} value={s}>
                       {LABEL[s] ?? s}
@@ -92,14 +121,25 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
                 </select>
               )}
             </div>
-            {points.length ? <ThresholdChart points={points} unit={thresholds.find((t) => `${t.sport}:${t.metric}` === shown)!.unit} /> : <p className="mt-2 text-sm text-ink-soft">No thresholds yet: log a field test.</p>}
+            {points.length ? (
+              <ThresholdChart points={points} unit={thresholds.find((t) => `${t.sport}:${t.metric}` === shown)!.unit} />
+            ) : (
+              <p className="mt-2 text-sm text-ink-soft">No thresholds yet: log a field test.</p>
+            )}
             {points.length > 0 && (
-              <ol className="num mt-3 flex flex-col divide-y divide-line/60 text-sm" data-testid="threshold-basis" aria-label="Where each threshold came from">
+              <ol
+                className="num mt-3 flex flex-col divide-y divide-line/60 text-sm"
+                data-testid="threshold-basis"
+                aria-label="Where each threshold came from"
+              >
                 {thresholds
                   .filter((t) => `${t.sport}:${t.metric}` === shown)
                   .reverse()
                   .map((t) => (
-                    <li key={t.id} className="grid grid-cols-[6.5rem_5.5rem_1fr] gap-2 py-1.5 max-sm:grid-cols-[6.5rem_1fr]">
+                    <li
+                      key={t.id}
+                      className="grid grid-cols-[6.5rem_5.5rem_1fr] gap-2 py-1.5 max-sm:grid-cols-[6.5rem_1fr]"
+                    >
                       <span className="text-ink-soft">{t.effectiveFrom}</span>
                       <span className="font-medium">{t.display}</span>
                       <span className="text-ink-soft max-sm:col-span-2">{t.basis}</span>
@@ -125,7 +165,11 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
                 </thead>
                 <tbody>
                   {tests.map((t) => (
-                    <tr key={t.id} className={`border-t border-line/60 ${t.status === "undone" ? "text-ink-soft" : ""}`} data-status={t.status}>
+                    <tr
+                      key={t.id}
+                      className={`border-t border-line/60 ${t.status === "undone" ? "text-ink-soft" : ""}`}
+                      data-status={t.status}
+                    >
                       <td className="py-2">{t.testedOn}</td>
                       <td className="py-2">{t.label}</td>
                       <td className={`py-2 ${t.status === "undone" ? "line-through" : ""}`}>
@@ -145,9 +189,17 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
                       </td>
                       <td className="py-2 text-right">
                         {t.canUndo && (
-                          <undo.Form method="post" onSubmit={(e) => !confirm("Remove this test and put the previous targets back?") && e.preventDefault()}>
+                          <undo.Form
+                            method="post"
+                            onSubmit={(e) =>
+                              !confirm("Remove this test and put the previous targets back?") && e.preventDefault()
+                            }
+                          >
                             <input type="hidden" name="testId" value={t.id} />
-                            <button className={buttonClass("ghost", "px-2 py-1 text-brick")} disabled={undo.state !== "idle"}>
+                            <button
+                              className={buttonClass("ghost", "px-2 py-1 text-brick")}
+                              disabled={undo.state !== "idle"}
+                            >
                               Undo
                             </button>
                           </undo.Form>

@@ -47,7 +47,9 @@ export default function Today({ loaderData }: Route.ComponentProps) {
                   <Link to={`/athlete/sessions/${s.id}`} className="font-medium text-teal hover:underline">
                     {s.name}
                   </Link>
-                  <span className="num ml-2 text-sm text-ink-soft">{formatMinutes(s.plannedDurationS)} · {s.status}</span>
+                  <span className="num ml-2 text-sm text-ink-soft">
+                    {formatMinutes(s.plannedDurationS)} · {s.status}
+                  </span>
                   <p className="num text-sm font-medium">{s.keyTarget}</p>
                   {s.needsTest && <p className="text-sm text-brick">Targets show in % until you log a field test.</p>}
                 </li>

@@ -11,11 +11,26 @@ export const meta: Route.MetaFunction = () => [{ title: "Ride files · Pacewrigh
 
 export async function loader({ request }: Route.LoaderArgs) {
   const athlete = await requireRole(request, "athlete");
-  const uploads = await Upload.findAll({ where: { athleteId: athlete.id }, order: [["createdAt", "DESC"]], limit: 100 });
+  const uploads = await Upload.findAll({
+    where: { athleteId: athlete.id },
+    order: [["createdAt", "DESC"]],
+    limit: 100,
+  });
   return {
     uploads: uploads.map((u) => {
       const s = u.summary as UploadSummary;
-      return { id: u.id, name: u.originalName, format: u.format, size: u.size, createdAt: u.createdAt.toISOString(), durationS: s.durationS, workKj: s.workKj, avgPower: s.avgPower, avgHr: s.avgHr, best20: s.efforts?.["20min"]?.mean ?? null };
+      return {
+        id: u.id,
+        name: u.originalName,
+        format: u.format,
+        size: u.size,
+        createdAt: u.createdAt.toISOString(),
+        durationS: s.durationS,
+        workKj: s.workKj,
+        avgPower: s.avgPower,
+        avgHr: s.avgHr,
+        best20: s.efforts?.["20min"]?.mean ?? null,
+      };
     }),
   };
 }

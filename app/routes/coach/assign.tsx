@@ -39,23 +39,38 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     weeks: loaded.weeks.length,
     athletes: rows,
     today,
-    assignments: assignments.map((a) => ({ id: a.id, athlete: names.get(a.athleteId) ?? "—", startDate: a.startDate, outdated: a.planVersion < loaded.plan.version })),
+    assignments: assignments.map((a) => ({
+      id: a.id,
+      athlete: names.get(a.athleteId) ?? "—",
+      startDate: a.startDate,
+      outdated: a.planVersion < loaded.plan.version,
+    })),
   };
 }
 
 const assignSchema = z
   .object({
-    athleteIds: z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]), z.array(z.coerce.number().int().positive()).min(1, "Tick at least one athlete.")),
+    athleteIds: z.preprocess(
+      (v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]),
+      z.array(z.coerce.number().int().positive()).min(1, "Tick at least one athlete."),
+    ),
     mode: z.enum(["start", "event"], { error: "Choose how to align the plan." }),
     date: z.string().refine(isIsoDate, "Choose a date."),
     // Present once the coach has seen the checks and answered them.
     decided: z.literal("1").optional(),
     overlap: z.enum(["replace", "alongside"], { error: "Choose replace or alongside." }).optional(),
-    replaceFrom: z.string().refine(isIsoDate, "Choose the date to replace from.").optional().or(z.literal("").transform(() => undefined)),
+    replaceFrom: z
+      .string()
+      .refine(isIsoDate, "Choose the date to replace from.")
+      .optional()
+      .or(z.literal("").transform(() => undefined)),
     confirmSports: z.literal("on").optional(),
     confirmTests: z.literal("on").optional(),
   })
-  .refine((v) => v.overlap !== "replace" || v.replaceFrom, { path: ["replaceFrom"], message: "Choose the date to replace from." });
+  .refine((v) => v.overlap !== "replace" || v.replaceFrom, {
+    path: ["replaceFrom"],
+    message: "Choose the date to replace from.",
+  });
 
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
@@ -64,12 +79,24 @@ export async function action({ request, params }: Route.ActionArgs) {
   try {
     if (form.get("intent") === "push") {
       const r = await pushPlanChanges(coach, planId);
-      return { ok: true as const, message: `Pushed the current plan to ${r.assignments} calendar${r.assignments === 1 ? "" : "s"}: ${r.updated} future session${r.updated === 1 ? "" : "s"} updated.`, fieldErrors: {} };
+      return {
+        ok: true as const,
+        message: `Pushed the current plan to ${r.assignments} calendar${r.assignments === 1 ? "" : "s"}: ${r.updated} future session${r.updated === 1 ? "" : "s"} updated.`,
+        fieldErrors: {},
+      };
     }
     const parsed = parseForm(assignSchema, form);
-    if (!parsed.ok) return data({ ok: false as const, message: "Check the form.", fieldErrors: parsed.fieldErrors }, { status: 400 });
+    if (!parsed.ok)
+      return data({ ok: false as const, message: "Check the form.", fieldErrors: parsed.fieldErrors }, { status: 400 });
     const v = parsed.data;
-    const choice = v.decided ? { overlap: v.overlap, replaceFrom: v.replaceFrom, confirmSports: v.confirmSports === "on", confirmTests: v.confirmTests === "on" } : undefined;
+    const choice = v.decided
+      ? {
+          overlap: v.overlap,
+          replaceFrom: v.replaceFrom,
+          confirmSports: v.confirmSports === "on",
+          confirmTests: v.confirmTests === "on",
+        }
+      : undefined;
     const r = await assignPlan(coach, planId, v.athleteIds, { mode: v.mode, date: v.date, choice });
     const users = await User.findAll({ where: { id: v.athleteIds } });
     const nameOf = new Map(users.map((u) => [u.id, u.name]));
@@ -113,12 +140,19 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
         </Link>{" "}
         / Assign
       </p>
-      <PageHeader title="Assign to athletes" lead={`Places all ${weeks} weeks on each athlete's calendar, with targets from their own thresholds.`} />
+      <PageHeader
+        title="Assign to athletes"
+        lead={`Places all ${weeks} weeks on each athlete's calendar, with targets from their own thresholds.`}
+      />
       <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
         <Card>
           <fetcher.Form method="post" className="flex flex-col gap-4">
-            {fetcher.data && (dismissed !== reply || !reports.length) && <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>}
-            {reports.length > 0 && dismissed === reply && <FormMessage tone="ok">Cancelled: nothing was placed.</FormMessage>}
+            {fetcher.data && (dismissed !== reply || !reports.length) && (
+              <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>
+            )}
+            {reports.length > 0 && dismissed === reply && (
+              <FormMessage tone="ok">Cancelled: nothing was placed.</FormMessage>
+            )}
             <table className="w-full text-left text-sm">
               <caption className="sr-only">Athletes on your roster</caption>
               <thead className="text-ink-soft">
@@ -139,7 +173,11 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
                         {a.name}
                       </label>
                     </td>
-                    <td className="num py-2 text-ink-soft">{a.thresholds.length ? a.thresholds.join(" · ") : "none yet: sessions will show % until a field test"}</td>
+                    <td className="num py-2 text-ink-soft">
+                      {a.thresholds.length
+                        ? a.thresholds.join(" · ")
+                        : "none yet: sessions will show % until a field test"}
+                    </td>
                   </tr>
                 ))}
               </tbody>
@@ -148,17 +186,48 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
             <fieldset className="flex flex-wrap gap-4 text-sm">
               <legend className="mb-1 font-medium">Align</legend>
               <label className="flex items-center gap-2">
-                <input type="radio" name="mode" value="start" checked={mode === "start"} onChange={() => setMode("start")} /> start on the Monday on or after
+                <input
+                  type="radio"
+                  name="mode"
+                  value="start"
+                  checked={mode === "start"}
+                  onChange={() => setMode("start")}
+                />{" "}
+                start on the Monday on or after
               </label>
               <label className="flex items-center gap-2">
-                <input type="radio" name="mode" value="event" checked={mode === "event"} onChange={() => setMode("event")} /> end in the week of an event
+                <input
+                  type="radio"
+                  name="mode"
+                  value="event"
+                  checked={mode === "event"}
+                  onChange={() => setMode("event")}
+                />{" "}
+                end in the week of an event
               </label>
             </fieldset>
-            <Field label={mode === "start" ? "Start date" : "Event date"} name="date" type="date" defaultValue={mode === "event" ? (plan.eventDate ?? today) : today} error={errors.date} className="max-w-xs" />
+            <Field
+              label={mode === "start" ? "Start date" : "Event date"}
+              name="date"
+              type="date"
+              defaultValue={mode === "event" ? (plan.eventDate ?? today) : today}
+              error={errors.date}
+              className="max-w-xs"
+            />
             {asking && reply && "start" in reply ? (
-              <PlacementChoices reports={reports} start={reply.start!} errors={errors} busy={fetcher.state !== "idle"} onCancel={() => setDismissed(reply)} />
+              <PlacementChoices
+                reports={reports}
+                start={reply.start!}
+                errors={errors}
+                busy={fetcher.state !== "idle"}
+                onCancel={() => setDismissed(reply)}
+              />
             ) : (
-              <button type="submit" className={buttonClass("primary", "self-start")} disabled={fetcher.state !== "idle"}>
+              <button
+                type="submit"
+                className={buttonClass("primary", "self-start")}
+                disabled={fetcher.state !== "idle"}
+              >
                 {fetcher.state !== "idle" ? "Checking…" : "Place on calendars"}
               </button>
             )}
@@ -180,8 +249,15 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
           {outdated > 0 && (
             <push.Form method="post" className="mt-4">
               {push.data && <FormMessage tone={push.data.ok ? "ok" : "error"}>{push.data.message}</FormMessage>}
-              <p className="mt-2 text-xs text-ink-soft">Sessions from today on are updated; past, done and skipped ones stay as they were.</p>
-              <button name="intent" value="push" className={buttonClass("secondary", "mt-2")} disabled={push.state !== "idle"}>
+              <p className="mt-2 text-xs text-ink-soft">
+                Sessions from today on are updated; past, done and skipped ones stay as they were.
+              </p>
+              <button
+                name="intent"
+                value="push"
+                className={buttonClass("secondary", "mt-2")}
+                disabled={push.state !== "idle"}
+              >
                 Push changes to future sessions
               </button>
             </push.Form>
@@ -192,16 +268,38 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
   );
 }
 
-type Report = { athlete: string; athleteId: number; sportsWithoutThreshold: string[]; overlap: { from: string; to: string; sessions: number; plans: string[] } | null; testDays: { date: string; names: string[] }[] };
+type Report = {
+  athlete: string;
+  athleteId: number;
+  sportsWithoutThreshold: string[];
+  overlap: { from: string; to: string; sessions: number; plans: string[] } | null;
+  testDays: { date: string; names: string[] }[];
+};
 
 /** What placing would do to each calendar, and the coach's answer; nothing is written until one is given. */
-function PlacementChoices({ reports, start, errors, busy, onCancel }: { reports: Report[]; start: string; errors: Record<string, string | undefined>; busy: boolean; onCancel: () => void }) {
+function PlacementChoices({
+  reports,
+  start,
+  errors,
+  busy,
+  onCancel,
+}: {
+  reports: Report[];
+  start: string;
+  errors: Record<string, string | undefined>;
+  busy: boolean;
+  onCancel: () => void;
+}) {
   const overlap = reports.some((r) => r.overlap);
   const sports = [...new Set(reports.flatMap((r) => r.sportsWithoutThreshold))];
   const tests = reports.some((r) => r.testDays.length);
   const [choice, setChoice] = useState<"replace" | "alongside" | "">("");
   return (
-    <section aria-labelledby="checks-heading" className="flex flex-col gap-3 rounded-xl border border-brick/40 bg-brick/5 p-4 text-sm" data-testid="placement-checks">
+    <section
+      aria-labelledby="checks-heading"
+      className="flex flex-col gap-3 rounded-xl border border-brick/40 bg-brick/5 p-4 text-sm"
+      data-testid="placement-checks"
+    >
       <input type="hidden" name="decided" value="1" />
       <h2 id="checks-heading" className="font-semibold">
         Before placing
@@ -211,10 +309,16 @@ function PlacementChoices({ reports, start, errors, busy, onCancel }: { reports:
           <li key={r.athleteId}>
             <span className="font-medium">{r.athlete}</span>
             <ul className="ml-4 list-disc">
-              {r.sportsWithoutThreshold.length > 0 && <li>has no threshold for {r.sportsWithoutThreshold.join(" or ")}: those sessions would show only percentages until a field test.</li>}
+              {r.sportsWithoutThreshold.length > 0 && (
+                <li>
+                  has no threshold for {r.sportsWithoutThreshold.join(" or ")}: those sessions would show only
+                  percentages until a field test.
+                </li>
+              )}
               {r.overlap && (
                 <li>
-                  already has {r.overlap.sessions} planned session{r.overlap.sessions === 1 ? "" : "s"} between {r.overlap.from} and {r.overlap.to}
+                  already has {r.overlap.sessions} planned session{r.overlap.sessions === 1 ? "" : "s"} between{" "}
+                  {r.overlap.from} and {r.overlap.to}
                   {r.overlap.plans.length ? ` (from ${r.overlap.plans.join(", ")})` : ""}.
                 </li>
               )}
@@ -231,14 +335,36 @@ function PlacementChoices({ reports, start, errors, busy, onCancel }: { reports:
         <fieldset className="flex flex-col gap-2">
           <legend className="mb-1 font-medium">The sessions already planned</legend>
           <label className="flex flex-wrap items-center gap-2">
-            <input type="radio" name="overlap" value="replace" checked={choice === "replace"} onChange={() => setChoice("replace")} /> replace them from
-            <input type="date" name="replaceFrom" defaultValue={start} aria-label="Replace from" className="rounded border border-line px-2 py-1" />
+            <input
+              type="radio"
+              name="overlap"
+              value="replace"
+              checked={choice === "replace"}
+              onChange={() => setChoice("replace")}
+            />{" "}
+            replace them from
+            <input
+              type="date"
+              name="replaceFrom"
+              defaultValue={start}
+              aria-label="Replace from"
+              className="rounded border border-line px-2 py-1"
+            />
             <span className="text-ink-soft">(done and skipped sessions stay)</span>
           </label>
           <label className="flex items-center gap-2">
-            <input type="radio" name="overlap" value="alongside" checked={choice === "alongside"} onChange={() => setChoice("alongside")} /> keep them and place this plan alongside
+            <input
+              type="radio"
+              name="overlap"
+              value="alongside"
+              checked={choice === "alongside"}
+              onChange={() => setChoice("alongside")}
+            />{" "}
+            keep them and place this plan alongside
           </label>
-          {(errors.overlap || errors.replaceFrom) && <p className="text-brick">{errors.overlap ?? errors.replaceFrom}</p>}
+          {(errors.overlap || errors.replaceFrom) && (
+            <p className="text-brick">{errors.overlap ?? errors.replaceFrom}</p>
+          )}
         </fieldset>
       )}
       {sports.length > 0 && (
@@ -248,7 +374,8 @@ function PlacementChoices({ reports, start, errors, busy, onCancel }: { reports:
       )}
       {tests && (
         <label className="flex items-center gap-2">
-          <input type="checkbox" name="confirmTests" /> I have checked with the athlete: two maximal tests on one day are intended (replacing from an earlier date may remove the clash instead)
+          <input type="checkbox" name="confirmTests" /> I have checked with the athlete: two maximal tests on one day
+          are intended (replacing from an earlier date may remove the clash instead)
         </label>
       )}
       <div className="flex gap-2">

@@ -9,7 +9,9 @@ import { addDays, isIsoDate, mondayOf, todayIn } from "~/lib/dates";
 import { monthGrid, monthOf } from "~/lib/month";
 import type { Route } from "./+types/athlete-calendar";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.athlete.name ?? "Athlete"}'s calendar · Pacewright` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `${data?.athlete.name ?? "Athlete"}'s calendar · Pacewright` },
+];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
@@ -20,12 +22,25 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   if (url.searchParams.get("view") === "month") {
     const month = monthOf(url.searchParams.get("month"), today);
     const grid = monthGrid(month);
-    return { view: "month" as const, athlete: who, today, month, ...grid, sessions: await calendarRange(athlete.id, grid.from, grid.to) };
+    return {
+      view: "month" as const,
+      athlete: who,
+      today,
+      month,
+      ...grid,
+      sessions: await calendarRange(athlete.id, grid.from, grid.to),
+    };
   }
   // The two weeks shown start on the Monday of ?from= (any day of that week), else this week.
   const asked = url.searchParams.get("from");
   const from = mondayOf(isIsoDate(asked) ? asked : today);
-  return { view: "weeks" as const, athlete: who, today, from, sessions: await calendarRange(athlete.id, from, addDays(from, 13)) };
+  return {
+    view: "weeks" as const,
+    athlete: who,
+    today,
+    from,
+    sessions: await calendarRange(athlete.id, from, addDays(from, 13)),
+  };
 }
 
 export default function CoachAthleteCalendar({ loaderData }: Route.ComponentProps) {
@@ -41,9 +56,20 @@ export default function CoachAthleteCalendar({ loaderData }: Route.ComponentProp
       <PageHeader title={`${athlete.name}'s calendar`} />
       <CalendarViews view={loaderData.view} />
       {loaderData.view === "month" ? (
-        <MonthCalendar {...loaderData} title={`${athlete.name}'s calendar`} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
+        <MonthCalendar
+          {...loaderData}
+          title={`${athlete.name}'s calendar`}
+          sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`}
+        />
       ) : (
-        <WeekCalendar key={loaderData.from} athleteId={athlete.id} from={loaderData.from} today={loaderData.today} sessions={loaderData.sessions} sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`} />
+        <WeekCalendar
+          key={loaderData.from}
+          athleteId={athlete.id}
+          from={loaderData.from}
+          today={loaderData.today}
+          sessions={loaderData.sessions}
+          sessionHref={(id) => `/coach/athletes/${athlete.id}/sessions/${id}`}
+        />
       )}
     </>
   );

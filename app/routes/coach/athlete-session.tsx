@@ -19,7 +19,13 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const athlete = await requireAthleteFor(coach, params.athleteId);
   const { id } = await requireScheduledSession(coach, params.sessionId, athlete);
   const page = await sessionPageData(athlete, id, { lap: lapFromSearch(new URL(request.url)) }).catch(loaderFailure);
-  return { athleteId: athlete.id, athleteName: athlete.name, ...page, comments: await listComments(coach, page.session.id), timezone: coach.timezone };
+  return {
+    athleteId: athlete.id,
+    athleteName: athlete.name,
+    ...page,
+    comments: await listComments(coach, page.session.id),
+    timezone: coach.timezone,
+  };
 }
 
 /** The coach writes in the session's thread, or sets this test's pacing split. */
@@ -50,11 +56,19 @@ export default function CoachAthleteSession({ loaderData }: Route.ComponentProps
       <PageHeader title={loaderData.session.name} />
       {loaderData.pacing && (
         <div className="mb-6">
-          <PacingCard data={loaderData.pacing} printHref={`/coach/athletes/${loaderData.athleteId}/sessions/${loaderData.session.id}/pacing${pacingQuery(loaderData.pacing.lap)}`} canEditSplit={loaderData.session.status === "planned"} />
+          <PacingCard
+            data={loaderData.pacing}
+            printHref={`/coach/athletes/${loaderData.athleteId}/sessions/${loaderData.session.id}/pacing${pacingQuery(loaderData.pacing.lap)}`}
+            canEditSplit={loaderData.session.status === "planned"}
+          />
         </div>
       )}
       <SessionDetail data={loaderData} canComplete={false} subjectName={loaderData.athleteName} />
-      <SessionComments comments={loaderData.comments} otherSide={loaderData.athleteName} timezone={loaderData.timezone} />
+      <SessionComments
+        comments={loaderData.comments}
+        otherSide={loaderData.athleteName}
+        timezone={loaderData.timezone}
+      />
     </>
   );
 }

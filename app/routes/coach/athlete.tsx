@@ -71,7 +71,9 @@ export default function CoachAthlete({ loaderData }: Route.ComponentProps) {
       />
       <Card className="max-w-xl">
         <h2 className="font-semibold">Body and heart rate</h2>
-        <p className="mt-1 text-sm text-ink-soft">Used for heart-rate load and watts per kilogram. Leave a field empty if unknown.</p>
+        <p className="mt-1 text-sm text-ink-soft">
+          Used for heart-rate load and watts per kilogram. Leave a field empty if unknown.
+        </p>
         <fetcher.Form method="post" className="mt-4 grid gap-4 sm:grid-cols-2" noValidate>
           {fetcher.data?.ok && (
             <div className="sm:col-span-2">
@@ -83,9 +85,27 @@ export default function CoachAthlete({ loaderData }: Route.ComponentProps) {
             <option value="female">Female</option>
             <option value="male">Male</option>
           </SelectField>
-          <Field label="Weight (kg)" name="weightKg" inputMode="decimal" defaultValue={athlete.weightKg ?? ""} error={errors.weightKg} />
-          <Field label="Resting heart rate (bpm)" name="restingHr" inputMode="numeric" defaultValue={athlete.restingHr ?? ""} error={errors.restingHr} />
-          <Field label="Maximum heart rate (bpm)" name="maxHr" inputMode="numeric" defaultValue={athlete.maxHr ?? ""} error={errors.maxHr} />
+          <Field
+            label="Weight (kg)"
+            name="weightKg"
+            inputMode="decimal"
+            defaultValue={athlete.weightKg ?? ""}
+            error={errors.weightKg}
+          />
+          <Field
+            label="Resting heart rate (bpm)"
+            name="restingHr"
+            inputMode="numeric"
+            defaultValue={athlete.restingHr ?? ""}
+            error={errors.restingHr}
+          />
+          <Field
+            label="Maximum heart rate (bpm)"
+            name="maxHr"
+            inputMode="numeric"
+            defaultValue={athlete.maxHr ?? ""}
+            error={errors.maxHr}
+          />
           <div className="sm:col-span-2">
             <button type="submit" className={buttonClass("primary")} disabled={fetcher.state !== "idle"}>
               {fetcher.state !== "idle" ? "Saving…" : "Save"}

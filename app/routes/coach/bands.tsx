@@ -6,7 +6,16 @@ import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { bandSetsFor, restoreDefaultBandSet, saveBandSet } from "~/.server/services/bands";
 import { bandSetTitle } from "~/lib/band-table";
-import { BAND_SET_KEYS, bandShade, MAX_BANDS, MIN_BANDS, parseBandSetKey, type BandInputRow, type BandSetErrors, type BandSetKey } from "~/lib/training";
+import {
+  BAND_SET_KEYS,
+  bandShade,
+  MAX_BANDS,
+  MIN_BANDS,
+  parseBandSetKey,
+  type BandInputRow,
+  type BandSetErrors,
+  type BandSetKey,
+} from "~/lib/training";
 import type { Route } from "./+types/bands";
 
 export const meta: Route.MetaFunction = () => [{ title: "Intensity bands · Pacewright" }];
@@ -22,36 +31,59 @@ export async function loader({ request }: Route.LoaderArgs) {
   const key = chosenKey(request.url);
   return {
     key,
-    tabs: BAND_SET_KEYS.map((k) => ({ key: k, title: bandSetTitle(parseBandSetKey(k)!.sport, parseBandSetKey(k)!.metric), isDefault: sets[k].isDefault })),
+    tabs: BAND_SET_KEYS.map((k) => ({
+      key: k,
+      title: bandSetTitle(parseBandSetKey(k)!.sport, parseBandSetKey(k)!.metric),
+      isDefault: sets[k].isDefault,
+    })),
     set: sets[key],
   };
 }
 
-type ActionResult = { ok: true; message: string } | { ok: false; message: string; errors: BandSetErrors; rows: BandInputRow[] };
+type ActionResult =
+  { ok: true; message: string } | { ok: false; message: string; errors: BandSetErrors; rows: BandInputRow[] };
 
 export async function action({ request }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
   const form = await request.formData();
   const key = String(form.get("set") ?? "");
   if (form.get("intent") === "restore") {
-    if (!(await restoreDefaultBandSet(coach, key))) return data<ActionResult>({ ok: false, message: "Choose a band set.", errors: { rows: {} }, rows: [] }, { status: 400 });
+    if (!(await restoreDefaultBandSet(coach, key)))
+      return data<ActionResult>(
+        { ok: false, message: "Choose a band set.", errors: { rows: {} }, rows: [] },
+        { status: 400 },
+      );
     return { ok: true, message: "Back to Pacewright's default bands." } satisfies ActionResult;
   }
   const all = (f: string) => form.getAll(f).map(String);
   const names = all("name");
-  const rows: BandInputRow[] = names.map((name, i) => ({ name, fromPct: all("fromPct")[i] ?? "", toPct: all("toPct")[i] ?? "", meaning: all("meaning")[i] ?? "" }));
+  const rows: BandInputRow[] = names.map((name, i) => ({
+    name,
+    fromPct: all("fromPct")[i] ?? "",
+    toPct: all("toPct")[i] ?? "",
+    meaning: all("meaning")[i] ?? "",
+  }));
   const result = await saveBandSet(coach, key, rows);
-  if (!result.ok) return data<ActionResult>({ ok: false, message: "Nothing was saved: check the marked fields.", errors: result.errors, rows }, { status: 400 });
+  if (!result.ok)
+    return data<ActionResult>(
+      { ok: false, message: "Nothing was saved: check the marked fields.", errors: result.errors, rows },
+      { status: 400 },
+    );
   return { ok: true, message: "Saved. Your athletes see these bands from now on." } satisfies ActionResult;
 }
 
-const toInput = (b: { name: string; fromPct: number; toPct: number | null; meaning: string }): BandInputRow => ({ name: b.name, fromPct: String(b.fromPct), toPct: b.toPct === null ? "" : String(b.toPct), meaning: b.meaning });
+const toInput = (b: { name: string; fromPct: number; toPct: number | null; meaning: string }): BandInputRow => ({
+  name: b.name,
+  fromPct: String(b.fromPct),
+  toPct: b.toPct === null ? "" : String(b.toPct),
+  meaning: b.meaning,
+});
 
 export default function BandSettings({ loaderData, actionData }: Route.ComponentProps) {
   const { key, tabs, set } = loaderData;
   const result = actionData as ActionResult | undefined;
   const failed = result && !result.ok ? result : null;
-  const [rows, setRows] = useState<BandInputRow[]>(() => failed?.rows.length ? failed.rows : set.bands.map(toInput));
+  const [rows, setRows] = useState<BandInputRow[]>(() => (failed?.rows.length ? failed.rows : set.bands.map(toInput)));
   const busy = useNavigation().state !== "idle";
   // A new set chosen, or a save/restore answered: show what the server now holds (or what was typed, on refusal).
   const [shownFor, setShownFor] = useState({ key, set, failed });
@@ -85,10 +117,18 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
   const input = "num w-full rounded-lg border bg-white px-2 py-1.5 text-sm";
   return (
     <>
-      <PageHeader title="Intensity bands" lead="The bands your athletes see on their sessions, charts, exports and calendar feed. Boundaries are % of threshold (for pace: % of threshold speed)." />
+      <PageHeader
+        title="Intensity bands"
+        lead="The bands your athletes see on their sessions, charts, exports and calendar feed. Boundaries are % of threshold (for pace: % of threshold speed)."
+      />
       <nav aria-label="Band sets" className="mb-4 flex flex-wrap gap-2">
         {tabs.map((t) => (
-          <Link key={t.key} to={`?set=${t.key}`} aria-current={t.key === key ? "page" : undefined} className={buttonClass(t.key === key ? "primary" : "secondary", "px-3 py-1 text-sm")}>
+          <Link
+            key={t.key}
+            to={`?set=${t.key}`}
+            aria-current={t.key === key ? "page" : undefined}
+            className={buttonClass(t.key === key ? "primary" : "secondary", "px-3 py-1 text-sm")}
+          >
             {t.title}
             {!t.isDefault && " · edited"}
           </Link>
@@ -105,36 +145,97 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
               </p>
             )}
             <p className="text-xs text-ink-soft">
-              Each band runs from its lower boundary up to, but not including, its upper one; the top band is open. {MIN_BANDS}–{MAX_BANDS} bands.
+              Each band runs from its lower boundary up to, but not including, its upper one; the top band is open.{" "}
+              {MIN_BANDS}–{MAX_BANDS} bands.
             </p>
             <ol className="flex flex-col gap-3" data-testid="band-rows">
               {rows.map((r, i) => {
                 const e = errors[i] ?? {};
                 const id = `band-${i}`;
                 return (
-                  <li key={i} className="grid grid-cols-[1rem_1fr] gap-2 border-t border-line/60 pt-3 sm:grid-cols-[1rem_10rem_7.5rem_7.5rem_1fr_auto]">
-                    <span className="mt-7 inline-block h-4 w-4 rounded-sm" style={{ background: bandShade(i, rows.length) }} aria-hidden />
+                  <li
+                    key={i}
+                    className="grid grid-cols-[1rem_1fr] gap-2 border-t border-line/60 pt-3 sm:grid-cols-[1rem_10rem_7.5rem_7.5rem_1fr_auto]"
+                  >
+                    <span
+                      className="mt-7 inline-block h-4 w-4 rounded-sm"
+                      style={{ background: bandShade(i, rows.length) }}
+                      aria-hidden
+                    />
                     <label className="flex flex-col gap-1 text-sm">
                       <span className="font-medium">Name</span>
-                      <input name="name" value={r.name} onChange={(ev) => update(i, "name", ev.target.value)} maxLength={40} aria-invalid={e.name ? true : undefined} aria-describedby={e.name ? `${id}-name` : undefined} className={`${input} ${e.name ? "border-brick" : "border-line"}`} />
-                      {e.name && <span id={`${id}-name`} role="alert" className="text-brick">{e.name}</span>}
+                      <input
+                        name="name"
+                        value={r.name}
+                        onChange={(ev) => update(i, "name", ev.target.value)}
+                        maxLength={40}
+                        aria-invalid={e.name ? true : undefined}
+                        aria-describedby={e.name ? `${id}-name` : undefined}
+                        className={`${input} ${e.name ? "border-brick" : "border-line"}`}
+                      />
+                      {e.name && (
+                        <span id={`${id}-name`} role="alert" className="text-brick">
+                          {e.name}
+                        </span>
+                      )}
                     </label>
                     <label className="col-start-2 flex flex-col gap-1 text-sm sm:col-start-auto">
                       <span className="font-medium">From %</span>
-                      <input name="fromPct" inputMode="numeric" value={r.fromPct} onChange={(ev) => update(i, "fromPct", ev.target.value)} aria-invalid={e.fromPct ? true : undefined} aria-describedby={e.fromPct ? `${id}-from` : undefined} className={`${input} ${e.fromPct ? "border-brick" : "border-line"}`} />
-                      {e.fromPct && <span id={`${id}-from`} role="alert" className="text-brick">{e.fromPct}</span>}
+                      <input
+                        name="fromPct"
+                        inputMode="numeric"
+                        value={r.fromPct}
+                        onChange={(ev) => update(i, "fromPct", ev.target.value)}
+                        aria-invalid={e.fromPct ? true : undefined}
+                        aria-describedby={e.fromPct ? `${id}-from` : undefined}
+                        className={`${input} ${e.fromPct ? "border-brick" : "border-line"}`}
+                      />
+                      {e.fromPct && (
+                        <span id={`${id}-from`} role="alert" className="text-brick">
+                          {e.fromPct}
+                        </span>
+                      )}
                     </label>
                     <label className="col-start-2 flex flex-col gap-1 text-sm sm:col-start-auto">
                       <span className="font-medium">To %</span>
-                      <input name="toPct" inputMode="numeric" value={r.toPct} placeholder={i === rows.length - 1 ? "open" : ""} onChange={(ev) => update(i, "toPct", ev.target.value)} aria-invalid={e.toPct ? true : undefined} aria-describedby={e.toPct ? `${id}-to` : undefined} className={`${input} ${e.toPct ? "border-brick" : "border-line"}`} />
-                      {e.toPct && <span id={`${id}-to`} role="alert" className="text-brick">{e.toPct}</span>}
+                      <input
+                        name="toPct"
+                        inputMode="numeric"
+                        value={r.toPct}
+                        placeholder={i === rows.length - 1 ? "open" : ""}
+                        onChange={(ev) => update(i, "toPct", ev.target.value)}
+                        aria-invalid={e.toPct ? true : undefined}
+                        aria-describedby={e.toPct ? `${id}-to` : undefined}
+                        className={`${input} ${e.toPct ? "border-brick" : "border-line"}`}
+                      />
+                      {e.toPct && (
+                        <span id={`${id}-to`} role="alert" className="text-brick">
+                          {e.toPct}
+                        </span>
+                      )}
                     </label>
                     <label className="col-start-2 flex flex-col gap-1 text-sm sm:col-start-auto">
                       <span className="font-medium">Meaning (one line)</span>
-                      <input name="meaning" value={r.meaning} onChange={(ev) => update(i, "meaning", ev.target.value)} maxLength={160} className={`${input} ${e.meaning ? "border-brick" : "border-line"}`} />
-                      {e.meaning && <span role="alert" className="text-brick">{e.meaning}</span>}
+                      <input
+                        name="meaning"
+                        value={r.meaning}
+                        onChange={(ev) => update(i, "meaning", ev.target.value)}
+                        maxLength={160}
+                        className={`${input} ${e.meaning ? "border-brick" : "border-line"}`}
+                      />
+                      {e.meaning && (
+                        <span role="alert" className="text-brick">
+                          {e.meaning}
+                        </span>
+                      )}
                     </label>
-                    <button type="button" onClick={() => removeBand(i)} disabled={rows.length <= MIN_BANDS} className={buttonClass("secondary", "col-start-2 self-end px-2 py-1 text-xs sm:col-start-auto")} aria-label={`Remove band ${i + 1}`}>
+                    <button
+                      type="button"
+                      onClick={() => removeBand(i)}
+                      disabled={rows.length <= MIN_BANDS}
+                      className={buttonClass("secondary", "col-start-2 self-end px-2 py-1 text-xs sm:col-start-auto")}
+                      aria-label={`Remove band ${i + 1}`}
+                    >
                       Remove
                     </button>
                   </li>
@@ -142,13 +243,24 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
               })}
             </ol>
             <div className="flex flex-wrap gap-2">
-              <button type="button" onClick={addBand} disabled={rows.length >= MAX_BANDS} className={buttonClass("secondary")}>
+              <button
+                type="button"
+                onClick={addBand}
+                disabled={rows.length >= MAX_BANDS}
+                className={buttonClass("secondary")}
+              >
                 Add a band
               </button>
               <button type="submit" name="intent" value="save" disabled={busy} className={buttonClass("primary")}>
                 Save bands
               </button>
-              <button type="submit" name="intent" value="restore" disabled={busy || set.isDefault} className={buttonClass("secondary")}>
+              <button
+                type="submit"
+                name="intent"
+                value="restore"
+                disabled={busy || set.isDefault}
+                className={buttonClass("secondary")}
+              >
                 Restore defaults
               </button>
             </div>
@@ -157,8 +269,9 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
         <Card>
           <h2 className="font-semibold">What changes</h2>
           <p className="mt-2 text-sm">
-            Saving changes what your athletes see: band names and shading on sessions and the board, time in band from ride files, the weekly minutes-per-band chart, the
-            exported series and the calendar feed. Targets (watts, bpm, pace) and planned load do not move.
+            Saving changes what your athletes see: band names and shading on sessions and the board, time in band from
+            ride files, the weekly minutes-per-band chart, the exported series and the calendar feed. Targets (watts,
+            bpm, pace) and planned load do not move.
           </p>
           <p className="mt-2 text-sm">
             <Link to="/bands/about" className="text-teal underline">

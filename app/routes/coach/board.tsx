@@ -40,13 +40,21 @@ export default function Board({ loaderData }: Route.ComponentProps) {
         <div className="flex flex-wrap items-center gap-2 text-sm">
           {outdated > 0 && (
             <span className="rounded-lg bg-brick/10 px-3 py-2 text-brick" role="status">
-              {assigned === 1 ? "The athlete on this plan follows" : outdated === assigned ? `All ${assigned} athletes on this plan follow` : `${outdated} of the ${assigned} athletes on this plan follow`} an older version of it.{" "}
+              {assigned === 1
+                ? "The athlete on this plan follows"
+                : outdated === assigned
+                  ? `All ${assigned} athletes on this plan follow`
+                  : `${outdated} of the ${assigned} athletes on this plan follow`}{" "}
+              an older version of it.{" "}
               <Link to={`/coach/plans/${plan.id}/assign`} className="underline">
                 Push changes
               </Link>
             </span>
           )}
-          <Link to={`/coach/plans/${plan.id}/assign`} className="rounded-lg bg-teal px-4 py-2 font-medium text-paper hover:bg-teal-dark">
+          <Link
+            to={`/coach/plans/${plan.id}/assign`}
+            className="rounded-lg bg-teal px-4 py-2 font-medium text-paper hover:bg-teal-dark"
+          >
             Assign to athletes
           </Link>
         </div>

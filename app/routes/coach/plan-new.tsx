@@ -27,7 +27,11 @@ export async function action({ request }: Route.ActionArgs) {
   if (submission.status !== "success") return refuse(submission);
   try {
     const plan = await createPlan(coach.id, submission.value);
-    return redirectWithToast(request, `/coach/plans/${plan.id}`, "Plan created. Test weeks already hold a field-test session; drag the rest from your shelf on the board.");
+    return redirectWithToast(
+      request,
+      `/coach/plans/${plan.id}`,
+      "Plan created. Test weeks already hold a field-test session; drag the rest from your shelf on the board.",
+    );
   } catch (err) {
     return formFailure(err, submission, { field: "date" });
   }
@@ -36,7 +40,10 @@ export async function action({ request }: Route.ActionArgs) {
 export default function NewPlan({ loaderData, actionData }: Route.ComponentProps) {
   const [form, fields] = useSchemaForm(newPlanSchema, actionData);
   const v = (actionData?.initialValue ?? {}) as Record<string, string | undefined>;
-  const errors = Object.fromEntries(Object.entries(fields).map(([k, f]) => [k, f.errors?.[0]])) as Record<keyof typeof fields, string | undefined>;
+  const errors = Object.fromEntries(Object.entries(fields).map(([k, f]) => [k, f.errors?.[0]])) as Record<
+    keyof typeof fields,
+    string | undefined
+  >;
   const [alignment, setAlignment] = useState(v.alignment ?? "event");
   const [date, setDate] = useState(v.date ?? loaderData.defaultDate);
   const [weeks, setWeeks] = useState(v.weeks ?? "16");
@@ -65,7 +72,10 @@ export default function NewPlan({ loaderData, actionData }: Route.ComponentProps
 
   return (
     <>
-      <PageHeader title="New season plan" lead="Start from an event date (or a start date); the skeleton fills in phases, recovery and test weeks." />
+      <PageHeader
+        title="New season plan"
+        lead="Start from an event date (or a start date); the skeleton fills in phases, recovery and test weeks."
+      />
       <div className="grid gap-6 lg:grid-cols-[24rem_1fr]">
         <Card>
           <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
@@ -81,26 +91,88 @@ export default function NewPlan({ loaderData, actionData }: Route.ComponentProps
               <legend className="text-sm font-medium">Align the plan to</legend>
               <div className="flex gap-4 text-sm">
                 <label className="flex items-center gap-2">
-                  <input type="radio" name="alignment" value="event" checked={alignment === "event"} onChange={() => setAlignment("event")} /> an event date
+                  <input
+                    type="radio"
+                    name="alignment"
+                    value="event"
+                    checked={alignment === "event"}
+                    onChange={() => setAlignment("event")}
+                  />{" "}
+                  an event date
                 </label>
                 <label className="flex items-center gap-2">
-                  <input type="radio" name="alignment" value="start" checked={alignment === "start"} onChange={() => setAlignment("start")} /> a start date
+                  <input
+                    type="radio"
+                    name="alignment"
+                    value="start"
+                    checked={alignment === "start"}
+                    onChange={() => setAlignment("start")}
+                  />{" "}
+                  a start date
                 </label>
               </div>
             </fieldset>
-            <Field label={alignment === "event" ? "Event date" : "Start date"} name="date" type="date" value={date} onChange={(e) => setDate(e.target.value)} error={errors.date} required />
+            <Field
+              label={alignment === "event" ? "Event date" : "Start date"}
+              name="date"
+              type="date"
+              value={date}
+              onChange={(e) => setDate(e.target.value)}
+              error={errors.date}
+              required
+            />
             <div className="grid grid-cols-2 gap-3">
-              <Field label="Weeks" name="weeks" type="number" min={4} max={104} value={weeks} onChange={(e) => setWeeks(e.target.value)} error={errors.weeks} />
-              <Field label="Weekly hours" name="weeklyHours" type="number" step="0.5" min={1} max={40} value={hours} onChange={(e) => setHours(e.target.value)} error={errors.weeklyHours} />
-              <SelectField label="Loading pattern" name="pattern" value={pattern} onChange={(e) => setPattern(e.target.value)} error={errors.pattern} className="col-span-2">
+              <Field
+                label="Weeks"
+                name="weeks"
+                type="number"
+                min={4}
+                max={104}
+                value={weeks}
+                onChange={(e) => setWeeks(e.target.value)}
+                error={errors.weeks}
+              />
+              <Field
+                label="Weekly hours"
+                name="weeklyHours"
+                type="number"
+                step="0.5"
+                min={1}
+                max={40}
+                value={hours}
+                onChange={(e) => setHours(e.target.value)}
+                error={errors.weeklyHours}
+              />
+              <SelectField
+                label="Loading pattern"
+                name="pattern"
+                value={pattern}
+                onChange={(e) => setPattern(e.target.value)}
+                error={errors.pattern}
+                className="col-span-2"
+              >
                 <option value="3:1">3 weeks up, 1 easy</option>
                 <option value="2:1">2 weeks up, 1 easy</option>
               </SelectField>
-              <Field label="Field test every (weeks)" name="testEveryWeeks" type="number" min={4} max={8} value={testEvery} onChange={(e) => setTestEvery(e.target.value)} error={errors.testEveryWeeks} />
+              <Field
+                label="Field test every (weeks)"
+                name="testEveryWeeks"
+                type="number"
+                min={4}
+                max={8}
+                value={testEvery}
+                onChange={(e) => setTestEvery(e.target.value)}
+                error={errors.testEveryWeeks}
+              />
             </div>
             <label className="flex flex-col gap-1 text-sm">
               <span className="font-medium">Description (optional)</span>
-              <textarea name="description" rows={2} defaultValue={v.description} className="rounded-lg border border-line px-3 py-2" />
+              <textarea
+                name="description"
+                rows={2}
+                defaultValue={v.description}
+                className="rounded-lg border border-line px-3 py-2"
+              />
             </label>
             <button type="submit" className={buttonClass("primary", "py-2.5")} disabled={busy || !preview.ok}>
               {busy ? "Creating…" : "Create the plan"}
@@ -117,7 +189,10 @@ export default function NewPlan({ loaderData, actionData }: Route.ComponentProps
                 {preview.weeks.length} weeks from Monday {preview.startDate}
                 {preview.eventDate ? `, event on ${preview.eventDate}` : ""}.
               </p>
-              <PhaseRibbon weeks={preview.weeks.map((w) => ({ idx: w.index, phase: w.phase, recovery: w.recovery, test: w.test }))} className="mt-4" />
+              <PhaseRibbon
+                weeks={preview.weeks.map((w) => ({ idx: w.index, phase: w.phase, recovery: w.recovery, test: w.test }))}
+                className="mt-4"
+              />
               <div className="mt-4 overflow-x-auto">
                 <table className="num w-full min-w-[28rem] text-left text-sm">
                   <thead className="text-ink-soft">
@@ -137,10 +212,16 @@ export default function NewPlan({ loaderData, actionData }: Route.ComponentProps
                         <td className="py-1">{w.startDate}</td>
                         <td className="py-1">{PHASE_LABEL[w.phase]}</td>
                         <td className="py-1">
-                          <span className="inline-block h-2 rounded bg-teal align-middle" style={{ width: `${w.loadFactor * 60}px` }} /> {w.loadFactor.toFixed(2)}
+                          <span
+                            className="inline-block h-2 rounded bg-teal align-middle"
+                            style={{ width: `${w.loadFactor * 60}px` }}
+                          />{" "}
+                          {w.loadFactor.toFixed(2)}
                         </td>
                         <td className="py-1">{w.hours}</td>
-                        <td className="py-1 text-ink-soft">{[w.recovery && "recovery", w.test && "field test"].filter(Boolean).join(", ")}</td>
+                        <td className="py-1 text-ink-soft">
+                          {[w.recovery && "recovery", w.test && "field test"].filter(Boolean).join(", ")}
+                        </td>
                       </tr>
                     ))}
                   </tbody>

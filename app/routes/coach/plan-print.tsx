@@ -45,7 +45,10 @@ export default function PlanPrint({ loaderData }: Route.ComponentProps) {
       </div>
       <h1 className="text-2xl font-semibold">{plan.name}</h1>
       <p className="text-sm text-ink-soft">
-        {weeks.length} weeks · {plan.pattern} loading · targets in % of threshold{plan.startDate ? ` · from ${formatDay(plan.startDate, { day: "numeric", month: "long", year: "numeric" })}` : ""}
+        {weeks.length} weeks · {plan.pattern} loading · targets in % of threshold
+        {plan.startDate
+          ? ` · from ${formatDay(plan.startDate, { day: "numeric", month: "long", year: "numeric" })}`
+          : ""}
       </p>
       {plan.description && <p className="mt-2 text-sm">{plan.description}</p>}
       <ol className="mt-4 flex flex-col gap-4">
@@ -53,10 +56,20 @@ export default function PlanPrint({ loaderData }: Route.ComponentProps) {
           const mine = items.filter((i) => i.weekId === w.id).sort((a, b) => a.day - b.day || a.position - b.position);
           const monday = plan.startDate ? addDays(plan.startDate, (w.idx - 1) * 7) : null;
           return (
-            <li key={w.id} className="break-inside-avoid rounded-lg border border-line bg-white p-3" data-testid={`print-week-${w.idx}`}>
+            <li
+              key={w.id}
+              className="break-inside-avoid rounded-lg border border-line bg-white p-3"
+              data-testid={`print-week-${w.idx}`}
+            >
               <h2 className="font-semibold">
                 Week {w.idx}
-                {monday && <span className="num font-normal text-ink-soft"> · {formatDay(monday, { day: "numeric", month: "short" })} – {formatDay(addDays(monday, 6), { day: "numeric", month: "short" })}</span>}
+                {monday && (
+                  <span className="num font-normal text-ink-soft">
+                    {" "}
+                    · {formatDay(monday, { day: "numeric", month: "short" })} –{" "}
+                    {formatDay(addDays(monday, 6), { day: "numeric", month: "short" })}
+                  </span>
+                )}
                 <span className="font-normal"> · {PHASE_LABEL[w.phase as keyof typeof PHASE_LABEL] ?? w.phase}</span>
                 {w.recovery && <span className="font-normal"> · recovery week</span>}
                 {w.test && <span className="font-normal"> · test week</span>}
@@ -74,7 +87,12 @@ export default function PlanPrint({ loaderData }: Route.ComponentProps) {
                         <td className="py-1 pr-2">
                           <span className="font-medium">{i.name}</span> · {formatMinutes(i.durationS)}
                           {i.timeOfDay && ` · ${i.timeOfDay}`}
-                          <span className="block text-ink-soft">{i.blocks.map((b) => safe(() => describeBlock(b))).filter(Boolean).join("; ")}</span>
+                          <span className="block text-ink-soft">
+                            {i.blocks
+                              .map((b) => safe(() => describeBlock(b)))
+                              .filter(Boolean)
+                              .join("; ")}
+                          </span>
                           {i.notes && <span className="block">Note: {i.notes}</span>}
                         </td>
                       </tr>

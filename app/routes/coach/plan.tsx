@@ -8,7 +8,16 @@ import { requireRole } from "~/.server/auth";
 import { requirePlan } from "~/.server/access";
 import { loaderFailure, pageFailure } from "~/.server/replies";
 import { listSessions } from "~/.server/services/sessions";
-import { addRecurrence, deletePlan, editWeekRange, loadPlan, renamePlan, setPhaseRange, updateWeek, updateWeeks } from "~/.server/services/plans";
+import {
+  addRecurrence,
+  deletePlan,
+  editWeekRange,
+  loadPlan,
+  renamePlan,
+  setPhaseRange,
+  updateWeek,
+  updateWeeks,
+} from "~/.server/services/plans";
 import { parseForm } from "~/lib/forms";
 import { DAY_NAMES, PHASE_LABEL, phaseRangeSchema, recurrenceSchema, weekEditSchema } from "~/lib/plans";
 import { addWeeks } from "~/lib/dates";
@@ -30,19 +39,30 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   }
 }
 
-const loadFactor = z.coerce.number({ error: "Enter a load factor." }).min(0.3, "Use a load factor from 0.3 to 2.").max(2, "Use a load factor from 0.3 to 2.");
+const loadFactor = z.coerce
+  .number({ error: "Enter a load factor." })
+  .min(0.3, "Use a load factor from 0.3 to 2.")
+  .max(2, "Use a load factor from 0.3 to 2.");
 const bulkWeekSchema = weekEditSchema.extend({ loadFactor });
 const rangeSchema = z
   .object({
     fromWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
     toWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
     phase: z.union([z.literal(""), z.enum(PHASES)]).default(""),
-    plannedHours: z.union([z.literal(""), z.coerce.number({ error: "Enter hours." }).min(0, "Hours cannot be negative.").max(60, "Use at most 60 hours.")]).default(""),
+    plannedHours: z
+      .union([
+        z.literal(""),
+        z.coerce.number({ error: "Enter hours." }).min(0, "Hours cannot be negative.").max(60, "Use at most 60 hours."),
+      ])
+      .default(""),
     loadFactor: z.union([z.literal(""), loadFactor]).default(""),
   })
   .refine((v) => v.toWeek >= v.fromWeek, { message: "The last week must not be before the first.", path: ["toWeek"] });
 
-const renameSchema = z.object({ name: z.string().trim().min(1, "Give the plan a name.").max(120), description: z.string().trim().max(2000).default("") });
+const renameSchema = z.object({
+  name: z.string().trim().min(1, "Give the plan a name.").max(120),
+  description: z.string().trim().max(2000).default(""),
+});
 
 type Result = { ok: boolean; message: string; fieldErrors: Record<string, string | undefined> };
 
@@ -51,7 +71,8 @@ export async function action({ request, params }: Route.ActionArgs) {
   const planId = (await requirePlan(coach, params.planId)).id;
   const form = await request.formData();
   const intent = form.get("intent");
-  const fail = (message: string, status = 400, fieldErrors: Record<string, string | undefined> = {}) => data<Result>({ ok: false, message, fieldErrors }, { status });
+  const fail = (message: string, status = 400, fieldErrors: Record<string, string | undefined> = {}) =>
+    data<Result>({ ok: false, message, fieldErrors }, { status });
   try {
     if (intent === "week") {
       const parsed = parseForm(weekEditSchema, form);
@@ -77,20 +98,38 @@ export async function action({ request, params }: Route.ActionArgs) {
       }
       if (Object.keys(fieldErrors).length) return fail("Nothing was saved: fix the marked fields.", 400, fieldErrors);
       const n = await updateWeeks(coach.id, planId, edits);
-      return { ok: true, message: n ? `Saved ${n} changed week${n === 1 ? "" : "s"}.` : "Nothing had changed.", fieldErrors: {} } satisfies Result;
+      return {
+        ok: true,
+        message: n ? `Saved ${n} changed week${n === 1 ? "" : "s"}.` : "Nothing had changed.",
+        fieldErrors: {},
+      } satisfies Result;
     }
     if (intent === "range") {
       const parsed = parseForm(rangeSchema, form);
       if (!parsed.ok) return fail("Check the change.", 400, parsed.fieldErrors);
       const v = parsed.data;
-      const n = await editWeekRange(coach.id, planId, { fromWeek: v.fromWeek, toWeek: v.toWeek, phase: v.phase || undefined, plannedHours: v.plannedHours === "" ? undefined : v.plannedHours, loadFactor: v.loadFactor === "" ? undefined : v.loadFactor });
-      return { ok: true, message: `Changed weeks ${v.fromWeek}–${v.toWeek} (${n} week${n === 1 ? "" : "s"}).`, fieldErrors: {} } satisfies Result;
+      const n = await editWeekRange(coach.id, planId, {
+        fromWeek: v.fromWeek,
+        toWeek: v.toWeek,
+        phase: v.phase || undefined,
+        plannedHours: v.plannedHours === "" ? undefined : v.plannedHours,
+        loadFactor: v.loadFactor === "" ? undefined : v.loadFactor,
+      });
+      return {
+        ok: true,
+        message: `Changed weeks ${v.fromWeek}–${v.toWeek} (${n} week${n === 1 ? "" : "s"}).`,
+        fieldErrors: {},
+      } satisfies Result;
     }
     if (intent === "phase-range") {
       const parsed = parseForm(phaseRangeSchema, form);
       if (!parsed.ok) return fail("Check the phase change.", 400, parsed.fieldErrors);
       const n = await setPhaseRange(coach.id, planId, parsed.data);
-      return { ok: true, message: `${n} week${n === 1 ? "" : "s"} set to ${PHASE_LABEL[parsed.data.phase]}.`, fieldErrors: {} } satisfies Result;
+      return {
+        ok: true,
+        message: `${n} week${n === 1 ? "" : "s"} set to ${PHASE_LABEL[parsed.data.phase]}.`,
+        fieldErrors: {},
+      } satisfies Result;
     }
     if (intent === "recurrence") {
       const parsed = parseForm(recurrenceSchema, form);
@@ -109,7 +148,11 @@ export async function action({ request, params }: Route.ActionArgs) {
       return redirect("/coach/plans");
     }
   } catch (err) {
-    return pageFailure(err, (e): Result => ({ ok: false, message: e.message, fieldErrors: e.field ? { [e.field]: e.message } : {} }));
+    return pageFailure(err, (e): Result => ({
+      ok: false,
+      message: e.message,
+      fieldErrors: e.field ? { [e.field]: e.message } : {},
+    }));
     throw err;
   }
   return fail("Unknown request.");
@@ -144,7 +187,10 @@ export default function PlanPage({ loaderData }: Route.ComponentProps) {
           </>
         }
       />
-      <PhaseRibbon weeks={weeks.map((w) => ({ idx: w.idx, phase: w.phase, recovery: w.recovery, test: w.test }))} className="mb-6" />
+      <PhaseRibbon
+        weeks={weeks.map((w) => ({ idx: w.idx, phase: w.phase, recovery: w.recovery, test: w.test }))}
+        className="mb-6"
+      />
       <div className="grid gap-6 xl:grid-cols-[1fr_22rem]">
         <WeeksForm weeks={weeks} label={monday} sessions={dayCount} version={plan.version} />
         <div className="flex flex-col gap-6">
@@ -157,13 +203,32 @@ export default function PlanPage({ loaderData }: Route.ComponentProps) {
   );
 }
 
-type WeekRowData = { id: number; idx: number; phase: string; recovery: boolean; test: boolean; plannedHours: number; loadFactor: number; notes: string };
+type WeekRowData = {
+  id: number;
+  idx: number;
+  phase: string;
+  recovery: boolean;
+  test: boolean;
+  plannedHours: number;
+  loadFactor: number;
+  notes: string;
+};
 
 /**
  * Every week in one form with one Save. A field's error belongs to the value that was sent: editing the field
  * clears it at once, without waiting for the next save.
  */
-function WeeksForm({ weeks, label, sessions, version }: { weeks: WeekRowData[]; label: (idx: number) => string; sessions: (weekId: number) => number; version: number }) {
+function WeeksForm({
+  weeks,
+  label,
+  sessions,
+  version,
+}: {
+  weeks: WeekRowData[];
+  label: (idx: number) => string;
+  sessions: (weekId: number) => number;
+  version: number;
+}) {
   const fetcher = useFetcher<Result>();
   const [edited, setEdited] = useState<Set<string>>(new Set());
   const [seen, setSeen] = useState<unknown>(null);
@@ -206,7 +271,12 @@ function WeeksForm({ weeks, label, sessions, version }: { weeks: WeekRowData[]; 
                   <span className="block text-xs text-ink-soft">{label(w.idx)}</span>
                 </td>
                 <td className="py-2">
-                  <select name={`phase-${w.id}`} defaultValue={w.phase} aria-label={`Phase of week ${w.idx}`} className="rounded-md border border-line bg-white py-1 pr-7 pl-2">
+                  <select
+                    name={`phase-${w.id}`}
+                    defaultValue={w.phase}
+                    aria-label={`Phase of week ${w.idx}`}
+                    className="rounded-md border border-line bg-white py-1 pr-7 pl-2"
+                  >
                     {PHASES.map((p) => (
                       <option key={p} value={p}>
                         {PHASE_LABEL[p]}
@@ -215,21 +285,61 @@ function WeeksForm({ weeks, label, sessions, version }: { weeks: WeekRowData[]; 
                   </select>
                 </td>
                 <td className="py-2">
-                  <input type="checkbox" name={`recovery-${w.id}`} defaultChecked={w.recovery} aria-label={`Week ${w.idx} is a recovery week`} />
+                  <input
+                    type="checkbox"
+                    name={`recovery-${w.id}`}
+                    defaultChecked={w.recovery}
+                    aria-label={`Week ${w.idx} is a recovery week`}
+                  />
                 </td>
                 <td className="py-2">
-                  <input type="checkbox" name={`test-${w.id}`} defaultChecked={w.test} aria-label={`Week ${w.idx} has a field test`} />
+                  <input
+                    type="checkbox"
+                    name={`test-${w.id}`}
+                    defaultChecked={w.test}
+                    aria-label={`Week ${w.idx} has a field test`}
+                  />
                 </td>
                 <td className="py-2">
-                  <input name={`plannedHours-${w.id}`} type="number" step="0.25" min={0} max={60} defaultValue={w.plannedHours} aria-label={`Hours of week ${w.idx}`} aria-invalid={err("plannedHours", w.id) ? true : undefined} className="w-20 rounded-md border border-line px-2 py-1" />
-                  {err("plannedHours", w.id) && <span className="block text-xs text-brick">{err("plannedHours", w.id)}</span>}
+                  <input
+                    name={`plannedHours-${w.id}`}
+                    type="number"
+                    step="0.25"
+                    min={0}
+                    max={60}
+                    defaultValue={w.plannedHours}
+                    aria-label={`Hours of week ${w.idx}`}
+                    aria-invalid={err("plannedHours", w.id) ? true : undefined}
+                    className="w-20 rounded-md border border-line px-2 py-1"
+                  />
+                  {err("plannedHours", w.id) && (
+                    <span className="block text-xs text-brick">{err("plannedHours", w.id)}</span>
+                  )}
                 </td>
                 <td className="py-2">
-                  <input name={`loadFactor-${w.id}`} type="number" step="0.01" min={0.3} max={2} defaultValue={w.loadFactor} aria-label={`Load factor of week ${w.idx}`} aria-invalid={err("loadFactor", w.id) ? true : undefined} className="w-20 rounded-md border border-line px-2 py-1" />
-                  {err("loadFactor", w.id) && <span className="block text-xs text-brick">{err("loadFactor", w.id)}</span>}
+                  <input
+                    name={`loadFactor-${w.id}`}
+                    type="number"
+                    step="0.01"
+                    min={0.3}
+                    max={2}
+                    defaultValue={w.loadFactor}
+                    aria-label={`Load factor of week ${w.idx}`}
+                    aria-invalid={err("loadFactor", w.id) ? true : undefined}
+                    className="w-20 rounded-md border border-line px-2 py-1"
+                  />
+                  {err("loadFactor", w.id) && (
+                    <span className="block text-xs text-brick">{err("loadFactor", w.id)}</span>
+                  )}
                 </td>
                 <td className="py-2 pr-2">
-                  <input name={`notes-${w.id}`} defaultValue={w.notes} maxLength={1000} aria-label={`Notes for week ${w.idx}`} className="w-full min-w-40 rounded-md border border-line px-2 py-1" />
+                  <input
+                    name={`notes-${w.id}`}
+                    defaultValue={w.notes}
+                    maxLength={1000}
+                    aria-label={`Notes for week ${w.idx}`}
+                    className="w-full min-w-40 rounded-md border border-line px-2 py-1"
+                  />
                 </td>
                 <td className="py-2 pr-4">{sessions(w.id)}</td>
               </tr>
@@ -241,7 +351,10 @@ function WeeksForm({ weeks, label, sessions, version }: { weeks: WeekRowData[]; 
             {fetcher.state !== "idle" ? "Saving…" : "Save all weeks"}
           </button>
           {fetcher.data && (
-            <span role={fetcher.data.ok ? "status" : "alert"} className={`text-sm ${fetcher.data.ok ? "text-teal" : "text-brick"}`}>
+            <span
+              role={fetcher.data.ok ? "status" : "alert"}
+              className={`text-sm ${fetcher.data.ok ? "text-teal" : "text-brick"}`}
+            >
               {fetcher.data.message}
             </span>
           )}
@@ -265,17 +378,36 @@ function RangeForm({ weeks }: { weeks: number }) {
   return (
     <Card>
       <h2 className="font-semibold">Change a run of weeks</h2>
-      <fetcher.Form method="post" noValidate className="mt-3 flex flex-col gap-3 text-sm" onChange={(e) => setEdited((s) => new Set(s).add((e.target as unknown as HTMLInputElement).name))}>
+      <fetcher.Form
+        method="post"
+        noValidate
+        className="mt-3 flex flex-col gap-3 text-sm"
+        onChange={(e) => setEdited((s) => new Set(s).add((e.target as unknown as HTMLInputElement).name))}
+      >
         <input type="hidden" name="intent" value="range" />
         <Result result={fetcher.data} />
         <div className="grid grid-cols-2 gap-2">
           <label className="flex flex-col gap-1">
             From week
-            <input name="fromWeek" type="number" min={1} max={weeks} defaultValue={1} className="rounded-md border border-line px-2 py-1" />
+            <input
+              name="fromWeek"
+              type="number"
+              min={1}
+              max={weeks}
+              defaultValue={1}
+              className="rounded-md border border-line px-2 py-1"
+            />
           </label>
           <label className="flex flex-col gap-1">
             To week
-            <input name="toWeek" type="number" min={1} max={weeks} defaultValue={Math.min(4, weeks)} className="rounded-md border border-line px-2 py-1" />
+            <input
+              name="toWeek"
+              type="number"
+              min={1}
+              max={weeks}
+              defaultValue={Math.min(4, weeks)}
+              className="rounded-md border border-line px-2 py-1"
+            />
             {err("toWeek") && <span className="text-xs text-brick">{err("toWeek")}</span>}
           </label>
           <label className="col-span-2 flex flex-col gap-1">
@@ -292,12 +424,28 @@ function RangeForm({ weeks }: { weeks: number }) {
           </label>
           <label className="flex flex-col gap-1">
             Hours per week
-            <input name="plannedHours" type="number" step="0.25" min={0} max={60} placeholder="keep" className="rounded-md border border-line px-2 py-1" />
+            <input
+              name="plannedHours"
+              type="number"
+              step="0.25"
+              min={0}
+              max={60}
+              placeholder="keep"
+              className="rounded-md border border-line px-2 py-1"
+            />
             {err("plannedHours") && <span className="text-xs text-brick">{err("plannedHours")}</span>}
           </label>
           <label className="flex flex-col gap-1">
             Load factor
-            <input name="loadFactor" type="number" step="0.01" min={0.3} max={2} placeholder="keep" className="rounded-md border border-line px-2 py-1" />
+            <input
+              name="loadFactor"
+              type="number"
+              step="0.01"
+              min={0.3}
+              max={2}
+              placeholder="keep"
+              className="rounded-md border border-line px-2 py-1"
+            />
             {err("loadFactor") && <span className="text-xs text-brick">{err("loadFactor")}</span>}
           </label>
         </div>
@@ -314,13 +462,23 @@ function Result({ result }: { result?: Result }) {
   return <FormMessage tone={result.ok ? "ok" : "error"}>{result.message}</FormMessage>;
 }
 
-function RecurrenceForm({ weeks, shelf, recurrences }: { weeks: number; shelf: { id: number; name: string; sport: string }[]; recurrences: { id: number; summary: string; count: number }[] }) {
+function RecurrenceForm({
+  weeks,
+  shelf,
+  recurrences,
+}: {
+  weeks: number;
+  shelf: { id: number; name: string; sport: string }[];
+  recurrences: { id: number; summary: string; count: number }[];
+}) {
   const fetcher = useFetcher<Result>();
   const errors = fetcher.data?.fieldErrors ?? {};
   return (
     <Card>
       <h2 className="font-semibold">Repeat a session</h2>
-      <p className="mt-1 text-xs text-ink-soft">Each repeat becomes its own item, which you can still move or remove on the board.</p>
+      <p className="mt-1 text-xs text-ink-soft">
+        Each repeat becomes its own item, which you can still move or remove on the board.
+      </p>
       <fetcher.Form method="post" className="mt-3 flex flex-col gap-3 text-sm">
         <input type="hidden" name="intent" value="recurrence" />
         <Result result={fetcher.data} />
@@ -349,11 +507,25 @@ function RecurrenceForm({ weeks, shelf, recurrences }: { weeks: number; shelf: {
         <div className="grid grid-cols-3 gap-2">
           <label className="flex flex-col gap-1">
             From week
-            <input name="fromWeek" type="number" min={1} max={weeks} defaultValue={Math.min(3, weeks)} className="rounded-md border border-line px-2 py-1" />
+            <input
+              name="fromWeek"
+              type="number"
+              min={1}
+              max={weeks}
+              defaultValue={Math.min(3, weeks)}
+              className="rounded-md border border-line px-2 py-1"
+            />
           </label>
           <label className="flex flex-col gap-1">
             To week
-            <input name="toWeek" type="number" min={1} max={weeks} defaultValue={Math.min(8, weeks)} className="rounded-md border border-line px-2 py-1" />
+            <input
+              name="toWeek"
+              type="number"
+              min={1}
+              max={weeks}
+              defaultValue={Math.min(8, weeks)}
+              className="rounded-md border border-line px-2 py-1"
+            />
             {errors.toWeek && <span className="text-xs text-brick">{errors.toWeek}</span>}
           </label>
           <label className="flex flex-col gap-1">
@@ -386,13 +558,29 @@ function RenameForm({ name, description }: { name: string; description: string }
       <h2 className="font-semibold">Name and description</h2>
       <fetcher.Form method="post" className="mt-3 flex flex-col gap-3 text-sm">
         <Result result={fetcher.data} />
-        <input name="name" defaultValue={name} aria-label="Plan name" className="rounded-md border border-line px-2 py-1" />
-        <textarea name="description" defaultValue={description} rows={2} aria-label="Plan description" className="rounded-md border border-line px-2 py-1" />
+        <input
+          name="name"
+          defaultValue={name}
+          aria-label="Plan name"
+          className="rounded-md border border-line px-2 py-1"
+        />
+        <textarea
+          name="description"
+          defaultValue={description}
+          rows={2}
+          aria-label="Plan description"
+          className="rounded-md border border-line px-2 py-1"
+        />
         <div className="flex justify-between">
           <button name="intent" value="rename" className={buttonClass("secondary")}>
             Save
           </button>
-          <button name="intent" value="delete" className={buttonClass("ghost", "text-brick")} onClick={(e) => !confirm("Delete this plan and everything on its board?") && e.preventDefault()}>
+          <button
+            name="intent"
+            value="delete"
+            className={buttonClass("ghost", "text-brick")}
+            onClick={(e) => !confirm("Delete this plan and everything on its board?") && e.preventDefault()}
+          >
             Delete plan
           </button>
         </div>

@@ -46,12 +46,21 @@ export default function Plans({ loaderData }: Route.ComponentProps) {
     column.display({
       id: "phases",
       header: "Phases",
-      cell: (c) => <PhaseRibbon weeks={c.row.original.phases.map((phase, i) => ({ idx: i + 1, phase, recovery: false, test: false }))} className="w-48 [&_ul]:hidden" />,
+      cell: (c) => (
+        <PhaseRibbon
+          weeks={c.row.original.phases.map((phase, i) => ({ idx: i + 1, phase, recovery: false, test: false }))}
+          className="w-48 [&_ul]:hidden"
+        />
+      ),
     }),
     column.accessor("sessions", { header: "Sessions" }),
     column.accessor("athletes", { header: "Athletes" }),
     column.accessor("listed", { header: "For sale", cell: (c) => (c.getValue() ? "Listed" : "—") }),
-    column.accessor((r) => r.eventDate ?? r.startDate ?? "", { id: "date", header: "Event / start", cell: (c) => c.getValue() || "—" }),
+    column.accessor((r) => r.eventDate ?? r.startDate ?? "", {
+      id: "date",
+      header: "Event / start",
+      cell: (c) => c.getValue() || "—",
+    }),
     column.display({
       id: "board",
       header: "",
@@ -73,7 +82,12 @@ export default function Plans({ loaderData }: Route.ComponentProps) {
           </Link>
         }
       />
-      <DataTable data={loaderData.plans} columns={columns} caption="Your season plans" empty="No plans yet. Create one from an event date." />
+      <DataTable
+        data={loaderData.plans}
+        columns={columns}
+        caption="Your season plans"
+        empty="No plans yet. Create one from an event date."
+      />
     </>
   );
 }

@@ -34,17 +34,23 @@ export async function action({ request }: Route.ActionArgs) {
 
 type Athlete = Route.ComponentProps["loaderData"]["athletes"][number];
 
-const thresholdText = (t: { sport: string; value: number; unit: string }) => `${t.sport} ${formatThreshold(t.value, t.unit)}`;
+const thresholdText = (t: { sport: string; value: number; unit: string }) =>
+  `${t.sport} ${formatThreshold(t.value, t.unit)}`;
 const column = createColumnHelper<Athlete>();
 
 /** The last field test; thresholds typed in by hand have no test, so their date says since when they hold. */
 function lastTestText(r: Athlete) {
   if (r.retest.lastTest) return r.retest.lastTest;
-  const since = r.thresholds.map((t) => t.since).sort().at(-1);
+  const since = r.thresholds
+    .map((t) => t.since)
+    .sort()
+    .at(-1);
   return since ? `no test; thresholds set ${since}` : "none yet";
 }
 function complianceText(l: Athlete["load"]) {
-  return l.compliance === null ? "nothing planned yet" : `${Math.round(l.compliance * 100)} % (${l.done} of ${l.planned} sessions)`;
+  return l.compliance === null
+    ? "nothing planned yet"
+    : `${Math.round(l.compliance * 100)} % (${l.done} of ${l.planned} sessions)`;
 }
 
 export default function Roster({ loaderData }: Route.ComponentProps) {
@@ -53,13 +59,20 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
     column.accessor("name", {
       header: "Athlete",
       cell: (c) => (
-        <Link to={`/coach/athletes/${c.row.original.id}`} className="font-medium text-teal underline-offset-2 hover:underline">
+        <Link
+          to={`/coach/athletes/${c.row.original.id}`}
+          className="font-medium text-teal underline-offset-2 hover:underline"
+        >
           {c.getValue()}
         </Link>
       ),
     }),
     column.accessor("email", { header: "E-mail" }),
-    column.accessor((r) => r.thresholds.map((t) => thresholdText(t)).join(" · "), { id: "thresholds", header: "Thresholds", cell: (c) => c.getValue() || <span className="text-brick">needs a field test</span> }),
+    column.accessor((r) => r.thresholds.map((t) => thresholdText(t)).join(" · "), {
+      id: "thresholds",
+      header: "Thresholds",
+      cell: (c) => c.getValue() || <span className="text-brick">needs a field test</span>,
+    }),
     column.accessor((r) => lastTestText(r), { id: "lastTest", header: "Last test" }),
     column.accessor((r) => r.retest.due ?? "", {
       id: "due",
@@ -92,7 +105,10 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
   ];
   return (
     <>
-      <PageHeader title="Roster" lead={`${athletes.length} athlete${athletes.length === 1 ? "" : "s"} coached by you.`} />
+      <PageHeader
+        title="Roster"
+        lead={`${athletes.length} athlete${athletes.length === 1 ? "" : "s"} coached by you.`}
+      />
       <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
         <div className="hidden md:block">
           <DataTable
@@ -105,24 +121,37 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
         </div>
         {/* On a phone the table's columns do not fit: one card per athlete with the same facts. */}
         <ul className="flex flex-col gap-3 md:hidden" aria-label="Athletes on your roster">
-          {athletes.length === 0 && <li className="text-sm text-ink-soft">No athletes yet. Invite your first one with the form.</li>}
+          {athletes.length === 0 && (
+            <li className="text-sm text-ink-soft">No athletes yet. Invite your first one with the form.</li>
+          )}
           {[...athletes]
             .sort((a, b) => a.name.localeCompare(b.name))
             .map((a) => (
               <li key={a.id} className="rounded-xl border border-line bg-white p-4 text-sm" data-testid="roster-card">
-                <Link to={`/coach/athletes/${a.id}`} className="text-base font-semibold text-teal underline-offset-2 hover:underline">
+                <Link
+                  to={`/coach/athletes/${a.id}`}
+                  className="text-base font-semibold text-teal underline-offset-2 hover:underline"
+                >
                   {a.name}
                 </Link>
                 <p className="break-all text-ink-soft">{a.email}</p>
                 <dl className="mt-2 grid grid-cols-[7rem_1fr] gap-x-2 gap-y-1">
                   <dt className="text-ink-soft">Thresholds</dt>
-                  <dd>{a.thresholds.length ? a.thresholds.map((t) => thresholdText(t)).join(" · ") : <span className="text-brick">needs a field test</span>}</dd>
+                  <dd>
+                    {a.thresholds.length ? (
+                      a.thresholds.map((t) => thresholdText(t)).join(" · ")
+                    ) : (
+                      <span className="text-brick">needs a field test</span>
+                    )}
+                  </dd>
                   <dt className="text-ink-soft">Last test</dt>
                   <dd className="num">{lastTestText(a)}</dd>
                   <dt className="text-ink-soft">Retest due</dt>
                   <dd className="num">
                     {a.retest.due ?? "—"}
-                    {a.retest.due && a.retest.due < a.today && <span className="font-medium text-brick"> (overdue)</span>}
+                    {a.retest.due && a.retest.due < a.today && (
+                      <span className="font-medium text-brick"> (overdue)</span>
+                    )}
                   </dd>
                   <dt className="text-ink-soft">Done, last 4 weeks</dt>
                   <dd className="num">
@@ -164,7 +193,10 @@ export default function Roster({ loaderData }: Route.ComponentProps) {
 /** The acute:chronic flag in plain words (7-day against 28-day load; Gabbett 2016 bands are guidance only). */
 function SpikeFlag({ ratio }: { ratio: number | null }) {
   return (
-    <span className="ml-2 inline-block rounded bg-brick/15 px-1.5 text-xs font-medium text-brick" title={`Last 7 days' load is ${ratio} times the 28-day usual`}>
+    <span
+      className="ml-2 inline-block rounded bg-brick/15 px-1.5 text-xs font-medium text-brick"
+      title={`Last 7 days' load is ${ratio} times the 28-day usual`}
+    >
       load spike{ratio !== null ? `: ${ratio} × usual` : ""}
     </span>
   );

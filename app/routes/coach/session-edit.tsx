@@ -22,7 +22,11 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const found = await getSession(coach.id, Number(params.sessionId));
   if (!found) notFound("No session with this id is on your shelf.");
   const { session, blocks, usedIn } = found;
-  return { id: session.id, usedIn, values: { name: session.name, sport: session.sport, description: session.description, tags: session.tags, blocks } };
+  return {
+    id: session.id,
+    usedIn,
+    values: { name: session.name, sport: session.sport, description: session.description, tags: session.tags, blocks },
+  };
 }
 
 const payloadSchema = z.object({ payload: z.string() });
@@ -68,9 +72,18 @@ export default function SessionEdit({ loaderData, actionData }: Route.ComponentP
       </p>
       <PageHeader
         title={id ? values.name : "New session"}
-        lead={usedIn ? `Used ${usedIn}× in plans. Plans keep the copy they were given; changes here apply to new placements.` : "Build the session from blocks; every target is a percentage of threshold."}
+        lead={
+          usedIn
+            ? `Used ${usedIn}× in plans. Plans keep the copy they were given; changes here apply to new placements.`
+            : "Build the session from blocks; every target is a percentage of threshold."
+        }
       />
-      <SessionBuilder key={id ?? "new"} initial={values} errors={errorsOf(actionData)} submitLabel={id ? "Save changes" : "Save to shelf"} />
+      <SessionBuilder
+        key={id ?? "new"}
+        initial={values}
+        errors={errorsOf(actionData)}
+        submitLabel={id ? "Save changes" : "Save to shelf"}
+      />
     </>
   );
 }

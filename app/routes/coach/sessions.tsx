@@ -6,7 +6,14 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { pageFailure } from "~/.server/replies";
-import { duplicateSession, importSessions, listSessions, removeSession, setArchived, type SessionSummary } from "~/.server/services/sessions";
+import {
+  duplicateSession,
+  importSessions,
+  listSessions,
+  removeSession,
+  setArchived,
+  type SessionSummary,
+} from "~/.server/services/sessions";
 import { formatMinutes } from "~/lib/duration";
 import { SPORTS, SPORT_LABEL, type Sport } from "~/lib/sessions";
 import type { Route } from "./+types/sessions";
@@ -28,8 +35,16 @@ export async function action({ request }: Route.ActionArgs) {
   const id = Number(form.get("sessionId"));
   if (intent === "import") {
     const file = form.get("file");
-    if (!(file instanceof File) || file.size === 0) return data({ ok: false as const, message: "Choose a session file to import.", details: [] as string[] }, { status: 400 });
-    if (file.size > MAX_IMPORT_BYTES) return data({ ok: false as const, message: "That file is larger than 1 MB.", details: [] as string[] }, { status: 413 });
+    if (!(file instanceof File) || file.size === 0)
+      return data(
+        { ok: false as const, message: "Choose a session file to import.", details: [] as string[] },
+        { status: 400 },
+      );
+    if (file.size > MAX_IMPORT_BYTES)
+      return data(
+        { ok: false as const, message: "That file is larger than 1 MB.", details: [] as string[] },
+        { status: 413 },
+      );
     try {
       const n = await importSessions(coach.id, await file.text());
       return { ok: true as const, message: `Imported ${n} session${n === 1 ? "" : "s"}.`, details: [] as string[] };
@@ -39,18 +54,40 @@ export async function action({ request }: Route.ActionArgs) {
   }
   if (intent === "duplicate") {
     const copy = await duplicateSession(coach.id, id);
-    if (!copy) return data({ ok: false as const, message: "That session is not on your shelf.", details: [] as string[] }, { status: 404 });
+    if (!copy)
+      return data(
+        { ok: false as const, message: "That session is not on your shelf.", details: [] as string[] },
+        { status: 404 },
+      );
     return { ok: true as const, message: `Made “${copy.name}”.`, details: [] as string[] };
   }
   if (intent === "remove") {
     const result = await removeSession(coach.id, id);
-    if (!result) return data({ ok: false as const, message: "That session is not on your shelf.", details: [] as string[] }, { status: 404 });
-    return { ok: true as const, message: result === "archived" ? "This session is used in a plan, so it was archived instead of deleted." : "Session deleted.", details: [] as string[] };
+    if (!result)
+      return data(
+        { ok: false as const, message: "That session is not on your shelf.", details: [] as string[] },
+        { status: 404 },
+      );
+    return {
+      ok: true as const,
+      message:
+        result === "archived"
+          ? "This session is used in a plan, so it was archived instead of deleted."
+          : "Session deleted.",
+      details: [] as string[],
+    };
   }
   if (intent === "unarchive" || intent === "archive") {
     if (!(await setArchived(coach.id, id, intent === "archive")))
-      return data({ ok: false as const, message: "That session is not on your shelf.", details: [] as string[] }, { status: 404 });
-    return { ok: true as const, message: intent === "archive" ? "Session archived." : "Session back on the shelf.", details: [] as string[] };
+      return data(
+        { ok: false as const, message: "That session is not on your shelf.", details: [] as string[] },
+        { status: 404 },
+      );
+    return {
+      ok: true as const,
+      message: intent === "archive" ? "Session archived." : "Session back on the shelf.",
+      details: [] as string[],
+    };
   }
   return data({ ok: false as const, message: "Unknown request.", details: [] as string[] }, { status: 400 });
 }
@@ -65,7 +102,10 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
   const [archived, setArchivedView] = useState(false);
   const list = useFetcher<ShelfData>();
   const act = useFetcher<typeof action>();
-  const query = useMemo(() => new URLSearchParams({ q, sport, tag, sort, archived: archived ? "1" : "0" }).toString(), [q, sport, tag, sort, archived]);
+  const query = useMemo(
+    () => new URLSearchParams({ q, sport, tag, sort, archived: archived ? "1" : "0" }).toString(),
+    [q, sport, tag, sort, archived],
+  );
   const first = useRef(true);
 
   // Filtering asks the JSON route, so the page never reloads; a short pause spares a request per keystroke.
@@ -104,11 +144,21 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
       <div className="mb-4 grid gap-3 rounded-xl border border-line bg-white p-4 sm:grid-cols-2 lg:grid-cols-[2fr_1fr_1fr_1fr_auto]">
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Search</span>
-          <input type="search" value={q} onChange={(e) => setQ(e.target.value)} placeholder="Name, description or tag" className="rounded-lg border border-line px-3 py-2" />
+          <input
+            type="search"
+            value={q}
+            onChange={(e) => setQ(e.target.value)}
+            placeholder="Name, description or tag"
+            className="rounded-lg border border-line px-3 py-2"
+          />
         </label>
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Sport</span>
-          <select value={sport} onChange={(e) => setSport(e.target.value)} className="rounded-lg border border-line bg-white px-3 py-2">
+          <select
+            value={sport}
+            onChange={(e) => setSport(e.target.value)}
+            className="rounded-lg border border-line bg-white px-3 py-2"
+          >
             <option value="">All sports</option>
             {SPORTS.map((s) => (
               <option key={s} value={s}>
@@ -119,7 +169,11 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
         </label>
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Tag</span>
-          <select value={tag} onChange={(e) => setTag(e.target.value)} className="rounded-lg border border-line bg-white px-3 py-2">
+          <select
+            value={tag}
+            onChange={(e) => setTag(e.target.value)}
+            className="rounded-lg border border-line bg-white px-3 py-2"
+          >
             <option value="">All tags</option>
             {tags.map((t) => (
               <option key={t} value={t}>
@@ -130,7 +184,11 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
         </label>
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Sort by</span>
-          <select value={sort} onChange={(e) => setSort(e.target.value)} className="rounded-lg border border-line bg-white px-3 py-2">
+          <select
+            value={sort}
+            onChange={(e) => setSort(e.target.value)}
+            className="rounded-lg border border-line bg-white px-3 py-2"
+          >
             <option value="name">Name</option>
             <option value="updated">Last changed</option>
             <option value="duration">Duration</option>
@@ -162,7 +220,10 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
           <p className="text-ink-soft">No sessions match. Change the filters or create a new session.</p>
         </Card>
       ) : (
-        <ul className={`grid gap-4 sm:grid-cols-2 xl:grid-cols-3 ${list.state === "loading" ? "opacity-60" : ""}`} aria-label="Sessions">
+        <ul
+          className={`grid gap-4 sm:grid-cols-2 xl:grid-cols-3 ${list.state === "loading" ? "opacity-60" : ""}`}
+          aria-label="Sessions"
+        >
           {shown.sessions.map((s) => (
             <li key={s.id}>
               <SessionCard session={s} fetcher={act} />
@@ -199,7 +260,9 @@ function SessionCard({ session: s, fetcher }: { session: SessionSummary; fetcher
         ))}
       </div>
       <div className="mt-auto flex flex-wrap items-center gap-2 pt-3 text-sm">
-        <span className="mr-auto text-xs text-ink-soft">{s.usedIn ? `In plans ${s.usedIn}×` : "Not in a plan yet"}</span>
+        <span className="mr-auto text-xs text-ink-soft">
+          {s.usedIn ? `In plans ${s.usedIn}×` : "Not in a plan yet"}
+        </span>
         <fetcher.Form method="post">
           <input type="hidden" name="sessionId" value={s.id} />
           <button name="intent" value="duplicate" className={buttonClass("ghost", "px-2 py-1")}>
@@ -210,7 +273,12 @@ function SessionCard({ session: s, fetcher }: { session: SessionSummary; fetcher
               Restore
             </button>
           ) : (
-            <button name="intent" value="remove" className={buttonClass("ghost", "px-2 py-1 text-brick")} aria-label={`Delete ${s.name}`}>
+            <button
+              name="intent"
+              value="remove"
+              className={buttonClass("ghost", "px-2 py-1 text-brick")}
+              aria-label={`Delete ${s.name}`}
+            >
               {s.usedIn ? "Archive" : "Delete"}
             </button>
           )}
@@ -225,7 +293,8 @@ function ImportForm({ fetcher }: { fetcher: ReturnType<typeof useFetcher> }) {
     <Card className="mt-8 max-w-xl">
       <h2 className="font-semibold">Import sessions</h2>
       <p className="mt-1 text-sm text-ink-soft">
-        A Pacewright session file (JSON, as made by “Export all”). If any session in it is not valid, nothing is imported.
+        A Pacewright session file (JSON, as made by “Export all”). If any session in it is not valid, nothing is
+        imported.
       </p>
       <fetcher.Form method="post" encType="multipart/form-data" className="mt-3 flex flex-wrap items-center gap-3">
         <input type="hidden" name="intent" value="import" />

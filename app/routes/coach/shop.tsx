@@ -9,7 +9,16 @@ import { requireRole } from "~/.server/auth";
 import { Listing, SeasonPlan } from "~/.server/models";
 import { pageFailure } from "~/.server/replies";
 import { resolveReview, reviewQueue, unmatchedEvents } from "~/.server/services/orders";
-import { createListing, formatPrice, listingEditSchema, listingSchema, refundOrder, salesFor, setPublished, updateListing } from "~/.server/services/shop";
+import {
+  createListing,
+  formatPrice,
+  listingEditSchema,
+  listingSchema,
+  refundOrder,
+  salesFor,
+  setPublished,
+  updateListing,
+} from "~/.server/services/shop";
 import { CURRENCIES, LEVELS } from "~/lib/shop";
 import { parseForm } from "~/lib/forms";
 import type { Route } from "./+types/shop";
@@ -22,11 +31,25 @@ export async function loader({ request }: Route.LoaderArgs) {
   const listings = await Listing.findAll({ where: { coachId: coach.id }, order: [["createdAt", "DESC"]] });
   const sales = await salesFor(coach);
   const totals = new Map<string, number>();
-  for (const s of sales) if (s.status === "fulfilled") totals.set(s.currency, (totals.get(s.currency) ?? 0) + (s.paidCents ?? s.amountCents));
+  for (const s of sales)
+    if (s.status === "fulfilled")
+      totals.set(s.currency, (totals.get(s.currency) ?? 0) + (s.paidCents ?? s.amountCents));
   return {
     admin: coach.role === "admin",
     plans: plans.map((p) => ({ id: p.id, name: p.name })),
-    listings: listings.map((l) => ({ id: l.id, slug: l.slug, title: l.title, description: l.description, coverText: l.coverText ?? "", level: l.level, priceText: (l.priceCents / 100).toFixed(2), currency: l.currency, price: formatPrice(l.priceCents, l.currency), published: l.published, weeks: l.weeks })),
+    listings: listings.map((l) => ({
+      id: l.id,
+      slug: l.slug,
+      title: l.title,
+      description: l.description,
+      coverText: l.coverText ?? "",
+      level: l.level,
+      priceText: (l.priceCents / 100).toFixed(2),
+      currency: l.currency,
+      price: formatPrice(l.priceCents, l.currency),
+      published: l.published,
+      weeks: l.weeks,
+    })),
     sales,
     review: await reviewQueue(coach),
     unmatched: coach.role === "admin" ? await unmatchedEvents() : [],
@@ -43,28 +66,60 @@ export async function action({ request }: Route.ActionArgs) {
   try {
     if (intent === "create") {
       const parsed = parseForm(listingSchema, form);
-      if (!parsed.ok) return data<Result>({ ok: false, message: "Check the listing.", fieldErrors: parsed.fieldErrors }, { status: 400 });
+      if (!parsed.ok)
+        return data<Result>(
+          { ok: false, message: "Check the listing.", fieldErrors: parsed.fieldErrors },
+          { status: 400 },
+        );
       const l = await createListing(coach, parsed.data);
-      return { ok: true, message: `Listed “${l.title}” (not published yet: preview it, then publish).` } satisfies Result;
+      return {
+        ok: true,
+        message: `Listed “${l.title}” (not published yet: preview it, then publish).`,
+      } satisfies Result;
     }
     if (intent === "edit") {
       const parsed = parseForm(listingEditSchema, form);
-      if (!parsed.ok) return data<Result>({ ok: false, message: "Check the listing.", fieldErrors: parsed.fieldErrors }, { status: 400 });
+      if (!parsed.ok)
+        return data<Result>(
+          { ok: false, message: "Check the listing.", fieldErrors: parsed.fieldErrors },
+          { status: 400 },
+        );
       const l = await updateListing(coach, parsed.data);
-      return { ok: true, message: `Saved “${l.title}”: the next buyer sees ${formatPrice(l.priceCents, l.currency)}; earlier orders keep their price.` } satisfies Result;
+      return {
+        ok: true,
+        message: `Saved “${l.title}”: the next buyer sees ${formatPrice(l.priceCents, l.currency)}; earlier orders keep their price.`,
+      } satisfies Result;
     }
     if (intent === "deliver" || intent === "close") {
       await resolveReview(coach, Number(form.get("orderId")), intent);
-      return { ok: true, message: intent === "deliver" ? "Delivered: the plan is on the buyer's calendar." : "Closed: nothing was paid, nothing was placed." } satisfies Result;
+      return {
+        ok: true,
+        message:
+          intent === "deliver"
+            ? "Delivered: the plan is on the buyer's calendar."
+            : "Closed: nothing was paid, nothing was placed.",
+      } satisfies Result;
     }
     if (intent === "publish" || intent === "unpublish") {
       await setPublished(coach, Number(form.get("listingId")), intent === "publish");
-      return { ok: true, message: intent === "publish" ? "Published: it is in the shop." : "Unpublished: it left the shop." } satisfies Result;
+      return {
+        ok: true,
+        message: intent === "publish" ? "Published: it is in the shop." : "Unpublished: it left the shop.",
+      } satisfies Result;
     }
     if (intent === "refund") {
       const r = await refundOrder(coach, Number(form.get("orderId")));
-      if (r.already) return { ok: true, message: r.inFlight ? "A refund for this order is already on its way." : "Already refunded: nothing more to do." } satisfies Result;
-      return { ok: true, message: `Refunded; ${r.removed} future session${r.removed === 1 ? "" : "s"} removed from the buyer's calendar.` } satisfies Result;
+      if (r.already)
+        return {
+          ok: true,
+          message: r.inFlight
+            ? "A refund for this order is already on its way."
+            : "Already refunded: nothing more to do.",
+        } satisfies Result;
+      return {
+        ok: true,
+        message: `Refunded; ${r.removed} future session${r.removed === 1 ? "" : "s"} removed from the buyer's calendar.`,
+      } satisfies Result;
     }
   } catch (err) {
     return pageFailure(err, (e): Result => ({ ok: false, message: e.message }));
@@ -89,13 +144,26 @@ function RefundButton({ sale }: { sale: { id: number; amount: string; status?: s
   useEffect(() => {
     if (asking) confirmRef.current?.focus();
   }, [asking]);
-  if (fetcher.data?.ok) return <span className="block text-xs text-teal" role="status">{fetcher.data.message}</span>;
+  if (fetcher.data?.ok)
+    return (
+      <span className="block text-xs text-teal" role="status">
+        {fetcher.data.message}
+      </span>
+    );
   if (sale.status && sale.status !== "fulfilled") return null;
   return (
-    <fetcher.Form method="post" onSubmit={() => setAsking(false)} onKeyDown={(e) => e.key === "Escape" && setAsking(false)}>
+    <fetcher.Form
+      method="post"
+      onSubmit={() => setAsking(false)}
+      onKeyDown={(e) => e.key === "Escape" && setAsking(false)}
+    >
       <input type="hidden" name="orderId" value={sale.id} />
       {asking ? (
-        <span role="group" aria-label={`Confirm the refund of order #${sale.id}`} className="flex flex-wrap items-center gap-2">
+        <span
+          role="group"
+          aria-label={`Confirm the refund of order #${sale.id}`}
+          className="flex flex-wrap items-center gap-2"
+        >
           <span className="text-xs">Refund {sale.amount} and remove its future sessions?</span>
           <button ref={confirmRef} name="intent" value="refund" className={buttonClass("danger", "px-2 py-1")}>
             Yes, refund
@@ -105,7 +173,12 @@ function RefundButton({ sale }: { sale: { id: number; amount: string; status?: s
           </button>
         </span>
       ) : (
-        <button type="button" onClick={() => setAsking(true)} className={buttonClass("ghost", "px-2 py-1 text-brick")} disabled={fetcher.state !== "idle"}>
+        <button
+          type="button"
+          onClick={() => setAsking(true)}
+          className={buttonClass("ghost", "px-2 py-1 text-brick")}
+          disabled={fetcher.state !== "idle"}
+        >
           {fetcher.state !== "idle" ? "Refunding…" : "Refund"}
         </button>
       )}
@@ -124,7 +197,11 @@ const SALES_COLUMNS = [
     header: "Status",
     cell: (c) => (
       <>
-        <span data-testid="sale-status" data-status={c.getValue()} className={c.getValue() === "needs_review" ? "font-medium text-brick" : undefined}>
+        <span
+          data-testid="sale-status"
+          data-status={c.getValue()}
+          className={c.getValue() === "needs_review" ? "font-medium text-brick" : undefined}
+        >
           {c.row.original.label}
         </span>
         {c.row.original.note && <span className="block max-w-56 text-xs text-ink-soft">{c.row.original.note}</span>}
@@ -158,7 +235,12 @@ function ReviewItem({ row }: { row: ReviewRow }) {
         {row.canDeliver && (
           <fetcher.Form method="post">
             <input type="hidden" name="orderId" value={row.id} />
-            <button name="intent" value="deliver" className={buttonClass("primary", "px-3 py-1")} disabled={fetcher.state !== "idle"}>
+            <button
+              name="intent"
+              value="deliver"
+              className={buttonClass("primary", "px-3 py-1")}
+              disabled={fetcher.state !== "idle"}
+            >
               Deliver the plan
             </button>
           </fetcher.Form>
@@ -167,7 +249,12 @@ function ReviewItem({ row }: { row: ReviewRow }) {
         {row.canClose && (
           <fetcher.Form method="post">
             <input type="hidden" name="orderId" value={row.id} />
-            <button name="intent" value="close" className={buttonClass("secondary", "px-3 py-1")} disabled={fetcher.state !== "idle"}>
+            <button
+              name="intent"
+              value="close"
+              className={buttonClass("secondary", "px-3 py-1")}
+              disabled={fetcher.state !== "idle"}
+            >
               Close (nothing to deliver)
             </button>
           </fetcher.Form>
@@ -181,10 +268,22 @@ function ListingFields({ errors, values }: { errors: Record<string, string | und
   return (
     <>
       <Field label="Title in the shop" name="title" error={errors.title} defaultValue={values?.title} />
-      <Field label="Cover text" name="coverText" error={errors.coverText} defaultValue={values?.coverText} hint="One line shown on the shop card." maxLength={200} />
+      <Field
+        label="Cover text"
+        name="coverText"
+        error={errors.coverText}
+        defaultValue={values?.coverText}
+        hint="One line shown on the shop card."
+        maxLength={200}
+      />
       <label className="flex flex-col gap-1 text-sm">
         <span className="font-medium">Description</span>
-        <textarea name="description" rows={4} defaultValue={values?.description} className={`rounded-lg border px-3 py-2 ${errors.description ? "border-brick" : "border-line"}`} />
+        <textarea
+          name="description"
+          rows={4}
+          defaultValue={values?.description}
+          className={`rounded-lg border px-3 py-2 ${errors.description ? "border-brick" : "border-line"}`}
+        />
         {errors.description && <span className="text-brick">{errors.description}</span>}
       </label>
       <SelectField label="Level" name="level" error={errors.level} defaultValue={values?.level}>
@@ -214,16 +313,28 @@ function ListingItem({ listing }: { listing: ListingRow }) {
       <div className="flex flex-wrap items-center gap-3">
         <span className="flex-1 font-medium">{listing.title}</span>
         <span className="num">{listing.price}</span>
-        <span className={listing.published ? "text-teal" : "text-ink-soft"}>{listing.published ? "in the shop" : "not published"}</span>
+        <span className={listing.published ? "text-teal" : "text-ink-soft"}>
+          {listing.published ? "in the shop" : "not published"}
+        </span>
         <Link to={`/shop/${listing.slug}`} className="text-teal underline">
           Preview
         </Link>
-        <button type="button" onClick={() => setEditing((v) => !v)} aria-expanded={editing} className={buttonClass("secondary", "px-3 py-1")}>
+        <button
+          type="button"
+          onClick={() => setEditing((v) => !v)}
+          aria-expanded={editing}
+          className={buttonClass("secondary", "px-3 py-1")}
+        >
           {editing ? "Close editor" : "Edit"}
         </button>
         <toggle.Form method="post">
           <input type="hidden" name="listingId" value={listing.id} />
-          <button name="intent" value={listing.published ? "unpublish" : "publish"} className={buttonClass("secondary", "px-3 py-1")} disabled={toggle.state !== "idle"}>
+          <button
+            name="intent"
+            value={listing.published ? "unpublish" : "publish"}
+            className={buttonClass("secondary", "px-3 py-1")}
+            disabled={toggle.state !== "idle"}
+          >
             {listing.published ? "Unpublish" : "Publish"}
           </button>
         </toggle.Form>
@@ -231,12 +342,29 @@ function ListingItem({ listing }: { listing: ListingRow }) {
       {toggle.data && <FormMessage tone={toggle.data.ok ? "ok" : "error"}>{toggle.data.message}</FormMessage>}
       {edit.data?.ok && !editing && <FormMessage tone="ok">{edit.data.message}</FormMessage>}
       {editing && (
-        <edit.Form method="post" className="mt-3 flex flex-col gap-3 rounded-lg border border-line bg-paper/50 p-3" noValidate aria-label={`Edit ${listing.title}`}>
+        <edit.Form
+          method="post"
+          className="mt-3 flex flex-col gap-3 rounded-lg border border-line bg-paper/50 p-3"
+          noValidate
+          aria-label={`Edit ${listing.title}`}
+        >
           {edit.data && !edit.data.ok && <FormMessage tone="error">{edit.data.message}</FormMessage>}
           <input type="hidden" name="listingId" value={listing.id} />
           <ListingFields errors={errors} values={listing} />
-          <Field label={`Price (${listing.currency})`} name="price" inputMode="decimal" error={errors.price} defaultValue={listing.priceText} hint="From 0.50 to 10,000. Orders already made keep the price they were made at." />
-          <button name="intent" value="edit" className={buttonClass("primary", "self-start")} disabled={edit.state !== "idle"}>
+          <Field
+            label={`Price (${listing.currency})`}
+            name="price"
+            inputMode="decimal"
+            error={errors.price}
+            defaultValue={listing.priceText}
+            hint="From 0.50 to 10,000. Orders already made keep the price they were made at."
+          />
+          <button
+            name="intent"
+            value="edit"
+            className={buttonClass("primary", "self-start")}
+            disabled={edit.state !== "idle"}
+          >
             {edit.state !== "idle" ? "Saving…" : "Save listing"}
           </button>
         </edit.Form>
@@ -251,10 +379,24 @@ export default function CoachShop({ loaderData }: Route.ComponentProps) {
   const errors = create.data?.fieldErrors ?? {};
   return (
     <>
-      <PageHeader title="Selling plans" lead={admin ? "Every order in the studio; orders that need a person are listed first." : "Put a season plan in the shop; a paid order places it on the buyer's calendar, scaled to their thresholds."} />
-      <section id="needs-review" aria-labelledby="needs-review-title" className={`mb-6 rounded-xl border p-5 ${review.length ? "border-brick/50 bg-brick/5" : "border-line bg-white"}`}>
+      <PageHeader
+        title="Selling plans"
+        lead={
+          admin
+            ? "Every order in the studio; orders that need a person are listed first."
+            : "Put a season plan in the shop; a paid order places it on the buyer's calendar, scaled to their thresholds."
+        }
+      />
+      <section
+        id="needs-review"
+        aria-labelledby="needs-review-title"
+        className={`mb-6 rounded-xl border p-5 ${review.length ? "border-brick/50 bg-brick/5" : "border-line bg-white"}`}
+      >
         <h2 id="needs-review-title" className="font-semibold">
-          Needs review {review.length > 0 && <span className="num ml-1 rounded-full bg-brick px-2 py-0.5 text-xs text-white">{review.length}</span>}
+          Needs review{" "}
+          {review.length > 0 && (
+            <span className="num ml-1 rounded-full bg-brick px-2 py-0.5 text-xs text-white">{review.length}</span>
+          )}
         </h2>
         {review.length === 0 ? (
           <p className="mt-1 text-sm text-ink-soft">Nothing waiting: every payment event matched its order.</p>
@@ -268,7 +410,9 @@ export default function CoachShop({ loaderData }: Route.ComponentProps) {
         {unmatched.length > 0 && (
           <div className="mt-3 border-t border-line pt-3 text-sm" data-testid="unmatched-events">
             <h3 className="font-medium">Provider events that match no order</h3>
-            <p className="text-xs text-ink-soft">Money moved at the provider for something this studio has no order for (or not yet): look it up there.</p>
+            <p className="text-xs text-ink-soft">
+              Money moved at the provider for something this studio has no order for (or not yet): look it up there.
+            </p>
             <ul className="num mt-1 flex flex-col gap-1 text-xs">
               {unmatched.map((e) => (
                 <li key={e.id}>
@@ -324,7 +468,13 @@ export default function CoachShop({ loaderData }: Route.ComponentProps) {
               <h2 className="font-semibold">Sales</h2>
               <span className="num text-sm">Paid: {totals.length ? totals.join(" · ") : "—"}</span>
             </div>
-            <DataTable data={sales} columns={SALES_COLUMNS} caption="Orders of your plans" empty="No orders yet." initialSort={SORT} />
+            <DataTable
+              data={sales}
+              columns={SALES_COLUMNS}
+              caption="Orders of your plans"
+              empty="No orders yet."
+              initialSort={SORT}
+            />
           </div>
         </div>
       </div>

@@ -40,7 +40,13 @@ export default function DevMail({ loaderData }: Route.ComponentProps) {
         <label className="sr-only" htmlFor="to">
           Filter by recipient
         </label>
-        <input id="to" name="to" defaultValue={to} placeholder="recipient@example.com" className="flex-1 rounded-lg border border-line bg-white px-3 py-2" />
+        <input
+          id="to"
+          name="to"
+          defaultValue={to}
+          placeholder="recipient@example.com"
+          className="flex-1 rounded-lg border border-line bg-white px-3 py-2"
+        />
         <button className="rounded-lg bg-teal px-4 py-2 text-paper">Filter</button>
       </form>
       {messages.length === 0 ? (

@@ -20,7 +20,10 @@ export default function Shop({ loaderData }: Route.ComponentProps) {
   const navigation = useNavigation();
   return (
     <div>
-      <PageHeader title="Plan shop" lead="Season plans from coaches, written in percent of threshold: they fit your numbers from day one." />
+      <PageHeader
+        title="Plan shop"
+        lead="Season plans from coaches, written in percent of threshold: they fit your numbers from day one."
+      />
       <Form
         method="get"
         role="search"
@@ -31,7 +34,11 @@ export default function Shop({ loaderData }: Route.ComponentProps) {
       >
         <label className="flex flex-col gap-1">
           <span className="font-medium">Sport</span>
-          <select name="sport" defaultValue={filter.sport ?? ""} className="rounded-lg border border-line bg-white px-3 py-2">
+          <select
+            name="sport"
+            defaultValue={filter.sport ?? ""}
+            className="rounded-lg border border-line bg-white px-3 py-2"
+          >
             <option value="">All</option>
             <option value="bike">Bike</option>
             <option value="run">Run</option>
@@ -41,16 +48,32 @@ export default function Shop({ loaderData }: Route.ComponentProps) {
         </label>
         <label className="flex flex-col gap-1">
           <span className="font-medium">At most weeks</span>
-          <input name="maxWeeks" type="number" min={1} max={104} defaultValue={filter.maxWeeks ?? ""} className="w-28 rounded-lg border border-line px-3 py-2" />
+          <input
+            name="maxWeeks"
+            type="number"
+            min={1}
+            max={104}
+            defaultValue={filter.maxWeeks ?? ""}
+            className="w-28 rounded-lg border border-line px-3 py-2"
+          />
         </label>
         <label className="flex flex-col gap-1">
           <span className="font-medium">At most hours a week</span>
-          <input name="maxHours" type="number" min={1} max={40} defaultValue={filter.maxHours ?? ""} className="w-28 rounded-lg border border-line px-3 py-2" />
+          <input
+            name="maxHours"
+            type="number"
+            min={1}
+            max={40}
+            defaultValue={filter.maxHours ?? ""}
+            className="w-28 rounded-lg border border-line px-3 py-2"
+          />
         </label>
         <button type="submit" className={buttonClass("secondary", "py-2")}>
           Show plans
         </button>
-        {navigation.state === "loading" && navigation.location.pathname === "/shop" && <span className="text-ink-soft">Loading…</span>}
+        {navigation.state === "loading" && navigation.location.pathname === "/shop" && (
+          <span className="text-ink-soft">Loading…</span>
+        )}
       </Form>
       {listings.length === 0 ? (
         <Card>
@@ -60,7 +83,10 @@ export default function Shop({ loaderData }: Route.ComponentProps) {
         <ul className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3" aria-label="Plans for sale">
           {listings.map((l) => (
             <li key={l.id}>
-              <Link to={`/shop/${l.slug}`} className="block h-full rounded-xl border border-line bg-white p-4 shadow-sm hover:border-teal">
+              <Link
+                to={`/shop/${l.slug}`}
+                className="block h-full rounded-xl border border-line bg-white p-4 shadow-sm hover:border-teal"
+              >
                 <h2 className="font-semibold">{l.title}</h2>
                 {l.coverText && <p className="mt-0.5 text-sm font-medium text-teal-dark">{l.coverText}</p>}
                 <p className="num mt-1 text-sm text-ink-soft">

@@ -19,7 +19,9 @@ import { describeBlock } from "~/lib/sessions";
 import { blockDuration, type Block } from "~/lib/training";
 import type { Route } from "./+types/listing";
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.listing.title ?? "Plan"} · Plan shop · Pacewright` }];
+export const meta: Route.MetaFunction = ({ data }) => [
+  { title: `${data?.listing.title ?? "Plan"} · Plan shop · Pacewright` },
+];
 
 // Public page; a signed-in coach may also preview their own unpublished listing.
 export async function loader({ request, params }: Route.LoaderArgs) {
@@ -32,13 +34,29 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const samples = items
     .filter((i) => !seen.has(i.name) && seen.add(i.name))
     .slice(0, 4)
-    .map((i) => ({ name: i.name, durationS: (i.blocks as Block[]).reduce((s, b) => s + blockDuration(b), 0), lines: (i.blocks as Block[]).map(describeBlock) }));
+    .map((i) => ({
+      name: i.name,
+      durationS: (i.blocks as Block[]).reduce((s, b) => s + blockDuration(b), 0),
+      lines: (i.blocks as Block[]).map(describeBlock),
+    }));
   const coach = await User.findByPk(listing.coachId);
   const today = todayIn(viewer?.timezone ?? "UTC");
   const placement = viewer?.role === "athlete" ? await placementContext(viewer.id, listing.planId, today) : null;
   return {
     placement,
-    listing: { slug: listing.slug, title: listing.title, coverText: listing.coverText, description: listing.description, sport: listing.sport, level: listing.level, weeks: listing.weeks, weeklyHours: listing.weeklyHours, price: formatPrice(listing.priceCents, listing.currency), published: listing.published, coach: coach?.name ?? "" },
+    listing: {
+      slug: listing.slug,
+      title: listing.title,
+      coverText: listing.coverText,
+      description: listing.description,
+      sport: listing.sport,
+      level: listing.level,
+      weeks: listing.weeks,
+      weeklyHours: listing.weeklyHours,
+      price: formatPrice(listing.priceCents, listing.currency),
+      published: listing.published,
+      coach: coach?.name ?? "",
+    },
     ribbon: weeks.map((w) => ({ idx: w.idx, phase: w.phase, recovery: w.recovery, test: w.test })),
     samples,
     viewer: viewer ? { role: viewer.role, name: viewer.name } : null,
@@ -63,7 +81,13 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (buyer.role === "athlete") {
     const { current } = await placementContext(buyer.id, listing.planId, todayIn(buyer.timezone));
     const clash = overlapping(current, spanOf(align.mode, align.date, listing.weeks));
-    if (clash.length && !parsed.data.placement) return data({ error: `These dates overlap ${clash.map((c) => `“${c.name}” (${c.from} to ${c.to})`).join(", ")}. Choose to start after it or to place the plan alongside.` }, { status: 400 });
+    if (clash.length && !parsed.data.placement)
+      return data(
+        {
+          error: `These dates overlap ${clash.map((c) => `“${c.name}” (${c.from} to ${c.to})`).join(", ")}. Choose to start after it or to place the plan alongside.`,
+        },
+        { status: 400 },
+      );
     if (clash.length && parsed.data.placement === "after") align = { mode: "start", date: firstMondayAfter(clash) };
   }
   try {
@@ -108,11 +132,14 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
           </Card>
           <Card>
             <h2 className="font-semibold">Sample sessions</h2>
-            <p className="text-xs text-ink-soft">Targets are percentages of threshold; after you buy, you see your own watts, bpm and paces.</p>
+            <p className="text-xs text-ink-soft">
+              Targets are percentages of threshold; after you buy, you see your own watts, bpm and paces.
+            </p>
             <ul className="mt-3 flex flex-col gap-3 text-sm">
               {samples.map((s) => (
                 <li key={s.name}>
-                  <span className="font-medium">{s.name}</span> <span className="num text-ink-soft">{formatMinutes(s.durationS)}</span>
+                  <span className="font-medium">{s.name}</span>{" "}
+                  <span className="num text-ink-soft">{formatMinutes(s.durationS)}</span>
                   <ul className="num ml-4 list-disc text-ink-soft">
                     {s.lines.map((l, i) => (
                       <li key={i}>{l}</li>
@@ -135,19 +162,48 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
               <fieldset className="flex flex-col gap-1">
                 <legend className="font-medium">Line the plan up</legend>
                 <label className="flex items-center gap-2">
-                  <input type="radio" name="mode" value="start" checked={mode === "start"} onChange={() => setMode("start")} /> start on the Monday on or after
+                  <input
+                    type="radio"
+                    name="mode"
+                    value="start"
+                    checked={mode === "start"}
+                    onChange={() => setMode("start")}
+                  />{" "}
+                  start on the Monday on or after
                 </label>
                 <label className="flex items-center gap-2">
-                  <input type="radio" name="mode" value="event" checked={mode === "event"} onChange={() => setMode("event")} /> end in the week of my event
+                  <input
+                    type="radio"
+                    name="mode"
+                    value="event"
+                    checked={mode === "event"}
+                    onChange={() => setMode("event")}
+                  />{" "}
+                  end in the week of my event
                 </label>
               </fieldset>
-              <Field label={mode === "start" ? "Start date" : "Event date"} name="date" type="date" value={date} onChange={(e) => setDate(e.target.value)} min={today} required />
-              {span && <p className="num text-xs text-ink-soft">Week 1 starts Monday {span.from}; the last week ends {span.to}.</p>}
+              <Field
+                label={mode === "start" ? "Start date" : "Event date"}
+                name="date"
+                type="date"
+                value={date}
+                onChange={(e) => setDate(e.target.value)}
+                min={today}
+                required
+              />
+              {span && (
+                <p className="num text-xs text-ink-soft">
+                  Week 1 starts Monday {span.from}; the last week ends {span.to}.
+                </p>
+              )}
               <Consequences placement={placement} clash={clash} />
               <button type="submit" className={buttonClass("primary", "py-2.5")} disabled={busy}>
                 {busy ? "Opening checkout…" : `Buy for ${listing.price}`}
               </button>
-              <p className="text-xs text-ink-soft">You pay on the payment provider's page; the plan lands on your calendar as soon as the payment is confirmed.</p>
+              <p className="text-xs text-ink-soft">
+                You pay on the payment provider's page; the plan lands on your calendar as soon as the payment is
+                confirmed.
+              </p>
             </Form>
           ) : viewer ? (
             <p className="mt-4 text-sm text-ink-soft">Plans are bought with an athlete account.</p>
@@ -168,29 +224,43 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
 }
 
 /** What buying will do to this athlete's calendar, shown before any money moves. */
-function Consequences({ placement, clash }: { placement: { current: PlanSpan[]; missingThresholds: { sport: string; sessions: number }[] } | null; clash: PlanSpan[] }) {
+function Consequences({
+  placement,
+  clash,
+}: {
+  placement: { current: PlanSpan[]; missingThresholds: { sport: string; sessions: number }[] } | null;
+  clash: PlanSpan[];
+}) {
   if (!placement) return null;
   return (
     <>
       {placement.missingThresholds.map((m) => (
-        <div key={m.sport} className="rounded-lg border border-brick/40 bg-brick/5 p-3 text-xs" data-testid="needs-test-warning">
-          You have no {m.sport} threshold yet, so {m.sessions} session{m.sessions === 1 ? "" : "s"} will say “needs a field test” and show percentages until you do one; week 1 starts with a field test.{" "}
+        <div
+          key={m.sport}
+          className="rounded-lg border border-brick/40 bg-brick/5 p-3 text-xs"
+          data-testid="needs-test-warning"
+        >
+          You have no {m.sport} threshold yet, so {m.sessions} session{m.sessions === 1 ? "" : "s"} will say “needs a
+          field test” and show percentages until you do one; week 1 starts with a field test.{" "}
           <Link to="/athlete/tests/new" className="text-teal underline">
             Enter a test result first
           </Link>
         </div>
       ))}
       {clash.length > 0 && (
-        <fieldset className="flex flex-col gap-1 rounded-lg border border-brick/40 bg-brick/5 p-3 text-xs" data-testid="overlap-warning">
+        <fieldset
+          className="flex flex-col gap-1 rounded-lg border border-brick/40 bg-brick/5 p-3 text-xs"
+          data-testid="overlap-warning"
+        >
           <legend className="px-1 font-medium">These dates overlap your current plan</legend>
-          <p>
-            {clash.map((c) => `“${c.name}” runs ${c.from} to ${c.to}`).join("; ")}. Choose one:
-          </p>
+          <p>{clash.map((c) => `“${c.name}” runs ${c.from} to ${c.to}`).join("; ")}. Choose one:</p>
           <label className="flex items-center gap-2">
-            <input type="radio" name="placement" value="after" required /> start after it ends (Monday {firstMondayAfter(clash)})
+            <input type="radio" name="placement" value="after" required /> start after it ends (Monday{" "}
+            {firstMondayAfter(clash)})
           </label>
           <label className="flex items-center gap-2">
-            <input type="radio" name="placement" value="alongside" required /> place it alongside (both plans on the same days)
+            <input type="radio" name="placement" value="alongside" required /> place it alongside (both plans on the
+            same days)
           </label>
         </fieldset>
       )}

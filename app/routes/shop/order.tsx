@@ -18,7 +18,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   // This is the buyer's page; the seller follows the order in the shop's sales list.
   if (as !== "buyer") notFound("No such order.");
   const assignment = order.assignmentId ? await Assignment.findByPk(order.assignmentId) : null;
-  return { order: { id: order.id, status: order.status, amount: formatPrice(order.paidCents ?? order.amountCents, order.paidCurrency ?? order.currency), refunded: order.refundedCents ? formatPrice(order.refundedCents, order.paidCurrency ?? order.currency) : null, title: listing?.title ?? "", slug: listing?.slug ?? "", start: assignment?.startDate ?? null, reason: order.status === "needs_review" ? order.reviewReason : null } };
+  return {
+    order: {
+      id: order.id,
+      status: order.status,
+      amount: formatPrice(order.paidCents ?? order.amountCents, order.paidCurrency ?? order.currency),
+      refunded: order.refundedCents ? formatPrice(order.refundedCents, order.paidCurrency ?? order.currency) : null,
+      title: listing?.title ?? "",
+      slug: listing?.slug ?? "",
+      start: assignment?.startDate ?? null,
+      reason: order.status === "needs_review" ? order.reviewReason : null,
+    },
+  };
 }
 
 const MESSAGES: Record<string, string> = {
@@ -27,7 +38,8 @@ const MESSAGES: Record<string, string> = {
   expired: "The checkout was cancelled or ran out of time. Nothing was charged and no sessions were added.",
   declined: "The card was declined. Nothing was charged and no sessions were added; you can try another card.",
   refunded: "This order was refunded; its upcoming sessions were taken off your calendar.",
-  needs_review: "Something about this payment needs a person to check it. Your coach has been told and will either deliver the plan or refund you; nothing is lost.",
+  needs_review:
+    "Something about this payment needs a person to check it. Your coach has been told and will either deliver the plan or refund you; nothing is lost.",
 };
 
 export default function OrderPage({ loaderData }: Route.ComponentProps) {
@@ -53,7 +65,9 @@ export default function OrderPage({ loaderData }: Route.ComponentProps) {
           {order.title} · {order.amount}
         </p>
         <div className="mt-4" data-testid="order-status" data-status={order.status}>
-          <FormMessage tone={order.status === "fulfilled" || order.status === "created" ? "ok" : "error"}>{MESSAGES[order.status] ?? order.status}</FormMessage>
+          <FormMessage tone={order.status === "fulfilled" || order.status === "created" ? "ok" : "error"}>
+            {MESSAGES[order.status] ?? order.status}
+          </FormMessage>
           {order.reason && <p className="mt-2 text-sm text-ink-soft">What we saw: {order.reason}</p>}
           {order.refunded && <p className="num mt-2 text-sm text-ink-soft">Refunded: {order.refunded}</p>}
         </div>
