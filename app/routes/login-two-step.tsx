@@ -55,11 +55,11 @@ export default function TwoStep({ actionData }: Route.ComponentProps) {
     >
       <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-4" noValidate>
         {form.errors?.[0] && <FormMessage>{form.errors[0]}</FormMessage>}
-        {/* eslint-disable-next-line jsx-a11y/no-autofocus -- this page has one field, the code the person came to type */}
         <Field
           label="Code"
           inputMode="text"
           autoComplete="one-time-code"
+          // eslint-disable-next-line jsx-a11y/no-autofocus -- this page has one field, the code the person came to type
           autoFocus
           required
           hint="Lost your phone? Enter one of your recovery codes instead (each works once)."
