@@ -44,7 +44,7 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await create.getByRole("button", { name: "Create listing" }).click();
     await coach.getByText(/Listed “Spring build for sale”/).waitFor();
     const row = coach.getByTestId("listing-row").filter({ hasText: "Spring build for sale" });
-    await row.getByRole("button", { name: "Publish" }).click();
+    await row.getByRole("button", { name: "Publish", exact: true }).click();
     await coach.getByText("Published: it is in the shop.").waitFor();
 
     const actx = await env.browser.newContext({ viewport: { width: 390, height: 844 } });
@@ -72,7 +72,7 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await athlete.getByLabel("Card number").fill("4242 4242 4242 4242");
     await athlete.getByRole("button", { name: /^Pay/ }).click();
     await athlete.waitForURL(/\/shop\/orders\/\d+/);
-    await athlete.locator("[data-testid=order-status][data-status=fulfilled]").waitFor();
+    await athlete.locator("[data-testid=order-status][data-status=fulfilled][data-placed=yes]").waitFor();
     await shot(athlete, "order-fulfilled-phone");
     await athlete.getByRole("link", { name: "Open my calendar" }).click();
     await athlete.waitForURL(/\/athlete\/calendar/);
@@ -175,7 +175,7 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await coach.getByText("Nothing waiting: every payment event matched its order.").waitFor();
     await coach.getByRole("row").filter({ hasText: "Tomás Reyes" }).locator("[data-status=fulfilled]").waitFor();
     await page.reload();
-    await page.locator("[data-testid=order-status][data-status=fulfilled]").waitFor();
+    await page.locator("[data-testid=order-status][data-status=fulfilled][data-placed=yes]").waitFor();
     await cctx.close();
     await ctx.close();
   });
@@ -207,7 +207,7 @@ describe.skipIf(!enabled)("plan shop in the browser", () => {
     await page.getByLabel("Card number").fill("4242 4242 4242 4242");
     await page.getByRole("button", { name: /^Pay/ }).click();
     await page.waitForURL(new RegExp(`^${other.replace(/[.]/g, "\\.")}/shop/orders/\\d+`));
-    await page.locator("[data-testid=order-status][data-status=fulfilled]").waitFor();
+    await page.locator("[data-testid=order-status][data-status=fulfilled][data-placed=yes]").waitFor();
     await page.getByRole("button", { name: "Sign out" }).waitFor();
     await ctx.close();
   });

@@ -1,5 +1,5 @@
 import { useEffect } from "react";
-import { Link, useFetcher } from "react-router";
+import { Link, useRevalidator } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
@@ -43,14 +43,17 @@ const MESSAGES: Record<string, string> = {
 };
 
 export default function OrderPage({ loaderData }: Route.ComponentProps) {
-  // The status is followed through a fetcher until the webhook has settled the order.
-  const fetcher = useFetcher<typeof loader>();
-  const order = fetcher.data?.order ?? loaderData.order;
+  const { order } = loaderData;
+  // Paid, but the plan is placed just after the payment (a background job): until then it is not on the calendar.
+  const placing = order.status === "fulfilled" && !order.start;
+  // The page asks its loader again until the provider has settled the order and the plan is placed.
+  const { revalidate } = useRevalidator();
+  const waiting = order.status === "created" || placing;
   useEffect(() => {
-    if (order.status !== "created") return;
-    const t = setInterval(() => fetcher.load(`/shop/orders/${order.id}`), 1500);
+    if (!waiting) return;
+    const t = setInterval(revalidate, 1500);
     return () => clearInterval(t);
-  }, [order.status, order.id]); // eslint-disable-line react-hooks/exhaustive-deps
+  }, [waiting, revalidate]);
   return (
     <div className="mx-auto max-w-xl">
       <p className="mb-2 text-sm">
@@ -64,14 +67,19 @@ export default function OrderPage({ loaderData }: Route.ComponentProps) {
         <p className="num mt-1 text-ink-soft">
           {order.title} · {order.amount}
         </p>
-        <div className="mt-4" data-testid="order-status" data-status={order.status}>
+        <div
+          className="mt-4"
+          data-testid="order-status"
+          data-status={order.status}
+          data-placed={order.start ? "yes" : "no"}
+        >
           <FormMessage tone={order.status === "fulfilled" || order.status === "created" ? "ok" : "error"}>
-            {MESSAGES[order.status] ?? order.status}
+            {placing ? "Paid. Putting the plan on your calendar…" : (MESSAGES[order.status] ?? order.status)}
           </FormMessage>
           {order.reason && <p className="mt-2 text-sm text-ink-soft">What we saw: {order.reason}</p>}
           {order.refunded && <p className="num mt-2 text-sm text-ink-soft">Refunded: {order.refunded}</p>}
         </div>
-        {order.status === "fulfilled" && (
+        {order.status === "fulfilled" && order.start && (
           <p className="mt-4 text-sm">
             Week 1 starts on Monday {order.start}.{" "}
             <Link to="/athlete/calendar" className={buttonClass("primary", "mt-3")}>
