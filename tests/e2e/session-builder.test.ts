@@ -20,7 +20,8 @@ describe.skipIf(!enabled)("session builder blocks", () => {
     await page.waitForURL(/\/coach\/sessions\/\d+$/);
     await ready(page);
     const kinds = () => page.getByTestId("block").evaluateAll((els) => els.map((e) => e.getAttribute("data-kind")));
-    expect(await kinds()).toEqual(["warmup", "repeats", "cooldown"]);
+    // The URL changes before React has drawn the new page (router updates render in a transition): wait for it.
+    await expect.poll(kinds).toEqual(["warmup", "repeats", "cooldown"]);
 
     await page.getByTestId("block").nth(2).scrollIntoViewIfNeeded();
     const from = (await page.getByRole("button", { name: /^Move block 1,/ }).boundingBox())!;
