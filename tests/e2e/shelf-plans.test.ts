@@ -68,7 +68,16 @@ describe.skipIf(!enabled)("session shelf and season plans in the browser", () =>
     await page.getByLabel("Search").fill("keyboard");
     await expect.poll(() => page.locator("ul[aria-label=Sessions] > li").count()).toBe(1);
     await page.getByRole("link", { name: "Threshold 4 × 8 keyboard" }).waitFor();
-    expect(page.url()).toBe(`${env.app.baseUrl}/coach/sessions`); // filtered without a reload
+    // The filter lives in the URL (the history entry is replaced, not added), so a reload keeps it.
+    await page.waitForURL(`${env.app.baseUrl}/coach/sessions?q=keyboard`);
+    await page.getByLabel("Sport").selectOption("run");
+    await page.waitForURL(`${env.app.baseUrl}/coach/sessions?q=keyboard&sport=run`);
+    await page.getByText("No sessions match.").waitFor();
+    await page.reload();
+    await ready(page);
+    expect(await page.getByLabel("Search").inputValue()).toBe("keyboard");
+    await page.getByLabel("Sport").selectOption("");
+    await page.getByRole("link", { name: "Threshold 4 × 8 keyboard" }).waitFor();
     await shot(page, "shelf-search");
     await ctx.close();
   });

@@ -71,6 +71,33 @@ describe("session shelf", () => {
     expect(byTag.sessions).toEqual([]);
   });
 
+  it("the shelf page filters from its search params, keeps every tag on offer, and ignores unknown values", async () => {
+    const { cookie } = await coach();
+    for (const [name, sport, tags] of [
+      ["Tempo hills", "bike", ["build"]],
+      ["Easy spin", "bike", ["base"]],
+      ["Track 6 × 800", "run", ["build"]],
+    ] as const)
+      await run(
+        sessionEdit.action,
+        formRequest("/coach/sessions/new", { payload: JSON.stringify({ name, sport, tags, blocks }) }, { cookie }),
+      );
+    const page = async (query: string) =>
+      payloadOf(await run(shelf.loader, getRequest(`/coach/sessions${query}`, cookie)));
+    const names = (p: { sessions: { name: string }[] }) => p.sessions.map((s) => s.name);
+
+    const filtered = await page("?sport=bike&tag=build");
+    expect(names(filtered)).toEqual(["Tempo hills"]);
+    expect(filtered.filter).toMatchObject({ sport: "bike", tag: "build", sort: "name", archived: false });
+    // The tag choices are the whole shelf's, not only the shown sessions'.
+    expect(filtered.tags).toEqual(expect.arrayContaining(["base", "build"]));
+    expect(names(await page("?q=TRACK"))).toEqual(["Track 6 × 800"]);
+    // A hand-edited link shows the shelf instead of failing.
+    const odd = await page("?sport=kayak&sort=sideways&archived=yes");
+    expect(odd.filter).toMatchObject({ sport: undefined, sort: "name", archived: false });
+    expect(names(odd)).toEqual(expect.arrayContaining(["Easy spin", "Tempo hills", "Track 6 × 800"]));
+  });
+
   it("refuses invalid blocks field by field and saves nothing", async () => {
     const { user, cookie } = await coach();
     const before = await Session.count({ where: { ownerId: user.id } });

@@ -54,6 +54,12 @@ export type ShelfQuery = {
   archived?: boolean;
 };
 
+/** Every tag on the coach's shelf (archived sessions included), for the filter's choices whatever is shown. */
+export async function listShelfTags(ownerId: number): Promise<string[]> {
+  const rows = await Session.findAll({ where: { ownerId }, attributes: ["tags"] });
+  return Array.from(new Set(rows.flatMap((r) => r.tags))).sort();
+}
+
 export async function listSessions(ownerId: number, query: ShelfQuery = {}): Promise<SessionSummary[]> {
   const where: Record<string | symbol, unknown> = { ownerId, archived: query.archived ?? false };
   if (query.sport) where.sport = query.sport;

@@ -1,6 +1,6 @@
 import { requireRole } from "~/.server/auth";
 import { exportSessions, listSessions } from "~/.server/services/sessions";
-import { SPORTS } from "~/lib/sessions";
+import { shelfFilter } from "~/lib/shelf-filter";
 import type { Route } from "./+types/sessions";
 
 /** The coach's shelf as JSON, filtered in the query string; `?download=1` gives the export file. */
@@ -17,15 +17,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       },
     });
   }
-  const sport = url.searchParams.get("sport") ?? "";
-  const sort = url.searchParams.get("sort");
-  const sessions = await listSessions(coach.id, {
-    q: url.searchParams.get("q")?.trim().slice(0, 100) || undefined,
-    sport: (SPORTS as readonly string[]).includes(sport) ? sport : undefined,
-    tag: url.searchParams.get("tag")?.trim().slice(0, 30) || undefined,
-    sort: sort === "updated" || sort === "duration" ? sort : "name",
-    archived: url.searchParams.get("archived") === "1",
-  });
+  const sessions = await listSessions(coach.id, shelfFilter(url.searchParams));
   const tags = Array.from(new Set(sessions.flatMap((s) => s.tags))).sort();
   return Response.json({ sessions, tags }, { headers: { "Cache-Control": "private, no-store" } });
 }

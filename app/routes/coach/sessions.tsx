@@ -1,5 +1,5 @@
-import { useEffect, useMemo, useRef, useState } from "react";
-import { data, Link, useFetcher } from "react-router";
+import { useRef } from "react";
+import { data, Form, Link, useFetcher, useNavigation, useSubmit } from "react-router";
 import { SessionProfile } from "~/components/session-profile";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
@@ -10,20 +10,25 @@ import {
   duplicateSession,
   importSessions,
   listSessions,
+  listShelfTags,
   removeSession,
   setArchived,
   type SessionSummary,
 } from "~/.server/services/sessions";
 import { formatMinutes } from "~/lib/duration";
 import { SPORTS, SPORT_LABEL, type Sport } from "~/lib/sessions";
+import { shelfFilter, shelfSearch } from "~/lib/shelf-filter";
 import type { Route } from "./+types/sessions";
 
 export const meta: Route.MetaFunction = () => [{ title: "Session shelf · Pacewright" }];
 
+// The filters are search params: a filtered shelf survives a reload and can be bookmarked, and after a change
+// (import, duplicate, archive) the router's revalidation reads the same filtered list again.
 export async function loader({ request }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
-  const sessions = await listSessions(coach.id);
-  return { sessions, tags: Array.from(new Set(sessions.flatMap((s) => s.tags))).sort() };
+  const filter = shelfFilter(new URL(request.url).searchParams);
+  const [sessions, tags] = await Promise.all([listSessions(coach.id, filter), listShelfTags(coach.id)]);
+  return { filter, sessions, tags };
 }
 
 const MAX_IMPORT_BYTES = 1024 * 1024;
@@ -92,39 +97,22 @@ export async function action({ request }: Route.ActionArgs) {
   return data({ ok: false as const, message: "Unknown request.", details: [] as string[] }, { status: 400 });
 }
 
-type ShelfData = { sessions: SessionSummary[]; tags: string[] };
-
 export default function Shelf({ loaderData }: Route.ComponentProps) {
-  const [q, setQ] = useState("");
-  const [sport, setSport] = useState("");
-  const [tag, setTag] = useState("");
-  const [sort, setSort] = useState("name");
-  const [archived, setArchivedView] = useState(false);
-  const list = useFetcher<ShelfData>();
+  const { filter, sessions, tags } = loaderData;
   const act = useFetcher<typeof action>();
-  const query = useMemo(
-    () => new URLSearchParams({ q, sport, tag, sort, archived: archived ? "1" : "0" }).toString(),
-    [q, sport, tag, sort, archived],
-  );
-  const first = useRef(true);
-
-  // Filtering asks the JSON route, so the page never reloads; a short pause spares a request per keystroke.
-  useEffect(() => {
-    if (first.current) {
-      first.current = false;
-      return;
-    }
-    const t = setTimeout(() => list.load(`/api/sessions?${query}`), 200);
-    return () => clearTimeout(t);
-  }, [query]); // eslint-disable-line react-hooks/exhaustive-deps
-
-  // After a change (import, duplicate, archive) the list is fetched again with the same filters.
-  useEffect(() => {
-    if (act.state === "idle" && act.data?.ok) list.load(`/api/sessions?${query}`);
-  }, [act.state, act.data]); // eslint-disable-line react-hooks/exhaustive-deps
-
-  const shown = list.data ?? loaderData;
-  const tags = Array.from(new Set([...loaderData.tags, ...(list.data?.tags ?? [])])).sort();
+  const submit = useSubmit();
+  const navigation = useNavigation();
+  const loading = navigation.state === "loading" && navigation.location.pathname === "/coach/sessions";
+  const typing = useRef<ReturnType<typeof setTimeout>>(undefined);
+  // Each change applies at once, replacing the history entry; typing in the search box waits for a short pause so
+  // a word is one request, not one per key. Without JavaScript the button sends the form.
+  const apply = (form: HTMLFormElement, pause: number) => {
+    clearTimeout(typing.current);
+    typing.current = setTimeout(
+      () => submit(shelfSearch(new FormData(form)), { method: "get", replace: true, preventScrollReset: true }),
+      pause,
+    );
+  };
   return (
     <>
       <PageHeader
@@ -141,13 +129,25 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
           </>
         }
       />
-      <div className="mb-4 grid gap-3 rounded-xl border border-line bg-white p-4 sm:grid-cols-2 lg:grid-cols-[2fr_1fr_1fr_1fr_auto]">
+      <Form
+        method="get"
+        role="search"
+        aria-label="Filter sessions"
+        className="mb-4 grid gap-3 rounded-xl border border-line bg-white p-4 sm:grid-cols-2 lg:grid-cols-[2fr_1fr_1fr_1fr_auto_auto]"
+        onChange={(e) =>
+          apply(e.currentTarget, e.target instanceof HTMLInputElement && e.target.type === "search" ? 250 : 0)
+        }
+        onSubmit={(e) => {
+          e.preventDefault();
+          apply(e.currentTarget, 0);
+        }}
+      >
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Search</span>
           <input
             type="search"
-            value={q}
-            onChange={(e) => setQ(e.target.value)}
+            name="q"
+            defaultValue={filter.q ?? ""}
             placeholder="Name, description or tag"
             className="rounded-lg border border-line px-3 py-2"
           />
@@ -155,8 +155,8 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Sport</span>
           <select
-            value={sport}
-            onChange={(e) => setSport(e.target.value)}
+            name="sport"
+            defaultValue={filter.sport ?? ""}
             className="rounded-lg border border-line bg-white px-3 py-2"
           >
             <option value="">All sports</option>
@@ -170,8 +170,8 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Tag</span>
           <select
-            value={tag}
-            onChange={(e) => setTag(e.target.value)}
+            name="tag"
+            defaultValue={filter.tag ?? ""}
             className="rounded-lg border border-line bg-white px-3 py-2"
           >
             <option value="">All tags</option>
@@ -184,20 +184,19 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
         </label>
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Sort by</span>
-          <select
-            value={sort}
-            onChange={(e) => setSort(e.target.value)}
-            className="rounded-lg border border-line bg-white px-3 py-2"
-          >
+          <select name="sort" defaultValue={filter.sort} className="rounded-lg border border-line bg-white px-3 py-2">
             <option value="name">Name</option>
             <option value="updated">Last changed</option>
             <option value="duration">Duration</option>
           </select>
         </label>
         <label className="flex items-end gap-2 pb-2 text-sm">
-          <input type="checkbox" checked={archived} onChange={(e) => setArchivedView(e.target.checked)} /> Archived
+          <input type="checkbox" name="archived" value="1" defaultChecked={filter.archived} /> Archived
         </label>
-      </div>
+        <button type="submit" className={buttonClass("secondary", "self-end py-2")}>
+          Show
+        </button>
+      </Form>
       {act.data && (
         <div className="mb-4">
           <FormMessage tone={act.data.ok ? "ok" : "error"}>
@@ -213,18 +212,15 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
         </div>
       )}
       <p className="sr-only" role="status" aria-live="polite">
-        {list.state === "loading" ? "Loading sessions" : `${shown.sessions.length} sessions shown`}
+        {loading ? "Loading sessions" : `${sessions.length} sessions shown`}
       </p>
-      {shown.sessions.length === 0 ? (
+      {sessions.length === 0 ? (
         <Card>
           <p className="text-ink-soft">No sessions match. Change the filters or create a new session.</p>
         </Card>
       ) : (
-        <ul
-          className={`grid gap-4 sm:grid-cols-2 xl:grid-cols-3 ${list.state === "loading" ? "opacity-60" : ""}`}
-          aria-label="Sessions"
-        >
-          {shown.sessions.map((s) => (
+        <ul className={`grid gap-4 sm:grid-cols-2 xl:grid-cols-3 ${loading ? "opacity-60" : ""}`} aria-label="Sessions">
+          {sessions.map((s) => (
             <li key={s.id}>
               <SessionCard session={s} fetcher={act} />
             </li>
@@ -236,7 +232,9 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
   );
 }
 
-function SessionCard({ session: s, fetcher }: { session: SessionSummary; fetcher: ReturnType<typeof useFetcher> }) {
+type ShelfFetcher = ReturnType<typeof useFetcher<typeof action>>;
+
+function SessionCard({ session: s, fetcher }: { session: SessionSummary; fetcher: ShelfFetcher }) {
   return (
     <article className="flex h-full flex-col rounded-xl border border-line bg-white p-4 shadow-sm">
       <div className="flex items-start justify-between gap-2">
@@ -288,7 +286,7 @@ function SessionCard({ session: s, fetcher }: { session: SessionSummary; fetcher
   );
 }
 
-function ImportForm({ fetcher }: { fetcher: ReturnType<typeof useFetcher> }) {
+function ImportForm({ fetcher }: { fetcher: ShelfFetcher }) {
   return (
     <Card className="mt-8 max-w-xl">
       <h2 className="font-semibold">Import sessions</h2>
