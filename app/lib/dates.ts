@@ -1,4 +1,5 @@
 import { UTCDate } from "@date-fns/utc";
+import { dateFormat } from "~/lib/format";
 import {
   addDays as addDaysTo,
   addWeeks as addWeeksTo,
@@ -37,19 +38,8 @@ export const daysAgo = (n: number, now = new Date()) => subDaysFrom(now, n);
 export const daysApart = (a: string, b: string) => Math.abs(daysBetween(a, b));
 
 /** Today's date where the athlete lives. */
-// Building an Intl formatter costs far more than using one: one per time zone (or option set), kept.
-const dayFormats = new Map<string, Intl.DateTimeFormat>();
-function cachedFormat(key: string, make: () => Intl.DateTimeFormat) {
-  let f = dayFormats.get(key);
-  if (!f) dayFormats.set(key, (f = make()));
-  return f;
-}
-
 export function todayIn(timeZone: string, now = new Date()): string {
-  const parts = cachedFormat(
-    `today:${timeZone}`,
-    () => new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }),
-  ).formatToParts(now);
+  const parts = dateFormat({ timeZone, year: "numeric", month: "2-digit", day: "2-digit" }, "en-CA").formatToParts(now);
   const get = (t: string) => parts.find((p) => p.type === t)!.value;
   return `${get("year")}-${get("month")}-${get("day")}`;
 }
@@ -58,8 +48,5 @@ export function formatDay(
   iso: string,
   opts: Intl.DateTimeFormatOptions = { weekday: "short", day: "numeric", month: "short" },
 ) {
-  return cachedFormat(
-    `day:${JSON.stringify(opts)}`,
-    () => new Intl.DateTimeFormat("en-GB", { ...opts, timeZone: "UTC" }),
-  ).format(new Date(toMs(iso)));
+  return dateFormat({ ...opts, timeZone: "UTC" }).format(new Date(toMs(iso)));
 }

@@ -1,8 +1,9 @@
+import { numberFormat } from "~/lib/format";
 export const CURRENCIES = ["EUR", "USD", "GBP"] as const;
 export const LEVELS = ["beginner", "intermediate", "advanced"] as const;
 
 export const formatPrice = (cents: number, currency: string) =>
-  new Intl.NumberFormat("en-GB", { style: "currency", currency }).format(cents / 100);
+  numberFormat({ style: "currency", currency }).format(cents / 100);
 
 /** Price bounds, checked on the whole-cents value the provider is charged. */
 export const MIN_PRICE_CENTS = 50;

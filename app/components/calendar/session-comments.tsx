@@ -2,6 +2,7 @@ import { useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
+import { formatDateTime } from "~/lib/format";
 
 export interface CommentView {
   id: number;
@@ -36,14 +37,7 @@ export function SessionComments({
     setClearedFor(fetcher.data);
     setText("");
   }
-  const when = (iso: string) =>
-    new Intl.DateTimeFormat("en-GB", {
-      timeZone: timezone,
-      day: "numeric",
-      month: "short",
-      hour: "2-digit",
-      minute: "2-digit",
-    }).format(new Date(iso));
+  const when = (iso: string) => formatDateTime(iso, timezone);
   return (
     <Card aria-labelledby="comments-heading" className="mt-6">
       <h2 id="comments-heading" className="font-semibold">

@@ -5,6 +5,7 @@ import { CoachAthlete, User } from "~/.server/models";
 import { calendarRange } from "~/.server/services/calendar";
 import { addDays, todayIn } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
+import { formatLongDay } from "~/lib/format";
 import type { Route } from "./+types/today";
 
 export const meta: Route.MetaFunction = () => [{ title: "Today · Pacewright" }];
@@ -13,12 +14,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const athlete = await requireRole(request, "athlete");
   const links = await CoachAthlete.findAll({ where: { athleteId: athlete.id } });
   const coaches = links.length ? await User.findAll({ where: { id: links.map((l) => l.coachId) } }) : [];
-  const today = new Intl.DateTimeFormat("en-GB", {
-    weekday: "long",
-    day: "numeric",
-    month: "long",
-    timeZone: athlete.timezone,
-  }).format(new Date());
+  const today = formatLongDay(new Date(), athlete.timezone);
   const date = todayIn(athlete.timezone);
   const upcoming = await calendarRange(athlete.id, date, addDays(date, 6));
   return {
