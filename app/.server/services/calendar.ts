@@ -5,6 +5,7 @@ import { thresholdHistory } from "./thresholds";
 import { resolveSteps } from "./materialize";
 import { blockLines, keyTarget, type StepView } from "~/lib/schedule-text";
 import { DomainError } from "../errors";
+import type { CalendarEntry } from "~/lib/calendar-entry";
 
 export function stepView(b: ScheduledBlock): StepView {
   return {
@@ -26,22 +27,7 @@ export function stepView(b: ScheduledBlock): StepView {
   };
 }
 
-export interface CalendarEntry {
-  id: number;
-  date: string;
-  position: number;
-  timeOfDay: string | null;
-  name: string;
-  sport: string;
-  status: string;
-  testProtocol: string | null;
-  plannedDurationS: number;
-  plannedLoad: number;
-  effortScore: number | null;
-  keyTarget: string;
-  needsTest: boolean;
-  lines: string[];
-}
+export type { CalendarEntry };
 
 export async function calendarRange(athleteId: number, from: string, to: string): Promise<CalendarEntry[]> {
   const sessions = await ScheduledSession.findAll({

@@ -3,18 +3,7 @@ import { buttonClass } from "~/components/ui/button";
 import { addDays, daysBetween, formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { shiftMonth } from "~/lib/month";
-
-export interface MonthSession {
-  id: number;
-  date: string;
-  timeOfDay: string | null;
-  name: string;
-  status: string;
-  testProtocol: string | null;
-  plannedDurationS: number;
-  keyTarget: string;
-  lines: string[];
-}
+import type { CalendarEntry } from "~/lib/calendar-entry";
 
 const STATUS_WORD: Record<string, string> = { done: "done", skipped: "skipped" };
 
@@ -39,7 +28,7 @@ export function MonthCalendar({
   first: string;
   last: string;
   today: string;
-  sessions: MonthSession[];
+  sessions: CalendarEntry[];
   sessionHref: (id: number) => string;
   title: string;
 }) {

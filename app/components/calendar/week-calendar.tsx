@@ -16,21 +16,7 @@ import { Link, useFetcher, useNavigation } from "react-router";
 import { addDays, formatDay } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
 import { buttonClass } from "~/components/ui/button";
-
-export interface CalendarSession {
-  id: number;
-  date: string;
-  position: number;
-  timeOfDay: string | null;
-  name: string;
-  sport: string;
-  status: string;
-  testProtocol: string | null;
-  plannedDurationS: number;
-  keyTarget: string;
-  needsTest: boolean;
-  effortScore: number | null;
-}
+import type { CalendarEntry } from "~/lib/calendar-entry";
 
 const WEEKS_SHOWN = 2;
 
@@ -49,7 +35,7 @@ export function WeekCalendar({
   athleteId?: number;
   from: string;
   today: string;
-  sessions: CalendarSession[];
+  sessions: CalendarEntry[];
   sessionHref: (id: number) => string;
 }) {
   const [message, setMessage] = useState<{ tone: "ok" | "error"; text: string } | null>(null);
@@ -204,7 +190,7 @@ function Day({
   date: string;
   today: string;
   weekStart: boolean;
-  sessions: CalendarSession[];
+  sessions: CalendarEntry[];
   sessionHref: (id: number) => string;
 }) {
   const { setNodeRef, isOver } = useDroppable({ id: `day:${date}` });
@@ -244,7 +230,7 @@ function DayCell({
   isToday: boolean;
   date: string;
   today: string;
-  sessions: CalendarSession[];
+  sessions: CalendarEntry[];
   sessionHref: (id: number) => string;
 }) {
   return (
@@ -268,7 +254,7 @@ function DayCell({
   );
 }
 
-function SessionChip({ session: s, href }: { session: CalendarSession; href: string }) {
+function SessionChip({ session: s, href }: { session: CalendarEntry; href: string }) {
   const { attributes, listeners, setNodeRef, transform, isDragging } = useDraggable({
     id: `session:${s.id}`,
     disabled: s.status !== "planned",
