@@ -2,7 +2,7 @@ import { DataTypes, Model, type CreationOptional, type InferAttributes, type Inf
 import { db } from "../db";
 import { jsonColumn as json, timestamps as ts } from "./columns";
 
-export class SessionBlock extends Model<InferAttributes<SessionBlock>, InferCreationAttributes<SessionBlock>> {
+export class ShelfBlock extends Model<InferAttributes<ShelfBlock>, InferCreationAttributes<ShelfBlock>> {
   declare id: CreationOptional<number>;
   declare sessionId: number;
   declare position: number;
@@ -11,7 +11,7 @@ export class SessionBlock extends Model<InferAttributes<SessionBlock>, InferCrea
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
-SessionBlock.init(
+ShelfBlock.init(
   {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
     sessionId: { type: DataTypes.INTEGER, allowNull: false },

@@ -2,7 +2,7 @@ import { DataTypes, Model, type CreationOptional, type InferAttributes, type Inf
 import { db } from "../db";
 import { jsonColumn as json, timestamps as ts } from "./columns";
 
-export class Session extends Model<InferAttributes<Session>, InferCreationAttributes<Session>> {
+export class ShelfSession extends Model<InferAttributes<ShelfSession>, InferCreationAttributes<ShelfSession>> {
   declare id: CreationOptional<number>;
   declare ownerId: number;
   declare name: string;
@@ -14,7 +14,7 @@ export class Session extends Model<InferAttributes<Session>, InferCreationAttrib
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
-Session.init(
+ShelfSession.init(
   {
     id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
     ownerId: { type: DataTypes.INTEGER, allowNull: false },

@@ -6,7 +6,7 @@ import { queueEmail } from "../mail";
 import { AuthSession, CoachAthlete, Invitation, PasswordReset, User, type Role } from "../models";
 import { hashToken, looksLikeToken, newToken } from "../tokens";
 import { INVITE_DEAD, RESET_LINK_DEAD } from "~/lib/messages";
-import { copyStarterShelf } from "./sessions";
+import { copyStarterShelf } from "./shelf";
 import { DomainError } from "../errors";
 
 export const RESET_TTL_MS = 60 * 60 * 1000;

@@ -1,5 +1,5 @@
 import { requireRole } from "~/.server/auth";
-import { exportSessions, listSessions } from "~/.server/services/sessions";
+import { exportShelfSessions, listShelfSessions } from "~/.server/services/shelf";
 import { SPORTS } from "~/lib/sessions";
 import type { Route } from "./+types/sessions";
 
@@ -8,7 +8,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   const url = new URL(request.url);
   if (url.searchParams.get("download") === "1") {
-    const body = JSON.stringify(await exportSessions(coach.id), null, 2);
+    const body = JSON.stringify(await exportShelfSessions(coach.id), null, 2);
     return new Response(body, {
       headers: {
         "Content-Type": "application/json; charset=utf-8",
@@ -19,7 +19,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   }
   const sport = url.searchParams.get("sport") ?? "";
   const sort = url.searchParams.get("sort");
-  const sessions = await listSessions(coach.id, {
+  const sessions = await listShelfSessions(coach.id, {
     q: url.searchParams.get("q")?.trim().slice(0, 100) || undefined,
     sport: (SPORTS as readonly string[]).includes(sport) ? sport : undefined,
     tag: url.searchParams.get("tag")?.trim().slice(0, 30) || undefined,

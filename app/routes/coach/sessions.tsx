@@ -7,13 +7,13 @@ import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { pageFailure } from "~/.server/replies";
 import {
-  duplicateSession,
-  importSessions,
-  listSessions,
-  removeSession,
+  duplicateShelfSession,
+  importShelfSessions,
+  listShelfSessions,
+  removeShelfSession,
   setArchived,
-  type SessionSummary,
-} from "~/.server/services/sessions";
+  type ShelfSessionSummary,
+} from "~/.server/services/shelf";
 import { formatMinutes } from "~/lib/duration";
 import { SPORTS, SPORT_LABEL, type Sport } from "~/lib/sessions";
 import type { Route } from "./+types/sessions";
@@ -22,7 +22,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Session shelf · Pacewr
 
 export async function loader({ request }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
-  const sessions = await listSessions(coach.id);
+  const sessions = await listShelfSessions(coach.id);
   return { sessions, tags: Array.from(new Set(sessions.flatMap((s) => s.tags))).sort() };
 }
 
@@ -46,14 +46,14 @@ export async function action({ request }: Route.ActionArgs) {
         { status: 413 },
       );
     try {
-      const n = await importSessions(coach.id, await file.text());
+      const n = await importShelfSessions(coach.id, await file.text());
       return { ok: true as const, message: `Imported ${n} session${n === 1 ? "" : "s"}.`, details: [] as string[] };
     } catch (err) {
       return pageFailure(err, (e) => ({ ok: false as const, message: e.message, details: e.details ?? [] }));
     }
   }
   if (intent === "duplicate") {
-    const copy = await duplicateSession(coach.id, id);
+    const copy = await duplicateShelfSession(coach.id, id);
     if (!copy)
       return data(
         { ok: false as const, message: "That session is not on your shelf.", details: [] as string[] },
@@ -62,7 +62,7 @@ export async function action({ request }: Route.ActionArgs) {
     return { ok: true as const, message: `Made “${copy.name}”.`, details: [] as string[] };
   }
   if (intent === "remove") {
-    const result = await removeSession(coach.id, id);
+    const result = await removeShelfSession(coach.id, id);
     if (!result)
       return data(
         { ok: false as const, message: "That session is not on your shelf.", details: [] as string[] },
@@ -92,7 +92,7 @@ export async function action({ request }: Route.ActionArgs) {
   return data({ ok: false as const, message: "Unknown request.", details: [] as string[] }, { status: 400 });
 }
 
-type ShelfData = { sessions: SessionSummary[]; tags: string[] };
+type ShelfData = { sessions: ShelfSessionSummary[]; tags: string[] };
 
 export default function Shelf({ loaderData }: Route.ComponentProps) {
   const [q, setQ] = useState("");
@@ -236,7 +236,13 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
   );
 }
 
-function SessionCard({ session: s, fetcher }: { session: SessionSummary; fetcher: ReturnType<typeof useFetcher> }) {
+function SessionCard({
+  session: s,
+  fetcher,
+}: {
+  session: ShelfSessionSummary;
+  fetcher: ReturnType<typeof useFetcher>;
+}) {
   return (
     <article className="flex h-full flex-col rounded-xl border border-line bg-white p-4 shadow-sm">
       <div className="flex items-start justify-between gap-2">
