@@ -1,7 +1,7 @@
 // Code imports models from here, not from their files: associations, when a model needs one, are declared in this
 // file after every model is loaded, so no model file imports another and there are no import cycles.
 export { User, ROLES, publicUser, type Role, type PublicUser } from "./user";
-export { AuthSession } from "./sign-in-session";
+export { SignInSession } from "./sign-in-session";
 export { PasswordReset } from "./password-reset";
 export { RecoveryCode } from "./recovery-code";
 export { StudioSetting } from "./studio-setting";

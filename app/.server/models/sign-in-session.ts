@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes } from "sequelize";
 import { db } from "../db";
 
-export class AuthSession extends Model<InferAttributes<AuthSession>, InferCreationAttributes<AuthSession>> {
+export class SignInSession extends Model<InferAttributes<SignInSession>, InferCreationAttributes<SignInSession>> {
   declare id: string;
   declare userId: number;
   declare expiresAt: Date;
@@ -10,7 +10,7 @@ export class AuthSession extends Model<InferAttributes<AuthSession>, InferCreati
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 }
-AuthSession.init(
+SignInSession.init(
   {
     id: { type: DataTypes.STRING(64), primaryKey: true },
     userId: { type: DataTypes.INTEGER, allowNull: false },
