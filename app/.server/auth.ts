@@ -6,20 +6,20 @@ import { z } from "zod";
 import { writeTransaction } from "./db";
 import { env } from "./env";
 import { forbidden, requireSameOrigin } from "./http";
-import { AuthSession, User, type Role } from "./models";
+import { SignInSession, User, type Role } from "./models";
 import { clear, consume, giveBack } from "./security/rate-limits";
 import { hashToken, newToken } from "./tokens";
 import { DomainError } from "./errors";
 
 export const BCRYPT_COST = 11;
-const SESSION_DAYS = 30;
+const SIGN_IN_DAYS = 30;
 export const WRONG_CREDENTIALS = "That e-mail and password do not match an account.";
 
-export const sessionCookie = createCookie("pw_session", {
+export const signInCookie = createCookie("pw_session", {
   httpOnly: true,
   sameSite: "lax",
   path: "/",
-  maxAge: SESSION_DAYS * 24 * 3600,
+  maxAge: SIGN_IN_DAYS * 24 * 3600,
   get secrets() {
     return [env().sessionSecret];
   },
@@ -79,22 +79,22 @@ export async function guardSignIn(email: string, client: string) {
   };
 }
 
-/** Starts a new session row (a fresh id every sign-in) and returns the Set-Cookie header value. */
-export async function startSession(user: User, request: Request): Promise<string> {
+/** Starts a new sign-in session row (a fresh id every sign-in) and returns the Set-Cookie header value. */
+export async function startSignIn(user: User, request: Request): Promise<string> {
   const id = newToken();
-  await AuthSession.create({
+  await SignInSession.create({
     id: hashToken(id),
     userId: user.id,
-    expiresAt: new Date(Date.now() + SESSION_DAYS * 24 * 3600 * 1000),
+    expiresAt: new Date(Date.now() + SIGN_IN_DAYS * 24 * 3600 * 1000),
     userAgent: request.headers.get("user-agent")?.slice(0, 255) ?? null,
   });
-  return sessionCookie.serialize(id, { secure: secureCookies() });
+  return signInCookie.serialize(id, { secure: secureCookies() });
 }
 
-async function sessionIdFrom(request: Request): Promise<string | null> {
-  const value = await sessionCookie.parse(request.headers.get("cookie"));
+async function signInIdFrom(request: Request): Promise<string | null> {
+  const value = await signInCookie.parse(request.headers.get("cookie"));
   const id = typeof value === "string" && value.length > 0 ? value : null;
-  // Every use of the session cookie goes through here, so no write that relies on it can skip the origin check.
+  // Every use of the sign-in cookie goes through here, so no write that relies on it can skip the origin check.
   if (id) requireSameOrigin(request, env().appUrl);
   return id;
 }
@@ -102,22 +102,22 @@ async function sessionIdFrom(request: Request): Promise<string | null> {
 const SEEN_EVERY_MS = 5 * 60 * 1000;
 
 export async function getUser(request: Request): Promise<User | null> {
-  const id = await sessionIdFrom(request);
+  const id = await signInIdFrom(request);
   if (!id) return null;
-  const row = await AuthSession.findByPk(hashToken(id));
+  const row = await SignInSession.findByPk(hashToken(id));
   if (!row || row.expiresAt.getTime() <= Date.now()) return null;
   // For the devices list; written at most every few minutes so reads stay reads.
   if (!row.lastSeenAt || Date.now() - row.lastSeenAt.getTime() > SEEN_EVERY_MS) {
     await writeTransaction((transaction) =>
-      AuthSession.update({ lastSeenAt: new Date() }, { where: { id: row.id }, transaction }),
+      SignInSession.update({ lastSeenAt: new Date() }, { where: { id: row.id }, transaction }),
     );
   }
   return User.findByPk(row.userId);
 }
 
-/** The stored id (hash) of the session this request rides on, to tell "this device" apart. */
-export async function currentSessionKey(request: Request): Promise<string | null> {
-  const id = await sessionIdFrom(request);
+/** The stored id (hash) of the sign-in session this request rides on, to tell "this device" apart. */
+export async function currentSignInKey(request: Request): Promise<string | null> {
+  const id = await signInIdFrom(request);
   return id ? hashToken(id) : null;
 }
 
@@ -138,11 +138,11 @@ export async function requireRole(request: Request, role: Role | Role[]): Promis
   return user;
 }
 
-/** Deletes the session row, so a copy of the old cookie no longer signs anyone in. */
-export async function endSession(request: Request): Promise<string> {
-  const id = await sessionIdFrom(request);
-  if (id) await AuthSession.destroy({ where: { id: hashToken(id) } });
-  return sessionCookie.serialize("", { maxAge: 0, secure: secureCookies() });
+/** Deletes the sign-in session row, so a copy of the old cookie no longer signs anyone in. */
+export async function endSignIn(request: Request): Promise<string> {
+  const id = await signInIdFrom(request);
+  if (id) await SignInSession.destroy({ where: { id: hashToken(id) } });
+  return signInCookie.serialize("", { maxAge: 0, secure: secureCookies() });
 }
 
 export function homeFor(role: Role): string {
@@ -154,7 +154,7 @@ export const twoStepOn = (user: User) => Boolean(user.totpEnabledAt && user.totp
 
 /**
  * Between the password and the code: a short-lived signed cookie naming the account. It grants nothing by itself;
- * only a matching code turns it into a session.
+ * only a matching code turns it into a sign-in session.
  */
 export const pendingSignIn = createCookie("pw_two_step", {
   httpOnly: true,

@@ -3,7 +3,7 @@ import { AuthFrame } from "~/components/auth-frame";
 import { TimezoneSelect } from "~/components/timezone-select";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { getUser, startSession } from "~/.server/auth";
+import { getUser, startSignIn } from "~/.server/auth";
 import { formFailure } from "~/.server/replies";
 import { acceptInvitation, findInvitation } from "~/.server/services/accounts";
 import { INVITE_DEAD } from "~/lib/messages";
@@ -45,7 +45,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     if (submission.status !== "success") return refuse(submission);
     const athlete = await acceptInvitation(params.token, { signedIn, newAccount: submission.value });
     return redirectWithToast(request, "/athlete", JOINED, "ok", {
-      headers: { "Set-Cookie": await startSession(athlete, request) },
+      headers: { "Set-Cookie": await startSignIn(athlete, request) },
     });
   } catch (err) {
     return formFailure(err, submission);

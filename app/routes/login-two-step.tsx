@@ -2,7 +2,7 @@ import { Form, Link, redirect, useNavigation } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { startSession } from "~/.server/auth";
+import { startSignIn } from "~/.server/auth";
 import { clearPendingCookie, readPending } from "~/.server/auth";
 import { formFailure } from "~/.server/replies";
 import { consume } from "~/.server/security/rate-limits";
@@ -35,7 +35,7 @@ export async function action({ request }: Route.ActionArgs) {
     });
   }
   const headers = new Headers();
-  headers.append("Set-Cookie", await startSession(pending.user, request));
+  headers.append("Set-Cookie", await startSignIn(pending.user, request));
   headers.append("Set-Cookie", await clearPendingCookie());
   return redirect(pending.redirectTo, { headers });
 }

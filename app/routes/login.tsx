@@ -2,15 +2,7 @@ import { Form, Link, redirect, useNavigation, useSearchParams } from "react-rout
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import {
-  authenticator,
-  getUser,
-  guardSignIn,
-  homeFor,
-  pendingCookieFor,
-  startSession,
-  twoStepOn,
-} from "~/.server/auth";
+import { authenticator, getUser, guardSignIn, homeFor, pendingCookieFor, startSignIn, twoStepOn } from "~/.server/auth";
 import { formFailure } from "~/.server/replies";
 import { clientKey } from "~/.server/security/rate-limits";
 import { safeRedirect } from "~/.server/http";
@@ -36,7 +28,7 @@ export async function action({ request, context }: Route.ActionArgs) {
     // With two-step sign-in on, the password alone opens no session: the code page does.
     if (twoStepOn(user))
       return redirect("/login/two-step", { headers: { "Set-Cookie": await pendingCookieFor(user, to) } });
-    const cookie = await startSession(user, request);
+    const cookie = await startSignIn(user, request);
     return redirect(to, { headers: { "Set-Cookie": cookie } });
   } catch (err) {
     return formFailure(err, submission);

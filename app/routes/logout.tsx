@@ -1,9 +1,9 @@
 import { redirect } from "react-router";
-import { endSession } from "~/.server/auth";
+import { endSignIn } from "~/.server/auth";
 import type { Route } from "./+types/logout";
 
 export async function action({ request }: Route.ActionArgs) {
-  const cookie = await endSession(request);
+  const cookie = await endSignIn(request);
   return redirect("/login", { headers: { "Set-Cookie": cookie } });
 }
 

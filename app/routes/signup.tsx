@@ -3,7 +3,7 @@ import { AuthFrame } from "~/components/auth-frame";
 import { Field, FormMessage } from "~/components/ui/field";
 import { buttonClass } from "~/components/ui/button";
 import { TimezoneSelect } from "~/components/timezone-select";
-import { getUser, homeFor, startSession } from "~/.server/auth";
+import { getUser, homeFor, startSignIn } from "~/.server/auth";
 import { safeRedirect } from "~/.server/http";
 import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import { formFailure } from "~/.server/replies";
@@ -29,7 +29,7 @@ export async function action({ request, context }: Route.ActionArgs) {
   await consumeOr429(["signUpClient", clientKey(context)], ["signUpAddress", submission.value.email]);
   try {
     const user = await signUp(submission.value);
-    const cookie = await startSession(user, request);
+    const cookie = await startSignIn(user, request);
     return redirect(safeRedirect(form.get("redirectTo"), homeFor(user.role)), { headers: { "Set-Cookie": cookie } });
   } catch (err) {
     return formFailure(err, submission);

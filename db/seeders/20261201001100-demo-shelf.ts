@@ -1,6 +1,6 @@
 import { QueryTypes, type QueryInterface } from "sequelize";
 import { writeTransaction } from "../../app/.server/db";
-import { copyStarterShelf } from "../../app/.server/services/sessions";
+import { copyStarterShelf } from "../../app/.server/services/shelf";
 import { DEMO_ACCOUNTS } from "../demo/accounts";
 
 /** The demo coach's shelf: our starter sessions. */

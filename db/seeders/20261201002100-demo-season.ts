@@ -1,6 +1,6 @@
 import { QueryTypes, type QueryInterface } from "sequelize";
 import { writeTransaction } from "../../app/.server/db";
-import { ScheduledSession, Session, Threshold, User } from "../../app/.server/models";
+import { ScheduledSession, ShelfSession, Threshold, User } from "../../app/.server/models";
 import { applyBoardOp } from "../../app/.server/services/board";
 import { materialize } from "../../app/.server/services/materialize";
 import { createPlan, loadPlan } from "../../app/.server/services/plans";
@@ -51,7 +51,7 @@ export async function up({ context: qi }: { context: QueryInterface }) {
     pattern: "3:1",
     testEveryWeeks: 6,
   });
-  const shelf = new Map((await Session.findAll({ where: { ownerId: coach.id } })).map((s) => [s.name, s.id]));
+  const shelf = new Map((await ShelfSession.findAll({ where: { ownerId: coach.id } })).map((s) => [s.name, s.id]));
   const { weeks } = await loadPlan(coach.id, plan.id);
   for (const w of weeks) {
     const hard = w.phase === "base" ? "Heavy 2 × 20" : "Threshold repeats";

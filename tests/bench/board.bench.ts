@@ -6,8 +6,8 @@ import {
   PlanItem,
   PlanWeek,
   ScheduledBlock,
-  Session,
-  SessionBlock,
+  ShelfSession,
+  ShelfBlock,
   Threshold,
   User,
 } from "~/.server/models";
@@ -68,8 +68,8 @@ export async function run(): Promise<BenchFigure[]> {
     { kind: "open", durationS: 300, cue: "Spin" },
     { kind: "cooldown", durationS: 600, target: { metric: "power", lowPct: 45, highPct: 55 } },
   ] as Block[];
-  const session = await Session.create({ ownerId: coach.id, name: "Bench session", sport: "bike" });
-  await SessionBlock.bulkCreate(
+  const session = await ShelfSession.create({ ownerId: coach.id, name: "Bench session", sport: "bike" });
+  await ShelfBlock.bulkCreate(
     blocks.map((spec, position) => ({ sessionId: session.id, position, kind: spec.kind, spec })),
   );
   const plan = await createPlan(coach.id, {

@@ -20,7 +20,8 @@ async function measure() {
   await migrator().up();
   const { hashPassword } = await import("~/.server/auth");
   const { closeDb, writeTransaction } = await import("~/.server/db");
-  const { CoachAthlete, PlanItem, PlanWeek, Session, SessionBlock, Threshold, User } = await import("~/.server/models");
+  const { CoachAthlete, PlanItem, PlanWeek, ShelfSession, ShelfBlock, Threshold, User } =
+    await import("~/.server/models");
   const { createPlan } = await import("~/.server/services/plans");
   const { applyBoardOp } = await import("~/.server/services/board");
   const { materialize } = await import("~/.server/services/materialize");
@@ -49,8 +50,8 @@ async function measure() {
     effectiveFrom: "2026-01-01",
     source: "manual",
   });
-  const s = await Session.create({ ownerId: coach.id, name: "Bench", sport: "bike" });
-  await SessionBlock.bulkCreate(
+  const s = await ShelfSession.create({ ownerId: coach.id, name: "Bench", sport: "bike" });
+  await ShelfBlock.bulkCreate(
     [55, 75, 95, 105, 60, 50].map((pct, position) => ({
       sessionId: s.id,
       position,

@@ -2,7 +2,7 @@ import fs from "node:fs";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { createRequestHandler, type ServerBuild } from "react-router";
-import { startSession } from "~/.server/auth";
+import { startSignIn } from "~/.server/auth";
 import type { User } from "~/.server/models";
 import { buildIfNeeded } from "../../scripts/build-if-needed";
 
@@ -34,7 +34,7 @@ export const BASE = "http://localhost:3000";
 
 /** A signed-in GET of `url` for `user`, returning the status and the body as text. */
 export async function signedIn(user: User) {
-  const cookie = (await startSession(user, new Request(BASE))).split(";")[0];
+  const cookie = (await startSignIn(user, new Request(BASE))).split(";")[0];
   const get = async (url: string) => {
     const h = await pageHandler();
     if (!h) throw new Error("no build");

@@ -13,7 +13,7 @@ process.env.NODE_ENV ??= "production";
 delete process.env.DATABASE_URL;
 
 const { db } = await import("~/.server/db");
-const { startSession } = await import("~/.server/auth");
+const { startSignIn } = await import("~/.server/auth");
 const { User } = await import("~/.server/models");
 const { buildFeed } = await import("~/.server/services/feed");
 const { addDays, todayIn } = await import("~/lib/dates");
@@ -34,7 +34,7 @@ const [{ id: planId }] = await db().query<{ id: number }>("SELECT MIN(id) AS id 
   replacements: [coach.id],
   type: QueryTypes.SELECT,
 });
-const cookie = (await startSession(coach, new Request(BASE))).split(";")[0];
+const cookie = (await startSignIn(coach, new Request(BASE))).split(";")[0];
 const get = (path: string) => new Request(`${BASE}${path}`, { headers: { cookie } });
 const today = todayIn("UTC");
 const ctx = { context: {} as never };

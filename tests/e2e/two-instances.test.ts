@@ -98,7 +98,7 @@ describe.runIf(adminUrl !== "")("two instances on one PostgreSQL", () => {
     await migrator().up();
 
     const { hashPassword } = await import("~/.server/auth");
-    const { CoachAthlete, PlanItem, PlanWeek, ScheduledSession, Session, SessionBlock, Threshold, User } =
+    const { CoachAthlete, PlanItem, PlanWeek, ScheduledSession, ShelfSession, ShelfBlock, Threshold, User } =
       await import("~/.server/models");
     const { createPlan } = await import("~/.server/services/plans");
     const { applyBoardOp } = await import("~/.server/services/board");
@@ -123,8 +123,8 @@ describe.runIf(adminUrl !== "")("two instances on one PostgreSQL", () => {
       effectiveFrom: "2026-01-01",
       source: "manual",
     });
-    const s = await Session.create({ ownerId: coach.id, name: "Threshold", sport: "bike" });
-    await SessionBlock.bulkCreate([
+    const s = await ShelfSession.create({ ownerId: coach.id, name: "Threshold", sport: "bike" });
+    await ShelfBlock.bulkCreate([
       {
         sessionId: s.id,
         position: 0,

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { AuthSession, OutboundEmail, PasswordReset, User } from "~/.server/models";
+import { SignInSession, OutboundEmail, PasswordReset, User } from "~/.server/models";
 import { db } from "~/.server/db";
 import { WRONG_CREDENTIALS } from "~/.server/auth";
 import * as login from "~/routes/login";
@@ -146,7 +146,7 @@ describe("sign in and out", () => {
     expect(statusOf(await run(layout.loader, getRequest("/coach", cookie)))).toBe(200);
     const out = await run(logout.action, formRequest("/logout", {}, { cookie }));
     expect((out as Response).status).toBe(302);
-    expect(await AuthSession.count({ where: { userId: user.id } })).toBe(0);
+    expect(await SignInSession.count({ where: { userId: user.id } })).toBe(0);
     const again = await run(layout.loader, getRequest("/coach", cookie));
     expect(again).toBeInstanceOf(Response);
     expect((again as Response).headers.get("location")).toMatch(/^\/login\?redirectTo=/);
@@ -253,7 +253,7 @@ describe("password reset", () => {
       tone: "ok",
       message: "Your password was changed. Sign in with the new one.",
     });
-    expect(await AuthSession.count({ where: { userId: user.id } })).toBe(0);
+    expect(await SignInSession.count({ where: { userId: user.id } })).toBe(0);
     expect(statusOf(await run(layout.loader, getRequest("/athlete", session)))).toBe(302);
     await signIn(user.email, "brand-new-password");
 

@@ -6,8 +6,8 @@ import {
   ScheduledBlock,
   ScheduledSession,
   SeasonPlan,
-  Session,
-  SessionBlock,
+  ShelfSession,
+  ShelfBlock,
   Threshold,
 } from "~/.server/models";
 import { createPlan } from "~/.server/services/plans";
@@ -41,8 +41,8 @@ async function setup() {
   await PlanItem.destroy({ where: { planId: plan.id } });
   const weeks = await PlanWeek.findAll({ where: { planId: plan.id }, order: [["idx", "ASC"]] });
   const mk = async (name: string, blocks: unknown[]) => {
-    const s = await Session.create({ ownerId: coach.id, name, sport: "bike" });
-    await SessionBlock.bulkCreate(
+    const s = await ShelfSession.create({ ownerId: coach.id, name, sport: "bike" });
+    await ShelfBlock.bulkCreate(
       blocks.map((spec, position) => ({ sessionId: s.id, position, kind: (spec as { kind: string }).kind, spec })),
     );
     return s;
@@ -90,7 +90,7 @@ describe("plan board changes", () => {
     );
     expect(slot(r.body.items, w2, 1).map((i) => i.name)).toEqual(["HR steady", "Threshold 4 × 8"]);
     // The copy is a snapshot: editing the shelf session later does not change the plan.
-    await SessionBlock.update({ spec: { kind: "open", durationS: 60 } }, { where: { sessionId: hr.id } });
+    await ShelfBlock.update({ spec: { kind: "open", durationS: 60 } }, { where: { sessionId: hr.id } });
     const hrItem = r.body.items.find((i: { name: string }) => i.name === "HR steady");
     expect(hrItem.blocks[0].kind).toBe("steady");
 
@@ -277,8 +277,8 @@ describe("assignment and materialization", () => {
 
   it("resolves pace as the inverse: 110 % of 4:00/km is 3:38/km", async () => {
     const { coach, cookie, plan, weeks } = await setup();
-    const run5 = await Session.create({ ownerId: coach.id, name: "Run fast", sport: "run" });
-    await SessionBlock.create({
+    const run5 = await ShelfSession.create({ ownerId: coach.id, name: "Run fast", sport: "run" });
+    await ShelfBlock.create({
       sessionId: run5.id,
       position: 0,
       kind: "steady",

@@ -8,7 +8,7 @@ import { createPlan } from "~/.server/services/plans";
 import { moveSession } from "~/.server/services/calendar";
 import { rotateFeed, revokeFeed, FEED_RATE } from "~/.server/services/feed";
 import { saveTest } from "~/.server/services/field-tests";
-import { PlanItem, PlanWeek, Session, SessionBlock } from "~/.server/models";
+import { PlanItem, PlanWeek, ShelfSession, ShelfBlock } from "~/.server/models";
 import * as feed from "~/routes/feed";
 import * as feedPage from "~/routes/athlete/feed";
 import { addDays, mondayOf, todayIn } from "~/lib/dates";
@@ -29,8 +29,8 @@ async function scenario(timezone = "Europe/Berlin") {
     effectiveFrom: "2026-01-01",
     source: "manual",
   });
-  const s = await Session.create({ ownerId: coach.id, name: "Threshold; repeats, hard", sport: "bike" });
-  await SessionBlock.bulkCreate([
+  const s = await ShelfSession.create({ ownerId: coach.id, name: "Threshold; repeats, hard", sport: "bike" });
+  await ShelfBlock.bulkCreate([
     {
       sessionId: s.id,
       position: 0,

@@ -12,8 +12,8 @@ import {
   RescaleReport,
   ScheduledBlock,
   ScheduledSession,
-  Session,
-  SessionBlock,
+  ShelfSession,
+  ShelfBlock,
   Threshold,
   Upload,
 } from "~/.server/models";
@@ -76,8 +76,8 @@ async function scenario() {
     ]);
   }
   const mk = async (name: string, sport: string, blocks: unknown[]) => {
-    const s = await Session.create({ ownerId: coach.id, name, sport });
-    await SessionBlock.bulkCreate(
+    const s = await ShelfSession.create({ ownerId: coach.id, name, sport });
+    await ShelfBlock.bulkCreate(
       blocks.map((spec, position) => ({ sessionId: s.id, position, kind: (spec as { kind: string }).kind, spec })),
     );
     return s;

@@ -5,8 +5,8 @@ import {
   PlanItem,
   PlanWeek,
   ScheduledSession,
-  Session,
-  SessionBlock,
+  ShelfSession,
+  ShelfBlock,
   SessionComment,
   Threshold,
 } from "~/.server/models";
@@ -30,13 +30,13 @@ async function scenario() {
     effectiveFrom: "2026-01-01",
     source: "manual",
   });
-  const s = await Session.create({
+  const s = await ShelfSession.create({
     ownerId: coach.id,
     name: "Long steady",
     sport: "bike",
     description: "Flat route, keep it conversational.",
   });
-  await SessionBlock.create({
+  await ShelfBlock.create({
     sessionId: s.id,
     position: 0,
     kind: "steady",

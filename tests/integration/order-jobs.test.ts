@@ -10,8 +10,8 @@ import {
   OutboundEmail,
   PlanWeek,
   ScheduledSession,
-  Session,
-  SessionBlock,
+  ShelfSession,
+  ShelfBlock,
   Threshold,
 } from "~/.server/models";
 import { applyBoardOp } from "~/.server/services/board";
@@ -34,8 +34,8 @@ async function pendingOrder() {
     pattern: "3:1",
     testEveryWeeks: 6,
   });
-  const s = await Session.create({ ownerId: coach.id, name: "Steady", sport: "bike" });
-  await SessionBlock.create({
+  const s = await ShelfSession.create({ ownerId: coach.id, name: "Steady", sport: "bike" });
+  await ShelfBlock.create({
     sessionId: s.id,
     position: 0,
     kind: "steady",

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { Session } from "~/.server/models";
+import { ShelfSession } from "~/.server/models";
 import * as calendarApi from "~/routes/api/calendar";
 import * as items from "~/routes/api/plan-items";
 import * as preview from "~/routes/api/tests-preview";
@@ -41,7 +41,7 @@ describe("writes that rely on the session cookie", () => {
     const coach = await makeUser({ role: "coach" });
     const coachCookie = await signIn(coach.email);
     const cookie = await signIn((await makeUser({ role: "athlete" })).email);
-    const before = await Session.count();
+    const before = await ShelfSession.count();
     const json = JSON.stringify({ name: "Sneaky", sport: "bike", blocks: [] });
     for (const type of ["text/plain", "application/x-www-form-urlencoded", "multipart/form-data; boundary=x"]) {
       const res = (await run(
@@ -80,7 +80,7 @@ describe("writes that rely on the session cookie", () => {
         ),
       ).toBe(415);
     }
-    expect(await Session.count()).toBe(before);
+    expect(await ShelfSession.count()).toBe(before);
   });
 
   it("leave calendar-feed reads and sign-in without a cookie alone", async () => {

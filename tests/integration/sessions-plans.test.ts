@@ -1,6 +1,6 @@
 import fs from "node:fs";
 import { describe, expect, it } from "vitest";
-import { PlanItem, PlanWeek, SeasonPlan, Session, SessionBlock } from "~/.server/models";
+import { PlanItem, PlanWeek, SeasonPlan, ShelfSession, ShelfBlock } from "~/.server/models";
 import * as apiSessions from "~/routes/api/sessions";
 import * as shelf from "~/routes/coach/sessions";
 import * as sessionEdit from "~/routes/coach/session-edit";
@@ -43,7 +43,7 @@ describe("session shelf", () => {
     );
     expect(statusOf(created)).toBe(302);
     const id = Number((created as Response).headers.get("location")!.match(/sessions\/(\d+)/)![1]);
-    const session = await Session.findByPk(id);
+    const session = await ShelfSession.findByPk(id);
     expect(session).toMatchObject({ ownerId: user.id, name: "Sweet spot 3 × 12" });
     expect(session!.tags).toEqual(["build"]);
 
@@ -57,7 +57,7 @@ describe("session shelf", () => {
       ),
       { sessionId: String(id) },
     );
-    const stored = await SessionBlock.findAll({ where: { sessionId: id }, order: [["position", "ASC"]] });
+    const stored = await ShelfBlock.findAll({ where: { sessionId: id }, order: [["position", "ASC"]] });
     expect(stored.map((b) => b.kind)).toEqual(["cooldown", "warmup", "repeats"]);
     expect(stored.map((b) => b.position)).toEqual([0, 1, 2]);
 
@@ -100,7 +100,7 @@ describe("session shelf", () => {
 
   it("refuses invalid blocks field by field and saves nothing", async () => {
     const { user, cookie } = await coach();
-    const before = await Session.count({ where: { ownerId: user.id } });
+    const before = await ShelfSession.count({ where: { ownerId: user.id } });
     const bad = [
       { kind: "steady", durationS: 0, target: { metric: "power", lowPct: 400 } },
       {
@@ -124,7 +124,7 @@ describe("session shelf", () => {
     expect(errors["blocks.0.durationS"]).toMatch(/1 second and 12 hours/);
     expect(errors["blocks.0.target.lowPct"]).toMatch(/300/);
     expect(errors["blocks.1.count"]).toMatch(/1 to 50/);
-    expect(await Session.count({ where: { ownerId: user.id } })).toBe(before);
+    expect(await ShelfSession.count({ where: { ownerId: user.id } })).toBe(before);
   });
 
   it("new coaches start with the starter shelf; duplicate; archive instead of delete when in use", async () => {
@@ -155,7 +155,7 @@ describe("session shelf", () => {
       ).ok,
     ).toBe(true);
     const plan = await SeasonPlan.create({
-      ownerId: target.id ? (await Session.findByPk(target.id))!.ownerId : 0,
+      ownerId: target.id ? (await ShelfSession.findByPk(target.id))!.ownerId : 0,
       name: "P",
       sport: "bike",
       alignment: "start",
@@ -180,13 +180,13 @@ describe("session shelf", () => {
       formRequest("/coach/sessions", { intent: "remove", sessionId: String(target.id) }, { cookie }),
     );
     expect(payloadOf(removed).message).toMatch(/archived instead/);
-    expect((await Session.findByPk(target.id))!.archived).toBe(true);
-    const copy = (await Session.findOne({ where: { name: `${target.name} (copy)` } }))!;
+    expect((await ShelfSession.findByPk(target.id))!.archived).toBe(true);
+    const copy = (await ShelfSession.findOne({ where: { name: `${target.name} (copy)` } }))!;
     await run(
       shelf.action,
       formRequest("/coach/sessions", { intent: "remove", sessionId: String(copy.id) }, { cookie }),
     );
-    expect(await Session.findByPk(copy.id)).toBeNull();
+    expect(await ShelfSession.findByPk(copy.id)).toBeNull();
   });
 
   it("exports and imports the shelf; a malformed file changes nothing", async () => {
@@ -213,9 +213,9 @@ describe("session shelf", () => {
       ),
     );
     expect(payloadOf(ok).message).toBe("Imported 1 session.");
-    expect(await Session.count({ where: { ownerId: other.user.id, name: "Export me" } })).toBe(1);
+    expect(await ShelfSession.count({ where: { ownerId: other.user.id, name: "Export me" } })).toBe(1);
 
-    const before = await Session.count({ where: { ownerId: other.user.id } });
+    const before = await ShelfSession.count({ where: { ownerId: other.user.id } });
     const broken = JSON.parse(file);
     broken.sessions.push({
       name: "Bad",
@@ -243,7 +243,7 @@ describe("session shelf", () => {
       ),
     );
     expect(payloadOf(res).details.join(" ")).toMatch(/session 2: blocks.0.durationS/);
-    expect(await Session.count({ where: { ownerId: other.user.id } })).toBe(before);
+    expect(await ShelfSession.count({ where: { ownerId: other.user.id } })).toBe(before);
     expect(user.id).not.toBe(other.user.id);
   });
 
@@ -283,7 +283,7 @@ describe("session shelf", () => {
         ),
       ),
     ).toBe(404);
-    expect((await Session.findByPk(Number(id)))!.name).toBe("Private");
+    expect((await ShelfSession.findByPk(Number(id)))!.name).toBe("Private");
   });
 });
 
@@ -409,8 +409,8 @@ describe("season plans", () => {
 
   it("expands a recurring session with rrule across a month end, each occurrence its own item", async () => {
     const { user, cookie } = await coach();
-    const session = await Session.create({ ownerId: user.id, name: "Tempo", sport: "bike" });
-    await SessionBlock.create({
+    const session = await ShelfSession.create({ ownerId: user.id, name: "Tempo", sport: "bike" });
+    await ShelfBlock.create({
       sessionId: session.id,
       position: 0,
       kind: "steady",

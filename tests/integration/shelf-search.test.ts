@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { createSession, listSessions } from "~/.server/services/sessions";
+import { createShelfSession, listShelfSessions } from "~/.server/services/shelf";
 import { sessionSchema } from "~/lib/sessions";
 import { makeUser } from "./helpers";
 
@@ -15,9 +15,9 @@ describe("shelf search", () => {
       "tempoXlong",
       "Hills \\ flats",
     ]) {
-      await createSession(coach.id, sessionSchema.parse({ name, sport: "bike", blocks }));
+      await createShelfSession(coach.id, sessionSchema.parse({ name, sport: "bike", blocks }));
     }
-    const names = async (q: string) => (await listSessions(coach.id, { q })).map((s) => s.name);
+    const names = async (q: string) => (await listShelfSessions(coach.id, { q })).map((s) => s.name);
     expect(await names("%")).toEqual(["Over-unders at 105% and 95%"]);
     expect(await names("5% and")).toEqual(["Over-unders at 105% and 95%"]);
     expect(await names("_")).toEqual(["tempo_long"]);

@@ -13,8 +13,8 @@ import {
   PlanWeek,
   ScheduledBlock,
   ScheduledSession,
-  Session,
-  SessionBlock,
+  ShelfSession,
+  ShelfBlock,
   Threshold,
   type User,
 } from "~/.server/models";
@@ -99,8 +99,8 @@ async function shopScenario(price = "49.00") {
     pattern: "3:1",
     testEveryWeeks: 6,
   });
-  const s = await Session.create({ ownerId: coach.id, name: "Sweet spot", sport: "bike" });
-  await SessionBlock.create({
+  const s = await ShelfSession.create({ ownerId: coach.id, name: "Sweet spot", sport: "bike" });
+  await ShelfBlock.create({
     sessionId: s.id,
     position: 0,
     kind: "steady",

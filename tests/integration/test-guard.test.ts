@@ -8,8 +8,8 @@ import {
   PlanItem,
   PlanWeek,
   RescaleReport,
-  Session,
-  SessionBlock,
+  ShelfSession,
+  ShelfBlock,
   Threshold,
 } from "~/.server/models";
 import { rosterFor } from "~/.server/services/accounts";
@@ -59,8 +59,8 @@ async function scenario(opts: { power?: number | null; weightKg?: number } = {})
       effectiveFrom: "2026-01-01",
       source: "manual",
     });
-  const s = await Session.create({ ownerId: coach.id, name: "Threshold", sport: "bike" });
-  await SessionBlock.create({
+  const s = await ShelfSession.create({ ownerId: coach.id, name: "Threshold", sport: "bike" });
+  await ShelfBlock.create({
     sessionId: s.id,
     position: 0,
     kind: "steady",

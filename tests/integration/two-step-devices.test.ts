@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { AuthSession, RecoveryCode, User } from "~/.server/models";
+import { SignInSession, RecoveryCode, User } from "~/.server/models";
 import { totp } from "~/.server/security/totp";
 import { LIMITS } from "~/.server/security/rate-limits";
 import * as login from "~/routes/login";
@@ -66,13 +66,13 @@ describe("two-step sign-in", () => {
   it("enrols with a QR code, then asks for the code after the password; a code and a recovery code each work once", async () => {
     const coach = await makeUser({ role: "coach" });
     const { secret, recoveryCodes } = await enrol(coach.email);
-    const sessionsBefore = await AuthSession.count({ where: { userId: coach.id } });
+    const sessionsBefore = await SignInSession.count({ where: { userId: coach.id } });
 
     const first = await passwordStep(coach.email);
     expect(first.headers.get("location")).toBe("/login/two-step");
     const pending = cookieFrom(first);
     expect(pending).toMatch(/^pw_two_step=/);
-    expect(await AuthSession.count({ where: { userId: coach.id } })).toBe(sessionsBefore); // the password alone opened nothing
+    expect(await SignInSession.count({ where: { userId: coach.id } })).toBe(sessionsBefore); // the password alone opened nothing
 
     expect(statusOf(await secondStep(pending, "123456" === totp(secret).generate() ? "654321" : "123456"))).toBe(400);
     const code = totp(secret).generate();
@@ -217,7 +217,7 @@ describe("signed-in devices", () => {
       await run(security.action, formRequest("/account/security", { intent: "sign-out-others" }, { cookie: here })),
     );
     expect(res.message).toBe("Signed out 1 other device.");
-    expect(await AuthSession.count({ where: { userId: user.id } })).toBe(1);
+    expect(await SignInSession.count({ where: { userId: user.id } })).toBe(1);
     expect(statusOf(await run(layout.loader, getRequest("/athlete", here)))).toBe(200);
     expect(statusOf(await run(layout.loader, getRequest("/athlete", otherCookie)))).toBe(200);
   });

@@ -3,10 +3,10 @@ import { hashPassword } from "../auth";
 import { writeTransaction } from "../db";
 import { env } from "../env";
 import { queueEmail } from "../mail";
-import { AuthSession, CoachAthlete, Invitation, PasswordReset, User, type Role } from "../models";
+import { SignInSession, CoachAthlete, Invitation, PasswordReset, User, type Role } from "../models";
 import { hashToken, looksLikeToken, newToken } from "../tokens";
 import { INVITE_DEAD, RESET_LINK_DEAD } from "~/lib/messages";
-import { copyStarterShelf } from "./sessions";
+import { copyStarterShelf } from "./shelf";
 import { DomainError } from "../errors";
 
 export const RESET_TTL_MS = 60 * 60 * 1000;
@@ -87,7 +87,7 @@ export async function resetPassword(token: string | undefined, password: string)
     if (!user) throw new DomainError("invalid", RESET_LINK_DEAD);
     user.passwordHash = passwordHash;
     await user.save({ transaction });
-    await AuthSession.destroy({ where: { userId: user.id }, transaction });
+    await SignInSession.destroy({ where: { userId: user.id }, transaction });
     return user;
   });
 }

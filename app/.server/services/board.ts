@@ -6,7 +6,7 @@ import type { Block } from "~/lib/training";
 import { PlanItem, PlanWeek, SeasonPlan, type User } from "../models";
 import { bandSetFor } from "./bands";
 import { bumpVersion, itemView, requirePlan } from "./plans";
-import { getSession } from "./sessions";
+import { getShelfSession } from "./shelf";
 import { DomainError } from "../errors";
 
 const target = {
@@ -89,7 +89,7 @@ async function week(planId: number, weekId: number, transaction: Transaction) {
  * then the change with every touched day renumbered, then a new plan version. Returns the plan's items afterwards.
  */
 export async function applyBoardOp(ownerId: number, planId: number, op: BoardOp) {
-  const shelfSession = op.op === "copy" ? await getSession(ownerId, op.sessionId) : null;
+  const shelfSession = op.op === "copy" ? await getShelfSession(ownerId, op.sessionId) : null;
   if (op.op === "copy" && !shelfSession) throw new DomainError("not_found", "That session is not on your shelf.");
   return writeTransaction(async (transaction) => {
     // The plan row lock queues concurrent board changes to one plan on PostgreSQL, across instances; the version

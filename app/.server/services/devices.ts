@@ -1,6 +1,6 @@
 import { Op } from "sequelize";
 import { writeTransaction } from "../db";
-import { AuthSession, type User } from "../models";
+import { SignInSession, type User } from "../models";
 
 /** A short, human name for a browser from its user-agent string ("Firefox on Android"). */
 export function deviceLabel(userAgent: string | null): string {
@@ -33,7 +33,7 @@ export function deviceLabel(userAgent: string | null): string {
 
 /** The user's live sessions, newest first; `current` marks the one with the stored key `current` (this request's). */
 export async function listDevices(user: User, current: string | null) {
-  const rows = await AuthSession.findAll({
+  const rows = await SignInSession.findAll({
     where: { userId: user.id, expiresAt: { [Op.gt]: new Date() } },
     order: [["createdAt", "DESC"]],
   });
@@ -50,7 +50,7 @@ export async function listDevices(user: User, current: string | null) {
 /** Ends one of the user's own sessions; another user's handle finds nothing (false). */
 export async function signOutDevice(user: User, handle: string): Promise<boolean> {
   const n = await writeTransaction((transaction) =>
-    AuthSession.destroy({ where: { id: handle, userId: user.id }, transaction }),
+    SignInSession.destroy({ where: { id: handle, userId: user.id }, transaction }),
   );
   return n > 0;
 }
@@ -58,6 +58,9 @@ export async function signOutDevice(user: User, handle: string): Promise<boolean
 /** Ends every session of the user except the one with the stored key `current`; answers how many ended. */
 export async function signOutEverywhereElse(user: User, current: string | null): Promise<number> {
   return writeTransaction((transaction) =>
-    AuthSession.destroy({ where: { userId: user.id, ...(current ? { id: { [Op.ne]: current } } : {}) }, transaction }),
+    SignInSession.destroy({
+      where: { userId: user.id, ...(current ? { id: { [Op.ne]: current } } : {}) },
+      transaction,
+    }),
   );
 }

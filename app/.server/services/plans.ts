@@ -2,7 +2,7 @@ import rrule from "rrule";
 import { literal, Op, QueryTypes, type Transaction } from "sequelize";
 import { db, dialect, writeTransaction } from "../db";
 import { PlanItem, PlanRecurrence, PlanWeek, SeasonPlan } from "../models";
-import { getSession } from "./sessions";
+import { getShelfSession } from "./shelf";
 import { defaultTestFor } from "~/lib/protocols";
 import { recurrenceSummary, type NewPlanInput } from "~/lib/plans";
 import { blockDuration, seasonSkeleton, type Block } from "~/lib/training";
@@ -335,7 +335,7 @@ export async function addRecurrence(
   planId: number,
   input: { sessionId: number; days: number[]; fromWeek: number; toWeek: number; timeOfDay?: string },
 ) {
-  const found = await getSession(ownerId, input.sessionId);
+  const found = await getShelfSession(ownerId, input.sessionId);
   if (!found) throw new DomainError("not_found", "That session is not on your shelf.", { field: "sessionId" });
   return writeTransaction(async (transaction) => {
     const plan = await requirePlan(ownerId, planId, transaction);

@@ -2,7 +2,7 @@ import { data, redirect, useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage } from "~/components/ui/field";
-import { currentSessionKey, endSession, requireUser } from "~/.server/auth";
+import { currentSignInKey, endSignIn, requireUser } from "~/.server/auth";
 import { listDevices, signOutDevice, signOutEverywhereElse } from "~/.server/services/devices";
 import {
   confirmEnrolment,
@@ -27,7 +27,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const staff = user.role === "coach" || user.role === "admin";
   return {
     timezone: user.timezone,
-    devices: await listDevices(user, await currentSessionKey(request)),
+    devices: await listDevices(user, await currentSignInKey(request)),
     twoStep: staff
       ? {
           on: twoStepOn(user),
@@ -53,18 +53,18 @@ export async function action({ request }: Route.ActionArgs) {
     switch (intent) {
       case "sign-out-device": {
         const handle = String(form.get("handle") ?? "");
-        const devices = await listDevices(user, await currentSessionKey(request));
+        const devices = await listDevices(user, await currentSignInKey(request));
         const device = devices.find((d) => d.handle === handle);
         if (!device) notFound("That device is not signed in to your account.");
         if (device.current) {
           // Signing this device out is the ordinary sign-out.
-          throw redirect("/login", { headers: { "Set-Cookie": await endSession(request) } });
+          throw redirect("/login", { headers: { "Set-Cookie": await endSignIn(request) } });
         }
         await signOutDevice(user, handle);
         return data<Result>({ ok: true, message: `${device.label} is signed out.` });
       }
       case "sign-out-others": {
-        const n = await signOutEverywhereElse(user, await currentSessionKey(request));
+        const n = await signOutEverywhereElse(user, await currentSignInKey(request));
         return data<Result>({
           ok: true,
           message:

@@ -1,5 +1,5 @@
 import { requireRole } from "~/.server/auth";
-import { exportSessions, listSessions } from "~/.server/services/sessions";
+import { exportShelfSessions, listShelfSessions } from "~/.server/services/shelf";
 import { shelfFilter } from "~/lib/shelf-filter";
 import type { Route } from "./+types/sessions";
 
@@ -8,7 +8,7 @@ export async function loader({ request }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   const url = new URL(request.url);
   if (url.searchParams.get("download") === "1") {
-    const body = JSON.stringify(await exportSessions(coach.id), null, 2);
+    const body = JSON.stringify(await exportShelfSessions(coach.id), null, 2);
     return new Response(body, {
       headers: {
         "Content-Type": "application/json; charset=utf-8",
@@ -17,7 +17,7 @@ export async function loader({ request }: Route.LoaderArgs) {
       },
     });
   }
-  const sessions = await listSessions(coach.id, shelfFilter(url.searchParams));
+  const sessions = await listShelfSessions(coach.id, shelfFilter(url.searchParams));
   const tags = Array.from(new Set(sessions.flatMap((s) => s.tags))).sort();
   return Response.json({ sessions, tags }, { headers: { "Cache-Control": "private, no-store" } });
 }

@@ -7,7 +7,7 @@ import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { requirePlan } from "~/.server/access";
 import { loaderFailure, pageFailure } from "~/.server/replies";
-import { listSessions } from "~/.server/services/sessions";
+import { listShelfSessions } from "~/.server/services/shelf";
 import {
   addRecurrence,
   deletePlan,
@@ -32,7 +32,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   await requirePlan(coach, params.planId);
   try {
     const loaded = await loadPlan(coach.id, Number(params.planId));
-    const shelf = await listSessions(coach.id);
+    const shelf = await listShelfSessions(coach.id);
     return { ...loaded, shelf: shelf.map((s) => ({ id: s.id, name: s.name, sport: s.sport })) };
   } catch (err) {
     loaderFailure(err);

@@ -6,7 +6,7 @@ import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { redirectWithToast } from "~/.server/flash";
 import { notFound } from "~/.server/http";
-import { createSession, getSession, updateSession } from "~/.server/services/sessions";
+import { createShelfSession, getShelfSession, updateShelfSession } from "~/.server/services/shelf";
 import { newBlock, sessionSchema } from "~/lib/sessions";
 import type { Block } from "~/lib/training";
 import type { Route } from "./+types/session-edit";
@@ -19,7 +19,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
     const blocks: Block[] = [newBlock("warmup"), newBlock("repeats"), newBlock("cooldown")];
     return { id: null, usedIn: 0, values: { name: "", sport: "bike", description: "", tags: [] as string[], blocks } };
   }
-  const found = await getSession(coach.id, Number(params.sessionId));
+  const found = await getShelfSession(coach.id, Number(params.sessionId));
   if (!found) notFound("No session with this id is on your shelf.");
   const { session, blocks, usedIn } = found;
   return {
@@ -52,10 +52,10 @@ export async function action({ request, params }: Route.ActionArgs) {
     return refuse(submission, { form, fields: rest });
   }
   if (!params.sessionId) {
-    const session = await createSession(coach.id, parsed.data);
+    const session = await createShelfSession(coach.id, parsed.data);
     return redirectWithToast(request, `/coach/sessions/${session.id}`, "Saved to your shelf.");
   }
-  const session = await updateSession(coach.id, Number(params.sessionId), parsed.data);
+  const session = await updateShelfSession(coach.id, Number(params.sessionId), parsed.data);
   if (!session) notFound("No session with this id is on your shelf.");
   return redirectWithToast(request, `/coach/sessions/${session.id}`, "Saved to your shelf.");
 }

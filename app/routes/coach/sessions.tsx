@@ -7,14 +7,14 @@ import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { pageFailure } from "~/.server/replies";
 import {
-  duplicateSession,
-  importSessions,
-  listSessions,
+  duplicateShelfSession,
+  importShelfSessions,
+  listShelfSessions,
   listShelfTags,
-  removeSession,
+  removeShelfSession,
   setArchived,
-  type SessionSummary,
-} from "~/.server/services/sessions";
+  type ShelfSessionSummary,
+} from "~/.server/services/shelf";
 import { formatMinutes } from "~/lib/duration";
 import { SPORTS, SPORT_LABEL, type Sport } from "~/lib/sessions";
 import { shelfFilter, shelfSearch } from "~/lib/shelf-filter";
@@ -27,7 +27,7 @@ export const meta: Route.MetaFunction = () => [{ title: "Session shelf · Pacewr
 export async function loader({ request }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   const filter = shelfFilter(new URL(request.url).searchParams);
-  const [sessions, tags] = await Promise.all([listSessions(coach.id, filter), listShelfTags(coach.id)]);
+  const [sessions, tags] = await Promise.all([listShelfSessions(coach.id, filter), listShelfTags(coach.id)]);
   return { filter, sessions, tags };
 }
 
@@ -51,14 +51,14 @@ export async function action({ request }: Route.ActionArgs) {
         { status: 413 },
       );
     try {
-      const n = await importSessions(coach.id, await file.text());
+      const n = await importShelfSessions(coach.id, await file.text());
       return { ok: true as const, message: `Imported ${n} session${n === 1 ? "" : "s"}.`, details: [] as string[] };
     } catch (err) {
       return pageFailure(err, (e) => ({ ok: false as const, message: e.message, details: e.details ?? [] }));
     }
   }
   if (intent === "duplicate") {
-    const copy = await duplicateSession(coach.id, id);
+    const copy = await duplicateShelfSession(coach.id, id);
     if (!copy)
       return data(
         { ok: false as const, message: "That session is not on your shelf.", details: [] as string[] },
@@ -67,7 +67,7 @@ export async function action({ request }: Route.ActionArgs) {
     return { ok: true as const, message: `Made “${copy.name}”.`, details: [] as string[] };
   }
   if (intent === "remove") {
-    const result = await removeSession(coach.id, id);
+    const result = await removeShelfSession(coach.id, id);
     if (!result)
       return data(
         { ok: false as const, message: "That session is not on your shelf.", details: [] as string[] },
@@ -234,7 +234,7 @@ export default function Shelf({ loaderData }: Route.ComponentProps) {
 
 type ShelfFetcher = ReturnType<typeof useFetcher<typeof action>>;
 
-function SessionCard({ session: s, fetcher }: { session: SessionSummary; fetcher: ShelfFetcher }) {
+function SessionCard({ session: s, fetcher }: { session: ShelfSessionSummary; fetcher: ShelfFetcher }) {
   return (
     <article className="flex h-full flex-col rounded-xl border border-line bg-white p-4 shadow-sm">
       <div className="flex items-start justify-between gap-2">

@@ -2,45 +2,6 @@ import { DataTypes, Model, type CreationOptional, type InferAttributes, type Inf
 import { db } from "../db";
 import { jsonColumn, timestamps as ts } from "./columns";
 
-export class Listing extends Model<InferAttributes<Listing>, InferCreationAttributes<Listing>> {
-  declare id: CreationOptional<number>;
-  declare planId: number;
-  declare coachId: number;
-  declare slug: string;
-  declare title: string;
-  declare description: string;
-  declare sport: string;
-  declare level: string;
-  declare weeks: number;
-  declare weeklyHours: number;
-  declare priceCents: number;
-  declare currency: string;
-  declare published: CreationOptional<boolean>;
-  declare coverText: CreationOptional<string | null>;
-  declare createdAt: CreationOptional<Date>;
-  declare updatedAt: CreationOptional<Date>;
-}
-Listing.init(
-  {
-    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    planId: { type: DataTypes.INTEGER, allowNull: false },
-    coachId: { type: DataTypes.INTEGER, allowNull: false },
-    slug: { type: DataTypes.STRING(80), allowNull: false },
-    title: { type: DataTypes.STRING(120), allowNull: false },
-    description: { type: DataTypes.TEXT, allowNull: false },
-    sport: { type: DataTypes.STRING(16), allowNull: false },
-    level: { type: DataTypes.STRING(16), allowNull: false },
-    weeks: { type: DataTypes.INTEGER, allowNull: false },
-    weeklyHours: { type: DataTypes.FLOAT, allowNull: false },
-    priceCents: { type: DataTypes.INTEGER, allowNull: false },
-    currency: { type: DataTypes.STRING(3), allowNull: false },
-    published: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
-    coverText: { type: DataTypes.STRING(200), allowNull: true },
-    ...ts,
-  },
-  { sequelize: db(), tableName: "listings" },
-);
-
 /** The order state machine's states; the transitions live in services/orders.ts. */
 export type OrderStatus = "created" | "declined" | "fulfilled" | "expired" | "refunded" | "needs_review";
 
@@ -102,26 +63,4 @@ Order.init(
     ...ts,
   },
   { sequelize: db(), tableName: "orders" },
-);
-
-export class PaymentEvent extends Model<InferAttributes<PaymentEvent>, InferCreationAttributes<PaymentEvent>> {
-  declare id: CreationOptional<number>;
-  declare providerEventId: string;
-  declare type: string;
-  declare orderId: number | null;
-  declare outcome: string;
-  declare payload: string;
-  declare createdAt: CreationOptional<Date>;
-}
-PaymentEvent.init(
-  {
-    id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
-    providerEventId: { type: DataTypes.STRING(255), allowNull: false },
-    type: { type: DataTypes.STRING(64), allowNull: false },
-    orderId: { type: DataTypes.INTEGER, allowNull: true },
-    outcome: { type: DataTypes.STRING(32), allowNull: false },
-    payload: { type: DataTypes.TEXT, allowNull: false },
-    createdAt: DataTypes.DATE,
-  },
-  { sequelize: db(), tableName: "payment_events", updatedAt: false },
 );

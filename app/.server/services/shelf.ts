@@ -2,12 +2,12 @@ import fs from "node:fs/promises";
 import path from "node:path";
 import { literal, Op, QueryTypes, type Transaction } from "sequelize";
 import { db, dialect, writeTransaction } from "../db";
-import { PlanItem, Session, SessionBlock } from "../models";
+import { PlanItem, ShelfSession, ShelfBlock } from "../models";
 import { describeIssues, EXPORT_FORMAT, exportSchema, sessionSchema, type SessionInput } from "~/lib/sessions";
 import { blockDuration, expandBlocks, type Block } from "~/lib/training";
 import { DomainError } from "../errors";
 
-export interface SessionSummary {
+export interface ShelfSessionSummary {
   id: number;
   name: string;
   sport: string;
@@ -23,14 +23,14 @@ export interface SessionSummary {
   updatedAt: string;
 }
 
-export function profileOf(blocks: Block[]): SessionSummary["profile"] {
+export function profileOf(blocks: Block[]): ShelfSessionSummary["profile"] {
   return expandBlocks(blocks).map((s) => ({ s: s.startS, d: s.durationS, lo: s.lowPct, hi: s.highPct, ramp: s.ramp }));
 }
 
-async function blocksBySession(ids: number[], transaction?: Transaction): Promise<Map<number, Block[]>> {
+async function blocksByShelfSession(ids: number[], transaction?: Transaction): Promise<Map<number, Block[]>> {
   const map = new Map<number, Block[]>();
   if (ids.length === 0) return map;
-  const rows = await SessionBlock.findAll({
+  const rows = await ShelfBlock.findAll({
     where: { sessionId: ids },
     order: [
       ["sessionId", "ASC"],
@@ -56,11 +56,11 @@ export type ShelfQuery = {
 
 /** Every tag on the coach's shelf (archived sessions included), for the filter's choices whatever is shown. */
 export async function listShelfTags(ownerId: number): Promise<string[]> {
-  const rows = await Session.findAll({ where: { ownerId }, attributes: ["tags"] });
+  const rows = await ShelfSession.findAll({ where: { ownerId }, attributes: ["tags"] });
   return Array.from(new Set(rows.flatMap((r) => r.tags))).sort();
 }
 
-export async function listSessions(ownerId: number, query: ShelfQuery = {}): Promise<SessionSummary[]> {
+export async function listShelfSessions(ownerId: number, query: ShelfQuery = {}): Promise<ShelfSessionSummary[]> {
   const where: Record<string | symbol, unknown> = { ownerId, archived: query.archived ?? false };
   if (query.sport) where.sport = query.sport;
   let replacements: Record<string, string> | undefined;
@@ -75,10 +75,10 @@ export async function listSessions(ownerId: number, query: ShelfQuery = {}): Pro
       ),
     ];
   }
-  const sessions = await Session.findAll({ where, order: [["name", "ASC"]], replacements });
+  const sessions = await ShelfSession.findAll({ where, order: [["name", "ASC"]], replacements });
   const filtered = query.tag ? sessions.filter((s) => s.tags.includes(query.tag!.toLowerCase())) : sessions;
   const ids = filtered.map((s) => s.id);
-  const blocks = await blocksBySession(ids);
+  const blocks = await blocksByShelfSession(ids);
   const usage = ids.length
     ? await db().query<{ id: number; n: number }>(
         `SELECT source_session_id AS id, COUNT(*) AS n FROM plan_items WHERE source_session_id IN (${ids.map(() => "?").join(",")}) GROUP BY source_session_id`,
@@ -109,26 +109,30 @@ export async function listSessions(ownerId: number, query: ShelfQuery = {}): Pro
 }
 
 /** A coach's own session with its blocks, or null: another coach's session is indistinguishable from none. */
-export async function getSession(ownerId: number, id: number) {
+export async function getShelfSession(ownerId: number, id: number) {
   if (!Number.isInteger(id) || id <= 0) return null;
-  const session = await Session.findOne({ where: { id, ownerId } });
+  const session = await ShelfSession.findOne({ where: { id, ownerId } });
   if (!session) return null;
-  const blocks = (await blocksBySession([id])).get(id) ?? [];
+  const blocks = (await blocksByShelfSession([id])).get(id) ?? [];
   const usedIn = await PlanItem.count({ where: { sourceSessionId: id } });
   return { session, blocks, usedIn };
 }
 
 async function writeBlocks(sessionId: number, blocks: Block[], transaction: Transaction) {
-  await SessionBlock.destroy({ where: { sessionId }, transaction });
-  await SessionBlock.bulkCreate(
+  await ShelfBlock.destroy({ where: { sessionId }, transaction });
+  await ShelfBlock.bulkCreate(
     blocks.map((spec, position) => ({ sessionId, position, kind: spec.kind, spec })),
     { transaction },
   );
 }
 
-export async function createSession(ownerId: number, input: SessionInput, transaction?: Transaction): Promise<Session> {
+export async function createShelfSession(
+  ownerId: number,
+  input: SessionInput,
+  transaction?: Transaction,
+): Promise<ShelfSession> {
   const run = async (t: Transaction) => {
-    const session = await Session.create(
+    const session = await ShelfSession.create(
       {
         ownerId,
         name: input.name,
@@ -145,9 +149,13 @@ export async function createSession(ownerId: number, input: SessionInput, transa
   return transaction ? run(transaction) : writeTransaction(run);
 }
 
-export async function updateSession(ownerId: number, id: number, input: SessionInput): Promise<Session | null> {
+export async function updateShelfSession(
+  ownerId: number,
+  id: number,
+  input: SessionInput,
+): Promise<ShelfSession | null> {
   return writeTransaction(async (transaction) => {
-    const session = await Session.findOne({ where: { id, ownerId }, transaction });
+    const session = await ShelfSession.findOne({ where: { id, ownerId }, transaction });
     if (!session) return null;
     await session.update(
       { name: input.name, sport: input.sport, description: input.description, tags: input.tags },
@@ -158,11 +166,11 @@ export async function updateSession(ownerId: number, id: number, input: SessionI
   });
 }
 
-export async function duplicateSession(ownerId: number, id: number): Promise<Session | null> {
-  const found = await getSession(ownerId, id);
+export async function duplicateShelfSession(ownerId: number, id: number): Promise<ShelfSession | null> {
+  const found = await getShelfSession(ownerId, id);
   if (!found) return null;
   const { session, blocks } = found;
-  return createSession(ownerId, {
+  return createShelfSession(ownerId, {
     name: `${session.name} (copy)`.slice(0, 120),
     sport: session.sport as SessionInput["sport"],
     description: session.description,
@@ -173,9 +181,9 @@ export async function duplicateSession(ownerId: number, id: number): Promise<Ses
 }
 
 /** Deletes a session nobody uses; one that a plan uses is archived instead, so plans keep their history. */
-export async function removeSession(ownerId: number, id: number): Promise<"deleted" | "archived" | null> {
+export async function removeShelfSession(ownerId: number, id: number): Promise<"deleted" | "archived" | null> {
   return writeTransaction(async (transaction) => {
-    const session = await Session.findOne({ where: { id, ownerId }, transaction });
+    const session = await ShelfSession.findOne({ where: { id, ownerId }, transaction });
     if (!session) return null;
     const used = await PlanItem.count({ where: { sourceSessionId: id }, transaction });
     if (used > 0) {
@@ -188,13 +196,13 @@ export async function removeSession(ownerId: number, id: number): Promise<"delet
 }
 
 export async function setArchived(ownerId: number, id: number, archived: boolean): Promise<boolean> {
-  const [n] = await Session.update({ archived }, { where: { id, ownerId } });
+  const [n] = await ShelfSession.update({ archived }, { where: { id, ownerId } });
   return n === 1;
 }
 
-export async function exportSessions(ownerId: number) {
-  const sessions = await Session.findAll({ where: { ownerId }, order: [["name", "ASC"]] });
-  const blocks = await blocksBySession(sessions.map((s) => s.id));
+export async function exportShelfSessions(ownerId: number) {
+  const sessions = await ShelfSession.findAll({ where: { ownerId }, order: [["name", "ASC"]] });
+  const blocks = await blocksByShelfSession(sessions.map((s) => s.id));
   return {
     format: EXPORT_FORMAT,
     version: 1 as const,
@@ -211,7 +219,7 @@ export async function exportSessions(ownerId: number) {
 }
 
 /** Reads a session file; every session must be valid or nothing is imported. */
-export function parseSessionFile(text: string): SessionInput[] {
+export function parseShelfSessionFile(text: string): SessionInput[] {
   let json: unknown;
   try {
     json = JSON.parse(text);
@@ -235,10 +243,10 @@ export function parseSessionFile(text: string): SessionInput[] {
   return out;
 }
 
-export async function importSessions(ownerId: number, text: string, transaction?: Transaction): Promise<number> {
-  const sessions = parseSessionFile(text);
+export async function importShelfSessions(ownerId: number, text: string, transaction?: Transaction): Promise<number> {
+  const sessions = parseShelfSessionFile(text);
   const run = async (t: Transaction) => {
-    for (const s of sessions) await createSession(ownerId, s, t);
+    for (const s of sessions) await createShelfSession(ownerId, s, t);
     return sessions.length;
   };
   return transaction ? run(transaction) : writeTransaction(run);
@@ -248,5 +256,5 @@ const STARTER = path.resolve("templates/sessions/starter.json");
 
 /** A new coach's shelf starts with our starter sessions. */
 export async function copyStarterShelf(ownerId: number, transaction: Transaction) {
-  return importSessions(ownerId, await fs.readFile(STARTER, "utf8"), transaction);
+  return importShelfSessions(ownerId, await fs.readFile(STARTER, "utf8"), transaction);
 }
