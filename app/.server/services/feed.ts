@@ -11,6 +11,7 @@ import { env } from "../env";
 import { CoachAthlete, FeedToken, ScheduledSession, User } from "../models";
 import { hashToken, looksLikeToken } from "../tokens";
 import { addDays, daysAgo, todayIn, weekday } from "~/lib/dates";
+import { zonedInstant } from "~/lib/zone-time";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockBands, blockLines, type StepView } from "~/lib/schedule-text";
 import type { BandSet, BandSetKey } from "~/lib/training";
@@ -305,7 +306,8 @@ export async function buildFeed(owner: User, now = new Date()) {
     const time = s.timeOfDay ?? athlete.trainingTimes?.[weekday(s.date)] ?? null;
     if (time) {
       const [hh, mm] = time.split(":").map(Number);
-      const start = new TZDate(y, m - 1, d, hh, mm, 0, athlete.timezone);
+      // Built from its instant: TZDate's own wall-clock constructor looks offsets up several times per event.
+      const start = new TZDate(zonedInstant(athlete.timezone, y, m, d, hh, mm), athlete.timezone);
       durations.set(base.id, durationText(Math.max(60, s.plannedDurationS)));
       const event = cal.createEvent({ ...base, start, timezone: athlete.timezone });
       if (!isCoach && owner.feedAlarmMinutes)
