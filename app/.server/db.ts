@@ -117,6 +117,23 @@ export function writeTransaction<T>(fn: (t: Transaction) => Promise<T>): Promise
   return result;
 }
 
+/**
+ * Runs one statement that is atomic on its own (an upsert, a single-row delete) outside any transaction, still in
+ * this process's writer queue on SQLite so it never sits in the busy wait against a writeTransaction of ours. A
+ * transaction there costs a connection of its own plus BEGIN and COMMIT; a rate-limit check on every feed poll
+ * paid more for that than for its statement.
+ */
+export function writeStatement<T>(fn: () => Promise<T>): Promise<T> {
+  if (inWrite.getStore()) {
+    return Promise.reject(new Error("writeStatement was called inside a writeTransaction; use its transaction."));
+  }
+  if (dialect() === "postgres") return fn();
+  const run = () => inWrite.run(true, fn);
+  const result = writeQueue.then(run, run);
+  writeQueue = result.catch(() => undefined);
+  return result;
+}
+
 export async function closeDb() {
   if (globalThis.__pacewrightDb) {
     await globalThis.__pacewrightDb.close();

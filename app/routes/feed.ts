@@ -47,7 +47,7 @@ export async function loader({ request, params }: Route.LoaderArgs) {
       .includes(etag)
   )
     return new Response(null, { status: 304, headers: baseHeaders });
-  const { body, lastModified } = await cachedFeed(owner, fingerprint);
+  const { body, bytes, lastModified } = await cachedFeed(owner, fingerprint);
   const modified = new Date(Math.floor(lastModified.getTime() / 1000) * 1000);
   const headers = {
     ...baseHeaders,
@@ -57,5 +57,5 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
   const ims = request.headers.get("if-modified-since");
   if (!inm && ims && Date.parse(ims) >= modified.getTime()) return new Response(null, { status: 304, headers });
-  return new Response(request.method === "HEAD" ? null : body, { status: 200, headers });
+  return new Response(request.method === "HEAD" ? null : (bytes ?? body), { status: 200, headers });
 }

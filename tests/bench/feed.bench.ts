@@ -102,7 +102,7 @@ export async function run(): Promise<BenchFigure[]> {
       ratio: r1(dynamic / fixed),
       aim: 0.1,
       higherIsBetter: true,
-      note: `${Math.round(dynamic)} vs ${Math.round(fixed)} req/s, 8 connections`,
+      note: `${Math.round(dynamic)} vs ${Math.round(fixed)} req/s, 8 connections; neither side is compressed (no Accept-Encoding, and the loader runs without the server's compression middleware)`,
     },
     {
       name: "500-event feed, unchanged since the last build (warm cache)",
@@ -112,7 +112,7 @@ export async function run(): Promise<BenchFigure[]> {
       ratio: r1(cached / fixed),
       aim: 0.8,
       higherIsBetter: true,
-      note: `${Math.round(cached)} req/s`,
+      note: `${Math.round(cached)} req/s; every feed request also pays the harness's DELETE FROM rate_limits and one per-token limit upsert, which the static side does not`,
     },
     {
       name: "feed 304 path (If-None-Match)",

@@ -43,6 +43,19 @@ describe("feed cache and use notes", () => {
     expect((await row())!.lastUsedAt!.getTime()).toBe(later.getTime());
   });
 
+  it("lets exactly the limit's worth of parallel polls through, each counted once, and answers the owner's own feed", async () => {
+    const { athlete, token } = await athleteWithFeed();
+    const other = await athleteWithFeed();
+    const statuses = await Promise.all(Array.from({ length: 70 }, () => fetchFeed(token).then((r) => r.status)));
+    // FEED_RATE is LIMITS.feedToken: 60 requests per 10 minutes (common practice for polling clients).
+    expect(statuses.filter((s) => s === 200)).toHaveLength(feedService.FEED_RATE.requests);
+    expect(statuses.filter((s) => s === 429)).toHaveLength(70 - feedService.FEED_RATE.requests);
+    const mine = await (await fetchFeed(other.token)).text();
+    expect(mine).toContain(`Pacewright · ${other.athlete.name}`);
+    expect((await feedService.feedLink(other.token))!.owner.id).toBe(other.athlete.id);
+    expect((await feedService.feedLink(token))!.owner.id).toBe(athlete.id);
+  });
+
   it("rebuilds a changed feed once however many requests arrive together, and serves the rebuilt body to all", async () => {
     const { athlete } = await athleteWithFeed();
     const owner = (await User.findByPk(athlete.id))!;

@@ -1,9 +1,9 @@
 import crypto from "node:crypto";
-import { QueryTypes, type Transaction } from "sequelize";
+import { QueryTypes } from "sequelize";
 import { RateLimiterRes } from "rate-limiter-flexible";
 import RateLimiterStoreAbstract from "rate-limiter-flexible/lib/RateLimiterStoreAbstract.js";
 import type { AppLoadContext } from "react-router";
-import { db, writeTransaction } from "../db";
+import { db, writeStatement, writeTransaction } from "../db";
 import { DomainError } from "../errors";
 
 interface Row {
@@ -23,10 +23,11 @@ class SqlRateLimiter extends RateLimiterStoreAbstract {
     super({ ...opts, storeClient: "sequelize" });
   }
 
-  // Writers queue in-process first (see writeTransaction): node-sqlite3 threads parked in SQLite's busy wait
-  // would otherwise starve the transaction that holds the lock.
-  private write<T>(fn: (t: Transaction) => Promise<T>) {
-    return writeTransaction(fn);
+  // Each write is one statement, atomic without a transaction; it still queues in-process first (see
+  // writeStatement): node-sqlite3 threads parked in SQLite's busy wait would otherwise starve the transaction that
+  // holds the lock.
+  private write<T>(fn: () => Promise<T>) {
+    return writeStatement(fn);
   }
 
   async _upsert(rlKey: string, points: number, msDuration: number, forceExpire = false): Promise<Row> {
@@ -43,12 +44,8 @@ class SqlRateLimiter extends RateLimiterStoreAbstract {
            points = CASE WHEN rate_limits.expire IS NULL OR rate_limits.expire > :now THEN rate_limits.points + excluded.points ELSE excluded.points END,
            expire = CASE WHEN rate_limits.expire IS NULL OR rate_limits.expire > :now THEN rate_limits.expire ELSE excluded.expire END
          RETURNING points, expire`;
-    const rows = await this.write((transaction) =>
-      db().query<Row>(sql, {
-        replacements: { key: rlKey, points, expire: newExpire, now },
-        type: QueryTypes.SELECT,
-        transaction,
-      }),
+    const rows = await this.write(() =>
+      db().query<Row>(sql, { replacements: { key: rlKey, points, expire: newExpire, now }, type: QueryTypes.SELECT }),
     );
     return normalize(rows[0]);
   }
@@ -65,8 +62,8 @@ class SqlRateLimiter extends RateLimiterStoreAbstract {
   }
 
   async _delete(rlKey: string): Promise<boolean> {
-    const [, changes] = (await this.write((transaction) =>
-      db().query("DELETE FROM rate_limits WHERE key = :key", { replacements: { key: rlKey }, transaction }),
+    const [, changes] = (await this.write(() =>
+      db().query("DELETE FROM rate_limits WHERE key = :key", { replacements: { key: rlKey } }),
     )) as [unknown, unknown];
     return typeof changes === "number" ? changes > 0 : true;
   }

@@ -4,13 +4,14 @@ import { DomainError } from "../errors";
 import { TZDate } from "@date-fns/tz";
 import { LRUCache } from "lru-cache";
 import ical, { ICalAlarmType, ICalCalendarMethod, ICalEventStatus } from "ical-generator";
-import { Op, QueryTypes } from "sequelize";
+import { literal, Op, QueryTypes } from "sequelize";
 import { tzlib_get_ical_block } from "timezones-ical-library";
 import { db, writeTransaction } from "../db";
 import { env } from "../env";
 import { CoachAthlete, FeedToken, ScheduledSession, User } from "../models";
 import { hashToken, looksLikeToken } from "../tokens";
 import { addDays, daysAgo, todayIn, weekday } from "~/lib/dates";
+import { zonedInstant } from "~/lib/zone-time";
 import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockBands, blockLines, type StepView } from "~/lib/schedule-text";
 import type { BandSet, BandSetKey } from "~/lib/training";
@@ -64,10 +65,20 @@ export async function userForToken(token: string | undefined): Promise<User | nu
 /** The owner of a live link and when the link was last noted in use (so a fresh note costs no write). */
 export async function feedLink(token: string | undefined): Promise<{ owner: User; lastUsedAt: Date | null } | null> {
   if (!looksLikeToken(token)) return null;
-  const row = await FeedToken.findOne({ where: { tokenHash: hashToken(token), revokedAt: null } });
-  if (!row) return null;
-  const owner = await User.findByPk(row.userId);
-  return owner ? { owner, lastUsedAt: row.lastUsedAt ?? null } : null;
+  // One statement for the link and its owner: every poll pays for each round trip (and Sequelize's per-query cost).
+  const link = `(SELECT %s FROM feed_tokens WHERE token_hash = ${db().escape(hashToken(token))} AND revoked_at IS NULL)`;
+  const owner = await User.findOne({
+    where: { id: { [Op.eq]: literal(link.replace("%s", "user_id")) } },
+    attributes: { include: [[literal(link.replace("%s", "last_used_at")), "feedLastUsedAt"]] },
+  });
+  if (!owner) return null;
+  const used = owner.getDataValue("feedLastUsedAt" as never) as unknown;
+  // The owner goes on to code that knows only the user's own columns.
+  delete (owner.dataValues as Record<string, unknown>).feedLastUsedAt;
+  return {
+    owner,
+    lastUsedAt: used instanceof Date ? used : used === null || used === undefined ? null : parseSqlDate(String(used)),
+  };
 }
 
 export const USE_NOTE_MS = 60 * 60 * 1000;
@@ -295,7 +306,8 @@ export async function buildFeed(owner: User, now = new Date()) {
     const time = s.timeOfDay ?? athlete.trainingTimes?.[weekday(s.date)] ?? null;
     if (time) {
       const [hh, mm] = time.split(":").map(Number);
-      const start = new TZDate(y, m - 1, d, hh, mm, 0, athlete.timezone);
+      // Built from its instant: TZDate's own wall-clock constructor looks offsets up several times per event.
+      const start = new TZDate(zonedInstant(athlete.timezone, y, m, d, hh, mm), athlete.timezone);
       durations.set(base.id, durationText(Math.max(60, s.plannedDurationS)));
       const event = cal.createEvent({ ...base, start, timezone: athlete.timezone });
       if (!isCoach && owner.feedAlarmMinutes)
@@ -395,15 +407,16 @@ export async function feedFingerprint(owner: User, now = new Date()) {
   ].join("|");
 }
 
-type CachedFeed = { fingerprint: string; body: string; lastModified: Date };
+/** The body also as UTF-8 bytes, encoded once per build rather than on every response. */
+type CachedFeed = { fingerprint: string; body: string; bytes?: Uint8Array<ArrayBuffer>; lastModified: Date };
 
-/** Bodies kept across requests, bounded by their size in memory (UTF-16) rather than by a count of feeds. */
+/** Bodies kept across requests, bounded by their size in memory (UTF-16 text and bytes) rather than by a count of feeds. */
 const FEED_CACHE_BYTES = 64 * 1024 * 1024;
 
 function feedCache() {
   globalThis.__pacewrightFeedCache ??= new LRUCache<number, CachedFeed>({
     maxSize: FEED_CACHE_BYTES,
-    sizeCalculation: (e) => e.body.length * 2 + 256,
+    sizeCalculation: (e) => e.body.length * 2 + (e.bytes?.byteLength ?? 0) + 256,
   });
   return globalThis.__pacewrightFeedCache;
 }
@@ -423,7 +436,12 @@ export async function cachedFeed(owner: User, fingerprint: string): Promise<Cach
   if (!pending) {
     pending = buildFeed(owner)
       .then((built) => {
-        const entry = { fingerprint, body: built.body, lastModified: built.lastModified };
+        const entry = {
+          fingerprint,
+          body: built.body,
+          bytes: new TextEncoder().encode(built.body),
+          lastModified: built.lastModified,
+        };
         cache.set(owner.id, entry);
         return entry;
       })
