@@ -6,7 +6,7 @@ import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { User } from "~/.server/models";
 import { pageFailure } from "~/.server/replies";
-import { changeRole } from "~/.server/services/accounts";
+import { changeRole } from "~/.server/services/role-changes";
 import { formatDate } from "~/lib/format";
 import { parseForm, roleChangeSchema } from "~/lib/forms";
 import { ROLES } from "~/lib/roles";
