@@ -1,5 +1,6 @@
-import { QueryTypes, type Transaction } from "sequelize";
-import { db, dialect, sqlDate, writeTransaction } from "./db";
+import type { Transaction } from "sequelize";
+import { claimDueIds } from "./claims";
+import { db, sqlDate, writeTransaction } from "./db";
 import { Job } from "./models";
 
 /*
@@ -7,10 +8,10 @@ import { Job } from "./models";
  *
  * A job is a row in `jobs` with a unique key naming the work ("order:12:place"). Whoever causes the work enqueues
  * it inside its own transaction, so the job exists exactly when the cause committed; enqueuing the same key again
- * finds the row already there. Every app instance runs a runner that claims due rows: on PostgreSQL one statement
- * takes them with FOR UPDATE SKIP LOCKED (several instances split the queue and never take one row twice), on
- * SQLite the single writer makes the same UPDATE … RETURNING atomic. A claim is a lease: it moves the row's
- * next_attempt_at LEASE_MS ahead, so work of an instance that died mid-job is taken again after that.
+ * finds the row already there. Every app instance runs a runner that claims due rows with `claimDueIds` (claims.ts,
+ * shared with the mail outbox): several instances split the queue and never take one row twice. A claim is a
+ * lease: it moves the row's next_attempt_at LEASE_MS ahead, so work of an instance that died mid-job is taken again
+ * after that.
  *
  * The handler runs in a write transaction that also marks the row done, on the condition that the row still
  * carries this claim's attempt count; if the lease ran out and another runner claimed it meanwhile, this run rolls
@@ -57,28 +58,13 @@ export async function enqueueJob(
 
 /** Claims up to `limit` due jobs (optionally of one order) for this runner; see the note at the top. */
 async function claimDue(limit: number, orderId?: number): Promise<Job[]> {
-  const now = new Date();
-  const skipLocked = dialect() === "postgres" ? "FOR UPDATE SKIP LOCKED" : "";
-  const rows = await writeTransaction((transaction) =>
-    db().query<{ id: number }>(
-      `UPDATE jobs SET attempts = attempts + 1, next_attempt_at = :lease, updated_at = :now
-       WHERE id IN (SELECT id FROM jobs WHERE status = 'pending' AND next_attempt_at <= :now
-                    ${orderId ? "AND order_id = :orderId" : ""} ORDER BY id LIMIT :limit ${skipLocked})
-       RETURNING id`,
-      {
-        replacements: {
-          now: sqlDate(now),
-          lease: sqlDate(new Date(now.getTime() + LEASE_MS)),
-          limit,
-          orderId: orderId ?? null,
-        },
-        type: QueryTypes.SELECT,
-        transaction,
-      },
-    ),
-  );
-  if (!rows.length) return [];
-  return Job.findAll({ where: { id: rows.map((r) => r.id) }, order: [["id", "ASC"]] });
+  const ids = await claimDueIds("jobs", {
+    limit,
+    leaseMs: LEASE_MS,
+    ...(orderId ? { where: "order_id = :orderId", replacements: { orderId } } : {}),
+  });
+  if (!ids.length) return [];
+  return Job.findAll({ where: { id: ids }, order: [["id", "ASC"]] });
 }
 
 class LostClaim extends Error {}

@@ -1,13 +1,15 @@
 import fs from "node:fs/promises";
 import path from "node:path";
 import nodemailer, { type Transporter } from "nodemailer";
-import { Op, QueryTypes, type Transaction } from "sequelize";
-import { db, dialect } from "./db";
+import type { Transaction } from "sequelize";
+import { claimDueIds } from "./claims";
 import { env } from "./env";
 import { OutboundEmail } from "./models";
 
 const TEMPLATE_DIR = path.resolve(process.env.TEMPLATE_DIR ?? "templates/email");
 const MAX_ATTEMPTS = 12;
+/** Long enough for one SMTP delivery; a sender that died mid-send leaves its rows to another after this. */
+const SEND_LEASE_MS = 120_000;
 
 const escapeHtml = (s: string) =>
   s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
@@ -84,45 +86,21 @@ export function resetTransport() {
 }
 
 /**
- * Claims up to `limit` due messages for this sender. On PostgreSQL one statement takes them with FOR UPDATE SKIP
- * LOCKED, so several app instances split the outbox without waiting on each other and never take one row twice.
- * On SQLite each row is claimed by a conditional update (the attempts count acts as a version).
+ * Claims up to `limit` due messages for this sender with the claim the job runner uses (claims.ts): several app
+ * instances split the outbox without waiting on each other and never take one row twice. The lease covers one
+ * delivery; a failure then sets the backoff itself.
  */
-async function claimDue(limit: number): Promise<{ mail: OutboundEmail; attempts: number }[]> {
-  if (dialect() === "postgres") {
-    const rows = await db().query<{ id: number }>(
-      `UPDATE outbound_emails SET attempts = attempts + 1,
-         next_attempt_at = NOW() + make_interval(secs => LEAST(3600, 10 * POWER(2, attempts)))
-       WHERE id IN (SELECT id FROM outbound_emails WHERE status = 'pending' AND next_attempt_at <= NOW()
-                    ORDER BY id LIMIT :limit FOR UPDATE SKIP LOCKED)
-       RETURNING id`,
-      { replacements: { limit }, type: QueryTypes.SELECT },
-    );
-    if (!rows.length) return [];
-    const mails = await OutboundEmail.findAll({ where: { id: rows.map((r) => r.id) }, order: [["id", "ASC"]] });
-    return mails.map((mail) => ({ mail, attempts: mail.attempts }));
-  }
-  const due = await OutboundEmail.findAll({
-    where: { status: "pending", nextAttemptAt: { [Op.lte]: new Date() } },
-    order: [["id", "ASC"]],
-    limit,
-  });
-  const claimed: { mail: OutboundEmail; attempts: number }[] = [];
-  for (const mail of due) {
-    const [n] = await OutboundEmail.update(
-      { attempts: mail.attempts + 1, nextAttemptAt: new Date(Date.now() + backoffMs(mail.attempts + 1)) },
-      { where: { id: mail.id, status: "pending", attempts: mail.attempts } },
-    );
-    if (n === 1) claimed.push({ mail, attempts: mail.attempts + 1 });
-  }
-  return claimed;
+async function claimDue(limit: number): Promise<OutboundEmail[]> {
+  const ids = await claimDueIds("outbound_emails", { limit, leaseMs: SEND_LEASE_MS });
+  if (!ids.length) return [];
+  return OutboundEmail.findAll({ where: { id: ids }, order: [["id", "ASC"]] });
 }
 
 /** Sends every message that is due. Each row is claimed first, so two senders never deliver one twice. */
 export async function deliverPending(limit = 25): Promise<{ sent: number; failed: number }> {
   let sent = 0;
   let failed = 0;
-  for (const { mail, attempts } of await claimDue(limit)) {
+  for (const mail of await claimDue(limit)) {
     try {
       const info = await transport().sendMail({
         from: env().mailFrom,
@@ -138,9 +116,14 @@ export async function deliverPending(limit = 25): Promise<{ sent: number; failed
       sent++;
     } catch (err) {
       failed++;
+      // Only while the row still carries this claim: a sender that took it again after the lease owns it now.
       await OutboundEmail.update(
-        { lastError: String((err as Error).message ?? err), status: attempts >= MAX_ATTEMPTS ? "failed" : "pending" },
-        { where: { id: mail.id } },
+        {
+          lastError: String((err as Error).message ?? err),
+          status: mail.attempts >= MAX_ATTEMPTS ? "failed" : "pending",
+          nextAttemptAt: new Date(Date.now() + backoffMs(mail.attempts)),
+        },
+        { where: { id: mail.id, attempts: mail.attempts } },
       );
     }
   }

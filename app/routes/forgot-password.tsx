@@ -2,7 +2,7 @@ import { Form, Link, useNavigation } from "react-router";
 import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
-import { requestPasswordReset } from "~/.server/services/accounts";
+import { requestPasswordReset } from "~/.server/services/password-resets";
 import { accepted, fieldProps, forgotSchema, parseSubmission, refuse, useSchemaForm } from "~/lib/forms";
 import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import type { Route } from "./+types/forgot-password";

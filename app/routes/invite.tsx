@@ -5,7 +5,7 @@ import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
 import { getUser, startSignIn } from "~/.server/auth";
 import { formFailure } from "~/.server/replies";
-import { acceptInvitation, findInvitation } from "~/.server/services/accounts";
+import { acceptInvitation, findInvitation } from "~/.server/services/invitations";
 import { INVITE_DEAD } from "~/lib/messages";
 import { acceptInviteSchema, fieldProps, parseSubmission, refuse, useSchemaForm } from "~/lib/forms";
 import { redirectWithToast } from "~/.server/flash";

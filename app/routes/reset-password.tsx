@@ -3,7 +3,7 @@ import { AuthFrame } from "~/components/auth-frame";
 import { buttonClass } from "~/components/ui/button";
 import { Field, FormMessage } from "~/components/ui/field";
 import { formFailure } from "~/.server/replies";
-import { checkResetToken, resetPassword } from "~/.server/services/accounts";
+import { checkResetToken, resetPassword } from "~/.server/services/password-resets";
 import { RESET_LINK_DEAD } from "~/lib/messages";
 import { fieldProps, parseSubmission, refuse, resetSchema, useSchemaForm } from "~/lib/forms";
 import { redirectWithToast } from "~/.server/flash";

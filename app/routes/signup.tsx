@@ -7,7 +7,7 @@ import { getUser, homeFor, startSignIn } from "~/.server/auth";
 import { safeRedirect } from "~/.server/http";
 import { clientKey, consumeOr429 } from "~/.server/security/rate-limits";
 import { formFailure } from "~/.server/replies";
-import { signUp } from "~/.server/services/accounts";
+import { signUp } from "~/.server/services/sign-up";
 import { fieldProps, parseSubmission, refuse, signUpSchema, useSchemaForm } from "~/lib/forms";
 import type { Route } from "./+types/signup";
 

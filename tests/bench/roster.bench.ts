@@ -2,7 +2,7 @@ import { QueryTypes } from "sequelize";
 import { hashPassword } from "~/.server/auth";
 import { db, sqlDate } from "~/.server/db";
 import { CoachAthlete, Threshold, User } from "~/.server/models";
-import { rosterFor } from "~/.server/services/accounts";
+import { rosterFor } from "~/.server/services/roster";
 import { addDays, todayIn } from "~/lib/dates";
 import { compare } from "./lib";
 import { countStatements } from "./statements";

@@ -197,19 +197,22 @@ describe("roles", () => {
       adminUsers.action,
       formRequest("/admin/users", { userId: String(target.id), role: "coach" }, { cookie }),
     );
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res)).toMatchObject({ status: "success", message: expect.stringMatching(/is now coach/) });
     expect((await User.findByPk(target.id))?.role).toBe("coach");
     const self = await run(
       adminUsers.action,
       formRequest("/admin/users", { userId: String(admin.id), role: "athlete" }, { cookie }),
     );
     expect(statusOf(self)).toBe(400);
+    expect(fieldErrorsOf(self).role).toMatch(/cannot remove your own admin role/);
     expect((await User.findByPk(admin.id))?.role).toBe("admin");
     const bad = await run(
       adminUsers.action,
       formRequest("/admin/users", { userId: String(target.id), role: "owner" }, { cookie }),
     );
     expect(statusOf(bad)).toBe(400);
+    expect(fieldErrorsOf(bad).role).toBe("Choose a role.");
+    expect((await User.findByPk(target.id))?.role).toBe("coach");
   });
 });
 

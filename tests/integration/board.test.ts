@@ -19,7 +19,7 @@ import * as assign from "~/routes/coach/assign";
 import * as calendarApi from "~/routes/api/calendar";
 import * as athleteSession from "~/routes/athlete/session";
 import { addDays, mondayOf, todayIn } from "~/lib/dates";
-import { formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { fieldErrorsOf, formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 const BASE = "http://localhost:3999";
 
@@ -447,14 +447,17 @@ describe("athlete calendar", () => {
       ),
       { id: String(s.id) },
     );
-    expect(payloadOf(done).ok).toBe(true);
+    expect(payloadOf(done)).toMatchObject({ status: "success", message: "Marked done. Nice work." });
     expect(((await move({ sessionId: s.id, date: "2027-01-08" })) as Response).status).toBe(400);
     const noScore = await run(
       athleteSession.action,
       formRequest(`/athlete/sessions/${s.id}`, { status: "done", minutes: "60" }, { cookie: aCookie }),
       { id: String(s.id) },
     );
-    expect(payloadOf(noScore).fieldErrors.effortScore).toMatch(/how hard/);
+    expect(statusOf(noScore)).toBe(400);
+    expect(fieldErrorsOf(noScore)).toEqual({ form: "Check the form.", effortScore: "Choose how hard it felt (0–10)." });
+    // Refused input changes nothing: the session keeps what the good submission recorded.
+    expect(await ScheduledSession.findByPk(s.id)).toMatchObject({ status: "done", effortScore: 7, comment: "Solid" });
 
     const stranger = await makeUser({ role: "athlete" });
     const sCookie = await signIn(stranger.email);

@@ -160,4 +160,29 @@ describe("a coach's athletes are theirs alone", () => {
       statusOf(await run(athletePage.loader, getRequest(`/coach/athletes/abc`, cookie), { athleteId: "abc" })),
     ).toBe(404);
   });
+
+  it("saves an athlete's body details, and refuses a bad one beside its field without writing", async () => {
+    const { coach, athlete } = await makeCoachWithAthlete();
+    const cookie = await signIn(coach.email);
+    const params = { athleteId: String(athlete.id) };
+    const url = `/coach/athletes/${athlete.id}`;
+    const bad = await run(
+      athletePage.action,
+      formRequest(url, { sex: "female", weightKg: "61", restingHr: "10", maxHr: "190" }, { cookie }),
+      params,
+    );
+    expect(statusOf(bad)).toBe(400);
+    expect(fieldErrorsOf(bad)).toEqual({ restingHr: "Resting heart rate must be between 25 and 120." });
+    await athlete.reload();
+    expect([athlete.sex, athlete.weightKg, athlete.restingHr]).toEqual([null, null, null]);
+
+    const ok = await run(
+      athletePage.action,
+      formRequest(url, { sex: "female", weightKg: "61,5", restingHr: "48", maxHr: "" }, { cookie }),
+      params,
+    );
+    expect(payloadOf(ok)).toMatchObject({ status: "success", message: "Saved." });
+    await athlete.reload();
+    expect([athlete.sex, athlete.weightKg, athlete.restingHr, athlete.maxHr]).toEqual(["female", 61.5, 48, null]);
+  });
 });

@@ -15,7 +15,7 @@ import { assignPlan } from "~/.server/services/materialize";
 import { createPlan } from "~/.server/services/plans";
 import * as athleteSession from "~/routes/athlete/session";
 import * as coachSession from "~/routes/coach/athlete-session";
-import { formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { fieldErrorsOf, formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 async function scenario() {
   const coach = await makeUser({ role: "coach", name: "Coach Ines" });
@@ -102,7 +102,7 @@ describe("notes and comments between coach and athlete", () => {
       ),
       { id: String(scheduled.id) },
     );
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res)).toMatchObject({ status: "success", message: "Sent." });
     const toCoach = await OutboundEmail.findAll({ where: { toAddress: coach.email, template: "session-comment" } });
     expect(toCoach).toHaveLength(1);
     expect(toCoach[0].subject).toBe(`Rider Ola wrote about Long steady on ${scheduled.date}`);
@@ -114,7 +114,7 @@ describe("notes and comments between coach and athlete", () => {
       formRequest("/", { intent: "comment", body: "Fine: eat earlier next time." }, { cookie: cCookie }),
       { athleteId: String(athlete.id), sessionId: String(scheduled.id) },
     );
-    expect(payloadOf(reply).ok).toBe(true);
+    expect(payloadOf(reply)).toMatchObject({ status: "success", message: "Sent." });
     expect(await OutboundEmail.count({ where: { toAddress: athlete.email, template: "session-comment" } })).toBe(1);
 
     const thread = payloadOf(
@@ -131,7 +131,7 @@ describe("notes and comments between coach and athlete", () => {
       { id: String(scheduled.id) },
     );
     expect(statusOf(empty)).toBe(400);
-    expect(payloadOf(empty).fieldErrors.body).toBe("Write something first.");
+    expect(fieldErrorsOf(empty)).toEqual({ body: "Write something first." });
     expect(await SessionComment.count({ where: { scheduledSessionId: scheduled.id } })).toBe(2);
   });
 

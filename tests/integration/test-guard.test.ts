@@ -12,7 +12,7 @@ import {
   ShelfBlock,
   Threshold,
 } from "~/.server/models";
-import { rosterFor } from "~/.server/services/accounts";
+import { rosterFor } from "~/.server/services/roster";
 import { applyBoardOp } from "~/.server/services/board";
 import { assignPlan } from "~/.server/services/materialize";
 import { createPlan } from "~/.server/services/plans";

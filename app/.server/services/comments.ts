@@ -1,14 +1,9 @@
-import { z } from "zod";
 import { writeTransaction } from "../db";
 import { env } from "../env";
 import { queueEmail } from "../mail";
 import { scheduledSessionFor } from "../access";
 import { CoachAthlete, SessionComment, User } from "../models";
 import { DomainError } from "../errors";
-
-export const commentSchema = z.object({
-  body: z.string().trim().min(1, "Write something first.").max(2000, "Keep a comment under 2000 characters."),
-});
 
 export async function listComments(viewer: User, sessionId: number) {
   const session = await scheduledSessionFor(viewer, sessionId);

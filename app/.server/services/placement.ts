@@ -1,13 +1,16 @@
 import { Op, type Transaction } from "sequelize";
-import { Assignment, ScheduledSession, SeasonPlan, Threshold } from "../models";
+import { Assignment, PlanItem, ScheduledSession, SeasonPlan, Threshold } from "../models";
 import { thresholdSport } from "./thresholds";
 import { DomainError } from "../errors";
+import type { PlanSpan } from "~/lib/placement";
+import { expandBlocks, type Block } from "~/lib/training";
 
 /**
- * Checks made before a plan lands on an athlete's calendar, whoever places it (a coach assigning, a paid order):
- * does the athlete have thresholds for the plan's sports, does it overlap sessions already planned, and would any
- * day end up with two maximal tests. The caller shows the report and asks for a choice; `applyPlacementChoice`
- * then carries the choice out in the caller's transaction.
+ * Placing a plan on an athlete's calendar, whoever places it (a coach assigning, a paid order, the shop's check
+ * before a purchase). `checkPlacement` asks what the placement runs into: does the athlete have thresholds for the
+ * plan's sports, does it overlap sessions already planned, and would any day end up with two maximal tests. The
+ * caller shows the report and asks for a choice; `applyPlacementChoice` then carries the choice out in the caller's
+ * transaction. `placementContext` is the buyer's view of the same questions before there are dates.
  */
 export interface PlacementEntry {
   date: string;
@@ -33,6 +36,34 @@ export type PlacementChoice = {
 
 export const needsChoice = (r: PlacementReport) =>
   r.sportsWithoutThreshold.length > 0 || r.overlap !== null || r.testDays.length > 0;
+
+/** The sports the athlete has a threshold for. */
+async function sportsWithThreshold(athleteId: number, transaction?: Transaction) {
+  return new Set(
+    (await Threshold.findAll({ where: { athleteId }, attributes: ["sport"], transaction })).map((t) => t.sport),
+  );
+}
+
+/** The plan behind each assignment; an assignment whose plan was deleted has none. */
+async function plansOf(assignmentIds: number[], transaction?: Transaction) {
+  const out = new Map<number, { planId: number; name: string } | null>();
+  if (!assignmentIds.length) return out;
+  const assignments = await Assignment.findAll({ where: { id: assignmentIds }, transaction });
+  const planIds = [...new Set(assignments.map((a) => a.planId).filter((id): id is number => id !== null))];
+  const names = new Map(
+    planIds.length
+      ? (await SeasonPlan.findAll({ where: { id: planIds }, attributes: ["id", "name"], transaction })).map((p) => [
+          p.id,
+          p.name,
+        ])
+      : [],
+  );
+  for (const a of assignments) {
+    const name = a.planId !== null ? names.get(a.planId) : undefined;
+    out.set(a.id, name !== undefined ? { planId: a.planId!, name } : null);
+  }
+  return out;
+}
 
 async function planned(athleteId: number, from: string, to: string, transaction?: Transaction) {
   return ScheduledSession.findAll({
@@ -68,9 +99,7 @@ export async function checkPlacement(
   const from = dates[0];
   const to = dates.at(-1)!;
 
-  const have = new Set(
-    (await Threshold.findAll({ where: { athleteId }, attributes: ["sport"], transaction })).map((t) => t.sport),
-  );
+  const have = await sportsWithThreshold(athleteId, transaction);
   const needed = new Set(
     entries.map((e) => thresholdSport(e.sport)).filter((s): s is NonNullable<typeof s> => s !== null),
   );
@@ -79,21 +108,14 @@ export async function checkPlacement(
   const existing = await planned(athleteId, from, to, transaction);
   if (existing.length) {
     const assignmentIds = [...new Set(existing.map((s) => s.assignmentId).filter((id): id is number => id != null))];
-    const assignments = assignmentIds.length
-      ? await Assignment.findAll({ where: { id: assignmentIds }, transaction })
-      : [];
-    const plans = assignments.length
-      ? await SeasonPlan.findAll({
-          where: { id: [...new Set(assignments.map((a) => a.planId as number))] },
-          attributes: ["id", "name"],
-          transaction,
-        })
-      : [];
+    const plans = new Map<number, string>();
+    for (const plan of (await plansOf(assignmentIds, transaction)).values())
+      if (plan) plans.set(plan.planId, plan.name);
     report.overlap = {
       from: existing[0].date,
       to: existing.at(-1)!.date,
       sessions: existing.length,
-      plans: plans.map((p) => p.name).sort(),
+      plans: [...plans.values()].sort(),
     };
   }
   const kept = opts.replaceFrom ? existing.filter((s) => s.date < opts.replaceFrom!) : existing;
@@ -139,4 +161,40 @@ export async function applyPlacementChoice(
   for (const s of doomed)
     await s.update({ status: "cancelled", cancelledAt: new Date(), feedSequence: s.feedSequence + 1 }, { transaction });
   return { cancelled: doomed.length };
+}
+
+/**
+ * What placing a plan would run into, for the shop's check before a purchase (no start date chosen yet): the plans
+ * already on the calendar with dates still to come, and which of the plan's sports the athlete has no threshold for
+ * (their targeted sessions will say "needs a field test").
+ */
+export async function placementContext(athleteId: number, planId: number, today: string) {
+  const rows = await ScheduledSession.findAll({
+    where: { athleteId, status: "planned", date: { [Op.gte]: today }, assignmentId: { [Op.ne]: null } },
+    attributes: ["assignmentId", "date"],
+  });
+  const spans = new Map<number, { from: string; to: string }>();
+  for (const r of rows) {
+    const s = spans.get(r.assignmentId!);
+    if (!s) spans.set(r.assignmentId!, { from: r.date, to: r.date });
+    else {
+      if (r.date < s.from) s.from = r.date;
+      if (r.date > s.to) s.to = r.date;
+    }
+  }
+  const plans = await plansOf([...spans.keys()]);
+  const current: PlanSpan[] = [...plans]
+    .map(([id, plan]) => ({ name: plan?.name || "a plan on your calendar", ...spans.get(id)! }))
+    .sort((a, b) => a.from.localeCompare(b.from));
+
+  const items = await PlanItem.findAll({ where: { planId }, attributes: ["sport", "blocks"] });
+  const have = await sportsWithThreshold(athleteId);
+  const missing = new Map<string, number>();
+  for (const item of items) {
+    const tsport = thresholdSport(item.sport);
+    if (!tsport || have.has(tsport)) continue;
+    const targeted = expandBlocks(item.blocks as Block[]).some((s) => s.metric !== null);
+    if (targeted) missing.set(tsport, (missing.get(tsport) ?? 0) + 1);
+  }
+  return { current, missingThresholds: [...missing.entries()].map(([sport, sessions]) => ({ sport, sessions })) };
 }

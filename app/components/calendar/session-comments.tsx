@@ -1,5 +1,8 @@
-import { useRef, useState } from "react";
+import { useState } from "react";
 import { useFetcher } from "react-router";
+import { useSchemaForm } from "~/lib/forms";
+import { commentSchema } from "~/lib/session-forms";
+import type { commentAction } from "~/routes/athlete/session.server";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { formatDateTime } from "~/lib/format";
@@ -23,17 +26,14 @@ export function SessionComments({
   otherSide: string;
   timezone: string;
 }) {
-  const fetcher = useFetcher<{ ok: boolean; message?: string; fieldErrors?: Record<string, string | undefined> }>();
-  const form = useRef<HTMLFormElement>(null);
+  const fetcher = useFetcher<typeof commentAction>();
+  // A message (the browser's check or the server's) stays until the text changes: conform checks again on input.
+  const [form, fields] = useSchemaForm(commentSchema, fetcher.data, { id: "session-comment" });
   const [text, setText] = useState("");
-  const serverError =
-    fetcher.data && !fetcher.data.ok ? (fetcher.data.fieldErrors?.body ?? fetcher.data.message) : undefined;
-  // A server error belongs to the text that was sent; once the text changes it no longer applies.
-  const [sent, setSent] = useState("");
-  const error = serverError && text === sent ? serverError : undefined;
+  const error = fields.body.errors?.[0] ?? form.errors?.[0];
   // A message the server took empties the box, once per answer.
   const [clearedFor, setClearedFor] = useState<typeof fetcher.data>(undefined);
-  if (fetcher.state === "idle" && fetcher.data?.ok && clearedFor !== fetcher.data) {
+  if (fetcher.state === "idle" && fetcher.data?.status === "success" && clearedFor !== fetcher.data) {
     setClearedFor(fetcher.data);
     setText("");
   }
@@ -64,18 +64,12 @@ export function SessionComments({
           ))}
         </ol>
       )}
-      <fetcher.Form
-        method="post"
-        ref={form}
-        className="mt-3 flex flex-col gap-2"
-        onSubmit={() => setSent(text)}
-        noValidate
-      >
+      <fetcher.Form method="post" id={form.id} onSubmit={form.onSubmit} className="mt-3 flex flex-col gap-2" noValidate>
         <input type="hidden" name="intent" value="comment" />
         <label className="flex flex-col gap-1 text-sm">
           <span className="font-medium">Message to {otherSide}</span>
           <textarea
-            name="body"
+            name={fields.body.name}
             rows={3}
             maxLength={2000}
             value={text}

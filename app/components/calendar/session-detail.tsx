@@ -10,6 +10,9 @@ import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockLines, type BlockBand } from "~/lib/schedule-text";
 import { BandTable } from "~/components/band-table";
 import type { sessionPageData } from "~/.server/services/session-page";
+import { useSchemaForm } from "~/lib/forms";
+import { completeSchema } from "~/lib/session-forms";
+import type { completeFromForm } from "~/routes/athlete/session.server";
 
 /** A scheduled session as the session page's loader sends it (services/session-page.ts). */
 export type SessionDetailData = Omit<Awaited<ReturnType<typeof sessionPageData>>, "pacing">;
@@ -192,13 +195,25 @@ function ResultCard({ session: s }: { session: SessionDetailData["session"] }) {
 }
 
 function CompleteForm({ session: s }: { session: SessionDetailData["session"] }) {
-  const fetcher = useFetcher<{ ok: boolean; message: string; fieldErrors?: Record<string, string> }>();
-  const errors = fetcher.data?.fieldErrors ?? {};
+  const fetcher = useFetcher<typeof completeFromForm>();
+  const [form, fields] = useSchemaForm(completeSchema, fetcher.data, { id: "complete-session" });
+  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
+  const errors = { effortScore: fields.effortScore.errors?.[0], minutes: fields.minutes.errors?.[0] };
   return (
     <Card>
       <h2 className="font-semibold">How did it go?</h2>
-      <fetcher.Form method="post" className="mt-3 flex flex-col gap-3 text-sm">
-        {fetcher.data && <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>}
+      <fetcher.Form
+        method="post"
+        id={form.id}
+        onSubmit={form.onSubmit}
+        className="mt-3 flex flex-col gap-3 text-sm"
+        noValidate
+      >
+        {form.errors?.[0] ? (
+          <FormMessage>{form.errors[0]}</FormMessage>
+        ) : (
+          saved && <FormMessage tone="ok">{saved}</FormMessage>
+        )}
         <fieldset>
           <legend className="font-medium">Effort score</legend>
           <div className="mt-1 grid grid-cols-1 gap-0.5">

@@ -35,9 +35,17 @@ export function refuse(
   return data(reply as FormReply, { status: init.status ?? 400, headers: init.headers });
 }
 
-/** Success that stays on the page (fetcher forms): the form resets, and `message` says what happened. */
-export function accepted(submission: Submission<unknown, string[], unknown>, message?: string) {
-  return { ...(submission.reply({ resetForm: true }) as FormReply), status: "success" as const, message };
+/**
+ * Success that stays on the page (fetcher forms): `message` says what happened. The form resets for the next entry,
+ * unless it edits a record and should keep showing what was saved (`{ reset: false }`).
+ */
+export function accepted(
+  submission: Submission<unknown, string[], unknown>,
+  message?: string,
+  opts: { reset?: boolean } = {},
+) {
+  const reply = submission.reply(opts.reset === false ? {} : { resetForm: true }) as FormReply;
+  return { ...reply, status: "success" as const, message };
 }
 
 /** The first message of a field (or the form's, under `""`) in a reply. */

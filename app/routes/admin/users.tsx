@@ -1,14 +1,14 @@
 import { createColumnHelper } from "@tanstack/react-table";
-import { data, useFetcher } from "react-router";
+import { useFetcher } from "react-router";
 import { DataTable } from "~/components/data-table";
 import { buttonClass } from "~/components/ui/button";
 import { PageHeader } from "~/components/ui/card";
 import { requireRole } from "~/.server/auth";
 import { User } from "~/.server/models";
-import { pageFailure } from "~/.server/replies";
-import { changeRole } from "~/.server/services/accounts";
+import { formFailure } from "~/.server/replies";
+import { changeRole } from "~/.server/services/role-changes";
 import { formatDate } from "~/lib/format";
-import { parseForm, roleChangeSchema } from "~/lib/forms";
+import { accepted, firstMessage, parseSubmission, refuse, roleChangeSchema, useSchemaForm } from "~/lib/forms";
 import { ROLES } from "~/lib/roles";
 import type { Route } from "./+types/users";
 
@@ -32,17 +32,14 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const admin = await requireRole(request, "admin");
-  const parsed = parseForm(roleChangeSchema, await request.formData());
-  if (!parsed.ok)
-    return data(
-      { ok: false as const, error: Object.values(parsed.fieldErrors)[0] ?? "Invalid request." },
-      { status: 400 },
-    );
+  const submission = parseSubmission(await request.formData(), roleChangeSchema);
+  if (submission.status !== "success") return refuse(submission);
   try {
-    const user = await changeRole(admin, parsed.data.userId, parsed.data.role);
-    return { ok: true as const, message: `${user.name} is now ${user.role}.` };
+    const user = await changeRole(admin, submission.value.userId, submission.value.role);
+    // The select keeps the role just saved rather than resetting to the one the row was drawn with.
+    return accepted(submission, `${user.name} is now ${user.role}.`, { reset: false });
   } catch (err) {
-    return pageFailure(err, (e) => ({ ok: false as const, error: e.message }));
+    return formFailure(err, submission, { field: "role" });
   }
 }
 
@@ -51,17 +48,21 @@ const column = createColumnHelper<Row>();
 
 function RoleCell({ user, isMe }: { user: Row; isMe: boolean }) {
   const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useSchemaForm(roleChangeSchema, fetcher.data, { id: `role-of-${user.id}` });
   const pending = fetcher.formData?.get("role");
+  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
+  const refused = firstMessage(fetcher.data);
   return (
-    <fetcher.Form method="post" className="flex flex-wrap items-center gap-2">
-      <input type="hidden" name="userId" value={user.id} />
+    <fetcher.Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-wrap items-center gap-2">
+      <input type="hidden" name={fields.userId.name} value={user.id} />
       <label className="sr-only" htmlFor={`role-${user.id}`}>
         Role of {user.name}
       </label>
       <select
         id={`role-${user.id}`}
-        name="role"
+        name={fields.role.name}
         defaultValue={user.role}
+        aria-invalid={refused ? true : undefined}
         disabled={isMe}
         className="rounded-md border border-line bg-white px-2 py-1"
       >
@@ -76,9 +77,9 @@ function RoleCell({ user, isMe }: { user: Row; isMe: boolean }) {
           {pending ? "Saving…" : "Save"}
         </button>
       )}
-      {fetcher.data && (
-        <span role="status" className={fetcher.data.ok ? "text-xs text-teal" : "text-xs text-brick"}>
-          {fetcher.data.ok ? fetcher.data.message : fetcher.data.error}
+      {(refused ?? saved) && (
+        <span role="status" className={refused ? "text-xs text-brick" : "text-xs text-teal"}>
+          {refused ?? saved}
         </span>
       )}
     </fetcher.Form>

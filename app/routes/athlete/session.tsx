@@ -53,10 +53,9 @@ export async function action({ request, params }: Route.ActionArgs) {
         message: r.matched
           ? "Ride file attached; the session is marked done."
           : "This day had no planned ride left; the file was kept as an unplanned ride.",
-        fieldErrors: {},
       };
     } catch (err) {
-      return pageFailure(err, (e) => ({ ok: false, message: e.message, fieldErrors: {} }));
+      return pageFailure(err, (e) => ({ ok: false, message: e.message }));
     }
   }
   return completeFromForm(athlete, id, form);

@@ -8,7 +8,7 @@ import { requireRole } from "~/.server/auth";
 import { requirePlan } from "~/.server/access";
 import { loaderFailure, pageFailure } from "~/.server/replies";
 import { Assignment, User } from "~/.server/models";
-import { rosterFor } from "~/.server/services/accounts";
+import { rosterFor } from "~/.server/services/roster";
 import { assignPlan, pushPlanChanges } from "~/.server/services/materialize";
 import { loadPlan } from "~/.server/services/plans";
 import { currentThresholds } from "~/.server/services/thresholds";

@@ -1,10 +1,10 @@
-import { data, Link, useFetcher } from "react-router";
+import { Link, useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage, SelectField } from "~/components/ui/field";
 import { writeTransaction } from "~/.server/db";
 import { requireAthleteSubject } from "~/.server/access";
-import { athleteProfileSchema, parseForm } from "~/lib/forms";
+import { accepted, athleteProfileSchema, fieldProps, parseSubmission, refuse, useSchemaForm } from "~/lib/forms";
 import type { Route } from "./+types/athlete";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.athlete.name ?? "Athlete"} · Pacewright` }];
@@ -32,18 +32,30 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 
 export async function action({ request, params }: Route.ActionArgs) {
   const { athlete } = await requireOwnAthlete(request, params.athleteId);
-  const parsed = parseForm(athleteProfileSchema, await request.formData());
-  if (!parsed.ok) return data({ ok: false as const, fieldErrors: parsed.fieldErrors }, { status: 400 });
+  const submission = parseSubmission(await request.formData(), athleteProfileSchema);
+  if (submission.status !== "success") return refuse(submission);
+  const values = submission.value;
   await writeTransaction(async (transaction) => {
-    await athlete.update(parsed.data, { transaction });
+    await athlete.update(values, { transaction });
   });
-  return { ok: true as const, fieldErrors: {} };
+  // The fields keep showing what was saved.
+  return accepted(submission, "Saved.", { reset: false });
 }
 
 export default function CoachAthlete({ loaderData }: Route.ComponentProps) {
   const { athlete } = loaderData;
   const fetcher = useFetcher<typeof action>();
-  const errors: Record<string, string | undefined> = fetcher.data?.fieldErrors ?? {};
+  const text = (v: number | null) => (v === null ? "" : String(v));
+  const [form, fields] = useSchemaForm(athleteProfileSchema, fetcher.data, {
+    id: "athlete-profile",
+    defaultValue: {
+      sex: athlete.sex ?? "",
+      weightKg: text(athlete.weightKg),
+      restingHr: text(athlete.restingHr),
+      maxHr: text(athlete.maxHr),
+    },
+  });
+  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
   return (
     <>
       <p className="mb-2 text-sm">
@@ -74,37 +86,35 @@ export default function CoachAthlete({ loaderData }: Route.ComponentProps) {
         <p className="mt-1 text-sm text-ink-soft">
           Used for heart-rate load and watts per kilogram. Leave a field empty if unknown.
         </p>
-        <fetcher.Form method="post" className="mt-4 grid gap-4 sm:grid-cols-2" noValidate>
-          {fetcher.data?.ok && (
+        <fetcher.Form
+          method="post"
+          id={form.id}
+          onSubmit={form.onSubmit}
+          className="mt-4 grid gap-4 sm:grid-cols-2"
+          noValidate
+        >
+          {saved && (
             <div className="sm:col-span-2">
-              <FormMessage tone="ok">Saved.</FormMessage>
+              <FormMessage tone="ok">{saved}</FormMessage>
             </div>
           )}
-          <SelectField label="Sex (for heart-rate load)" name="sex" defaultValue={athlete.sex ?? ""} error={errors.sex}>
+          <SelectField key={fields.sex.key} label="Sex (for heart-rate load)" {...fieldProps(fields.sex)}>
             <option value="">Not given</option>
             <option value="female">Female</option>
             <option value="male">Male</option>
           </SelectField>
+          <Field key={fields.weightKg.key} label="Weight (kg)" inputMode="decimal" {...fieldProps(fields.weightKg)} />
           <Field
-            label="Weight (kg)"
-            name="weightKg"
-            inputMode="decimal"
-            defaultValue={athlete.weightKg ?? ""}
-            error={errors.weightKg}
-          />
-          <Field
+            key={fields.restingHr.key}
             label="Resting heart rate (bpm)"
-            name="restingHr"
             inputMode="numeric"
-            defaultValue={athlete.restingHr ?? ""}
-            error={errors.restingHr}
+            {...fieldProps(fields.restingHr)}
           />
           <Field
+            key={fields.maxHr.key}
             label="Maximum heart rate (bpm)"
-            name="maxHr"
             inputMode="numeric"
-            defaultValue={athlete.maxHr ?? ""}
-            error={errors.maxHr}
+            {...fieldProps(fields.maxHr)}
           />
           <div className="sm:col-span-2">
             <button type="submit" className={buttonClass("primary")} disabled={fetcher.state !== "idle"}>

@@ -8,7 +8,7 @@ import { Field, FormMessage } from "~/components/ui/field";
 import { getUser, requireUser } from "~/.server/auth";
 import { notFound } from "~/.server/http";
 import { Listing, PlanItem, PlanWeek, User } from "~/.server/models";
-import { placementContext } from "~/.server/services/placement-context";
+import { placementContext } from "~/.server/services/placement";
 import { pageFailure } from "~/.server/replies";
 import { formatPrice, startCheckout } from "~/.server/services/shop";
 import { isIsoDate, todayIn } from "~/lib/dates";
