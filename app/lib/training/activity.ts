@@ -174,7 +174,8 @@ export function timeMs(text: string): number {
     const second = digitsAt(text, 17, 2);
     const milli = n === 24 ? digitsAt(text, 20, 3) : 0;
     // Hour 24 and out-of-range fields are Date.parse's to judge; V8 rolls a day past the month's end over, as Date.UTC does.
-    if (year >= 0 && milli >= 0 && month >= 1 && month <= 12 && day >= 1 && day <= 31 && hour >= 0 && hour < 24)
+    // Date.UTC takes years 0 to 99 as 1900 to 1999, so those are left to Date.parse too.
+    if (year >= 100 && milli >= 0 && month >= 1 && month <= 12 && day >= 1 && day <= 31 && hour >= 0 && hour < 24)
       if (minute >= 0 && minute < 60 && second >= 0 && second < 60)
         return Date.UTC(year, month - 1, day, hour, minute, second, milli);
   }
