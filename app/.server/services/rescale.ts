@@ -211,9 +211,16 @@ export async function applyThreshold(
   );
   // Normally nothing: steps placed or moved under the old threshold hold its numbers. Steps that do not (stored by
   // hand, or left from before a threshold was set without a rescale) keep their own values for the undo.
+  // The scope in the UPDATE's form below (its index, not a join per step to the sessions).
+  const STEPS = `FROM scheduled_blocks b
+     WHERE b.athlete_id = :athleteId AND b.sport = :sport AND b.metric = :metric AND b.low_pct IS NOT NULL
+       AND b.date >= :from AND (:until IS NULL OR b.date < :until)
+       AND b.scheduled_session_id NOT IN (SELECT id FROM scheduled_sessions WHERE athlete_id = :athleteId AND status <> 'planned')`;
+  // Normally nothing: steps placed or moved under the old threshold hold its numbers. Steps that do not (stored by
+  // hand, or left from before a threshold was set without a rescale) keep their own values for the undo.
   await db().query(
     `INSERT INTO rescale_undo_steps (report_id, block_id, scheduled_session_id, old_low_abs, old_high_abs, old_unit, old_threshold_id, old_threshold_value)
-     SELECT :reportId, b.id, b.scheduled_session_id, b.low_abs, b.high_abs, b.unit, b.threshold_id, b.threshold_value ${SCOPE}
+     SELECT :reportId, b.id, b.scheduled_session_id, b.low_abs, b.high_abs, b.unit, b.threshold_id, b.threshold_value ${STEPS}
        AND ${followsOld()} = 0`,
     { replacements, transaction },
   );
