@@ -285,6 +285,58 @@ describe("field test → rescale", () => {
     expect(statusOf(again)).toBe(400);
   });
 
+  it("undo restores every step exactly, recomputing the ones that held the old numbers and copying only the rest", async () => {
+    const { athlete, cookie } = await scenario();
+    // Two in-scope steps that do not hold what 250 W gives them (one typed by hand, one never resolved), so the
+    // rescale must keep copies of exactly these two; every other step is recomputed by the undo.
+    const inScope = await ScheduledBlock.findAll({
+      where: { athleteId: athlete.id, metric: "power", date: "2026-12-08" },
+      order: [["position", "ASC"]],
+    });
+    await inScope[0].update({ lowAbs: 123, highAbs: 321 });
+    await inScope[1].update({ lowAbs: null, highAbs: null, unit: null, thresholdId: null, thresholdValue: null });
+    const everything = () =>
+      db().query<Record<string, unknown>>(
+        "SELECT b.*, s.status FROM scheduled_blocks b JOIN scheduled_sessions s ON s.id = b.scheduled_session_id ORDER BY b.id",
+        { type: QueryTypes.SELECT },
+      );
+    const before = await everything();
+    await save(
+      {
+        protocol: "twenty_minute",
+        inputs: { meanW: "320" },
+        testedOn: "2026-11-20",
+        readiness: READY,
+        confirmed: true,
+      },
+      cookie,
+    );
+    const report = (await RescaleReport.findOne({ where: { athleteId: athlete.id, kind: "apply" } }))!;
+    const copied = await db().query<{ block_id: number }>(
+      "SELECT block_id FROM rescale_undo_steps WHERE report_id = ? ORDER BY block_id",
+      { replacements: [report.id], type: QueryTypes.SELECT },
+    );
+    expect(copied.map((c) => c.block_id)).toEqual([inScope[0].id, inScope[1].id].sort((a, b) => a - b));
+    // The rescale did change them (304 W: 95 % of 320), so the undo below has something to restore.
+    await inScope[0].reload();
+    expect(inScope[0].thresholdValue).toBe(304);
+    const test = (await FieldTest.findOne({ where: { athleteId: athlete.id } }))!;
+    const res = await run(
+      tests.action,
+      new Request(`${BASE}/athlete/tests`, {
+        method: "POST",
+        body: new URLSearchParams({ testId: String(test.id) }),
+        headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" },
+      }),
+    );
+    expect(payloadOf(res).ok).toBe(true);
+    // Every column of every step, in scope or not (other metrics, earlier dates, done and skipped sessions, the
+    // bystander's), is as it was before the rescale.
+    expect(await everything()).toEqual(before);
+    const undo = (await RescaleReport.findOne({ where: { athleteId: athlete.id, kind: "undo" } }))!;
+    expect([undo.sessionsChanged, undo.blocksChanged]).toEqual([report.sessionsChanged, report.blocksChanged]);
+  });
+
   it("a fault mid-transaction leaves everything as it was", async () => {
     const { athlete, cookie } = await scenario();
     const before = await snapshot();

@@ -20,15 +20,26 @@ const SCOPE = `
  * PostgreSQL the same doubles are forced (a bare 100.0 is numeric there) and FLOOR(x + 0.5) replaces ROUND, whose
  * float8 form rounds halves to even (180.5 → 180, one watt off).
  */
-const RESOLVE = (col: "low_pct" | "high_pct", table = "") => {
+const RESOLVE = (col: "low_pct" | "high_pct", table = "", value = ":value") => {
   if (dialect() === "postgres") {
-    const value = "CAST(:value AS DOUBLE PRECISION)";
+    const v = `CAST(${value} AS DOUBLE PRECISION)`;
     const pct = `CAST(${table}${col} AS DOUBLE PRECISION)`;
     const hundred = "CAST(100 AS DOUBLE PRECISION)";
-    return `CASE WHEN ${table}metric = 'pace' THEN CAST(FLOOR(${value} / (${pct} / ${hundred}) + 0.5) AS INTEGER) ELSE CAST(FLOOR(${pct} * ${value} / ${hundred} + 0.5) AS INTEGER) END`;
+    return `CASE WHEN ${table}metric = 'pace' THEN CAST(FLOOR(${v} / (${pct} / ${hundred}) + 0.5) AS INTEGER) ELSE CAST(FLOOR(${pct} * ${v} / ${hundred} + 0.5) AS INTEGER) END`;
   }
-  return `CASE WHEN ${table}metric = 'pace' THEN CAST(ROUND(:value / (${table}${col} / 100.0)) AS INTEGER) ELSE CAST(ROUND(${table}${col} * :value / 100.0) AS INTEGER) END`;
+  return `CASE WHEN ${table}metric = 'pace' THEN CAST(ROUND(${value} / (${table}${col} / 100.0)) AS INTEGER) ELSE CAST(ROUND(${table}${col} * ${value} / 100.0) AS INTEGER) END`;
 };
+
+/**
+ * Whether a step holds exactly what the old threshold gives it (NULL throughout when there was none): then the undo
+ * can recompute it instead of keeping a copy. Written as a CASE so a NULL comparison counts as "no", never unknown.
+ */
+const followsOld =
+  () => `CASE WHEN (:oldId IS NULL AND b.threshold_id IS NULL AND b.threshold_value IS NULL AND b.unit IS NULL
+      AND b.low_abs IS NULL AND b.high_abs IS NULL)
+    OR (b.threshold_id = :oldId AND b.threshold_value = :oldValue AND b.unit = :oldUnit
+      AND b.low_abs = ${RESOLVE("low_pct", "b.", ":oldValue")} AND b.high_abs = ${RESOLVE("high_pct", "b.", ":oldValue")})
+  THEN 1 ELSE 0 END`;
 
 async function nextThresholdAfter(
   athleteId: number,
@@ -113,9 +124,11 @@ export async function examplesFor(
 }
 
 /**
- * Saves a new threshold and rescales every step in scope with set-based SQL inside the caller's transaction: the
- * old values are copied to rescale_undo_steps (for an exact undo), the steps are recomputed from their stored
- * percentages, and each touched session's feed sequence moves on. Returns the report.
+ * Saves a new threshold and rescales every step in scope with set-based SQL inside the caller's transaction: one
+ * UPDATE recomputes the steps from their stored percentages and marks them with the new threshold's id, and each
+ * touched session's feed sequence moves on. For the exact undo the report keeps the threshold the steps followed
+ * before (rescale_undo_bases); only steps that did not hold exactly its numbers are copied (rescale_undo_steps).
+ * Returns the report.
  */
 export async function applyThreshold(
   p: {
@@ -130,14 +143,19 @@ export async function applyThreshold(
   },
   transaction: Transaction,
 ) {
-  const previous = await Threshold.findOne({
+  // An athlete has a handful of thresholds per metric: one read gives the latest (the report's "was"), the one in
+  // force on the new one's first day (what the steps in scope follow now) and the next one after it (the scope's end).
+  const history = await Threshold.findAll({
     where: { athleteId: p.athleteId, sport: p.sport, metric: p.metric },
     order: [
-      ["effectiveFrom", "DESC"],
-      ["id", "DESC"],
+      ["effectiveFrom", "ASC"],
+      ["id", "ASC"],
     ],
     transaction,
   });
+  const previous = history.at(-1) ?? null;
+  const inForce = history.findLast((t) => t.effectiveFrom <= p.from) ?? null;
+  const until = history.find((t) => t.effectiveFrom > p.from)?.effectiveFrom ?? null;
   const examples = await examplesFor(p, transaction);
   const threshold = await Threshold.create(
     {
@@ -171,7 +189,6 @@ export async function applyThreshold(
     },
     { transaction },
   );
-  const until = await nextThresholdAfter(p.athleteId, p.sport, p.metric, p.from, transaction);
   const replacements = {
     athleteId: p.athleteId,
     sport: p.sport,
@@ -182,37 +199,47 @@ export async function applyThreshold(
     unit: p.unit,
     reportId: report.id,
     thresholdId: threshold.id,
+    oldId: inForce?.id ?? null,
+    oldValue: inForce?.value ?? null,
+    oldUnit: inForce?.unit ?? null,
     now: sqlDate(new Date()),
   };
-  // Three set-based statements over the steps in scope: copy their old values (clustered on the report, so the copy
-  // costs about what the update does), recompute them from their percentages, move their sessions' feed sequence on.
   await db().query(
-    `INSERT INTO rescale_undo_steps (report_id, block_id, scheduled_session_id, old_low_abs, old_high_abs, old_unit, old_threshold_id, old_threshold_value)
-     SELECT :reportId, b.id, b.scheduled_session_id, b.low_abs, b.high_abs, b.unit, b.threshold_id, b.threshold_value ${SCOPE}`,
+    `INSERT INTO rescale_undo_bases (report_id, threshold_id, old_threshold_id, old_threshold_value, old_unit)
+     VALUES (:reportId, :thresholdId, :oldId, :oldValue, :oldUnit)`,
     { replacements, transaction },
   );
+  // Normally nothing: steps placed or moved under the old threshold hold its numbers. Steps that do not (stored by
+  // hand, or left from before a threshold was set without a rescale) keep their own values for the undo.
+  // The scope in the UPDATE's form below (its index, not a join per step to the sessions).
+  const STEPS = `FROM scheduled_blocks b
+     WHERE b.athlete_id = :athleteId AND b.sport = :sport AND b.metric = :metric AND b.low_pct IS NOT NULL
+       AND b.date >= :from AND (:until IS NULL OR b.date < :until)
+       AND b.scheduled_session_id NOT IN (SELECT id FROM scheduled_sessions WHERE athlete_id = :athleteId AND status <> 'planned')`;
+  // Normally nothing: steps placed or moved under the old threshold hold its numbers. Steps that do not (stored by
+  // hand, or left from before a threshold was set without a rescale) keep their own values for the undo.
   await db().query(
+    `INSERT INTO rescale_undo_steps (report_id, block_id, scheduled_session_id, old_low_abs, old_high_abs, old_unit, old_threshold_id, old_threshold_value)
+     SELECT :reportId, b.id, b.scheduled_session_id, b.low_abs, b.high_abs, b.unit, b.threshold_id, b.threshold_value ${STEPS}
+       AND ${followsOld()} = 0`,
+    { replacements, transaction },
+  );
+  const blocks = await db().query(
     // The same scope written for an UPDATE: the steps' own (athlete, date, metric) index drives it, and the few
-    // sessions no longer planned are excluded by id (going through the copied ids instead was 2–4× slower).
+    // sessions no longer planned are excluded by id. The new threshold id marks exactly the steps rewritten here
+    // (the threshold is new), which the feed sequence below and the undo find through its index.
     `UPDATE scheduled_blocks SET low_abs = ${RESOLVE("low_pct")}, high_abs = ${RESOLVE("high_pct")}, unit = :unit, threshold_id = :thresholdId, threshold_value = :value
      WHERE athlete_id = :athleteId AND sport = :sport AND metric = :metric AND low_pct IS NOT NULL
        AND date >= :from AND (:until IS NULL OR date < :until)
        AND scheduled_session_id NOT IN (SELECT id FROM scheduled_sessions WHERE athlete_id = :athleteId AND status <> 'planned')`,
-    { replacements, transaction },
+    { replacements, transaction, type: QueryTypes.BULKUPDATE },
   );
-  await db().query(
+  const sessions = await db().query(
     `UPDATE scheduled_sessions SET feed_sequence = feed_sequence + 1, updated_at = :now
-     WHERE id IN (SELECT scheduled_session_id FROM rescale_undo_steps WHERE report_id = :reportId)`,
-    { replacements, transaction },
+     WHERE id IN (SELECT scheduled_session_id FROM scheduled_blocks WHERE threshold_id = :thresholdId)`,
+    { replacements, transaction, type: QueryTypes.BULKUPDATE },
   );
-  const [counts] = await db().query<{ sessions: number; blocks: number }>(
-    "SELECT COUNT(DISTINCT scheduled_session_id) AS sessions, COUNT(*) AS blocks FROM rescale_undo_steps WHERE report_id = :reportId",
-    { replacements, type: QueryTypes.SELECT, transaction },
-  );
-  await report.update(
-    { sessionsChanged: Number(counts.sessions), blocksChanged: Number(counts.blocks) },
-    { transaction },
-  );
+  await report.update({ sessionsChanged: Number(sessions), blocksChanged: Number(blocks) }, { transaction });
   return { report, threshold, previous };
 }
 
@@ -226,30 +253,22 @@ export async function undoRescale(
   createdBy: number | null,
   transaction: Transaction,
 ) {
-  const replacements = { reportId: applyReport.id, now: sqlDate(new Date()) };
-  // Only steps that still exist and are still planned get their old values back; done and skipped ones keep what
-  // the athlete rode to.
-  const STILL = `FROM rescale_undo_steps u JOIN scheduled_blocks b ON b.id = u.block_id JOIN scheduled_sessions s ON s.id = b.scheduled_session_id
-     WHERE u.report_id = :reportId AND s.status = 'planned'`;
-  const [counts] = await db().query<{ sessions: number; blocks: number }>(
-    `SELECT COUNT(DISTINCT s.id) AS sessions, COUNT(*) AS blocks ${STILL}`,
+  const [base] = await db().query<{
+    threshold_id: number;
+    old_threshold_id: number | null;
+    old_threshold_value: number | null;
+    old_unit: string | null;
+  }>(
+    "SELECT threshold_id, old_threshold_id, old_threshold_value, old_unit FROM rescale_undo_bases WHERE report_id = ?",
     {
-      replacements,
+      replacements: [applyReport.id],
       type: QueryTypes.SELECT,
       transaction,
     },
   );
-  await db().query(
-    `UPDATE scheduled_sessions SET feed_sequence = feed_sequence + 1, updated_at = :now
-     WHERE status = 'planned' AND id IN (SELECT scheduled_session_id FROM rescale_undo_steps WHERE report_id = :reportId)`,
-    { replacements, transaction },
-  );
-  await db().query(
-    `UPDATE scheduled_blocks SET low_abs = u.old_low_abs, high_abs = u.old_high_abs, unit = u.old_unit, threshold_id = u.old_threshold_id, threshold_value = u.old_threshold_value
-     FROM rescale_undo_steps u, scheduled_sessions s
-     WHERE u.block_id = scheduled_blocks.id AND s.id = scheduled_blocks.scheduled_session_id AND u.report_id = :reportId AND s.status = 'planned'`,
-    { replacements, transaction },
-  );
+  const counts = base
+    ? await undoFromBase(applyReport, base, transaction)
+    : await undoFromCopies(applyReport, transaction);
   if (threshold) await threshold.destroy({ transaction });
   return RescaleReport.create(
     {
@@ -262,10 +281,86 @@ export async function undoRescale(
       newValue: applyReport.oldValue,
       unit: applyReport.unit,
       fromDate: applyReport.fromDate,
-      sessionsChanged: Number(counts.sessions),
-      blocksChanged: Number(counts.blocks),
+      sessionsChanged: counts.sessions,
+      blocksChanged: counts.blocks,
       createdBy,
     },
     { transaction },
   );
+}
+
+/**
+ * The steps still marked with the rescale's threshold and still planned go back: those it copied to their copy, the
+ * rest recomputed from the old threshold, by the same SQL that found they held its numbers. Done and skipped ones
+ * keep what the athlete rode to.
+ */
+async function undoFromBase(
+  applyReport: RescaleReport,
+  base: {
+    threshold_id: number;
+    old_threshold_id: number | null;
+    old_threshold_value: number | null;
+    old_unit: string | null;
+  },
+  transaction: Transaction,
+): Promise<ScopeCounts> {
+  const replacements = {
+    reportId: applyReport.id,
+    athleteId: applyReport.athleteId,
+    thresholdId: base.threshold_id,
+    oldId: base.old_threshold_id,
+    oldValue: base.old_threshold_value,
+    oldUnit: base.old_unit,
+    now: sqlDate(new Date()),
+  };
+  const PLANNED = "SELECT id FROM scheduled_sessions WHERE athlete_id = :athleteId AND status = 'planned'";
+  const [counts] = await db().query<{ sessions: number; blocks: number }>(
+    `SELECT COUNT(DISTINCT scheduled_session_id) AS sessions, COUNT(*) AS blocks FROM scheduled_blocks
+     WHERE threshold_id = :thresholdId AND scheduled_session_id IN (${PLANNED})`,
+    { replacements, type: QueryTypes.SELECT, transaction },
+  );
+  await db().query(
+    `UPDATE scheduled_sessions SET feed_sequence = feed_sequence + 1, updated_at = :now
+     WHERE status = 'planned' AND id IN (SELECT scheduled_session_id FROM scheduled_blocks WHERE threshold_id = :thresholdId)`,
+    { replacements, transaction },
+  );
+  await db().query(
+    `UPDATE scheduled_blocks SET low_abs = u.old_low_abs, high_abs = u.old_high_abs, unit = u.old_unit, threshold_id = u.old_threshold_id, threshold_value = u.old_threshold_value
+     FROM rescale_undo_steps u
+     WHERE u.report_id = :reportId AND u.block_id = scheduled_blocks.id AND scheduled_blocks.threshold_id = :thresholdId
+       AND scheduled_blocks.scheduled_session_id IN (${PLANNED})`,
+    { replacements, transaction },
+  );
+  await db().query(
+    `UPDATE scheduled_blocks SET low_abs = ${RESOLVE("low_pct", "", ":oldValue")}, high_abs = ${RESOLVE("high_pct", "", ":oldValue")},
+       unit = :oldUnit, threshold_id = :oldId, threshold_value = :oldValue
+     WHERE threshold_id = :thresholdId AND scheduled_session_id IN (${PLANNED})`,
+    { replacements, transaction },
+  );
+  return { sessions: Number(counts.sessions), blocks: Number(counts.blocks) };
+}
+
+/** Reports saved before rescale_undo_bases kept a copy of every step they changed. */
+async function undoFromCopies(applyReport: RescaleReport, transaction: Transaction): Promise<ScopeCounts> {
+  const replacements = { reportId: applyReport.id, now: sqlDate(new Date()) };
+  // Only steps that still exist and are still planned get their old values back; done and skipped ones keep what
+  // the athlete rode to.
+  const STILL = `FROM rescale_undo_steps u JOIN scheduled_blocks b ON b.id = u.block_id JOIN scheduled_sessions s ON s.id = b.scheduled_session_id
+     WHERE u.report_id = :reportId AND s.status = 'planned'`;
+  const [counts] = await db().query<{ sessions: number; blocks: number }>(
+    `SELECT COUNT(DISTINCT s.id) AS sessions, COUNT(*) AS blocks ${STILL}`,
+    { replacements, type: QueryTypes.SELECT, transaction },
+  );
+  await db().query(
+    `UPDATE scheduled_sessions SET feed_sequence = feed_sequence + 1, updated_at = :now
+     WHERE status = 'planned' AND id IN (SELECT scheduled_session_id FROM rescale_undo_steps WHERE report_id = :reportId)`,
+    { replacements, transaction },
+  );
+  await db().query(
+    `UPDATE scheduled_blocks SET low_abs = u.old_low_abs, high_abs = u.old_high_abs, unit = u.old_unit, threshold_id = u.old_threshold_id, threshold_value = u.old_threshold_value
+     FROM rescale_undo_steps u, scheduled_sessions s
+     WHERE u.block_id = scheduled_blocks.id AND s.id = scheduled_blocks.scheduled_session_id AND u.report_id = :reportId AND s.status = 'planned'`,
+    { replacements, transaction },
+  );
+  return { sessions: Number(counts.sessions), blocks: Number(counts.blocks) };
 }

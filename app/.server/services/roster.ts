@@ -60,6 +60,11 @@ export async function rosterFor(coachId: number) {
     return by;
   };
   const rowsBy = group(dayRows);
+  const thresholdsBy = new Map<number, Threshold[]>();
+  for (const t of thresholds) {
+    if (!thresholdsBy.has(t.athleteId)) thresholdsBy.set(t.athleteId, []);
+    thresholdsBy.get(t.athleteId)!.push(t);
+  }
   const plannedBy = group(plannedTests);
   const lastBy = new Map(lastTests.map((r) => [Number(r.athlete_id), r.tested_on]));
   const powerBands = defaultBandSet("bike:power");
@@ -68,13 +73,14 @@ export async function rosterFor(coachId: number) {
     athletes: athletes.map((a) => {
       const today = todays.get(a.id)!;
       const latestBy = new Map<string, Threshold>();
-      for (const t of thresholds)
-        if (t.athleteId === a.id && t.effectiveFrom <= today) latestBy.set(`${t.sport}:${t.metric}`, t);
+      for (const t of thresholdsBy.get(a.id) ?? [])
+        if (t.effectiveFrom <= today) latestBy.set(`${t.sport}:${t.metric}`, t);
       const lastTest = lastBy.get(a.id) ?? null;
       const planned = (plannedBy.get(a.id) ?? []).find((p) => p.date >= today);
       const retest = retestFrom(lastTest, planned);
       const from = addDays(today, -27);
-      const mine = (rowsBy.get(a.id) ?? []).filter((r) => r.date >= warmStart(from) && r.date <= today);
+      const warmFrom = warmStart(from);
+      const mine = (rowsBy.get(a.id) ?? []).filter((r) => r.date >= warmFrom && r.date <= today);
       // Counts and the ratio do not depend on band minutes, so no ride files are read for the roster.
       const load = rosterFigures(seriesFromRows({ rows: mine, rides: new Map(), powerBands, from, to: today, today }));
       return {
