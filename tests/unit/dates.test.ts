@@ -40,3 +40,33 @@ describe("calendar-date helpers", () => {
     expect(todayIn("America/Los_Angeles", now)).toBe("2026-12-02");
   });
 });
+
+// Reference: date-fns on UTCDate (a general-purpose date library); the day helpers do millisecond arithmetic for
+// speed and must agree with it on every day of 1890–2109 (leap years, century rules and negative epochs included).
+describe("day helpers against date-fns", () => {
+  it("agree on every day of 1890–2109", async () => {
+    const { UTCDate } = await import("@date-fns/utc");
+    const fns = await import("date-fns");
+    const iso = (d: Date) => fns.formatISO(d, { representation: "date" });
+    const start = new UTCDate("1890-01-01T00:00:00Z");
+    const mismatches: string[] = [];
+    for (let i = 0; i < 220 * 366; i += 3) {
+      const d = fns.addDays(start, i);
+      const s = iso(d);
+      if (s > "2109-12-31") break;
+      const checks: [string, unknown, unknown][] = [
+        ["addDays +45", addDays(s, 45), iso(fns.addDays(d, 45))],
+        ["addDays −400", addDays(s, -400), iso(fns.addDays(d, -400))],
+        ["weekday", weekday(s), fns.getISODay(d) - 1],
+        ["mondayOf", mondayOf(s), iso(fns.startOfISOWeek(d))],
+        [
+          "daysBetween",
+          daysBetween("2000-02-29", s),
+          fns.differenceInCalendarDays(d, new UTCDate("2000-02-29T00:00:00Z")),
+        ],
+      ];
+      for (const [name, got, want] of checks) if (got !== want) mismatches.push(`${name} ${s}: ${got} ≠ ${want}`);
+    }
+    expect(mismatches.slice(0, 5)).toEqual([]);
+  });
+});
