@@ -209,8 +209,6 @@ export async function applyThreshold(
      VALUES (:reportId, :thresholdId, :oldId, :oldValue, :oldUnit)`,
     { replacements, transaction },
   );
-  // Normally nothing: steps placed or moved under the old threshold hold its numbers. Steps that do not (stored by
-  // hand, or left from before a threshold was set without a rescale) keep their own values for the undo.
   // The scope in the UPDATE's form below (its index, not a join per step to the sessions).
   const STEPS = `FROM scheduled_blocks b
      WHERE b.athlete_id = :athleteId AND b.sport = :sport AND b.metric = :metric AND b.low_pct IS NOT NULL
