@@ -28,6 +28,12 @@ export default tseslint.config(
     rules: { ...reactHooks.configs.recommended.rules, ...jsxA11y.flatConfigs.recommended.rules },
   },
   {
+    // Hooks kept in .ts modules (no JSX of their own) follow the same hooks rules.
+    files: ["app/**/use-*.ts"],
+    plugins: { "react-hooks": reactHooks },
+    rules: reactHooks.configs.recommended.rules,
+  },
+  {
     // Tests read untyped JSON replies and build loose fixtures; strict typing there would only add casts.
     files: ["tests/**/*.ts"],
     rules: { "@typescript-eslint/no-explicit-any": "off" },

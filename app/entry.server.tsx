@@ -2,8 +2,12 @@ import { PassThrough } from "node:stream";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
 import { renderToPipeableStream } from "react-dom/server";
-import { ServerRouter, type AppLoadContext, type EntryContext } from "react-router";
+import { ServerRouter, type EntryContext, type RouterContextProvider } from "react-router";
+import { cspNonceContext } from "./.server/security/load-context";
 import { NonceContext } from "./lib/nonce";
+
+// The HTTP server builds each request's context through the build, so the context keys are the routes' own.
+export { requestContext } from "./.server/security/load-context";
 
 export const streamTimeout = 5_000;
 
@@ -17,11 +21,11 @@ export default function handleRequest(
   responseStatusCode: number,
   responseHeaders: Headers,
   routerContext: EntryContext,
-  loadContext: AppLoadContext,
+  loadContext: RouterContextProvider,
 ) {
   if (request.method.toUpperCase() === "HEAD")
     return new Response(null, { status: responseStatusCode, headers: responseHeaders });
-  const nonce = typeof loadContext?.cspNonce === "string" ? loadContext.cspNonce : undefined;
+  const nonce = loadContext.get(cspNonceContext) ?? undefined;
 
   return new Promise<Response>((resolve, reject) => {
     let shellRendered = false;

@@ -3,7 +3,7 @@ import express from "express";
 import type { ServerBuild } from "react-router";
 import { env } from "../app/.server/env";
 import { securityHeaders } from "../app/.server/security/headers";
-import { crossSiteGuard, getLoadContext } from "./server";
+import { crossSiteGuard, loadContextFor } from "./server";
 
 /** Vite in middleware mode with hot reload, in the same process as the fakes so the dev outbox sees caught mail. */
 export async function createDevServer() {
@@ -12,12 +12,7 @@ export async function createDevServer() {
   app.use(securityHeaders({ appUrl: env().appUrl, csp: false }));
   app.use(crossSiteGuard);
   app.use(vite.middlewares);
-  app.all(
-    "*",
-    createRequestHandler({
-      build: () => vite.ssrLoadModule("virtual:react-router/server-build") as Promise<ServerBuild>,
-      getLoadContext,
-    }),
-  );
+  const build = () => vite.ssrLoadModule("virtual:react-router/server-build") as Promise<ServerBuild>;
+  app.all("*", createRequestHandler({ build, getLoadContext: loadContextFor(build) }));
   return app;
 }

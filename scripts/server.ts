@@ -1,10 +1,11 @@
 import path from "node:path";
 import { pathToFileURL } from "node:url";
-import { createRequestHandler } from "@react-router/express";
+import { createRequestHandler, type GetLoadContextFunction } from "@react-router/express";
 import compression from "compression";
 import express, { type RequestHandler } from "express";
 import type { ServerBuild } from "react-router";
 import { env } from "../app/.server/env";
+import type { requestContext } from "../app/.server/security/load-context";
 import { isCrossSiteWrite } from "../app/.server/http";
 import { securityHeaders } from "../app/.server/security/headers";
 
@@ -24,7 +25,7 @@ export async function createAppServer(buildDir = path.resolve("build")) {
   app.use(compression({ threshold: 1024 }));
   app.use("/assets", express.static(path.join(buildDir, "client/assets"), { immutable: true, maxAge: "1y" }));
   app.use(express.static(path.join(buildDir, "client"), { maxAge: "1h", index: false }));
-  app.all("*", createRequestHandler({ build, getLoadContext }));
+  app.all("*", createRequestHandler({ build, getLoadContext: loadContextFor(build) }));
   return app;
 }
 
@@ -43,10 +44,19 @@ export const crossSiteGuard: RequestHandler = (req, res, next) => {
   next();
 };
 
-/** What every loader and action gets besides the request: the client's address (for per-client limits). */
-export function getLoadContext(req: express.Request, res: express.Response) {
-  return {
-    clientAddress: req.ip ?? req.socket.remoteAddress ?? undefined,
-    cspNonce: res.locals.cspNonce as string | undefined,
+/**
+ * What every loader and action gets besides the request: the client's address (for per-client limits) and the
+ * response's CSP nonce. The context is made by the build's own `requestContext` (exported from entry.server.tsx):
+ * its keys must be the ones the built routes read, not this process's copy of the source module.
+ */
+export function loadContextFor(build: ServerBuild | (() => Promise<ServerBuild>)): GetLoadContextFunction {
+  return async (req, res) => {
+    const entry = (typeof build === "function" ? await build() : build).entry.module as unknown as {
+      requestContext: typeof requestContext;
+    };
+    return entry.requestContext({
+      clientAddress: req.ip ?? req.socket.remoteAddress ?? undefined,
+      cspNonce: res.locals.cspNonce as string | undefined,
+    });
   };
 }

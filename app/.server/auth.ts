@@ -5,7 +5,7 @@ import { FormStrategy } from "remix-auth-form";
 import { z } from "zod";
 import { writeTransaction } from "./db";
 import { env } from "./env";
-import { forbidden, requireSameOrigin } from "./http";
+import { forbidden, pageUrl, requireSameOrigin } from "./http";
 import { SignInSession, User, type Role } from "./models";
 import { clear, consume, giveBack } from "./security/rate-limits";
 import { hashToken, newToken } from "./tokens";
@@ -124,7 +124,7 @@ export async function currentSignInKey(request: Request): Promise<string | null>
 export async function requireUser(request: Request): Promise<User> {
   const user = await getUser(request);
   if (!user) {
-    const url = new URL(request.url);
+    const url = pageUrl(request);
     const back = url.pathname + url.search;
     throw redirect(`/login?redirectTo=${encodeURIComponent(back)}`);
   }

@@ -26,6 +26,23 @@ export function safeRedirect(to: FormDataEntryValue | string | null | undefined,
   }
 }
 
+/**
+ * The page a request is for. Loaders and actions get the raw request (future.v8_passThroughRequests): a data
+ * request (client navigation, fetcher) carries React Router's `.data` suffix (`_.data` after a trailing slash,
+ * future.v8_trailingSlashAwareDataRequests) and its `_routes` and empty `index` parameters. Routes have the same
+ * address as their `url` argument; this is for helpers that get only the request (requireUser's way back after
+ * sign-in), and strips them the way React Router 7.18's own normalisation does.
+ */
+export function pageUrl(request: Request): URL {
+  const url = new URL(request.url);
+  url.pathname = url.pathname.endsWith("/_.data") ? url.pathname.slice(0, -6) : url.pathname.replace(/\.data$/, "");
+  url.searchParams.delete("_routes");
+  const index = url.searchParams.getAll("index").filter(Boolean);
+  url.searchParams.delete("index");
+  for (const v of index) url.searchParams.append("index", v);
+  return url;
+}
+
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
 export const isSafeMethod = (method: string) => SAFE_METHODS.has(method.toUpperCase());
 

@@ -1,3 +1,5 @@
+// Over 300 lines on purpose: one chart per figure the load page shows, all drawn from the same series and range
+// form; split per chart, each module would only re-import the same data type, colours and axis formatting.
 import { Form, useLocation, useNavigation } from "react-router";
 import {
   Area,

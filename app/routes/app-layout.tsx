@@ -7,11 +7,10 @@ import { bandSetsFor } from "~/.server/services/bands";
 import { mustEnrol } from "~/.server/services/two-step";
 import type { Route } from "./+types/app-layout";
 
-export async function loader({ request }: Route.LoaderArgs) {
+export async function loader({ request, url }: Route.LoaderArgs) {
   const user = await requireUser(request);
   // A studio that requires two-step sign-in keeps its coaches and admins on the set-up page until it is on.
-  if (new URL(request.url).pathname !== "/account/security" && (await mustEnrol(user)))
-    throw redirect("/account/security");
+  if (url.pathname !== "/account/security" && (await mustEnrol(user))) throw redirect("/account/security");
   return {
     user: { name: user.name, role: user.role, email: user.email },
     devMail: env().fakes && (!env().demoInProduction || user.role === "admin"),

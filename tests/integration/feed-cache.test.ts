@@ -1,4 +1,5 @@
 import { describe, expect, it, vi } from "vitest";
+import { RouterContextProvider } from "react-router";
 import { BandSetRow, CoachAthlete, FeedToken, ScheduledSession, User } from "~/.server/models";
 import * as feedService from "~/.server/services/feed";
 import { cachedFeed, feedFingerprint, noteFeedUse, rotateFeed } from "~/.server/services/feed";
@@ -11,7 +12,7 @@ const fetchFeed = async (token: string) =>
   (await feed.loader({
     request: new Request(`http://localhost:3999/feed/${token}.ics`),
     params: { file: `${token}.ics` },
-    context: {},
+    context: new RouterContextProvider(),
   } as never)) as Response;
 
 async function athleteWithFeed() {

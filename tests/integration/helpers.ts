@@ -1,5 +1,8 @@
 import { hashPassword } from "~/.server/auth";
+import { pageUrl } from "~/.server/http";
 import { CoachAthlete, User, type Role } from "~/.server/models";
+import { requestContext } from "~/.server/security/load-context";
+import type { RouterContextProvider } from "react-router";
 
 export const BASE = "http://localhost:3999";
 
@@ -49,7 +52,8 @@ export function getRequest(path: string, cookie?: string) {
 
 let clients = 0;
 /** A load context as scripts/server.ts builds it; each call is a new client unless one is given. */
-export const clientContext = (clientAddress = `198.51.100.${++clients % 250}-${clients}`) => ({ clientAddress });
+export const clientContext = (clientAddress = `198.51.100.${++clients % 250}-${clients}`) =>
+  requestContext({ clientAddress });
 
 const bare = new WeakSet<Request>();
 /** Marks a request to be sent as a non-browser client would: run() adds no Origin header to it. */
@@ -59,7 +63,8 @@ export function withoutOrigin(request: Request) {
 }
 
 /**
- * Route functions are called the way React Router calls them; thrown Responses are returned for inspection.
+ * Route functions are called the way React Router calls them (the raw request beside its page `url`); thrown
+ * Responses are returned for inspection.
  * Requests to this site get a same-origin Origin header, as a browser on one of our pages sends, unless they
  * carry one already or were marked withoutOrigin().
  */
@@ -67,7 +72,7 @@ export async function run<T>(
   fn: (args: any) => Promise<T>,
   request: Request,
   params: Record<string, string> = {},
-  context: Record<string, unknown> = clientContext(),
+  context: RouterContextProvider = clientContext(),
 ) {
   if (
     !bare.has(request) &&
@@ -78,7 +83,7 @@ export async function run<T>(
     request.headers.set("Origin", BASE);
   }
   try {
-    return await fn({ request, params, context });
+    return await fn({ request, url: pageUrl(request), params, context });
   } catch (err) {
     if (err instanceof Response) return err;
     throw err;

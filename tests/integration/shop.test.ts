@@ -3,6 +3,7 @@ import net from "node:net";
 import Stripe from "stripe";
 import { Op } from "sequelize";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { RouterContextProvider } from "react-router";
 import { resetEnvCache } from "~/.server/env";
 import { startFakePayments, TEST_CARDS } from "~/.server/fakes/payments";
 import {
@@ -53,7 +54,7 @@ const post = async (body: string, signature: string | null) => {
       headers: signature === null ? {} : { "stripe-signature": signature },
     }),
     params: {},
-    context: {},
+    context: new RouterContextProvider(),
   } as never)) as Response;
   await runOrderFollowUps();
   return res;

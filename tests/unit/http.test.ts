@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { isCrossSiteWrite, safeRedirect } from "~/.server/http";
+import { isCrossSiteWrite, pageUrl, safeRedirect } from "~/.server/http";
 import { looksLikeToken, newToken, hashToken } from "~/.server/tokens";
 
 describe("safeRedirect", () => {
@@ -14,6 +14,25 @@ describe("safeRedirect", () => {
     [null, "/"],
   ])("%s → %s", (input, expected) => {
     expect(safeRedirect(input as string | null)).toBe(expected);
+  });
+});
+
+// The data-request addresses are React Router 7.18's (single fetch with trailing-slash-aware data requests); the
+// expected pages are what its own normalisation (getNormalizedPath, stripIndexParam) hands loaders without
+// future.v8_passThroughRequests.
+describe("pageUrl", () => {
+  it.each([
+    ["/coach/plans", "/coach/plans"],
+    ["/coach/plans.data", "/coach/plans"],
+    ["/coach/plans.data?_routes=routes%2Fcoach%2Fplans", "/coach/plans"],
+    ["/_.data", "/"],
+    ["/shop/_.data?sport=bike", "/shop/?sport=bike"],
+    ["/coach/athletes/7/calendar.data?from=2026-03-02&_routes=root", "/coach/athletes/7/calendar?from=2026-03-02"],
+    ["/coach.data?index", "/coach"],
+    ["/coach?index=&index=kept", "/coach?index=kept"],
+  ])("%s → %s", (raw, page) => {
+    const url = pageUrl(new Request(`http://localhost:3999${raw}`));
+    expect(url.pathname + url.search).toBe(page);
   });
 });
 

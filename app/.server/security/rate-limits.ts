@@ -2,7 +2,8 @@ import crypto from "node:crypto";
 import { QueryTypes } from "sequelize";
 import { RateLimiterRes } from "rate-limiter-flexible";
 import RateLimiterStoreAbstract from "rate-limiter-flexible/lib/RateLimiterStoreAbstract.js";
-import type { AppLoadContext } from "react-router";
+import type { RouterContextProvider } from "react-router";
+import { clientAddressContext } from "./load-context";
 import { db, writeStatement, writeTransaction } from "../db";
 import { DomainError } from "../errors";
 
@@ -219,9 +220,8 @@ export async function used(name: LimitName, key: string): Promise<number> {
  * The client a request comes from: the socket address the server saw (behind a local proxy, the forwarded one),
  * put in the load context by scripts/server.ts. Requests without one share a single bucket.
  */
-export function clientKey(context: AppLoadContext | undefined | null): string {
-  const address = (context as { clientAddress?: unknown } | undefined)?.clientAddress;
-  return typeof address === "string" && address ? address : "unknown-client";
+export function clientKey(context: Readonly<RouterContextProvider> | undefined | null): string {
+  return context?.get(clientAddressContext) || "unknown-client";
 }
 
 /** Deletes counters whose window ended; the server runs it hourly so the table holds only live windows. */

@@ -1,3 +1,5 @@
+// Over 300 lines on purpose: the grid, its day cells and chips share one drag (dnd-kit context, keyboard stepping,
+// announcements, the pending move) and are used nowhere else; apart, that state would be threaded through props.
 import {
   type CollisionDetection,
   DndContext,
