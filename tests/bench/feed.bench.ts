@@ -4,6 +4,7 @@ import { hashPassword } from "~/.server/auth";
 import { db, sqlDate } from "~/.server/db";
 import { User } from "~/.server/models";
 import { rotateFeed } from "~/.server/services/feed";
+import { LIMITS } from "~/.server/security/rate-limits";
 import { addDays, todayIn } from "~/lib/dates";
 import * as feed from "~/routes/feed";
 import type { BenchFigure } from "./lib";
@@ -44,13 +45,16 @@ export async function run(): Promise<BenchFigure[]> {
   const etag = first.headers.get("etag")!;
   const staticBody = await first.text();
 
-  // The feed's per-token limit would turn most of the load into 429s; the bench measures the feed itself.
+  // The feed's per-token limit would turn most of the load into 429s; the bench measures the feed itself. The limit
+  // is raised rather than emptied per request, so each request still pays the same counting as in production (one
+  // upsert) and no extra write of the harness's own.
+  (LIMITS.feedToken as { points: number }).points = 1e9;
+  globalThis.__pacewrightLimiters?.delete("feedToken");
   const server = http.createServer(async (req, res) => {
     if (req.url === "/static") {
       res.writeHead(200, { "Content-Type": "text/calendar; charset=utf-8" }).end(staticBody);
       return;
     }
-    await db().query("DELETE FROM rate_limits");
     // Every request builds the feed from the database, as the first fetch after any change does.
     if (req.url === "/feed") globalThis.__pacewrightFeedCache?.clear();
     req.url = "/feed";
@@ -112,7 +116,7 @@ export async function run(): Promise<BenchFigure[]> {
       ratio: r1(cached / fixed),
       aim: 0.8,
       higherIsBetter: true,
-      note: `${Math.round(cached)} req/s; every feed request also pays the harness's DELETE FROM rate_limits and one per-token limit upsert, which the static side does not`,
+      note: `${Math.round(cached)} req/s; every feed request also pays its per-token limit upsert (a database write), which the static side does not`,
     },
     {
       name: "feed 304 path (If-None-Match)",
