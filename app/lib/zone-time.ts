@@ -1,13 +1,12 @@
+import { dateFormat } from "~/lib/format";
+
 /**
  * Wall-clock times in IANA zones through one cached Intl.DateTimeFormat per zone. A feed rebuild converts hundreds
  * of session times; building each through a zoned date object took several offset lookups per event.
  */
-const formats = new Map<string, Intl.DateTimeFormat>();
-
-function format(zone: string) {
-  let f = formats.get(zone);
-  if (!f) {
-    f = new Intl.DateTimeFormat("en-US", {
+const format = (zone: string) =>
+  dateFormat(
+    {
       timeZone: zone,
       hourCycle: "h23",
       year: "numeric",
@@ -16,11 +15,9 @@ function format(zone: string) {
       hour: "numeric",
       minute: "numeric",
       second: "numeric",
-    });
-    formats.set(zone, f);
-  }
-  return f;
-}
+    },
+    "en-US",
+  );
 
 /** The zone's offset from UTC at an instant, in minutes (east positive: Berlin in summer is 120). */
 export function zoneOffsetMinutes(zone: string, ms: number): number {
