@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { isIsoDate } from "~/lib/dates";
 import { PHASES } from "~/lib/training";
 
 // Labels live in a module without zod, so pages that only show plans (the board) do not load the schemas.
@@ -134,3 +135,31 @@ export function recurrenceSummary(days: number[], fromWeek: number, toWeek: numb
   const list = names.length <= 1 ? names.join("") : `${names.slice(0, -1).join(", ")} and ${names.at(-1)}`;
   return `every ${list}, ${fromWeek === toWeek ? `week ${fromWeek}` : `weeks ${fromWeek}–${toWeek}`}`;
 }
+
+/** Placing a plan on athletes' calendars; the choices arrive once the coach has seen what placing would do. */
+export const assignSchema = z
+  .object({
+    athleteIds: z.preprocess(
+      (v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]),
+      z.array(z.coerce.number().int().positive()).min(1, "Tick at least one athlete."),
+    ),
+    mode: z.enum(["start", "event"], { error: "Choose how to align the plan." }),
+    date: z.string({ error: "Choose a date." }).refine(isIsoDate, "Choose a date."),
+    // Present once the coach has seen the checks and answered them.
+    decided: z.literal("1").optional(),
+    overlap: z.enum(["replace", "alongside"], { error: "Choose replace or alongside." }).optional(),
+    replaceFrom: z
+      .string()
+      .refine(isIsoDate, "Choose the date to replace from.")
+      .optional()
+      .or(z.literal("").transform(() => undefined)),
+    confirmSports: z.literal("on").optional(),
+    confirmTests: z.literal("on").optional(),
+  })
+  .refine((v) => v.overlap !== "replace" || v.replaceFrom, {
+    path: ["replaceFrom"],
+    message: "Choose the date to replace from.",
+  });
+
+/** Pushing plan changes to the calendars that follow it: nothing to fill in, the button says it all. */
+export const pushSchema = z.object({ intent: z.literal("push") });
