@@ -3,6 +3,9 @@ import { useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
+import { alarmSchema, trainingTimesSchema } from "~/lib/feed-forms";
+import { fieldProps, firstMessage, type FormReply, messageOf, useSchemaForm } from "~/lib/forms";
+import type { action } from "~/routes/athlete/feed";
 
 export interface FeedSettingsData {
   feed: { https: string; webcal: string; qrSvg: string; createdAt: string; lastUsedAt: string | null } | null;
@@ -13,7 +16,7 @@ export interface FeedSettingsData {
 
 /** The private calendar link with copy, QR code, rotate and revoke; athletes also choose a reminder alarm. */
 export function FeedSettings({ data }: { data: FeedSettingsData }) {
-  const fetcher = useFetcher<{ ok: boolean; message: string }>();
+  const fetcher = useFetcher<typeof action>();
   const [copied, setCopied] = useState<string | null>(null);
   const copy = async (text: string, which: string) => {
     try {
@@ -27,11 +30,7 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
   return (
     <div className="grid gap-6 lg:grid-cols-[1fr_18rem]">
       <Card>
-        {fetcher.data && (
-          <div className="mb-4">
-            <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>
-          </div>
-        )}
+        <ReplyNote reply={fetcher.data} />
         {feed ? (
           <div className="flex flex-col gap-4 text-sm">
             <p>
@@ -92,27 +91,7 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
             </button>
           </fetcher.Form>
         )}
-        {!data.forCoach && (
-          <fetcher.Form method="post" className="mt-6 flex flex-wrap items-end gap-2 border-t border-line pt-4 text-sm">
-            <label className="flex flex-col gap-1">
-              <span className="font-medium">Reminder before timed sessions</span>
-              <select
-                name="alarmMinutes"
-                defaultValue={data.alarmMinutes ?? ""}
-                className="rounded-lg border border-line bg-white px-3 py-2"
-              >
-                <option value="">None</option>
-                <option value="15">15 minutes</option>
-                <option value="30">30 minutes</option>
-                <option value="60">1 hour</option>
-                <option value="120">2 hours</option>
-              </select>
-            </label>
-            <button name="intent" value="alarm" className={buttonClass("secondary")}>
-              Save
-            </button>
-          </fetcher.Form>
-        )}
+        {!data.forCoach && <AlarmForm minutes={data.alarmMinutes} />}
         {!data.forCoach && <TrainingTimes times={data.trainingTimes} />}
       </Card>
       {feed && (
@@ -131,19 +110,73 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
   );
 }
 
+/** What a reply says: the saved note, or the refusal (whichever field it names). */
+function ReplyNote({ reply }: { reply: FormReply | undefined }) {
+  const saved = reply && "message" in reply ? (reply.message as string | undefined) : undefined;
+  const refused = firstMessage(reply);
+  if (!refused && !saved) return null;
+  return (
+    <div className="mb-4">
+      <FormMessage tone={refused ? "error" : "ok"}>{refused ?? saved}</FormMessage>
+    </div>
+  );
+}
+
+/** The reminder alarm on timed sessions; its answer stands beside it. */
+function AlarmForm({ minutes }: { minutes: number | null }) {
+  const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useSchemaForm(alarmSchema, fetcher.data, { id: "feed-alarm" });
+  const error = fieldProps(fields.alarmMinutes).error;
+  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
+  return (
+    <fetcher.Form
+      method="post"
+      id={form.id}
+      onSubmit={form.onSubmit}
+      noValidate
+      className="mt-6 flex flex-wrap items-end gap-2 border-t border-line pt-4 text-sm"
+    >
+      <label className="flex flex-col gap-1">
+        <span className="font-medium">Reminder before timed sessions</span>
+        <select
+          name={fields.alarmMinutes.name}
+          defaultValue={minutes ?? ""}
+          aria-invalid={error ? true : undefined}
+          className={`rounded-lg border bg-white px-3 py-2 ${error ? "border-brick" : "border-line"}`}
+        >
+          <option value="">None</option>
+          <option value="15">15 minutes</option>
+          <option value="30">30 minutes</option>
+          <option value="60">1 hour</option>
+          <option value="120">2 hours</option>
+        </select>
+      </label>
+      <button name="intent" value="alarm" className={buttonClass("secondary")}>
+        Save
+      </button>
+      {(error ?? saved) && (
+        <span role={error ? "alert" : "status"} className={`self-center ${error ? "text-brick" : "text-teal-dark"}`}>
+          {error ?? saved}
+        </span>
+      )}
+    </fetcher.Form>
+  );
+}
+
 const WEEKDAYS = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"];
 
 /** When the athlete usually trains on each weekday; a session's own time on the plan still comes first. */
 function TrainingTimes({ times }: { times: (string | null)[] }) {
-  const fetcher = useFetcher<{ ok: boolean; message: string; fieldErrors?: Record<string, string> }>();
-  const [values, setValues] = useState(() => times.map((t) => t ?? ""));
-  const [sent, setSent] = useState<string[] | null>(null);
-  const errors = fetcher.data?.fieldErrors ?? {};
+  const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useSchemaForm(trainingTimesSchema, fetcher.data, { id: "training-times" });
+  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
+  const refused = messageOf(fetcher.data);
   return (
     <fetcher.Form
       method="post"
+      id={form.id}
+      onSubmit={form.onSubmit}
       className="mt-6 border-t border-line pt-4 text-sm"
-      onSubmit={() => setSent(values)}
       noValidate
     >
       <fieldset>
@@ -152,26 +185,22 @@ function TrainingTimes({ times }: { times: (string | null)[] }) {
           With a time, a session becomes an event that starts then and lasts as long as the session, in your time zone.
           Leave a day empty to keep its sessions all-day.
         </p>
-        {fetcher.data && (!fetcher.data.fieldErrors || sent === values) && (
-          <p
-            role={fetcher.data.ok ? "status" : "alert"}
-            className={`mt-2 ${fetcher.data.ok ? "text-teal-dark" : "text-brick"}`}
-          >
-            {fetcher.data.message}
+        {(refused ?? saved) && (
+          <p role={refused ? "alert" : "status"} className={`mt-2 ${refused ? "text-brick" : "text-teal-dark"}`}>
+            {refused ?? saved}
           </p>
         )}
         <div className="mt-2 grid grid-cols-1 gap-2 sm:grid-cols-2">
           {WEEKDAYS.map((day, i) => {
-            // An error belongs to the value that was sent; editing the field clears it.
-            const error = sent && sent[i] === values[i] ? errors[`time-${i}`] : undefined;
+            // conform checks the field again as it is corrected, so a fixed time loses its message at once.
+            const error = fieldProps(fields[`time-${i}` as keyof typeof fields]).error;
             return (
               <label key={day} className="flex items-center justify-between gap-2">
                 <span>{day}</span>
                 <input
                   type="time"
                   name={`time-${i}`}
-                  value={values[i]}
-                  onChange={(e) => setValues((v) => v.map((x, j) => (j === i ? e.target.value : x)))}
+                  defaultValue={times[i] ?? ""}
                   aria-invalid={error ? true : undefined}
                   className={`rounded-lg border px-2 py-1 ${error ? "border-brick" : "border-line"}`}
                 />

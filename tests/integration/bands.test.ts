@@ -11,7 +11,7 @@ import * as loadApi from "~/routes/api/athlete-load";
 import { addDays, todayIn } from "~/lib/dates";
 import { bandOfValue, defaultBandSet, minutesPerBand, valueHistogram } from "~/lib/training";
 import { twentyMinuteTestRide, toCsv } from "../../db/demo/rides";
-import { BASE, formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { BASE, fieldErrorsOf, formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 /** A coach with one athlete (250 W threshold) and a session tomorrow: warm-up at 55–65 %, 3 × 10 min at 88–92 %. */
 async function coachedAthlete() {
@@ -74,14 +74,13 @@ async function coachedAthlete() {
   return { coach, athlete, session: s };
 }
 
-const form = (set: string, rows: [string, string, string, string][], intent = "save") => ({
-  set,
-  intent,
-  name: rows.map((r) => r[0]),
-  fromPct: rows.map((r) => r[1]),
-  toPct: rows.map((r) => r[2]),
-  meaning: rows.map((r) => r[3]),
-});
+const form = (set: string, rows: [string, string, string, string][], intent = "save") => {
+  const f: Record<string, string> = { set, intent };
+  rows.forEach((r, i) =>
+    (["name", "fromPct", "toPct", "meaning"] as const).forEach((k, j) => (f[`bands[${i}].${k}`] = r[j])),
+  );
+  return f;
+};
 
 const mine: [string, string, string, string][] = [
   ["Gentle", "0", "70", "Very easy."],
@@ -107,7 +106,7 @@ describe("coach-edited band sets", () => {
       bandsPage.action,
       formRequest("/coach/bands", form("bike:power", mine), { cookie: coachCookie }),
     );
-    expect(payloadOf(saved).ok).toBe(true);
+    expect(payloadOf(saved).status).toBe("success");
 
     const page = payloadOf(
       await run(sessionPage.loader, getRequest(`/athlete/sessions/${a.session.id}`, await signIn(a.athlete.email)), {
@@ -175,8 +174,8 @@ describe("coach-edited band sets", () => {
           bandsPage.action,
           formRequest("/coach/bands", { set: "bike:power", intent: "restore" }, { cookie: coachCookie }),
         ),
-      ).ok,
-    ).toBe(true);
+      ),
+    ).toMatchObject({ status: "success", message: "Back to Pacewright's default bands." });
     const restored = payloadOf(
       await run(sessionPage.loader, getRequest(`/athlete/sessions/${a.session.id}`, await signIn(a.athlete.email)), {
         id: String(a.session.id),
@@ -238,9 +237,8 @@ describe("coach-edited band sets", () => {
     for (const [label, rows, message, row, field] of cases) {
       const res = await run(bandsPage.action, formRequest("/coach/bands", form("bike:power", rows), { cookie }));
       expect(statusOf(res), label).toBe(400);
-      const body = payloadOf(res);
-      expect(body.errors.rows[row][field], label).toMatch(message);
-      expect(body.rows).toHaveLength(rows.length);
+      expect(fieldErrorsOf(res)[`bands[${row}].${field}`], label).toMatch(message);
+      expect(payloadOf(res).initialValue.bands).toHaveLength(rows.length);
     }
     const nine = Array.from(
       { length: 9 },
@@ -254,7 +252,7 @@ describe("coach-edited band sets", () => {
     );
     const res = await run(bandsPage.action, formRequest("/coach/bands", form("bike:power", nine), { cookie }));
     expect(statusOf(res)).toBe(400);
-    expect(payloadOf(res).errors.form).toMatch(/at most 8/);
+    expect(fieldErrorsOf(res).form).toMatch(/at most 8/);
     expect(await BandSetRow.count({ where: { coachId: coach.id } })).toBe(0);
     // Athletes cannot edit bands at all.
     const athlete = await makeUser({ role: "athlete" });

@@ -240,7 +240,7 @@ describe("assignment and materialization", () => {
       ),
       { planId: String(plan.id) },
     );
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res).status).toBe("success");
     // The Monday on or after 6 January 2027 is 11 January; week 2's Tuesday is 19 January.
     const s = await ScheduledSession.findOne({ where: { athleteId: withT.id, name: "Threshold 4 × 8" } });
     expect(s!.date).toBe("2027-01-19");
@@ -331,7 +331,9 @@ describe("assignment and materialization", () => {
       formRequest(`/coach/plans/${plan.id}/assign`, { mode: "start", date: "2027-01-04" }, { cookie }),
       { planId: String(plan.id) },
     );
-    expect(payloadOf(none).fieldErrors.athleteIds).toMatch(/at least one/);
+    expect(statusOf(none)).toBe(400);
+    expect(fieldErrorsOf(none).athleteIds).toMatch(/at least one/);
+    expect(await ScheduledSession.count({ where: { athleteId: stranger.id } })).toBe(0);
   });
 
   it("pushes plan changes to future sessions only, keeping each session's row (same calendar UID) with a higher sequence", async () => {
@@ -370,7 +372,7 @@ describe("assignment and materialization", () => {
       formRequest(`/coach/plans/${plan.id}/assign`, { intent: "push" }, { cookie }),
       { planId: String(plan.id) },
     );
-    expect(payloadOf(pushed).ok).toBe(true);
+    expect(payloadOf(pushed).status).toBe("success");
     const after = await ScheduledSession.findAll({ where: { athleteId: athlete.id }, order: [["date", "ASC"]] });
     expect(after).toHaveLength(3);
     const past = after.find((s) => s.id === before[0].id)!;

@@ -4,7 +4,7 @@ import { describe, expect, it } from "vitest";
 import { CoachAthlete, ScheduledSession, Threshold, User } from "~/.server/models";
 import { buildFeed } from "~/.server/services/feed";
 import * as feedPage from "~/routes/athlete/feed";
-import { formRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { fieldErrorsOf, formRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 /** Tuesday 2027-06-08 (summer time in Berlin, UTC+2), Saturday 2027-06-12, Thursday 2027-01-14 (winter, UTC+1). */
 async function scenario() {
@@ -50,13 +50,19 @@ describe("feed with usual training times", () => {
       formRequest("/athlete/feed", { intent: "times", "time-1": "25:00" }, { cookie }),
     );
     expect(statusOf(bad)).toBe(400);
-    expect(payloadOf(bad).fieldErrors["time-1"]).toMatch(/06:30/);
+    expect(fieldErrorsOf(bad)).toEqual({
+      form: "Check the times.",
+      "time-1": "Use a time like 06:30, or leave it empty for all day.",
+    });
     expect((await User.findByPk(athlete.id))!.trainingTimes).toBeNull();
     const ok = await run(
       feedPage.action,
       formRequest("/athlete/feed", { intent: "times", "time-1": "06:30", "time-3": "18:15" }, { cookie }),
     );
-    expect(payloadOf(ok).ok).toBe(true);
+    expect(payloadOf(ok)).toMatchObject({
+      status: "success",
+      message: "Saved. Sessions on those days get a start time and a length in your calendar.",
+    });
     expect((await User.findByPk(athlete.id))!.trainingTimes).toEqual([null, "06:30", null, "18:15", null, null, null]);
   });
 

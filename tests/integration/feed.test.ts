@@ -1,7 +1,7 @@
 import ICAL from "ical.js";
 import nodeIcal from "node-ical";
 import { describe, expect, it } from "vitest";
-import { CoachAthlete, FeedToken, ScheduledSession, Threshold } from "~/.server/models";
+import { CoachAthlete, FeedToken, ScheduledSession, Threshold, User } from "~/.server/models";
 import { applyBoardOp } from "~/.server/services/board";
 import { assignPlan } from "~/.server/services/materialize";
 import { createPlan } from "~/.server/services/plans";
@@ -12,7 +12,7 @@ import { PlanItem, PlanWeek, ShelfSession, ShelfBlock } from "~/.server/models";
 import * as feed from "~/routes/feed";
 import * as feedPage from "~/routes/athlete/feed";
 import { addDays, mondayOf, todayIn } from "~/lib/dates";
-import { formRequest, getRequest, makeUser, payloadOf, run, signIn } from "./helpers";
+import { fieldErrorsOf, formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 const BASE = "http://localhost:3999";
 
@@ -220,17 +220,19 @@ describe("calendar feed", () => {
     expect(
       payloadOf(
         await run(feedPage.action, formRequest("/athlete/feed", { intent: "alarm", alarmMinutes: "30" }, { cookie })),
-      ).ok,
-    ).toBe(true);
+      ),
+    ).toMatchObject({ status: "success", message: "Reminders 30 minutes before timed sessions." });
     const token = page.feed.https.match(/feed\/(.+)\.ics/)![1];
     const text = await (await fetchFeed(token)).text();
     expect(text).toContain("BEGIN:VALARM");
     expect(text).toContain("TRIGGER:-PT30M");
-    expect(
-      payloadOf(
-        await run(feedPage.action, formRequest("/athlete/feed", { intent: "alarm", alarmMinutes: "7" }, { cookie })),
-      ).ok,
-    ).toBe(false);
+    const badAlarm = await run(
+      feedPage.action,
+      formRequest("/athlete/feed", { intent: "alarm", alarmMinutes: "7" }, { cookie }),
+    );
+    expect(statusOf(badAlarm)).toBe(400);
+    expect(fieldErrorsOf(badAlarm)).toEqual({ alarmMinutes: "Choose a reminder from the list." });
+    expect((await User.findByPk(athlete.id))!.feedAlarmMinutes).toBe(30);
     await run(feedPage.action, formRequest("/athlete/feed", { intent: "revoke" }, { cookie }));
     expect(payloadOf(await run(feedPage.loader, getRequest("/athlete/feed", cookie))).feed).toBeNull();
   });

@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { CoachAthlete, ScheduledSession, Threshold } from "~/.server/models";
 import { createPlan } from "~/.server/services/plans";
 import * as assign from "~/routes/coach/assign";
-import { formRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { fieldErrorsOf, formRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 const START = "2027-05-03"; // a Monday
 
@@ -59,7 +59,10 @@ describe("assign checks sport and overlap before writing", () => {
     const { runner, plan, post } = await scenario();
     const p = await plan("Bike base");
     const first = payloadOf(await post(p.id, { athleteIds: String(runner.id) }));
-    expect(first.ok).toBe(false);
+    expect(first).toMatchObject({
+      status: "error",
+      error: { "": ["Nothing has been placed yet. Check what would happen and choose."] },
+    });
     expect(first.reports).toHaveLength(1);
     expect(first.reports[0]).toMatchObject({ athlete: "Runner N", sportsWithoutThreshold: ["bike"], overlap: null });
     expect(await planned(runner.id)).toHaveLength(0);
@@ -67,11 +70,11 @@ describe("assign checks sport and overlap before writing", () => {
     // Answered without ticking the sport confirmation: refused, nothing written.
     const refused = await post(p.id, { athleteIds: String(runner.id), decided: "1" });
     expect(statusOf(refused)).toBe(409);
-    expect(payloadOf(refused).message).toMatch(/No threshold yet for bike/);
+    expect(fieldErrorsOf(refused).form).toMatch(/No threshold yet for bike/);
     expect(await planned(runner.id)).toHaveLength(0);
 
     const placed = payloadOf(await post(p.id, { athleteIds: String(runner.id), decided: "1", confirmSports: "on" }));
-    expect(placed.ok).toBe(true);
+    expect(placed.status).toBe("success");
     expect((await planned(runner.id)).length).toBeGreaterThan(0);
   });
 
@@ -79,12 +82,12 @@ describe("assign checks sport and overlap before writing", () => {
     const { rider, plan, post } = await scenario();
     const a = await plan("Spring A");
     const b = await plan("Spring B");
-    expect(payloadOf(await post(a.id, { athleteIds: String(rider.id) })).ok).toBe(true);
+    expect(payloadOf(await post(a.id, { athleteIds: String(rider.id) })).status).toBe("success");
     const fromA = await planned(rider.id);
     expect(fromA.length).toBeGreaterThan(0);
 
     const report = payloadOf(await post(b.id, { athleteIds: String(rider.id) }));
-    expect(report.ok).toBe(false);
+    expect(report.status).toBe("error");
     const r = report.reports[0];
     expect(r.overlap).toMatchObject({ sessions: fromA.length, plans: ["Spring A"] });
     expect(r.testDays.length).toBeGreaterThan(0);
@@ -94,12 +97,18 @@ describe("assign checks sport and overlap before writing", () => {
     // Alongside without confirming the two maximal tests: refused, nothing written.
     const refused = await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "alongside" });
     expect(statusOf(refused)).toBe(409);
-    expect(payloadOf(refused).message).toMatch(/Two maximal tests/);
+    expect(fieldErrorsOf(refused).form).toMatch(/Two maximal tests/);
     expect(await planned(rider.id)).toHaveLength(fromA.length);
     // Replace without a date is a form error.
-    expect(
-      statusOf(await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "replace", replaceFrom: "" })),
-    ).toBe(400);
+    const noDate = await post(b.id, {
+      athleteIds: String(rider.id),
+      decided: "1",
+      overlap: "replace",
+      replaceFrom: "",
+    });
+    expect(statusOf(noDate)).toBe(400);
+    expect(fieldErrorsOf(noDate)).toEqual({ form: "Check the form.", replaceFrom: "Choose the date to replace from." });
+    expect(await planned(rider.id)).toHaveLength(fromA.length);
 
     // Replace from the second week: week 1 of plan A stays, the rest gives way; the test clash in week 1 still needs a yes.
     const week2 = "2027-05-10";
@@ -112,7 +121,7 @@ describe("assign checks sport and overlap before writing", () => {
     const done = payloadOf(
       await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "replace", replaceFrom: START }),
     );
-    expect(done.ok).toBe(true);
+    expect(done.status).toBe("success");
     expect(done.message).toMatch(/replaced/);
     const cancelled = await ScheduledSession.count({ where: { athleteId: rider.id, status: "cancelled" } });
     expect(cancelled).toBe(fromA.length);
@@ -131,7 +140,7 @@ describe("assign checks sport and overlap before writing", () => {
     const ok = payloadOf(
       await post(b.id, { athleteIds: String(rider.id), decided: "1", overlap: "alongside", confirmTests: "on" }),
     );
-    expect(ok.ok).toBe(true);
+    expect(ok.status).toBe("success");
     expect((await planned(rider.id)).length).toBe(before * 2);
   });
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { PlanWeek, SeasonPlan } from "~/.server/models";
 import { createPlan } from "~/.server/services/plans";
 import * as planPage from "~/routes/coach/plan";
-import { formRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
+import { fieldErrorsOf, formRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 async function scenario() {
   const coach = await makeUser({ role: "coach" });
@@ -54,7 +54,8 @@ describe("editing weeks in one form", () => {
       table({ [`plannedHours-${w1.id}`]: "9", [`plannedHours-${w3.id}`]: "-2", [`loadFactor-${w2.id}`]: "7" }),
     );
     expect(statusOf(bad)).toBe(400);
-    expect(payloadOf(bad).fieldErrors).toEqual({
+    expect(fieldErrorsOf(bad)).toEqual({
+      form: "Nothing was saved: fix the marked fields.",
       [`plannedHours-${w3.id}`]: "Hours cannot be negative.",
       [`loadFactor-${w2.id}`]: "Use a load factor from 0.3 to 2.",
     });
@@ -63,7 +64,7 @@ describe("editing weeks in one form", () => {
     const ok = payloadOf(
       await post(table({ [`plannedHours-${w1.id}`]: "9", [`phase-${w2.id}`]: "build", [`notes-${w3.id}`]: "Camp" })),
     );
-    expect(ok).toMatchObject({ ok: true, message: "Saved 3 changed weeks." });
+    expect(ok).toMatchObject({ status: "success", message: "Saved 3 changed weeks." });
     const after = await snapshot(plan.id);
     expect(after[0][1]).toBe(9);
     expect(after[1][0]).toBe("build");
@@ -78,13 +79,31 @@ describe("editing weeks in one form", () => {
     const res = payloadOf(
       await post({ intent: "range", fromWeek: "2", toWeek: "3", phase: "", plannedHours: "6.5", loadFactor: "0.9" }),
     );
-    expect(res.ok).toBe(true);
+    expect(res).toMatchObject({ status: "success", message: "Changed weeks 2–3 (2 weeks)." });
     const after = await snapshot(plan.id);
     expect(after[1]).toEqual([before[1][0], 6.5, 0.9, before[1][3]]);
     expect(after[2]).toEqual([before[2][0], 6.5, 0.9, before[2][3]]);
     expect(after[0]).toEqual(before[0]);
     expect(statusOf(await post({ intent: "range", fromWeek: "2", toWeek: "9", plannedHours: "5" }))).toBe(400);
     expect(statusOf(await post({ intent: "range", fromWeek: "2", toWeek: "3" }))).toBe(400);
+    const backwards = await post({ intent: "range", fromWeek: "3", toWeek: "2", plannedHours: "5" });
+    expect(statusOf(backwards)).toBe(400);
+    expect(fieldErrorsOf(backwards)).toEqual({
+      form: "Check the change.",
+      toWeek: "The last week must not be before the first.",
+    });
+    expect(await snapshot(plan.id)).toEqual(after);
+  });
+
+  it("renames the plan, and refuses an empty name beside the field without saving", async () => {
+    const { plan, post } = await scenario();
+    const empty = await post({ intent: "rename", name: "  ", description: "x" });
+    expect(statusOf(empty)).toBe(400);
+    expect(fieldErrorsOf(empty)).toEqual({ form: "Check the name.", name: "Give the plan a name." });
+    expect((await SeasonPlan.findByPk(plan.id))!.name).toBe("Weeks");
+    const ok = payloadOf(await post({ intent: "rename", name: "Spring block", description: "Base first" }));
+    expect(ok).toMatchObject({ status: "success", message: "Plan renamed." });
+    expect(await SeasonPlan.findByPk(plan.id)).toMatchObject({ name: "Spring block", description: "Base first" });
   });
 
   it("another coach's plan answers 404 and keeps its weeks", async () => {

@@ -381,7 +381,7 @@ describe("season plans", () => {
       ),
       { planId: String(planId) },
     );
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res)).toMatchObject({ status: "success", message: "Week saved." });
     await week.reload();
     expect(week).toMatchObject({ phase: "build", test: true, recovery: false, plannedHours: 7.5, notes: "Camp week" });
     await run(
@@ -454,7 +454,9 @@ describe("season plans", () => {
       ),
       { planId: String(planId) },
     );
-    expect(payloadOf(noDays).fieldErrors.days).toMatch(/at least one day/);
+    expect(statusOf(noDays)).toBe(400);
+    expect(fieldErrorsOf(noDays).days).toMatch(/at least one day/);
+    expect(await PlanItem.count({ where: { planId, sourceSessionId: session.id } })).toBe(4);
   });
 
   it("a coach cannot read or change another coach's plan (404)", async () => {

@@ -1,8 +1,8 @@
 import QRCode from "qrcode";
-import { data } from "react-router";
-import { z } from "zod";
 import type { User } from "~/.server/models";
 import { activeFeed, feedUrls, revokeFeed, rotateFeed } from "~/.server/services/feed";
+import { alarmSchema, feedLinkSchema, trainingTimesOf, trainingTimesSchema } from "~/lib/feed-forms";
+import { accepted, jsonRefusal, parseSubmission, refuse } from "~/lib/forms";
 
 export async function feedPageData(user: User) {
   const active = await activeFeed(user.id);
@@ -26,51 +26,43 @@ export async function feedPageData(user: User) {
   };
 }
 
-const alarmSchema = z.union([
-  z.literal(""),
-  z.coerce
-    .number()
-    .int()
-    .refine((v) => [15, 30, 60, 120].includes(v), "Choose a reminder from the list."),
-]);
-
 export async function feedPageAction(user: User, form: FormData) {
   const intent = form.get("intent");
-  if (intent === "rotate") {
-    await rotateFeed(user.id);
-    return { ok: true, message: "A new link is ready. Any earlier link stopped working." };
-  }
-  if (intent === "revoke") {
+  if (intent === "rotate" || intent === "revoke") {
+    const submission = parseSubmission(form, feedLinkSchema);
+    if (submission.status !== "success") return refuse(submission);
+    if (submission.value.intent === "rotate") {
+      await rotateFeed(user.id);
+      return accepted(submission, "A new link is ready. Any earlier link stopped working.");
+    }
     await revokeFeed(user.id);
-    return { ok: true, message: "The link is off. Calendars subscribed to it no longer update." };
+    return accepted(submission, "The link is off. Calendars subscribed to it no longer update.");
   }
   if (intent === "times") {
-    const times: (string | null)[] = [];
-    const fieldErrors: Record<string, string> = {};
-    for (let d = 0; d < 7; d++) {
-      const v = String(form.get(`time-${d}`) ?? "").trim();
-      if (v === "") times.push(null);
-      else if (/^([01]\d|2[0-3]):[0-5]\d$/.test(v)) times.push(v);
-      else fieldErrors[`time-${d}`] = "Use a time like 06:30, or leave it empty for all day.";
-    }
-    if (Object.keys(fieldErrors).length)
-      return data({ ok: false, message: "Check the times.", fieldErrors }, { status: 400 });
+    const submission = parseSubmission(form, trainingTimesSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Check the times." });
+    const times = trainingTimesOf(submission.value);
     await user.update({ trainingTimes: times.some(Boolean) ? times : null });
-    return {
-      ok: true,
-      message: times.some(Boolean)
+    return accepted(
+      submission,
+      times.some(Boolean)
         ? "Saved. Sessions on those days get a start time and a length in your calendar."
         : "Saved. Every session is an all-day event.",
-    };
+      { reset: false },
+    );
   }
   if (intent === "alarm") {
-    const parsed = alarmSchema.safeParse(form.get("alarmMinutes") ?? "");
-    if (!parsed.success) return data({ ok: false, message: parsed.error.issues[0].message }, { status: 400 });
-    await user.update({ feedAlarmMinutes: parsed.data === "" ? null : parsed.data });
-    return {
-      ok: true,
-      message: parsed.data === "" ? "No reminders." : `Reminders ${parsed.data} minutes before timed sessions.`,
-    };
+    const submission = parseSubmission(form, alarmSchema);
+    if (submission.status !== "success") return refuse(submission);
+    const minutes = submission.value.alarmMinutes;
+    await user.update({ feedAlarmMinutes: minutes });
+    return accepted(
+      submission,
+      minutes === null ? "No reminders." : `Reminders ${minutes} minutes before timed sessions.`,
+      {
+        reset: false,
+      },
+    );
   }
-  return data({ ok: false, message: "Unknown request." }, { status: 400 });
+  return jsonRefusal("Unknown request.");
 }

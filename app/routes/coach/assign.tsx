@@ -1,19 +1,28 @@
 import { useState } from "react";
-import { data, Link, useFetcher } from "react-router";
-import { z } from "zod";
+import { Link, useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { requirePlan } from "~/.server/access";
-import { loaderFailure, pageFailure } from "~/.server/replies";
+import { formFailure, loaderFailure } from "~/.server/replies";
 import { Assignment, User } from "~/.server/models";
 import { rosterFor } from "~/.server/services/roster";
 import { assignPlan, pushPlanChanges } from "~/.server/services/materialize";
 import { loadPlan } from "~/.server/services/plans";
 import { currentThresholds } from "~/.server/services/thresholds";
-import { isIsoDate, todayIn } from "~/lib/dates";
-import { parseForm } from "~/lib/forms";
+import { todayIn } from "~/lib/dates";
+import {
+  accepted,
+  fieldProps,
+  firstMessage,
+  type FormReply,
+  messageOf,
+  parseSubmission,
+  refuse,
+  useSchemaForm,
+} from "~/lib/forms";
+import { assignSchema, pushSchema } from "~/lib/plans";
 import { formatThreshold } from "~/lib/zone-table";
 import type { Route } from "./+types/assign";
 
@@ -48,76 +57,59 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const assignSchema = z
-  .object({
-    athleteIds: z.preprocess(
-      (v) => (v === undefined ? [] : Array.isArray(v) ? v : [v]),
-      z.array(z.coerce.number().int().positive()).min(1, "Tick at least one athlete."),
-    ),
-    mode: z.enum(["start", "event"], { error: "Choose how to align the plan." }),
-    date: z.string().refine(isIsoDate, "Choose a date."),
-    // Present once the coach has seen the checks and answered them.
-    decided: z.literal("1").optional(),
-    overlap: z.enum(["replace", "alongside"], { error: "Choose replace or alongside." }).optional(),
-    replaceFrom: z
-      .string()
-      .refine(isIsoDate, "Choose the date to replace from.")
-      .optional()
-      .or(z.literal("").transform(() => undefined)),
-    confirmSports: z.literal("on").optional(),
-    confirmTests: z.literal("on").optional(),
-  })
-  .refine((v) => v.overlap !== "replace" || v.replaceFrom, {
-    path: ["replaceFrom"],
-    message: "Choose the date to replace from.",
-  });
-
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
   const planId = (await requirePlan(coach, params.planId)).id;
   const form = await request.formData();
-  try {
-    if (form.get("intent") === "push") {
+  if (form.get("intent") === "push") {
+    const submission = parseSubmission(form, pushSchema);
+    if (submission.status !== "success") return refuse(submission);
+    try {
       const r = await pushPlanChanges(coach, planId);
-      return {
-        ok: true as const,
-        message: `Pushed the current plan to ${r.assignments} calendar${r.assignments === 1 ? "" : "s"}: ${r.updated} future session${r.updated === 1 ? "" : "s"} updated.`,
-        fieldErrors: {},
-      };
+      return accepted(
+        submission,
+        `Pushed the current plan to ${r.assignments} calendar${r.assignments === 1 ? "" : "s"}: ${r.updated} future session${r.updated === 1 ? "" : "s"} updated.`,
+      );
+    } catch (err) {
+      return formFailure(err, submission);
     }
-    const parsed = parseForm(assignSchema, form);
-    if (!parsed.ok)
-      return data({ ok: false as const, message: "Check the form.", fieldErrors: parsed.fieldErrors }, { status: 400 });
-    const v = parsed.data;
-    const choice = v.decided
-      ? {
-          overlap: v.overlap,
-          replaceFrom: v.replaceFrom,
-          confirmSports: v.confirmSports === "on",
-          confirmTests: v.confirmTests === "on",
-        }
-      : undefined;
+  }
+  const submission = parseSubmission(form, assignSchema);
+  if (submission.status !== "success") return refuse(submission, { form: "Check the form." });
+  const v = submission.value;
+  const choice = v.decided
+    ? {
+        overlap: v.overlap,
+        replaceFrom: v.replaceFrom,
+        confirmSports: v.confirmSports === "on",
+        confirmTests: v.confirmTests === "on",
+      }
+    : undefined;
+  try {
     const r = await assignPlan(coach, planId, v.athleteIds, { mode: v.mode, date: v.date, choice });
     const users = await User.findAll({ where: { id: v.athleteIds } });
     const nameOf = new Map(users.map((u) => [u.id, u.name]));
-    if (r.reports.length)
+    if (r.reports.length) {
+      // Not a refusal of what was typed: the form stays as it is and asks for the coach's answer.
+      const reply = submission.reply({
+        formErrors: ["Nothing has been placed yet. Check what would happen and choose."],
+      }) as FormReply;
       return {
-        ok: false as const,
-        message: "Nothing has been placed yet. Check what would happen and choose.",
-        fieldErrors: {},
+        ...reply,
         start: r.start,
         reports: r.reports.map((x) => ({ ...x, athlete: nameOf.get(x.athleteId) ?? "athlete" })),
       };
+    }
     const total = r.results.reduce((s, x) => s + x.sessions, 0);
     const cancelled = r.results.reduce((s, x) => s + x.cancelled, 0);
     const names = users.map((u) => u.name).join(", ");
-    return {
-      ok: true as const,
-      message: `Placed ${total} sessions for ${names}, starting Monday ${r.start}.${cancelled ? ` ${cancelled} earlier planned session${cancelled === 1 ? " was" : "s were"} replaced.` : ""}`,
-      fieldErrors: {},
-    };
+    return accepted(
+      submission,
+      `Placed ${total} sessions for ${names}, starting Monday ${r.start}.${cancelled ? ` ${cancelled} earlier planned session${cancelled === 1 ? " was" : "s were"} replaced.` : ""}`,
+      { reset: false },
+    );
   } catch (err) {
-    return pageFailure(err, (e) => ({ ok: false as const, message: e.message, fieldErrors: {} }));
+    return formFailure(err, submission);
   }
 }
 
@@ -126,8 +118,18 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
   const fetcher = useFetcher<typeof action>();
   const push = useFetcher<typeof action>();
   const [mode, setMode] = useState<"start" | "event">(plan.eventDate ? "event" : "start");
-  const errors: Record<string, string | undefined> = fetcher.data?.fieldErrors ?? {};
+  const [form, fields] = useSchemaForm(assignSchema, fetcher.data, { id: "assign" });
+  const errors = {
+    athleteIds: fieldProps(fields.athleteIds).error,
+    date: fieldProps(fields.date).error,
+    overlap: fieldProps(fields.overlap).error,
+    replaceFrom: fieldProps(fields.replaceFrom).error,
+  };
   const reply = fetcher.data;
+  const saved = reply && "message" in reply ? reply.message : undefined;
+  const refused = messageOf(reply);
+  const pushed = push.data && "message" in push.data ? push.data.message : undefined;
+  const pushRefused = firstMessage(push.data);
   const reports = (reply && "reports" in reply ? reply.reports : undefined) ?? [];
   const [dismissed, setDismissed] = useState<unknown>(null);
   const asking = reports.length > 0 && dismissed !== reply;
@@ -146,9 +148,9 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
       />
       <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
         <Card>
-          <fetcher.Form method="post" className="flex flex-col gap-4">
-            {fetcher.data && (dismissed !== reply || !reports.length) && (
-              <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>
+          <fetcher.Form method="post" id={form.id} onSubmit={form.onSubmit} noValidate className="flex flex-col gap-4">
+            {(refused ?? saved) && (dismissed !== reply || !reports.length) && (
+              <FormMessage tone={refused ? "error" : "ok"}>{refused ?? saved}</FormMessage>
             )}
             {reports.length > 0 && dismissed === reply && (
               <FormMessage tone="ok">Cancelled: nothing was placed.</FormMessage>
@@ -248,7 +250,9 @@ export default function Assign({ loaderData }: Route.ComponentProps) {
           )}
           {outdated > 0 && (
             <push.Form method="post" className="mt-4">
-              {push.data && <FormMessage tone={push.data.ok ? "ok" : "error"}>{push.data.message}</FormMessage>}
+              {(pushRefused ?? pushed) && (
+                <FormMessage tone={pushRefused ? "error" : "ok"}>{pushRefused ?? pushed}</FormMessage>
+              )}
               <p className="mt-2 text-xs text-ink-soft">
                 Sessions from today on are updated; past, done and skipped ones stay as they were.
               </p>
@@ -286,7 +290,7 @@ function PlacementChoices({
 }: {
   reports: Report[];
   start: string;
-  errors: Record<string, string | undefined>;
+  errors: { overlap?: string; replaceFrom?: string };
   busy: boolean;
   onCancel: () => void;
 }) {

@@ -1,11 +1,13 @@
 import { useState } from "react";
-import { data, Form, Link, useNavigation } from "react-router";
+import { Form, Link, useNavigation } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { bandSetsFor, restoreDefaultBandSet, saveBandSet } from "~/.server/services/bands";
+import { BANDS_NOT_SAVED, bandSetSchema, restoreBandsSchema } from "~/lib/band-forms";
 import { bandSetTitle } from "~/lib/band-table";
+import { accepted, parseSubmission, refuse, useSchemaForm } from "~/lib/forms";
 import {
   BAND_SET_KEYS,
   bandShade,
@@ -13,7 +15,6 @@ import {
   MIN_BANDS,
   parseBandSetKey,
   type BandInputRow,
-  type BandSetErrors,
   type BandSetKey,
 } from "~/lib/training";
 import type { Route } from "./+types/bands";
@@ -40,36 +41,21 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-type ActionResult =
-  { ok: true; message: string } | { ok: false; message: string; errors: BandSetErrors; rows: BandInputRow[] };
-
 export async function action({ request }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
   const form = await request.formData();
-  const key = String(form.get("set") ?? "");
   if (form.get("intent") === "restore") {
-    if (!(await restoreDefaultBandSet(coach, key)))
-      return data<ActionResult>(
-        { ok: false, message: "Choose a band set.", errors: { rows: {} }, rows: [] },
-        { status: 400 },
-      );
-    return { ok: true, message: "Back to Pacewright's default bands." } satisfies ActionResult;
+    const submission = parseSubmission(form, restoreBandsSchema);
+    if (submission.status !== "success") return refuse(submission);
+    if (!(await restoreDefaultBandSet(coach, submission.value.set)))
+      return refuse(submission, { form: "Choose a band set." });
+    return accepted(submission, "Back to Pacewright's default bands.", { reset: false });
   }
-  const all = (f: string) => form.getAll(f).map(String);
-  const names = all("name");
-  const rows: BandInputRow[] = names.map((name, i) => ({
-    name,
-    fromPct: all("fromPct")[i] ?? "",
-    toPct: all("toPct")[i] ?? "",
-    meaning: all("meaning")[i] ?? "",
-  }));
-  const result = await saveBandSet(coach, key, rows);
-  if (!result.ok)
-    return data<ActionResult>(
-      { ok: false, message: "Nothing was saved: check the marked fields.", errors: result.errors, rows },
-      { status: 400 },
-    );
-  return { ok: true, message: "Saved. Your athletes see these bands from now on." } satisfies ActionResult;
+  const submission = parseSubmission(form, bandSetSchema);
+  if (submission.status !== "success") return refuse(submission);
+  const result = await saveBandSet(coach, submission.value.set, submission.value.bands);
+  if (!result.ok) return refuse(submission, { form: result.errors.form ?? BANDS_NOT_SAVED });
+  return accepted(submission, "Saved. Your athletes see these bands from now on.", { reset: false });
 }
 
 const toInput = (b: { name: string; fromPct: number; toPct: number | null; meaning: string }): BandInputRow => ({
@@ -81,17 +67,27 @@ const toInput = (b: { name: string; fromPct: number; toPct: number | null; meani
 
 export default function BandSettings({ loaderData, actionData }: Route.ComponentProps) {
   const { key, tabs, set } = loaderData;
-  const result = actionData as ActionResult | undefined;
-  const failed = result && !result.ok ? result : null;
-  const [rows, setRows] = useState<BandInputRow[]>(() => (failed?.rows.length ? failed.rows : set.bands.map(toInput)));
+  const reply = actionData;
+  const failed = reply && reply.status !== "success" ? reply : null;
+  // Without scripts the refused rows come back in the reply, to be shown as typed.
+  const typedRows = (failed?.initialValue as { bands?: Partial<BandInputRow>[] } | null | undefined)?.bands?.map(
+    (r) => ({ name: r.name ?? "", fromPct: r.fromPct ?? "", toPct: r.toPct ?? "", meaning: r.meaning ?? "" }),
+  );
+  const [rows, setRows] = useState<BandInputRow[]>(() => (typedRows?.length ? typedRows : set.bands.map(toInput)));
   const busy = useNavigation().state !== "idle";
   // A new set chosen, or a save/restore answered: show what the server now holds (or what was typed, on refusal).
   const [shownFor, setShownFor] = useState({ key, set, failed });
   if (shownFor.key !== key || shownFor.set !== set || shownFor.failed !== failed) {
     setShownFor({ key, set, failed });
-    setRows(failed?.rows.length ? failed.rows : set.bands.map(toInput));
+    setRows(typedRows?.length ? typedRows : set.bands.map(toInput));
   }
-  const errors = failed?.errors.rows ?? {};
+  const [form] = useSchemaForm(bandSetSchema, reply, { id: `bands-${key}` });
+  const errorOf = (i: number, f: keyof BandInputRow) => form.allErrors[`bands[${i}].${f}`]?.[0];
+  const rowHasError = Object.keys(form.allErrors).some((k) => k.startsWith("bands["));
+  const saved = reply && "message" in reply ? reply.message : undefined;
+  // The browser's check stops a wrong set before it is sent, so it says the action's words itself.
+  const formErrors = form.errors ?? [];
+  const refused = formErrors[0] ?? (rowHasError ? BANDS_NOT_SAVED : undefined);
   const update = (i: number, field: keyof BandInputRow, value: string) =>
     setRows((rs) => {
       const next = rs.map((r, j) => (j === i ? { ...r, [field]: value } : r));
@@ -136,21 +132,26 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
       </nav>
       <div className="grid gap-6 lg:grid-cols-[1fr_18rem]">
         <Card>
-          <Form method="post" className="flex flex-col gap-3" noValidate>
+          <Form method="post" id={form.id} onSubmit={form.onSubmit} className="flex flex-col gap-3" noValidate>
             <input type="hidden" name="set" value={key} />
-            {result && <FormMessage tone={result.ok ? "ok" : "error"}>{result.message}</FormMessage>}
-            {failed?.errors.form && (
-              <p role="alert" className="text-sm text-brick">
-                {failed.errors.form}
+            {(refused ?? saved) && <FormMessage tone={refused ? "error" : "ok"}>{refused ?? saved}</FormMessage>}
+            {formErrors.slice(1).map((m) => (
+              <p key={m} role="alert" className="text-sm text-brick">
+                {m}
               </p>
-            )}
+            ))}
             <p className="text-xs text-ink-soft">
               Each band runs from its lower boundary up to, but not including, its upper one; the top band is open.{" "}
               {MIN_BANDS}–{MAX_BANDS} bands.
             </p>
             <ol className="flex flex-col gap-3" data-testid="band-rows">
               {rows.map((r, i) => {
-                const e = errors[i] ?? {};
+                const e = {
+                  name: errorOf(i, "name"),
+                  fromPct: errorOf(i, "fromPct"),
+                  toPct: errorOf(i, "toPct"),
+                  meaning: errorOf(i, "meaning"),
+                };
                 const id = `band-${i}`;
                 return (
                   <li
@@ -165,7 +166,7 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
                     <label className="flex flex-col gap-1 text-sm">
                       <span className="font-medium">Name</span>
                       <input
-                        name="name"
+                        name={`bands[${i}].name`}
                         value={r.name}
                         onChange={(ev) => update(i, "name", ev.target.value)}
                         maxLength={40}
@@ -182,7 +183,7 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
                     <label className="col-start-2 flex flex-col gap-1 text-sm sm:col-start-auto">
                       <span className="font-medium">From %</span>
                       <input
-                        name="fromPct"
+                        name={`bands[${i}].fromPct`}
                         inputMode="numeric"
                         value={r.fromPct}
                         onChange={(ev) => update(i, "fromPct", ev.target.value)}
@@ -199,7 +200,7 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
                     <label className="col-start-2 flex flex-col gap-1 text-sm sm:col-start-auto">
                       <span className="font-medium">To %</span>
                       <input
-                        name="toPct"
+                        name={`bands[${i}].toPct`}
                         inputMode="numeric"
                         value={r.toPct}
                         placeholder={i === rows.length - 1 ? "open" : ""}
@@ -217,7 +218,7 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
                     <label className="col-start-2 flex flex-col gap-1 text-sm sm:col-start-auto">
                       <span className="font-medium">Meaning (one line)</span>
                       <input
-                        name="meaning"
+                        name={`bands[${i}].meaning`}
                         value={r.meaning}
                         onChange={(ev) => update(i, "meaning", ev.target.value)}
                         maxLength={160}
@@ -258,6 +259,7 @@ export default function BandSettings({ loaderData, actionData }: Route.Component
                 type="submit"
                 name="intent"
                 value="restore"
+                formNoValidate
                 disabled={busy || set.isDefault}
                 className={buttonClass("secondary")}
               >

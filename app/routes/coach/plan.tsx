@@ -1,12 +1,12 @@
-import { useState } from "react";
-import { data, Link, redirect, useFetcher } from "react-router";
+import { useMemo } from "react";
+import { Link, redirect, useFetcher } from "react-router";
 import { PhaseRibbon } from "~/components/phase-ribbon";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { requirePlan } from "~/.server/access";
-import { loaderFailure, pageFailure } from "~/.server/replies";
+import { formFailure, jsonFormFailure, loaderFailure } from "~/.server/replies";
 import { listShelfSessions } from "~/.server/services/shelf";
 import {
   addRecurrence,
@@ -18,11 +18,30 @@ import {
   updateWeek,
   updateWeeks,
 } from "~/.server/services/plans";
-import { parseForm } from "~/lib/forms";
-import { DAY_NAMES, PHASE_LABEL, phaseRangeSchema, recurrenceSchema, weekEditSchema } from "~/lib/plans";
+import {
+  accepted,
+  fieldProps,
+  type FormReply,
+  jsonRefusal,
+  messageOf,
+  parseSubmission,
+  refuse,
+  useSchemaForm,
+} from "~/lib/forms";
+import {
+  DAY_NAMES,
+  NOTHING_SAVED,
+  PHASE_LABEL,
+  phaseRangeSchema,
+  rangeSchema,
+  recurrenceSchema,
+  renameSchema,
+  weekEditSchema,
+  weekTableEdits,
+  weekTableSchema,
+} from "~/lib/plans";
 import { addWeeks } from "~/lib/dates";
 import { PHASES } from "~/lib/training";
-import { z } from "zod";
 import type { Route } from "./+types/plan";
 
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.plan.name ?? "Plan"} · Pacewright` }];
@@ -39,75 +58,39 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   }
 }
 
-const loadFactor = z.coerce
-  .number({ error: "Enter a load factor." })
-  .min(0.3, "Use a load factor from 0.3 to 2.")
-  .max(2, "Use a load factor from 0.3 to 2.");
-const bulkWeekSchema = weekEditSchema.extend({ loadFactor });
-const rangeSchema = z
-  .object({
-    fromWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
-    toWeek: z.coerce.number().int().min(1, "Weeks start at 1."),
-    phase: z.union([z.literal(""), z.enum(PHASES)]).default(""),
-    plannedHours: z
-      .union([
-        z.literal(""),
-        z.coerce.number({ error: "Enter hours." }).min(0, "Hours cannot be negative.").max(60, "Use at most 60 hours."),
-      ])
-      .default(""),
-    loadFactor: z.union([z.literal(""), loadFactor]).default(""),
-  })
-  .refine((v) => v.toWeek >= v.fromWeek, { message: "The last week must not be before the first.", path: ["toWeek"] });
-
-const renameSchema = z.object({
-  name: z.string().trim().min(1, "Give the plan a name.").max(120),
-  description: z.string().trim().max(2000).default(""),
-});
-
-type Result = { ok: boolean; message: string; fieldErrors: Record<string, string | undefined> };
-
 export async function action({ request, params }: Route.ActionArgs) {
   const coach = await requireRole(request, "coach");
   const planId = (await requirePlan(coach, params.planId)).id;
   const form = await request.formData();
   const intent = form.get("intent");
-  const fail = (message: string, status = 400, fieldErrors: Record<string, string | undefined> = {}) =>
-    data<Result>({ ok: false, message, fieldErrors }, { status });
-  try {
-    if (intent === "week") {
-      const parsed = parseForm(weekEditSchema, form);
-      if (!parsed.ok) return fail("Check the week's fields.", 400, parsed.fieldErrors);
-      await updateWeek(coach.id, planId, parsed.data);
-      return { ok: true, message: "Week saved.", fieldErrors: {} } satisfies Result;
+  if (intent === "week") {
+    const submission = parseSubmission(form, weekEditSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Check the week's fields." });
+    try {
+      await updateWeek(coach.id, planId, submission.value);
+      return accepted(submission, "Week saved.", { reset: false });
+    } catch (err) {
+      return formFailure(err, submission);
     }
-    if (intent === "weeks") {
-      // One form for the whole table: every week is checked first, and nothing is saved while any field is wrong.
-      const ids = form.getAll("weekId").map(String);
-      const edits = [];
-      const fieldErrors: Record<string, string | undefined> = {};
-      for (const id of ids) {
-        const one = new FormData();
-        one.set("weekId", id);
-        for (const f of ["phase", "recovery", "test", "plannedHours", "loadFactor", "notes"]) {
-          const v = form.get(`${f}-${id}`);
-          if (v !== null) one.set(f, v);
-        }
-        const parsed = parseForm(bulkWeekSchema, one);
-        if (parsed.ok) edits.push(parsed.data);
-        else for (const [k, v] of Object.entries(parsed.fieldErrors)) fieldErrors[`${k}-${id}`] = v;
-      }
-      if (Object.keys(fieldErrors).length) return fail("Nothing was saved: fix the marked fields.", 400, fieldErrors);
-      const n = await updateWeeks(coach.id, planId, edits);
-      return {
-        ok: true,
-        message: n ? `Saved ${n} changed week${n === 1 ? "" : "s"}.` : "Nothing had changed.",
-        fieldErrors: {},
-      } satisfies Result;
+  }
+  if (intent === "weeks") {
+    const ids = form.getAll("weekId").map(Number);
+    const submission = parseSubmission(form, weekTableSchema(ids));
+    if (submission.status !== "success") return refuse(submission, { form: NOTHING_SAVED });
+    try {
+      const n = await updateWeeks(coach.id, planId, weekTableEdits(ids, submission.value));
+      return accepted(submission, n ? `Saved ${n} changed week${n === 1 ? "" : "s"}.` : "Nothing had changed.", {
+        reset: false,
+      });
+    } catch (err) {
+      return formFailure(err, submission);
     }
-    if (intent === "range") {
-      const parsed = parseForm(rangeSchema, form);
-      if (!parsed.ok) return fail("Check the change.", 400, parsed.fieldErrors);
-      const v = parsed.data;
+  }
+  if (intent === "range") {
+    const submission = parseSubmission(form, rangeSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Check the change." });
+    const v = submission.value;
+    try {
       const n = await editWeekRange(coach.id, planId, {
         fromWeek: v.fromWeek,
         toWeek: v.toWeek,
@@ -115,47 +98,62 @@ export async function action({ request, params }: Route.ActionArgs) {
         plannedHours: v.plannedHours === "" ? undefined : v.plannedHours,
         loadFactor: v.loadFactor === "" ? undefined : v.loadFactor,
       });
-      return {
-        ok: true,
-        message: `Changed weeks ${v.fromWeek}–${v.toWeek} (${n} week${n === 1 ? "" : "s"}).`,
-        fieldErrors: {},
-      } satisfies Result;
+      return accepted(submission, `Changed weeks ${v.fromWeek}–${v.toWeek} (${n} week${n === 1 ? "" : "s"}).`, {
+        reset: false,
+      });
+    } catch (err) {
+      return formFailure(err, submission);
     }
-    if (intent === "phase-range") {
-      const parsed = parseForm(phaseRangeSchema, form);
-      if (!parsed.ok) return fail("Check the phase change.", 400, parsed.fieldErrors);
-      const n = await setPhaseRange(coach.id, planId, parsed.data);
-      return {
-        ok: true,
-        message: `${n} week${n === 1 ? "" : "s"} set to ${PHASE_LABEL[parsed.data.phase]}.`,
-        fieldErrors: {},
-      } satisfies Result;
-    }
-    if (intent === "recurrence") {
-      const parsed = parseForm(recurrenceSchema, form);
-      if (!parsed.ok) return fail("Check the repeating session.", 400, parsed.fieldErrors);
-      const { recurrence, count } = await addRecurrence(coach.id, planId, parsed.data);
-      return { ok: true, message: `Added ${count} sessions: ${recurrence.summary}.`, fieldErrors: {} } satisfies Result;
-    }
-    if (intent === "rename") {
-      const parsed = parseForm(renameSchema, form);
-      if (!parsed.ok) return fail("Check the name.", 400, parsed.fieldErrors);
-      await renamePlan(coach.id, planId, parsed.data.name, parsed.data.description);
-      return { ok: true, message: "Plan renamed.", fieldErrors: {} } satisfies Result;
-    }
-    if (intent === "delete") {
-      await deletePlan(coach.id, planId);
-      return redirect("/coach/plans");
-    }
-  } catch (err) {
-    return pageFailure(err, (e): Result => ({
-      ok: false,
-      message: e.message,
-      fieldErrors: e.field ? { [e.field]: e.message } : {},
-    }));
-    throw err;
   }
-  return fail("Unknown request.");
+  if (intent === "phase-range") {
+    const submission = parseSubmission(form, phaseRangeSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Check the phase change." });
+    try {
+      const n = await setPhaseRange(coach.id, planId, submission.value);
+      return accepted(submission, `${n} week${n === 1 ? "" : "s"} set to ${PHASE_LABEL[submission.value.phase]}.`, {
+        reset: false,
+      });
+    } catch (err) {
+      return formFailure(err, submission);
+    }
+  }
+  if (intent === "recurrence") {
+    const submission = parseSubmission(form, recurrenceSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Check the repeating session." });
+    try {
+      const { recurrence, count } = await addRecurrence(coach.id, planId, submission.value);
+      return accepted(submission, `Added ${count} sessions: ${recurrence.summary}.`, { reset: false });
+    } catch (err) {
+      return formFailure(err, submission);
+    }
+  }
+  if (intent === "rename") {
+    const submission = parseSubmission(form, renameSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Check the name." });
+    try {
+      await renamePlan(coach.id, planId, submission.value.name, submission.value.description);
+      return accepted(submission, "Plan renamed.", { reset: false });
+    } catch (err) {
+      return formFailure(err, submission);
+    }
+  }
+  if (intent === "delete") {
+    try {
+      await deletePlan(coach.id, planId);
+    } catch (err) {
+      return jsonFormFailure(err);
+    }
+    return redirect("/coach/plans");
+  }
+  return jsonRefusal("Unknown request.");
+}
+
+/** What a reply says above or beside its form: the saved note, or the form's own refusal. */
+function ReplyNote({ reply }: { reply: FormReply | undefined }) {
+  const saved = reply && "message" in reply ? (reply.message as string | undefined) : undefined;
+  const refused = messageOf(reply);
+  if (!refused && !saved) return null;
+  return <FormMessage tone={refused ? "error" : "ok"}>{refused ?? saved}</FormMessage>;
 }
 
 export default function PlanPage({ loaderData }: Route.ComponentProps) {
@@ -229,22 +227,17 @@ function WeeksForm({
   sessions: (weekId: number) => number;
   version: number;
 }) {
-  const fetcher = useFetcher<Result>();
-  const [edited, setEdited] = useState<Set<string>>(new Set());
-  const [seen, setSeen] = useState<unknown>(null);
-  if (fetcher.data !== seen) {
-    setSeen(fetcher.data);
-    setEdited(new Set());
-  }
-  const errors = fetcher.data?.fieldErrors ?? {};
-  const err = (field: string, id: number) => (edited.has(`${field}-${id}`) ? undefined : errors[`${field}-${id}`]);
-  const touch = (e: React.FormEvent<HTMLFormElement>) => {
-    const name = (e.target as unknown as HTMLInputElement).name;
-    if (name) setEdited((s) => new Set(s).add(name));
-  };
+  const fetcher = useFetcher<typeof action>();
+  const schema = useMemo(() => weekTableSchema(weeks.map((w) => w.id)), [weeks]);
+  const [form, fields] = useSchemaForm(schema, fetcher.data, { id: `weeks-${version}` });
+  const err = (field: string, id: number) => fields[`${field}-${id}`]?.errors?.[0];
+  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
+  // The browser's check stops a wrong table before it is sent, so it says the action's words itself.
+  const refused = messageOf(fetcher.data) ?? (form.status === "error" && !form.valid ? NOTHING_SAVED : undefined);
+  const note = refused ?? (fetcher.state === "idle" ? saved : undefined);
   return (
     <Card className="overflow-x-auto p-0">
-      <fetcher.Form method="post" onChange={touch} key={version} noValidate>
+      <fetcher.Form method="post" id={form.id} onSubmit={form.onSubmit} key={version} noValidate>
         <input type="hidden" name="intent" value="weeks" />
         <table className="num w-full min-w-[48rem] text-left text-sm">
           <caption className="px-4 pt-4 text-left font-semibold">Weeks</caption>
@@ -350,12 +343,9 @@ function WeeksForm({
           <button type="submit" className={buttonClass("primary")} disabled={fetcher.state !== "idle"}>
             {fetcher.state !== "idle" ? "Saving…" : "Save all weeks"}
           </button>
-          {fetcher.data && (
-            <span
-              role={fetcher.data.ok ? "status" : "alert"}
-              className={`text-sm ${fetcher.data.ok ? "text-teal" : "text-brick"}`}
-            >
-              {fetcher.data.message}
+          {note && (
+            <span role={refused ? "alert" : "status"} className={`text-sm ${refused ? "text-brick" : "text-teal"}`}>
+              {note}
             </span>
           )}
         </div>
@@ -366,26 +356,21 @@ function WeeksForm({
 
 /** Phase, hours and load factor for a run of weeks at once; an empty field leaves that value as it is. */
 function RangeForm({ weeks }: { weeks: number }) {
-  const fetcher = useFetcher<Result>();
-  const errors = fetcher.data?.fieldErrors ?? {};
-  const [edited, setEdited] = useState<Set<string>>(new Set());
-  const [seen, setSeen] = useState<unknown>(null);
-  if (fetcher.data !== seen) {
-    setSeen(fetcher.data);
-    setEdited(new Set());
-  }
-  const err = (f: string) => (edited.has(f) ? undefined : errors[f]);
+  const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useSchemaForm(rangeSchema, fetcher.data, { id: "range" });
+  const err = (f: keyof typeof fields) => fieldProps(fields[f]).error;
   return (
     <Card>
       <h2 className="font-semibold">Change a run of weeks</h2>
       <fetcher.Form
         method="post"
+        id={form.id}
+        onSubmit={form.onSubmit}
         noValidate
         className="mt-3 flex flex-col gap-3 text-sm"
-        onChange={(e) => setEdited((s) => new Set(s).add((e.target as unknown as HTMLInputElement).name))}
       >
         <input type="hidden" name="intent" value="range" />
-        <Result result={fetcher.data} />
+        <ReplyNote reply={fetcher.data} />
         <div className="grid grid-cols-2 gap-2">
           <label className="flex flex-col gap-1">
             From week
@@ -457,11 +442,6 @@ function RangeForm({ weeks }: { weeks: number }) {
   );
 }
 
-function Result({ result }: { result?: Result }) {
-  if (!result) return null;
-  return <FormMessage tone={result.ok ? "ok" : "error"}>{result.message}</FormMessage>;
-}
-
 function RecurrenceForm({
   weeks,
   shelf,
@@ -471,17 +451,29 @@ function RecurrenceForm({
   shelf: { id: number; name: string; sport: string }[];
   recurrences: { id: number; summary: string; count: number }[];
 }) {
-  const fetcher = useFetcher<Result>();
-  const errors = fetcher.data?.fieldErrors ?? {};
+  const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useSchemaForm(recurrenceSchema, fetcher.data, { id: "recurrence" });
+  const errors = {
+    sessionId: fieldProps(fields.sessionId).error,
+    days: fieldProps(fields.days).error,
+    toWeek: fieldProps(fields.toWeek).error,
+    timeOfDay: fieldProps(fields.timeOfDay).error,
+  };
   return (
     <Card>
       <h2 className="font-semibold">Repeat a session</h2>
       <p className="mt-1 text-xs text-ink-soft">
         Each repeat becomes its own item, which you can still move or remove on the board.
       </p>
-      <fetcher.Form method="post" className="mt-3 flex flex-col gap-3 text-sm">
+      <fetcher.Form
+        method="post"
+        id={form.id}
+        onSubmit={form.onSubmit}
+        noValidate
+        className="mt-3 flex flex-col gap-3 text-sm"
+      >
         <input type="hidden" name="intent" value="recurrence" />
-        <Result result={fetcher.data} />
+        <ReplyNote reply={fetcher.data} />
         <label className="flex flex-col gap-1">
           Session
           <select name="sessionId" className="rounded-md border border-line bg-white px-2 py-1">
@@ -552,18 +544,28 @@ function RecurrenceForm({
 }
 
 function RenameForm({ name, description }: { name: string; description: string }) {
-  const fetcher = useFetcher<Result>();
+  const fetcher = useFetcher<typeof action>();
+  const [form, fields] = useSchemaForm(renameSchema, fetcher.data, { id: "rename" });
+  const nameError = fieldProps(fields.name).error;
   return (
     <Card>
       <h2 className="font-semibold">Name and description</h2>
-      <fetcher.Form method="post" className="mt-3 flex flex-col gap-3 text-sm">
-        <Result result={fetcher.data} />
+      <fetcher.Form
+        method="post"
+        id={form.id}
+        onSubmit={form.onSubmit}
+        noValidate
+        className="mt-3 flex flex-col gap-3 text-sm"
+      >
+        <ReplyNote reply={fetcher.data} />
         <input
           name="name"
           defaultValue={name}
           aria-label="Plan name"
+          aria-invalid={nameError ? true : undefined}
           className="rounded-md border border-line px-2 py-1"
         />
+        {nameError && <span className="text-xs text-brick">{nameError}</span>}
         <textarea
           name="description"
           defaultValue={description}
@@ -578,6 +580,7 @@ function RenameForm({ name, description }: { name: string; description: string }
           <button
             name="intent"
             value="delete"
+            formNoValidate
             className={buttonClass("ghost", "text-brick")}
             onClick={(e) => !confirm("Delete this plan and everything on its board?") && e.preventDefault()}
           >
