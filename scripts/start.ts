@@ -6,7 +6,7 @@ import { env, resetEnvCache } from "../app/.server/env";
 import { startFakes } from "../app/.server/fakes";
 import { startJobRunner, stopJobRunner } from "../app/.server/jobs";
 import { startMailer, stopMailer } from "../app/.server/mail";
-import { ORDER_FOLLOW_UPS } from "../app/.server/services/orders";
+import { ORDER_FOLLOW_UPS } from "../app/.server/services/order-follow-ups";
 import { startRetestReminders, stopRetestReminders } from "../app/.server/services/retests";
 import { migrateAndSeed } from "../db/migrator";
 import { DEMO_ACCOUNTS } from "../db/demo/accounts";

@@ -1,13 +1,7 @@
 import crypto from "node:crypto";
-import {
-  cachedFeed,
-  feedFingerprint,
-  feedLink,
-  feedRateLimited,
-  noteFeedUse,
-  REFRESH_SECONDS,
-  USE_NOTE_MS,
-} from "~/.server/services/feed";
+import { feedLink, feedRateLimited, noteFeedUse, USE_NOTE_MS } from "~/.server/services/feed";
+import { cachedFeed, feedFingerprint } from "~/.server/services/feed-cache";
+import { REFRESH_SECONDS } from "~/.server/services/feed-calendar";
 import { hashToken } from "~/.server/tokens";
 import type { Route } from "./+types/feed";
 

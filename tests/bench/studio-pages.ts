@@ -15,7 +15,7 @@ delete process.env.DATABASE_URL;
 const { db } = await import("~/.server/db");
 const { startSignIn } = await import("~/.server/auth");
 const { User } = await import("~/.server/models");
-const { buildFeed } = await import("~/.server/services/feed");
+const { buildFeed } = await import("~/.server/services/feed-calendar");
 const { addDays, todayIn } = await import("~/lib/dates");
 const roster = await import("~/routes/coach/roster");
 const board = await import("~/routes/coach/board");

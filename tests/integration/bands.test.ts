@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { BandSetRow, CoachAthlete, ScheduledBlock, ScheduledSession, Threshold, Upload } from "~/.server/models";
-import { buildFeed } from "~/.server/services/feed";
+import { buildFeed } from "~/.server/services/feed-calendar";
 import { thresholdBandsText } from "~/.server/services/bands";
 import { renderEmail } from "~/.server/mail";
 import { loadSeries } from "~/.server/services/load";

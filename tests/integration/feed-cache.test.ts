@@ -2,7 +2,9 @@ import { describe, expect, it, vi } from "vitest";
 import { RouterContextProvider } from "react-router";
 import { BandSetRow, CoachAthlete, FeedToken, ScheduledSession, User } from "~/.server/models";
 import * as feedService from "~/.server/services/feed";
-import { cachedFeed, feedFingerprint, noteFeedUse, rotateFeed } from "~/.server/services/feed";
+import * as feedCalendar from "~/.server/services/feed-calendar";
+import { cachedFeed, feedFingerprint } from "~/.server/services/feed-cache";
+import { noteFeedUse, rotateFeed } from "~/.server/services/feed";
 import { hashToken } from "~/.server/tokens";
 import { todayIn } from "~/lib/dates";
 import * as feed from "~/routes/feed";
@@ -60,7 +62,7 @@ describe("feed cache and use notes", () => {
   it("rebuilds a changed feed once however many requests arrive together, and serves the rebuilt body to all", async () => {
     const { athlete } = await athleteWithFeed();
     const owner = (await User.findByPk(athlete.id))!;
-    const build = vi.spyOn(feedService, "buildFeed");
+    const build = vi.spyOn(feedCalendar, "buildFeed");
     const fingerprint = await feedFingerprint(owner);
     globalThis.__pacewrightFeedCache?.clear();
     const bodies = await Promise.all(Array.from({ length: 8 }, () => cachedFeed(owner, fingerprint)));
@@ -117,7 +119,7 @@ describe("feed cache and use notes", () => {
     await ScheduledSession.create({
       ...base,
       name: "Dropped long ago",
-      cancelledAt: new Date(Date.now() - (feedService.CANCELLED_GRACE_DAYS + 2) * 86_400_000),
+      cancelledAt: new Date(Date.now() - (feedCalendar.CANCELLED_GRACE_DAYS + 2) * 86_400_000),
     } as never);
     await ScheduledSession.create({
       athleteId: other.id,
@@ -126,7 +128,7 @@ describe("feed cache and use notes", () => {
       sport: "bike",
       plannedDurationS: 3600,
     } as never);
-    const { body, count } = await feedService.buildFeed((await User.findByPk(athlete.id))!);
+    const { body, count } = await feedCalendar.buildFeed((await User.findByPk(athlete.id))!);
     expect(count).toBe(2);
     expect(body).toContain("Easy spin");
     const dropped = body.split("BEGIN:VEVENT").find((e) => e.includes("SUMMARY:Dropped lately"));

@@ -3,7 +3,7 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { db } from "~/.server/db";
 import { CoachAthlete, ScheduledSession, User } from "~/.server/models";
-import { buildFeed } from "~/.server/services/feed";
+import { buildFeed } from "~/.server/services/feed-calendar";
 import { makeUser } from "./helpers";
 
 /**

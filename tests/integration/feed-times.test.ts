@@ -2,7 +2,7 @@ import ICAL from "ical.js";
 import nodeIcal from "node-ical";
 import { describe, expect, it } from "vitest";
 import { CoachAthlete, ScheduledSession, Threshold, User } from "~/.server/models";
-import { buildFeed } from "~/.server/services/feed";
+import { buildFeed } from "~/.server/services/feed-calendar";
 import * as feedPage from "~/routes/athlete/feed";
 import { fieldErrorsOf, formRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 

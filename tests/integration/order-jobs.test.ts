@@ -15,7 +15,9 @@ import {
   Threshold,
 } from "~/.server/models";
 import { applyBoardOp } from "~/.server/services/board";
-import { applyProviderEvent, ORDER_FOLLOW_UPS, resolveReview, runOrderFollowUps } from "~/.server/services/orders";
+import { ORDER_FOLLOW_UPS, runOrderFollowUps } from "~/.server/services/order-follow-ups";
+import { resolveReview } from "~/.server/services/order-review";
+import { applyProviderEvent } from "~/.server/services/order-webhook";
 import { createPlan } from "~/.server/services/plans";
 import { addDays, todayIn } from "~/lib/dates";
 import { makeUser } from "./helpers";

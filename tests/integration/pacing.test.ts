@@ -1,7 +1,7 @@
 import nodeIcal from "node-ical";
 import { describe, expect, it } from "vitest";
 import { CoachAthlete, FieldTest, ScheduledBlock, ScheduledSession, Threshold } from "~/.server/models";
-import { buildFeed } from "~/.server/services/feed";
+import { buildFeed } from "~/.server/services/feed-calendar";
 import { storeUpload } from "~/.server/services/uploads";
 import { readUploadBody } from "~/routes/api/uploads.server";
 import * as athleteSession from "~/routes/athlete/session";

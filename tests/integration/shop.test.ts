@@ -21,7 +21,8 @@ import {
 } from "~/.server/models";
 import { applyBoardOp } from "~/.server/services/board";
 import { assignPlan } from "~/.server/services/materialize";
-import { deriveStatus, runOrderFollowUps } from "~/.server/services/orders";
+import { runOrderFollowUps } from "~/.server/services/order-follow-ups";
+import { deriveStatus } from "~/.server/services/orders";
 import { createPlan } from "~/.server/services/plans";
 import * as coachShop from "~/routes/coach/shop";
 import * as listingPage from "~/routes/shop/listing";

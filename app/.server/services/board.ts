@@ -1,3 +1,7 @@
+/**
+ * Just over 300 lines on purpose: the board's operations, their schema and the board view read and write the same
+ * per-day order of a plan's items, and the writer and its readers stay together.
+ */
 import { Op, QueryTypes, type Transaction } from "sequelize";
 import { z } from "zod";
 import { db, writeTransaction } from "../db";

@@ -1,3 +1,7 @@
+/**
+ * Over 300 lines on purpose: resolving steps, placing a plan and pushing its changes share one insert path for
+ * sessions and their steps, so a placement writes the same rows whichever entry point made it.
+ */
 import { Op, type InferCreationAttributes, type Transaction } from "sequelize";
 import { lockRow, writeTransaction } from "../db";
 import {

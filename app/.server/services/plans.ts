@@ -1,3 +1,8 @@
+/**
+ * Over 300 lines on purpose: this is the one service for a season plan's skeleton (creating, reading and editing its
+ * weeks, phases, items and recurrences), every call checked against the plan's owner and every edit bumping its
+ * version; some twenty routes, tests and scripts use it, and splitting it would scatter that check and that bump.
+ */
 import rrule from "rrule";
 import { literal, Op, QueryTypes, type Transaction } from "sequelize";
 import { db, dialect, writeTransaction } from "../db";

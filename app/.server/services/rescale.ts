@@ -1,3 +1,7 @@
+/**
+ * Over 300 lines on purpose: applying a threshold and undoing it share one scope definition and one SQL rounding
+ * rule, and they stay side by side so an undo restores exactly what the apply wrote, on both databases.
+ */
 import { QueryTypes, type Transaction } from "sequelize";
 import { db, dialect, sqlDate } from "../db";
 import { RescaleReport, Threshold } from "../models";

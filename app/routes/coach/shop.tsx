@@ -8,7 +8,7 @@ import { Field, FormMessage, SelectField } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { Listing, SeasonPlan } from "~/.server/models";
 import { pageFailure } from "~/.server/replies";
-import { resolveReview, reviewQueue, unmatchedEvents } from "~/.server/services/orders";
+import { resolveReview, reviewQueue, unmatchedEvents } from "~/.server/services/order-review";
 import {
   createListing,
   formatPrice,
