@@ -1,3 +1,5 @@
+import { z } from "zod";
+import { isIsoDate } from "~/lib/dates";
 import { numberFormat } from "~/lib/format";
 export const CURRENCIES = ["EUR", "USD", "GBP"] as const;
 export const LEVELS = ["beginner", "intermediate", "advanced"] as const;
@@ -36,3 +38,10 @@ export const ORDER_STATUS_LABELS: Record<string, string> = {
   refunded: "refunded",
   needs_review: "needs review",
 };
+
+/** The buyer's checkout choice, read by the listing's action and validated in its form. */
+export const checkoutSchema = z.object({
+  mode: z.enum(["start", "event"], { error: "Choose how to line the plan up." }),
+  date: z.string({ error: "Choose a date." }).refine(isIsoDate, "Choose a date."),
+  placement: z.enum(["after", "alongside"]).optional(),
+});

@@ -24,6 +24,7 @@ import { deriveStatus, runOrderFollowUps } from "~/.server/services/orders";
 import { createPlan } from "~/.server/services/plans";
 import * as coachShop from "~/routes/coach/shop";
 import * as listingPage from "~/routes/shop/listing";
+import { messageOf } from "~/lib/forms";
 import * as orderPage from "~/routes/shop/order";
 import * as webhook from "~/routes/webhooks/payments";
 import { addDays, todayIn } from "~/lib/dates";
@@ -840,6 +841,17 @@ describe("listings", () => {
       coachShop.action,
       formRequest("/coach/shop", { intent: "publish", listingId: String(listing.id) }, { cookie: coachCookie }),
     );
+    // A bad date or no way of lining up: the message beside the field, and no order.
+    const orders = await Order.count();
+    const badCheckout = await run(
+      listingPage.action,
+      formRequest(`/shop/${listing.slug}`, { mode: "sideways", date: "soon" }, { cookie: buyerCookie }),
+      { slug: listing.slug },
+    );
+    expect(statusOf(badCheckout)).toBe(400);
+    expect(messageOf(payloadOf(badCheckout), "mode")).toBe("Choose how to line the plan up.");
+    expect(messageOf(payloadOf(badCheckout), "date")).toBe("Choose a date.");
+    expect(await Order.count()).toBe(orders);
     // The buyer already has this plan on those weeks, so they say how to place the second copy.
     await checkout(listing.slug, buyerCookie, undefined, { placement: "alongside" });
   });
@@ -877,7 +889,8 @@ describe("what buying will do, shown before paying", () => {
       { slug: listing.slug },
     );
     expect(statusOf(refused)).toBe(400);
-    expect(payloadOf(refused).error).toMatch(/overlap “Sold plan”/);
+    // The message sits beside the placement choice; nothing is ordered.
+    expect(messageOf(payloadOf(refused), "placement")).toMatch(/overlap “Sold plan”/);
     expect(await Order.count({ where: { buyerId: buyer.id } })).toBe(0);
     await checkout(listing.slug, cookie, start, { placement: "after" });
     const order = (await Order.findOne({ where: { buyerId: buyer.id } }))!;
