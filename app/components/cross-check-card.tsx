@@ -1,8 +1,12 @@
+import { useState } from "react";
 import { useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import type { CrossCheckPair } from "~/.server/services/cross-check";
+import { crossCheckSchema } from "~/lib/field-tests";
+import { messageOf, useSchemaForm } from "~/lib/forms";
+import type { action } from "~/routes/athlete/tests";
 
 /** One pair as the server builds it (services/cross-check.ts). */
 export type CrossCheckView = CrossCheckPair;
@@ -11,9 +15,16 @@ const WORD = { agree: "agree", roughly: "roughly agree", disagree: "disagree" } 
 
 /** Two close tests side by side, how far apart they are, and the choice of which sets the threshold. */
 export function CrossCheckCard({ pair }: { pair: CrossCheckView }) {
-  const fetcher = useFetcher<{ ok: boolean; message: string; needsConfirm?: boolean }>();
-  const needsConfirm = fetcher.data?.needsConfirm === true;
+  const fetcher = useFetcher<typeof action>();
   const [a, b] = pair.tests;
+  const [form, fields] = useSchemaForm(crossCheckSchema, fetcher.data, { id: `cross-check-${a.id}-${b.id}` });
+  // The service asks for the tick when the change is large; its message then sits beside the checkbox.
+  const confirmMessage = messageOf(fetcher.data, "confirm");
+  const [needsConfirm, setNeedsConfirm] = useState(false);
+  const saved = fetcher.data?.status === "success" && "message" in fetcher.data ? fetcher.data.message : undefined;
+  if (confirmMessage && !needsConfirm) setNeedsConfirm(true);
+  if (saved && needsConfirm) setNeedsConfirm(false);
+  const refused = messageOf(fetcher.data);
   return (
     <Card data-testid="cross-check">
       <h2 className="font-semibold">Cross-check: two tests {pair.days} days apart</h2>
@@ -46,7 +57,13 @@ export function CrossCheckCard({ pair }: { pair: CrossCheckView }) {
           ({pair.settled.display}).
         </p>
       )}
-      <fetcher.Form method="post" className="mt-3 flex flex-col gap-2 text-sm">
+      <fetcher.Form
+        method="post"
+        id={form.id}
+        onSubmit={form.onSubmit}
+        noValidate
+        className="mt-3 flex flex-col gap-2 text-sm"
+      >
         <input type="hidden" name="intent" value="cross-check" />
         <input type="hidden" name="aId" value={a.id} />
         <input type="hidden" name="bId" value={b.id} />
@@ -61,18 +78,23 @@ export function CrossCheckCard({ pair }: { pair: CrossCheckView }) {
           <label className="flex items-center gap-1">
             <input type="radio" name="choice" value="mean" defaultChecked /> Their mean ({pair.meanDisplay})
           </label>
+          {fields.choice.errors?.[0] && <p className="w-full text-brick">{fields.choice.errors[0]}</p>}
         </fieldset>
         {needsConfirm && (
-          <label className="flex items-center gap-2 text-brick">
-            <input type="checkbox" name="confirmed" value="1" /> I have read why this change is large and want it
-          </label>
+          <div className="flex flex-col gap-1">
+            {confirmMessage && <p className="text-brick">{confirmMessage}</p>}
+            <label className="flex items-center gap-2 text-brick">
+              <input type="checkbox" name="confirmed" value="1" /> I have read why this change is large and want it
+            </label>
+          </div>
         )}
         <div>
           <button className={buttonClass("primary", "py-1.5")} disabled={fetcher.state !== "idle"}>
             Set the threshold and rescale
           </button>
         </div>
-        {fetcher.data && <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>}
+        {saved && <FormMessage tone="ok">{saved}</FormMessage>}
+        {refused && <FormMessage tone="error">{refused}</FormMessage>}
       </fetcher.Form>
     </Card>
   );

@@ -211,3 +211,19 @@ function compute(protocol: ProtocolKey, raw: unknown): ThresholdResult {
     }
   }
 }
+
+/** Undoing one saved test (the tests page's action and its Undo buttons). */
+export const undoTestSchema = z.object({
+  testId: z.coerce.number({ error: "Choose a test to undo." }).int().positive("Choose a test to undo."),
+});
+
+/**
+ * Settling two close tests: which one sets the threshold. `confirmed` is the tick asked for when the change is
+ * large; the service decides when that is.
+ */
+export const crossCheckSchema = z.object({
+  aId: z.coerce.number().int().positive(),
+  bId: z.coerce.number().int().positive(),
+  choice: z.enum(["a", "b", "mean"], { error: "Choose one test or their mean." }),
+  confirmed: z.literal("1").optional(),
+});

@@ -1,3 +1,5 @@
+import { z } from "zod";
+import { isIsoDate } from "~/lib/dates";
 import { numberFormat } from "~/lib/format";
 export const CURRENCIES = ["EUR", "USD", "GBP"] as const;
 export const LEVELS = ["beginner", "intermediate", "advanced"] as const;
@@ -36,3 +38,60 @@ export const ORDER_STATUS_LABELS: Record<string, string> = {
   refunded: "refunded",
   needs_review: "needs review",
 };
+
+/** The buyer's checkout choice, read by the listing's action and validated in its form. */
+export const checkoutSchema = z.object({
+  mode: z.enum(["start", "event"], { error: "Choose how to line the plan up." }),
+  date: z.string({ error: "Choose a date." }).refine(isIsoDate, "Choose a date."),
+  placement: z.enum(["after", "alongside"]).optional(),
+});
+
+/** A coach's listing, read by the Selling page's action and validated in its forms. */
+const priceField = z.string({ error: "Enter a price." }).transform((v, ctx) => {
+  const r = parsePriceCents(v);
+  if (!r.ok) {
+    ctx.addIssue({ code: "custom", message: r.message });
+    return z.NEVER;
+  }
+  return r.cents;
+});
+
+const listingFields = {
+  title: z
+    .string()
+    .trim()
+    .min(3, "Give the plan a title of at least 3 characters.")
+    .max(120, "Keep the title under 120 characters."),
+  description: z
+    .string()
+    .trim()
+    .min(10, "Describe the plan in a sentence or two.")
+    .max(4000, "Keep the description under 4,000 characters."),
+  coverText: z
+    .string()
+    .trim()
+    .max(200, "Keep the cover text under 200 characters.")
+    .optional()
+    .transform((v) => v || null),
+  level: z.enum(LEVELS, { error: "Choose a level." }),
+  /** Typed as "29.50"; parsed to whole cents (the output is cents) and validated on the cents value. */
+  price: priceField,
+};
+
+export const listingSchema = z.object({
+  planId: z.coerce.number().int().positive("Choose one of your plans."),
+  ...listingFields,
+  currency: z.enum(CURRENCIES, { error: "Choose a currency." }),
+});
+export const listingEditSchema = z.object({ listingId: z.coerce.number().int().positive(), ...listingFields });
+
+/** A listing as the services take it: the parsed price under the column's name. */
+export type InCents<T extends { price: number }> = Omit<T, "price"> & { priceCents: number };
+export const inCents = <T extends { price: number }>({ price, ...rest }: T): InCents<T> => ({
+  ...rest,
+  priceCents: price,
+});
+
+/** The buttons that act on one order or one listing by its id. */
+export const orderIdSchema = z.object({ orderId: z.coerce.number().int().positive() });
+export const listingIdSchema = z.object({ listingId: z.coerce.number().int().positive() });

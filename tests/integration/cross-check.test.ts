@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import { CoachAthlete, OutboundEmail, RescaleReport, Threshold } from "~/.server/models";
 import { saveTest } from "~/.server/services/field-tests";
 import * as tests from "~/routes/athlete/tests";
+import { firstMessage, messageOf } from "~/lib/forms";
 import { formRequest, getRequest, makeUser, payloadOf, run, signIn, statusOf } from "./helpers";
 
 const READY = { answers: ["no", "no", "no", "no", "no"], stopSignsRead: true };
@@ -78,7 +79,7 @@ describe("cross-check between two tests within 14 days", () => {
         { cookie },
       ),
     );
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res).status).toBe("success");
     const latest = await Threshold.findOne({ where: { athleteId: athlete.id }, order: [["id", "DESC"]] });
     expect(latest!.value).toBe(278);
     expect(latest!.source).toBe("cross_check");
@@ -131,7 +132,8 @@ describe("cross-check between two tests within 14 days", () => {
       params,
     );
     expect(statusOf(refused)).toBe(409);
-    expect(payloadOf(refused).needsConfirm).toBe(true);
+    // The message sits beside the tick it asks for.
+    expect(messageOf(payloadOf(refused), "confirm")).toMatch(/confirm the change/);
     expect(await Threshold.count({ where: { athleteId: athlete.id } })).toBe(before);
     const page = payloadOf(await run(tests.loader, getRequest(path, coachCookie), params));
     expect(page.crossChecks[0].check.agreement).toBe("disagree");
@@ -145,7 +147,7 @@ describe("cross-check between two tests within 14 days", () => {
       ),
       params,
     );
-    expect(payloadOf(ok).ok).toBe(true);
+    expect(payloadOf(ok).status).toBe("success");
     const latest = await Threshold.findOne({ where: { athleteId: athlete.id }, order: [["id", "DESC"]] });
     expect(latest!.value).toBe(276);
     expect(JSON.parse(latest!.sourceTests!).tests).toEqual([a.test.id]);
@@ -178,7 +180,7 @@ describe("cross-check between two tests within 14 days", () => {
       ),
     );
     expect(statusOf(far)).toBe(400);
-    expect(payloadOf(far).message).toMatch(/14 days/);
+    expect(firstMessage(payloadOf(far))).toMatch(/14 days/);
     const bad = await run(
       tests.action,
       formRequest(
@@ -188,6 +190,7 @@ describe("cross-check between two tests within 14 days", () => {
       ),
     );
     expect(statusOf(bad)).toBe(400);
+    expect(messageOf(payloadOf(bad), "choice")).toBe("Choose one test or their mean.");
     const stranger = await makeUser({ role: "coach" });
     const other = await run(
       tests.action,

@@ -26,6 +26,7 @@ import * as preview from "~/routes/api/tests-preview";
 import * as uploads from "~/routes/api/uploads";
 import { resolveTarget } from "~/lib/training";
 import { toCsv, toFit, toGpx, twentyMinuteTestRide } from "../../db/demo/rides";
+import { messageOf } from "~/lib/forms";
 import { fieldErrorsOf, getRequest, makeUser, payloadOf, run, signIn, statusOf, toastOf } from "./helpers";
 
 /** A refused save carries one message, under its field or the form's. */
@@ -258,6 +259,19 @@ describe("field test → rescale", () => {
       cookie,
     );
     const test = (await FieldTest.findOne({ where: { athleteId: athlete.id } }))!;
+    // No test named: the message, and nothing undone.
+    const saved = await snapshot();
+    const unnamed = await run(
+      tests.action,
+      new Request(`${BASE}/athlete/tests`, {
+        method: "POST",
+        body: new URLSearchParams({ testId: "" }),
+        headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" },
+      }),
+    );
+    expect(statusOf(unnamed)).toBe(400);
+    expect(messageOf(payloadOf(unnamed), "testId")).toBe("Choose a test to undo.");
+    expect(await snapshot()).toEqual(saved);
     const res = await run(
       tests.action,
       new Request(`${BASE}/athlete/tests`, {
@@ -266,7 +280,7 @@ describe("field test → rescale", () => {
         headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" },
       }),
     );
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res).status).toBe("success");
     const after = await snapshot();
     // Every value is back; only the feed sequence moved on again (calendars must pick up the undo too).
     expect(after.map(({ feed_sequence: _s, ...r }) => r)).toEqual(before.map(({ feed_sequence: _s, ...r }) => r));

@@ -26,6 +26,7 @@ import { deriveStatus } from "~/.server/services/orders";
 import { createPlan } from "~/.server/services/plans";
 import * as coachShop from "~/routes/coach/shop";
 import * as listingPage from "~/routes/shop/listing";
+import { firstMessage, messageOf } from "~/lib/forms";
 import * as orderPage from "~/routes/shop/order";
 import * as webhook from "~/routes/webhooks/payments";
 import { addDays, todayIn } from "~/lib/dates";
@@ -126,7 +127,7 @@ async function shopScenario(price = "49.00") {
       { cookie: coachCookie },
     ),
   );
-  expect(payloadOf(created).ok).toBe(true);
+  expect(payloadOf(created).status).toBe("success");
   const listing = (await Listing.findOne({ where: { planId: plan.id } }))!;
   await run(
     coachShop.action,
@@ -552,13 +553,13 @@ describe("plan shop against the local payment provider", () => {
       coachShop.action,
       formRequest("/coach/shop", { intent: "close", orderId: String(order.id) }, { cookie: coachCookie }),
     );
-    expect(payloadOf(close).message).toMatch(/Money was paid/);
+    expect(firstMessage(payloadOf(close))).toMatch(/Money was paid/);
     // The coach delivers: the plan lands and the receipt goes out once.
     const res = await run(
       coachShop.action,
       formRequest("/coach/shop", { intent: "deliver", orderId: String(order.id) }, { cookie: coachCookie }),
     );
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res).status).toBe("success");
     await order.reload();
     expect(order.status).toBe("fulfilled");
     expect(await planned(buyer.id)).toBeGreaterThanOrEqual(4);
@@ -593,7 +594,7 @@ describe("plan shop against the local payment provider", () => {
       formRequest("/coach/shop", { intent: "refund", orderId: String(order.id) }, { cookie: coachCookie }),
     );
     expect(payloadOf(res)).toMatchObject({
-      ok: true,
+      status: "success",
       message: expect.stringMatching(/Refunded; \d+ future sessions? removed/),
     });
     await fake.settle();
@@ -740,7 +741,7 @@ describe("listings", () => {
     if (typeof expected === "number") expect(listing!.priceCents).toBe(expected);
     else {
       expect(statusOf(res)).toBe(400);
-      expect(payloadOf(res).fieldErrors.price).toMatch(expected);
+      expect(messageOf(payloadOf(res), "price")).toMatch(expected);
       expect(listing).toBeNull();
     }
   });
@@ -802,10 +803,14 @@ describe("listings", () => {
         ),
       );
     const bad = await edit({ price: "0.001" });
-    expect(payloadOf(bad).fieldErrors.price).toMatch(/two decimals/);
+    expect(statusOf(bad)).toBe(400);
+    expect(messageOf(payloadOf(bad), "price")).toMatch(/two decimals/);
+    expect(messageOf(payloadOf(bad))).toBe("Check the listing.");
+    // Nothing was written on the bad price.
+    expect((await Listing.findByPk(listing.id))!.title).toBe(listing.title);
     const stranger = await makeUser({ role: "coach" });
     expect(statusOf(await edit({}, await signIn(stranger.email)))).toBe(404);
-    expect(payloadOf(await edit({})).ok).toBe(true);
+    expect(payloadOf(await edit({})).status).toBe("success");
     await listing.reload();
     expect(listing).toMatchObject({
       title: "Winter base, revised",
@@ -842,6 +847,17 @@ describe("listings", () => {
       coachShop.action,
       formRequest("/coach/shop", { intent: "publish", listingId: String(listing.id) }, { cookie: coachCookie }),
     );
+    // A bad date or no way of lining up: the message beside the field, and no order.
+    const orders = await Order.count();
+    const badCheckout = await run(
+      listingPage.action,
+      formRequest(`/shop/${listing.slug}`, { mode: "sideways", date: "soon" }, { cookie: buyerCookie }),
+      { slug: listing.slug },
+    );
+    expect(statusOf(badCheckout)).toBe(400);
+    expect(messageOf(payloadOf(badCheckout), "mode")).toBe("Choose how to line the plan up.");
+    expect(messageOf(payloadOf(badCheckout), "date")).toBe("Choose a date.");
+    expect(await Order.count()).toBe(orders);
     // The buyer already has this plan on those weeks, so they say how to place the second copy.
     await checkout(listing.slug, buyerCookie, undefined, { placement: "alongside" });
   });
@@ -879,7 +895,8 @@ describe("what buying will do, shown before paying", () => {
       { slug: listing.slug },
     );
     expect(statusOf(refused)).toBe(400);
-    expect(payloadOf(refused).error).toMatch(/overlap “Sold plan”/);
+    // The message sits beside the placement choice; nothing is ordered.
+    expect(messageOf(payloadOf(refused), "placement")).toMatch(/overlap “Sold plan”/);
     expect(await Order.count({ where: { buyerId: buyer.id } })).toBe(0);
     await checkout(listing.slug, cookie, start, { placement: "after" });
     const order = (await Order.findOne({ where: { buyerId: buyer.id } }))!;

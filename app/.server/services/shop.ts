@@ -8,53 +8,18 @@ import { payments, verifyWebhook } from "../payments";
 import { refundByPerson } from "./order-review";
 import { applyProviderEvent } from "./order-webhook";
 import { isIsoDate, todayIn } from "~/lib/dates";
-import { CURRENCIES, formatPrice, LEVELS, ORDER_STATUS_LABELS, parsePriceCents } from "~/lib/shop";
+import {
+  CURRENCIES,
+  formatPrice,
+  LEVELS,
+  ORDER_STATUS_LABELS,
+  type InCents,
+  type listingEditSchema,
+  type listingSchema,
+} from "~/lib/shop";
 import { DomainError } from "../errors";
 
 export { CURRENCIES, LEVELS };
-
-const priceField = z.string({ error: "Enter a price." }).transform((v, ctx) => {
-  const r = parsePriceCents(v);
-  if (!r.ok) {
-    ctx.addIssue({ code: "custom", message: r.message });
-    return z.NEVER;
-  }
-  return r.cents;
-});
-
-const listingFields = {
-  title: z
-    .string()
-    .trim()
-    .min(3, "Give the plan a title of at least 3 characters.")
-    .max(120, "Keep the title under 120 characters."),
-  description: z
-    .string()
-    .trim()
-    .min(10, "Describe the plan in a sentence or two.")
-    .max(4000, "Keep the description under 4,000 characters."),
-  coverText: z
-    .string()
-    .trim()
-    .max(200, "Keep the cover text under 200 characters.")
-    .optional()
-    .transform((v) => v || null),
-  level: z.enum(LEVELS, { error: "Choose a level." }),
-  /** Typed as "29.50"; parsed to whole cents and validated on the cents value (see parsePriceCents). */
-  price: priceField,
-};
-const inCents = <T extends { price: number }>({ price, ...rest }: T) => ({ ...rest, priceCents: price });
-
-export const listingSchema = z
-  .object({
-    planId: z.coerce.number().int().positive("Choose one of your plans."),
-    ...listingFields,
-    currency: z.enum(CURRENCIES, { error: "Choose a currency." }),
-  })
-  .transform(inCents);
-export const listingEditSchema = z
-  .object({ listingId: z.coerce.number().int().positive(), ...listingFields })
-  .transform(inCents);
 
 const slugify = (s: string) =>
   s
@@ -65,7 +30,7 @@ const slugify = (s: string) =>
     .replace(/[\s_-]+/g, "-")
     .slice(0, 60) || "plan";
 
-export async function createListing(coach: User, input: z.infer<typeof listingSchema>) {
+export async function createListing(coach: User, input: InCents<z.output<typeof listingSchema>>) {
   const plan = await SeasonPlan.findOne({ where: { id: input.planId, ownerId: coach.id } });
   if (!plan) throw new DomainError("not_found", "That plan is not yours.");
   const weeks = await PlanWeek.findAll({ where: { planId: plan.id } });
@@ -100,7 +65,7 @@ export async function setPublished(coach: User, listingId: number, published: bo
  * Changes what the next buyer sees. Orders already made keep the amount they were created with (the order row
  * holds its own amountCents, and a checkout already open charges that amount).
  */
-export async function updateListing(coach: User, input: z.infer<typeof listingEditSchema>) {
+export async function updateListing(coach: User, input: InCents<z.output<typeof listingEditSchema>>) {
   return writeTransaction(async (transaction) => {
     const listing = await Listing.findOne({ where: { id: input.listingId, coachId: coach.id }, transaction });
     if (!listing) throw new DomainError("not_found", "That listing is not yours.");

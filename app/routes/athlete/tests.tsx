@@ -5,7 +5,9 @@ import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireAthleteSubject } from "~/.server/access";
-import { pageFailure } from "~/.server/replies";
+import { formFailure } from "~/.server/replies";
+import { undoTestSchema, crossCheckSchema } from "~/lib/field-tests";
+import { accepted, firstMessage, parseSubmission, refuse } from "~/lib/forms";
 import { testHistory, undoTest } from "~/.server/services/field-tests";
 import { BandTable } from "~/components/band-table";
 import { bandSetsFor } from "~/.server/services/bands";
@@ -44,29 +46,30 @@ export async function action({ request, params }: Route.ActionArgs) {
   const { athlete, viewer } = await requireAthleteSubject(request, params.athleteId);
   const form = await request.formData();
   if (form.get("intent") === "cross-check") {
+    const submission = parseSubmission(form, crossCheckSchema);
+    if (submission.status !== "success") return refuse(submission);
     try {
-      const r = await applyCrossCheck(athlete, viewer, {
-        aId: Number(form.get("aId")),
-        bId: Number(form.get("bId")),
-        choice: String(form.get("choice") ?? ""),
-        confirmed: form.get("confirmed") === "1",
-      });
-      return {
-        ok: true,
-        message: `Threshold set to ${r.value} from the cross-check; ${r.report.sessionsChanged} sessions rescaled.`,
-      };
+      const { confirmed, ...pick } = submission.value;
+      const r = await applyCrossCheck(athlete, viewer, { ...pick, confirmed: confirmed === "1" });
+      return accepted(
+        submission,
+        `Threshold set to ${r.value} from the cross-check; ${r.report.sessionsChanged} sessions rescaled.`,
+      );
     } catch (err) {
-      return pageFailure(err, (e) => ({ ok: false, message: e.message, needsConfirm: e.kind === "confirm_needed" }));
+      // A large change asks for the tick: the service names it `confirm`, and its message sits beside the checkbox.
+      return formFailure(err, submission);
     }
   }
+  const submission = parseSubmission(form, undoTestSchema);
+  if (submission.status !== "success") return refuse(submission);
   try {
-    const { undo } = await undoTest(athlete, viewer, Number(form.get("testId")));
-    return {
-      ok: true,
-      message: `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets. A correction has been e-mailed to the athlete and coach.`,
-    };
+    const { undo } = await undoTest(athlete, viewer, submission.value.testId);
+    return accepted(
+      submission,
+      `Test removed: ${undo?.sessionsChanged ?? 0} sessions are back on their previous targets. A correction has been e-mailed to the athlete and coach.`,
+    );
   } catch (err) {
-    return pageFailure(err, (e) => ({ ok: false, message: e.message }));
+    return formFailure(err, submission);
   }
 }
 
@@ -98,7 +101,11 @@ export default function Tests({ loaderData }: Route.ComponentProps) {
       ))}
       {undo.data && (
         <div className="mb-4">
-          <FormMessage tone={undo.data.ok ? "ok" : "error"}>{undo.data.message}</FormMessage>
+          {undo.data.status === "success" && "message" in undo.data ? (
+            <FormMessage tone="ok">{undo.data.message}</FormMessage>
+          ) : (
+            <FormMessage tone="error">{firstMessage(undo.data) ?? "The test could not be undone."}</FormMessage>
+          )}
         </div>
       )}
       <div className="grid grid-cols-1 gap-6 lg:grid-cols-[minmax(0,1fr)_22rem]">

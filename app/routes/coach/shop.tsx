@@ -1,26 +1,41 @@
 import { createColumnHelper } from "@tanstack/react-table";
 import { useEffect, useRef, useState } from "react";
-import { data, Link, useFetcher } from "react-router";
+import type { FieldMetadata } from "@conform-to/react";
+import { Link, useFetcher } from "react-router";
 import { DataTable } from "~/components/data-table";
 import { buttonClass } from "~/components/ui/button";
 import { Card, PageHeader } from "~/components/ui/card";
 import { Field, FormMessage, SelectField } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { Listing, SeasonPlan } from "~/.server/models";
-import { pageFailure } from "~/.server/replies";
+import { formFailure } from "~/.server/replies";
 import { resolveReview, reviewQueue, unmatchedEvents } from "~/.server/services/order-review";
 import {
   createListing,
   formatPrice,
-  listingEditSchema,
-  listingSchema,
   refundOrder,
   salesFor,
   setPublished,
   updateListing,
 } from "~/.server/services/shop";
-import { CURRENCIES, LEVELS } from "~/lib/shop";
-import { parseForm } from "~/lib/forms";
+import {
+  CURRENCIES,
+  inCents,
+  LEVELS,
+  listingEditSchema,
+  listingIdSchema,
+  listingSchema,
+  orderIdSchema,
+} from "~/lib/shop";
+import {
+  accepted,
+  firstMessage,
+  jsonRefusal,
+  parseSubmission,
+  refuse,
+  useSchemaForm,
+  type FormReply,
+} from "~/lib/forms";
 import type { Route } from "./+types/shop";
 
 export const meta: Route.MetaFunction = () => [{ title: "Selling plans · Pacewright" }];
@@ -57,75 +72,97 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-type Result = { ok: boolean; message: string; fieldErrors?: Record<string, string | undefined> };
-
 export async function action({ request }: Route.ActionArgs) {
   const coach = await requireRole(request, ["coach", "admin"]);
   const form = await request.formData();
   const intent = form.get("intent");
-  try {
-    if (intent === "create") {
-      const parsed = parseForm(listingSchema, form);
-      if (!parsed.ok)
-        return data<Result>(
-          { ok: false, message: "Check the listing.", fieldErrors: parsed.fieldErrors },
-          { status: 400 },
-        );
-      const l = await createListing(coach, parsed.data);
-      return {
-        ok: true,
-        message: `Listed “${l.title}” (not published yet: preview it, then publish).`,
-      } satisfies Result;
+  if (intent === "create") {
+    const submission = parseSubmission(form, listingSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Check the listing." });
+    try {
+      const l = await createListing(coach, inCents(submission.value));
+      return accepted(submission, `Listed “${l.title}” (not published yet: preview it, then publish).`);
+    } catch (err) {
+      return formFailure(err, submission);
     }
-    if (intent === "edit") {
-      const parsed = parseForm(listingEditSchema, form);
-      if (!parsed.ok)
-        return data<Result>(
-          { ok: false, message: "Check the listing.", fieldErrors: parsed.fieldErrors },
-          { status: 400 },
-        );
-      const l = await updateListing(coach, parsed.data);
-      return {
-        ok: true,
-        message: `Saved “${l.title}”: the next buyer sees ${formatPrice(l.priceCents, l.currency)}; earlier orders keep their price.`,
-      } satisfies Result;
-    }
-    if (intent === "deliver" || intent === "close") {
-      await resolveReview(coach, Number(form.get("orderId")), intent);
-      return {
-        ok: true,
-        message:
-          intent === "deliver"
-            ? "Delivered: the plan is on the buyer's calendar."
-            : "Closed: nothing was paid, nothing was placed.",
-      } satisfies Result;
-    }
-    if (intent === "publish" || intent === "unpublish") {
-      await setPublished(coach, Number(form.get("listingId")), intent === "publish");
-      return {
-        ok: true,
-        message: intent === "publish" ? "Published: it is in the shop." : "Unpublished: it left the shop.",
-      } satisfies Result;
-    }
-    if (intent === "refund") {
-      const r = await refundOrder(coach, Number(form.get("orderId")));
-      if (r.already)
-        return {
-          ok: true,
-          message: r.inFlight
-            ? "A refund for this order is already on its way."
-            : "Already refunded: nothing more to do.",
-        } satisfies Result;
-      return {
-        ok: true,
-        message: `Refunded; ${r.removed} future session${r.removed === 1 ? "" : "s"} removed from the buyer's calendar.`,
-      } satisfies Result;
-    }
-  } catch (err) {
-    return pageFailure(err, (e): Result => ({ ok: false, message: e.message }));
   }
-  return data<Result>({ ok: false, message: "Unknown request." }, { status: 400 });
+  if (intent === "edit") {
+    const submission = parseSubmission(form, listingEditSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Check the listing." });
+    try {
+      const l = await updateListing(coach, inCents(submission.value));
+      return accepted(
+        submission,
+        `Saved “${l.title}”: the next buyer sees ${formatPrice(l.priceCents, l.currency)}; earlier orders keep their price.`,
+        { reset: false },
+      );
+    } catch (err) {
+      return formFailure(err, submission);
+    }
+  }
+  if (intent === "deliver" || intent === "close") {
+    const submission = parseSubmission(form, orderIdSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Unknown request." });
+    try {
+      await resolveReview(coach, submission.value.orderId, intent);
+      return accepted(
+        submission,
+        intent === "deliver"
+          ? "Delivered: the plan is on the buyer's calendar."
+          : "Closed: nothing was paid, nothing was placed.",
+      );
+    } catch (err) {
+      return formFailure(err, submission);
+    }
+  }
+  if (intent === "publish" || intent === "unpublish") {
+    const submission = parseSubmission(form, listingIdSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Unknown request." });
+    try {
+      await setPublished(coach, submission.value.listingId, intent === "publish");
+      return accepted(
+        submission,
+        intent === "publish" ? "Published: it is in the shop." : "Unpublished: it left the shop.",
+      );
+    } catch (err) {
+      return formFailure(err, submission);
+    }
+  }
+  if (intent === "refund") {
+    const submission = parseSubmission(form, orderIdSchema);
+    if (submission.status !== "success") return refuse(submission, { form: "Unknown request." });
+    try {
+      const r = await refundOrder(coach, submission.value.orderId);
+      if (r.already)
+        return accepted(
+          submission,
+          r.inFlight ? "A refund for this order is already on its way." : "Already refunded: nothing more to do.",
+        );
+      return accepted(
+        submission,
+        `Refunded; ${r.removed} future session${r.removed === 1 ? "" : "s"} removed from the buyer's calendar.`,
+      );
+    } catch (err) {
+      return formFailure(err, submission);
+    }
+  }
+  return jsonRefusal("Unknown request.");
 }
+
+type Reply = FormReply & { message?: string };
+
+/** What a one-line reply says: the success message, or the first refusal. */
+function noteOf(reply: Reply | undefined) {
+  if (!reply) return null;
+  if (reply.status === "success") return { ok: true, message: reply.message ?? "" };
+  return { ok: false, message: firstMessage(reply) ?? "Check the form." };
+}
+
+/** First message per listing field, from conform's state (browser check or the action's reply). */
+function listingErrors(fields: Record<string, FieldMetadata<unknown>>, keys: string[]) {
+  return Object.fromEntries(keys.map((k) => [k, fields[k]?.errors?.[0]]));
+}
+const LISTING_KEYS = ["title", "coverText", "description", "level", "price"];
 
 type Data = Route.ComponentProps["loaderData"];
 type Sale = Data["sales"][number];
@@ -138,16 +175,17 @@ const column = createColumnHelper<Sale>();
  * and Escape or "Keep" puts the button back — the same by mouse, keyboard and touch.
  */
 function RefundButton({ sale }: { sale: { id: number; amount: string; status?: string } }) {
-  const fetcher = useFetcher<Result>();
+  const fetcher = useFetcher<typeof action>();
+  const note = noteOf(fetcher.data);
   const [asking, setAsking] = useState(false);
   const confirmRef = useRef<HTMLButtonElement>(null);
   useEffect(() => {
     if (asking) confirmRef.current?.focus();
   }, [asking]);
-  if (fetcher.data?.ok)
+  if (note?.ok)
     return (
       <span className="block text-xs text-teal" role="status">
-        {fetcher.data.message}
+        {note.message}
       </span>
     );
   if (sale.status && sale.status !== "fulfilled") return null;
@@ -182,7 +220,7 @@ function RefundButton({ sale }: { sale: { id: number; amount: string; status?: s
           {fetcher.state !== "idle" ? "Refunding…" : "Refund"}
         </button>
       )}
-      {fetcher.data && !fetcher.data.ok && <span className="block text-xs text-brick">{fetcher.data.message}</span>}
+      {note && !note.ok && <span className="block text-xs text-brick">{note.message}</span>}
     </fetcher.Form>
   );
 }
@@ -214,7 +252,8 @@ const SALES_COLUMNS = [
 ];
 
 function ReviewItem({ row }: { row: ReviewRow }) {
-  const fetcher = useFetcher<Result>();
+  const fetcher = useFetcher<typeof action>();
+  const note = noteOf(fetcher.data);
   return (
     <li className="flex flex-col gap-2 py-3" data-testid="review-item">
       <div className="flex flex-wrap items-baseline gap-x-3">
@@ -230,7 +269,7 @@ function ReviewItem({ row }: { row: ReviewRow }) {
         Price {row.price} · paid {row.paid ?? "nothing on record"}
         {row.refunded ? ` · refunded ${row.refunded}` : ""} · {row.placed ? "sessions placed" : "no sessions placed"}
       </p>
-      {fetcher.data && <FormMessage tone={fetcher.data.ok ? "ok" : "error"}>{fetcher.data.message}</FormMessage>}
+      {note && <FormMessage tone={note.ok ? "ok" : "error"}>{note.message}</FormMessage>}
       <div className="flex flex-wrap gap-2">
         {row.canDeliver && (
           <fetcher.Form method="post">
@@ -298,13 +337,16 @@ function ListingFields({ errors, values }: { errors: Record<string, string | und
 }
 
 function ListingItem({ listing }: { listing: ListingRow }) {
-  const toggle = useFetcher<Result>();
-  const edit = useFetcher<Result>();
+  const toggle = useFetcher<typeof action>();
+  const edit = useFetcher<typeof action>();
+  const toggled = noteOf(toggle.data);
+  const saved = noteOf(edit.data);
+  const [form, fields] = useSchemaForm(listingEditSchema, edit.data, { id: `edit-listing-${listing.id}` });
   const [editing, setEditing] = useState(false);
-  const errors = edit.data?.fieldErrors ?? {};
+  const errors = listingErrors(fields, LISTING_KEYS);
   // A saved edit closes the form, once per answer.
   const [closedFor, setClosedFor] = useState<typeof edit.data>(undefined);
-  if (edit.state === "idle" && edit.data?.ok && closedFor !== edit.data) {
+  if (edit.state === "idle" && saved?.ok && closedFor !== edit.data) {
     setClosedFor(edit.data);
     setEditing(false);
   }
@@ -339,16 +381,18 @@ function ListingItem({ listing }: { listing: ListingRow }) {
           </button>
         </toggle.Form>
       </div>
-      {toggle.data && <FormMessage tone={toggle.data.ok ? "ok" : "error"}>{toggle.data.message}</FormMessage>}
-      {edit.data?.ok && !editing && <FormMessage tone="ok">{edit.data.message}</FormMessage>}
+      {toggled && <FormMessage tone={toggled.ok ? "ok" : "error"}>{toggled.message}</FormMessage>}
+      {saved?.ok && !editing && <FormMessage tone="ok">{saved.message}</FormMessage>}
       {editing && (
         <edit.Form
           method="post"
+          id={form.id}
+          onSubmit={form.onSubmit}
           className="mt-3 flex flex-col gap-3 rounded-lg border border-line bg-paper/50 p-3"
           noValidate
           aria-label={`Edit ${listing.title}`}
         >
-          {edit.data && !edit.data.ok && <FormMessage tone="error">{edit.data.message}</FormMessage>}
+          {form.errors?.[0] && <FormMessage tone="error">{form.errors[0]}</FormMessage>}
           <input type="hidden" name="listingId" value={listing.id} />
           <ListingFields errors={errors} values={listing} />
           <Field
@@ -375,8 +419,10 @@ function ListingItem({ listing }: { listing: ListingRow }) {
 
 export default function CoachShop({ loaderData }: Route.ComponentProps) {
   const { plans, listings, sales, totals, review, admin, unmatched } = loaderData;
-  const create = useFetcher<Result>();
-  const errors = create.data?.fieldErrors ?? {};
+  const create = useFetcher<typeof action>();
+  const created = noteOf(create.data);
+  const [form, fields] = useSchemaForm(listingSchema, create.data, { id: "create-listing" });
+  const errors = listingErrors(fields, [...LISTING_KEYS, "planId", "currency"]);
   return (
     <>
       <PageHeader
@@ -427,8 +473,18 @@ export default function CoachShop({ loaderData }: Route.ComponentProps) {
         {(plans.length > 0 || !admin) && (
           <Card className="self-start">
             <h2 className="font-semibold">List a plan</h2>
-            <create.Form method="post" className="mt-3 flex flex-col gap-3" noValidate>
-              {create.data && <FormMessage tone={create.data.ok ? "ok" : "error"}>{create.data.message}</FormMessage>}
+            <create.Form
+              method="post"
+              id={form.id}
+              onSubmit={form.onSubmit}
+              className="mt-3 flex flex-col gap-3"
+              noValidate
+            >
+              {created?.ok ? (
+                <FormMessage tone="ok">{created.message}</FormMessage>
+              ) : (
+                form.errors?.[0] && <FormMessage tone="error">{form.errors[0]}</FormMessage>
+              )}
               <SelectField label="Season plan" name="planId" error={errors.planId}>
                 {plans.map((p) => (
                   <option key={p.id} value={p.id}>

@@ -1,6 +1,5 @@
 import { useState } from "react";
-import { data, Form, Link, redirect, useNavigation } from "react-router";
-import { z } from "zod";
+import { Form, Link, redirect, useNavigation } from "react-router";
 import { PhaseRibbon } from "~/components/phase-ribbon";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
@@ -9,13 +8,14 @@ import { getUser, requireUser } from "~/.server/auth";
 import { notFound } from "~/.server/http";
 import { Listing, PlanItem, PlanWeek, User } from "~/.server/models";
 import { placementContext } from "~/.server/services/placement";
-import { pageFailure } from "~/.server/replies";
+import { formFailure } from "~/.server/replies";
 import { formatPrice, startCheckout } from "~/.server/services/shop";
 import { isIsoDate, todayIn } from "~/lib/dates";
 import { formatMinutes } from "~/lib/duration";
-import { parseForm } from "~/lib/forms";
+import { messageOf, parseSubmission, refuse, useSchemaForm } from "~/lib/forms";
 import { firstMondayAfter, overlapping, spanOf, type PlanSpan } from "~/lib/placement";
 import { describeBlock } from "~/lib/sessions";
+import { checkoutSchema } from "~/lib/shop";
 import { blockDuration, type Block } from "~/lib/training";
 import type { Route } from "./+types/listing";
 
@@ -64,37 +64,31 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-const checkoutSchema = z.object({
-  mode: z.enum(["start", "event"], { error: "Choose how to line the plan up." }),
-  date: z.string().refine(isIsoDate, "Choose a date."),
-  placement: z.enum(["after", "alongside"]).optional(),
-});
-
 export async function action({ request, params }: Route.ActionArgs) {
   const buyer = await requireUser(request);
   const listing = await Listing.findOne({ where: { slug: params.slug, published: true } });
   if (!listing) notFound("This plan is not in the shop.");
-  const parsed = parseForm(checkoutSchema, await request.formData());
-  if (!parsed.ok) return data({ error: Object.values(parsed.fieldErrors)[0] ?? "Check the form." }, { status: 400 });
+  const submission = parseSubmission(await request.formData(), checkoutSchema);
+  if (submission.status !== "success") return refuse(submission);
+  const choice = submission.value;
   // The same overlap check the page shows, repeated here: the buyer must have chosen before any money moves.
-  let align: { mode: "start" | "event"; date: string } = { mode: parsed.data.mode, date: parsed.data.date };
+  let align: { mode: "start" | "event"; date: string } = { mode: choice.mode, date: choice.date };
   if (buyer.role === "athlete") {
     const { current } = await placementContext(buyer.id, listing.planId, todayIn(buyer.timezone));
     const clash = overlapping(current, spanOf(align.mode, align.date, listing.weeks));
-    if (clash.length && !parsed.data.placement)
-      return data(
-        {
-          error: `These dates overlap ${clash.map((c) => `“${c.name}” (${c.from} to ${c.to})`).join(", ")}. Choose to start after it or to place the plan alongside.`,
+    if (clash.length && !choice.placement)
+      return refuse(submission, {
+        fields: {
+          placement: `These dates overlap ${clash.map((c) => `“${c.name}” (${c.from} to ${c.to})`).join(", ")}. Choose to start after it or to place the plan alongside.`,
         },
-        { status: 400 },
-      );
-    if (clash.length && parsed.data.placement === "after") align = { mode: "start", date: firstMondayAfter(clash) };
+      });
+    if (clash.length && choice.placement === "after") align = { mode: "start", date: firstMondayAfter(clash) };
   }
   try {
     const { url } = await startCheckout(buyer, listing, align, new URL(request.url).origin);
     return redirect(url);
   } catch (err) {
-    return pageFailure(err, (e) => ({ error: e.message }));
+    return formFailure(err, submission);
   }
 }
 
@@ -102,10 +96,14 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
   const { listing, ribbon, samples, viewer, today, placement } = loaderData;
   const busy = useNavigation().state !== "idle";
   const back = `/shop/${listing.slug}`;
-  const [mode, setMode] = useState<"start" | "event">("start");
-  const [date, setDate] = useState(today);
+  const [form, fields] = useSchemaForm(checkoutSchema, actionData, { defaultValue: { mode: "start", date: today } });
+  // Refilled from a refused submission, so the preview speaks of the dates that were sent.
+  const [mode, setMode] = useState<"start" | "event">(fields.mode.initialValue === "event" ? "event" : "start");
+  const [date, setDate] = useState(typeof fields.date.initialValue === "string" ? fields.date.initialValue : today);
   const span = isIsoDate(date) ? spanOf(mode, date, listing.weeks) : null;
   const clash = placement && span ? overlapping(placement.current, span) : [];
+  // The overlap message sits beside the choice; if the dates no longer overlap it still shows, above the form.
+  const refused = messageOf(actionData) ?? (clash.length ? undefined : fields.placement.errors?.[0]);
   return (
     <div className="mx-auto max-w-5xl">
       <p className="mb-2 text-sm">
@@ -152,14 +150,23 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
         </div>
         <Card className="order-first self-start lg:order-none">
           <p className="num text-3xl font-semibold text-teal-dark">{listing.price}</p>
-          {actionData?.error && (
+          {refused && (
             <div className="mt-3">
-              <FormMessage>{actionData.error}</FormMessage>
+              <FormMessage>{refused}</FormMessage>
             </div>
           )}
           {viewer?.role === "athlete" ? (
-            <Form method="post" className="mt-4 flex flex-col gap-3 text-sm">
-              <fieldset className="flex flex-col gap-1">
+            <Form
+              method="post"
+              id={form.id}
+              onSubmit={form.onSubmit}
+              noValidate
+              className="mt-4 flex flex-col gap-3 text-sm"
+            >
+              <fieldset
+                className="flex flex-col gap-1"
+                aria-describedby={fields.mode.errors ? fields.mode.errorId : undefined}
+              >
                 <legend className="font-medium">Line the plan up</legend>
                 <label className="flex items-center gap-2">
                   <input
@@ -181,6 +188,11 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
                   />{" "}
                   end in the week of my event
                 </label>
+                {fields.mode.errors?.[0] && (
+                  <p id={fields.mode.errorId} className="text-xs text-brick">
+                    {fields.mode.errors[0]}
+                  </p>
+                )}
               </fieldset>
               <Field
                 label={mode === "start" ? "Start date" : "Event date"}
@@ -190,13 +202,19 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
                 onChange={(e) => setDate(e.target.value)}
                 min={today}
                 required
+                error={fields.date.errors?.[0]}
               />
               {span && (
                 <p className="num text-xs text-ink-soft">
                   Week 1 starts Monday {span.from}; the last week ends {span.to}.
                 </p>
               )}
-              <Consequences placement={placement} clash={clash} />
+              <Consequences
+                placement={placement}
+                clash={clash}
+                error={fields.placement.errors?.[0]}
+                errorId={fields.placement.errorId}
+              />
               <button type="submit" className={buttonClass("primary", "py-2.5")} disabled={busy}>
                 {busy ? "Opening checkout…" : `Buy for ${listing.price}`}
               </button>
@@ -227,9 +245,13 @@ export default function ListingPage({ loaderData, actionData }: Route.ComponentP
 function Consequences({
   placement,
   clash,
+  error,
+  errorId,
 }: {
   placement: { current: PlanSpan[]; missingThresholds: { sport: string; sessions: number }[] } | null;
   clash: PlanSpan[];
+  error?: string;
+  errorId: string;
 }) {
   if (!placement) return null;
   return (
@@ -251,6 +273,7 @@ function Consequences({
         <fieldset
           className="flex flex-col gap-1 rounded-lg border border-brick/40 bg-brick/5 p-3 text-xs"
           data-testid="overlap-warning"
+          aria-describedby={error ? errorId : undefined}
         >
           <legend className="px-1 font-medium">These dates overlap your current plan</legend>
           <p>{clash.map((c) => `“${c.name}” runs ${c.from} to ${c.to}`).join("; ")}. Choose one:</p>
@@ -262,6 +285,11 @@ function Consequences({
             <input type="radio" name="placement" value="alongside" required /> place it alongside (both plans on the
             same days)
           </label>
+          {error && (
+            <p id={errorId} className="font-medium text-brick">
+              {error}
+            </p>
+          )}
         </fieldset>
       )}
     </>
