@@ -6,7 +6,7 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireAthleteSubject } from "~/.server/access";
 import { pageFailure } from "~/.server/replies";
-import { testHistory, undoTest } from "~/.server/services/field-tests";
+import { testHistory, undoTest } from "~/.server/services/field-test-history";
 import { BandTable } from "~/components/band-table";
 import { bandSetsFor } from "~/.server/services/bands";
 import { bandTable, formatThreshold as show, THRESHOLD_LABEL } from "~/lib/band-table";
