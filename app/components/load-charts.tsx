@@ -20,7 +20,8 @@ import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { addDays } from "~/lib/dates";
 import { LOAD_RANGES } from "~/lib/load-ranges";
-import type { loadSeries, powerCurveComparison } from "~/.server/services/load";
+import type { loadSeries } from "~/.server/services/load";
+import type { powerCurveComparison } from "~/.server/services/load-figures";
 
 /** What the load page's loader sends: the series from the load model and the power-curve comparison, as the server types them. */
 export type LoadData = Awaited<ReturnType<typeof loadSeries>> & {

@@ -1,3 +1,7 @@
+/**
+ * The pacing plan on a session page: chart, printable sheet and the card that edits the split. Over 300 lines because
+ * the three render one PacingData, the sheet draws the chart and the card holds the sheet; they change together.
+ */
 import { Form, useFetcher } from "react-router";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { CoachAthlete, ScheduledBlock, ScheduledSession, Threshold } from "~/.server/models";
-import { attachRide, loadSeries } from "~/.server/services/load";
+import { loadSeries } from "~/.server/services/load";
+import { attachRide } from "~/.server/services/ride-attach";
 import * as loadApi from "~/routes/api/athlete-load";
 import * as loadPage from "~/routes/athlete/load";
 import * as roster from "~/routes/coach/roster";

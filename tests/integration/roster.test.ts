@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { CoachAthlete, FieldTest, ScheduledSession, Threshold } from "~/.server/models";
-import { rosterLoad } from "~/.server/services/load";
+import { rosterLoad } from "~/.server/services/load-figures";
 import { retestStatus } from "~/.server/services/retests";
 import { rosterFor } from "~/.server/services/roster";
 import { currentThresholds } from "~/.server/services/thresholds";

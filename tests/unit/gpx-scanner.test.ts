@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { XMLParser } from "fast-xml-parser";
 import { describe, expect, it } from "vitest";
-import { readGpx } from "~/lib/training/activity";
+import { readGpx } from "~/lib/training/activity-gpx";
 
 /**
  * The GPX scanner against a general-purpose XML parser (fast-xml-parser) on generated files: namespace prefixes,

@@ -1,6 +1,6 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { timeMs } from "~/lib/training/activity";
+import { timeMs } from "~/lib/training/activity-series";
 
 const pad = (n: number, width: number) => String(n).padStart(width, "0");
 

@@ -1,12 +1,16 @@
+/**
+ * The daily load series: per-day rows from the database (sessions, rides, band minutes), the fitness/fatigue model
+ * over them, weekly sums and the readiness notes. Over 300 lines because the row query, the model walk and the notes
+ * share the series' day shape; the attach write and the page's side figures live in ride-attach.ts and load-figures.ts.
+ */
 import { Op, QueryTypes } from "sequelize";
 import { db, writeTransaction } from "../db";
-import { ScheduledBlock, ScheduledSession, Threshold, Upload, type User } from "../models";
+import { ScheduledSession, Threshold, Upload, type User } from "../models";
 import { bandSetsFor } from "./bands";
 import { activityHistograms, loadActivity, type UploadSummary } from "./uploads";
 import { addDays, dayRange, daysBetween, mondayOf, todayIn, weekday } from "~/lib/dates";
 import {
   acuteChronicRatio,
-  bandLoad,
   effortLoad,
   fitnessFatigue,
   minutesPerBand,
@@ -15,108 +19,8 @@ import {
   bandAboveThreshold,
   ratioBand,
   usualWeekRange,
-  timeInTarget,
-  trimpBanister,
-  workKj,
   type BandSet,
 } from "~/lib/training";
-import { DomainError } from "../errors";
-
-/**
- * Attaches a ride file to the planned session of its day (same sport, still planned), or keeps it as an unplanned
- * ride. Work, minutes per power band, band load and Banister TRIMP (from the athlete's resting and maximum heart
- * rate) are stored on the session.
- */
-export async function attachRide(athlete: User, uploadId: number, date: string, effortScore: number | null) {
-  const upload = await Upload.findOne({ where: { id: uploadId, athleteId: athlete.id } });
-  if (!upload) throw new DomainError("not_found", "That upload is not yours.");
-  const activity = await loadActivity(upload);
-  const samples = activity.samples;
-  const minutes = samples.length / 60;
-  const hasPower = activity.meta.channels.includes("power");
-  const power = await Threshold.findOne({
-    where: { athleteId: athlete.id, sport: "bike", metric: "power", effectiveFrom: { [Op.lte]: date } },
-    order: [["effectiveFrom", "DESC"]],
-  });
-  // Kept on the session as a record of the bands at the time; pages recompute time in band from the file's histogram.
-  const powerSet = (await bandSetsFor(athlete))["bike:power"];
-  const hist = (upload.summary as Partial<UploadSummary>).histograms ?? activityHistograms(activity);
-  const banded = hasPower && power && hist.power ? bandLoad(hist.power, power.value, powerSet) : null;
-  const zones = banded?.minutes ?? null;
-  const hr = samples.map((s) => s.hr).filter((v): v is number => typeof v === "number");
-  const trimp =
-    hr.length > 60 && athlete.restingHr && athlete.maxHr
-      ? trimpBanister({
-          minutes: hr.length / 60,
-          avgHr: hr.reduce((a, b) => a + b, 0) / hr.length,
-          restHr: athlete.restingHr,
-          maxHr: athlete.maxHr,
-          sex: athlete.sex === "female" ? "female" : "male",
-        })
-      : null;
-  const result = {
-    workKj: hasPower ? workKj(samples) : null,
-    trimp,
-    zoneMinutes: zones ? JSON.stringify(zones) : null,
-    bandLoad: banded ? Math.round(banded.load * 10) / 10 : null,
-    uploadId: upload.id,
-    actualMinutes: Math.round(minutes * 10) / 10,
-  };
-  return writeTransaction(async (transaction) => {
-    const planned = await ScheduledSession.findOne({
-      where: { athleteId: athlete.id, date, status: "planned", sport: "bike" },
-      order: [["position", "ASC"]],
-      transaction,
-    });
-    if (planned) {
-      const steps = await ScheduledBlock.findAll({
-        where: { scheduledSessionId: planned.id },
-        order: [["position", "ASC"]],
-        transaction,
-      });
-      const fit = hasPower
-        ? timeInTarget(
-            samples,
-            steps.map((b) => ({
-              durationS: b.durationS,
-              low: b.metric === "power" ? b.lowAbs : null,
-              high: b.metric === "power" ? b.highAbs : null,
-              ramp: b.ramp,
-            })),
-          )
-        : { targetedS: 0, inTargetS: 0 };
-      await planned.update(
-        {
-          ...result,
-          targetedS: fit.targetedS || null,
-          inTargetS: fit.targetedS ? fit.inTargetS : null,
-          status: "done",
-          effortScore,
-          completedAt: new Date(),
-          feedSequence: planned.feedSequence + 1,
-        },
-        { transaction },
-      );
-      return { session: planned, matched: true };
-    }
-    const session = await ScheduledSession.create(
-      {
-        athleteId: athlete.id,
-        date,
-        name: "Unplanned ride",
-        sport: "bike",
-        status: "done",
-        effortScore,
-        completedAt: new Date(),
-        plannedDurationS: 0,
-        plannedLoad: 0,
-        ...result,
-      },
-      { transaction },
-    );
-    return { session, matched: false };
-  });
-}
 
 export interface DayRow {
   date: string;
@@ -489,49 +393,4 @@ function readinessNote(input: {
   return notes;
 }
 
-const round = (x: number, digits = 1) => Math.round(x * 10 ** digits) / 10 ** digits;
-
-/** Best power for each window across the uploads of two 90-day periods: the last 90 days and the 90 before. */
-export async function powerCurveComparison(athlete: User) {
-  const today = todayIn(athlete.timezone);
-  const uploads = await Upload.findAll({
-    where: {
-      athleteId: athlete.id,
-      createdAt: { [Op.gte]: new Date(Date.parse(`${addDays(today, -180)}T00:00:00Z`)) },
-    },
-  });
-  const cut = Date.parse(`${addDays(today, -90)}T00:00:00Z`);
-  const best = (list: Upload[]) => {
-    const m = new Map<number, number>();
-    for (const u of list)
-      for (const p of (u.summary as { curve?: { windowS: number; watts: number }[] }).curve ?? [])
-        m.set(p.windowS, Math.max(m.get(p.windowS) ?? 0, p.watts));
-    return m;
-  };
-  const recent = best(uploads.filter((u) => u.createdAt.getTime() >= cut));
-  const before = best(uploads.filter((u) => u.createdAt.getTime() < cut));
-  const windows = [...new Set([...recent.keys(), ...before.keys()])].sort((a, b) => a - b);
-  return windows.map((w) => ({
-    windowS: w,
-    recent: recent.has(w) ? Math.round(recent.get(w)!) : null,
-    previous: before.has(w) ? Math.round(before.get(w)!) : null,
-  }));
-}
-
-/** Roster figures: sessions done / planned over the last four weeks, and whether the load ratio is a spike. */
-export async function rosterLoad(athlete: User) {
-  const today = todayIn(athlete.timezone);
-  return rosterFigures(await loadSeries(athlete, addDays(today, -27), today));
-}
-
-export function rosterFigures(s: Pick<ReturnType<typeof seriesFromRows>, "weekly" | "latestRatio">) {
-  const planned = s.weekly.reduce((a, w) => a + w.plannedSessions, 0);
-  const done = s.weekly.reduce((a, w) => a + w.doneSessions, 0);
-  return {
-    compliance: planned ? round(done / planned, 2) : null,
-    done,
-    planned,
-    ratio: s.latestRatio,
-    spike: s.latestRatio !== null && s.latestRatio > 1.5,
-  };
-}
+export const round = (x: number, digits = 1) => Math.round(x * 10 ** digits) / 10 ** digits;

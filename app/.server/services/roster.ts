@@ -1,7 +1,8 @@
 import { Op, QueryTypes } from "sequelize";
 import { db } from "../db";
 import { CoachAthlete, Invitation, Threshold, User } from "../models";
-import { DAY_COLUMNS, rosterFigures, seriesFromRows, warmStart, type DayRow } from "./load";
+import { DAY_COLUMNS, seriesFromRows, warmStart, type DayRow } from "./load";
+import { rosterFigures } from "./load-figures";
 import { retestFrom } from "./retests";
 import { addDays, todayIn } from "~/lib/dates";
 import { defaultBandSet } from "~/lib/training";

@@ -2,7 +2,7 @@ import { CpFitChart } from "~/components/cp-fit-chart";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { USUAL_RAMP_RATE_W_PER_MIN } from "~/lib/training";
-import type { preview } from "~/.server/services/field-tests";
+import type { preview } from "~/.server/services/field-test-proposal";
 
 /** What `/api/tests/preview` answers (its JSON is the service's result as is). */
 export type TestPreview = Awaited<ReturnType<typeof preview>>;

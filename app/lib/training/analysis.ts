@@ -1,3 +1,8 @@
+/**
+ * What one 1 Hz activity shows: best efforts and the power curve, ramp detection, pacing thirds, heart-rate drift and
+ * time in zones or targets. Over 300 lines because all are short reads of the same series sharing powerOf and the
+ * prefix-sum window helpers; grouped any finer, the modules would be a few dozen lines each.
+ */
 import type { Sample } from "./activity";
 import { requirePositive, TrainingInputError } from "./errors";
 

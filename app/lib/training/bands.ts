@@ -1,3 +1,8 @@
+/**
+ * Band sets, whole: their keys and defaults, placing a value in a band, shading, per-band tallies, and checking an
+ * edited set. Over 300 lines because every part reads the same Band/BandSet shape and limits; split, each piece would
+ * import the rest and none would stand alone.
+ */
 import { requirePositive, TrainingInputError } from "./errors";
 
 export type Metric = "power" | "heart_rate" | "pace";

@@ -1,3 +1,7 @@
+/**
+ * Over 300 lines because the plan, the road model that turns its powers into speeds, and the comparison with what was
+ * ridden share the plan's shape and limits, and the comparison's verdicts only mean something against the plan.
+ */
 import { requirePositive, TrainingInputError } from "./errors";
 
 /**

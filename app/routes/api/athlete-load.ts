@@ -1,7 +1,8 @@
 import Papa from "papaparse";
 import { requireUser } from "~/.server/auth";
 import { requireAthleteFor } from "~/.server/access";
-import { loadSeries, powerCurveComparison } from "~/.server/services/load";
+import { loadSeries } from "~/.server/services/load";
+import { powerCurveComparison } from "~/.server/services/load-figures";
 import { addDays, daysBetween, isIsoDate, todayIn } from "~/lib/dates";
 import type { Route } from "./+types/athlete-load";
 

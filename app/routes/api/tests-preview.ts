@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { requireUser } from "~/.server/auth";
 import { requireAthleteFor } from "~/.server/access";
-import { preview } from "~/.server/services/field-tests";
+import { preview } from "~/.server/services/field-test-proposal";
 import { jsonFailure } from "~/.server/replies";
 import { protocolSchema } from "~/lib/field-tests";
 import { jsonResponse as json, requireJson } from "~/.server/http";

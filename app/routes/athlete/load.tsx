@@ -1,6 +1,7 @@
 import { LoadCharts } from "~/components/load-charts";
 import { PageHeader } from "~/components/ui/card";
-import { loadSeries, powerCurveComparison } from "~/.server/services/load";
+import { loadSeries } from "~/.server/services/load";
+import { powerCurveComparison } from "~/.server/services/load-figures";
 import { requireAthleteSubject } from "~/.server/access";
 import { addDays, todayIn } from "~/lib/dates";
 import { loadRange } from "~/lib/load-ranges";

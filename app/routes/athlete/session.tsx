@@ -5,7 +5,7 @@ import { requireRole } from "~/.server/auth";
 import { requireScheduledSession } from "~/.server/access";
 import { loaderFailure, pageFailure } from "~/.server/replies";
 import { sessionPageData } from "~/.server/services/session-page";
-import { attachRide } from "~/.server/services/load";
+import { attachRide } from "~/.server/services/ride-attach";
 import { AttachRide } from "~/components/calendar/attach-ride";
 import { SessionComments } from "~/components/calendar/session-comments";
 import { listComments } from "~/.server/services/comments";

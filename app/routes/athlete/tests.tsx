@@ -8,7 +8,7 @@ import { requireAthleteSubject } from "~/.server/access";
 import { formFailure } from "~/.server/replies";
 import { undoTestSchema, crossCheckSchema } from "~/lib/field-tests";
 import { accepted, firstMessage, parseSubmission, refuse } from "~/lib/forms";
-import { testHistory, undoTest } from "~/.server/services/field-tests";
+import { testHistory, undoTest } from "~/.server/services/field-test-history";
 import { BandTable } from "~/components/band-table";
 import { bandSetsFor } from "~/.server/services/bands";
 import { bandTable, formatThreshold as show, THRESHOLD_LABEL } from "~/lib/band-table";
