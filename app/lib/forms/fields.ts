@@ -1,32 +1,6 @@
 import { z } from "zod";
 
-/**
- * Fields and schemas shared by actions and their forms. `parseForm` is the older reader kept for the pages that
- * have not moved to conform yet (`reply.ts`); both give the same messages because they run the same schemas.
- */
-export type FieldErrors = Partial<Record<string, string>>;
-
-export type FormResult<T> =
-  { ok: true; data: T } | { ok: false; fieldErrors: FieldErrors; values: Record<string, string> };
-
-/** Validates a submitted form; on failure returns the first message per field and the values to refill. */
-export function parseForm<S extends z.ZodType>(schema: S, form: FormData): FormResult<z.infer<S>> {
-  const values: Record<string, string> = {};
-  for (const [k, v] of form.entries()) if (typeof v === "string" && !/password/i.test(k)) values[k] = v;
-  const raw: Record<string, unknown> = {};
-  for (const key of new Set(form.keys())) {
-    const all = form.getAll(key);
-    raw[key] = all.length > 1 ? all : all[0];
-  }
-  const result = schema.safeParse(raw);
-  if (result.success) return { ok: true, data: result.data };
-  const fieldErrors: FieldErrors = {};
-  for (const issue of result.error.issues) {
-    const key = issue.path.join(".") || "form";
-    fieldErrors[key] ??= issue.message;
-  }
-  return { ok: false, fieldErrors, values };
-}
+/** Fields and schemas shared by actions and their forms (conform validates with the same schemas; see `reply.ts`). */
 
 export const isTimeZone = (tz: string) => {
   try {
