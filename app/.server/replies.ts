@@ -1,7 +1,8 @@
 import { data } from "react-router";
 import { asDomainError, type DomainError, type DomainErrorKind } from "./errors";
 import { httpError, jsonResponse } from "./http";
-import { jsonRefusal, refuse } from "~/lib/forms";
+import { accepted, jsonRefusal, parseSubmission, refuse } from "~/lib/forms";
+import type { z } from "zod";
 import type { Submission } from "@conform-to/react";
 
 /** The one place a domain failure becomes an HTTP status. */
@@ -82,4 +83,23 @@ export function formFailure(
 export function jsonFormFailure(err: unknown) {
   const e = domainFailure(err);
   return jsonRefusal(e.message, e.field ?? "", statusFor(e.kind));
+}
+
+/**
+ * One form intent end to end: parse with its schema (refused with `invalid` above the fields), make the change, and
+ * answer the sentence the change returns, or the domain's refusal beside its field. The form keeps its values.
+ */
+export async function submitForm<S extends z.ZodType>(
+  form: FormData,
+  schema: S,
+  invalid: string,
+  change: (value: z.output<S>) => Promise<string>,
+) {
+  const submission = parseSubmission(form, schema);
+  if (submission.status !== "success") return refuse(submission, { form: invalid });
+  try {
+    return accepted(submission, await change(submission.value as z.output<S>), { reset: false });
+  } catch (err) {
+    return formFailure(err, submission);
+  }
 }

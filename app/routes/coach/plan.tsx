@@ -6,7 +6,7 @@ import { Card, PageHeader } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { requireRole } from "~/.server/auth";
 import { requirePlan } from "~/.server/access";
-import { formFailure, jsonFormFailure, loaderFailure } from "~/.server/replies";
+import { jsonFormFailure, loaderFailure, submitForm } from "~/.server/replies";
 import { listShelfSessions } from "~/.server/services/shelf";
 import {
   addRecurrence,
@@ -18,16 +18,7 @@ import {
   updateWeek,
   updateWeeks,
 } from "~/.server/services/plans";
-import {
-  accepted,
-  fieldProps,
-  type FormReply,
-  jsonRefusal,
-  messageOf,
-  parseSubmission,
-  refuse,
-  useSchemaForm,
-} from "~/lib/forms";
+import { fieldProps, type FormReply, jsonRefusal, messageOf, useSchemaForm } from "~/lib/forms";
 import {
   DAY_NAMES,
   NOTHING_SAVED,
@@ -63,34 +54,21 @@ export async function action({ request, params }: Route.ActionArgs) {
   const planId = (await requirePlan(coach, params.planId)).id;
   const form = await request.formData();
   const intent = form.get("intent");
-  if (intent === "week") {
-    const submission = parseSubmission(form, weekEditSchema);
-    if (submission.status !== "success") return refuse(submission, { form: "Check the week's fields." });
-    try {
-      await updateWeek(coach.id, planId, submission.value);
-      return accepted(submission, "Week saved.", { reset: false });
-    } catch (err) {
-      return formFailure(err, submission);
-    }
-  }
+  const plural = (n: number) => `${n} week${n === 1 ? "" : "s"}`;
+  if (intent === "week")
+    return submitForm(form, weekEditSchema, "Check the week's fields.", async (v) => {
+      await updateWeek(coach.id, planId, v);
+      return "Week saved.";
+    });
   if (intent === "weeks") {
     const ids = form.getAll("weekId").map(Number);
-    const submission = parseSubmission(form, weekTableSchema(ids));
-    if (submission.status !== "success") return refuse(submission, { form: NOTHING_SAVED });
-    try {
-      const n = await updateWeeks(coach.id, planId, weekTableEdits(ids, submission.value));
-      return accepted(submission, n ? `Saved ${n} changed week${n === 1 ? "" : "s"}.` : "Nothing had changed.", {
-        reset: false,
-      });
-    } catch (err) {
-      return formFailure(err, submission);
-    }
+    return submitForm(form, weekTableSchema(ids), NOTHING_SAVED, async (v) => {
+      const n = await updateWeeks(coach.id, planId, weekTableEdits(ids, v));
+      return n ? `Saved ${n} changed week${n === 1 ? "" : "s"}.` : "Nothing had changed.";
+    });
   }
-  if (intent === "range") {
-    const submission = parseSubmission(form, rangeSchema);
-    if (submission.status !== "success") return refuse(submission, { form: "Check the change." });
-    const v = submission.value;
-    try {
+  if (intent === "range")
+    return submitForm(form, rangeSchema, "Check the change.", async (v) => {
       const n = await editWeekRange(coach.id, planId, {
         fromWeek: v.fromWeek,
         toWeek: v.toWeek,
@@ -98,45 +76,23 @@ export async function action({ request, params }: Route.ActionArgs) {
         plannedHours: v.plannedHours === "" ? undefined : v.plannedHours,
         loadFactor: v.loadFactor === "" ? undefined : v.loadFactor,
       });
-      return accepted(submission, `Changed weeks ${v.fromWeek}–${v.toWeek} (${n} week${n === 1 ? "" : "s"}).`, {
-        reset: false,
-      });
-    } catch (err) {
-      return formFailure(err, submission);
-    }
-  }
-  if (intent === "phase-range") {
-    const submission = parseSubmission(form, phaseRangeSchema);
-    if (submission.status !== "success") return refuse(submission, { form: "Check the phase change." });
-    try {
-      const n = await setPhaseRange(coach.id, planId, submission.value);
-      return accepted(submission, `${n} week${n === 1 ? "" : "s"} set to ${PHASE_LABEL[submission.value.phase]}.`, {
-        reset: false,
-      });
-    } catch (err) {
-      return formFailure(err, submission);
-    }
-  }
-  if (intent === "recurrence") {
-    const submission = parseSubmission(form, recurrenceSchema);
-    if (submission.status !== "success") return refuse(submission, { form: "Check the repeating session." });
-    try {
-      const { recurrence, count } = await addRecurrence(coach.id, planId, submission.value);
-      return accepted(submission, `Added ${count} sessions: ${recurrence.summary}.`, { reset: false });
-    } catch (err) {
-      return formFailure(err, submission);
-    }
-  }
-  if (intent === "rename") {
-    const submission = parseSubmission(form, renameSchema);
-    if (submission.status !== "success") return refuse(submission, { form: "Check the name." });
-    try {
-      await renamePlan(coach.id, planId, submission.value.name, submission.value.description);
-      return accepted(submission, "Plan renamed.", { reset: false });
-    } catch (err) {
-      return formFailure(err, submission);
-    }
-  }
+      return `Changed weeks ${v.fromWeek}–${v.toWeek} (${plural(n)}).`;
+    });
+  if (intent === "phase-range")
+    return submitForm(form, phaseRangeSchema, "Check the phase change.", async (v) => {
+      const n = await setPhaseRange(coach.id, planId, v);
+      return `${plural(n)} set to ${PHASE_LABEL[v.phase]}.`;
+    });
+  if (intent === "recurrence")
+    return submitForm(form, recurrenceSchema, "Check the repeating session.", async (v) => {
+      const { recurrence, count } = await addRecurrence(coach.id, planId, v);
+      return `Added ${count} sessions: ${recurrence.summary}.`;
+    });
+  if (intent === "rename")
+    return submitForm(form, renameSchema, "Check the name.", async (v) => {
+      await renamePlan(coach.id, planId, v.name, v.description);
+      return "Plan renamed.";
+    });
   if (intent === "delete") {
     try {
       await deletePlan(coach.id, planId);
