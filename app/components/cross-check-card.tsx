@@ -5,8 +5,7 @@ import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import type { CrossCheckPair } from "~/.server/services/cross-check";
 import { crossCheckSchema } from "~/lib/field-tests";
-import { messageOf, useSchemaForm } from "~/lib/forms";
-import type { action } from "~/routes/athlete/tests";
+import { type FormAnswer, messageOf, useSchemaForm } from "~/lib/forms";
 
 /** One pair as the server builds it (services/cross-check.ts). */
 export type CrossCheckView = CrossCheckPair;
@@ -15,13 +14,13 @@ const WORD = { agree: "agree", roughly: "roughly agree", disagree: "disagree" } 
 
 /** Two close tests side by side, how far apart they are, and the choice of which sets the threshold. */
 export function CrossCheckCard({ pair }: { pair: CrossCheckView }) {
-  const fetcher = useFetcher<typeof action>();
+  const fetcher = useFetcher<FormAnswer>();
   const [a, b] = pair.tests;
   const [form, fields] = useSchemaForm(crossCheckSchema, fetcher.data, { id: `cross-check-${a.id}-${b.id}` });
   // The service asks for the tick when the change is large; its message then sits beside the checkbox.
   const confirmMessage = messageOf(fetcher.data, "confirm");
   const [needsConfirm, setNeedsConfirm] = useState(false);
-  const saved = fetcher.data?.status === "success" && "message" in fetcher.data ? fetcher.data.message : undefined;
+  const saved = fetcher.data?.status === "success" ? fetcher.data.message : undefined;
   if (confirmMessage && !needsConfirm) setNeedsConfirm(true);
   if (saved && needsConfirm) setNeedsConfirm(false);
   const refused = messageOf(fetcher.data);

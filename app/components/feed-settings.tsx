@@ -4,8 +4,7 @@ import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { FormMessage } from "~/components/ui/field";
 import { alarmSchema, trainingTimesSchema } from "~/lib/feed-forms";
-import { fieldProps, firstMessage, type FormReply, messageOf, useSchemaForm } from "~/lib/forms";
-import type { action } from "~/routes/athlete/feed";
+import { fieldProps, firstMessage, type FormAnswer, messageOf, useSchemaForm } from "~/lib/forms";
 
 export interface FeedSettingsData {
   feed: { https: string; webcal: string; qrSvg: string; createdAt: string; lastUsedAt: string | null } | null;
@@ -16,7 +15,7 @@ export interface FeedSettingsData {
 
 /** The private calendar link with copy, QR code, rotate and revoke; athletes also choose a reminder alarm. */
 export function FeedSettings({ data }: { data: FeedSettingsData }) {
-  const fetcher = useFetcher<typeof action>();
+  const fetcher = useFetcher<FormAnswer>();
   const [copied, setCopied] = useState<string | null>(null);
   const copy = async (text: string, which: string) => {
     try {
@@ -111,8 +110,8 @@ export function FeedSettings({ data }: { data: FeedSettingsData }) {
 }
 
 /** What a reply says: the saved note, or the refusal (whichever field it names). */
-function ReplyNote({ reply }: { reply: FormReply | undefined }) {
-  const saved = reply && "message" in reply ? (reply.message as string | undefined) : undefined;
+function ReplyNote({ reply }: { reply: FormAnswer | undefined }) {
+  const saved = reply?.message;
   const refused = firstMessage(reply);
   if (!refused && !saved) return null;
   return (
@@ -124,10 +123,10 @@ function ReplyNote({ reply }: { reply: FormReply | undefined }) {
 
 /** The reminder alarm on timed sessions; its answer stands beside it. */
 function AlarmForm({ minutes }: { minutes: number | null }) {
-  const fetcher = useFetcher<typeof action>();
+  const fetcher = useFetcher<FormAnswer>();
   const [form, fields] = useSchemaForm(alarmSchema, fetcher.data, { id: "feed-alarm" });
   const error = fieldProps(fields.alarmMinutes).error;
-  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
+  const saved = fetcher.data?.message;
   return (
     <fetcher.Form
       method="post"
@@ -167,9 +166,9 @@ const WEEKDAYS = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Satur
 
 /** When the athlete usually trains on each weekday; a session's own time on the plan still comes first. */
 function TrainingTimes({ times }: { times: (string | null)[] }) {
-  const fetcher = useFetcher<typeof action>();
+  const fetcher = useFetcher<FormAnswer>();
   const [form, fields] = useSchemaForm(trainingTimesSchema, fetcher.data, { id: "training-times" });
-  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
+  const saved = fetcher.data?.message;
   const refused = messageOf(fetcher.data);
   return (
     <fetcher.Form

@@ -1,13 +1,13 @@
 /** One session on the coach's shelf: its profile, tags and use, with duplicate and archive/delete through the shelf's fetcher. */
-import { Link, type useFetcher } from "react-router";
+import { type FetcherWithComponents, Link } from "react-router";
 import { SessionProfile } from "~/components/session-profile";
 import { buttonClass } from "~/components/ui/button";
 import type { ShelfSessionSummary } from "~/.server/services/shelf";
 import { formatMinutes } from "~/lib/duration";
 import { SPORT_LABEL, type Sport } from "~/lib/sessions";
-import type { action } from "~/routes/coach/sessions";
 
-export type ShelfFetcher = ReturnType<typeof useFetcher<typeof action>>;
+/** The shelf page's fetcher; the cards and the import form only submit through it, the page reads its answer. */
+export type ShelfFetcher = FetcherWithComponents<unknown>;
 
 export function SessionCard({ session: s, fetcher }: { session: ShelfSessionSummary; fetcher: ShelfFetcher }) {
   return (

@@ -10,6 +10,13 @@ import type { z } from "zod";
  */
 export type FormReply = SubmissionResult<string[]>;
 
+/**
+ * A form action's answer as a component shared by pages reads it: the reply, plus the sentence `accepted()` adds.
+ * Components outside a route module type their fetcher with this, so they need not import the route (a route
+ * imports its components, never the other way round).
+ */
+export type FormAnswer = FormReply & { message?: string };
+
 /** A one-time note carried across a redirect (`.server/flash.ts`) and shown by the root's toast. */
 export type Toast = { tone: "ok" | "error"; message: string };
 
