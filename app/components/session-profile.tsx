@@ -1,13 +1,6 @@
+import type { ProfileStep } from "~/lib/board";
 import { useBandSet } from "~/components/bands-context";
 import { shadeOfPct, type Band } from "~/lib/training";
-
-export interface ProfileStep {
-  s: number;
-  d: number;
-  lo: number | null;
-  hi: number | null;
-  ramp: boolean;
-}
 
 /**
  * A session's step profile: width is time, height is % of threshold, colour is the shade of the step's intensity

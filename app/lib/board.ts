@@ -1,5 +1,13 @@
-import type { ProfileStep } from "~/components/session-profile";
 import { blockDuration, estimateSession, expandBlocks, type Band, type Block } from "~/lib/training";
+
+/** One step of a session profile as the small SVG draws it: start, duration, low and high (% of threshold). */
+export interface ProfileStep {
+  s: number;
+  d: number;
+  lo: number | null;
+  hi: number | null;
+  ramp: boolean;
+}
 
 /**
  * What the plan board draws, and nothing more. A plan holds the same few sessions many times over (copies of shelf

@@ -1,6 +1,7 @@
 import { useEffect, useState } from "react";
 import { useFetcher } from "react-router";
-import { SessionProfile, type ProfileStep } from "~/components/session-profile";
+import { SessionProfile } from "~/components/session-profile";
+import type { ProfileStep } from "~/lib/board";
 import { buttonClass } from "~/components/ui/button";
 import type { BoardItem, BoardWeek } from "~/lib/board";
 import { formatMinutes } from "~/lib/duration";

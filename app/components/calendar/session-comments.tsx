@@ -1,8 +1,7 @@
 import { useState } from "react";
 import { useFetcher } from "react-router";
-import { useSchemaForm } from "~/lib/forms";
+import { type FormAnswer, useSchemaForm } from "~/lib/forms";
 import { commentSchema } from "~/lib/session-forms";
-import type { commentAction } from "~/routes/athlete/session.server";
 import { buttonClass } from "~/components/ui/button";
 import { Card } from "~/components/ui/card";
 import { formatDateTime } from "~/lib/format";
@@ -26,7 +25,7 @@ export function SessionComments({
   otherSide: string;
   timezone: string;
 }) {
-  const fetcher = useFetcher<typeof commentAction>();
+  const fetcher = useFetcher<FormAnswer>();
   // A message (the browser's check or the server's) stays until the text changes: conform checks again on input.
   const [form, fields] = useSchemaForm(commentSchema, fetcher.data, { id: "session-comment" });
   const [text, setText] = useState("");

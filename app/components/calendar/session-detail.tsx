@@ -10,9 +10,8 @@ import { PROTOCOLS, READINESS, type ProtocolKey } from "~/lib/protocols";
 import { blockLines, type BlockBand } from "~/lib/schedule-text";
 import { BandTable } from "~/components/band-table";
 import type { sessionPageData } from "~/.server/services/session-page";
-import { useSchemaForm } from "~/lib/forms";
+import { type FormAnswer, useSchemaForm } from "~/lib/forms";
 import { completeSchema } from "~/lib/session-forms";
-import type { completeFromForm } from "~/routes/athlete/session.server";
 
 /** A scheduled session as the session page's loader sends it (services/session-page.ts). */
 export type SessionDetailData = Omit<Awaited<ReturnType<typeof sessionPageData>>, "pacing">;
@@ -195,9 +194,9 @@ function ResultCard({ session: s }: { session: SessionDetailData["session"] }) {
 }
 
 function CompleteForm({ session: s }: { session: SessionDetailData["session"] }) {
-  const fetcher = useFetcher<typeof completeFromForm>();
+  const fetcher = useFetcher<FormAnswer>();
   const [form, fields] = useSchemaForm(completeSchema, fetcher.data, { id: "complete-session" });
-  const saved = fetcher.data && "message" in fetcher.data ? fetcher.data.message : undefined;
+  const saved = fetcher.data?.message;
   const errors = { effortScore: fields.effortScore.errors?.[0], minutes: fields.minutes.errors?.[0] };
   return (
     <Card>
