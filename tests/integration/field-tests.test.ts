@@ -343,7 +343,7 @@ describe("field test → rescale", () => {
         headers: { Cookie: cookie, "Content-Type": "application/x-www-form-urlencoded" },
       }),
     );
-    expect(payloadOf(res).ok).toBe(true);
+    expect(payloadOf(res).status).toBe("success");
     // Every column of every step, in scope or not (other metrics, earlier dates, done and skipped sessions, the
     // bystander's), is as it was before the rescale.
     expect(await everything()).toEqual(before);
