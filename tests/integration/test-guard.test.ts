@@ -303,7 +303,10 @@ describe("undo is honest", () => {
       }),
       { athleteId: String(athlete.id) },
     );
-    expect(payloadOf(res)).toMatchObject({ status: "success", message: expect.stringMatching(/correction has been e-mailed/) });
+    expect(payloadOf(res)).toMatchObject({
+      status: "success",
+      message: expect.stringMatching(/correction has been e-mailed/),
+    });
 
     const after = await listed(cookie, "/athlete/tests");
     expect(after.tests).toHaveLength(1);
