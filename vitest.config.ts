@@ -47,6 +47,9 @@ export default defineConfig({
           fileParallelism: false,
           // Pointer drags in a loaded headless browser can land a frame late; one retry keeps CI honest, not flaky.
           retry: 1,
+          // expect.poll gives up after 1 s by default; a loaded CI machine can take longer to draw the next frame, so a
+          // condition that does come true was reported as a failure.
+          expect: { poll: { timeout: 10_000 } },
           testTimeout: 120_000,
           hookTimeout: 180_000,
         },
