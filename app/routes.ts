@@ -13,6 +13,8 @@ export default [
   route("dev/mail", "routes/dev/mail.tsx"),
   route("api/sessions", "routes/api/sessions.ts"),
   route("api/plans/:planId/items", "routes/api/plan-items.ts"),
+  route("coach/plans/:planId/board/shelf", "routes/coach/board-shelf.ts"),
+  route("coach/plans/:planId/board/items/:itemId", "routes/coach/board-item.ts"),
   route("api/calendar", "routes/api/calendar.ts"),
   route("api/uploads", "routes/api/uploads.ts"),
   route("api/tests/preview", "routes/api/tests-preview.ts"),

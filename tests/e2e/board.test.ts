@@ -78,6 +78,20 @@ describe.skipIf(!enabled)("plan board in the browser", () => {
     await page.getByRole("button", { name: "Close details" }).click();
     await expect.poll(() => page.getByTestId("slot-2-5").getByTestId("board-item").count()).toBe(1);
 
+    // The shelf search narrows the shelf through the board's own route; clearing it brings every session back.
+    const shelfList = page.getByRole("list", { name: "Shelf sessions" });
+    const everySession = await shelfList.getByRole("button").count();
+    const search = page.getByRole("searchbox", { name: "Search the shelf" });
+    await search.fill("recovery spin");
+    await expect
+      .poll(() => shelfList.getByRole("button").allInnerTexts())
+      .toEqual([expect.stringContaining("Recovery spin")]);
+    await search.fill("no session is called this");
+    await expect.poll(() => shelfList.innerText()).toContain("No sessions match.");
+    await search.fill("");
+    await expect.poll(() => shelfList.getByRole("button").count()).toBe(everySession);
+    expect(everySession).toBeGreaterThan(1);
+
     // Dropped on the day, a session goes last; dropped onto a card, it goes in before that card.
     const names = () =>
       tuesday

@@ -13,6 +13,8 @@ import {
 import { createPlan } from "~/.server/services/plans";
 import * as items from "~/routes/api/plan-items";
 import * as boardPage from "~/routes/coach/board";
+import * as boardShelf from "~/routes/coach/board-shelf";
+import * as boardItem from "~/routes/coach/board-item";
 import { boardItems } from "~/lib/board";
 import { estimateSession, expandBlocks, type Block } from "~/lib/training";
 import * as assign from "~/routes/coach/assign";
@@ -192,6 +194,46 @@ describe("plan board changes", () => {
     );
     expect((await op(plan.id, { op: "remove", itemId: mine.body.items[0].id }, otherCookie)).status).toBe(404);
     expect(await PlanItem.count({ where: { planId: plan.id } })).toBe(1);
+  });
+});
+
+describe("the board's own data routes", () => {
+  it("the loader brings the shelf, the shelf route searches it, the card route gives blocks; strangers get 404", async () => {
+    const { cookie, plan, weeks, threshold } = await setup();
+    const params = { planId: String(plan.id) };
+    const page = payloadOf(await run(boardPage.loader, getRequest(`/coach/plans/${plan.id}/board`, cookie), params));
+    expect(page.shelf.map((s: { name: string }) => s.name).sort()).toEqual(["HR steady", "Threshold 4 × 8"]);
+    const search = (q: string, c = cookie) =>
+      run(boardShelf.loader, getRequest(`/coach/plans/${plan.id}/board/shelf?q=${encodeURIComponent(q)}`, c), params);
+    const found = payloadOf(await search("thresh"));
+    expect(found.sessions.map((s: { name: string }) => s.name)).toEqual(["Threshold 4 × 8"]);
+    expect(found.sessions[0].profile.length).toBeGreaterThan(0);
+    expect(payloadOf(await search("nothing like it")).sessions).toEqual([]);
+
+    const copied = await op(
+      plan.id,
+      { op: "copy", sessionId: threshold.id, toWeek: weeks[0].id, toDay: 1, toIndex: 0 },
+      cookie,
+    );
+    const itemId = copied.body.items[0].id as number;
+    const card = (id: number, c = cookie) =>
+      run(boardItem.loader, getRequest(`/coach/plans/${plan.id}/board/items/${id}`, c), {
+        ...params,
+        itemId: String(id),
+      });
+    const opened = await card(itemId);
+    expect(statusOf(opened)).toBe(200);
+    expect(payloadOf(opened).item.blocks.map((b: { kind: string }) => b.kind)).toEqual(["warmup", "repeats"]);
+    // A card removed elsewhere is an answer the drawer can show, not a thrown error page.
+    await op(plan.id, { op: "remove", itemId }, cookie);
+    const gone = await card(itemId);
+    expect(statusOf(gone)).toBe(404);
+    expect(payloadOf(gone)).toEqual({ item: null, error: "That session is no longer on this plan." });
+
+    const other = await signIn((await makeUser({ role: "coach" })).email);
+    const refused = async (p: Promise<unknown>) => statusOf(await p.catch((e: unknown) => e));
+    expect(await refused(search("", other))).toBe(404);
+    expect(await refused(card(itemId, other))).toBe(404);
   });
 });
 

@@ -7,7 +7,7 @@ export interface BoardData {
   cards: BoardCard[];
   shapes: BoardShape[];
 }
-/** One session on the shelf, as `/api/sessions` lists it. */
+/** One session on the shelf, as the board's loader and its shelf search give it. */
 export interface ShelfEntry {
   id: number;
   name: string;

@@ -36,10 +36,11 @@ export function ItemDrawer({
   // The board gives this drawer a key per card, place and note, so its fields start afresh from the item.
   const [note, setNote] = useState(item.notes);
   // The blocks in words are the one thing the board does not carry: they come when the card is opened.
-  const detail = useFetcher<{ item: { id: number; blocks: Block[] } }>();
+  const detail = useFetcher<{ item: { id: number; blocks: Block[] } | null; error: string | null }>();
+  const { load: loadDetail } = detail;
   useEffect(() => {
-    if (item.id > 0) detail.load(`/api/plans/${planId}/items?item=${item.id}`);
-  }, [planId, item.id]); // eslint-disable-line react-hooks/exhaustive-deps -- the fetcher object changes with every answer; the card is the trigger
+    if (item.id > 0) void loadDetail(`/coach/plans/${planId}/board/items/${item.id}`);
+  }, [loadDetail, planId, item.id]);
   const blocks = detail.data?.item?.id === item.id ? detail.data.item.blocks : null;
   const [toWeek, setToWeek] = useState(item.weekId);
   const [toDay, setToDay] = useState(item.day);
@@ -70,7 +71,9 @@ export function ItemDrawer({
         </ol>
       ) : (
         <p className="mt-3 text-ink-soft" role="status">
-          {detail.state === "idle" && detail.data ? "The blocks could not be loaded." : "Loading the blocks…"}
+          {detail.state === "idle" && detail.data
+            ? (detail.data.error ?? "The blocks could not be loaded.")
+            : "Loading the blocks…"}
         </p>
       )}
       <dl className="num mt-3 grid grid-cols-2 gap-1 text-xs">

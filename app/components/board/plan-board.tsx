@@ -1,7 +1,7 @@
 import { DndContext, DragOverlay } from "@dnd-kit/core";
 import { useMemo, useState, useSyncExternalStore } from "react";
 import { CARD_PROFILE_HEIGHT, CardBody, ShapeDefs, ShapeUse } from "~/components/board/board-card";
-import type { BoardData } from "~/components/board/board-changes";
+import type { BoardData, ShelfEntry } from "~/components/board/board-changes";
 import { ItemDrawer } from "~/components/board/item-drawer";
 import { ShelfPanel, useShelf } from "~/components/board/shelf-panel";
 import { useBoardDrag } from "~/components/board/use-board-drag";
@@ -29,10 +29,10 @@ const useHydrated = () =>
   );
 
 /** The plan's weeks as columns of days, the session shelf beside them and the opened card's drawer. */
-export function PlanBoard({ data }: { data: BoardData }) {
+export function PlanBoard({ data, shelf: shelfAtLoad }: { data: BoardData; shelf: ShelfEntry[] }) {
   const { plan, weeks } = data;
   const hydrated = useHydrated();
-  const shelfState = useShelf();
+  const shelfState = useShelf(plan.id, shelfAtLoad);
   const shelf = shelfState.sessions;
   const { items, shapes, message, change } = useBoardOperations(data, shelf);
   const [selected, setSelected] = useState<number | null>(null);

@@ -1,20 +1,27 @@
 import { useDraggable } from "@dnd-kit/core";
-import { useEffect, useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { useFetcher } from "react-router";
 import { CARD_PROFILE_HEIGHT, CardBody } from "~/components/board/board-card";
 import type { ShelfEntry } from "~/components/board/board-changes";
 import { SessionProfile } from "~/components/session-profile";
 import { formatMinutes } from "~/lib/duration";
 
-/** The coach's sessions matching the search; the board needs them too, to name and place a copy. */
-export function useShelf() {
-  const shelfFetcher = useFetcher<{ sessions: ShelfEntry[] }>();
+/**
+ * The coach's sessions matching the search; the board needs them too, to name and place a copy. The board's loader
+ * brings the whole shelf; a search asks the board's own shelf route, once per pause in typing.
+ */
+export function useShelf(planId: number, initial: ShelfEntry[]) {
+  const { load, data } = useFetcher<{ sessions: ShelfEntry[] }>();
   const [q, setQ] = useState("");
+  const searched = useRef(false);
   useEffect(() => {
-    const t = setTimeout(() => shelfFetcher.load(`/api/sessions?q=${encodeURIComponent(q)}`), q ? 200 : 0);
+    // Until the first search the loader's shelf is the answer; a search cleared again asks anew.
+    if (q === "" && !searched.current) return;
+    searched.current = true;
+    const t = setTimeout(() => void load(`/coach/plans/${planId}/board/shelf?q=${encodeURIComponent(q)}`), 200);
     return () => clearTimeout(t);
-  }, [q]); // eslint-disable-line react-hooks/exhaustive-deps -- the fetcher object changes with every answer; the search is the trigger
-  return { q, setQ, sessions: shelfFetcher.data?.sessions ?? [], loaded: Boolean(shelfFetcher.data) };
+  }, [load, planId, q]);
+  return { q, setQ, sessions: data?.sessions ?? initial, loaded: true };
 }
 
 export function ShelfPanel({ shelf }: { shelf: ReturnType<typeof useShelf> }) {

@@ -3,6 +3,7 @@ import { PlanBoard } from "~/components/board/plan-board";
 import { requireRole } from "~/.server/auth";
 import { requirePlan } from "~/.server/access";
 import { loadBoard } from "~/.server/services/board";
+import { listShelfSessions } from "~/.server/services/shelf";
 import { loaderFailure } from "~/.server/replies";
 import type { Route } from "./+types/board";
 
@@ -13,7 +14,18 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   const coach = await requireRole(request, "coach");
   await requirePlan(coach, params.planId);
   try {
-    return await loadBoard(coach, Number(params.planId));
+    const [board, shelf] = await Promise.all([loadBoard(coach, Number(params.planId)), listShelfSessions(coach.id)]);
+    return {
+      ...board,
+      shelf: shelf.map(({ id, name, sport, durationS, profile, tags }) => ({
+        id,
+        name,
+        sport,
+        durationS,
+        profile,
+        tags,
+      })),
+    };
   } catch (err) {
     loaderFailure(err);
   }
@@ -59,7 +71,7 @@ export default function Board({ loaderData }: Route.ComponentProps) {
           </Link>
         </div>
       </div>
-      <PlanBoard key={plan.id} data={loaderData} />
+      <PlanBoard key={plan.id} data={loaderData} shelf={loaderData.shelf} />
     </>
   );
 }
