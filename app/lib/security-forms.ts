@@ -28,3 +28,6 @@ export const signOutOthersSchema = z.object({});
 
 /** An unticked checkbox sends nothing, which conform reads as missing: that is "optional". */
 export const studioTwoStepSchema = z.object({ required: z.boolean().optional().default(false) });
+
+/** Said above a form the action refused before changing anything. */
+export const NOTHING_CHANGED = "Nothing was changed: check the marked field.";
