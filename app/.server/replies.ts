@@ -87,19 +87,21 @@ export function jsonFormFailure(err: unknown) {
 
 /**
  * One form intent end to end: parse with its schema (refused with `invalid` above the fields), make the change, and
- * answer the sentence the change returns, or the domain's refusal beside its field. The form keeps its values.
+ * answer the sentence the change returns, or the domain's refusal beside its field (or `opts.field` when the
+ * failure names none). The form keeps its values.
  */
 export async function submitForm<S extends z.ZodType>(
   form: FormData,
   schema: S,
   invalid: string,
   change: (value: z.output<S>) => Promise<string>,
+  opts: { field?: string } = {},
 ) {
   const submission = parseSubmission(form, schema);
   if (submission.status !== "success") return refuse(submission, { form: invalid });
   try {
     return accepted(submission, await change(submission.value as z.output<S>), { reset: false });
   } catch (err) {
-    return formFailure(err, submission);
+    return formFailure(err, submission, opts);
   }
 }

@@ -104,11 +104,21 @@ run("two-step sign-in and devices in the browser", () => {
         await page.getByRole("img", { name: /QR code to add Pacewright/ }).waitFor();
         secret = (await page.getByTestId("totp-secret").textContent())!.trim();
         await shot(page, "two-step-enrol-desktop");
+        // Five digits never match a six-digit code: the refusal shows beside the field and nothing turns on.
+        await page.getByLabel("Code the app shows").fill("12345");
+        await page.getByRole("button", { name: "Turn on" }).click();
+        await page.getByRole("alert").filter({ hasText: "That code does not match" }).waitFor();
+        expect(await page.getByLabel("Code the app shows").getAttribute("aria-invalid")).toBe("true");
         await page.getByLabel("Code the app shows").fill(totp(secret).generate({ timestamp: Date.now() - 30_000 }));
         await page.getByRole("button", { name: "Turn on" }).click();
         await page.getByTestId("recovery-codes").waitFor();
         expect(await page.getByTestId("recovery-codes").locator("li").count()).toBe(10);
         await shot(page, "two-step-recovery-codes-desktop");
+        // Shown once: the page loaded again counts them but never shows them.
+        await page.reload();
+        await ready(page);
+        await page.getByText("On. 10 recovery codes left.").waitFor();
+        expect(await page.getByTestId("recovery-codes").count()).toBe(0);
       } else {
         await page.getByText("this device").waitFor();
         expect(await page.getByTestId("devices").locator("li").count()).toBeGreaterThanOrEqual(2);

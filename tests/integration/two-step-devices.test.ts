@@ -25,8 +25,8 @@ async function enrol(email: string) {
   const cookie = await signIn(email);
   expect(
     payloadOf(await run(security.action, formRequest("/account/security", { intent: "two-step-start" }, { cookie })))
-      .ok,
-  ).toBe(true);
+      .status,
+  ).toBe("success");
   const page = payloadOf(await run(security.loader, getRequest("/account/security", cookie)));
   const secret: string = page.twoStep.enrolment.secret;
   expect(page.twoStep.enrolment.qrSvg).toMatch(/^<svg/);
@@ -40,6 +40,15 @@ async function enrol(email: string) {
     ),
   );
   expect(statusOf(wrong)).toBe(400);
+  // The refusal sits beside the code field, and the code sent is not echoed back to refill it.
+  expect(payloadOf(wrong).error.code[0]).toMatch(/does not match/);
+  expect(payloadOf(wrong).initialValue?.code).toBeUndefined();
+  const empty = await run(
+    security.action,
+    formRequest("/account/security", { intent: "two-step-confirm", code: " " }, { cookie }),
+  );
+  expect(statusOf(empty)).toBe(400);
+  expect(payloadOf(empty).error.code[0]).toBe("Enter the six-digit code your app shows.");
   // One step back, as a phone a little slow would show it; the current step stays free for the first sign-in.
   const done = payloadOf(
     await run(
@@ -51,7 +60,7 @@ async function enrol(email: string) {
       ),
     ),
   );
-  expect(done.ok).toBe(true);
+  expect(done.status).toBe("success");
   expect(done.recoveryCodes).toHaveLength(10);
   return { secret, recoveryCodes: done.recoveryCodes as string[], cookie };
 }
@@ -134,8 +143,8 @@ describe("two-step sign-in", () => {
           security.action,
           formRequest("/account/security", { intent: "studio-require", required: "on" }, { cookie: adminCookie }),
         ),
-      ).ok,
-    ).toBe(true);
+      ).status,
+    ).toBe("success");
     try {
       const sent = await run(layout.loader, getRequest("/coach", coachCookie));
       expect((sent as Response).headers.get("location")).toBe("/account/security");
@@ -160,6 +169,10 @@ describe("two-step sign-in", () => {
         formRequest("/account/security", { intent: "studio-require" }, { cookie: adminCookie }),
       );
     }
+    // An unticked box sends nothing: that is the optional setting again.
+    expect(payloadOf(await run(security.loader, getRequest("/account/security", adminCookie))).twoStep.required).toBe(
+      false,
+    );
   });
 });
 
@@ -209,8 +222,8 @@ describe("signed-in devices", () => {
           security.action,
           formRequest("/account/security", { intent: "sign-out-device", handle: phoneHandle }, { cookie: here }),
         ),
-      ).ok,
-    ).toBe(true);
+      ).status,
+    ).toBe("success");
     expect(statusOf(await run(layout.loader, getRequest("/athlete", phone)))).toBe(302);
 
     const res = payloadOf(
